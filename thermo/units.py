@@ -1,0 +1,157 @@
+"""Frequency units of a phonon DOS and their conversion to THz.
+
+Internally every frequency is an ordinary frequency in THz and every DOS is in
+states per THz.  A DOS given per unit ``u`` becomes a DOS per THz by
+multiplying with ``thz_to_unit(u)`` (the number of ``u`` in one THz), so that
+the number of modes in each interval is unchanged.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+
+from scipy import constants as sc
+
+from .errors import OptionError
+
+#: Canonical unit names accepted everywhere (CLI, web, Python).
+FREQUENCY_UNITS = ("THz", "cm-1", "meV", "rad/s", "K")
+
+_ALIASES = {
+    "thz": "THz", "terahertz": "THz",
+    "cm-1": "cm-1", "cm^-1": "cm-1", "1/cm": "cm-1", "cm**-1": "cm-1", "cm⁻¹": "cm-1",
+    "invcm": "cm-1", "wavenumber": "cm-1", "wavenumbers": "cm-1", "kayser": "cm-1",
+    "mev": "meV", "millielectronvolt": "meV",
+    "rad/s": "rad/s", "rad s-1": "rad/s", "rad.s-1": "rad/s", "rad s^-1": "rad/s",
+    "rads-1": "rad/s", "radps": "rad/s", "angular": "rad/s",
+    "k": "K", "kelvin": "K",
+}
+
+#: Number of units ``u`` equal to one THz (ordinary frequency).
+_PER_THZ = {
+    "THz": 1.0,
+    "cm-1": 1e12 / (sc.c * 100.0),                    # ν/c in cm⁻¹
+    "meV": sc.h * 1e12 / (sc.milli * sc.electron_volt),  # hν in meV
+    "rad/s": 2.0 * math.pi * 1e12,                    # ω = 2πν
+    "K": sc.h * 1e12 / sc.k,                          # hν/k_B in K
+}
+
+
+def canonical_unit(name: str) -> str:
+    """Return the canonical spelling of a frequency unit name.
+
+    Parameters
+    ----------
+    name : str
+        Unit name, case-insensitive (``"thz"``, ``"1/cm"``, ``"MEV"``, ...).
+
+    Returns
+    -------
+    str
+        One of :data:`FREQUENCY_UNITS`.
+
+    Raises
+    ------
+    OptionError
+        If the name is not recognised; the message lists the choices.
+
+    Examples
+    --------
+    >>> canonical_unit("1/cm")
+    'cm-1'
+    """
+    key = re.sub(r"\s+", " ", str(name).strip()).lower()
+    if key in _ALIASES:
+        return _ALIASES[key]
+    compact = key.replace(" ", "")
+    if compact in _ALIASES:
+        return _ALIASES[compact]
+    raise OptionError(
+        f"unknown frequency unit {name!r}; choose one of {', '.join(FREQUENCY_UNITS)}")
+
+
+def thz_to_unit(unit: str) -> float:
+    """Number of ``unit`` in one THz of ordinary frequency.
+
+    Parameters
+    ----------
+    unit : str
+        Frequency unit name (see :func:`canonical_unit`).
+
+    Returns
+    -------
+    float
+        Conversion factor [unit / THz].
+
+    Notes
+    -----
+    With CODATA constants from :mod:`scipy.constants`:
+    :math:`\\tilde\\nu = \\nu/c`, :math:`E = h\\nu`, :math:`\\omega = 2\\pi\\nu`,
+    :math:`T = h\\nu/k_B`.
+
+    References
+    ----------
+    .. [1] E. Tiesinga, P. J. Mohr, D. B. Newell, B. N. Taylor, "CODATA
+       recommended values of the fundamental physical constants: 2018",
+       Rev. Mod. Phys. 93, 025010 (2021).
+
+    Examples
+    --------
+    >>> round(thz_to_unit("cm-1"), 4)
+    33.3564
+    """
+    return _PER_THZ[canonical_unit(unit)]
+
+
+def to_thz(values, unit: str):
+    """Convert frequencies given in ``unit`` to THz.
+
+    Parameters
+    ----------
+    values : array_like
+        Frequencies [unit].
+    unit : str
+        Frequency unit name.
+
+    Returns
+    -------
+    numpy.ndarray or float
+        Frequencies [THz].
+
+    Examples
+    --------
+    >>> round(float(to_thz(4.135667696, "meV")), 6)
+    1.0
+    """
+    return values / thz_to_unit(unit)
+
+
+def guess_unit_from_text(text: str) -> str | None:
+    """Find a frequency unit stated in a header or comment line, if any.
+
+    Parameters
+    ----------
+    text : str
+        Header or comment text.
+
+    Returns
+    -------
+    str or None
+        Canonical unit name, or None when no single unit is stated.
+
+    Examples
+    --------
+    >>> guess_unit_from_text("# frequency (cm^-1)  dos")
+    'cm-1'
+    """
+    low = text.lower()
+    patterns = [
+        ("THz", r"\bthz\b"),
+        ("cm-1", r"cm\s*(\^|\*\*)?\s*-\s*1|1\s*/\s*cm|cm⁻¹|wavenumber"),
+        ("meV", r"\bmev\b"),
+        ("rad/s", r"rad\s*/\s*s|rad\s*s\s*\^?-1|rad\.s-1"),
+        ("K", r"\(\s*k\s*\)|\[\s*k\s*\]|\bkelvin\b"),
+    ]
+    found = [unit for unit, pat in patterns if re.search(pat, low)]
+    return found[0] if len(found) == 1 else None
