@@ -1,0 +1,51 @@
+"""Command line: ``python -m thermo`` / ``modeheat``.
+
+Subcommands live in ``cli_<name>.py`` modules, each with ``register(sub)``.
+Bad input ends with exit code 2 and one line on stderr, never a traceback.
+"""
+
+from __future__ import annotations
+
+import argparse
+import importlib
+import sys
+
+from . import __version__
+from .errors import ModeheatError
+
+#: Subcommand modules, in the order shown by --help.
+SUBCOMMANDS = ("table", "summary", "models", "batch", "serve")
+
+
+def build_parser():
+    parser = argparse.ArgumentParser(
+        prog="modeheat",
+        description="Harmonic thermodynamics (C_v, S, U, F, zero-point energy) from a phonon DOS.")
+    parser.add_argument("--version", action="version", version=f"modeheat {__version__}")
+    sub = parser.add_subparsers(dest="command", metavar="COMMAND")
+    for name in SUBCOMMANDS:
+        try:
+            module = importlib.import_module(f"thermo.cli_{name}")
+        except ImportError:
+            continue
+        module.register(sub)
+    return parser
+
+
+def main(argv=None) -> int:
+    parser = build_parser()
+    args = parser.parse_args(argv)
+    if not getattr(args, "func", None):
+        parser.print_help(sys.stderr)
+        return 2
+    try:
+        return int(args.func(args) or 0)
+    except ModeheatError as exc:
+        print(f"error: {exc}", file=sys.stderr)
+        return 2
+    except OSError as exc:
+        print(f"error: {exc.strerror or exc}: {exc.filename or ''}".rstrip(": "), file=sys.stderr)
+        return 2
+    except KeyboardInterrupt:
+        print("error: interrupted", file=sys.stderr)
+        return 130

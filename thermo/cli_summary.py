@@ -1,0 +1,45 @@
+"""``modeheat summary``: key numbers of one DOS file as JSON."""
+
+from __future__ import annotations
+
+import json
+
+from .cli_common import add_input_options, add_temperature_option, load_from_args, parse_temperatures, report_warnings
+
+
+def register(sub):
+    p = sub.add_parser("summary", help="key numbers of a DOS (atoms, imaginary share, ZPE, θ_D ...) as JSON")
+    add_input_options(p)
+    add_temperature_option(p, default="0:1000:10")
+    p.set_defaults(func=run)
+
+
+def summarize(dos, temperatures):
+    """The summary record of a DOS (JSON-able)."""
+    from .tables import provenance, tabulate
+    info = provenance(dos, temperatures)
+    at_room = tabulate(dos, [298.15]).iloc[0]
+    return {
+        "input": info["input"], "frequency_unit": info["frequency_unit"],
+        "atoms": dos.atoms, "atoms_inferred": info["atoms_inferred"],
+        "raw_integral": info["raw_integral"], "scale_factor": info["scale_factor"],
+        "negative_mode_fraction": info["negative_mode_fraction"],
+        "negative_policy": info["negative_policy"],
+        "zero_point_energy_kJ_per_mol": info["zero_point_energy_kJ_per_mol"],
+        "low_frequency": info["low_frequency"],
+        "low_frequency_window_THz": info["low_frequency_window_THz"],
+        "low_frequency_debye_temperature_K": info["low_frequency_debye_temperature_K"],
+        "heat_capacity_v_298K_J_per_mol_K": float(at_room.iloc[1]),
+        "entropy_298K_J_per_mol_K": float(at_room.iloc[2]),
+        "estimated_relative_error": info["estimated_relative_error"],
+        "max_frequency_THz": float(dos.frequency_thz[dos.dos > 0].max()),
+        "warnings": info["warnings"],
+    }
+
+
+def run(args) -> int:
+    temperatures = parse_temperatures(args.temperatures)
+    dos = load_from_args(args)
+    report_warnings(dos)
+    print(json.dumps(summarize(dos, temperatures), indent=2))
+    return 0

@@ -1,0 +1,40 @@
+"""``modeheat table``: thermodynamic table of one DOS file."""
+
+from __future__ import annotations
+
+import sys
+
+from .cli_common import add_input_options, add_temperature_option, load_from_args, parse_temperatures, report_warnings
+
+
+def register(sub):
+    p = sub.add_parser("table", help="C_v, S, U, F versus temperature for one DOS file")
+    add_input_options(p)
+    add_temperature_option(p)
+    p.add_argument("--per", default="formula", choices=["formula", "atom", "gram"],
+                   help="basis: per mole of formula units (default), per atom, per gram (needs --formula)")
+    p.add_argument("--formula", help="chemical formula of the formula unit, e.g. MgO (for --per gram)")
+    p.add_argument("--format", default="csv", choices=["csv", "json", "xlsx"], help="output format (default csv)")
+    p.add_argument("--output", metavar="PATH", help="write here (default: stdout for csv/json)")
+    p.add_argument("--force", action="store_true", help="overwrite an existing output file")
+    p.set_defaults(func=run)
+
+
+def run(args) -> int:
+    from .errors import OptionError
+    from .tables import provenance, tabulate
+    from .writers import export_table, write_table
+
+    temperatures = parse_temperatures(args.temperatures)
+    dos = load_from_args(args)
+    table = tabulate(dos, temperatures, per=args.per, formula=args.formula)
+    report_warnings(dos)
+    info = provenance(dos, temperatures, per=args.per, formula=args.formula)
+    if args.output:
+        write_table(table, info, args.format, args.output, overwrite=args.force)
+        print(f"wrote {args.output}", file=sys.stderr)
+        return 0
+    if args.format == "xlsx":
+        raise OptionError("xlsx output needs --output PATH")
+    sys.stdout.write(export_table(table, info, args.format).decode("utf-8"))
+    return 0

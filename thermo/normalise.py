@@ -1,0 +1,68 @@
+"""Normalisation of a phonon DOS to 3n modes per formula unit."""
+
+from __future__ import annotations
+
+import numpy as np
+
+from .errors import DosInputError, OptionError
+
+#: Relative distance to 3n within which the atom count is inferred.
+INFER_TOLERANCE = 0.02
+
+
+def resolve_atoms(raw_integral: float, atoms=None, source: str | None = None):
+    """Atoms per formula unit, given or inferred from the DOS integral.
+
+    Parameters
+    ----------
+    raw_integral : float
+        Integral of the DOS as read (all frequencies) [modes].
+    atoms : int, optional
+        Atoms per formula unit; inferred when None.
+    source : str, optional
+        File name for messages.
+
+    Returns
+    -------
+    atoms : int
+        Atoms per formula unit n.
+    inferred : bool
+        True when n was inferred.
+
+    Raises
+    ------
+    OptionError
+        If ``atoms`` is not a positive whole number.
+    DosInputError
+        If ``atoms`` is None and the integral is not within 2 % of 3n.
+
+    Notes
+    -----
+    A DOS normalised per formula unit integrates to :math:`3n` (3 branches
+    per atom); :math:`n` is inferred when
+    :math:`|I - 3n| \\le 0.02 \\cdot 3n` for a whole :math:`n \\ge 1`.
+
+    References
+    ----------
+    .. [1] N. W. Ashcroft, N. D. Mermin, *Solid State Physics* (Saunders,
+       1976), ch. 22–23.
+
+    Examples
+    --------
+    >>> resolve_atoms(5.97)
+    (2, True)
+    """
+    if atoms is not None:
+        try:
+            n = int(atoms)
+        except (TypeError, ValueError):
+            raise OptionError(f"atoms per formula unit must be a whole number, not {atoms!r}") from None
+        if n != float(atoms) or n < 1:
+            raise OptionError(f"atoms per formula unit must be a whole number >= 1, not {atoms!r}")
+        return n, False
+    n = int(np.rint(raw_integral / 3.0))
+    if n >= 1 and abs(raw_integral - 3 * n) <= INFER_TOLERANCE * 3 * n:
+        return n, True
+    raise DosInputError(
+        f"the DOS integrates to {raw_integral:.6g} modes, not 3n for a whole n; "
+        "give the number of atoms per formula unit", source)

@@ -1,0 +1,111 @@
+"""The phonon DOS object handed between reading, physics and presentation."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .planck import H_OVER_K_THZ
+
+
+@dataclass(frozen=True)
+class LowFrequencyFit:
+    """Debye (ν²) form that replaces the DOS below ``cutoff_thz``.
+
+    Attributes
+    ----------
+    coefficient : float
+        :math:`A` in :math:`g(\\nu) = A\\nu^2` [states / THz³ per formula unit],
+        after normalisation.
+    cutoff_thz : float
+        Below this frequency the DOS is :math:`A\\nu^2` [THz].
+    window_thz : tuple of float
+        Frequency window the coefficient was fitted over [THz].
+    offset : float
+        Constant fitted beside :math:`A\\nu^2` (smearing/binning) [states / THz].
+    rms_relative_residual : float
+        Relative rms misfit of the fit in the window [1].
+    automatic : bool
+        True when the window was chosen automatically.
+    """
+
+    coefficient: float
+    cutoff_thz: float
+    window_thz: tuple
+    offset: float = 0.0
+    rms_relative_residual: float = 0.0
+    automatic: bool = True
+
+
+@dataclass(frozen=True)
+class PhononDOS:
+    """A normalised phonon DOS ready for thermodynamic integration.
+
+    The spectrum is ``A ν²`` on ``[0, cutoff]`` (when ``low_frequency`` is set)
+    followed by the piecewise-linear tabulated part ``frequency_thz``/``dos``
+    (which then starts at the cut-off).  Its total integral is ``3 * atoms``
+    minus the imaginary modes dropped under policy ``keep-count``.
+
+    Attributes
+    ----------
+    frequency_thz : numpy.ndarray, shape (N,)
+        Ascending frequencies of the tabulated part [THz], all >= 0.
+    dos : numpy.ndarray, shape (N,)
+        DOS [states / THz per formula unit].
+    partials : dict of str to numpy.ndarray
+        Species-projected DOS on the same grid and scale [states / THz].
+    atoms : int
+        Atoms per formula unit, n.
+    low_frequency : LowFrequencyFit or None
+        The ν² replacement below the cut-off, or None when switched off.
+    source : dict
+        Provenance: ``name``, ``sha256``, ``freq_unit``, ``raw_integral``,
+        ``scale_factor``, ``negative_mode_fraction``, ``negative_policy``,
+        ``atoms_inferred``.
+    warnings : tuple of str
+        One-line cautions gathered while loading.
+    input_frequency_thz, input_dos : numpy.ndarray
+        The spectrum as read (all frequencies, including negative ones),
+        converted to THz and scaled by the same normalisation factor, for plots.
+    input_partials : dict of str to numpy.ndarray
+        The partial columns as read, on ``input_frequency_thz``, same scale.
+    """
+
+    frequency_thz: np.ndarray
+    dos: np.ndarray
+    atoms: int
+    partials: dict = field(default_factory=dict)
+    low_frequency: LowFrequencyFit | None = None
+    source: dict = field(default_factory=dict)
+    warnings: tuple = ()
+    input_frequency_thz: np.ndarray | None = None
+    input_dos: np.ndarray | None = None
+    input_partials: dict = field(default_factory=dict)
+
+    @property
+    def mode_count(self) -> float:
+        """Number of real modes carried by the spectrum [per formula unit]."""
+        total = float(np.trapezoid(self.dos, self.frequency_thz))
+        if self.low_frequency is not None:
+            total += self.low_frequency.coefficient * self.low_frequency.cutoff_thz ** 3 / 3.0
+        return total
+
+    def low_frequency_debye_temperature_k(self) -> float | None:
+        """Debye temperature from the fitted ν² coefficient (elastic limit) [K].
+
+        Notes
+        -----
+        For 3 acoustic branches, :math:`g(\\nu) \\to 9 N \\nu^2/\\nu_D^3` with
+        :math:`N` the atoms per formula unit when every one of the :math:`3N`
+        modes is counted in a single Debye spectrum, hence
+        :math:`\\theta_D = (h/k_B)(9N/A)^{1/3}`.
+
+        References
+        ----------
+        .. [1] P. Debye, "Zur Theorie der spezifischen Wärmen", Ann. Phys.
+           344, 789-839 (1912).
+        """
+        if self.low_frequency is None or self.low_frequency.coefficient <= 0:
+            return None
+        return float(H_OVER_K_THZ * (9.0 * self.atoms / self.low_frequency.coefficient) ** (1.0 / 3.0))
