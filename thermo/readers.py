@@ -1,0 +1,378 @@
+"""Read a phonon DOS table (text, CSV or .xlsx) into a :class:`RawTable`.
+
+The reader only turns a file into numbers; physical checks (ordering,
+negative values, number of points) live in :mod:`thermo.validation`.
+
+Accepted layouts
+----------------
+* text with columns separated by whitespace (spaces and/or tabs), commas or
+  semicolons; the separator is detected once per file from the first data
+  row.  The decimal mark is always ``.``;
+* ``.xlsx`` workbooks (recognised by their zip signature), first sheet only;
+* comment lines start with ``#``, ``!`` or ``%`` (after optional blanks);
+  blank lines are skipped;
+* an optional header row: the first non-comment row, if any of its cells is
+  not a number.
+
+Column 1 is the frequency, column 2 the total DOS, further columns partial
+DOS.  Every problem raises :class:`thermo.errors.DosInputError` with a one-line
+message naming the file, line and column.
+"""
+
+from __future__ import annotations
+
+import hashlib
+import io
+import math
+import re
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from .errors import DosInputError
+from .units import guess_unit_from_text
+
+#: Characters that start a comment line.
+COMMENT_CHARS = ("#", "!", "%")
+
+_XLSX_MAGIC = b"PK\x03\x04"
+_NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eEdD][+-]?\d+)?")
+_NOT_FINITE = re.compile(r"[+-]?(?:nan|inf|infinity)", re.IGNORECASE)
+_DECIMAL_COMMA = re.compile(r"[+-]?\d+,\d+")
+_LINE_BREAK = re.compile(r"\r\n|\r|\n")
+# A header cell with its unit in brackets kept attached: "frequency (THz)".
+_HEADER_CELL = re.compile(r"[^\s(\[]+(?:\s*[(\[][^)\]]*[)\]])?|[(\[][^)\]]*[)\]]")
+# Denominators of a DOS unit ("states/THz", "per cm-1") are not frequency units.
+_DOS_DENOMINATOR = re.compile(
+    r"(?:states|modes|dos|arb\.?|a\.u\.|1(?!\s*/\s*cm\b))\s*/\s*[a-z0-9^*\-⁻¹]+(?:\s*-\s*1)?|\bper\s+\S+",
+    re.IGNORECASE)
+
+
+@dataclass(frozen=True)
+class RawTable:
+    """Numbers of a DOS file before any physical check.
+
+    Attributes
+    ----------
+    data : numpy.ndarray, shape (rows, cols)
+        All numeric cells [file units]; ``cols >= 2``.
+    names : list of str
+        Column names from the header row, else ``"frequency"``, ``"total"``,
+        ``"column 3"``, ...
+    header_unit : str or None
+        Frequency unit stated by the first header cell or a comment line
+        (canonical name, see :mod:`thermo.units`), else None.
+    source : str
+        Display name of the input (file name or ``"<text>"``).
+    sha256 : str
+        Hex SHA-256 of the raw bytes read.
+    line_numbers : list of int
+        1-based file line (sheet row for .xlsx) of each data row.
+    comments : list of str
+        Comment lines, stripped of surrounding blanks.
+    """
+
+    data: np.ndarray
+    names: list
+    header_unit: str | None
+    source: str
+    sha256: str
+    line_numbers: list = field(default_factory=list)
+    comments: list = field(default_factory=list)
+
+
+def read_table(source, name: str | None = None) -> RawTable:
+    """Read a DOS table from a path, raw bytes or text.
+
+    Parameters
+    ----------
+    source : str, pathlib.Path or bytes
+        A path; the raw content of an uploaded file (``bytes``); or the file
+        text itself (a ``str`` that contains a line break).
+    name : str, optional
+        Display name used in messages; default the file name, ``"<text>"``
+        for text and ``"<bytes>"`` for bytes.
+
+    Returns
+    -------
+    RawTable
+        Numeric table with column names, unit hint and provenance.
+
+    Raises
+    ------
+    DosInputError
+        Unreadable, empty, binary or malformed input; the one-line message
+        names the file, line and column.
+
+    Notes
+    -----
+    A cell is a number when it matches
+    ``[+-]digits[.digits][(e|E|d|D)[+-]digits]``; ``nan`` and ``inf`` are
+    rejected.  The separator is taken from the first row that starts like a
+    number: ``;`` if present, else ``,``, else whitespace.
+
+    References
+    ----------
+    .. [1] Y. Shafranovich, "Common Format and MIME Type for Comma-Separated
+       Values (CSV) Files", RFC 4180 (IETF, 2005).
+    .. [2] ECMA-376, *Office Open XML File Formats*, 5th ed. (Ecma
+       International, 2016), Part 1 (SpreadsheetML).
+
+    Examples
+    --------
+    >>> table = read_table("# nu in THz\\nfreq total Si\\n0.5 0.1 0.05\\n1.0 0.4 0.2\\n")
+    >>> table.names, table.header_unit, table.line_numbers
+    (['freq', 'total', 'Si'], 'THz', [3, 4])
+    >>> table.data[:, 1]
+    array([0.1, 0.4])
+    """
+    raw, display = _raw_bytes(source, name)
+    digest = hashlib.sha256(raw).hexdigest()
+    if not raw.strip():
+        raise DosInputError("the file is empty", display)
+    is_xlsx = raw.startswith(_XLSX_MAGIC)
+    rows = _xlsx_rows(raw, display) if is_xlsx else _text_rows(_decode(raw, display))
+    comments, candidates = _split_comments(rows)
+    if not candidates:
+        raise DosInputError("no data rows (only comments or blank lines)", display)
+    split = None if is_xlsx else _choose_splitter(candidates)
+    cells = [(line, split(row) if split else row) for line, row in candidates]
+    header = None
+    if not all(_looks_numeric(c) or c == "" for c in cells[0][1]):
+        header = candidates[0]
+        cells = cells[1:]
+    if not cells:
+        raise DosInputError("no data rows after the header", display, header[0])
+    data, lines = _to_array(cells, display)
+    names = _column_names(header, data.shape[1], split)
+    unit = _frequency_unit(names[0] if header else None, comments, data.shape[1])
+    return RawTable(data=data, names=names, header_unit=unit, source=display,
+                    sha256=digest, line_numbers=lines,
+                    comments=[text for _, text in comments])
+
+
+# ----------------------------------------------------------------------------
+# input -> bytes -> rows
+
+
+def _clean_name(text) -> str:
+    return " ".join(str(text).split()) or "<unnamed>"
+
+
+def _raw_bytes(source, name):
+    if isinstance(source, (bytes, bytearray, memoryview)):
+        return bytes(source), _clean_name(name or "<bytes>")
+    if isinstance(source, str) and ("\n" in source or "\r" in source):
+        return source.encode("utf-8", "surrogatepass"), _clean_name(name or "<text>")
+    if not isinstance(source, (str, Path)):
+        raise DosInputError(
+            f"cannot read input of type {type(source).__name__}; "
+            "give a path, bytes or text", _clean_name(name or "<input>"))
+    path = Path(source)
+    display = _clean_name(name or path.name or str(source))
+    try:
+        return path.read_bytes(), display
+    except (OSError, ValueError) as exc:
+        reason = getattr(exc, "strerror", None) or str(exc)
+        raise DosInputError(f"cannot read file: {reason}", display) from None
+
+
+def _decode(raw: bytes, display: str) -> str:
+    nul = raw.find(b"\x00")
+    if nul >= 0:
+        raise DosInputError("binary content (NUL byte); expected a text table",
+                            display, raw.count(b"\n", 0, nul) + 1)
+    try:
+        return raw.decode("utf-8-sig")
+    except UnicodeDecodeError as exc:
+        line = raw.count(b"\n", 0, exc.start) + 1
+        raise DosInputError(
+            f"not UTF-8 text (byte 0x{raw[exc.start]:02X} at offset {exc.start}); "
+            "save the file as UTF-8", display, line) from None
+
+
+def _text_rows(text: str):
+    """(line number, stripped line) of every non-blank line."""
+    rows = []
+    for number, line in enumerate(_LINE_BREAK.split(text), start=1):
+        stripped = line.strip()
+        if stripped:
+            rows.append((number, stripped))
+    return rows
+
+
+def _xlsx_rows(raw: bytes, display: str):
+    """(sheet row, cells) of every non-empty row of the first sheet."""
+    try:
+        import openpyxl
+
+        book = openpyxl.load_workbook(io.BytesIO(raw), read_only=True, data_only=True)
+        try:
+            sheet = book.worksheets[0]
+            rows = []
+            for number, values in enumerate(sheet.iter_rows(values_only=True), start=1):
+                cells = list(values)
+                while cells and (cells[-1] is None or str(cells[-1]).strip() == ""):
+                    cells.pop()
+                if cells:
+                    rows.append((number, [_xlsx_cell(c) for c in cells]))
+        finally:
+            book.close()
+    except Exception:  # openpyxl/zipfile raise many types for broken files
+        raise DosInputError("not a readable .xlsx workbook", display) from None
+    return rows
+
+
+def _xlsx_cell(value) -> str:
+    if value is None:
+        return ""
+    if isinstance(value, bool):
+        return str(value)
+    if isinstance(value, (int, float)):
+        return repr(float(value))
+    return str(value).strip()
+
+
+def _split_comments(rows):
+    comments, candidates = [], []
+    for number, row in rows:
+        first = row if isinstance(row, str) else row[0]
+        if first.lstrip().startswith(COMMENT_CHARS):
+            text = row if isinstance(row, str) else " ".join(c for c in row if c)
+            comments.append((number, text.strip()))
+        else:
+            candidates.append((number, row))
+    return comments, candidates
+
+
+def _choose_splitter(candidates):
+    """Cell splitter for the whole file, chosen from the first numeric-looking row."""
+    sample = next((row for _, row in candidates if _NUMBER.match(row)), candidates[0][1])
+    for delimiter in (";", ","):
+        if delimiter in sample:
+            return lambda row, d=delimiter: _split_delimited(row, d)
+    return str.split
+
+
+def _split_delimited(row: str, delimiter: str):
+    cells = [_unquote(c.strip()) for c in row.rstrip(delimiter + " \t").split(delimiter)]
+    return cells
+
+
+def _unquote(cell: str) -> str:
+    if len(cell) >= 2 and cell[0] == cell[-1] and cell[0] in "\"'":
+        return cell[1:-1].strip()
+    return cell
+
+
+# ----------------------------------------------------------------------------
+# cells -> numbers
+
+
+def _is_numeric(cell: str) -> bool:
+    return bool(_NUMBER.fullmatch(cell) or _NOT_FINITE.fullmatch(cell))
+
+
+def _looks_numeric(cell: str) -> bool:
+    """A number, nan/inf, or a number written with a decimal comma."""
+    return _is_numeric(cell) or bool(_DECIMAL_COMMA.fullmatch(cell))
+
+
+def _shown(cell: str) -> str:
+    text = cell if len(cell) <= 30 else cell[:27] + "..."
+    return repr(text)
+
+
+def _to_array(cells, display):
+    width = len(cells[0][1])
+    first_line = cells[0][0]
+    if width < 2:
+        raise DosInputError(
+            f"found {width} numeric column; need at least 2 (frequency, total DOS)",
+            display, first_line)
+    values = np.empty((len(cells), width))
+    lines = []
+    for i, (line, row) in enumerate(cells):
+        if not any(_looks_numeric(c) for c in row):
+            raise DosInputError(
+                "text row inside the data; only the first row may be a header",
+                display, line)
+        if len(row) != width:
+            raise DosInputError(f"expected {width} columns, found {len(row)}",
+                                display, line)
+        for j, cell in enumerate(row):
+            values[i, j] = _number(cell, display, line, j + 1)
+        lines.append(line)
+    return values, lines
+
+
+def _number(cell: str, display, line, column) -> float:
+    if cell == "":
+        raise DosInputError("empty cell", display, line, column)
+    if _NUMBER.fullmatch(cell):
+        value = float(cell.replace("d", "e").replace("D", "e"))
+        if math.isfinite(value):
+            return value
+        raise DosInputError(f"{_shown(cell)} is too large to be a finite number",
+                            display, line, column)
+    if _NOT_FINITE.fullmatch(cell):
+        raise DosInputError(f"{_shown(cell)} is not a finite number", display, line, column)
+    hint = "; the decimal mark must be '.'" if _DECIMAL_COMMA.fullmatch(cell) else ""
+    raise DosInputError(f"{_shown(cell)} is not a number{hint}", display, line, column)
+
+
+# ----------------------------------------------------------------------------
+# names and unit
+
+
+def _default_names(width: int):
+    return ["frequency", "total"] + [f"column {k}" for k in range(3, width + 1)]
+
+
+def _header_cells(row, split, width):
+    """Header cells, trying splits that keep "(unit)" with its name."""
+    if not isinstance(row, str):
+        return list(row)
+    if split is not str.split:
+        return split(row)
+    tries = (_HEADER_CELL.findall(row), row.split(), re.split(r"\s{2,}|\t", row))
+    return next((t for t in tries if len(t) == width), tries[0])
+
+
+def _column_names(header, width, split):
+    names = _default_names(width)
+    if header is None:
+        return names
+    cells = _header_cells(header[1], split, width)
+    if len(cells) != width:
+        return names
+    seen = set()
+    out = []
+    for k, cell in enumerate(cells, start=1):
+        text = _clean_name(cell) if cell.strip() else f"column {k}"
+        if text in seen:
+            text = f"{text} (column {k})"
+        seen.add(text)
+        out.append(text)
+    return out
+
+
+def _frequency_unit(first_header_cell, comments, width):
+    """Unit of column 1 from its header cell, else from the comment lines."""
+    if first_header_cell:
+        unit = guess_unit_from_text(first_header_cell)
+        if unit:
+            return unit
+    found = set()
+    for _, text in comments:
+        body = text.lstrip("".join(COMMENT_CHARS)).strip()
+        cells = _HEADER_CELL.findall(body)
+        unit = None
+        if len(cells) == width:   # looks like a commented-out header row
+            unit = guess_unit_from_text(cells[0])
+        if not unit:
+            unit = guess_unit_from_text(_DOS_DENOMINATOR.sub(" ", body))
+        if unit:
+            found.add(unit)
+    return found.pop() if len(found) == 1 else None

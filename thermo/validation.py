@@ -1,0 +1,160 @@
+"""Sanity checks that turn a :class:`~thermo.readers.RawTable` into a spectrum.
+
+The checks are about the shape of the data only (enough points, frequencies
+strictly increasing, DOS not negative, total not zero); no unit conversion or
+normalisation happens here.  Each failure is a one-line
+:class:`thermo.errors.DosInputError` naming the file line and column.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .errors import DosInputError, OptionError
+from .readers import RawTable
+
+#: Fewest data points accepted for a DOS.
+MIN_POINTS = 10
+
+
+@dataclass(frozen=True)
+class CleanSpectrum:
+    """DOS columns that passed :func:`check_spectrum`.
+
+    Attributes
+    ----------
+    frequency : numpy.ndarray, shape (N,)
+        Column 1, strictly increasing [file unit; may be negative for
+        imaginary modes].
+    total : numpy.ndarray, shape (N,)
+        Column 2, total DOS, ``>= 0`` [states / file unit].
+    partials : dict of str to numpy.ndarray
+        Columns 3 and later by column name, ``>= 0`` [states / file unit].
+    warnings : tuple of str
+        One-line notes (e.g. small negative values clipped to zero).
+    source, sha256, names, header_unit
+        Copied from the :class:`~thermo.readers.RawTable`.
+    line_numbers : tuple of int
+        File line of each point.
+    """
+
+    frequency: np.ndarray
+    total: np.ndarray
+    partials: dict
+    warnings: tuple
+    source: str
+    sha256: str
+    names: list
+    header_unit: str | None
+    line_numbers: tuple = field(default=())
+
+
+def check_spectrum(raw: RawTable, negative_noise: float = 1e-3) -> CleanSpectrum:
+    """Check a raw DOS table and clip negative noise.
+
+    Parameters
+    ----------
+    raw : RawTable
+        Output of :func:`thermo.readers.read_table`.
+    negative_noise : float, optional
+        Negative DOS values with :math:`|g| \\le` ``negative_noise`` ×
+        max(total DOS) are set to 0 with one warning; larger negative values
+        are an error [1].
+
+    Returns
+    -------
+    CleanSpectrum
+        Frequency, total and partial DOS columns plus warnings.
+
+    Raises
+    ------
+    DosInputError
+        Fewer than :data:`MIN_POINTS` points, repeated or decreasing
+        frequencies, a total DOS that is zero everywhere, or negative values
+        beyond the noise level.
+    OptionError
+        ``negative_noise`` is negative or not finite.
+
+    Notes
+    -----
+    A DOS is a density of mode counts, :math:`g(\\nu) \\ge 0`; small negative
+    values come from smearing or interpolation and are clipped when
+    :math:`g_i \\ge -\\epsilon \\max_j g_{\\mathrm{total}}(\\nu_j)` with
+    :math:`\\epsilon` = ``negative_noise``.  The same threshold, relative to
+    the total DOS, is used for partial columns.
+
+    References
+    ----------
+    .. [1] A. A. Maradudin, E. W. Montroll, G. H. Weiss, I. P. Ipatova,
+       *Theory of Lattice Dynamics in the Harmonic Approximation*, 2nd ed.,
+       Solid State Physics Suppl. 3 (Academic Press, New York, 1971), ch. 4.
+
+    Examples
+    --------
+    >>> from thermo.readers import read_table
+    >>> rows = [f"{0.5 * k} {k * k * 0.01}" for k in range(12)]
+    >>> rows[3] = "1.5 -0.0001"
+    >>> spec = check_spectrum(read_table("\\n".join(rows) + "\\n"))
+    >>> float(spec.total[3]), spec.warnings
+    (0.0, ('clipped 1 small negative DOS value to 0 (|value| <= 0.001 x max total DOS)',))
+    """
+    if not (isinstance(negative_noise, (int, float)) and math.isfinite(negative_noise)
+            and negative_noise >= 0):
+        raise OptionError(
+            f"negative_noise must be a finite number >= 0, got {negative_noise!r}")
+    data = np.array(raw.data, dtype=float)
+    lines = list(raw.line_numbers) or list(range(1, len(data) + 1))
+    if data.ndim != 2 or data.shape[1] < 2:
+        raise DosInputError("need at least 2 columns (frequency, total DOS)", raw.source)
+    if len(data) < MIN_POINTS:
+        raise DosInputError(
+            f"only {len(data)} data points; at least {MIN_POINTS} are needed",
+            raw.source)
+    _check_frequencies(data[:, 0], lines, raw.source)
+    dos = data[:, 1:]
+    threshold = negative_noise * max(float(dos[:, 0].max()), 0.0)
+    clipped = _clip_negative(dos, threshold, lines, raw.source)
+    if not np.any(dos[:, 0] > 0):
+        raise DosInputError("total DOS (column 2) is zero everywhere", raw.source)
+    warnings = ()
+    if clipped:
+        plural = "s" if clipped > 1 else ""
+        warnings = (f"clipped {clipped} small negative DOS value{plural} to 0 "
+                    f"(|value| <= {negative_noise:g} x max total DOS)",)
+    names = list(raw.names)
+    partials = {names[k + 1]: dos[:, k].copy() for k in range(1, dos.shape[1])}
+    return CleanSpectrum(frequency=data[:, 0].copy(), total=dos[:, 0].copy(),
+                         partials=partials, warnings=warnings, source=raw.source,
+                         sha256=raw.sha256, names=names, header_unit=raw.header_unit,
+                         line_numbers=tuple(lines))
+
+
+def _check_frequencies(freq, lines, source):
+    bad = np.flatnonzero(freq[1:] <= freq[:-1])
+    if bad.size == 0:
+        return
+    i = int(bad[0]) + 1
+    here, before = float(freq[i]), float(freq[i - 1])
+    if here == before:
+        raise DosInputError(f"frequency {here!r} repeats line {lines[i - 1]}",
+                            source, lines[i])
+    raise DosInputError(
+        f"frequency decreases ({here!r} after {before!r}); sort the file",
+        source, lines[i])
+
+
+def _clip_negative(dos, threshold, lines, source) -> int:
+    """Set noise-level negatives of every DOS column to 0 in place; count them."""
+    too_negative = dos < -threshold
+    if too_negative.any():
+        row, col = (int(k) for k in np.argwhere(too_negative)[0])
+        raise DosInputError(
+            f"negative DOS value {float(dos[row, col])!r} is beyond the "
+            f"noise level {threshold:.3g}",
+            source, lines[row], col + 2)
+    negative = dos < 0
+    dos[negative] = 0.0
+    return int(negative.sum())

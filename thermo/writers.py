@@ -1,0 +1,387 @@
+"""Export a thermodynamic table with its provenance (CSV, JSON, .xlsx).
+
+Layouts
+-------
+CSV
+    Provenance first, one ``# key: value`` line per entry (strings as they
+    are, other values as JSON), then an ordinary CSV header and rows.  Floats
+    are written with their shortest exact representation (``repr``), so they
+    read back bit for bit; missing values are empty cells.
+JSON
+    One object ``{"format": "modeheat-table", "version": 1,
+    "provenance": {...}, "columns": [name, ...], "data": [[row], ...]}``
+    with rows in column order; NaN and infinities become ``null``.
+XLSX
+    Sheet ``table`` with header and rows, sheet ``provenance`` with
+    ``key`` / ``value`` rows (lists and dicts as JSON text).
+
+Every error is a one-line :class:`thermo.errors.OptionError` (bad format,
+refused overwrite, unwritable path) or :class:`thermo.errors.DosInputError`
+(unreadable export on reading back).
+"""
+
+from __future__ import annotations
+
+import io
+import json
+import math
+from pathlib import Path
+
+import numpy as np
+import pandas as pd
+
+from .errors import DosInputError, OptionError
+
+#: Export formats accepted by :func:`export_table` and :func:`write_table`.
+EXPORT_FORMATS = ("csv", "json", "xlsx")
+
+_JSON_FORMAT_TAG = "modeheat-table"
+_PROVENANCE_PREFIX = "# "
+
+
+def export_table(df: pd.DataFrame, provenance: dict, fmt: str) -> bytes:
+    """Serialise a table and its provenance.
+
+    Parameters
+    ----------
+    df : pandas.DataFrame
+        Thermodynamic table (column names carry the units, e.g.
+        ``entropy_J_per_mol_K``).
+    provenance : dict
+        Simple JSON-able values (str, int, float, bool, None, lists/dicts of
+        them): tool version, input name and SHA-256, unit, settings, ...
+    fmt : str
+        One of :data:`EXPORT_FORMATS` (case-insensitive, leading dot allowed).
+
+    Returns
+    -------
+    bytes
+        File content (UTF-8 text for csv/json, a zip workbook for xlsx).
+
+    Raises
+    ------
+    OptionError
+        Unknown format or a provenance key that cannot be written.
+
+    Notes
+    -----
+    CSV floats use Python's shortest round-trip ``repr`` [1], so
+    ``float(text) == value`` exactly; JSON follows RFC 8259 [2] (no NaN, so
+    non-finite values are ``null``).
+
+    References
+    ----------
+    .. [1] D. M. Gay, "Correctly rounded binary-decimal and decimal-binary
+       conversions", AT&T Bell Laboratories Numerical Analysis Manuscript
+       90-10 (1990).
+    .. [2] T. Bray (ed.), "The JavaScript Object Notation (JSON) Data
+       Interchange Format", RFC 8259 (IETF, 2017).
+
+    Examples
+    --------
+    >>> df = pd.DataFrame({"temperature_K": [0.0, 300.0], "entropy_J_per_mol_K": [0.0, 1 / 3]})
+    >>> print(export_table(df, {"input": "demo.dat", "atoms": 2}, "csv").decode())
+    # input: demo.dat
+    # atoms: 2
+    temperature_K,entropy_J_per_mol_K
+    0.0,0.0
+    300.0,0.3333333333333333
+    <BLANKLINE>
+    """
+    kind = _format_name(fmt)
+    if not isinstance(df, pd.DataFrame):
+        raise OptionError(f"export needs a pandas DataFrame, got {type(df).__name__}")
+    meta = _plain_provenance(provenance)
+    if kind == "csv":
+        return _csv_bytes(df, meta)
+    if kind == "json":
+        return _json_bytes(df, meta)
+    return _xlsx_bytes(df, meta)
+
+
+def write_table(df: pd.DataFrame, provenance: dict, fmt: str | None, path,
+                overwrite: bool = False) -> Path:
+    """Write :func:`export_table` output to a file.
+
+    Parameters
+    ----------
+    df : pandas.DataFrame
+        Thermodynamic table.
+    provenance : dict
+        See :func:`export_table`.
+    fmt : str or None
+        Export format; None takes it from the file suffix.
+    path : str or pathlib.Path
+        Destination file.
+    overwrite : bool, optional
+        Replace an existing file; by default an existing file is an error.
+
+    Returns
+    -------
+    pathlib.Path
+        The path written.
+
+    Raises
+    ------
+    OptionError
+        Unknown format, existing file without ``overwrite=True``, or a path
+        that cannot be written.
+
+    Notes
+    -----
+    Without ``overwrite`` the file is opened in exclusive-create mode, so a
+    file appearing between check and write is not replaced either.
+
+    References
+    ----------
+    .. [1] IEEE Std 1003.1-2017 (POSIX), ``open()`` with ``O_CREAT | O_EXCL``.
+
+    Examples
+    --------
+    >>> import tempfile
+    >>> df = pd.DataFrame({"temperature_K": [300.0]})
+    >>> with tempfile.TemporaryDirectory() as tmp:
+    ...     out = write_table(df, {}, None, Path(tmp) / "t.json")
+    ...     read_exported_json(out)[0]["temperature_K"].tolist()
+    [300.0]
+    """
+    target = Path(path)
+    content = export_table(df, provenance, fmt if fmt is not None else target.suffix)
+    try:
+        with open(target, "wb" if overwrite else "xb") as handle:
+            handle.write(content)
+    except FileExistsError:
+        raise OptionError(
+            f"refusing to overwrite existing file {target}; choose another name "
+            "or allow overwriting") from None
+    except OSError as exc:
+        raise OptionError(f"cannot write {target}: {exc.strerror or exc}") from None
+    return target
+
+
+def read_exported_csv(source) -> tuple[pd.DataFrame, dict]:
+    """Read back a CSV written by :func:`export_table`.
+
+    Parameters
+    ----------
+    source : str, pathlib.Path or bytes
+        Path, file content, or file text (a ``str`` with a line break).
+
+    Returns
+    -------
+    df : pandas.DataFrame
+        The table, floats exactly as written.
+    provenance : dict
+        The ``# key: value`` lines, values decoded from JSON where possible.
+
+    Raises
+    ------
+    DosInputError
+        Unreadable file or a malformed provenance line.
+
+    Notes
+    -----
+    Values are parsed with round-trip float precision.
+
+    References
+    ----------
+    .. [1] Y. Shafranovich, "Common Format and MIME Type for Comma-Separated
+       Values (CSV) Files", RFC 4180 (IETF, 2005).
+
+    Examples
+    --------
+    >>> df, meta = read_exported_csv("# unit: THz\\n# atoms: 2\\nT,S\\n1.0,0.5\\n")
+    >>> meta, df["S"].tolist()
+    ({'unit': 'THz', 'atoms': 2}, [0.5])
+    """
+    text, name = _exported_text(source)
+    lines = text.splitlines(keepends=True)
+    provenance = {}
+    start = 0
+    for start, line in enumerate(lines):
+        if not line.startswith(_PROVENANCE_PREFIX):
+            break
+        key, sep, value = line[len(_PROVENANCE_PREFIX):].rstrip("\r\n").partition(": ")
+        if not sep:
+            raise DosInputError("provenance line without 'key: value'", name, start + 1)
+        provenance[key] = _decode_value(value)
+    else:
+        start = len(lines)
+    body = "".join(lines[start:])
+    if not body.strip():
+        return pd.DataFrame(), provenance
+    try:
+        df = pd.read_csv(io.StringIO(body))
+    except Exception as exc:  # pandas parser errors come in many types
+        raise DosInputError(f"not a readable CSV table ({type(exc).__name__})",
+                            name, start + 1) from None
+    return df, provenance
+
+
+def read_exported_json(source) -> tuple[pd.DataFrame, dict]:
+    """Read back a JSON file written by :func:`export_table`.
+
+    Parameters
+    ----------
+    source : str, pathlib.Path or bytes
+        JSON export as a path, raw bytes or text (text must span lines).
+
+    Returns
+    -------
+    df : pandas.DataFrame
+        The table; ``null`` cells become NaN.
+    provenance : dict
+        Provenance entries.
+
+    Raises
+    ------
+    DosInputError
+        Not JSON or not the layout described in this module.
+
+    Notes
+    -----
+    Layout: ``{"provenance": {...}, "columns": [...], "data": [[...], ...]}``.
+
+    References
+    ----------
+    .. [1] T. Bray (ed.), "The JavaScript Object Notation (JSON) Data
+       Interchange Format", RFC 8259 (IETF, 2017).
+
+    Examples
+    --------
+    >>> text = '{"provenance": {"unit": "THz"},\\n "columns": ["T"], "data": [[1.5], [null]]}'
+    >>> df, meta = read_exported_json(text)
+    >>> meta, df["T"].tolist()[0]
+    ({'unit': 'THz'}, 1.5)
+    """
+    text, name = _exported_text(source)
+    try:
+        obj = json.loads(text)
+        columns = [str(c) for c in obj["columns"]]
+        rows = [list(r) for r in obj["data"]]
+        provenance = dict(obj.get("provenance", {}))
+        if any(len(r) != len(columns) for r in rows):
+            raise ValueError("row length")
+    except Exception as exc:  # JSON and layout errors alike
+        raise DosInputError(f"not a table export in JSON ({type(exc).__name__})",
+                            name) from None
+    df = pd.DataFrame(rows, columns=columns)
+    for col in df.columns:
+        if df[col].dtype == object:
+            try:
+                df[col] = df[col].astype(float)
+            except (TypeError, ValueError):
+                pass
+    return df, provenance
+
+
+# ----------------------------------------------------------------------------
+# helpers
+
+
+def _format_name(fmt) -> str:
+    kind = str(fmt).strip().lower().lstrip(".")
+    if kind not in EXPORT_FORMATS:
+        raise OptionError(
+            f"unknown export format {fmt!r}; choose one of {', '.join(EXPORT_FORMATS)}")
+    return kind
+
+
+def _plain(value):
+    """JSON-able Python value: numpy scalars/arrays unwrapped, non-finite -> None."""
+    if isinstance(value, np.generic):
+        value = value.item()
+    if isinstance(value, np.ndarray):
+        value = value.tolist()
+    if isinstance(value, float) and not math.isfinite(value):
+        return None
+    if isinstance(value, dict):
+        return {str(k): _plain(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [_plain(v) for v in value]
+    if value is None or isinstance(value, (str, bool, int, float)):
+        return value
+    return str(value)
+
+
+def _plain_provenance(provenance) -> dict:
+    meta = {}
+    for key, value in dict(provenance or {}).items():
+        key = str(key)
+        if not key or ": " in key or key != " ".join(key.split()):
+            raise OptionError(f"provenance key {key!r} must be one line without ': '")
+        meta[key] = _plain(value)
+    return meta
+
+
+def _encode_value(value) -> str:
+    """Text of a provenance value on a CSV ``# key: value`` line."""
+    if isinstance(value, str) and value == " ".join(value.split()):
+        if _decode_value(value) == value:
+            return value
+    return json.dumps(value, ensure_ascii=False)
+
+
+def _decode_value(text: str):
+    try:
+        return json.loads(text)
+    except ValueError:
+        return text
+
+
+def _csv_bytes(df, meta) -> bytes:
+    head = "".join(f"{_PROVENANCE_PREFIX}{k}: {_encode_value(v)}\n" for k, v in meta.items())
+    body = df.to_csv(index=False, lineterminator="\n")
+    return (head + body).encode("utf-8")
+
+
+def _rows(df):
+    return [[_plain(v) for v in row] for row in df.itertuples(index=False, name=None)]
+
+
+def _json_bytes(df, meta) -> bytes:
+    head = json.dumps({"format": _JSON_FORMAT_TAG, "version": 1, "provenance": meta,
+                       "columns": [str(c) for c in df.columns]},
+                      indent=1, ensure_ascii=False, allow_nan=False)
+    rows = ",\n  ".join(json.dumps(r, allow_nan=False) for r in _rows(df))
+    data = f"[\n  {rows}\n ]" if rows else "[]"
+    text = head[:-2] + f',\n "data": {data}\n}}\n'   # head ends with "\n}"
+    return text.encode("utf-8")
+
+
+def _xlsx_bytes(df, meta) -> bytes:
+    import openpyxl
+
+    book = openpyxl.Workbook()
+    table = book.active
+    table.title = "table"
+    table.append([str(c) for c in df.columns])
+    for row in _rows(df):
+        table.append(row)
+    sheet = book.create_sheet("provenance")
+    sheet.append(["key", "value"])
+    for key, value in meta.items():
+        cell = json.dumps(value, ensure_ascii=False) if isinstance(value, (list, dict)) \
+            else value
+        sheet.append([key, cell])
+    out = io.BytesIO()
+    book.save(out)
+    return out.getvalue()
+
+
+def _exported_text(source):
+    if isinstance(source, (bytes, bytearray)):
+        raw, name = bytes(source), "<bytes>"
+    elif isinstance(source, str) and ("\n" in source or "\r" in source):
+        return source, "<text>"
+    else:
+        path = Path(source)
+        name = path.name
+        try:
+            raw = path.read_bytes()
+        except OSError as exc:
+            raise DosInputError(f"cannot read file: {exc.strerror or exc}", name) from None
+    try:
+        return raw.decode("utf-8-sig"), name
+    except UnicodeDecodeError:
+        raise DosInputError("not UTF-8 text", name) from None
