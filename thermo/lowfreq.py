@@ -29,7 +29,7 @@ TOLERANCE = 0.02
 NOISY_TOLERANCE = 0.15
 #: The search stays below the frequency under which this share of modes lies.
 SEARCH_SHARE = 0.2
-_MIN_POINTS = 5
+_MIN_POINTS = 8
 
 
 def reduced_dos(frequency_thz, dos):
@@ -70,10 +70,11 @@ def reduced_dos(frequency_thz, dos):
     return nu[pos], g[pos] / nu[pos] ** 2
 
 
-def _fit(nu, g):
-    """Least-squares A, C of g = Aν² + C and the relative rms misfit."""
-    design = np.column_stack([nu * nu, np.ones_like(nu)])
-    (a, c), *_ = np.linalg.lstsq(design, g, rcond=None)
+def _fit(nu, g, offset=True):
+    """Least-squares A (and C) of g = Aν² (+ C) and the relative rms misfit."""
+    columns = [nu * nu, np.ones_like(nu)] if offset else [nu * nu]
+    coef, *_ = np.linalg.lstsq(np.column_stack(columns), g, rcond=None)
+    a, c = float(coef[0]), float(coef[1]) if offset else 0.0
     model = a * nu * nu + c
     if a <= 0 or np.any(model <= 0):
         return a, c, np.inf
@@ -89,21 +90,32 @@ def _in(nu, lo, hi):
     return (nu >= lo) & (nu <= hi)
 
 
-def _best_octave(nu, g, limit):
-    """Lowest octave window meeting TOLERANCE, else the one of least misfit."""
+def _windows(nu, limit, span):
+    """Candidate windows [a, span·a] holding enough points, lowest first."""
     positive = nu[nu > 0]
     if positive.size < _MIN_POINTS:
-        return None
+        return []
+    starts = np.geomspace(positive[0], max(limit / span, positive[0]), 48)
+    return [(a, span * a) for a in starts if _in(nu, a, span * a).sum() >= _MIN_POINTS]
+
+
+def _first_clean_octave(nu, g, limit):
+    """Lowest octave where g = Aν² + C holds within TOLERANCE, or None."""
+    for start, stop in _windows(nu, limit, 2.0):
+        sel = _in(nu, start, stop)
+        if np.any(g[sel] > 0) and _fit(nu[sel], g[sel])[2] <= TOLERANCE:
+            return start, stop
+    return None
+
+
+def _least_misfit_window(nu, g, limit):
+    """Two-octave window of least misfit to a pure Aν² (structured or noisy data)."""
     best = None
-    for start in np.geomspace(positive[0], max(limit / 2.0, positive[0]), 48):
-        sel = _in(nu, start, 2.0 * start)
-        if sel.sum() < _MIN_POINTS or not np.any(g[sel] > 0):
-            continue
-        a, c, rho = _fit(nu[sel], g[sel])
-        if rho <= TOLERANCE:
-            return start, 2.0 * start, rho
+    for start, stop in _windows(nu, limit, 4.0):
+        sel = _in(nu, start, stop)
+        rho = _fit(nu[sel], g[sel], offset=False)[2]
         if best is None or rho < best[2]:
-            best = (start, 2.0 * start, rho)
+            best = (start, stop, rho)
     return best
 
 
@@ -146,9 +158,12 @@ def fit_low_frequency(frequency_thz, dos, window=None):
     Notes
     -----
     Least squares on :math:`g(\\nu) = A\\nu^2 + C` over the window; the
-    automatic window is the lowest octave :math:`[a, 2a]` whose relative rms
-    misfit is at most 2 %, widened upward while the misfit stays below 2 %,
-    inside the lowest 20 % of the modes.
+    automatic window is the lowest octave :math:`[a, 2a]` (at least 8 points)
+    whose relative rms misfit is at most 2 %, widened upward while the misfit
+    stays below 2 %, inside the lowest 20 % of the modes.  Where no octave is
+    that clean (k-mesh structure, noise) the two-octave window of least
+    misfit to a pure :math:`A\nu^2` is used if its misfit is below 15 %, with
+    a caution; otherwise the treatment is off.
 
     References
     ----------
@@ -176,20 +191,22 @@ def fit_low_frequency(frequency_thz, dos, window=None):
             raise OptionError(f"no positive ν² form fits the DOS in {lo:g}:{hi:g} THz")
         return LowFrequencyFit(float(a), hi, (lo, hi), float(c), rho, automatic=False), None
     limit = _search_limit(nu, g)
-    best = _best_octave(nu, g, limit)
+    clean = _first_clean_octave(nu, g, limit)
+    if clean is not None:
+        start, stop = clean[0], _widen(nu, g, clean[0], clean[1], limit)
+        sel = _in(nu, start, stop)
+        a, c, rho = _fit(nu[sel], g[sel])
+        return LowFrequencyFit(a, float(stop), (float(start), float(stop)), c, rho), None
+    best = _least_misfit_window(nu, g, limit)
     if best is None or best[2] > NOISY_TOLERANCE:
         return None, ("no ν²-like (acoustic) region found at low frequency; "
                       "low-frequency treatment is off and the T³ law is not enforced")
     start, stop, rho = best
-    note = None
-    if rho > TOLERANCE:
-        note = (f"low-frequency DOS is noisy (ν² fit misfit {100 * rho:.1f} % rms over "
-                f"{start:.3g}-{stop:.3g} THz); low-temperature values are uncertain")
-    else:
-        stop = _widen(nu, g, start, stop, limit)
     sel = _in(nu, start, stop)
-    a, c, rho = _fit(nu[sel], g[sel])
-    return LowFrequencyFit(float(a), float(stop), (float(start), float(stop)), float(c), rho), note
+    a, c, rho = _fit(nu[sel], g[sel], offset=False)
+    note = (f"low-frequency DOS is noisy or structured (ν² fit misfit {100 * rho:.1f} % rms over "
+            f"{start:.3g}-{stop:.3g} THz); low-temperature values are uncertain")
+    return LowFrequencyFit(a, float(stop), (float(start), float(stop)), c, rho), note
 
 
 def apply_low_frequency(frequency_thz, arrays, cutoff_thz):

@@ -144,14 +144,16 @@ def guess_unit_from_text(text: str) -> str | None:
     --------
     >>> guess_unit_from_text("# frequency (cm^-1)  dos")
     'cm-1'
+    >>> guess_unit_from_text("energy_meV")
+    'meV'
     """
     low = text.lower()
     patterns = [
-        ("THz", r"\bthz\b"),
+        ("THz", r"(?<![a-z])thz(?![a-z])"),
         ("cm-1", r"cm\s*(\^|\*\*)?\s*-\s*1|1\s*/\s*cm|cm⁻¹|wavenumber"),
-        ("meV", r"\bmev\b"),
+        ("meV", r"(?<![a-z])mev(?![a-z])"),
         ("rad/s", r"rad\s*/\s*s|rad\s*s\s*\^?-1|rad\.s-1"),
-        ("K", r"\(\s*k\s*\)|\[\s*k\s*\]|\bkelvin\b"),
+        ("K", r"\(\s*k\s*\)|\[\s*k\s*\]|(?<![a-z])kelvin(?![a-z])|_k(?![a-z0-9])"),
     ]
     found = [unit for unit, pat in patterns if re.search(pat, low)]
     return found[0] if len(found) == 1 else None
