@@ -34,13 +34,69 @@ _KERNELS = {"heat_capacity": heat_capacity_kernel,
             "log_partition": log_partition_kernel}
 
 
-def trapezoid_weights(frequency_thz):
+#: A sample at least this share of the maximum next to an exact zero marks a
+#: sharp band edge (see :func:`band_edge_segments`).
+EDGE_SHARE = 0.25
+
+
+def band_edge_segments(frequency_thz, dos):
+    """Segments read as empty because the DOS has a sharp edge there.
+
+    Parameters
+    ----------
+    frequency_thz : array_like, shape (N,)
+        Ascending grid [THz].
+    dos : array_like, shape (N,)
+        DOS samples [states / THz].
+
+    Returns
+    -------
+    numpy.ndarray of bool, shape (N-1,)
+        True for a segment between an exact zero and a sample of at least
+        25 % of the maximum and at least half its other, non-zero neighbour
+        (the edge of an extended band, as in a Debye spectrum or a
+        histogram).  Isolated spikes and smooth rises keep their segments.
+
+    Notes
+    -----
+    A linear ramp across such a segment would add half a grid step of modes
+    (1.5 Δν/ν_D of the total for a Debye spectrum sampled on its cut-off);
+    reading the band as ending at its last non-zero sample avoids that.
+
+    References
+    ----------
+    .. [1] P. Debye, Ann. Phys. 344, 789 (1912) (sharp cut-off spectrum).
+
+    Examples
+    --------
+    >>> band_edge_segments([0, 1, 2, 3, 4], [0.0, 1.0, 4.0, 0.0, 0.0]).tolist()
+    [False, False, True, False]
+    >>> band_edge_segments([0, 1, 2, 3, 4], [0.0, 0.0, 3.0, 3.0, 0.0]).tolist()
+    [False, True, False, True]
+    """
+    g = np.asarray(dos, dtype=float)
+    edge = np.zeros(max(g.size - 1, 0), dtype=bool)
+    if g.size < 3 or not np.any(g > 0):
+        return edge
+    big = g >= EDGE_SHARE * g.max()
+    mid = g[1:-1]
+    falling = big[1:-1] & (mid >= 0.5 * g[:-2]) & (g[:-2] > 0) & (g[2:] == 0)   # segment i+1 -> i+2
+    rising = (g[:-2] == 0) & big[1:-1] & (mid >= 0.5 * g[2:]) & (g[2:] > 0)     # segment i -> i+1
+    edge[1:] |= falling
+    edge[:-1] |= rising
+    return edge
+
+
+def trapezoid_weights(frequency_thz, dos=None):
     """Trapezoid-rule weights of a non-uniform grid.
 
     Parameters
     ----------
     frequency_thz : array_like, shape (N,)
         Ascending grid [THz].
+    dos : array_like, shape (N,), optional
+        When given, segments at sharp band edges of this DOS
+        (:func:`band_edge_segments`) get no weight.
 
     Returns
     -------
@@ -64,10 +120,35 @@ def trapezoid_weights(frequency_thz):
     nu = np.asarray(frequency_thz, dtype=float)
     w = np.zeros_like(nu)
     if nu.size > 1:
-        d = np.diff(nu)
-        w[:-1] += 0.5 * d
-        w[1:] += 0.5 * d
+        d = 0.5 * np.diff(nu)
+        if dos is not None:
+            d = np.where(band_edge_segments(nu, dos), 0.0, d)
+        w[:-1] += d
+        w[1:] += d
     return w
+
+
+def mode_weights(frequency_thz, dos):
+    """Modes carried by each sample of a tabulated DOS.
+
+    Parameters
+    ----------
+    frequency_thz : array_like, shape (N,)
+        Ascending grid [THz].
+    dos : array_like, shape (N,)
+        DOS [states / THz].
+
+    Returns
+    -------
+    numpy.ndarray, shape (N,)
+        :math:`g_i w_i` [modes]; the sum is the integral of the DOS.
+
+    Examples
+    --------
+    >>> float(mode_weights([0.0, 1.0, 2.0], [1.0, 2.0, 2.0]).sum())
+    3.5
+    """
+    return np.asarray(dos, dtype=float) * trapezoid_weights(frequency_thz, dos)
 
 
 def _zero_node_log_partition(first_step_thz, temperatures):
@@ -228,7 +309,7 @@ def mode_quadrature(dos):
     >>> float(w.sum())
     3.0
     """
-    weights = np.asarray(dos.dos, float) * trapezoid_weights(dos.frequency_thz)
+    weights = mode_weights(dos.frequency_thz, dos.dos)
     nodes = np.asarray(dos.frequency_thz, float)
     fit = dos.low_frequency
     if fit is None or fit.cutoff_thz <= 0:
@@ -315,14 +396,13 @@ def thermal_sums(dos, temperatures, method="auto"):
     hot = t > 0
     out = {key: np.zeros_like(t) for key in SUM_KEYS}
     if hot.any():
-        parts = [grid_sums(dos.frequency_thz, np.asarray(dos.dos, float) * trapezoid_weights(dos.frequency_thz),
-                           t[hot], method)]
+        parts = [grid_sums(dos.frequency_thz, mode_weights(dos.frequency_thz, dos.dos), t[hot], method)]
         if dos.low_frequency is not None:
             parts.append(nu2_part_sums(dos.low_frequency.coefficient, dos.low_frequency.cutoff_thz, t[hot]))
         for key in SUM_KEYS:
             out[key][hot] = sum(p[key] for p in parts)
     out["entropy"] = out["thermal_energy"] + out["log_partition"]
-    zp = float(np.sum(np.asarray(dos.dos, float) * trapezoid_weights(dos.frequency_thz) * dos.frequency_thz)) / 2
+    zp = float(np.sum(mode_weights(dos.frequency_thz, dos.dos) * dos.frequency_thz)) / 2
     if dos.low_frequency is not None:
         zp += dos.low_frequency.coefficient * dos.low_frequency.cutoff_thz ** 4 / 8
     out["zero_point_thz"] = zp

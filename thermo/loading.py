@@ -10,6 +10,7 @@ from __future__ import annotations
 import numpy as np
 
 from .errors import DosInputError, OptionError
+from .integrals import mode_weights
 from .imaginary import check_policy, imaginary_warnings, split_at_zero
 from .lowfreq import apply_low_frequency, fit_low_frequency
 from .normalise import resolve_atoms
@@ -114,7 +115,7 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
     nu_all = np.asarray(clean.frequency, dtype=float) / factor
     names = list(clean.partials)
     cols_all = [np.asarray(clean.total, float) * factor] + [np.asarray(clean.partials[k], float) * factor for k in names]
-    raw_integral = float(np.trapezoid(cols_all[0], nu_all))
+    raw_integral = float(mode_weights(nu_all, cols_all[0]).sum())
     if not raw_integral > 0:
         raise DosInputError(f"the DOS integrates to {raw_integral:.6g}; it must be positive", src)
 
@@ -127,7 +128,7 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
     n_atoms, inferred = resolve_atoms(raw_integral, atoms, src)
     if inferred:
         notes.append(f"atoms per formula unit inferred as {n_atoms} from the DOS integral {raw_integral:.6g}")
-    if nu.size < 3 or np.trapezoid(cols[0], nu) <= 0:
+    if nu.size < 3 or mode_weights(nu, cols[0]).sum() <= 0:
         raise DosInputError("no real (positive-frequency) modes left after removing imaginary ones", src)
 
     fit, fit_note = (None, None)
@@ -136,7 +137,7 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
     if fit_note:
         notes.append(fit_note)
     grid, cut = (nu, cols) if fit is None else apply_low_frequency(nu, cols, fit.cutoff_thz)
-    treated = float(np.trapezoid(cut[0], grid)) + (0.0 if fit is None else fit.coefficient * fit.cutoff_thz ** 3 / 3)
+    treated = float(mode_weights(grid, cut[0]).sum()) + (0.0 if fit is None else fit.coefficient * fit.cutoff_thz ** 3 / 3)
     scale = 3 * n_atoms / (treated if policy == "drop" else raw_integral)
     if not inferred and abs(raw_integral / (3 * n_atoms) - 1) > 0.02:
         notes.append(f"the DOS integrates to {raw_integral:.6g} modes and is rescaled by "

@@ -86,7 +86,8 @@ class PhononDOS:
     @property
     def mode_count(self) -> float:
         """Number of real modes carried by the spectrum [per formula unit]."""
-        total = float(np.trapezoid(self.dos, self.frequency_thz))
+        from .integrals import mode_weights
+        total = float(mode_weights(self.frequency_thz, self.dos).sum())
         if self.low_frequency is not None:
             total += self.low_frequency.coefficient * self.low_frequency.cutoff_thz ** 3 / 3.0
         return total

@@ -12,7 +12,7 @@ from scipy import constants as sc
 from . import __version__
 from .errors import OptionError
 from .formula import formula_unit
-from .integrals import thermal_sums
+from .integrals import mode_weights, thermal_sums
 
 #: Column names of :func:`tabulate` for each ``per`` choice.
 COLUMNS = {
@@ -193,7 +193,7 @@ def _coarsened(dos):
     coarse = dataclasses.replace(dos, frequency_thz=dos.frequency_thz[keep], dos=dos.dos[keep])
     grid_fine = dos.mode_count - (0 if dos.low_frequency is None else
                                   dos.low_frequency.coefficient * dos.low_frequency.cutoff_thz ** 3 / 3)
-    grid_coarse = float(np.trapezoid(coarse.dos, coarse.frequency_thz))
+    grid_coarse = float(mode_weights(coarse.frequency_thz, coarse.dos).sum())
     if grid_coarse > 0:
         coarse = dataclasses.replace(coarse, dos=coarse.dos * grid_fine / grid_coarse)
     return coarse
