@@ -88,7 +88,8 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
     :math:`g_{\\mathrm{THz}} = g_u\\, d\\nu_u/d\\nu_{\\mathrm{THz}}`.  The
     imaginary share is :math:`\\int_{\\nu<0} g / \\int g`.  The final scale is
     :math:`3n / \\int g_{\\mathrm{treated}}` (``drop``) or
-    :math:`3n / \\int g_{\\mathrm{all}}` (``keep-count``).
+    :math:`3n(1-f_{\\mathrm{imag}}) / \\int g_{\\mathrm{treated}}` (``keep-count``),
+    where "treated" is the real part after the low-frequency treatment.
 
     References
     ----------
@@ -138,7 +139,8 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
         notes.append(fit_note)
     grid, cut = (nu, cols) if fit is None else apply_low_frequency(nu, cols, fit.cutoff_thz)
     treated = float(mode_weights(grid, cut[0]).sum()) + (0.0 if fit is None else fit.coefficient * fit.cutoff_thz ** 3 / 3)
-    scale = 3 * n_atoms / (treated if policy == "drop" else raw_integral)
+    real_modes = 3 * n_atoms * (1.0 if policy == "drop" else 1.0 - share)
+    scale = real_modes / treated
     if not inferred and abs(raw_integral / (3 * n_atoms) - 1) > 0.02:
         notes.append(f"the DOS integrates to {raw_integral:.6g} modes and is rescaled by "
                      f"{scale:.6g} to 3n = {3 * n_atoms}")
