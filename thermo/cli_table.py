@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import sys
+from pathlib import Path
 
 from .cli_common import add_input_options, add_temperature_option, load_from_args, parse_temperatures, report_warnings
 
@@ -26,6 +27,8 @@ def run(args) -> int:
     from .writers import export_table, write_table
 
     temperatures = parse_temperatures(args.temperatures)
+    if args.output and not args.force and Path(args.output).exists():
+        raise OptionError(f"refusing to overwrite existing file {args.output}; use --force to replace it")
     dos = load_from_args(args)
     table = tabulate(dos, temperatures, per=args.per, formula=args.formula)
     report_warnings(dos)
