@@ -1,0 +1,71 @@
+"""``modeheat models``: Einstein/Debye temperatures, composite model and θ_D(T) of one DOS."""
+
+from __future__ import annotations
+
+import json
+import sys
+
+from .cli_common import (DEFAULT_TEMPERATURES, add_input_options, load_from_args, parse_temperatures,
+                         report_warnings)
+
+
+def register(sub):
+    p = sub.add_parser("models", help="Einstein and Debye temperatures (every definition), composite "
+                                      "Debye+Einstein model and equivalent θ_D(T) of a DOS")
+    add_input_options(p)
+    p.add_argument("--temperatures", default=None, metavar="SPEC",
+                   help="START:STOP:STEP in K (STOP included) or a comma list; adds temperature_K and "
+                        f"equivalent_debye_temperature_K to json (csv default {DEFAULT_TEMPERATURES})")
+    p.add_argument("--fit-range", metavar="TMIN:TMAX",
+                   help="temperature range of the C_v least-squares fits in K (default θ_D(0)/20 : θ_D(0))")
+    p.add_argument("--optical-terms", type=int, default=1, metavar="K",
+                   help="Einstein terms sharing the 3n-3 optical modes in the composite model (default 1)")
+    p.add_argument("--format", default="json", choices=["json", "csv"],
+                   help="json: every θ with definitions (default); csv: DOS and model tables side by side")
+    p.set_defaults(func=run)
+
+
+def parse_fit_range(text):
+    """``TMIN:TMAX`` in K as a pair of floats.
+
+    Examples
+    --------
+    >>> parse_fit_range("10:300")
+    (10.0, 300.0)
+    """
+    from .errors import OptionError
+    from .models.fitting import check_fit_range
+    parts = str(text).split(":")
+    if len(parts) != 2:
+        raise OptionError(f"fit range {text!r} must be TMIN:TMAX in K")
+    try:
+        values = [float(p) for p in parts]
+    except ValueError:
+        raise OptionError(f"fit range {text!r} must be two numbers TMIN:TMAX in K") from None
+    return check_fit_range(values)
+
+
+def run(args) -> int:
+    from .models import CompositeModel, model_tables, models_report, side_by_side
+    from .writers import export_table
+
+    fit_range = None if args.fit_range is None else parse_fit_range(args.fit_range)
+    temperatures = None if args.temperatures is None else parse_temperatures(args.temperatures)
+    if args.format == "csv" and temperatures is None:
+        temperatures = parse_temperatures(DEFAULT_TEMPERATURES)
+    dos = load_from_args(args)
+    report_warnings(dos)
+    report = models_report(dos, temperatures if args.format == "json" else None, fit_range, args.optical_terms)
+    if args.format == "json":
+        print(json.dumps(report, indent=2, allow_nan=False))
+        return 0
+    composite = CompositeModel.from_dict(report["composite"])
+    tables = model_tables(dos, temperatures, report["einstein_theta_fit_K"], report["debye_theta_fit_K"], composite)
+    info = {"input": dos.source.get("name"), "atoms": dos.atoms,
+            "einstein_theta_K": report["einstein_theta_fit_K"], "debye_theta_K": report["debye_theta_fit_K"],
+            "composite_debye_theta_K": report["composite_debye_theta_K"],
+            "composite_einstein_theta_K": report["composite_einstein_theta_K"],
+            "fit_range_K": report["fit_range_K"],
+            "note": "einstein/debye columns use the θ fitted to C_v over fit_range_K; U and F include the ZPE"}
+    sys.stdout.write(export_table(side_by_side(tables), info, "csv").decode("utf-8"))
+    return 0

@@ -1,0 +1,156 @@
+"""Equivalent Debye temperature θ_D(T): the θ whose Debye C_v matches the DOS at T.
+
+A Debye spectrum gives a flat θ_D(T); the structure of a real spectrum shows
+up as dips and rises (a dip at low T from soft transverse modes, a rise
+towards the high-T value set by θ_D(2)).
+
+References
+----------
+.. [1] T. H. K. Barron, W. T. Berg, J. A. Morrison, Proc. R. Soc. Lond. A 242,
+   478-492 (1957).
+.. [2] G. Grimvall, *Thermophysical Properties of Materials*, enlarged ed.
+   (Elsevier, Amsterdam, 1999), ch. 6.
+.. [3] R. P. Brent, *Algorithms for Minimization without Derivatives*
+   (Prentice-Hall, 1973), ch. 4 (root bracketing).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from scipy import constants as sc
+from scipy import optimize
+
+from ..tables import COLUMNS, check_temperatures, tabulate
+from .debye import debye_heat_capacity_fraction
+
+#: Fractions of the classical limit at or above this are not inverted.
+UPPER_FRACTION = 1.0 - 1e-12
+#: Beyond y = θ/T = 60 the Debye C_v equals its T³ law to 1e-20.
+_Y_T3 = 60.0
+_T3_CONSTANT = 4.0 * np.pi ** 4 / 5.0
+
+
+def debye_y_from_fraction(fraction):
+    """Invert the Debye heat-capacity fraction: y = θ_D/T with D_c(y) = f.
+
+    Parameters
+    ----------
+    fraction : float
+        :math:`f = C_v/(mR)`, 0 < f < 1 − 1e-12 [1].
+
+    Returns
+    -------
+    float
+        :math:`y` [1]; ``nan`` when f is outside (0, 1 − 1e-12) or not finite.
+
+    Notes
+    -----
+    :math:`D_c(y) = 3y^{-3}\\int_0^y x^4e^x(e^x-1)^{-2}dx` falls monotonically
+    from 1 to 0.  For :math:`f \\le D_c(60)`, :math:`y = (4\\pi^4/5f)^{1/3}`
+    (the T³ law, exact to 1e-20); otherwise Brent's method on
+    :math:`[10^{-9}, 60]`.  Near f = 1, :math:`1 - f \\approx y^2/20`, so a
+    relative error ε in C_v moves y by :math:`\\approx \\varepsilon/(2(1-f))`:
+    θ_D(T) far above θ_D is ill-conditioned.
+
+    References
+    ----------
+    .. [1] R. P. Brent, *Algorithms for Minimization without Derivatives*
+       (Prentice-Hall, 1973), ch. 4.
+
+    Examples
+    --------
+    >>> round(debye_y_from_fraction(float(debye_heat_capacity_fraction(2.5)[0])), 10)
+    2.5
+    """
+    f = float(fraction)
+    if not np.isfinite(f) or f <= 0.0 or f >= UPPER_FRACTION:
+        return float("nan")
+    if f <= float(debye_heat_capacity_fraction(_Y_T3)[0]):
+        return float((_T3_CONSTANT / f) ** (1.0 / 3.0))
+    return float(optimize.brentq(lambda y: float(debye_heat_capacity_fraction(y)[0]) - f,
+                                 1e-9, _Y_T3, xtol=1e-15, rtol=4 * np.finfo(float).eps, maxiter=200))
+
+
+def invert_debye_heat_capacity(temperatures, heat_capacity, modes):
+    """θ_D at each T such that the Debye C_v of ``modes`` modes equals the data.
+
+    Parameters
+    ----------
+    temperatures : array_like, shape (M,)
+        Temperatures [K].
+    heat_capacity : array_like, shape (M,)
+        C_v per mole of formula units [J/(mol K)].
+    modes : float
+        Modes per formula unit (3n) [1].
+
+    Returns
+    -------
+    numpy.ndarray, shape (M,)
+        θ_D(T) [K]; ``nan`` where undefined: T = 0, C_v ≤ 0, or
+        C_v ≥ mR(1 − 1e-12) (the classical limit, where every θ fits).
+
+    Notes
+    -----
+    Solves :math:`mR\\,D_c(\\theta_D/T) = C_v(T)` with
+    :func:`debye_y_from_fraction`.
+
+    References
+    ----------
+    .. [1] G. Grimvall, *Thermophysical Properties of Materials* (Elsevier,
+       1999), ch. 6.
+
+    Examples
+    --------
+    >>> from thermo.models.debye import debye_heat_capacity
+    >>> t = np.array([0.0, 10.0, 300.0])
+    >>> invert_debye_heat_capacity(t, debye_heat_capacity(t, 250.0, 3), 3).round(9).tolist()
+    [nan, 250.0, 250.0]
+    """
+    t = np.atleast_1d(np.asarray(temperatures, dtype=float))
+    fraction = np.atleast_1d(np.asarray(heat_capacity, dtype=float)) / (modes * sc.R)
+    return np.array([tj * debye_y_from_fraction(fj) if tj > 0 else np.nan for tj, fj in zip(t, fraction)])
+
+
+def equivalent_debye_temperature(dos, temperatures):
+    """Equivalent Debye temperature θ_D(T) of a DOS [K].
+
+    Parameters
+    ----------
+    dos : PhononDOS
+        Normalised DOS with n atoms per formula unit.
+    temperatures : array_like, shape (M,)
+        Temperatures [K], >= 0.
+
+    Returns
+    -------
+    numpy.ndarray, shape (M,)
+        θ_D(T) [K], ``nan`` where undefined (see
+        :func:`invert_debye_heat_capacity`).
+
+    Notes
+    -----
+    .. math:: 9nR\\left(\\frac{T}{\\theta_D(T)}\\right)^3
+              \\int_0^{\\theta_D(T)/T}\\frac{x^4e^x}{(e^x-1)^2}dx = C_v^{DOS}(T)
+
+    with all 3n modes in the Debye spectrum.  As T → 0 it tends to the
+    elastic (ν²) θ_D; as T → ∞ to θ_D(2) of the moments.
+
+    References
+    ----------
+    .. [1] T. H. K. Barron, W. T. Berg, J. A. Morrison, Proc. R. Soc. Lond.
+       A 242, 478-492 (1957).
+    .. [2] G. Grimvall, *Thermophysical Properties of Materials* (Elsevier,
+       1999), ch. 6.
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS, LowFrequencyFit
+    >>> from thermo.planck import H_OVER_K_THZ
+    >>> d = PhononDOS(np.array([2.0]), np.array([0.0]), atoms=1,
+    ...               low_frequency=LowFrequencyFit(9 / 8, 2.0, (0.0, 2.0)))
+    >>> (equivalent_debye_temperature(d, [5.0, 50.0]) / (2 * H_OVER_K_THZ)).round(9).tolist()
+    [1.0, 1.0]
+    """
+    t = check_temperatures(temperatures)
+    cv = tabulate(dos, t)[COLUMNS["formula"][1]].to_numpy()
+    return invert_debye_heat_capacity(t, cv, 3 * dos.atoms)
