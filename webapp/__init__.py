@@ -1,0 +1,1 @@
+"""modeheat dashboard: a Dash app over :mod:`thermo` (``python -m webapp``)."""

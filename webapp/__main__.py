@@ -1,0 +1,37 @@
+"""``python -m webapp [--host 127.0.0.1] [--port 8050] [--debug] [--max-upload-mb 20]``."""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+
+
+def build_parser():
+    p = argparse.ArgumentParser(prog="python -m webapp", description="Serve the modeheat dashboard.")
+    p.add_argument("--host", default="127.0.0.1",
+                   help="interface to bind (default 127.0.0.1, this machine only)")
+    p.add_argument("--port", type=int, default=8050, help="port (default 8050)")
+    p.add_argument("--debug", action="store_true", help="Dash debug mode with reloading (development only)")
+    p.add_argument("--max-upload-mb", type=float, default=None, metavar="MB",
+                   help="largest accepted upload per file in MB (default 20)")
+    return p
+
+
+def main(argv=None) -> int:
+    args = build_parser().parse_args(argv)
+    if args.max_upload_mb is not None:
+        if not args.max_upload_mb > 0:
+            print("error: --max-upload-mb must be > 0", file=sys.stderr)
+            return 2
+        os.environ["MODEHEAT_MAX_UPLOAD_MB"] = str(args.max_upload_mb)
+    if args.host not in ("127.0.0.1", "localhost", "::1"):
+        print(f"warning: serving on {args.host} makes the dashboard reachable from other machines; "
+              "it has no login", file=sys.stderr)
+    from .app import app
+    app.run(host=args.host, port=args.port, debug=args.debug)
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())

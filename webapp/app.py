@@ -1,0 +1,126 @@
+"""The Dash application: shell layout, routing and page registration.
+
+``create_app()`` builds an app; ``app`` and ``server`` (the WSGI object) are
+module-level instances for ``gunicorn webapp.app:server``.
+"""
+
+from __future__ import annotations
+
+import logging
+import os
+
+from dash import Dash, Input, Output, State, dcc, html
+
+from . import components, state
+from .pages import PAGES
+
+_UPLOAD_CHECK_JS = """
+function(contents, names, config) {
+    const nu = window.dash_clientside.no_update;
+    if (!contents) { return nu; }
+    const limit = (config && config.max_upload_bytes) || 0;
+    const files = [], refused = [];
+    contents.forEach(function(c, i) {
+        const comma = c.indexOf(',');
+        const b64 = comma < 0 ? c.length : c.length - comma - 1;
+        const bytes = Math.floor(b64 * 3 / 4);
+        if (limit && bytes > limit) {
+            refused.push(names[i] + ': the file is ' + (bytes / 1e6).toFixed(1) +
+                         ' MB; the upload limit is ' + (limit / 1e6) + ' MB');
+        } else {
+            files.push({name: names[i], contents: c});
+        }
+    });
+    return {files: files, refused: refused, stamp: Date.now()};
+}
+"""
+
+
+def _page_for(pathname):
+    path = "/" + (pathname or "/").strip("/")
+    for module in PAGES:
+        if module.PATH == path:
+            return module
+    return None
+
+
+def _with_image_format(node, image_format):
+    """Set the modebar image format of every graph in a layout tree."""
+    if isinstance(node, (list, tuple)):
+        for child in node:
+            _with_image_format(child, image_format)
+        return node
+    if isinstance(node, dcc.Graph):
+        node.config = components.graph_config(image_format, node.id)
+    children = getattr(node, "children", None)
+    if children is not None and not isinstance(children, str):
+        _with_image_format(children, image_format)
+    return node
+
+
+def shell(demo, max_upload_bytes):
+    """The layout common to all pages."""
+    nav = [dcc.Link(module.NAME, href=module.PATH, className="mh-nav-link", id=f"mh-nav-{module.PATH.strip('/') or 'home'}")
+           for module in PAGES]
+    return html.Div([
+        dcc.Location(id="mh-url", refresh=False),
+        dcc.Store(id="mh-workspace", storage_type="session", data=demo),
+        dcc.Store(id="mh-prefs", storage_type="session", data={"image_format": "png"}),
+        dcc.Store(id="mh-config", data={"max_upload_bytes": max_upload_bytes}),
+        html.Header([html.Div([html.Span("mode", className="mh-brand-a"), html.Span("heat", className="mh-brand-b")],
+                              className="mh-brand"),
+                     html.Nav(nav, className="mh-nav", **{"aria-label": "pages"})], className="mh-header"),
+        html.Main(id="mh-page", className="mh-main"),
+        html.Footer([html.Strong("Caution. "), components.CAUTION], className="mh-footer", id="mh-caution"),
+    ], className="mh-shell")
+
+
+def create_app(max_upload_mb=None, demo_dir=None):
+    """Build the dashboard.
+
+    Parameters
+    ----------
+    max_upload_mb : float, optional
+        Per-file upload limit [MB]; default from ``MODEHEAT_MAX_UPLOAD_MB`` or 20.
+    demo_dir : path, optional
+        Folder of demo DOS files loaded on a first visit (default ``sample_dos/``).
+    """
+    if max_upload_mb is None:
+        max_upload_mb = float(os.environ.get("MODEHEAT_MAX_UPLOAD_MB", state.DEFAULT_MAX_UPLOAD_MB))
+    max_bytes = int(float(max_upload_mb) * 1e6)
+    demo = state.demo_workspace(demo_dir)
+    app = Dash(__name__, title="modeheat", suppress_callback_exceptions=True,
+               assets_folder=os.path.join(os.path.dirname(__file__), "assets"),
+               update_title=None)
+    app.layout = shell(demo, max_bytes)
+    app.server.config["MODEHEAT_MAX_UPLOAD_BYTES"] = max_bytes
+
+    # Each page reads the workspace from its own store (id ``WORKSPACE``) rendered with it,
+    # so no callback mixes inputs of the shell with inputs of a page that may be
+    # absent; the Spectrum page writes both stores.
+    @app.callback(Output("mh-page", "children"), Input("mh-url", "pathname"),
+                  State("mh-workspace", "data"), State("mh-prefs", "data"))
+    def route(pathname, workspace, prefs):
+        workspace = workspace or state.empty_workspace()
+        module = _page_for(pathname)
+        if module is None:
+            return [components.page("Page not found", f"There is no page at {pathname}.",
+                                            dcc.Link("Go to the overview", href="/"))]
+        fmt = (prefs or {}).get("image_format", "png")
+        mirror = dcc.Store(id=module.WORKSPACE, data=workspace)
+        try:
+            return [mirror, _with_image_format(module.layout(workspace, prefs), fmt)]
+        except Exception as exc:  # never break the shell
+            return [mirror, components.page(module.NAME, state.one_line(exc))]
+
+    app.clientside_callback(_UPLOAD_CHECK_JS, Output("mh-upload-checked", "data"),
+                            Input("mh-upload", "contents"), State("mh-upload", "filename"),
+                            State("mh-config", "data"), prevent_initial_call=True)
+    for module in PAGES:
+        module.register(app)
+    return app
+
+
+logging.getLogger("werkzeug").setLevel(logging.WARNING)
+app = create_app()
+server = app.server

@@ -1,0 +1,123 @@
+"""Mode map page: which frequencies carry C_v or S at each temperature; Planck occupation explorer."""
+
+from __future__ import annotations
+
+import numpy as np
+import plotly.graph_objects as go
+from dash import Input, Output, dcc, html
+
+from .. import components as c
+from .. import state
+
+WORKSPACE = "mm-workspace"
+PATH = "/modes"
+NAME = "Mode map"
+BINS = 160
+SHARE_CHOICES = [{"label": "heat capacity C_v", "value": "heat_capacity_share"},
+                 {"label": "entropy S", "value": "entropy_share"}]
+#: Slider marks of the explorer temperature: log10(T/K).
+_MARKS = {np.log10(t): f"{t:g} K" for t in (1, 10, 100, 300, 1000, 3000)}
+
+
+def slider_temperature(position):
+    """Temperature [K] of a slider position (log10 scale), at least 1 K."""
+    return float(10 ** float(position if position is not None else np.log10(300.0)))
+
+
+def share_map(dataset, temperatures):
+    from thermo import models
+    t = np.asarray(temperatures, dtype=float)
+    return state.derived("share_map", dataset, lambda d: models.mode_share_map(d, t, bins=BINS),
+                         t.tobytes(), BINS)
+
+
+def heat_map_figure(dataset, temperatures, quantity):
+    data = share_map(dataset, temperatures)
+    label = "C_v" if quantity == "heat_capacity_share" else "S"
+    z = np.asarray(data[quantity], dtype=float) * 100.0
+    fig = c.figure("temperature T [K]", "frequency ν [THz]")
+    fig.add_trace(go.Heatmap(x=data["temperature_K"], y=data["frequency_thz"], z=z,
+                             colorscale=[[0, "#f7f4ea"], [0.35, "#e3b15c"], [0.7, "#b85b2c"], [1, "#3a1f3d"]],
+                             colorbar={"title": {"text": f"share of {label} [% per bin]"}},
+                             hovertemplate="T %{x:.4g} K<br>ν %{y:.3g} THz<br>%{z:.3g} %<extra></extra>"))
+    fig.update_layout(hovermode="closest")
+    return fig
+
+
+def explorer_figures(dataset, temperature):
+    """Cumulative share of C_v, occupation n(ν,T) and energy per mode at one temperature."""
+    from thermo import models
+    dos = state.load(dataset)
+    cumulative = share_map(dataset, np.array([temperature]))
+    edges = np.asarray(cumulative["bin_edges_thz"], dtype=float)[1:]
+    cum = c.figure("frequency ν [THz]", "cumulative share of C_v [%]")
+    cum.add_trace(go.Scatter(x=edges, y=100 * np.asarray(cumulative["cumulative_heat_capacity_share"])[:, 0],
+                             mode="lines", name=f"modes below ν, T = {temperature:.4g} K",
+                             line={"width": 2.4, "color": c.PALETTE[0]}, hovertemplate="%{y:.3g} %"))
+    cum.update_yaxes(range=[0, 101])
+    top = float(np.max(dos.input_frequency_thz))
+    nu = np.linspace(top / 400, top, 400)
+    occ = models.occupation_explorer(nu, np.array([temperature]))
+    planck = c.figure("frequency ν [THz]", "occupation n(ν, T) [1]")
+    planck.add_trace(go.Scatter(x=nu, y=np.asarray(occ["occupation"])[:, 0], mode="lines",
+                                name="Planck occupation n", line={"width": 2.4, "color": c.PALETTE[2]},
+                                hovertemplate="n = %{y:.4g}"))
+    planck.add_trace(go.Scatter(x=nu, y=np.asarray(occ["mean_energy_meV"])[:, 0], mode="lines",
+                                name="energy per mode hν(n+½) [meV]", yaxis="y2",
+                                line={"width": 2, "dash": "dash", "color": c.PALETTE[1]},
+                                hovertemplate="%{y:.4g} meV"))
+    planck.update_yaxes(type="log")
+    planck.update_layout(yaxis2={"title": {"text": "energy per mode [meV]"}, "overlaying": "y", "side": "right",
+                                 "showgrid": False})
+    return cum, planck
+
+
+def layout(workspace, prefs=None):
+    current = state.active(workspace)
+    return c.page(
+        "Mode map", "Each frequency's share of the heat capacity or entropy across temperature: soft modes "
+                    "dominate at low T, all modes count near the classical limit.",
+        c.active_note(current),
+        c.controls(c.radio("mm-quantity", SHARE_CHOICES, "heat_capacity_share", "Share of"),
+                   *c.temperature_fields("mm", 5, 1000, 5)),
+        c.messages_panel("mm-messages"),
+        c.graph("mm-map-graph", "Share of the chosen quantity per frequency bin (each column sums to 100 %)"),
+        html.H2("At one temperature"),
+        c.field("Temperature (log scale)", dcc.Slider(id="mm-temperature", min=0, max=np.log10(3000.0), step=0.01,
+                                                      value=np.log10(300.0), marks=_MARKS,
+                                                      tooltip={"placement": "bottom"}), "mm-temperature"),
+        html.P(id="mm-temperature-text", className="mh-active-note"),
+        html.Div([c.graph("mm-cumulative-graph", "Cumulative share of C_v from modes below each frequency"),
+                  c.graph("mm-planck-graph", "Planck occupation and mean energy per mode")], className="mh-grid"),
+    )
+
+
+def register(app):
+    @app.callback(Output("mm-map-graph", "figure"), Output("mm-messages", "children"),
+                  Input(WORKSPACE, "data"), Input("mm-quantity", "value"), Input("mm-tmin", "value"),
+                  Input("mm-tmax", "value"), Input("mm-step", "value"))
+    def draw_map(workspace, quantity, t_min, t_max, step):
+        current = state.active(workspace)
+        if current is None:
+            return c.message_figure("no dataset loaded"), []
+        try:
+            temperatures = state.temperature_grid(t_min, t_max, step)
+            return heat_map_figure(current, temperatures, quantity), []
+        except Exception as exc:  # message, nothing raised
+            return c.message_figure("nothing to show"), c.message_items([("error", state.one_line(exc))])
+
+    @app.callback(Output("mm-cumulative-graph", "figure"), Output("mm-planck-graph", "figure"),
+                  Output("mm-temperature-text", "children"),
+                  Input(WORKSPACE, "data"), Input("mm-temperature", "value"))
+    def draw_explorer(workspace, position):
+        current = state.active(workspace)
+        temperature = slider_temperature(position)
+        text = f"T = {temperature:.4g} K"
+        if current is None:
+            blank = c.message_figure("no dataset loaded")
+            return blank, blank, text
+        try:
+            return (*explorer_figures(current, temperature), text)
+        except Exception as exc:  # message, nothing raised
+            blank = c.message_figure(state.one_line(exc))
+            return blank, blank, text
