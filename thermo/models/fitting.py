@@ -126,7 +126,7 @@ def least_squares_fit(model, temperatures, values, initial, sigma=None, absolute
 
 def _initial_theta(model, t, y, s, modes):
     """Best θ on a logarithmic scan 1 K ... 1e5 K (a safe start)."""
-    grid = np.geomspace(1.0, 1e5, 121)
+    grid = np.geomspace(1.0, 1e5, 41)
     cost = [np.sum(((model(t, th, modes) - y) / s) ** 2) for th in grid]
     return float(grid[int(np.argmin(cost))])
 
