@@ -94,18 +94,20 @@ def layout(workspace, prefs=None):
     )
 
 
+def draw(workspace, ids, reference, quantity, t_min, t_max, step, per):
+    try:
+        temperatures = state.temperature_grid(t_min, t_max, step)
+        over, diff, table = comparison(workspace or state.empty_workspace(), ids, reference, quantity,
+                                       temperatures, per)
+        return over, diff, table, []
+    except Exception as exc:  # message, nothing raised
+        blank = c.message_figure("nothing to compare for these settings")
+        return blank, blank, [], c.message_items([("error", state.one_line(exc))])
+
+
 def register(app):
-    @app.callback(Output("cmp-overlay-graph", "figure"), Output("cmp-diff-graph", "figure"),
+    app.callback(Output("cmp-overlay-graph", "figure"), Output("cmp-diff-graph", "figure"),
                   Output("cmp-table", "children"), Output("cmp-messages", "children"),
                   Input(WORKSPACE, "data"), Input("cmp-datasets", "value"), Input("cmp-reference", "value"),
                   Input("cmp-quantity", "value"), Input("cmp-tmin", "value"), Input("cmp-tmax", "value"),
-                  Input("cmp-step", "value"), Input("cmp-per", "value"))
-    def draw(workspace, ids, reference, quantity, t_min, t_max, step, per):
-        try:
-            temperatures = state.temperature_grid(t_min, t_max, step)
-            over, diff, table = comparison(workspace or state.empty_workspace(), ids, reference, quantity,
-                                           temperatures, per)
-            return over, diff, table, []
-        except Exception as exc:  # message, nothing raised
-            blank = c.message_figure("nothing to compare for these settings")
-            return blank, blank, [], c.message_items([("error", state.one_line(exc))])
+                  Input("cmp-step", "value"), Input("cmp-per", "value"))(draw)

@@ -60,36 +60,40 @@ def layout(workspace, prefs=None):
     )
 
 
-def register(app):
-    @app.callback(Output("ex-preview", "children"), Output("ex-messages", "children"),
-                  Input(WORKSPACE, "data"), Input("ex-temperatures", "value"), Input("ex-per", "value"),
-                  Input("ex-columns", "value"))
-    def preview(workspace, spec, per, columns):
-        current = state.active(workspace)
-        if current is None:
-            return "", [c.no_data_note()]
-        try:
-            _, content = export_bytes(current, spec, per, columns, "csv")
-        except Exception as exc:  # shown, not raised
-            return "", c.message_items([("error", state.one_line(exc))])
-        lines = content.decode("utf-8").splitlines()
-        return "\n".join(lines[:40] + (["…"] if len(lines) > 40 else [])), []
+def preview(workspace, spec, per, columns):
+    current = state.active(workspace)
+    if current is None:
+        return "", [c.no_data_note()]
+    try:
+        _, content = export_bytes(current, spec, per, columns, "csv")
+    except Exception as exc:  # shown, not raised
+        return "", c.message_items([("error", state.one_line(exc))])
+    lines = content.decode("utf-8").splitlines()
+    return "\n".join(lines[:40] + (["…"] if len(lines) > 40 else [])), []
 
-    @app.callback(Output("ex-download", "data"), Output("ex-messages", "children", allow_duplicate=True),
+
+def download(_clicks, workspace, spec, per, columns, fmt):
+    current = state.active(workspace)
+    if current is None:
+        return no_update, [c.no_data_note()]
+    try:
+        name, content = export_bytes(current, spec, per, columns, fmt)
+    except Exception as exc:  # shown, not raised
+        return no_update, c.message_items([("error", state.one_line(exc))])
+    return dcc.send_bytes(content, name), c.message_items([("info", f"prepared {name}")])
+
+
+def image_format(fmt, prefs):
+    return {**(prefs or {}), "image_format": fmt if fmt in ("png", "svg") else "png"}
+
+
+def register(app):
+    app.callback(Output("ex-preview", "children"), Output("ex-messages", "children"),
+                  Input(WORKSPACE, "data"), Input("ex-temperatures", "value"), Input("ex-per", "value"),
+                  Input("ex-columns", "value"))(preview)
+    app.callback(Output("ex-download", "data"), Output("ex-messages", "children", allow_duplicate=True),
                   Input("ex-download-btn", "n_clicks"), State(WORKSPACE, "data"),
                   State("ex-temperatures", "value"), State("ex-per", "value"), State("ex-columns", "value"),
-                  State("ex-format", "value"), prevent_initial_call=True)
-    def download(_clicks, workspace, spec, per, columns, fmt):
-        current = state.active(workspace)
-        if current is None:
-            return no_update, [c.no_data_note()]
-        try:
-            name, content = export_bytes(current, spec, per, columns, fmt)
-        except Exception as exc:  # shown, not raised
-            return no_update, c.message_items([("error", state.one_line(exc))])
-        return dcc.send_bytes(content, name), c.message_items([("info", f"prepared {name}")])
-
-    @app.callback(Output("mh-prefs", "data"), Input("ex-image", "value"), State("mh-prefs", "data"),
-                  prevent_initial_call=True)
-    def image_format(fmt, prefs):
-        return {**(prefs or {}), "image_format": fmt if fmt in ("png", "svg") else "png"}
+                  State("ex-format", "value"), prevent_initial_call=True)(download)
+    app.callback(Output("mh-prefs", "data"), Input("ex-image", "value"), State("mh-prefs", "data"),
+                  prevent_initial_call=True)(image_format)

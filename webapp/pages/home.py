@@ -32,20 +32,22 @@ def layout(workspace, prefs=None):
         ], className="mh-split mh-split-right"))
 
 
+def summary(workspace):
+    current = state.active(workspace)
+    if current is None:
+        return c.no_data_note(), c.message_figure("no dataset loaded")
+    try:
+        dos = state.load(current)
+        keys = thermodynamics.key_numbers(current, "formula")
+        facts = html.P([html.Strong(current["name"], className="mh-dataset-name"),
+                        f" — {dos.atoms} atom(s) per formula unit, read in {dos.source.get('freq_unit')}, "
+                        f"{len((workspace or {}).get('datasets', []))} dataset(s) loaded"])
+        notes = c.message_items([("warn", w) for w in dos.warnings])
+        return [facts, keys, *notes], spectrum.dos_figure(dos)
+    except Exception as exc:  # message, nothing raised
+        return c.message_items([("error", state.one_line(exc))]), c.message_figure("cannot draw")
+
+
 def register(app):
-    @app.callback(Output("home-summary", "children"), Output("home-dos-graph", "figure"),
-                  Input(WORKSPACE, "data"))
-    def summary(workspace):
-        current = state.active(workspace)
-        if current is None:
-            return c.no_data_note(), c.message_figure("no dataset loaded")
-        try:
-            dos = state.load(current)
-            keys = thermodynamics.key_numbers(current, "formula")
-            facts = html.P([html.Strong(current["name"], className="mh-dataset-name"),
-                            f" — {dos.atoms} atom(s) per formula unit, read in {dos.source.get('freq_unit')}, "
-                            f"{len((workspace or {}).get('datasets', []))} dataset(s) loaded"])
-            notes = c.message_items([("warn", w) for w in dos.warnings])
-            return [facts, keys, *notes], spectrum.dos_figure(dos)
-        except Exception as exc:  # message, nothing raised
-            return c.message_items([("error", state.one_line(exc))]), c.message_figure("cannot draw")
+    app.callback(Output("home-summary", "children"), Output("home-dos-graph", "figure"),
+                  Input(WORKSPACE, "data"))(summary)

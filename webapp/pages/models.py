@@ -138,36 +138,39 @@ def layout(workspace, prefs=None):
     )
 
 
+def choices(workspace, einstein_key, debye_key):
+    current = state.active(workspace)
+    if current is None:
+        return [], None, [], None, c.no_data_note()
+    try:
+        e_opts, d_opts = theta_options(current, "einstein"), theta_options(current, "debye")
+    except Exception as exc:  # message, nothing raised
+        return [], None, [], None, c.message_items([("error", state.one_line(exc))])
+    pick = (lambda opts, key: key if key in [o["value"] for o in opts]
+            else (opts[0]["value"] if opts else None))
+    return e_opts, pick(e_opts, einstein_key), d_opts, pick(d_opts, debye_key), theta_table(current)
+
+
+def draw(workspace, einstein_key, debye_key, optical, t_min, t_max, step, per, residual_index):
+    current = state.active(workspace)
+    if current is None:
+        blank = c.message_figure("no dataset loaded")
+        return blank, blank, blank, blank, []
+    try:
+        temperatures = state.temperature_grid(t_min, t_max, step)
+        return (*figures(current, temperatures, per, einstein_key, debye_key, optical,
+                         int(residual_index or 1)), [])
+    except Exception as exc:  # message, nothing raised
+        blank = c.message_figure("nothing to show for these settings")
+        return blank, blank, blank, blank, c.message_items([("error", state.one_line(exc))])
+
+
 def register(app):
-    @app.callback(Output("mod-einstein", "options"), Output("mod-einstein", "value"),
+    app.callback(Output("mod-einstein", "options"), Output("mod-einstein", "value"),
                   Output("mod-debye", "options"), Output("mod-debye", "value"),
                   Output("mod-theta-table", "children"),
-                  Input(WORKSPACE, "data"), State("mod-einstein", "value"), State("mod-debye", "value"))
-    def choices(workspace, einstein_key, debye_key):
-        current = state.active(workspace)
-        if current is None:
-            return [], None, [], None, c.no_data_note()
-        try:
-            e_opts, d_opts = theta_options(current, "einstein"), theta_options(current, "debye")
-        except Exception as exc:  # message, nothing raised
-            return [], None, [], None, c.message_items([("error", state.one_line(exc))])
-        pick = (lambda opts, key: key if key in [o["value"] for o in opts]
-                else (opts[0]["value"] if opts else None))
-        return e_opts, pick(e_opts, einstein_key), d_opts, pick(d_opts, debye_key), theta_table(current)
-
-    @app.callback(*[Output(g, "figure") for g in _GRAPHS], Output("mod-messages", "children"),
+                  Input(WORKSPACE, "data"), State("mod-einstein", "value"), State("mod-debye", "value"))(choices)
+    app.callback(*[Output(g, "figure") for g in _GRAPHS], Output("mod-messages", "children"),
                   Input(WORKSPACE, "data"), Input("mod-einstein", "value"), Input("mod-debye", "value"),
                   Input("mod-optical", "value"), Input("mod-tmin", "value"), Input("mod-tmax", "value"),
-                  Input("mod-step", "value"), Input("mod-per", "value"), Input("mod-residual", "value"))
-    def draw(workspace, einstein_key, debye_key, optical, t_min, t_max, step, per, residual_index):
-        current = state.active(workspace)
-        if current is None:
-            blank = c.message_figure("no dataset loaded")
-            return blank, blank, blank, blank, []
-        try:
-            temperatures = state.temperature_grid(t_min, t_max, step)
-            return (*figures(current, temperatures, per, einstein_key, debye_key, optical,
-                             int(residual_index or 1)), [])
-        except Exception as exc:  # message, nothing raised
-            blank = c.message_figure("nothing to show for these settings")
-            return blank, blank, blank, blank, c.message_items([("error", state.one_line(exc))])
+                  Input("mod-step", "value"), Input("mod-per", "value"), Input("mod-residual", "value"))(draw)

@@ -41,6 +41,8 @@ def heat_map_figure(dataset, temperatures, quantity):
                              colorbar={"title": {"text": f"share of {label} [% per bin]"}},
                              hovertemplate="T %{x:.4g} K<br>ν %{y:.3g} THz<br>%{z:.3g} %<extra></extra>"))
     fig.update_layout(hovermode="closest")
+    if float(np.min(data["temperature_K"])) > 0:
+        fig.update_xaxes(type="log")
     return fig
 
 
@@ -66,9 +68,9 @@ def explorer_figures(dataset, temperature):
                                 name="energy per mode hν(n+½) [meV]", yaxis="y2",
                                 line={"width": 2, "dash": "dash", "color": c.PALETTE[1]},
                                 hovertemplate="%{y:.4g} meV"))
-    planck.update_yaxes(type="log")
-    planck.update_layout(yaxis2={"title": {"text": "energy per mode [meV]"}, "overlaying": "y", "side": "right",
-                                 "showgrid": False})
+    planck.update_layout(yaxis={"type": "log"},
+                         yaxis2={"title": {"text": "energy per mode [meV]"}, "overlaying": "y", "side": "right",
+                                 "showgrid": False, "type": "linear", "rangemode": "tozero"})
     return cum, planck
 
 
@@ -85,39 +87,42 @@ def layout(workspace, prefs=None):
         html.H2("At one temperature"),
         c.field("Temperature (log scale)", dcc.Slider(id="mm-temperature", min=0, max=np.log10(3000.0), step=0.01,
                                                       value=np.log10(300.0), marks=_MARKS,
-                                                      tooltip={"placement": "bottom"}), "mm-temperature"),
+                                                      allow_direct_input=False), "mm-temperature"),
         html.P(id="mm-temperature-text", className="mh-active-note"),
         html.Div([c.graph("mm-cumulative-graph", "Cumulative share of C_v from modes below each frequency"),
                   c.graph("mm-planck-graph", "Planck occupation and mean energy per mode")], className="mh-grid"),
     )
 
 
-def register(app):
-    @app.callback(Output("mm-map-graph", "figure"), Output("mm-messages", "children"),
-                  Input(WORKSPACE, "data"), Input("mm-quantity", "value"), Input("mm-tmin", "value"),
-                  Input("mm-tmax", "value"), Input("mm-step", "value"))
-    def draw_map(workspace, quantity, t_min, t_max, step):
-        current = state.active(workspace)
-        if current is None:
-            return c.message_figure("no dataset loaded"), []
-        try:
-            temperatures = state.temperature_grid(t_min, t_max, step)
-            return heat_map_figure(current, temperatures, quantity), []
-        except Exception as exc:  # message, nothing raised
-            return c.message_figure("nothing to show"), c.message_items([("error", state.one_line(exc))])
+def draw_map(workspace, quantity, t_min, t_max, step):
+    current = state.active(workspace)
+    if current is None:
+        return c.message_figure("no dataset loaded"), []
+    try:
+        temperatures = state.temperature_grid(t_min, t_max, step)
+        return heat_map_figure(current, temperatures, quantity), []
+    except Exception as exc:  # message, nothing raised
+        return c.message_figure("nothing to show"), c.message_items([("error", state.one_line(exc))])
 
-    @app.callback(Output("mm-cumulative-graph", "figure"), Output("mm-planck-graph", "figure"),
+
+def draw_explorer(workspace, position):
+    current = state.active(workspace)
+    temperature = slider_temperature(position)
+    text = f"T = {temperature:.4g} K"
+    if current is None:
+        blank = c.message_figure("no dataset loaded")
+        return blank, blank, text
+    try:
+        return (*explorer_figures(current, temperature), text)
+    except Exception as exc:  # message, nothing raised
+        blank = c.message_figure(state.one_line(exc))
+        return blank, blank, text
+
+
+def register(app):
+    app.callback(Output("mm-map-graph", "figure"), Output("mm-messages", "children"),
+                  Input(WORKSPACE, "data"), Input("mm-quantity", "value"), Input("mm-tmin", "value"),
+                  Input("mm-tmax", "value"), Input("mm-step", "value"))(draw_map)
+    app.callback(Output("mm-cumulative-graph", "figure"), Output("mm-planck-graph", "figure"),
                   Output("mm-temperature-text", "children"),
-                  Input(WORKSPACE, "data"), Input("mm-temperature", "value"))
-    def draw_explorer(workspace, position):
-        current = state.active(workspace)
-        temperature = slider_temperature(position)
-        text = f"T = {temperature:.4g} K"
-        if current is None:
-            blank = c.message_figure("no dataset loaded")
-            return blank, blank, text
-        try:
-            return (*explorer_figures(current, temperature), text)
-        except Exception as exc:  # message, nothing raised
-            blank = c.message_figure(state.one_line(exc))
-            return blank, blank, text
+                  Input(WORKSPACE, "data"), Input("mm-temperature", "value"))(draw_explorer)

@@ -220,7 +220,6 @@ def layout(workspace, prefs=None):
                           html.Button("Rename", id="sp-rename-btn", className="mh-button"),
                           html.Button("Remove", id="sp-remove-btn", className="mh-button mh-danger")],
                          className="mh-inline"),
-                html.Div(id="sp-list"),
                 html.H2("Reading options"),
                 c.dropdown("sp-unit", unit_options(current), values["sp-unit"], "Frequency unit"),
                 c.number("sp-atoms", values["sp-atoms"], "Atoms per formula unit", step=1, min_value=1,
@@ -240,6 +239,8 @@ def layout(workspace, prefs=None):
                                             "shaded: the fitted window"),
                 html.H2("Checks"),
                 c.messages_panel("sp-warnings"),
+                html.H2("Loaded datasets"),
+                html.Div(id="sp-list"),
             ], className="mh-content"),
         ], className="mh-split"))
 
@@ -261,46 +262,49 @@ def _list_table(workspace):
 
 # ---------------------------------------------------------------- callbacks
 
+def edit(upload, selected, unit, atoms, formula, negative, lowmode, lo, hi, _r, _x, workspace,
+         rename_text, config):
+    trigger = ctx.triggered_id
+    values = dict(zip(_CONTROL_IDS, (unit, atoms, formula, negative, lowmode, lo, hi)))
+    if upload:
+        upload = {**upload, "max_bytes": (config or {}).get("max_upload_bytes", 10 ** 12)}
+    try:
+        new, notes = apply_edit(workspace, trigger, values, upload, rename_text, selected)
+    except Exception as exc:  # last line of defence: message, nothing raised
+        new, notes = workspace, [("error", state.one_line(exc))]
+    current = state.active(new)
+    shown = control_values(new)
+    # the page copy is always sent so that the plots below draw on the first call
+    return (new, new if new is not workspace else no_update, _dataset_options(new),
+            current and current["id"], unit_options(current), *[shown[i] for i in _CONTROL_IDS],
+            current["name"] if current else "",
+            no_update if trigger in (None, WORKSPACE) else c.message_items(notes))
+
+
+def draw(workspace):
+    listing = _list_table(workspace)
+    current = state.active(workspace)
+    if current is None:
+        blank = c.message_figure("no dataset loaded")
+        return blank, blank, [], listing
+    try:
+        dos = state.load(current)
+        return dos_figure(dos), reduced_figure(dos), c.message_items(warning_items(dos)), listing
+    except Exception as exc:  # the page stays usable
+        blank = c.message_figure("cannot draw this dataset")
+        return blank, blank, c.message_items([("error", state.one_line(exc))]), listing
+
+
 def register(app):
     control_outputs = [Output(i, "value") for i in _CONTROL_IDS]
-
-    @app.callback(
+    app.callback(
         Output(WORKSPACE, "data"), Output("mh-workspace", "data"), Output("sp-dataset", "options"), Output("sp-dataset", "value"),
         Output("sp-unit", "options"), *control_outputs, Output("sp-rename", "value"),
         Output("sp-messages", "children"),
         Input("mh-upload-checked", "data"), Input("sp-dataset", "value"),
         *[Input(i, "value") for i in _CONTROL_IDS],
         Input("sp-rename-btn", "n_clicks"), Input("sp-remove-btn", "n_clicks"),
-        Input(WORKSPACE, "data"), State("sp-rename", "value"), State("mh-config", "data"))
-    def edit(upload, selected, unit, atoms, formula, negative, lowmode, lo, hi, _r, _x, workspace,
-             rename_text, config):
-        trigger = ctx.triggered_id
-        values = dict(zip(_CONTROL_IDS, (unit, atoms, formula, negative, lowmode, lo, hi)))
-        if upload:
-            upload = {**upload, "max_bytes": (config or {}).get("max_upload_bytes", 10 ** 12)}
-        try:
-            new, notes = apply_edit(workspace, trigger, values, upload, rename_text, selected)
-        except Exception as exc:  # last line of defence: message, nothing raised
-            new, notes = workspace, [("error", state.one_line(exc))]
-        current = state.active(new)
-        shown = control_values(new)
-        # the page copy is always sent so that the plots below draw on the first call
-        return (new, new if new is not workspace else no_update, _dataset_options(new),
-                current and current["id"], unit_options(current), *[shown[i] for i in _CONTROL_IDS],
-                current["name"] if current else "", c.message_items(notes) or no_update)
-
-    @app.callback(Output("sp-dos-graph", "figure"), Output("sp-reduced-graph", "figure"),
+        Input(WORKSPACE, "data"), State("sp-rename", "value"), State("mh-config", "data"))(edit)
+    app.callback(Output("sp-dos-graph", "figure"), Output("sp-reduced-graph", "figure"),
                   Output("sp-warnings", "children"), Output("sp-list", "children"),
-                  Input(WORKSPACE, "data"))
-    def draw(workspace):
-        listing = _list_table(workspace)
-        current = state.active(workspace)
-        if current is None:
-            blank = c.message_figure("no dataset loaded")
-            return blank, blank, [], listing
-        try:
-            dos = state.load(current)
-            return dos_figure(dos), reduced_figure(dos), c.message_items(warning_items(dos)), listing
-        except Exception as exc:  # the page stays usable
-            blank = c.message_figure("cannot draw this dataset")
-            return blank, blank, c.message_items([("error", state.one_line(exc))]), listing
+                  Input(WORKSPACE, "data"))(draw)

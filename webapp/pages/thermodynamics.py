@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 import plotly.graph_objects as go
-from dash import Input, Output, dash_table, dcc, html
+from dash import Input, Output, dcc, html
 
 from .. import components as c
 from .. import state
@@ -44,12 +44,11 @@ def figures(dataset, temperatures, per, log_t):
             fig.update_xaxes(type="log")
         figs.append(fig)
     step = max(1, len(df) // 12)
-    preview = df.iloc[::step].round(6)
-    table = dash_table.DataTable(
-        data=preview.to_dict("records"),
-        columns=[{"name": state.COLUMN_LABELS[col], "id": col} for col in columns],
-        style_table={"overflowX": "auto"}, style_cell={"fontFamily": c.FONT, "padding": "4px 8px"},
-        style_header={"fontWeight": "600", "backgroundColor": "#eef3f4"})
+    preview = df.iloc[::step]
+    table = html.Table([html.Thead(html.Tr([html.Th(state.COLUMN_LABELS[col]) for col in columns])),
+                        html.Tbody([html.Tr([html.Td(f"{v:.6g}") for v in row])
+                                    for row in preview.itertuples(index=False)])],
+                       className="mh-table mh-numbers")
     return figs, key_numbers(dataset, per), table
 
 
@@ -74,20 +73,22 @@ def layout(workspace, prefs=None):
     )
 
 
+def draw(workspace, t_min, t_max, step, per, log_t):
+    current = state.active(workspace)
+    if current is None:
+        blank = c.message_figure("no dataset loaded")
+        return blank, blank, blank, blank, [], [], []
+    try:
+        temperatures = state.temperature_grid(t_min, t_max, step)
+        figs, keys, table = figures(current, temperatures, per, bool(log_t))
+        return (*figs, keys, table, [])
+    except Exception as exc:  # message instead of a broken page
+        blank = c.message_figure("nothing to show for these settings")
+        return (blank,) * 4 + ([], [], c.message_items([("error", state.one_line(exc))]))
+
+
 def register(app):
-    @app.callback(*[Output(g, "figure") for g in _GRAPHS], Output("th-keys", "children"),
+    app.callback(*[Output(g, "figure") for g in _GRAPHS], Output("th-keys", "children"),
                   Output("th-table", "children"), Output("th-messages", "children"),
                   Input(WORKSPACE, "data"), Input("th-tmin", "value"), Input("th-tmax", "value"),
-                  Input("th-step", "value"), Input("th-per", "value"), Input("th-logt", "value"))
-    def draw(workspace, t_min, t_max, step, per, log_t):
-        current = state.active(workspace)
-        if current is None:
-            blank = c.message_figure("no dataset loaded")
-            return blank, blank, blank, blank, [], [], []
-        try:
-            temperatures = state.temperature_grid(t_min, t_max, step)
-            figs, keys, table = figures(current, temperatures, per, bool(log_t))
-            return (*figs, keys, table, [])
-        except Exception as exc:  # message instead of a broken page
-            blank = c.message_figure("nothing to show for these settings")
-            return (blank,) * 4 + ([], [], c.message_items([("error", state.one_line(exc))]))
+                  Input("th-step", "value"), Input("th-per", "value"), Input("th-logt", "value"))(draw)

@@ -1,0 +1,207 @@
+"""Callback logic of each dashboard page, called directly (no browser).
+
+Demo data is invented; reference values: CODATA constants via
+scipy.constants, and the thermo command line's own output for exports.
+"""
+
+import base64
+import io
+import json
+import subprocess
+import sys
+
+import numpy as np
+import openpyxl
+import pytest
+from scipy import constants as sc
+
+from thermo import load_dos, tabulate
+from webapp import app as webapp_app
+from webapp import state
+from webapp.pages import PAGES, compare, export, home, modemap, models, spectrum, thermodynamics
+
+PLAIN = "# frequency (THz) dos\n" + "\n".join(f"{a} {9 * a * a / 125}" for a in np.linspace(0, 5, 101)) + "\n"
+GARBAGE = "# frequency (THz) dos\n0 0\n1 0.1\n2 banana\n"
+
+
+def url(text):
+    return "data:text/plain;base64," + base64.b64encode(text.encode()).decode()
+
+
+@pytest.fixture
+def ws():
+    new, _ = state.add_uploads(state.empty_workspace(), [url(PLAIN)], ["debye.dat"], 10 ** 6)
+    return new
+
+
+@pytest.fixture(scope="module")
+def demo():
+    return state.demo_workspace()
+
+
+def controls(ws, **change):
+    values = spectrum.control_values(ws)
+    values.update(change)
+    return values
+
+
+def test_every_page_lays_out_with_demo_and_with_nothing(demo):
+    for module in PAGES:
+        assert module.layout(demo) is not None
+        assert module.layout(state.empty_workspace()) is not None
+    paths = [m.PATH for m in PAGES]
+    assert len(set(paths)) == len(paths) and "/" in paths
+
+
+def test_server_serves_layout_with_demo_datasets():
+    client = webapp_app.server.test_client()
+    assert client.get("/thermodynamics").status_code == 200
+    layout = json.loads(client.get("/_dash-layout").data)
+    text = json.dumps(layout)
+    assert "mh-workspace" in text and "springium_fcc.dat" in text
+
+
+def test_spectrum_garbage_upload_keeps_active_dataset(ws):
+    upload = {"files": [{"name": "bad.dat", "contents": url(GARBAGE)}], "refused": [], "max_bytes": 10 ** 6}
+    new, notes = spectrum.apply_edit(ws, "mh-upload-checked", controls(ws), upload)
+    assert new["active"] == ws["active"] and len(new["datasets"]) == 1
+    assert notes[0][0] == "error" and "line 4" in notes[0][1]
+
+
+def test_spectrum_refused_by_size_is_reported(ws):
+    upload = {"files": [], "refused": ["huge.dat: the file is 25.0 MB; the upload limit is 20 MB"]}
+    new, notes = spectrum.apply_edit(ws, "mh-upload-checked", controls(ws), upload)
+    assert new["datasets"] == ws["datasets"] and notes == [("error", upload["refused"][0])]
+
+
+def test_spectrum_unit_change_and_bad_window(ws):
+    new, notes = spectrum.apply_edit(ws, "sp-unit", controls(ws, **{"sp-unit": "cm-1"}))
+    assert notes == [] and state.active(new)["options"]["freq_unit"] == "cm-1"
+    # 1 cm-1 = c·100 Hz (CODATA via scipy.constants): the top frequency 5 cm-1 in THz
+    top = state.load(state.active(new)).input_frequency_thz[-1]
+    assert top == pytest.approx(5 * sc.c * 100 / 1e12, rel=1e-9)
+    bad, notes = spectrum.apply_edit(ws, "sp-low-hi", controls(ws, **{"sp-lowmode": "manual", "sp-low-lo": 2,
+                                                                     "sp-low-hi": 1}))
+    assert bad is ws and notes[0][0] == "error" and "window" in notes[0][1]
+    bad, notes = spectrum.apply_edit(ws, "sp-atoms", controls(ws, **{"sp-atoms": 1.5}))
+    assert bad is ws and "whole number" in notes[0][1]
+
+
+def test_spectrum_manual_window_round_trips_to_controls(ws):
+    new, notes = spectrum.apply_edit(ws, "sp-low-hi", controls(ws, **{"sp-lowmode": "manual", "sp-low-lo": 0.2,
+                                                                     "sp-low-hi": 1.0}))
+    assert notes == []
+    shown = spectrum.control_values(new)
+    assert (shown["sp-lowmode"], shown["sp-low-lo"], shown["sp-low-hi"]) == ("manual", 0.2, 1.0)
+    assert state.load(state.active(new)).low_frequency.window_thz == pytest.approx((0.2, 1.0), abs=0.06)
+
+
+def test_spectrum_rename_remove(ws):
+    new, _ = spectrum.apply_edit(ws, "sp-rename-btn", controls(ws), rename_text="cell 4x4x4")
+    assert state.active(new)["name"] == "cell 4x4x4"
+    gone, notes = spectrum.apply_edit(new, "sp-remove-btn", controls(new))
+    assert gone["datasets"] == [] and notes[0][0] == "info"
+    assert spectrum.apply_edit(gone, "sp-unit", controls(gone)) == (gone, [])
+
+
+def test_spectrum_draw_shows_imaginary_share_of_unstable_demo(demo):
+    soft = next(d for d in demo["datasets"] if "soft" in d["name"])
+    dos_fig, red_fig, warnings, _ = spectrum.draw(state.activated(demo, soft["id"]))
+    assert "THz" in dos_fig.layout.xaxis.title.text and "states/THz" in dos_fig.layout.yaxis.title.text
+    share = state.load(soft).source["negative_mode_fraction"]
+    assert share > 0
+    assert any(f"{100 * share:.3g} %" in w.children for w in warnings)
+    assert any(t.name.startswith("partial") for t in dos_fig.data)
+
+
+def test_thermodynamics_units_follow_the_basis(ws):
+    cv_f = thermodynamics.draw(ws, 0, 500, 50, "formula", [])[0]
+    cv_a = thermodynamics.draw(ws, 0, 500, 50, "atom", [])[0]
+    y_f, y_a = np.asarray(cv_f.data[0].y), np.asarray(cv_a.data[0].y)
+    # per atom in k_B: divide molar values by n·R (n = 1 here; R from scipy.constants)
+    np.testing.assert_allclose(y_a, y_f / sc.R, rtol=1e-12)
+    assert "k_B/atom" in cv_a.layout.yaxis.title.text and "J/(mol·K)" in cv_f.layout.yaxis.title.text
+
+
+def test_thermodynamics_bad_settings_give_message_not_exception(ws):
+    out = thermodynamics.draw(ws, 100, 0, 5, "formula", ["log"])
+    assert "temperature" in out[-1][0].children
+    out = thermodynamics.draw(ws, 0, 100, 5, "gram", [])   # no formula set
+    assert "formula" in out[-1][0].children
+    assert thermodynamics.draw(None, 0, 100, 5, "formula", [])[-1] == []
+
+
+def cli_csv(path, spec, per):
+    run = subprocess.run([sys.executable, "-m", "thermo", "table", str(path), "--temperatures", spec,
+                          "--per", per, "--format", "csv"], capture_output=True, text=True, check=True)
+    return run.stdout
+
+
+def without_timestamp(text):
+    return [ln for ln in text.splitlines() if not ln.startswith("# created_utc:")]
+
+
+@pytest.mark.parametrize("per", ["formula", "atom"])
+def test_export_csv_equals_command_line_output(tmp_path, ws, per):
+    path = tmp_path / "debye.dat"
+    path.write_text(PLAIN)
+    name, content = export.export_bytes(state.active(ws), "0:600:20", per, [1, 2, 3, 4], "csv")
+    assert name == f"debye-{per}.csv"
+    assert without_timestamp(content.decode()) == without_timestamp(cli_csv(path, "0:600:20", per))
+
+
+def test_export_xlsx_and_json_hold_the_tabulated_values(ws):
+    t = np.arange(0.0, 301.0, 50.0)
+    ref = tabulate(load_dos(PLAIN.encode(), name="debye.dat"), t, per="formula")
+    _, js = export.export_bytes(state.active(ws), "0:300:50", "formula", [1, 4], "json")
+    obj = json.loads(js)
+    assert obj["columns"] == [ref.columns[0], ref.columns[1], ref.columns[4]]
+    np.testing.assert_array_equal(np.array(obj["data"]), ref.iloc[:, [0, 1, 4]].to_numpy())
+    assert obj["provenance"]["input"] == "debye.dat"
+    _, xl = export.export_bytes(state.active(ws), "0:300:50", "formula", [1, 2, 3, 4], "xlsx")
+    sheet = openpyxl.load_workbook(io.BytesIO(xl))["table"]
+    rows = list(sheet.values)
+    assert list(rows[0]) == list(ref.columns)
+    # the workbook cell text keeps about 15-16 significant digits
+    np.testing.assert_allclose(np.array(rows[1:], dtype=float), ref.to_numpy(), rtol=1e-14, atol=0)
+
+
+def test_export_preview_and_errors(ws):
+    text, msgs = export.preview(ws, "0:100:10", "formula", [1, 2, 3, 4])
+    assert text.startswith("# tool: modeheat") and msgs == []
+    text, msgs = export.preview(ws, "ten to twenty", "formula", [1])
+    assert text == "" and "temperatures" in msgs[0].children
+    assert export.image_format("svg", {"image_format": "png"}) == {"image_format": "svg"}
+
+
+def test_compare_difference_equals_table_difference(demo):
+    fcc = next(d for d in demo["datasets"] if d["name"] == "springium_fcc.dat")
+    md = next(d for d in demo["datasets"] if d["name"] == "springium_md.csv")
+    t = np.arange(0.0, 501.0, 25.0)
+    over, diff, table = compare.comparison(demo, [fcc["id"], md["id"]], fcc["id"], 2, t, "formula")
+    expected = state.table(md, t, "formula").iloc[:, 2] - state.table(fcc, t, "formula").iloc[:, 2]
+    np.testing.assert_allclose(np.asarray(diff.data[0].y), expected.to_numpy(), rtol=1e-12, atol=1e-12)
+    assert len(over.data) == 2
+    _, self_diff, _ = compare.comparison(demo, [fcc["id"]], fcc["id"], "dos", t, "formula")
+    assert len(self_diff.data) == 0
+
+
+def test_models_and_mode_map_draw_with_demo(demo):
+    pytest.importorskip("thermo.models")
+    options = models.choices(demo, None, None)
+    assert options[1] and options[3]
+    figs = models.draw(demo, options[1], options[3], 1, 0, 400, 10, "formula", 1)
+    assert figs[-1] == [] and len(figs[0].data) >= 3
+    heat, msgs = modemap.draw_map(demo, "heat_capacity_share", 10, 400, 10)
+    assert msgs == []
+    z = np.asarray(heat.data[0].z)
+    np.testing.assert_allclose(z.sum(axis=0), 100.0, rtol=1e-6)   # each column is a whole (100 %)
+    cum, planck, text = modemap.draw_explorer(demo, np.log10(300.0))
+    assert text == "T = 300 K" and np.asarray(cum.data[0].y)[-1] == pytest.approx(100.0, rel=1e-6)
+
+
+def test_home_summary_for_demo_and_empty(demo):
+    children, fig = home.summary(demo)
+    assert len(fig.data) >= 1
+    note, _ = home.summary(state.empty_workspace())
+    assert "No dataset" in str(note)
