@@ -46,9 +46,12 @@ def parse_fit_range(text):
 
 
 def run(args) -> int:
+    from .errors import OptionError
     from .models import CompositeModel, model_tables, models_report, side_by_side
     from .writers import export_table
 
+    if args.optical_terms < 1:
+        raise OptionError(f"--optical-terms must be >= 1, got {args.optical_terms}")
     fit_range = None if args.fit_range is None else parse_fit_range(args.fit_range)
     temperatures = None if args.temperatures is None else parse_temperatures(args.temperatures)
     if args.format == "csv" and temperatures is None:

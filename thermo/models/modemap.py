@@ -24,10 +24,10 @@ def _binned(values, index, bins):
     return out
 
 
-def _share(binned):
+def _share(binned, hot):
     total = binned.sum(axis=0, keepdims=True)
-    with np.errstate(invalid="ignore", divide="ignore"):
-        return np.where(total > 0, binned / np.where(total > 0, total, 1.0), np.nan)
+    defined = (total > 0) & hot[None, :]
+    return np.where(defined, binned / np.where(defined, total, 1.0), np.nan)
 
 
 def mode_share_map(dos, temperatures, bins=DEFAULT_BINS):
@@ -88,7 +88,7 @@ def mode_share_map(dos, temperatures, bins=DEFAULT_BINS):
     x = reduced_frequency(nodes, t)
     heat = _binned(weights[:, None] * heat_capacity_kernel(x), index, bins)
     entropy = _binned(weights[:, None] * entropy_kernel(x), index, bins)
-    heat_share = _share(heat)
+    heat_share = _share(heat, t > 0)
     return {"frequency_thz": 0.5 * (edges[1:] + edges[:-1]), "bin_edges_thz": edges, "temperature_K": t,
-            "heat_capacity_share": heat_share, "entropy_share": _share(entropy),
+            "heat_capacity_share": heat_share, "entropy_share": _share(entropy, t > 0),
             "cumulative_heat_capacity_share": np.cumsum(heat_share, axis=0)}
