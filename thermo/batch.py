@@ -1,0 +1,349 @@
+"""Thermodynamic tables for many DOS files at once, on several processes.
+
+:func:`run_batch` writes one table per input file (the same content as the
+``table`` command: :func:`thermo.tables.tabulate` with its provenance) and an
+index ``index.csv`` with one row per input: status, atoms, imaginary share,
+cautions and the one-line error of a file that failed.  A bad file never stops
+the others.  Existing outputs are never replaced unless ``force`` is set, and
+an output is never written onto one of the inputs.
+"""
+
+from __future__ import annotations
+
+import csv
+import dataclasses
+import glob
+import io
+import os
+import sys
+from pathlib import Path
+
+from .errors import ModeheatError, OptionError
+
+#: Name of the index file written in the output directory.
+INDEX_NAME = "index.csv"
+#: Columns of the index file, in order.
+INDEX_COLUMNS = ("input", "status", "output", "atoms", "imaginary_fraction", "warnings", "error")
+#: Most files handed to one worker process at a time.
+_MAX_CHUNK = 16
+
+
+@dataclasses.dataclass(frozen=True)
+class BatchOptions:
+    """How to read each file and what table to write.
+
+    Attributes
+    ----------
+    temperatures : tuple of float
+        Temperatures [K] of every table.
+    freq_unit, atoms, negative, low_frequency :
+        As :func:`thermo.loading.load_dos`.
+    per : {'formula', 'atom', 'gram'}
+        Basis of the tables (see :func:`thermo.tables.tabulate`).
+    formula : str, optional
+        Chemical formula, for ``per='gram'``.
+    fmt : {'csv', 'json', 'xlsx'}
+        Table format.
+    force : bool
+        Replace existing output files.
+    """
+
+    temperatures: tuple
+    freq_unit: str | None = None
+    atoms: int | None = None
+    negative: str = "drop"
+    low_frequency: object = "auto"
+    per: str = "formula"
+    formula: str | None = None
+    fmt: str = "csv"
+    force: bool = False
+
+
+def expand_inputs(patterns, exclude_dir=None):
+    """Input files named by paths, directories and glob patterns.
+
+    Parameters
+    ----------
+    patterns : iterable of str or path-like
+        A file, a directory (its visible regular files, not recursive) or a
+        glob pattern (``**`` recurses).
+    exclude_dir : path-like, optional
+        Files inside this directory found through another directory or a
+        pattern are skipped (the output directory, so that ``data/**`` does
+        not read the tables of ``data/tables``).
+
+    Returns
+    -------
+    list of str
+        Files in the order given, each directory's and pattern's sorted by
+        name, without repeats.
+
+    Raises
+    ------
+    OptionError
+        When a pattern matches nothing or no file is found at all.
+
+    Examples
+    --------
+    >>> import tempfile
+    >>> with tempfile.TemporaryDirectory() as tmp:
+    ...     for name in ("b.dat", "a.dat", ".hidden"):
+    ...         _ = (Path(tmp) / name).write_text("x")
+    ...     [Path(p).name for p in expand_inputs([tmp])]
+    ['a.dat', 'b.dat']
+    """
+    skip = Path(exclude_dir).resolve() if exclude_dir is not None else None
+    found, seen = [], set()
+    for pattern in patterns:
+        text = os.fspath(pattern)
+        path = Path(text)
+        if path.is_file():
+            matches = [path]
+        elif path.is_dir():
+            matches = sorted(p for p in path.iterdir() if p.is_file() and not p.name.startswith("."))
+        else:
+            matches = sorted(Path(p) for p in glob.glob(text, recursive=True) if Path(p).is_file())
+        if skip is not None and not path.is_file() and path.resolve() != skip:
+            matches = [p for p in matches if skip not in p.resolve().parents]
+        if not matches:
+            raise OptionError(f"no input files match {text!r}")
+        for match in matches:
+            key = match.resolve()
+            if key not in seen:
+                seen.add(key)
+                found.append(str(match))
+    if not found:
+        raise OptionError("no input files given")
+    return found
+
+
+def output_names(inputs, fmt, outdir):
+    """A distinct output file name for each input: ``<stem>.<fmt>``.
+
+    A stem met before, or a name that would land on an input file, gets
+    ``-2``, ``-3``, ... appended.
+
+    Examples
+    --------
+    >>> output_names(["a/x.dat", "b/x.dat", "y.txt"], "csv", "out")
+    ['x.csv', 'x-2.csv', 'y.csv']
+    """
+    out = Path(outdir).resolve()
+    inputs_resolved = {Path(p).resolve() for p in inputs}
+    taken, names = set(), []
+    for source in inputs:
+        stem = Path(source).stem or "table"
+        name, count = f"{stem}.{fmt}", 1
+        while name.lower() in taken or (out / name) in inputs_resolved:
+            count += 1
+            name = f"{stem}-{count}.{fmt}"
+        taken.add(name.lower())
+        names.append(name)
+    return names
+
+
+def _blank_row(source):
+    return {"input": source, "status": "failed", "output": "", "atoms": "",
+            "imaginary_fraction": "", "warnings": "", "error": ""}
+
+
+def _one_line(text):
+    return " ".join(str(text).split())
+
+
+def process_file(source, target, options):
+    """Load one DOS file, tabulate it and write its table; never raises.
+
+    Parameters
+    ----------
+    source : str
+        Input file.
+    target : str
+        Output file.
+    options : BatchOptions
+        Reading and table options.
+
+    Returns
+    -------
+    dict
+        Index row (keys :data:`INDEX_COLUMNS`); ``status`` is ``ok`` or
+        ``failed`` with the one-line reason in ``error``.
+    """
+    from .loading import load_dos
+    from .tables import provenance, tabulate
+    from .writers import write_table
+
+    row = _blank_row(source)
+    try:
+        dos = load_dos(source, freq_unit=options.freq_unit, atoms=options.atoms,
+                       negative=options.negative, low_frequency=options.low_frequency)
+        row.update(atoms=dos.atoms, imaginary_fraction=dos.source.get("negative_mode_fraction", ""),
+                   warnings=" | ".join(_one_line(w) for w in dos.warnings))
+        table = tabulate(dos, options.temperatures, per=options.per, formula=options.formula)
+        info = provenance(dos, options.temperatures, per=options.per, formula=options.formula)
+        write_table(table, info, options.fmt, target, overwrite=options.force)
+        row.update(status="ok", output=Path(target).name)
+    except ModeheatError as exc:
+        row["error"] = _one_line(exc)
+    except OSError as exc:
+        row["error"] = _one_line(f"{source}: {exc.strerror or exc}")
+    except Exception as exc:  # noqa: BLE001 - one bad file must not stop the batch
+        row["error"] = _one_line(f"{source}: unexpected {type(exc).__name__}: {exc}")
+    return row
+
+
+def _process_chunk(jobs, options):
+    return [process_file(source, target, options) for source, target in jobs]
+
+
+def check_targets(targets, index_path, force):
+    """Refuse to start when an output exists and ``force`` is not set.
+
+    Raises
+    ------
+    OptionError
+        Naming the first existing file and how many exist.
+    """
+    if force:
+        return
+    existing = [p for p in list(targets) + [index_path] if Path(p).exists()]
+    if existing:
+        more = f" and {len(existing) - 1} more" if len(existing) > 1 else ""
+        raise OptionError(f"{existing[0]}{more} already exist; refusing to overwrite "
+                          "(choose another output directory, or --force to replace them)")
+
+
+def write_index(rows, path, force=False):
+    """Write the index rows as CSV (columns :data:`INDEX_COLUMNS`).
+
+    Examples
+    --------
+    >>> import tempfile
+    >>> with tempfile.TemporaryDirectory() as tmp:
+    ...     p = write_index([_blank_row("a.dat")], Path(tmp) / INDEX_NAME)
+    ...     p.read_text().splitlines()[0]
+    'input,status,output,atoms,imaginary_fraction,warnings,error'
+    """
+    buffer = io.StringIO()
+    writer = csv.DictWriter(buffer, fieldnames=INDEX_COLUMNS, lineterminator="\n")
+    writer.writeheader()
+    for row in rows:
+        writer.writerow({k: row.get(k, "") for k in INDEX_COLUMNS})
+    target = Path(path)
+    try:
+        with open(target, "w" if force else "x", encoding="utf-8", newline="") as handle:
+            handle.write(buffer.getvalue())
+    except FileExistsError:
+        raise OptionError(f"refusing to overwrite existing file {target}") from None
+    return target
+
+
+def _progress_bar(total, enabled):
+    if not (enabled and sys.stderr.isatty()):
+        return None
+    try:
+        from tqdm import tqdm
+    except ImportError:
+        return None
+    return tqdm(total=total, file=sys.stderr, unit="file", desc="tables")
+
+
+def _chunks(jobs, workers):
+    size = max(1, min(_MAX_CHUNK, len(jobs) // (4 * workers)))
+    return [jobs[i:i + size] for i in range(0, len(jobs), size)]
+
+
+def _run_pool(jobs, options, workers, bar):
+    from concurrent.futures import ProcessPoolExecutor, as_completed
+    from concurrent.futures.process import BrokenProcessPool
+
+    rows = {}
+    chunks = _chunks(jobs, workers)
+    with ProcessPoolExecutor(max_workers=workers) as pool:
+        futures = {pool.submit(_process_chunk, chunk, options): chunk for chunk in chunks}
+        for future in as_completed(futures):
+            chunk = futures[future]
+            try:
+                done = future.result()
+            except BrokenProcessPool:
+                done = [dict(_blank_row(source), error=f"{source}: the worker process stopped abruptly")
+                        for source, _ in chunk]
+            for (source, _), row in zip(chunk, done):
+                rows[source] = row
+            if bar is not None:
+                bar.update(len(chunk))
+    return [rows[source] for source, _ in jobs]
+
+
+def run_batch(inputs, outdir, options, workers=None, progress=True):
+    """Write a table for every input file and an index of the outcomes.
+
+    Parameters
+    ----------
+    inputs : iterable of str or path-like
+        Files, directories or glob patterns (see :func:`expand_inputs`).
+    outdir : str or path-like
+        Output directory (created when missing).
+    options : BatchOptions
+        Reading and table options.
+    workers : int, optional
+        Worker processes (default: ``os.cpu_count()``); 1 runs in this process.
+    progress : bool
+        Show a progress bar on stderr when it is a terminal.
+
+    Returns
+    -------
+    list of dict
+        One index row per input, in input order (keys :data:`INDEX_COLUMNS`).
+
+    Raises
+    ------
+    OptionError
+        No inputs, bad options, or existing outputs without ``options.force``;
+        nothing is written then.
+
+    Examples
+    --------
+    >>> import tempfile
+    >>> with tempfile.TemporaryDirectory() as tmp:
+    ...     good = Path(tmp) / "good.dat"
+    ...     _ = good.write_text("# THz\\n" + "\\n".join(f"{v/10} {0.072 * (v/10)**2}" for v in range(51)))
+    ...     _ = (Path(tmp) / "bad.dat").write_text("not a spectrum\\n")
+    ...     rows = run_batch([tmp], Path(tmp) / "out", BatchOptions(temperatures=(300.0,)), workers=1)
+    ...     [(Path(r["input"]).name, r["status"]) for r in rows]
+    [('bad.dat', 'failed'), ('good.dat', 'ok')]
+    """
+    from .tables import check_temperatures
+    from .writers import EXPORT_FORMATS
+
+    if options.fmt not in EXPORT_FORMATS:
+        raise OptionError(f"unknown format {options.fmt!r}; choose {', '.join(EXPORT_FORMATS)}")
+    check_temperatures(options.temperatures)
+    if options.per == "gram":
+        from .formula import formula_unit
+        formula_unit(options.formula)
+    out = Path(outdir)
+    if out.exists() and not out.is_dir():
+        raise OptionError(f"output {out} exists and is not a directory")
+    sources = expand_inputs(inputs, exclude_dir=out)
+    targets = [str(out / name) for name in output_names(sources, options.fmt, out)]
+    check_targets(targets, out / INDEX_NAME, options.force)
+    out.mkdir(parents=True, exist_ok=True)
+
+    jobs = list(zip(sources, targets))
+    workers = max(1, int(workers or os.cpu_count() or 1))
+    bar = _progress_bar(len(jobs), progress)
+    try:
+        if workers == 1 or len(jobs) == 1:
+            rows = []
+            for job in jobs:
+                rows.append(process_file(*job, options))
+                if bar is not None:
+                    bar.update(1)
+        else:
+            rows = _run_pool(jobs, options, min(workers, len(jobs)), bar)
+    finally:
+        if bar is not None:
+            bar.close()
+    write_index(rows, out / INDEX_NAME, force=options.force)
+    return rows
