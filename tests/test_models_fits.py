@@ -110,3 +110,11 @@ def test_fit_input_errors():
         fit_heat_capacity_data("einstein", [0.0, 1.0, 2.0], [0.0, 1.0, 2.0], 3)
     with pytest.raises(OptionError):
         composite_model(band_plus_peaks(3.0, [8.0]), optical_terms=0)
+
+
+def test_composite_table_per_atom_infers_atoms_from_its_modes():
+    # Dulong–Petit: 3 k_B per atom at high T (common-practice limit); 3 + 6 modes = 3 atoms.
+    model = CompositeModel(150.0, (300.0, 500.0), (3.0, 3.0))
+    from thermo.models import composite_table
+    df = composite_table(model, [1e6], per="atom")
+    assert df.heat_capacity_v_kB_per_atom[0] == pytest.approx(3.0, rel=1e-7)

@@ -56,7 +56,7 @@ def sums_on_hot(evaluate, temperatures):
     return out
 
 
-def model_table(sums, temperatures, per="formula", atoms=None, formula=None):
+def model_table(sums, temperatures, per="formula", atoms=None, formula=None, modes=None):
     """Table of C_v, S, U, F from kernel sums, columns as :func:`~thermo.tables.tabulate`.
 
     Parameters
@@ -69,9 +69,12 @@ def model_table(sums, temperatures, per="formula", atoms=None, formula=None):
     per : {'formula', 'atom', 'gram'}
         Basis, as in :func:`thermo.tables.tabulate`.
     atoms : int, optional
-        Atoms per formula unit (needed for ``per='atom'``/``'gram'``).
+        Atoms per formula unit (for ``per='atom'``/``'gram'``); taken as
+        ``modes / 3`` when None.
     formula : str, optional
         Chemical formula (for ``per='gram'``).
+    modes : float, optional
+        Modes per formula unit of the model (3n), to infer ``atoms``.
 
     Returns
     -------
@@ -100,6 +103,8 @@ def model_table(sums, temperatures, per="formula", atoms=None, formula=None):
     from ..errors import OptionError
     if per not in COLUMNS:
         raise OptionError(f"unknown basis {per!r}; choose formula, atom or gram")
+    if atoms is None and modes is not None:
+        atoms = modes / 3.0
     if per != "formula" and atoms is None:
         raise OptionError(f"basis {per!r} needs the atoms per formula unit")
     t = check_temperatures(temperatures)

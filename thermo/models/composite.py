@@ -138,7 +138,8 @@ def composite_table(model, temperatures, per="formula", atoms=None, formula=None
     temperatures : array_like
         Temperatures [K], >= 0.
     per, atoms, formula
-        Basis, as in :func:`thermo.tables.tabulate`.
+        Basis, as in :func:`thermo.tables.tabulate`; ``atoms`` defaults to
+        all modes / 3.
 
     Returns
     -------
@@ -162,7 +163,8 @@ def composite_table(model, temperatures, per="formula", atoms=None, formula=None
     >>> round(float(composite_table(m, [1e8]).heat_capacity_v_J_per_mol_K[0]) / (6 * 8.314462618), 6)
     1.0
     """
-    return model_table(composite_sums(model, temperatures), temperatures, per, atoms, formula)
+    modes = model.debye_modes + sum(model.einstein_modes)
+    return model_table(composite_sums(model, temperatures), temperatures, per, atoms, formula, modes)
 
 
 def _acoustic_theta(dos):
@@ -323,13 +325,10 @@ def composite_model(dos, optical_terms=1, fit_range=None, refine=True):
 
     Examples
     --------
-    >>> from thermo.spectrum import PhononDOS, LowFrequencyFit
-    >>> nu = np.linspace(3.0, 9.0, 6001)
-    >>> peak = 3 * np.exp(-0.5 * ((nu - 8) / 0.02) ** 2) / (0.02 * np.sqrt(2 * np.pi))
-    >>> d = PhononDOS(nu, peak, atoms=2, low_frequency=LowFrequencyFit(9 / 27, 3.0, (0.0, 3.0)))
-    >>> m = composite_model(d, fit_range=(5, 500))
-    >>> round(m.debye_theta_K / (3 * H_OVER_K_THZ), 5), round(m.einstein_thetas_K[0] / (8 * H_OVER_K_THZ), 5)
-    (1.0, 1.0)
+    >>> from thermo.models.debye import debye_spectrum
+    >>> m = composite_model(debye_spectrum(300.0))     # one atom: the Debye term alone
+    >>> round(m.debye_theta_K, 6), m.einstein_thetas_K
+    (300.0, ())
     """
     start = composite_initial(dos, optical_terms)
     if not refine:

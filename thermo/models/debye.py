@@ -18,6 +18,7 @@ from scipy import constants as sc
 
 from ..integrals import nu2_part_sums
 from ..planck import H_OVER_K_THZ
+from ..spectrum import LowFrequencyFit, PhononDOS
 from .base import check_theta, model_table, sums_on_hot
 
 
@@ -107,7 +108,8 @@ def debye_table(theta_k, modes, temperatures, per="formula", atoms=None, formula
     temperatures : array_like
         Temperatures [K], >= 0.
     per, atoms, formula
-        Basis, as in :func:`thermo.tables.tabulate`.
+        Basis, as in :func:`thermo.tables.tabulate`; ``atoms`` defaults to
+        ``modes / 3``.
 
     Returns
     -------
@@ -141,7 +143,7 @@ def debye_table(theta_k, modes, temperatures, per="formula", atoms=None, formula
     >>> round(float(df.heat_capacity_v_J_per_mol_K[0]) / (12 * pi**4 / 5 * 8.314462618 * 1e-6), 9)
     1.0
     """
-    return model_table(debye_sums(theta_k, modes, temperatures), temperatures, per, atoms, formula)
+    return model_table(debye_sums(theta_k, modes, temperatures), temperatures, per, atoms, formula, modes)
 
 
 def debye_heat_capacity(temperatures, theta_k, modes):
@@ -202,3 +204,37 @@ def debye_heat_capacity_fraction(y):
     y = np.atleast_1d(np.asarray(y, dtype=float))
     # One mode with ν_D = 1 THz at T = (h/k_B)(1 THz)/y.
     return nu2_part_sums(3.0, 1.0, H_OVER_K_THZ / y)["heat_capacity"]
+
+
+def debye_spectrum(theta_k, atoms=1):
+    """The Debye spectrum itself as a :class:`~thermo.spectrum.PhononDOS`.
+
+    Parameters
+    ----------
+    theta_k : float
+        θ_D [K].
+    atoms : int
+        Atoms per formula unit n; the spectrum carries 3n modes.
+
+    Returns
+    -------
+    PhononDOS
+        :math:`g = 9n\\nu^2/\\nu_D^3` on :math:`[0,\\nu_D]` held as the
+        analytic low-frequency part (exact in every core integral), zero
+        above; for overlays and tests of the core against the model.
+
+    References
+    ----------
+    .. [1] P. Debye, Ann. Phys. 344, 789 (1912).
+
+    Examples
+    --------
+    >>> d = debye_spectrum(300.0, atoms=2)
+    >>> round(d.mode_count, 12), round(d.low_frequency_debye_temperature_k(), 9)
+    (6.0, 300.0)
+    """
+    nu_d = check_theta(theta_k, "the Debye temperature") / H_OVER_K_THZ
+    fit = LowFrequencyFit(coefficient=debye_coefficient(theta_k, 3 * atoms), cutoff_thz=nu_d,
+                          window_thz=(0.0, nu_d))
+    return PhononDOS(frequency_thz=np.array([nu_d, 1.5 * nu_d]), dos=np.zeros(2), atoms=int(atoms),
+                     low_frequency=fit, source={"name": f"Debye spectrum, θ_D = {theta_k:g} K"})

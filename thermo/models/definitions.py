@@ -107,10 +107,9 @@ def theta_definitions(dos, fit_range=None):
 
     Examples
     --------
-    >>> from thermo.spectrum import PhononDOS, LowFrequencyFit
+    >>> from thermo.models.debye import debye_spectrum
     >>> from thermo.planck import H_OVER_K_THZ
-    >>> d = PhononDOS(np.array([2.0]), np.array([0.0]), atoms=1,
-    ...               low_frequency=LowFrequencyFit(9 / 8, 2.0, (0.0, 2.0)))
+    >>> d = debye_spectrum(2 * H_OVER_K_THZ)     # ν_D = 2 THz
     >>> rows = theta_definitions(d)
     >>> sorted({round(r["value_K"] / (2 * H_OVER_K_THZ), 6) for r in rows if r["key"].startswith("debye")})
     [1.0]
@@ -173,10 +172,9 @@ def models_report(dos, temperatures=None, fit_range=None, optical_terms=1):
 
     Examples
     --------
-    >>> from thermo.spectrum import PhononDOS, LowFrequencyFit
-    >>> d = PhononDOS(np.array([2.0]), np.array([0.0]), atoms=1,
-    ...               low_frequency=LowFrequencyFit(9 / 8, 2.0, (0.0, 2.0)))
+    >>> from thermo.models.debye import debye_spectrum
     >>> from thermo.planck import H_OVER_K_THZ
+    >>> d = debye_spectrum(2 * H_OVER_K_THZ)     # ν_D = 2 THz
     >>> r = models_report(d, temperatures=[0.0, 50.0])
     >>> theta_d = r["equivalent_debye_temperature_K"]
     >>> theta_d[0] is None, round(theta_d[1] / (2 * H_OVER_K_THZ), 6)    # undefined at 0 K; flat

@@ -75,7 +75,8 @@ def einstein_table(theta_k, modes, temperatures, per="formula", atoms=None, form
     temperatures : array_like
         Temperatures [K], >= 0.
     per, atoms, formula
-        Basis, as in :func:`thermo.tables.tabulate`.
+        Basis, as in :func:`thermo.tables.tabulate`; ``atoms`` defaults to
+        ``modes / 3``.
 
     Returns
     -------
@@ -110,7 +111,7 @@ def einstein_table(theta_k, modes, temperatures, per="formula", atoms=None, form
     >>> round(df.attrs["zero_point_energy_J_per_mol"] / (1.5 * 8.314462618 * 200.0), 9)
     1.0
     """
-    return model_table(einstein_sums(theta_k, modes, temperatures), temperatures, per, atoms, formula)
+    return model_table(einstein_sums(theta_k, modes, temperatures), temperatures, per, atoms, formula, modes)
 
 
 def einstein_heat_capacity(temperatures, theta_k, modes):

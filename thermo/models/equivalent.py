@@ -144,10 +144,9 @@ def equivalent_debye_temperature(dos, temperatures):
 
     Examples
     --------
-    >>> from thermo.spectrum import PhononDOS, LowFrequencyFit
+    >>> from thermo.models.debye import debye_spectrum
     >>> from thermo.planck import H_OVER_K_THZ
-    >>> d = PhononDOS(np.array([2.0]), np.array([0.0]), atoms=1,
-    ...               low_frequency=LowFrequencyFit(9 / 8, 2.0, (0.0, 2.0)))
+    >>> d = debye_spectrum(2 * H_OVER_K_THZ)     # ν_D = 2 THz
     >>> (equivalent_debye_temperature(d, [5.0, 50.0]) / (2 * H_OVER_K_THZ)).round(9).tolist()
     [1.0, 1.0]
     """

@@ -206,12 +206,9 @@ def default_fit_range(dos):
 
     Examples
     --------
-    >>> from thermo.spectrum import PhononDOS, LowFrequencyFit
-    >>> from thermo.planck import H_OVER_K_THZ
-    >>> d = PhononDOS(np.array([2.0]), np.array([0.0]), atoms=1,
-    ...               low_frequency=LowFrequencyFit(9 / 8, 2.0, (0.0, 2.0)))
-    >>> [round(v / (2 * H_OVER_K_THZ), 6) for v in default_fit_range(d)]
-    [0.05, 1.0]
+    >>> from thermo.models.debye import debye_spectrum
+    >>> [round(v, 6) for v in default_fit_range(debye_spectrum(300.0))]
+    [15.0, 300.0]
     """
     from .moments import debye_moment_temperature
     theta = debye_moment_temperature(dos, 0)
@@ -270,31 +267,33 @@ def fit_temperatures(dos, fit_range=None, points=FIT_POINTS):
     return t, cv
 
 
-def fit_einstein_theta(dos, fit_range=None):
-    """θ_E by least squares on the DOS's C_v(T) over a temperature range.
+def fit_dos_theta(dos, kind, fit_range=None):
+    """θ_E or θ_D by least squares on the DOS's C_v(T) over a temperature range.
 
     Parameters
     ----------
     dos : PhononDOS
-        Normalised DOS.
+        Normalised DOS with n atoms per formula unit.
+    kind : {'einstein', 'debye'}
+        Model carrying all 3n modes.
     fit_range : tuple of float, optional
         (T_min, T_max) [K]; :func:`default_fit_range` when None.
 
     Returns
     -------
     FitResult
-        θ_E [K], standard uncertainty [K] (from the misfit), fit range.
+        θ [K], standard uncertainty [K] (from the misfit), fit range.
 
     Notes
     -----
-    Minimises :math:`\\sum_j [C_v^E(T_j;\\theta_E) - C_v^{DOS}(T_j)]^2`
-    with all 3n modes in the Einstein term, on 60 evenly spaced
-    temperatures.  The uncertainty reflects how badly one frequency
-    describes the spectrum, not noise.
+    Minimises :math:`\\sum_j [C_v^{model}(T_j;\\theta) - C_v^{DOS}(T_j)]^2`
+    on 60 evenly spaced temperatures.  The uncertainty reflects how badly
+    one parameter describes the spectrum, not noise.
 
     References
     ----------
-    .. [1] A. Einstein, Ann. Phys. 327, 180 (1907).
+    .. [1] A. Einstein, Ann. Phys. 327, 180 (1907); P. Debye, Ann. Phys. 344,
+       789 (1912).
     .. [2] W. H. Press et al., *Numerical Recipes*, 3rd ed. (2007), §15.4.
 
     Examples
@@ -304,46 +303,32 @@ def fit_einstein_theta(dos, fit_range=None):
     >>> nu = np.linspace(4.9, 5.1, 201)
     >>> g = 3 * np.exp(-0.5 * ((nu - 5) / 0.01) ** 2) / (0.01 * np.sqrt(2 * np.pi))
     >>> d = PhononDOS(nu, g, atoms=1)     # 3 modes in a narrow peak at 5 THz
-    >>> round(fit_einstein_theta(d, (20, 400)).value / (5 * H_OVER_K_THZ), 4)
+    >>> round(fit_dos_theta(d, "einstein", (20, 400)).value / (5 * H_OVER_K_THZ), 4)
     1.0
     """
     t, cv = fit_temperatures(dos, fit_range)
-    return fit_heat_capacity_data("einstein", t, cv, 3 * dos.atoms)
+    return fit_heat_capacity_data(kind, t, cv, 3 * dos.atoms)
 
 
-def fit_debye_theta(dos, fit_range=None):
-    """θ_D by least squares on the DOS's C_v(T) over a temperature range.
-
-    Parameters
-    ----------
-    dos : PhononDOS
-        Normalised DOS.
-    fit_range : tuple of float, optional
-        (T_min, T_max) [K]; :func:`default_fit_range` when None.
-
-    Returns
-    -------
-    FitResult
-        θ_D [K], standard uncertainty [K], fit range.
-
-    Notes
-    -----
-    As :func:`fit_einstein_theta` with the Debye :math:`C_v(T;\\theta_D)`
-    carrying all 3n modes.
-
-    References
-    ----------
-    .. [1] P. Debye, Ann. Phys. 344, 789 (1912).
-    .. [2] W. H. Press et al., *Numerical Recipes*, 3rd ed. (2007), §15.4.
+def fit_einstein_theta(dos, fit_range=None):
+    """θ_E fitted to the DOS's C_v(T): ``fit_dos_theta(dos, 'einstein', fit_range)``.
 
     Examples
     --------
-    >>> from thermo.spectrum import PhononDOS, LowFrequencyFit
-    >>> from thermo.planck import H_OVER_K_THZ
-    >>> d = PhononDOS(np.array([2.0]), np.array([0.0]), atoms=1,
-    ...               low_frequency=LowFrequencyFit(9 / 8, 2.0, (0.0, 2.0)))
-    >>> round(fit_debye_theta(d).value / (2 * H_OVER_K_THZ), 6)
-    1.0
+    >>> from thermo.models.debye import debye_spectrum
+    >>> fit_einstein_theta(debye_spectrum(300.0), (10, 300)).value < 300.0
+    True
     """
-    t, cv = fit_temperatures(dos, fit_range)
-    return fit_heat_capacity_data("debye", t, cv, 3 * dos.atoms)
+    return fit_dos_theta(dos, "einstein", fit_range)
+
+
+def fit_debye_theta(dos, fit_range=None):
+    """θ_D fitted to the DOS's C_v(T): ``fit_dos_theta(dos, 'debye', fit_range)``.
+
+    Examples
+    --------
+    >>> from thermo.models.debye import debye_spectrum
+    >>> round(fit_debye_theta(debye_spectrum(300.0)).value, 6)
+    300.0
+    """
+    return fit_dos_theta(dos, "debye", fit_range)

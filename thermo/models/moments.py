@@ -59,9 +59,8 @@ def frequency_moment(dos, n):
 
     Examples
     --------
-    >>> from thermo.spectrum import PhononDOS, LowFrequencyFit
-    >>> d = PhononDOS(np.array([2.0]), np.array([0.0]), atoms=1,
-    ...               low_frequency=LowFrequencyFit(9 / 8, 2.0, (0.0, 2.0)))
+    >>> from thermo.models.debye import debye_spectrum
+    >>> d = debye_spectrum(2 * H_OVER_K_THZ)     # ν_D = 2 THz
     >>> round(frequency_moment(d, 2), 12)   # 3/5 * 2^2
     2.4
     """
@@ -98,9 +97,8 @@ def log_frequency_moment(dos):
 
     Examples
     --------
-    >>> from thermo.spectrum import PhononDOS, LowFrequencyFit
-    >>> d = PhononDOS(np.array([2.0]), np.array([0.0]), atoms=1,
-    ...               low_frequency=LowFrequencyFit(9 / 8, 2.0, (0.0, 2.0)))
+    >>> from thermo.models.debye import debye_spectrum
+    >>> d = debye_spectrum(2 * H_OVER_K_THZ)     # ν_D = 2 THz
     >>> bool(abs(log_frequency_moment(d) - (np.log(2.0) - 1 / 3)) < 1e-9)
     True
     """
@@ -147,9 +145,8 @@ def debye_moment_temperature(dos, n):
 
     Examples
     --------
-    >>> from thermo.spectrum import PhononDOS, LowFrequencyFit
-    >>> d = PhononDOS(np.array([2.0]), np.array([0.0]), atoms=1,
-    ...               low_frequency=LowFrequencyFit(9 / 8, 2.0, (0.0, 2.0)))
+    >>> from thermo.models.debye import debye_spectrum
+    >>> d = debye_spectrum(2 * H_OVER_K_THZ)     # ν_D = 2 THz
     >>> [round(debye_moment_temperature(d, k) / (2 * H_OVER_K_THZ), 10) for k in (-2, -1, 0, 1, 2)]
     [1.0, 1.0, 1.0, 1.0, 1.0]
     """
