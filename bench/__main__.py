@@ -1,0 +1,92 @@
+"""``python -m bench [--json] [--quick] [--only p1,p3,...]``: measure the seven figures.
+
+Prints one JSON object (``--json``) or a readable list: the figures
+``p1_ratio_to_exp`` … ``p7_batch_1000_s``, contrast figures, the goals and
+the machine.  A figure that cannot be measured here is ``null`` with a reason.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+
+GOALS = {
+    "p1_ratio_to_exp": ("<=", 0.5), "p1_agreement": ("<=", 1e-6), "p2_speedup_vs_loop": (">=", 5.0),
+    "p2_speedup_vs_quad": ("report", None), "p3_max_rel_error": ("<=", 1e-4),
+    "p4_low_t_rel_error": ("<=", 0.05), "p5_upload_to_plot_s": ("<=", 1.0),
+    "p6_callback_median_s": ("<=", 0.15), "p7_batch_1000_s": ("<=", 20.0),
+}
+
+
+def _guarded(name, fn, keys):
+    try:
+        return fn()
+    except Exception as exc:  # noqa: BLE001 - one failing figure must not hide the others
+        reason = " ".join(f"{type(exc).__name__}: {exc}".split())[:300]
+        return {**{k: None for k in keys}, f"{name}_note": f"not measured: {reason}"}
+
+
+def measure(only=None, quick=False):
+    """All requested figures in one dict."""
+    from . import dashboard, figures
+    from .timing import machine
+    plan = [
+        ("p1", lambda: figures.p1_p2(repeat=7 if quick else 15, quad_temperatures=5 if quick else 25),
+         ("p1_ratio_to_exp", "p1_agreement", "p2_speedup_vs_loop", "p2_speedup_vs_quad")),
+        ("p3", figures.p3, ("p3_max_rel_error",)),
+        ("p4", figures.p4, ("p4_low_t_rel_error",)),
+        ("p5", dashboard.p5, ("p5_upload_to_plot_s",)),
+        ("p6", dashboard.p6, ("p6_callback_median_s",)),
+        ("p7", lambda: figures.p7(files=200 if quick else 1000, repeat=1 if quick else 3),
+         ("p7_batch_1000_s",)),
+    ]
+    result = {}
+    contrast = {}
+    for name, fn, keys in plan:
+        if only and name not in only and not (name == "p1" and "p2" in only):
+            continue
+        got = _guarded(name, fn, keys)
+        contrast.update(got.pop("contrast", {}))
+        result.update(got)
+    result["contrast"] = contrast
+    result["goals"] = {k: f"{op} {v}" if v is not None else op for k, (op, v) in GOALS.items()}
+    result["met"] = {k: _met(result.get(k), *GOALS[k]) for k in GOALS if k in result}
+    result["quick"] = quick
+    result["machine"] = machine()
+    return result
+
+
+def _met(value, op, goal):
+    if value is None or goal is None:
+        return None
+    return value <= goal if op == "<=" else value >= goal
+
+
+def main(argv=None):
+    p = argparse.ArgumentParser(prog="python -m bench", description=__doc__.splitlines()[0])
+    p.add_argument("--json", action="store_true", help="print one JSON object")
+    p.add_argument("--quick", action="store_true", help="fewer repeats and 200 batch files (a smoke run)")
+    p.add_argument("--only", help="comma list of figures to measure, e.g. p1,p3")
+    args = p.parse_args(argv)
+    only = set(args.only.split(",")) if args.only else None
+    result = measure(only, args.quick)
+    if args.json:
+        print(json.dumps(result, indent=2))
+        return 0
+    for key in GOALS:
+        if key in result:
+            goal = result["goals"][key]
+            value = result[key]
+            shown = "null" if value is None else f"{value:.4g}"
+            mark = {True: "met", False: "NOT met", None: ""}[result["met"].get(key)]
+            print(f"{key:24s} {shown:>12s}   goal {goal:10s} {mark}")
+    for key, value in result.items():
+        if key.endswith(("_note", "_case")):
+            print(f"  {key}: {value}")
+    print(json.dumps({"contrast": result["contrast"], "machine": result["machine"]}, indent=2))
+    return 0
+
+
+if __name__ == "__main__":
+    sys.exit(main())
