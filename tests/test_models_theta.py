@@ -121,4 +121,25 @@ def test_inversion_against_mpmath_and_undefined_points():
 def test_low_frequency_theta_is_undefined_without_a_nu2_fit():
     rows = {r["key"]: r for r in theta_definitions(peak_dos(5.0))}
     assert rows["debye_theta_low_frequency_K"]["value_K"] is None
+    assert "no low-frequency" in rows["debye_theta_low_frequency_K"]["note"]
+    assert rows["einstein_theta_entropy_K"]["note"] is None
     assert all(r["definition"] and r["reference"] for r in rows.values())
+
+
+def test_log_moment_of_a_dos_that_does_not_vanish_at_zero_frequency():
+    # Smeared Einstein-like spectrum with g(0) > 0 and no ν² treatment: <ln ν> is still finite.
+    # Reference: mpmath quadrature of the same piecewise-linear spectrum's exact Gaussian form
+    # (grid fine enough that interpolation error is below 1e-4).
+    from thermo.spectrum import PhononDOS
+    from test_models_spectra import gaussian
+    nu = np.linspace(0.0, 12.0, 6001)
+    g = gaussian(nu, 5.0, 1.5, 3.0)
+    dos = PhononDOS(nu, g * 3.0 / np.trapezoid(g, nu), atoms=1)
+    mp.mp.dps = 20
+    gg = lambda v: mp.exp(-((v - 5) / 1.5) ** 2 / 2)
+    ref = mp.quad(lambda v: gg(v) * mp.log(v), [0, 5, 12]) / mp.quad(gg, [0, 5, 12])
+    assert einstein_entropy_temperature(dos) == pytest.approx(H_OVER_K * math.exp(float(ref)), rel=1e-4)
+    rows = {r["key"]: r["value_K"] for r in theta_definitions(dos)}
+    assert rows["debye_theta_moment_0_K"] == pytest.approx(H_OVER_K * math.exp(1 / 3 + float(ref)), rel=1e-4)
+    # <1/ν> and <1/ν²> diverge when g(0) > 0: reported as undefined, not as a number
+    assert rows["debye_theta_moment_m1_K"] is None and rows["debye_theta_moment_m2_K"] is None

@@ -60,10 +60,20 @@ def _json_safe(value):
     return value
 
 
+#: Why a θ can be undefined, by key.
+_UNDEFINED = {
+    "debye_theta_low_frequency_K": "undefined: no low-frequency nu^2 fit (treatment off or no nu^2-like region)",
+    "debye_theta_moment_m2_K": "undefined: the DOS does not vanish at nu = 0, so <nu^-2> diverges",
+    "debye_theta_moment_m1_K": "undefined: the DOS does not vanish at nu = 0, so <nu^-1> diverges",
+}
+
+
 def _entry(key, value, definition, reference, uncertainty=None, fit_range=None):
-    return {"key": key, "value_K": _finite(value), "uncertainty_K": _finite(uncertainty),
+    value = _finite(value)
+    return {"key": key, "value_K": value, "uncertainty_K": _finite(uncertainty),
             "fit_range_K": None if fit_range is None else [float(v) for v in fit_range],
-            "definition": definition, "reference": reference}
+            "definition": definition, "reference": reference,
+            "note": _UNDEFINED.get(key, "undefined for this spectrum") if value is None else None}
 
 
 def theta_definitions(dos, fit_range=None):
@@ -83,7 +93,7 @@ def theta_definitions(dos, fit_range=None):
         One dict per definition (keys in :data:`THETA_KEYS`):
         ``key``, ``value_K`` (None when undefined), ``uncertainty_K``
         (fits only), ``fit_range_K`` (fits only), ``definition``,
-        ``reference``.
+        ``reference``, ``note`` (why the value is undefined, else None).
 
     Notes
     -----

@@ -23,9 +23,14 @@ from ..integrals import mode_quadrature
 from ..planck import H_OVER_K_THZ
 
 
+#: A node at ν = 0 carrying less than this share of the modes counts as empty
+#: (e.g. the far tail of a Gaussian-smeared peak).
+ZERO_NODE_SHARE = 1e-10
+
+
 def _positive_nodes(dos):
     nodes, weights = mode_quadrature(dos)
-    keep = weights > 0
+    keep = (weights > 0) & ((nodes > 0) | (weights > ZERO_NODE_SHARE * weights.sum()))
     if not keep.any():
         raise OptionError("the DOS carries no modes")
     return nodes[keep], weights[keep]
@@ -45,7 +50,8 @@ def frequency_moment(dos, n):
     -------
     float
         :math:`\\langle\\nu^n\\rangle = \\int g\\nu^n d\\nu/\\int g\\,d\\nu` [THzⁿ];
-        ``inf`` for n < 0 when modes sit at ν = 0.
+        ``inf`` for n < 0 when modes sit at ν = 0 (a node at ν = 0 with
+        less than :data:`ZERO_NODE_SHARE` of the modes counts as empty).
 
     Notes
     -----
@@ -83,12 +89,15 @@ def log_frequency_moment(dos):
     Returns
     -------
     float
-        :math:`\\int g\\ln\\nu\\,d\\nu/\\int g\\,d\\nu`, ν in THz [1]; ``-inf``
-        when modes sit at ν = 0.
+        :math:`\\int g\\ln\\nu\\,d\\nu/\\int g\\,d\\nu`, ν in THz [1].
 
     Notes
     -----
     Debye spectrum: :math:`\\langle\\ln\\nu\\rangle = \\ln\\nu_D - 1/3`.
+    A node at ν = 0 (a DOS that does not vanish there, e.g. smeared, with
+    the ν² treatment off) stands for its half interval :math:`[0, \\nu_1/2]`
+    and carries the mean of ln ν over it, :math:`\\ln(\\nu_1/2) - 1` — the
+    integral converges although ln ν does not.
 
     References
     ----------
@@ -101,11 +110,17 @@ def log_frequency_moment(dos):
     >>> d = debye_spectrum(2 * H_OVER_K_THZ)     # ν_D = 2 THz
     >>> bool(abs(log_frequency_moment(d) - (np.log(2.0) - 1 / 3)) < 1e-9)
     True
+    >>> from thermo.spectrum import PhononDOS
+    >>> flat = PhononDOS(np.linspace(0.0, 1.0, 2001), np.full(2001, 3.0), atoms=1)
+    >>> round(log_frequency_moment(flat), 4)     # ∫_0^1 ln ν dν = -1
+    -1.0
     """
     nodes, weights = _positive_nodes(dos)
+    logs = np.log(np.where(nodes > 0, nodes, 1.0))
     if np.any(nodes == 0):
-        return float("-inf")
-    return float(np.sum(weights * np.log(nodes)) / np.sum(weights))
+        grid = np.asarray(dos.frequency_thz, float)
+        logs[nodes == 0] = np.log(0.5 * grid[grid > 0].min()) - 1.0
+    return float(np.sum(weights * logs) / np.sum(weights))
 
 
 def debye_moment_temperature(dos, n):
@@ -121,7 +136,8 @@ def debye_moment_temperature(dos, n):
     Returns
     -------
     float
-        θ_D(n) [K]; ``nan`` when undefined (negative n with modes at ν = 0).
+        θ_D(n) [K]; ``nan`` for n < 0 when modes sit at ν = 0 (the DOS
+        does not vanish there and :math:`\\langle\\nu^n\\rangle` diverges).
 
     Notes
     -----
@@ -151,8 +167,7 @@ def debye_moment_temperature(dos, n):
     [1.0, 1.0, 1.0, 1.0, 1.0]
     """
     if n == 0:
-        log_mean = log_frequency_moment(dos)
-        return float(H_OVER_K_THZ * np.exp(1.0 / 3.0 + log_mean)) if np.isfinite(log_mean) else float("nan")
+        return float(H_OVER_K_THZ * np.exp(1.0 / 3.0 + log_frequency_moment(dos)))
     moment = frequency_moment(dos, n)
     if not np.isfinite(moment):
         return float("nan")
@@ -193,8 +208,7 @@ def einstein_entropy_temperature(dos):
     >>> round(einstein_entropy_temperature(d) / (5 * H_OVER_K_THZ), 4)
     1.0
     """
-    log_mean = log_frequency_moment(dos)
-    return float(H_OVER_K_THZ * np.exp(log_mean)) if np.isfinite(log_mean) else float("nan")
+    return float(H_OVER_K_THZ * np.exp(log_frequency_moment(dos)))
 
 
 def einstein_mean_temperature(dos):
