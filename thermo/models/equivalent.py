@@ -30,6 +30,15 @@ _Y_T3 = 60.0
 _T3_CONSTANT = 4.0 * np.pi ** 4 / 5.0
 
 
+def _bracket_table():
+    """D_c on a logarithmic y grid, computed once, to bracket the roots."""
+    y = np.geomspace(1e-9, _Y_T3, 400)
+    return y, debye_heat_capacity_fraction(y)
+
+
+_BRACKET = None
+
+
 def debye_y_from_fraction(fraction):
     """Invert the Debye heat-capacity fraction: y = θ_D/T with D_c(y) = f.
 
@@ -47,8 +56,8 @@ def debye_y_from_fraction(fraction):
     -----
     :math:`D_c(y) = 3y^{-3}\\int_0^y x^4e^x(e^x-1)^{-2}dx` falls monotonically
     from 1 to 0.  For :math:`f \\le D_c(60)`, :math:`y = (4\\pi^4/5f)^{1/3}`
-    (the T³ law, exact to 1e-20); otherwise Brent's method on
-    :math:`[10^{-9}, 60]`.  Near f = 1, :math:`1 - f \\approx y^2/20`, so a
+    (the T³ law, exact to 1e-20); otherwise Brent's method inside the
+    bracket of a 400-point table of :math:`D_c` on :math:`[10^{-9}, 60]`.  Near f = 1, :math:`1 - f \\approx y^2/20`, so a
     relative error ε in C_v moves y by :math:`\\approx \\varepsilon/(2(1-f))`:
     θ_D(T) far above θ_D is ill-conditioned.
 
@@ -67,8 +76,13 @@ def debye_y_from_fraction(fraction):
         return float("nan")
     if f <= float(debye_heat_capacity_fraction(_Y_T3)[0]):
         return float((_T3_CONSTANT / f) ** (1.0 / 3.0))
+    global _BRACKET
+    if _BRACKET is None:
+        _BRACKET = _bracket_table()
+    grid, values = _BRACKET
+    k = int(np.clip(np.searchsorted(-values, -f), 1, grid.size - 1))   # values fall with y
     return float(optimize.brentq(lambda y: float(debye_heat_capacity_fraction(y)[0]) - f,
-                                 1e-9, _Y_T3, xtol=1e-15, rtol=4 * np.finfo(float).eps, maxiter=200))
+                                 grid[k - 1], grid[k], xtol=1e-15, rtol=4 * np.finfo(float).eps, maxiter=200))
 
 
 def invert_debye_heat_capacity(temperatures, heat_capacity, modes):
