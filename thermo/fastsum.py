@@ -92,13 +92,19 @@ def lagrange_weights(offset):
     >>> round(float(w.sum()), 12), round(float((w @ _STENCIL ** 3)[0]), 9)
     (1.0, 42.875)
     """
-    t = np.asarray(offset, dtype=float).reshape(-1, 1)
-    diff = t - _STENCIL[None, :]
-    ones = np.ones_like(t)
-    # products over j < k and j > k, without dividing by t − k (exact at nodes)
-    before = np.cumprod(np.hstack([ones, diff[:, :-1]]), axis=1)
-    after = np.cumprod(np.hstack([ones, diff[:, :0:-1]]), axis=1)[:, ::-1]
-    return before * after / _DENOM[None, :]
+    t = np.asarray(offset, dtype=float).ravel()
+    diff = [t - k for k in range(ORDER)]
+    # products over j < k and j > k, without dividing by t − k (exact at nodes);
+    # a loop over the few stencil points is faster than cumprod along a short axis
+    before = [np.ones_like(t)]
+    for k in range(1, ORDER):
+        before.append(before[-1] * diff[k - 1])
+    out = np.empty((t.size, ORDER))
+    after = np.ones_like(t)
+    for k in range(ORDER - 1, -1, -1):
+        out[:, k] = before[k] * after / _DENOM[k]
+        after = after * diff[k]
+    return out
 
 
 def _stencil(position):

@@ -237,8 +237,8 @@ def estimated_relative_error(dos, temperatures):
     True
     """
     t = check_temperatures(temperatures)
-    fine = _molar_values(thermal_sums(dos, t, method="direct"), t)
-    coarse = _molar_values(thermal_sums(_coarsened(dos), t, method="direct"), t)
+    fine = _molar_values(thermal_sums(dos, t, method="auto"), t)
+    coarse = _molar_values(thermal_sums(_coarsened(dos), t, method="auto"), t)
     worst = 0.0
     for a, b in zip(fine, coarse):
         floor = 1e-3 * float(np.max(np.abs(a))) if np.any(a) else 1.0
