@@ -118,3 +118,16 @@ def test_composite_table_per_atom_infers_atoms_from_its_modes():
     from thermo.models import composite_table
     df = composite_table(model, [1e6], per="atom")
     assert df.heat_capacity_v_kB_per_atom[0] == pytest.approx(3.0, rel=1e-7)
+
+
+def test_fit_over_a_frozen_range_reports_no_false_precision():
+    # Below T ≈ θ/200 an Einstein C_v is ~e^{-200}: the fit cannot pin θ, so its uncertainty must not be 0.
+    t = np.linspace(0.1, 1.0, 20)
+    fit = fit_heat_capacity_data("einstein", t, einstein_heat_capacity(t, 240.0, 3), 3)
+    assert fit.uncertainty == np.inf or abs(fit.value - 240.0) <= 3 * fit.uncertainty
+    # tiny but resolvable values are fitted regardless of their scale (C_v ~ 1e-20 J/mol/K here)
+    t = np.linspace(2.0, 5.0, 20)
+    fit = fit_heat_capacity_data("einstein", t, einstein_heat_capacity(t, 240.0, 3), 3)
+    assert fit.value == pytest.approx(240.0, rel=1e-9)
+    with pytest.raises(OptionError):
+        fit_heat_capacity_data("einstein", t, np.zeros_like(t), 3)

@@ -72,7 +72,9 @@ def least_squares_fit(model, temperatures, values, initial, sigma=None, absolute
     initial : sequence of float
         Starting parameters, > 0.
     sigma : array_like or float, optional
-        Standard uncertainties of ``values`` (weights 1/σ).
+        Standard uncertainties of ``values`` (weights 1/σ); by default all
+        points weigh the same (σ = max|values|, so that the result does not
+        depend on the scale of the data).
     absolute_sigma : bool
         If True the covariance uses σ as given; otherwise it is scaled by
         the reduced χ² (residual variance), as when σ is unknown.
@@ -87,7 +89,8 @@ def least_squares_fit(model, temperatures, values, initial, sigma=None, absolute
     Minimises :math:`\\chi^2 = \\sum_j r_j^2`, :math:`r_j = (f(T_j;p) - y_j)/\\sigma_j`
     (trust-region reflective, bounds :math:`p > 0`).  Covariance
     :math:`\\mathrm{cov}(p) = (J^TJ)^{-1} s^2` with :math:`s^2 = \\chi^2/(M-P)`
-    (or 1 with ``absolute_sigma``).
+    (or 1 with ``absolute_sigma``); a parameter the data do not determine
+    (rank-deficient J) gets an infinite uncertainty.
 
     References
     ----------
@@ -102,26 +105,39 @@ def least_squares_fit(model, temperatures, values, initial, sigma=None, absolute
     """
     t = np.asarray(temperatures, dtype=float)
     y = np.asarray(values, dtype=float)
-    s = np.ones_like(y) if sigma is None else np.broadcast_to(np.asarray(sigma, dtype=float), y.shape)
     p0 = np.asarray(initial, dtype=float)
     if t.size <= p0.size:
         raise OptionError(f"a fit of {p0.size} parameter(s) needs more than {p0.size} temperatures, got {t.size}")
+    s = _weights(y, sigma)
     result = optimize.least_squares(lambda p: (model(t, p) - y) / s, p0, bounds=(1e-9 * p0, np.inf),
                                     x_scale=p0, method="trf", jac="3-point", xtol=1e-14, ftol=1e-14, gtol=1e-14)
-    jac = result.jac
     chi2 = float(np.sum(result.fun ** 2))
     scale = 1.0 if absolute_sigma else chi2 / (t.size - p0.size)
-    try:
-        cov = np.linalg.pinv(jac.T @ jac) * scale
-        errors = np.sqrt(np.clip(np.diag(cov), 0.0, None))
-    except np.linalg.LinAlgError:
-        errors = np.full(p0.size, np.nan)
+    errors = _standard_errors(result.jac, scale)
     rms = float(np.sqrt(np.mean((model(t, result.x) - y) ** 2)))
     return FitResult(value=float(result.x[0]), uncertainty=float(errors[0]),
                      fit_range_K=(float(t.min()), float(t.max())),
                      parameters=tuple(float(v) for v in result.x),
                      uncertainties=tuple(float(v) for v in errors),
                      rms_residual_J_per_mol_K=rms, points=int(t.size))
+
+
+def _weights(y, sigma):
+    """σ of each point; without σ the data scale, so that tiny C_v still fit."""
+    if sigma is not None:
+        return np.broadcast_to(np.asarray(sigma, dtype=float), y.shape)
+    size = float(np.max(np.abs(y))) if y.size else 0.0
+    if not size > 0:
+        raise OptionError("the data are all zero over the fit range; choose higher temperatures")
+    return np.full(y.shape, size)
+
+
+def _standard_errors(jac, scale):
+    """√diag((JᵀJ)⁻¹ s²); ``inf`` for parameters the data do not determine."""
+    if np.linalg.matrix_rank(jac) < jac.shape[1]:
+        return np.full(jac.shape[1], np.inf)
+    cov = np.linalg.inv(jac.T @ jac) * scale
+    return np.sqrt(np.clip(np.diag(cov), 0.0, None))
 
 
 def _initial_theta(model, t, y, s, modes):
@@ -180,8 +196,7 @@ def fit_heat_capacity_data(kind, temperatures, heat_capacity, modes, sigma=None,
         raise OptionError("temperatures and heat capacities must be 1-D arrays of the same length")
     if np.any(t <= 0) or not np.all(np.isfinite(y)):
         raise OptionError("fitted temperatures must be > 0 K and heat capacities finite")
-    s = np.ones_like(y) if sigma is None else np.broadcast_to(np.asarray(sigma, dtype=float), y.shape)
-    start = _initial_theta(model, t, y, s, modes)
+    start = _initial_theta(model, t, y, _weights(y, sigma), modes)
     return least_squares_fit(lambda tt, p: model(tt, p[0], modes), t, y, [start], sigma, absolute_sigma)
 
 
