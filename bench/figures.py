@@ -100,7 +100,8 @@ def p4(points=2000, cutoff_thz=8.0, sigma_thz=0.1, count=20):
     law = 12 * np.pi ** 4 / 5 * sc.R * (t / theta) ** 3
     text = cases.as_text(*cases.smeared_debye(points, cutoff_thz, sigma_thz))
     out = {}
-    for key, low in (("p4_low_t_rel_error", "auto"), ("p4_without_treatment_rel_error", "off")):
+    for key, low in (("p4_low_t_rel_error", "auto"), ("p4_without_treatment_rel_error", "off"),
+                     ("p4_window_above_3_sigma_rel_error", "0.3:1.2")):
         cv = tabulate(_load(text, atoms=1, low_frequency=low), t)["heat_capacity_v_J_per_mol_K"].to_numpy()
         out[key] = float(np.max(np.abs(cv / law - 1)))
     out["p4_case"] = (f"Debye DOS θ_D = {theta:.1f} K smeared by a {sigma_thz} THz Gaussian, {points} points, "
