@@ -9,7 +9,7 @@ from __future__ import annotations
 import logging
 import os
 
-from dash import Dash, Input, Output, State, dcc, html
+from dash import Dash, Input, Output, State, ctx, dcc, html, no_update
 
 from . import components, state
 from .pages import PAGES
@@ -58,6 +58,24 @@ def _with_image_format(node, image_format):
     return node
 
 
+def route(pathname, workspace, shown, prefs):
+    """Page layout for ``pathname`` and the record of what is shown."""
+    workspace = workspace or state.empty_workspace()
+    record = {"path": pathname, "rev": workspace.get("rev")}
+    if ctx.triggered_id == "mh-workspace" and shown == record:
+        return no_update, no_update
+    module = _page_for(pathname)
+    if module is None:
+        return [components.page("Page not found", f"There is no page at {pathname}.",
+                                dcc.Link("Go to the overview", href="/"))], record
+    fmt = (prefs or {}).get("image_format", "png")
+    mirror = dcc.Store(id=module.WORKSPACE, data=workspace)
+    try:
+        return [mirror, _with_image_format(module.layout(workspace, prefs), fmt)], record
+    except Exception as exc:  # never break the shell
+        return [mirror, components.page(module.NAME, state.one_line(exc))], record
+
+
 def shell(demo, max_upload_bytes):
     """The layout common to all pages."""
     nav = [dcc.Link(module.NAME, href=module.PATH, className="mh-nav-link", id=f"mh-nav-{module.PATH.strip('/') or 'home'}")
@@ -67,6 +85,7 @@ def shell(demo, max_upload_bytes):
         dcc.Store(id="mh-workspace", storage_type="session", data=demo),
         dcc.Store(id="mh-prefs", storage_type="session", data={"image_format": "png"}),
         dcc.Store(id="mh-config", data={"max_upload_bytes": max_upload_bytes}),
+        dcc.Store(id="mh-route", storage_type="memory"),
         html.Header([html.Div([html.Span("mode", className="mh-brand-a"), html.Span("heat", className="mh-brand-b")],
                               className="mh-brand"),
                      html.Nav(nav, className="mh-nav", **{"aria-label": "pages"})], className="mh-header"),
@@ -95,23 +114,14 @@ def create_app(max_upload_mb=None, demo_dir=None):
     app.layout = shell(demo, max_bytes)
     app.server.config["MODEHEAT_MAX_UPLOAD_BYTES"] = max_bytes
 
-    # Each page reads the workspace from its own store (id ``WORKSPACE``) rendered with it,
-    # so no callback mixes inputs of the shell with inputs of a page that may be
-    # absent; the Spectrum page writes both stores.
-    @app.callback(Output("mh-page", "children"), Input("mh-url", "pathname"),
-                  State("mh-workspace", "data"), State("mh-prefs", "data"))
-    def route(pathname, workspace, prefs):
-        workspace = workspace or state.empty_workspace()
-        module = _page_for(pathname)
-        if module is None:
-            return [components.page("Page not found", f"There is no page at {pathname}.",
-                                            dcc.Link("Go to the overview", href="/"))]
-        fmt = (prefs or {}).get("image_format", "png")
-        mirror = dcc.Store(id=module.WORKSPACE, data=workspace)
-        try:
-            return [mirror, _with_image_format(module.layout(workspace, prefs), fmt)]
-        except Exception as exc:  # never break the shell
-            return [mirror, components.page(module.NAME, state.one_line(exc))]
+    # Each page reads the workspace from its own store (id ``WORKSPACE``) rendered
+    # with it, so no callback mixes inputs of the shell with inputs of a page that
+    # may be absent.  The page is rebuilt when the path changes or when the
+    # workspace changes from outside the page (restored from the tab's session
+    # storage); a page's own edit is recorded in "mh-route" and not rebuilt.
+    app.callback(Output("mh-page", "children"), Output("mh-route", "data"),
+                 Input("mh-url", "pathname"), Input("mh-workspace", "data"),
+                 State("mh-route", "data"), State("mh-prefs", "data"))(route)
 
     app.clientside_callback(_UPLOAD_CHECK_JS, Output("mh-upload-checked", "data"),
                             Input("mh-upload", "contents"), State("mh-upload", "filename"),

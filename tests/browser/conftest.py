@@ -43,3 +43,14 @@ def pytest_collection_modifyitems(config, items):
         for item in items:
             if str(item.fspath).startswith(here):
                 item.add_marker(skip)
+
+
+@pytest.fixture
+def second_browser():
+    """A separate headless Chromium session (its own profile and storage)."""
+    from selenium import webdriver
+    options = chrome_options()
+    options.add_argument("--headless")
+    driver = webdriver.Chrome(options=options)
+    yield driver
+    driver.quit()

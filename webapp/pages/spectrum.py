@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import uuid
+
 import numpy as np
 import plotly.graph_objects as go
 from dash import Input, Output, State, ctx, dcc, html, no_update
@@ -272,13 +274,17 @@ def edit(upload, selected, unit, atoms, formula, negative, lowmode, lo, hi, _r, 
         new, notes = apply_edit(workspace, trigger, values, upload, rename_text, selected)
     except Exception as exc:  # last line of defence: message, nothing raised
         new, notes = workspace, [("error", state.one_line(exc))]
+    changed = new is not workspace
+    if changed:
+        new = {**new, "rev": uuid.uuid4().hex}
     current = state.active(new)
     shown = control_values(new)
-    # the page copy is always sent so that the plots below draw on the first call
-    return (new, new if new is not workspace else no_update, _dataset_options(new),
+    # the page copy is always sent, so the plots also draw on the first call
+    saved = (new, new, {"path": PATH, "rev": new["rev"]}) if changed else (new, no_update, no_update)
+    return (*saved, _dataset_options(new),
             current and current["id"], unit_options(current), *[shown[i] for i in _CONTROL_IDS],
             current["name"] if current else "",
-            no_update if trigger in (None, WORKSPACE) else c.message_items(notes))
+            c.message_items(notes))
 
 
 def draw(workspace):
@@ -298,13 +304,15 @@ def draw(workspace):
 def register(app):
     control_outputs = [Output(i, "value") for i in _CONTROL_IDS]
     app.callback(
-        Output(WORKSPACE, "data"), Output("mh-workspace", "data"), Output("sp-dataset", "options"), Output("sp-dataset", "value"),
+        Output(WORKSPACE, "data"), Output("mh-workspace", "data"),
+        Output("mh-route", "data", allow_duplicate=True), Output("sp-dataset", "options"), Output("sp-dataset", "value"),
         Output("sp-unit", "options"), *control_outputs, Output("sp-rename", "value"),
         Output("sp-messages", "children"),
         Input("mh-upload-checked", "data"), Input("sp-dataset", "value"),
         *[Input(i, "value") for i in _CONTROL_IDS],
         Input("sp-rename-btn", "n_clicks"), Input("sp-remove-btn", "n_clicks"),
-        Input(WORKSPACE, "data"), State("sp-rename", "value"), State("mh-config", "data"))(edit)
+        State(WORKSPACE, "data"), State("sp-rename", "value"), State("mh-config", "data"),
+        prevent_initial_call="initial_duplicate")(edit)
     app.callback(Output("sp-dos-graph", "figure"), Output("sp-reduced-graph", "figure"),
                   Output("sp-warnings", "children"), Output("sp-list", "children"),
                   Input(WORKSPACE, "data"))(draw)

@@ -1,0 +1,198 @@
+"""End-to-end tests: the real dashboard in headless Chromium (Debian chromium + chromedriver).
+
+Run: ``pytest tests/browser --headless``.  Test DOS files are invented
+(a Debye ν² spectrum); physical references come from scipy.constants (CODATA).
+"""
+
+import time
+from pathlib import Path
+
+import numpy as np
+import pytest
+from dash.testing.wait import until
+from scipy import constants as sc
+from selenium.webdriver.common.by import By
+
+from thermo import load_dos, tabulate
+from thermo.writers import read_exported_csv
+from webapp.app import create_app
+from webapp.pages import PAGES
+
+pytestmark = pytest.mark.browser
+N_POINTS = 241
+PLAIN = "# frequency (THz) dos\n" + "\n".join(f"{a} {9 * a * a / 125}" for a in np.linspace(0, 5, N_POINTS)) + "\n"
+GARBAGE = "# frequency (THz) dos\n0 0\n1 0.1\n2 banana\n3 0.5\n"
+
+
+@pytest.fixture
+def files(tmp_path):
+    good = tmp_path / "uploaded_debye.dat"
+    good.write_text(PLAIN)
+    bad = tmp_path / "broken.dat"
+    bad.write_text(GARBAGE)
+    return good, bad
+
+
+@pytest.fixture
+def duo(dash_duo):
+    dash_duo.start_server(create_app())
+    dash_duo.driver.set_window_size(1280, 1000)
+    return dash_duo
+
+
+def js_graph(driver, graph_id, expr="gd.data.map(t => t.type).length"):
+    return driver.execute_script(
+        f"const gd = document.querySelector('#{graph_id} .js-plotly-plot');"
+        f"if (!gd || !gd.data) return null; try {{ return {expr}; }} catch (e) {{ return null; }}")
+
+
+def drawn(driver, graph_id):
+    """Number of traces drawn in a graph (0 while it shows a placeholder)."""
+    return js_graph(driver, graph_id) or 0
+
+
+def wait_drawn(driver, graph_ids, timeout=30):
+    until(lambda: all(drawn(driver, g) > 0 for g in graph_ids), timeout)
+
+
+def page_graph_ids(driver):
+    return driver.execute_script(
+        "return Array.from(document.querySelectorAll('.dash-graph')).map(e => e.id);")
+
+
+def heading(driver):
+    return driver.execute_script("const h = document.querySelector('.mh-page h1'); return h ? h.textContent : '';")
+
+
+def active_name(driver):
+    """Text of the active-dataset selector ('' while the page is being drawn)."""
+    return driver.execute_script(
+        "const e = document.getElementById('sp-dataset'); return e ? e.textContent.trim() : '';")
+
+
+def values(driver, graph_id, trace=0):
+    """y values of a drawn trace (plotly's full data, typed arrays unpacked)."""
+    return np.array(js_graph(driver, graph_id, f"Array.from(gd._fullData[{trace}].y)"), dtype=float)
+
+
+def upload(driver, *paths):
+    field = driver.find_element(By.CSS_SELECTOR, "#mh-upload input[type=file]")
+    field.send_keys("\n".join(str(p) for p in paths))
+
+
+def no_console_errors(duo):
+    logs = [e for e in duo.get_logs() or [] if e.get("level") == "SEVERE"]
+    assert logs == [], logs
+
+
+def test_every_page_renders_plots_with_demo(duo):
+    for module in PAGES:
+        duo.driver.find_element(By.CSS_SELECTOR, f"a[href='{module.PATH}'].mh-nav-link").click()
+        until(lambda: heading(duo.driver) == module.NAME, 10)
+        ids = page_graph_ids(duo.driver)
+        if module.PATH != "/export":
+            assert ids, module.PATH
+        wait_drawn(duo.driver, ids)
+        for graph_id in ids:   # titled axes everywhere
+            assert js_graph(duo.driver, graph_id, "gd.layout.xaxis.title.text") or \
+                js_graph(duo.driver, graph_id, "gd.layout.xaxis.visible === false"), graph_id
+        assert "harmonic approximation" in duo.find_element("#mh-caution").text
+    no_console_errors(duo)
+
+
+def test_plain_links_reach_every_page(duo):
+    for module in PAGES:
+        duo.driver.get(duo.server_url + module.PATH)
+        until(lambda: heading(duo.driver) == module.NAME, 10)
+    no_console_errors(duo)
+
+
+def test_upload_updates_plots_and_survives_reload(duo, files):
+    good, _ = files
+    duo.driver.get(duo.server_url + "/spectrum")
+    wait_drawn(duo.driver, ["sp-dos-graph"])
+    before = js_graph(duo.driver, "sp-dos-graph", "gd._fullData[0].x.length")
+    upload(duo.driver, good)
+    until(lambda: active_name(duo.driver) == good.name, 20)
+    until(lambda: js_graph(duo.driver, "sp-dos-graph", "gd._fullData[0].x.length") == N_POINTS, 20)
+    assert before != N_POINTS
+    duo.driver.refresh()   # the workspace lives in the tab's session storage
+    duo.wait_for_element("#sp-dataset", timeout=10)
+    until(lambda: active_name(duo.driver) == good.name, 20)
+    until(lambda: js_graph(duo.driver, "sp-dos-graph", "gd._fullData[0].x.length") == N_POINTS, 20)
+    no_console_errors(duo)
+
+
+def test_garbage_upload_shows_error_and_keeps_dataset(duo, files):
+    _, bad = files
+    duo.driver.get(duo.server_url + "/spectrum")
+    wait_drawn(duo.driver, ["sp-dos-graph"])
+    name = active_name(duo.driver)
+    x_before = js_graph(duo.driver, "sp-dos-graph", "gd._fullData[0].x.length")
+    upload(duo.driver, bad)
+    duo.wait_for_contains_text("#sp-messages", "broken.dat", timeout=20)
+    text = duo.find_element("#sp-messages").text
+    assert "line 4" in text and "Traceback" not in text
+    assert active_name(duo.driver) == name
+    assert js_graph(duo.driver, "sp-dos-graph", "gd._fullData[0].x.length") == x_before
+    no_console_errors(duo)
+
+
+def test_changing_the_basis_changes_numbers(duo, files):
+    good, _ = files
+    duo.driver.get(duo.server_url + "/spectrum")
+    upload(duo.driver, good)
+    until(lambda: active_name(duo.driver) == good.name, 20)
+    duo.driver.find_element(By.CSS_SELECTOR, "a[href='/thermodynamics'].mh-nav-link").click()
+    wait_drawn(duo.driver, ["th-cv-graph"])
+    until(lambda: good.name in duo.find_element(".mh-active-note").text, 10)
+    per_formula = values(duo.driver, "th-cv-graph")
+    duo.driver.find_element(By.CSS_SELECTOR, "#th-per input[value='atom']").click()
+    until(lambda: "k_B/atom" in (js_graph(duo.driver, "th-cv-graph", "gd.layout.yaxis.title.text") or ""), 20)
+    per_atom = values(duo.driver, "th-cv-graph")
+    # one atom per formula unit: C_v per atom [k_B] = C_v per mole [J/(mol K)] / R (CODATA, scipy.constants)
+    np.testing.assert_allclose(per_atom, per_formula / sc.R, rtol=1e-9)
+    assert "k_B/atom" in duo.find_element("#th-keys").text
+    no_console_errors(duo)
+
+
+def test_export_download_equals_tabulate(duo, files):
+    good, _ = files
+    duo.driver.get(duo.server_url + "/spectrum")
+    upload(duo.driver, good)
+    until(lambda: active_name(duo.driver) == good.name, 20)
+    duo.driver.find_element(By.CSS_SELECTOR, "a[href='/export'].mh-nav-link").click()
+    box = duo.find_element("#ex-temperatures")
+    box.clear()
+    box.send_keys("0:900:15\n")
+    duo.wait_for_contains_text("#ex-preview", "temperature_K", timeout=20)
+    duo.driver.find_element(By.CSS_SELECTOR, "#ex-per input[value='atom']").click()
+    duo.wait_for_contains_text("#ex-preview", "basis: atom", timeout=20)
+    duo.find_element("#ex-download-btn").click()
+    target = Path(duo.download_path) / "uploaded_debye-atom.csv"
+    until(lambda: target.exists() and target.stat().st_size > 0, 20)
+    time.sleep(0.3)
+    df, meta = read_exported_csv(target)
+    temperatures = np.arange(0.0, 901.0, 15.0)
+    ref = tabulate(load_dos(good), temperatures, per="atom")
+    assert list(df.columns) == list(ref.columns)
+    np.testing.assert_array_equal(df.to_numpy(), ref.to_numpy())
+    assert meta["input"] == good.name and meta["basis"] == "atom"
+    no_console_errors(duo)
+
+
+def test_two_browsers_stay_isolated(duo, files, second_browser):
+    good, _ = files
+    duo.driver.get(duo.server_url + "/spectrum")
+    wait_drawn(duo.driver, ["sp-dos-graph"])
+    demo_name = active_name(duo.driver)
+    other = second_browser
+    other.get(duo.server_url + "/spectrum")
+    until(lambda: active_name(other) == demo_name, 20)
+    upload(duo.driver, good)
+    until(lambda: active_name(duo.driver) == good.name, 20)
+    other.get(duo.server_url + "/spectrum")   # reload: still its own workspace
+    until(lambda: active_name(other) == demo_name, 20)
+    until(lambda: "springium" in other.find_element(By.CSS_SELECTOR, "#sp-list").text, 20)
+    assert good.name not in other.find_element(By.CSS_SELECTOR, "#sp-list").text
+    no_console_errors(duo)
