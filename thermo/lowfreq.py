@@ -27,6 +27,13 @@ from .spectrum import LowFrequencyFit
 TOLERANCE = 0.02
 #: Largest misfit accepted (with a warning) when no window meets TOLERANCE.
 NOISY_TOLERANCE = 0.15
+#: A window whose DOS stays below this share of the maximum carries no modes
+#: that matter (the far flank of a peak) and is not taken as acoustic.
+RELEVANT_SHARE = 1e-3
+#: Largest offset C accepted, as a share of Aν² at the window's start (smearing
+#: by σ gives σ²/a², binning by Δ gives Δ²/12a²; a larger C means the data
+#: are not ν²-like, e.g. the flank of a broad peak).
+MAX_OFFSET = 0.5
 #: The search stays below the frequency under which this share of modes lies.
 SEARCH_SHARE = 0.2
 _MIN_POINTS = 8
@@ -76,7 +83,8 @@ def _fit(nu, g, offset=True):
     coef, *_ = np.linalg.lstsq(np.column_stack(columns), g, rcond=None)
     a, c = float(coef[0]), float(coef[1]) if offset else 0.0
     model = a * nu * nu + c
-    if a <= 0 or np.any(model <= 0):
+    lowest = a * nu.min() ** 2
+    if a <= 0 or np.any(model <= 0) or not (-MAX_OFFSET / 2 * lowest <= c <= MAX_OFFSET * lowest):
         return a, c, np.inf
     return a, c, float(np.sqrt(np.mean(((g - model) / model) ** 2)))
 
@@ -103,7 +111,7 @@ def _first_clean_octave(nu, g, limit):
     """Lowest octave where g = Aν² + C holds within TOLERANCE, or None."""
     for start, stop in _windows(nu, limit, 2.0):
         sel = _in(nu, start, stop)
-        if np.any(g[sel] > 0) and _fit(nu[sel], g[sel])[2] <= TOLERANCE:
+        if g[sel].max() >= RELEVANT_SHARE * g.max() and _fit(nu[sel], g[sel])[2] <= TOLERANCE:
             return start, stop
     return None
 
@@ -113,6 +121,8 @@ def _least_misfit_window(nu, g, limit):
     best = None
     for start, stop in _windows(nu, limit, 4.0):
         sel = _in(nu, start, stop)
+        if g[sel].max() < RELEVANT_SHARE * g.max():
+            continue
         rho = _fit(nu[sel], g[sel], offset=False)[2]
         if best is None or rho < best[2]:
             best = (start, stop, rho)
@@ -159,7 +169,8 @@ def fit_low_frequency(frequency_thz, dos, window=None):
     -----
     Least squares on :math:`g(\\nu) = A\\nu^2 + C` over the window; the
     automatic window is the lowest octave :math:`[a, 2a]` (at least 8 points)
-    whose relative rms misfit is at most 2 %, widened upward while the misfit
+    whose relative rms misfit is at most 2 % with an offset
+    :math:`-0.25 \\le C/(Aa^2) \\le 0.5`, widened upward while the misfit
     stays below 2 %, inside the lowest 20 % of the modes.  Where no octave is
     that clean (k-mesh structure, noise) the two-octave window of least
     misfit to a pure :math:`A\nu^2` is used if its misfit is below 15 %, with

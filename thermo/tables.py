@@ -177,8 +177,53 @@ def tabulate(dos, temperatures, per="formula", formula=None, method="auto"):
     if per not in COLUMNS:
         raise OptionError(f"unknown basis {per!r}; choose formula, atom or gram")
     t = check_temperatures(temperatures)
-    sums = thermal_sums(dos, t, method=method)
-    values = _convert(_molar_values(sums, t), per, dos.atoms, formula)
+    return table_from_sums(thermal_sums(dos, t, method=method), t, per, dos.atoms, formula)
+
+
+def table_from_sums(sums, temperatures, per="formula", atoms=1, formula=None):
+    """Thermodynamic table from mode-weighted kernel sums.
+
+    Parameters
+    ----------
+    sums : dict
+        As returned by :func:`thermo.integrals.thermal_sums` (or a model's
+        equivalent): ``heat_capacity``, ``thermal_energy``, ``log_partition``,
+        ``entropy`` [1] per formula unit and ``zero_point_thz`` [THz].
+    temperatures : array_like
+        Temperatures [K] the sums were evaluated at.
+    per : {'formula', 'atom', 'gram'}
+        Basis of the table (see :func:`tabulate`).
+    atoms : float
+        Atoms per formula unit.
+    formula : str, optional
+        Chemical formula, for ``per='gram'``.
+
+    Returns
+    -------
+    pandas.DataFrame
+        Columns :data:`COLUMNS` ``[per]``; ``attrs`` as in :func:`tabulate`.
+
+    Notes
+    -----
+    :math:`C_v = R\\Sigma_c`, :math:`S = R\\Sigma_s`,
+    :math:`U = E_0 + RT\\Sigma_u`, :math:`F = E_0 - RT\\Sigma_\\ell`,
+    :math:`E_0 = N_A h \\Sigma_{\\nu/2}`.
+
+    References
+    ----------
+    .. [1] D. C. Wallace, *Thermodynamics of Crystals* (Wiley, 1972), §4.
+
+    Examples
+    --------
+    >>> s = {"heat_capacity": np.array([3.0]), "thermal_energy": np.array([3.0]),
+    ...      "log_partition": np.array([0.0]), "entropy": np.array([3.0]), "zero_point_thz": 0.0}
+    >>> round(float(table_from_sums(s, [100.0]).heat_capacity_v_J_per_mol_K[0]), 6)
+    24.943388
+    """
+    if per not in COLUMNS:
+        raise OptionError(f"unknown basis {per!r}; choose formula, atom or gram")
+    t = check_temperatures(temperatures)
+    values = _convert(_molar_values(sums, t), per, atoms, formula)
     df = pd.DataFrame(dict(zip(COLUMNS[per], (t,) + tuple(values))))
     df.attrs.update(per=per, formula=formula,
                     zero_point_energy_J_per_mol=float(sums["zero_point_thz"] * _ZPE_J_PER_MOL_PER_THZ))

@@ -9,15 +9,9 @@ module turns such a dictionary into a table with exactly the columns of
 from __future__ import annotations
 
 import numpy as np
-import pandas as pd
-from scipy import constants as sc
 
 from ..integrals import SUM_KEYS
-from ..tables import COLUMNS, _convert, _molar_values, check_temperatures
-
-#: Zero-point energy [J/mol] per THz of Σ modes·ν/2 (N_A h · 1 THz).
-ZPE_J_PER_MOL_PER_THZ = sc.N_A * sc.h * 1e12
-
+from ..tables import table_from_sums
 
 def sums_on_hot(evaluate, temperatures):
     """Evaluate kernel sums for T > 0 only; exact zeros at T = 0.
@@ -101,18 +95,11 @@ def model_table(sums, temperatures, per="formula", atoms=None, formula=None, mod
     24.943388
     """
     from ..errors import OptionError
-    if per not in COLUMNS:
-        raise OptionError(f"unknown basis {per!r}; choose formula, atom or gram")
     if atoms is None and modes is not None:
         atoms = modes / 3.0
     if per != "formula" and atoms is None:
         raise OptionError(f"basis {per!r} needs the atoms per formula unit")
-    t = check_temperatures(temperatures)
-    values = _convert(_molar_values(sums, t), per, atoms, formula)
-    df = pd.DataFrame(dict(zip(COLUMNS[per], (t,) + tuple(values))))
-    df.attrs.update(per=per, formula=formula,
-                    zero_point_energy_J_per_mol=float(sums["zero_point_thz"] * ZPE_J_PER_MOL_PER_THZ))
-    return df
+    return table_from_sums(sums, temperatures, per, atoms, formula)
 
 
 def check_theta(theta_k, name="theta"):
