@@ -196,3 +196,33 @@ def test_two_browsers_stay_isolated(duo, files, second_browser):
     until(lambda: "springium" in other.find_element(By.CSS_SELECTOR, "#sp-list").text, 20)
     assert good.name not in other.find_element(By.CSS_SELECTOR, "#sp-list").text
     no_console_errors(duo)
+
+
+def test_oversize_upload_is_refused_with_a_clear_message(dash_duo, files):
+    good, _ = files   # about 5 kB, above a 0.001 MB limit
+    dash_duo.start_server(create_app(max_upload_mb=0.001))
+    dash_duo.driver.get(dash_duo.server_url + "/spectrum")
+    wait_drawn(dash_duo.driver, ["sp-dos-graph"])
+    name = active_name(dash_duo.driver)
+    upload(dash_duo.driver, good)
+    dash_duo.wait_for_contains_text("#sp-messages", "upload limit is 0.001 MB", timeout=20)
+    assert good.name in dash_duo.find_element("#sp-messages").text
+    assert active_name(dash_duo.driver) == name
+    no_console_errors(dash_duo)
+
+
+def test_form_controls_have_accessible_names(duo):
+    missing, checked = [], 0
+    for module in PAGES:
+        duo.driver.get(duo.server_url + module.PATH)
+        until(lambda: heading(duo.driver) == module.NAME, 10)
+        wait_drawn(duo.driver, page_graph_ids(duo.driver))
+        for element in duo.driver.find_elements(
+                By.CSS_SELECTOR, ".mh-page input, .mh-page button, .mh-page select, .mh-page [role=combobox]"):
+            if not element.is_displayed():
+                continue
+            checked += 1
+            if not element.accessible_name.strip():
+                missing.append(f"{module.PATH}: <{element.tag_name} id={element.get_attribute('id')!r} "
+                               f"class={element.get_attribute('class')!r}>")
+    assert missing == [] and checked > 30, (missing, checked)
