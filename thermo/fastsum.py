@@ -52,9 +52,9 @@ DYNAMIC_RANGE = 1e-6
 _NEGLIGIBLE_LOG = 46.0
 #: Nodes below this share of the highest frequency are summed directly.
 _LOW_NODE_SHARE = 1e-9
-#: Below these sizes the direct sum is as fast (measured: ~1 ms either way).
+#: Below these sizes the direct sum is as fast (measured: fast ~0.6 ms, direct ~1 ms at 20,000 pairs).
 MIN_TEMPERATURES = 16
-MIN_PAIRS = 100_000
+MIN_PAIRS = 20_000
 #: Longest log grid accepted (ln-range / STEP), to bound memory and time.
 MAX_GRID = 1 << 20
 
