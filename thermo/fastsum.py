@@ -284,18 +284,15 @@ def grid_sums(nodes_thz, weights, temperatures):
 
     Parameters
     ----------
-    nodes_thz : array_like, shape (N,)
-        Frequencies [THz], >= 0.
-    weights : array_like, shape (N,)
-        Number of modes carried by each node [1].
-    temperatures : array_like, shape (M,)
-        Temperatures [K], > 0.
+    nodes_thz, weights, temperatures : array_like
+        Frequencies (N,) [THz] >= 0, modes per node (N,) [1] and
+        temperatures (M,) [K] > 0, as for the direct sums.
 
     Returns
     -------
     dict of str to numpy.ndarray, shape (M,)
-        ``heat_capacity``, ``thermal_energy``, ``log_partition`` [1], as
-        :func:`thermo.integrals.direct_grid_sums` to about 1e-9 relative.
+        The sums of :func:`thermo.integrals.direct_grid_sums` (same keys) to
+        about 1e-9 relative.
 
     Notes
     -----
@@ -417,18 +414,15 @@ def debye_part_sums(coefficient, cutoff_thz, temperatures):
 
     Parameters
     ----------
-    coefficient : float
-        :math:`A` [modes / THz³].
-    cutoff_thz : float
-        :math:`\\nu_c` [THz].
-    temperatures : array_like, shape (M,)
-        Temperatures [K], > 0.
+    coefficient, cutoff_thz, temperatures : float, float, array_like (M,)
+        :math:`A` [modes / THz³], :math:`\\nu_c` [THz] and T [K] > 0, as
+        for :func:`thermo.integrals.nu2_part_sums`.
 
     Returns
     -------
     dict of str to numpy.ndarray, shape (M,)
-        As :func:`thermo.integrals.nu2_part_sums` (which integrates the same
-        by 64-point Gauss–Legendre quadrature) [1].
+        The sums of :func:`thermo.integrals.nu2_part_sums` (which integrates
+        the same by 64-point Gauss–Legendre quadrature) [1].
 
     Notes
     -----
