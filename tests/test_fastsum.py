@@ -152,3 +152,13 @@ def test_debye_part_sums_match_mpmath_and_quadrature():
             assert abs(fast[key][j] / float(ref) - 1) < 1e-12, (key, temp)
     gl = nu2_part_sums(a, cut, t)
     assert _worst(fast, gl) < 1e-12
+
+
+def test_cold_sums_in_small_passes_give_the_same(monkeypatch):
+    nu = np.linspace(3.0, 6.0, 301)
+    w = np.full(nu.size, 0.01)
+    t = np.linspace(1.0, 60.0, 120)
+    whole = fastsum.grid_sums(nu, w, t)
+    monkeypatch.setattr(fastsum, "_PAIRS_PER_PASS", 500)      # many passes of a few temperatures
+    assert _worst(fastsum.grid_sums(nu, w, t), whole) < 1e-13
+    assert _worst(whole, direct_grid_sums(nu, w, t)) < 1e-7

@@ -55,6 +55,8 @@ _LOW_NODE_SHARE = 1e-9
 #: Below these sizes the direct sum is as fast (measured: fast ~0.6 ms, direct ~1 ms at 20,000 pairs).
 MIN_TEMPERATURES = 16
 MIN_PAIRS = 20_000
+#: Pairs evaluated at once by the direct sums of cold temperatures (memory bound).
+_PAIRS_PER_PASS = 1_000_000
 #: Longest log grid accepted (ln-range / STEP), to bound memory and time.
 MAX_GRID = 1 << 20
 
@@ -274,9 +276,11 @@ def _fill_cold(out, nu, w, t, cold, groups=4):
         # clipped term is as large as any other: keep all nodes
         clipped = H_OVER_K_THZ * nu.min() / t[band].min() > _X_CLIP - _NEGLIGIBLE_LOG
         upto = nu.size if clipped else _relevant_nodes(nu, w, t[band].max())
-        exact = frozen_sums(nu[:upto], w[:upto], t[band])
-        for key in SUM_KEYS:
-            out[key][band] = exact[key]
+        # at most about _PAIRS_PER_PASS pairs in memory at once
+        for part in np.array_split(band, -(-band.size * upto // _PAIRS_PER_PASS)):
+            exact = frozen_sums(nu[:upto], w[:upto], t[part])
+            for key in SUM_KEYS:
+                out[key][part] = exact[key]
 
 
 def grid_sums(nodes_thz, weights, temperatures):
