@@ -192,12 +192,19 @@ def test_models_and_mode_map_draw_with_demo(demo):
     assert options[1] and options[3]
     figs = models.draw(demo, options[1], options[3], 1, 0, 400, 10, "formula", 1)
     assert figs[-1] == [] and len(figs[0].data) >= 3
-    heat, msgs = modemap.draw_map(demo, "heat_capacity_share", 10, 400, 10)
+    heat, msgs = modemap.draw_map(demo, "heat_capacity_share", 10, 400)
     assert msgs == []
     z = np.asarray(heat.data[0].z)
     np.testing.assert_allclose(z.sum(axis=0), 100.0, rtol=1e-6)   # each column is a whole (100 %)
     cum, planck, text = modemap.draw_explorer(demo, np.log10(300.0))
     assert text == "T = 300 K" and np.asarray(cum.data[0].y)[-1] == pytest.approx(100.0, rel=1e-6)
+
+
+def test_mode_map_bad_range_is_a_message(demo):
+    fig, msgs = modemap.draw_map(demo, "entropy_share", 400, 10)
+    assert "T from < T to" in msgs[0].children
+    fig, msgs = modemap.draw_map(demo, "entropy_share", None, 10)
+    assert "two numbers" in msgs[0].children
 
 
 def test_home_summary_for_demo_and_empty(demo):

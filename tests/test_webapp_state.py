@@ -145,3 +145,22 @@ def test_temperature_grid_errors_are_one_line():
 def test_one_line_for_unexpected_errors():
     text = state.one_line(KeyError("x\ny"))
     assert text.startswith("unexpected error: KeyError") and "\n" not in text
+
+
+def test_xlsx_upload_is_kept_as_base64_and_loads_like_the_text():
+    import io
+
+    import openpyxl
+    book = openpyxl.Workbook()
+    sheet = book.active
+    sheet.append(["frequency (THz)", "dos"])
+    for a in np.linspace(0, 5, 101):
+        sheet.append([float(a), float(9 * a * a / 125)])
+    out = io.BytesIO()
+    book.save(out)
+    ws, notes = state.add_uploads(state.empty_workspace(), [data_url(out.getvalue(), "application/vnd.ms-excel")],
+                                  ["debye.xlsx"], 10 ** 6)
+    assert notes == [("info", "loaded debye.xlsx")]
+    d = ws["datasets"][0]
+    assert d["encoding"] == "base64" and state.content_bytes(d) == out.getvalue()
+    np.testing.assert_allclose(state.load(d).dos, load_dos(PLAIN.encode()).dos, rtol=1e-12)

@@ -80,6 +80,14 @@ def upload(driver, *paths):
     field.send_keys("\n".join(str(p) for p in paths))
 
 
+def upload_then_open(duo, path, page):
+    """Upload ``path`` on the Spectrum page, then follow the navigation link to ``page``."""
+    duo.driver.get(duo.server_url + "/spectrum")
+    upload(duo.driver, path)
+    until(lambda: active_name(duo.driver) == path.name, 20)
+    duo.driver.find_element(By.CSS_SELECTOR, f"a[href='{page}'].mh-nav-link").click()
+
+
 def no_console_errors(duo):
     logs = [e for e in duo.get_logs() or [] if e.get("level") == "SEVERE"]
     assert logs == [], logs
@@ -140,10 +148,7 @@ def test_garbage_upload_shows_error_and_keeps_dataset(duo, files):
 
 def test_changing_the_basis_changes_numbers(duo, files):
     good, _ = files
-    duo.driver.get(duo.server_url + "/spectrum")
-    upload(duo.driver, good)
-    until(lambda: active_name(duo.driver) == good.name, 20)
-    duo.driver.find_element(By.CSS_SELECTOR, "a[href='/thermodynamics'].mh-nav-link").click()
+    upload_then_open(duo, good, "/thermodynamics")
     wait_drawn(duo.driver, ["th-cv-graph"])
     until(lambda: good.name in duo.find_element(".mh-active-note").text, 10)
     per_formula = values(duo.driver, "th-cv-graph")
@@ -158,10 +163,7 @@ def test_changing_the_basis_changes_numbers(duo, files):
 
 def test_export_download_equals_tabulate(duo, files):
     good, _ = files
-    duo.driver.get(duo.server_url + "/spectrum")
-    upload(duo.driver, good)
-    until(lambda: active_name(duo.driver) == good.name, 20)
-    duo.driver.find_element(By.CSS_SELECTOR, "a[href='/export'].mh-nav-link").click()
+    upload_then_open(duo, good, "/export")
     box = duo.find_element("#ex-temperatures")
     box.clear()
     box.send_keys("0:900:15\n")

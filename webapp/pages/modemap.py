@@ -13,6 +13,7 @@ WORKSPACE = "mm-workspace"
 PATH = "/modes"
 NAME = "Mode map"
 BINS = 160
+MAP_TEMPERATURES = 120
 SHARE_CHOICES = [{"label": "heat capacity C_v", "value": "heat_capacity_share"},
                  {"label": "entropy S", "value": "entropy_share"}]
 #: Slider marks of the explorer temperature: log10(T/K).
@@ -41,8 +42,7 @@ def heat_map_figure(dataset, temperatures, quantity):
                              colorbar={"title": {"text": f"share of {label} [% per bin]"}},
                              hovertemplate="T %{x:.4g} K<br>ν %{y:.3g} THz<br>%{z:.3g} %<extra></extra>"))
     fig.update_layout(hovermode="closest")
-    if float(np.min(data["temperature_K"])) > 0:
-        fig.update_xaxes(type="log")
+    fig.update_xaxes(type="log")
     return fig
 
 
@@ -68,9 +68,10 @@ def explorer_figures(dataset, temperature):
                                 name="energy per mode hν(n+½) [meV]", yaxis="y2",
                                 line={"width": 2, "dash": "dash", "color": c.PALETTE[1]},
                                 hovertemplate="%{y:.4g} meV"))
-    planck.update_layout(yaxis={"type": "log"},
+    planck.update_layout(yaxis={"type": "log"}, margin={"r": 70},
                          yaxis2={"title": {"text": "energy per mode [meV]"}, "overlaying": "y", "side": "right",
-                                 "showgrid": False, "type": "linear", "rangemode": "tozero"})
+                                 "showgrid": False, "type": "linear", "rangemode": "tozero",
+                                 "tickmode": "auto", "nticks": 6})
     return cum, planck
 
 
@@ -81,7 +82,9 @@ def layout(workspace, prefs=None):
                     "dominate at low T, all modes count near the classical limit.",
         c.active_note(current),
         c.controls(c.radio("mm-quantity", SHARE_CHOICES, "heat_capacity_share", "Share of"),
-                   *c.temperature_fields("mm", 5, 1000, 5)),
+                   c.number("mm-tmin", 2, "T from [K]", min_value=0.1),
+                   c.number("mm-tmax", 1000, "T to [K]", min_value=0.1),
+                   html.Small(f"{MAP_TEMPERATURES} temperatures, evenly spaced in log T", className="mh-hint")),
         c.messages_panel("mm-messages"),
         c.graph("mm-map-graph", "Share of the chosen quantity per frequency bin (each column sums to 100 %)"),
         html.H2("At one temperature"),
@@ -94,12 +97,24 @@ def layout(workspace, prefs=None):
     )
 
 
-def draw_map(workspace, quantity, t_min, t_max, step):
+def map_temperatures(t_min, t_max):
+    """Log-spaced temperatures of the map [K]; one-line OptionError when the range is empty."""
+    from thermo.errors import OptionError
+    try:
+        lo, hi = float(t_min), float(t_max)
+    except (TypeError, ValueError):
+        raise OptionError("the temperature range needs two numbers in kelvin") from None
+    if not 0 < lo < hi:
+        raise OptionError("the temperature range needs 0 < T from < T to")
+    return np.geomspace(lo, hi, MAP_TEMPERATURES)
+
+
+def draw_map(workspace, quantity, t_min, t_max):
     current = state.active(workspace)
     if current is None:
         return c.message_figure("no dataset loaded"), []
     try:
-        temperatures = state.temperature_grid(t_min, t_max, step)
+        temperatures = map_temperatures(t_min, t_max)
         return heat_map_figure(current, temperatures, quantity), []
     except Exception as exc:  # message, nothing raised
         return c.message_figure("nothing to show"), c.message_items([("error", state.one_line(exc))])
@@ -122,7 +137,7 @@ def draw_explorer(workspace, position):
 def register(app):
     app.callback(Output("mm-map-graph", "figure"), Output("mm-messages", "children"),
                   Input(WORKSPACE, "data"), Input("mm-quantity", "value"), Input("mm-tmin", "value"),
-                  Input("mm-tmax", "value"), Input("mm-step", "value"))(draw_map)
+                  Input("mm-tmax", "value"))(draw_map)
     app.callback(Output("mm-cumulative-graph", "figure"), Output("mm-planck-graph", "figure"),
                   Output("mm-temperature-text", "children"),
                   Input(WORKSPACE, "data"), Input("mm-temperature", "value"))(draw_explorer)
