@@ -14,11 +14,11 @@ Steps of :func:`grid_sums`:
 3. correlate (real FFTs of a fast length);
 4. interpolate back to the requested temperatures with 8-point Lagrange
    interpolation in :math:`\\ln T`;
-5. temperatures where a sum is too small against its largest value for the
-   FFT's rounding (about 1e-13 of the largest value) to be negligible —
-   the frozen, exponentially small end — are summed directly, as is a node
-   at :math:`\\nu = 0` (with its neighbour, see
-   :func:`thermo.integrals.direct_grid_sums`).
+5. temperatures where a sum is below 1e-6 of :math:`\\sum|W|\\max K` — the
+   scale of the FFT's rounding error, about 1e-16 of it — are summed
+   directly: the frozen, exponentially small end, summed over the nodes
+   whose terms are not negligible.  So is a node at :math:`\\nu = 0` (with
+   its neighbour, see :func:`thermo.integrals.direct_grid_sums`).
 
 The step :math:`\\Delta s = 0.002` keeps the interpolation error below 1e-9
 of each sum while the kernel is resolved up to :math:`x \\approx 30`; the
@@ -46,7 +46,7 @@ from .planck import H_OVER_K_THZ, log_partition_kernel, thermal_energy_kernel
 STEP = 0.002
 #: Points of the Lagrange stencils (deposit and read-back); even.
 ORDER = 8
-#: A sum below this share of its largest value is summed directly.
+#: A sum below this share of Σ|W|·max K (the scale of the FFT's rounding) is summed directly.
 DYNAMIC_RANGE = 1e-6
 #: Nodes whose term is below e^-46 (1e-20) of the largest are left out of a cold sum.
 _NEGLIGIBLE_LOG = 46.0
@@ -178,7 +178,11 @@ def _deposit(s, w, s0, length):
 
 
 def _correlate(deposit, tau0, s0, n_tau):
-    """S_n = Σ_m W_m K(s_m − τ_n) for the three kernels, on the τ grid."""
+    """S_n = Σ_m W_m K(s_m − τ_n) for the three kernels, on the τ grid.
+
+    Also returns, per kernel, Σ|W|·max|K|: the FFT's rounding error of any
+    S_n is a small multiple of 1e-16 of it.
+    """
     from scipy import fft
 
     n_s = deposit.size
@@ -191,7 +195,7 @@ def _correlate(deposit, tau0, s0, n_tau):
     full = fft.irfft(spectrum, size, axis=1)
     # (reversed W ⊛ K)[n_s − 1 + (n_tau − 1) − n] = S_n
     index = (n_s - 1) + (n_tau - 1) - np.arange(n_tau)
-    return full[:, index]
+    return full[:, index], np.sum(np.abs(deposit)) * np.max(np.abs(kernels), axis=1)
 
 
 def _read_back(values, tau0, tau):
@@ -336,12 +340,12 @@ def grid_sums(nodes_thz, weights, temperatures):
     tau0 = tau.min() - half * STEP
     n_s = int(np.ceil((s.max() - s0) / STEP)) + half + 1
     n_tau = int(np.ceil((tau.max() - tau0) / STEP)) + half + 1
-    on_grid = _correlate(_deposit(s, grid_w, s0, n_s), tau0, s0, n_tau)
+    on_grid, scale = _correlate(_deposit(s, grid_w, s0, n_s), tau0, s0, n_tau)
     values = _read_back(on_grid, tau0, tau)
     out = dict(zip(SUM_KEYS, values))
     cold = np.zeros(t.size, dtype=bool)
     for key in SUM_KEYS:
-        cold |= ~(out[key] > DYNAMIC_RANGE * np.max(np.abs(on_grid[SUM_KEYS.index(key)])))
+        cold |= ~(out[key] > DYNAMIC_RANGE * scale[SUM_KEYS.index(key)])
     if cold.any():
         _fill_cold(out, grid_nu, grid_w, t, np.flatnonzero(cold))
     if low_nu.size:
