@@ -167,8 +167,9 @@ def test_cold_sums_in_small_passes_give_the_same(monkeypatch):
 def test_spectrum_mostly_frozen_over_the_whole_range():
     # most modes far above every temperature: the sums are tiny against Σw, and the
     # FFT's rounding (relative to Σw) must not leak into them
-    rng = np.random.default_rng(3)
+    # (judging against the largest sum on the grid instead gave 6e-5 here)
+    rng = np.random.default_rng(4)
     nu = np.sort(rng.uniform(0.2, 1700.0, 1800))
     w = rng.uniform(0.0, 1.0, nu.size) ** 3
-    t = np.geomspace(0.5, 4.0, 1100)
-    assert _worst(fastsum.grid_sums(nu, w, t), direct_grid_sums(nu, w, t)) < 1e-7
+    t = np.linspace(0.5, 4.0, 1100)
+    assert _worst(fastsum.grid_sums(nu, w, t), direct_grid_sums(nu, w, t)) < 1e-9
