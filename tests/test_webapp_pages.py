@@ -212,3 +212,11 @@ def test_home_summary_for_demo_and_empty(demo):
     assert len(fig.data) >= 1
     note, _ = home.summary(state.empty_workspace())
     assert "No dataset" in str(note)
+
+
+def test_unit_choice_shows_the_unit_the_file_states(ws):
+    d = state.active(ws)
+    assert spectrum.unit_options(d)[0]["label"] == "as stated in file (THz)"
+    chosen, _ = state.with_options(ws, d["id"], {"freq_unit": "cm-1"})
+    assert spectrum.unit_options(state.active(chosen))[0]["label"] == "as stated in file (THz)"
+    assert [o["value"] for o in spectrum.unit_options(d)[1:]] == ["THz", "cm-1", "meV", "rad/s", "K"]

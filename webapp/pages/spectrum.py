@@ -29,7 +29,13 @@ _CONTROL_IDS = ("sp-unit", "sp-atoms", "sp-formula", "sp-negative", "sp-lowmode"
 # ---------------------------------------------------------------- pure logic
 
 def unit_options(dataset):
-    stated = state.stated_unit(dataset) if dataset else None
+    stated = None
+    if dataset is not None:
+        explicit = dataset.get("options", {}).get("freq_unit")
+        try:   # with no unit chosen, the loaded unit is the one the file states
+            stated = state.stated_unit(dataset) if explicit else state.load(dataset).source.get("freq_unit")
+        except Exception:  # an unloadable dataset simply has no stated unit to show
+            stated = None
     first = {"label": f"as stated in file ({stated})" if stated else "as stated in file (none found)",
              "value": "auto"}
     return [first] + [{"label": u, "value": u} for u in FREQUENCY_UNITS]
