@@ -117,3 +117,31 @@ def test_command_line_entry_point(inputs, tmp_path):
     assert proc.returncode == 1
     assert "4 of 5 tables written" in proc.stderr and "Traceback" not in proc.stderr
     assert sorted(p.suffix for p in out.iterdir()) == [".csv"] + [".json"] * 4
+
+
+def test_progress_bar_on_a_terminal(inputs, tmp_path):
+    pty = pytest.importorskip("pty")
+    import fcntl
+    import os
+    import struct
+    import termios
+    main_fd, child_fd = pty.openpty()
+    fcntl.ioctl(child_fd, termios.TIOCSWINSZ, struct.pack("HHHH", 40, 100, 0, 0))   # a 100-column terminal
+    proc = subprocess.Popen([sys.executable, "-m", "thermo", "batch", str(inputs), "--output", str(tmp_path / "out"),
+                             "--temperatures", "300"], cwd=REPO, stdout=subprocess.DEVNULL, stderr=child_fd)
+    proc.wait(timeout=120)
+    os.close(child_fd)
+    seen = b""
+    while True:
+        try:
+            chunk = os.read(main_fd, 4096)
+        except OSError:
+            break
+        if not chunk:
+            break
+        seen += chunk
+    os.close(main_fd)
+    text = seen.decode("utf-8", "replace")
+    assert proc.returncode == 1
+    assert "5/5" in text and "file/s" in text          # tqdm's bar reached the end
+    assert "c_bad.dat" in text
