@@ -167,9 +167,10 @@ def test_export_xlsx_and_json_hold_the_tabulated_values(ws):
 
 
 def test_export_preview_and_errors(ws):
-    text, msgs = export.preview(ws, "0:100:10", "formula", [1, 2, 3, 4])
+    text, fig, msgs = export.preview(ws, "0:100:10", "formula", [2, 4])
     assert text.startswith("# tool: modeheat") and msgs == []
-    text, msgs = export.preview(ws, "ten to twenty", "formula", [1])
+    assert fig.layout.yaxis.title.text == "S [J/(mol·K)]" and len(fig.data[0].x) == 11
+    text, _, msgs = export.preview(ws, "ten to twenty", "formula", [1])
     assert text == "" and "temperatures" in msgs[0].children
     assert export.image_format("svg", {"image_format": "png"}) == {"image_format": "svg"}
 

@@ -36,6 +36,15 @@ function(contents, names, config) {
 """
 
 
+_NAV_JS = """
+function(pathname) {
+    const paths = %s;
+    const here = "/" + (pathname || "/").replace(/^\\/+|\\/+$/g, "");
+    return paths.map(p => p === here ? "mh-nav-link mh-nav-here" : "mh-nav-link");
+}
+""" % [m.PATH for m in PAGES]
+
+
 def _page_for(pathname):
     path = "/" + (pathname or "/").strip("/")
     for module in PAGES:
@@ -123,6 +132,8 @@ def create_app(max_upload_mb=None, demo_dir=None):
                  Input("mh-url", "pathname"), Input("mh-workspace", "data"),
                  State("mh-route", "data"), State("mh-prefs", "data"))(route)
 
+    app.clientside_callback(_NAV_JS, [Output(f"mh-nav-{m.PATH.strip('/') or 'home'}", "className") for m in PAGES],
+                            Input("mh-url", "pathname"))
     app.clientside_callback(_UPLOAD_CHECK_JS, Output("mh-upload-checked", "data"),
                             Input("mh-upload", "contents"), State("mh-upload", "filename"),
                             State("mh-config", "data"), prevent_initial_call=True)

@@ -98,8 +98,7 @@ def test_every_page_renders_plots_with_demo(duo):
         duo.driver.find_element(By.CSS_SELECTOR, f"a[href='{module.PATH}'].mh-nav-link").click()
         until(lambda: heading(duo.driver) == module.NAME, 10)
         ids = page_graph_ids(duo.driver)
-        if module.PATH != "/export":
-            assert ids, module.PATH
+        assert ids, module.PATH
         wait_drawn(duo.driver, ids)
         for graph_id in ids:   # titled axes everywhere
             assert js_graph(duo.driver, graph_id, "gd.layout.xaxis.title.text") or \
@@ -228,3 +227,17 @@ def test_form_controls_have_accessible_names(duo):
                 missing.append(f"{module.PATH}: <{element.tag_name} id={element.get_attribute('id')!r} "
                                f"class={element.get_attribute('class')!r}>")
     assert missing == [] and checked > 30, (missing, checked)
+
+
+def test_figure_image_format_choice_reaches_the_plots(duo):
+    duo.driver.get(duo.server_url + "/export")
+    wait_drawn(duo.driver, ["ex-preview-graph"])
+    fmt = "gd._context.toImageButtonOptions.format"
+    assert js_graph(duo.driver, "ex-preview-graph", fmt) == "png"
+    duo.driver.find_element(By.CSS_SELECTOR, "#ex-image input[value='svg']").click()
+    time.sleep(0.5)
+    duo.driver.find_element(By.CSS_SELECTOR, "a[href='/thermodynamics'].mh-nav-link").click()
+    wait_drawn(duo.driver, ["th-cv-graph"])
+    until(lambda: js_graph(duo.driver, "th-cv-graph", fmt) == "svg", 10)
+    assert "mh-nav-here" in duo.find_element("a[href='/thermodynamics'].mh-nav-link").get_attribute("class")
+    no_console_errors(duo)

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import plotly.graph_objects as go
 from dash import Input, Output, State, dcc, html, no_update
 
 from thermo.cli_common import DEFAULT_TEMPERATURES, parse_temperatures
@@ -51,8 +52,9 @@ def layout(workspace, prefs=None):
         html.Div([html.Button("Download table", id="ex-download-btn", className="mh-button mh-primary"),
                   dcc.Download(id="ex-download")], className="mh-inline"),
         c.messages_panel("ex-messages"),
-        html.H2("Preview (first lines of the CSV)"),
-        dcc.Loading(html.Pre(id="ex-preview", className="mh-pre"), type="dot"),
+        html.H2("Preview"),
+        html.Div([c.graph("ex-preview-graph", "First chosen column of the export against temperature"),
+                  dcc.Loading(html.Pre(id="ex-preview", className="mh-pre"), type="dot")], className="mh-grid"),
         html.H2("Figures"),
         html.P("Every plot has a camera button in its toolbar that saves the figure. Choose its format "
                "here; it applies to the pages you open next.", className="mh-intro"),
@@ -60,16 +62,27 @@ def layout(workspace, prefs=None):
     )
 
 
+def preview_figure(dataset, spec, per, columns):
+    """The first chosen value column of the export against temperature."""
+    df = state.table(dataset, parse_temperatures(spec), per)
+    col = df.columns[min(columns or [1])]
+    fig = c.figure("temperature T [K]", state.COLUMN_LABELS[col])
+    fig.add_trace(go.Scatter(x=df.iloc[:, 0], y=df[col], mode="lines+markers", name=col,
+                             marker={"size": 4}, line={"color": c.PALETTE[0]}, hovertemplate="%{y:.6g}"))
+    return fig
+
+
 def preview(workspace, spec, per, columns):
     current = state.active(workspace)
     if current is None:
-        return "", [c.no_data_note()]
+        return "", c.message_figure("no dataset loaded"), [c.no_data_note()]
     try:
         _, content = export_bytes(current, spec, per, columns, "csv")
+        fig = preview_figure(current, spec, per, columns)
     except Exception as exc:  # shown, not raised
-        return "", c.message_items([("error", state.one_line(exc))])
+        return "", c.message_figure("nothing to export"), c.message_items([("error", state.one_line(exc))])
     lines = content.decode("utf-8").splitlines()
-    return "\n".join(lines[:40] + (["…"] if len(lines) > 40 else [])), []
+    return "\n".join(lines[:40] + (["…"] if len(lines) > 40 else [])), fig, []
 
 
 def download(_clicks, workspace, spec, per, columns, fmt):
@@ -88,7 +101,8 @@ def image_format(fmt, prefs):
 
 
 def register(app):
-    app.callback(Output("ex-preview", "children"), Output("ex-messages", "children"),
+    app.callback(Output("ex-preview", "children"), Output("ex-preview-graph", "figure"),
+                 Output("ex-messages", "children"),
                   Input(WORKSPACE, "data"), Input("ex-temperatures", "value"), Input("ex-per", "value"),
                   Input("ex-columns", "value"))(preview)
     app.callback(Output("ex-download", "data"), Output("ex-messages", "children", allow_duplicate=True),
