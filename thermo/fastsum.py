@@ -86,7 +86,8 @@ def lagrange_weights(offset):
 
     References
     ----------
-    .. [1] J.-P. Berrut, L. N. Trefethen, SIAM Rev. 46, 501-517 (2004).
+    .. [1] J.-P. Berrut, L. N. Trefethen, "Barycentric Lagrange interpolation",
+       SIAM Rev. 46, 501-517 (2004).
 
     Examples
     --------
@@ -148,6 +149,13 @@ def suitable(nodes_thz, weights, temperatures):
         True when there are enough temperatures and pairs, every value is
         finite, temperatures are positive, frequencies non-negative and the
         log grid stays short.
+
+    Notes
+    -----
+    Thresholds measured on a 2-core machine: the fast path costs about
+    0.6 ms whatever the size, the direct sums about 50 ns per pair, so the
+    fast path is taken from :data:`MIN_PAIRS` = 20,000 pairs and
+    :data:`MIN_TEMPERATURES` = 16 temperatures.
 
     Examples
     --------
@@ -247,7 +255,8 @@ def frozen_sums(nodes_thz, weights, temperatures):
 
     References
     ----------
-    .. [1] M. Planck, Ann. Phys. 309, 553 (1901).
+    .. [1] M. Planck, "Ueber das Gesetz der Energieverteilung im
+       Normalspectrum", Ann. Phys. 309, 553-563 (1901).
 
     Examples
     --------
@@ -314,8 +323,10 @@ def grid_sums(nodes_thz, weights, temperatures):
 
     References
     ----------
-    .. [1] J. W. Cooley, J. W. Tukey, Math. Comp. 19, 297-301 (1965).
-    .. [2] J.-P. Berrut, L. N. Trefethen, SIAM Rev. 46, 501-517 (2004).
+    .. [1] J. W. Cooley, J. W. Tukey, "An algorithm for the machine calculation
+       of complex Fourier series", Math. Comp. 19, 297-301 (1965).
+    .. [2] J.-P. Berrut, L. N. Trefethen, "Barycentric Lagrange interpolation",
+       SIAM Rev. 46, 501-517 (2004).
 
     Examples
     --------
