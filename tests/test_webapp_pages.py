@@ -221,3 +221,18 @@ def test_unit_choice_shows_the_unit_the_file_states(ws):
     chosen, _ = state.with_options(ws, d["id"], {"freq_unit": "cm-1"})
     assert spectrum.unit_options(state.active(chosen))[0]["label"] == "as stated in file (THz)"
     assert [o["value"] for o in spectrum.unit_options(d)[1:]] == ["THz", "cm-1", "meV", "rad/s", "K"]
+
+
+@pytest.mark.parametrize("per", ["formula", "atom", "gram"])
+def test_models_page_works_in_every_basis(demo, per):
+    pytest.importorskip("thermo.models")
+    d = state.active(demo)
+    ws, error = state.with_options(demo, d["id"], {"formula": "LiCs"})   # 2 atoms, like the demo crystal
+    assert error is None
+    opts = models.choices(ws, None, None)
+    values, residual, lowt, thetad, msgs = models.draw(ws, opts[1], opts[3], 1, 0, 600, 20, per, 1)
+    assert msgs == [] and len(values.data) == 4
+    expected = state.table(state.active(ws), np.arange(0.0, 601.0, 20.0), per).iloc[:, 1]
+    np.testing.assert_array_equal(np.asarray(values.data[0].y), expected.to_numpy())
+    assert values.layout.yaxis.title.text == state.COLUMN_LABELS[
+        state.table(state.active(ws), [300.0], per).columns[1]]

@@ -59,7 +59,7 @@ def model_tables(dataset, temperatures, per, einstein_key, debye_key, optical_te
         composite = state.derived("composite", dataset,
                                   lambda d: models.composite_model(d, optical_terms=int(optical_terms)),
                                   int(optical_terms))
-        tables[f"Debye + {int(optical_terms)} Einstein"] = models.composite_table(composite, temperatures, per=per)
+        tables[f"Debye + {int(optical_terms)} Einstein"] = models.composite_table(composite, temperatures, per=per, **extra)
     return tables
 
 
