@@ -1,8 +1,9 @@
 """The usual ways of computing a table, for comparison with ``tabulate``.
 
 Both integrate the tabulated DOS as given (no low-frequency treatment), one
-temperature at a time: a vectorised numpy sum over frequencies (three
-``np.exp`` passes per temperature), and ``scipy.integrate.quad``.
+temperature at a time: a vectorised numpy sum over frequencies (about three
+``np.exp``-like passes per temperature, as such code is usually written),
+and ``scipy.integrate.quad``.
 """
 
 from __future__ import annotations
@@ -23,9 +24,11 @@ def loop_table(nu, g, temperatures):
     with np.errstate(over="ignore", divide="ignore", invalid="ignore"):
         for t in temperatures:
             x = H_OVER_K_THZ * nu / t
-            cv = r * np.trapezoid(g * x * x * np.exp(x) / np.expm1(x) ** 2, nu)
-            u = zpe + r * t * np.trapezoid(g * x / np.expm1(x), nu)
-            log_term = np.trapezoid(g * np.log1p(-np.exp(-x)), nu)
+            ex = np.exp(x)                                   # three transcendental passes:
+            em1 = ex - 1.0                                   # exp(x), exp(-x), log
+            cv = r * np.trapezoid(g * x * x * ex / (em1 * em1), nu)
+            u = zpe + r * t * np.trapezoid(g * x / em1, nu)
+            log_term = np.trapezoid(g * np.log(1.0 - np.exp(-x)), nu)
             s = (u - zpe) / t - r * log_term
             rows.append((cv, s, u, zpe + r * t * log_term))
     return np.array(rows)
