@@ -84,7 +84,7 @@ def _fit(nu, g, offset=True):
     a, c = float(coef[0]), float(coef[1]) if offset else 0.0
     model = a * nu * nu + c
     lowest = a * nu.min() ** 2
-    if a <= 0 or np.any(model <= 0) or not (-MAX_OFFSET / 2 * lowest <= c <= MAX_OFFSET * lowest):
+    if a <= 0 or np.any(model <= 0) or not (-0.02 * lowest <= c <= MAX_OFFSET * lowest):
         return a, c, np.inf
     return a, c, float(np.sqrt(np.mean(((g - model) / model) ** 2)))
 
@@ -117,13 +117,13 @@ def _first_clean_octave(nu, g, limit):
 
 
 def _least_misfit_window(nu, g, limit):
-    """Two-octave window of least misfit to a pure Aν² (structured or noisy data)."""
+    """Two-octave window of least misfit (structured or noisy data)."""
     best = None
     for start, stop in _windows(nu, limit, 4.0):
         sel = _in(nu, start, stop)
         if g[sel].max() < RELEVANT_SHARE * g.max():
             continue
-        rho = _fit(nu[sel], g[sel], offset=False)[2]
+        rho = _fit(nu[sel], g[sel])[2]
         if best is None or rho < best[2]:
             best = (start, stop, rho)
     return best
@@ -170,10 +170,10 @@ def fit_low_frequency(frequency_thz, dos, window=None):
     Least squares on :math:`g(\\nu) = A\\nu^2 + C` over the window; the
     automatic window is the lowest octave :math:`[a, 2a]` (at least 8 points)
     whose relative rms misfit is at most 2 % with an offset
-    :math:`-0.25 \\le C/(Aa^2) \\le 0.5`, widened upward while the misfit
+    :math:`-0.02 \\le C/(Aa^2) \\le 0.5` (smearing and binning only add weight), widened upward while the misfit
     stays below 2 %, inside the lowest 20 % of the modes.  Where no octave is
     that clean (k-mesh structure, noise) the two-octave window of least
-    misfit to a pure :math:`A\nu^2` is used if its misfit is below 15 %, with
+    misfit to :math:`A\nu^2 + C` is used if its misfit is below 15 %, with
     a caution; otherwise the treatment is off.
 
     References
@@ -214,7 +214,7 @@ def fit_low_frequency(frequency_thz, dos, window=None):
                       "low-frequency treatment is off and the T³ law is not enforced")
     start, stop, rho = best
     sel = _in(nu, start, stop)
-    a, c, rho = _fit(nu[sel], g[sel], offset=False)
+    a, c, rho = _fit(nu[sel], g[sel])
     note = (f"low-frequency DOS is noisy or structured (ν² fit misfit {100 * rho:.1f} % rms over "
             f"{start:.3g}-{stop:.3g} THz); low-temperature values are uncertain")
     return LowFrequencyFit(a, float(stop), (float(start), float(stop)), c, rho), note
