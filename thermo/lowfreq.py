@@ -173,7 +173,7 @@ def fit_low_frequency(frequency_thz, dos, window=None):
     :math:`-0.02 \\le C/(Aa^2) \\le 0.5` (smearing and binning only add weight), widened upward while the misfit
     stays below 2 %, inside the lowest 20 % of the modes.  Where no octave is
     that clean (k-mesh structure, noise) the two-octave window of least
-    misfit to :math:`A\nu^2 + C` is used if its misfit is below 15 %, with
+    misfit to :math:`A\\nu^2 + C` is used if its misfit is below 15 %, with
     a caution; otherwise the treatment is off.
 
     References
