@@ -44,3 +44,4 @@ def test_pipeline_returns_finite_table_or_one_line_error(text, atoms, negative, 
     table = tabulate(dos, [0.0, 0.5, 10.0, 300.0, 5000.0])
     assert np.all(np.isfinite(table.to_numpy()))
     assert dos.mode_count > 0
+    assert 0.0 <= dos.source["negative_mode_fraction"] <= 1.0

@@ -10,6 +10,7 @@ from __future__ import annotations
 import numpy as np
 
 from .errors import OptionError
+from .integrals import trapezoid_weights
 
 #: Policies for negative-frequency weight.
 POLICIES = ("drop", "keep-count", "refuse")
@@ -67,7 +68,8 @@ def split_at_zero(frequency, columns):
 
     Notes
     -----
-    Trapezoid integrals of the piecewise-linear DOS on each side of 0.
+    Trapezoid integrals of the piecewise-linear DOS on each side of 0, with
+    sharp band edges read as steps (:func:`thermo.integrals.band_edge_segments`).
 
     References
     ----------
@@ -86,7 +88,9 @@ def split_at_zero(frequency, columns):
     below = nu < 0
     nu_neg = np.concatenate([nu[below], [0.0]])
     zero_vals = [np.interp(0.0, nu, c) for c in cols]
-    negative = np.array([np.trapezoid(np.concatenate([c[below], [z]]), nu_neg)
+    total_neg = np.concatenate([cols[0][below], [zero_vals[0]]])
+    trapezoid = trapezoid_weights(nu_neg, total_neg)
+    negative = np.array([float(np.dot(np.concatenate([c[below], [z]]), trapezoid))
                          for c, z in zip(cols, zero_vals)])
     keep = nu > 0
     nu_pos = np.concatenate([[0.0], nu[keep]])

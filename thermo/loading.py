@@ -116,11 +116,11 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
     nu_all = np.asarray(clean.frequency, dtype=float) / factor
     names = list(clean.partials)
     cols_all = [np.asarray(clean.total, float) * factor] + [np.asarray(clean.partials[k], float) * factor for k in names]
-    raw_integral = float(mode_weights(nu_all, cols_all[0]).sum())
+    negative_modes, nu, cols = split_at_zero(nu_all, cols_all)
+    real_integral = float(mode_weights(nu, cols[0]).sum()) if nu.size > 1 else 0.0
+    raw_integral = float(negative_modes[0]) + real_integral
     if not raw_integral > 0:
         raise DosInputError(f"the DOS integrates to {raw_integral:.6g}; it must be positive", src)
-
-    negative_modes, nu, cols = split_at_zero(nu_all, cols_all)
     share = float(negative_modes[0] / raw_integral)
     if share > 0 and policy == "refuse":
         raise DosInputError(f"{100 * share:.3g} % of modes are imaginary (negative frequencies) "
@@ -129,7 +129,7 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
     n_atoms, inferred = resolve_atoms(raw_integral, atoms, src)
     if inferred:
         notes.append(f"atoms per formula unit inferred as {n_atoms} from the DOS integral {raw_integral:.6g}")
-    if nu.size < 3 or mode_weights(nu, cols[0]).sum() <= 0:
+    if nu.size < 3 or real_integral <= 0:
         raise DosInputError("no real (positive-frequency) modes left after removing imaginary ones", src)
 
     fit, fit_note = (None, None)
