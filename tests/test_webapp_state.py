@@ -164,3 +164,16 @@ def test_xlsx_upload_is_kept_as_base64_and_loads_like_the_text():
     d = ws["datasets"][0]
     assert d["encoding"] == "base64" and state.content_bytes(d) == out.getvalue()
     np.testing.assert_allclose(state.load(d).dos, load_dos(PLAIN.encode()).dos, rtol=1e-12)
+
+
+def test_persistable_leaves_out_the_largest_datasets():
+    ws = workspace_with_plain()
+    long_text = "# frequency (THz) dos\n" + "\n".join(f"{a} {9 * a * a / 125}" for a in np.linspace(0, 5, 4001))
+    ws, notes = state.add_uploads(ws, [data_url(long_text)], ["long.dat"], 10 ** 7)
+    assert notes == [("info", "loaded long.dat")]
+    assert state.persistable(ws) == (ws, [])
+    small = len(ws["datasets"][0]["content"])
+    kept, left_out = state.persistable(ws, limit=small + 2000)
+    assert left_out == ["long.dat"] and [d["name"] for d in kept["datasets"]] == ["debye.dat"]
+    assert kept["active"] == kept["datasets"][0]["id"]
+    assert len(ws["datasets"]) == 2   # the input is not modified

@@ -85,15 +85,24 @@ def route(pathname, workspace, shown, prefs):
         return [mirror, components.page(module.NAME, state.one_line(exc))], record
 
 
-def shell(demo, max_upload_bytes):
+def restore(saved, workspace):
+    """Workspace restored from the tab's session storage (after a reload)."""
+    if not saved or (workspace or {}).get("rev") == saved.get("rev"):
+        return no_update
+    return saved
+
+
+def shell(demo, max_upload_bytes, saved_limit_chars=state.SAVED_LIMIT_CHARS):
     """The layout common to all pages."""
     nav = [dcc.Link(module.NAME, href=module.PATH, className="mh-nav-link", id=f"mh-nav-{module.PATH.strip('/') or 'home'}")
            for module in PAGES]
     return html.Div([
         dcc.Location(id="mh-url", refresh=False),
-        dcc.Store(id="mh-workspace", storage_type="session", data=demo),
+        dcc.Store(id="mh-workspace", storage_type="memory", data=demo),
+        dcc.Store(id="mh-saved", storage_type="session"),
         dcc.Store(id="mh-prefs", storage_type="session", data={"image_format": "png"}),
-        dcc.Store(id="mh-config", data={"max_upload_bytes": max_upload_bytes}),
+        dcc.Store(id="mh-config", data={"max_upload_bytes": max_upload_bytes,
+                                        "saved_limit_chars": saved_limit_chars}),
         dcc.Store(id="mh-route", storage_type="memory"),
         html.Header([html.Div([html.Span("mode", className="mh-brand-a"), html.Span("heat", className="mh-brand-b")],
                               className="mh-brand"),
@@ -103,7 +112,7 @@ def shell(demo, max_upload_bytes):
     ], className="mh-shell")
 
 
-def create_app(max_upload_mb=None, demo_dir=None):
+def create_app(max_upload_mb=None, demo_dir=None, saved_limit_chars=state.SAVED_LIMIT_CHARS):
     """Build the dashboard.
 
     Parameters
@@ -112,6 +121,9 @@ def create_app(max_upload_mb=None, demo_dir=None):
         Per-file upload limit [MB]; default from ``MODEHEAT_MAX_UPLOAD_MB`` or 20.
     demo_dir : path, optional
         Folder of demo DOS files loaded on a first visit (default ``sample_dos/``).
+    saved_limit_chars : int, optional
+        Largest workspace kept in the tab's session storage (see
+        :func:`webapp.state.persistable`).
     """
     if max_upload_mb is None:
         max_upload_mb = float(os.environ.get("MODEHEAT_MAX_UPLOAD_MB", state.DEFAULT_MAX_UPLOAD_MB))
@@ -120,18 +132,21 @@ def create_app(max_upload_mb=None, demo_dir=None):
     app = Dash(__name__, title="modeheat", suppress_callback_exceptions=True,
                assets_folder=os.path.join(os.path.dirname(__file__), "assets"),
                update_title=None)
-    app.layout = shell(demo, max_bytes)
+    app.layout = shell(demo, max_bytes, saved_limit_chars)
     app.server.config["MODEHEAT_MAX_UPLOAD_BYTES"] = max_bytes
 
     # Each page reads the workspace from its own store (id ``WORKSPACE``) rendered
     # with it, so no callback mixes inputs of the shell with inputs of a page that
     # may be absent.  The page is rebuilt when the path changes or when the
-    # workspace changes from outside the page (restored from the tab's session
-    # storage); a page's own edit is recorded in "mh-route" and not rebuilt.
+    # workspace changes from outside the page (restored from "mh-saved", the
+    # tab's session storage); a page's own edit is recorded in "mh-route" and
+    # not rebuilt.
     app.callback(Output("mh-page", "children"), Output("mh-route", "data"),
                  Input("mh-url", "pathname"), Input("mh-workspace", "data"),
                  State("mh-route", "data"), State("mh-prefs", "data"))(route)
 
+    app.callback(Output("mh-workspace", "data", allow_duplicate=True), Input("mh-saved", "data"),
+                 State("mh-workspace", "data"), prevent_initial_call="initial_duplicate")(restore)
     app.clientside_callback(_NAV_JS, [Output(f"mh-nav-{m.PATH.strip('/') or 'home'}", "className") for m in PAGES],
                             Input("mh-url", "pathname"))
     app.clientside_callback(_UPLOAD_CHECK_JS, Output("mh-upload-checked", "data"),

@@ -336,3 +336,38 @@ def derived(kind, dataset, compute, *params):
     """
     key = (kind, _load_key(dataset), params)
     return _DERIVED_CACHE.get(key, lambda: compute(load(dataset)))
+
+
+#: Largest workspace [characters of JSON] kept in the tab's session storage
+#: (browsers allow about 5 million characters per site; common practice).
+SAVED_LIMIT_CHARS = 3_000_000
+
+
+def persistable(workspace, limit=SAVED_LIMIT_CHARS):
+    """The part of a workspace that fits the browser's session storage.
+
+    The largest datasets are left out until the JSON fits ``limit``
+    characters; they stay in the page's memory until a reload.
+
+    Returns
+    -------
+    saved : dict
+        Workspace to store (same ``rev``).
+    left_out : list of str
+        Names of the datasets that will not survive a reload.
+    """
+    import json
+    datasets = list(workspace.get("datasets", []))
+    left_out = []
+    size = len(json.dumps(workspace))
+    for d in sorted(datasets, key=lambda d: len(d["content"]), reverse=True):
+        if size <= limit:
+            break
+        datasets.remove(d)
+        left_out.append(d["name"])
+        size -= len(json.dumps(d))
+    if not left_out:
+        return workspace, []
+    active_id = workspace.get("active") if find({"datasets": datasets}, workspace.get("active")) else \
+        (datasets[0]["id"] if datasets else None)
+    return {**workspace, "datasets": datasets, "active": active_id}, left_out

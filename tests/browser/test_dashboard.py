@@ -4,6 +4,7 @@ Run: ``pytest tests/browser --headless``.  Test DOS files are invented
 (a Debye ν² spectrum); physical references come from scipy.constants (CODATA).
 """
 
+import json
 import time
 from pathlib import Path
 
@@ -15,6 +16,7 @@ from selenium.webdriver.common.by import By
 
 from thermo import load_dos, tabulate
 from thermo.writers import read_exported_csv
+from webapp import state
 from webapp.app import create_app
 from webapp.pages import PAGES
 
@@ -241,3 +243,20 @@ def test_figure_image_format_choice_reaches_the_plots(duo):
     until(lambda: js_graph(duo.driver, "th-cv-graph", fmt) == "svg", 10)
     assert "mh-nav-here" in duo.find_element("a[href='/thermodynamics'].mh-nav-link").get_attribute("class")
     no_console_errors(duo)
+
+
+def test_workspace_too_large_for_session_storage_is_kept_until_reload(dash_duo, tmp_path):
+    good = tmp_path / "long_debye.dat"   # larger than any demo file: the first to be left out
+    good.write_text("# frequency (THz) dos\n" + "\n".join(f"{a} {9 * a * a / 125}" for a in np.linspace(0, 5, 6001)))
+    demo_size = len(json.dumps(state.demo_workspace()))
+    dash_duo.start_server(create_app(saved_limit_chars=demo_size + 200))   # the demo fits, the upload not
+    dash_duo.driver.get(dash_duo.server_url + "/spectrum")
+    wait_drawn(dash_duo.driver, ["sp-dos-graph"])
+    demo_name = active_name(dash_duo.driver)
+    upload(dash_duo.driver, good)
+    dash_duo.wait_for_contains_text("#sp-messages", "too large to keep across a page reload", timeout=20)
+    until(lambda: js_graph(dash_duo.driver, "sp-dos-graph", "gd._fullData[0].x.length") == 6001, 20)
+    no_console_errors(dash_duo)   # nothing overflowed the browser's storage
+    dash_duo.driver.refresh()
+    until(lambda: active_name(dash_duo.driver) == demo_name, 20)
+    no_console_errors(dash_duo)

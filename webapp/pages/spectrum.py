@@ -280,13 +280,17 @@ def edit(upload, selected, unit, atoms, formula, negative, lowmode, lo, hi, _r, 
         new, notes = apply_edit(workspace, trigger, values, upload, rename_text, selected)
     except Exception as exc:  # last line of defence: message, nothing raised
         new, notes = workspace, [("error", state.one_line(exc))]
-    changed = new is not workspace
-    if changed:
+    if new is workspace:   # the page copy is always sent, so the plots also draw on the first call
+        saved = (new, no_update, no_update, no_update)
+    else:
         new = {**new, "rev": uuid.uuid4().hex}
+        kept, left_out = state.persistable(new, (config or {}).get("saved_limit_chars",
+                                                                   state.SAVED_LIMIT_CHARS))
+        notes = notes + [("warn", f"{name} is too large to keep across a page reload; it stays loaded "
+                                  "until this tab is reloaded or closed") for name in left_out]
+        saved = (new, new, kept, {"path": PATH, "rev": new["rev"]})
     current = state.active(new)
     shown = control_values(new)
-    # the page copy is always sent, so the plots also draw on the first call
-    saved = (new, new, {"path": PATH, "rev": new["rev"]}) if changed else (new, no_update, no_update)
     return (*saved, _dataset_options(new),
             current and current["id"], unit_options(current), *[shown[i] for i in _CONTROL_IDS],
             current["name"] if current else "",
@@ -310,8 +314,8 @@ def draw(workspace):
 def register(app):
     control_outputs = [Output(i, "value") for i in _CONTROL_IDS]
     app.callback(
-        Output(WORKSPACE, "data"), Output("mh-workspace", "data"),
-        Output("mh-route", "data", allow_duplicate=True), Output("sp-dataset", "options"), Output("sp-dataset", "value"),
+        Output(WORKSPACE, "data"), Output("mh-workspace", "data", allow_duplicate=True),
+        Output("mh-saved", "data"), Output("mh-route", "data", allow_duplicate=True), Output("sp-dataset", "options"), Output("sp-dataset", "value"),
         Output("sp-unit", "options"), *control_outputs, Output("sp-rename", "value"),
         Output("sp-messages", "children"),
         Input("mh-upload-checked", "data"), Input("sp-dataset", "value"),
