@@ -15,7 +15,7 @@ import numpy as np
 import pytest
 from scipy import constants as sc
 
-from test_models_spectra import debye_dos, peak_dos, theta_of
+from tests.test_models_spectra import debye_dos, peak_dos, theta_of
 from thermo.errors import OptionError
 from thermo.models import (cv_over_t3, debye_table, einstein_table, largest_deviations, mode_share_map,
                            model_tables, occupation_explorer, residual_table, side_by_side)

@@ -15,7 +15,7 @@ import numpy as np
 import pytest
 from scipy import constants as sc
 
-from test_models_spectra import band_plus_peaks, debye_dos, peak_dos, theta_of, write_text
+from tests.test_models_spectra import band_plus_peaks, debye_dos, peak_dos, theta_of, write_text
 from thermo import load_dos
 from thermo.models import (THETA_KEYS, debye_moment_temperature, einstein_entropy_temperature,
                            equivalent_debye_temperature, fit_einstein_theta, frequency_moment,
@@ -131,7 +131,7 @@ def test_log_moment_of_a_dos_that_does_not_vanish_at_zero_frequency():
     # Reference: mpmath quadrature of the same piecewise-linear spectrum's exact Gaussian form
     # (grid fine enough that interpolation error is below 1e-4).
     from thermo.spectrum import PhononDOS
-    from test_models_spectra import gaussian
+    from tests.test_models_spectra import gaussian
     nu = np.linspace(0.0, 12.0, 6001)
     g = gaussian(nu, 5.0, 1.5, 3.0)
     dos = PhononDOS(nu, g * 3.0 / np.trapezoid(g, nu), atoms=1)
