@@ -12,9 +12,13 @@ from .units import FREQUENCY_UNITS
 DEFAULT_TEMPERATURES = "0:1000:10"
 
 
-def add_input_options(parser):
-    """Add the options that say how to read a DOS file."""
-    parser.add_argument("file", help="DOS file: text (space, tab, comma or semicolon separated) or .xlsx")
+def add_input_options(parser, many=False):
+    """Add the options that say how to read a DOS file (or, with ``many``, several)."""
+    if many:
+        parser.add_argument("file", nargs="+", metavar="DIR_OR_GLOB",
+                            help="DOS files, directories (their files) or glob patterns (quote them; ** recurses)")
+    else:
+        parser.add_argument("file", help="DOS file: text (space, tab, comma or semicolon separated) or .xlsx")
     parser.add_argument("--freq-unit", metavar="U",
                         help=f"unit of the frequency column: {', '.join(FREQUENCY_UNITS)} "
                              "(default: as stated in the file header)")
@@ -25,6 +29,16 @@ def add_input_options(parser):
                              "drop without renormalising, or refuse the file")
     parser.add_argument("--low-frequency", default="auto", metavar="auto|off|LOW:HIGH",
                         help="ν² treatment below a cut-off: automatic window (default), off, or a window in THz")
+
+
+def add_table_options(parser, output_help):
+    """Add ``--per``, ``--formula``, ``--format``, ``--output`` and ``--force``."""
+    parser.add_argument("--per", default="formula", choices=["formula", "atom", "gram"],
+                        help="basis: per mole of formula units (default), per atom, per gram (needs --formula)")
+    parser.add_argument("--formula", help="chemical formula of the formula unit, e.g. MgO (for --per gram)")
+    parser.add_argument("--format", default="csv", choices=["csv", "json", "xlsx"], help="table format (default csv)")
+    parser.add_argument("--output", metavar="PATH", help=output_help)
+    parser.add_argument("--force", action="store_true", help="replace existing output files")
 
 
 def add_temperature_option(parser, default=DEFAULT_TEMPERATURES):

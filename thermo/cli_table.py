@@ -5,19 +5,15 @@ from __future__ import annotations
 import sys
 from pathlib import Path
 
-from .cli_common import add_input_options, add_temperature_option, load_from_args, parse_temperatures, report_warnings
+from .cli_common import (add_input_options, add_table_options, add_temperature_option, load_from_args,
+                         parse_temperatures, report_warnings)
 
 
 def register(sub):
     p = sub.add_parser("table", help="C_v, S, U, F versus temperature for one DOS file")
     add_input_options(p)
     add_temperature_option(p)
-    p.add_argument("--per", default="formula", choices=["formula", "atom", "gram"],
-                   help="basis: per mole of formula units (default), per atom, per gram (needs --formula)")
-    p.add_argument("--formula", help="chemical formula of the formula unit, e.g. MgO (for --per gram)")
-    p.add_argument("--format", default="csv", choices=["csv", "json", "xlsx"], help="output format (default csv)")
-    p.add_argument("--output", metavar="PATH", help="write here (default: stdout for csv/json)")
-    p.add_argument("--force", action="store_true", help="overwrite an existing output file")
+    add_table_options(p, "write here (default: stdout for csv/json)")
     p.set_defaults(func=run)
 
 
