@@ -1,15 +1,41 @@
 """modeheat thermo: harmonic thermodynamics from a phonon density of states.
 
+The public names are imported lazily (PEP 562) so that ``python -m thermo``
+starts without loading pandas or scipy until a command needs them.
+
 >>> from thermo import load_dos, tabulate   # doctest: +SKIP
 """
 
+from __future__ import annotations
+
+import importlib
+
 __version__ = "0.1.0"
 
-from .errors import DosInputError, ModeheatError, ModeheatWarning, OptionError  # noqa: E402
-from .loading import load_dos  # noqa: E402
-from .spectrum import LowFrequencyFit, PhononDOS  # noqa: E402
-from .tables import estimated_relative_error, provenance, tabulate, zero_point_energy  # noqa: E402
+_EXPORTS = {
+    "load_dos": "loading",
+    "tabulate": "tables",
+    "zero_point_energy": "tables",
+    "estimated_relative_error": "tables",
+    "provenance": "tables",
+    "PhononDOS": "spectrum",
+    "LowFrequencyFit": "spectrum",
+    "DosInputError": "errors",
+    "OptionError": "errors",
+    "ModeheatError": "errors",
+    "ModeheatWarning": "errors",
+}
 
-__all__ = ["load_dos", "tabulate", "PhononDOS", "LowFrequencyFit", "DosInputError", "OptionError",
-           "ModeheatError", "ModeheatWarning", "zero_point_energy", "estimated_relative_error",
-           "provenance", "__version__"]
+__all__ = sorted(_EXPORTS) + ["__version__"]
+
+
+def __getattr__(name):
+    if name in _EXPORTS:
+        value = getattr(importlib.import_module(f".{_EXPORTS[name]}", __name__), name)
+        globals()[name] = value
+        return value
+    raise AttributeError(f"module 'thermo' has no attribute {name!r}")
+
+
+def __dir__():
+    return __all__

@@ -7,7 +7,7 @@ import sys
 import numpy as np
 
 from .errors import OptionError
-from .units import FREQUENCY_UNITS
+from .unit_names import FREQUENCY_UNITS
 
 DEFAULT_TEMPERATURES = "0:1000:10"
 

@@ -38,8 +38,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .integrals import _KERNELS, SUM_KEYS, direct_grid_sums
-from .planck import _X_MAX as _X_CLIP
+from .integrals import KERNELS, SUM_KEYS, direct_grid_sums
+from .planck import X_MAX as _X_CLIP
 from .planck import H_OVER_K_THZ, log_partition_kernel, thermal_energy_kernel
 
 #: Step of the ln ν and ln T grids [1].
@@ -197,7 +197,7 @@ def _correlate(deposit, tau0, s0, n_tau):
     # kernel samples at differences d = m − n from −(n_tau − 1) to n_s − 1
     y = (s0 - tau0) + STEP * np.arange(-(n_tau - 1), n_s)
     x = H_OVER_K_THZ * np.exp(y)
-    kernels = np.stack([_KERNELS[key](x) for key in SUM_KEYS])
+    kernels = np.stack([KERNELS[key](x) for key in SUM_KEYS])
     size = fft.next_fast_len(n_s + y.size - 1, real=True)
     spectrum = fft.rfft(deposit[::-1], size) [None, :] * fft.rfft(kernels, size, axis=1)
     full = fft.irfft(spectrum, size, axis=1)

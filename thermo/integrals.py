@@ -29,7 +29,8 @@ _PI4 = np.pi ** 4
 #: ∫_0^∞ x² K(x) dx for K = c, u, ℓ: 4π⁴/15, π⁴/15, π⁴/45 (Debye integrals).
 _NU2_LIMITS = {"heat_capacity": 4 * _PI4 / 15, "thermal_energy": _PI4 / 15,
                "log_partition": _PI4 / 45}
-_KERNELS = {"heat_capacity": heat_capacity_kernel,
+#: Kernel function of each sum key.
+KERNELS = {"heat_capacity": heat_capacity_kernel,
             "thermal_energy": thermal_energy_kernel,
             "log_partition": log_partition_kernel}
 
@@ -205,7 +206,7 @@ def direct_grid_sums(nodes_thz, weights, temperatures):
     zero = nu == 0.0
     x = H_OVER_K_THZ * nu[~zero, None] / t[None, :]
     wp = w[~zero]
-    out = {key: wp @ _KERNELS[key](x) for key in SUM_KEYS}
+    out = {key: wp @ KERNELS[key](x) for key in SUM_KEYS}
     if zero.any():
         w0 = float(w[zero].sum())
         out["heat_capacity"] = out["heat_capacity"] + w0
@@ -266,7 +267,7 @@ def nu2_part_sums(coefficient, cutoff_thz, temperatures):
     finite = xc <= _X_INFINITE
     span = np.minimum(xc, _X_INFINITE)[:, None]
     x = span * _GL_NODES[None, :]
-    integral = {key: span[:, 0] * ((x * x * _KERNELS[key](x)) @ _GL_WEIGHTS)
+    integral = {key: span[:, 0] * ((x * x * KERNELS[key](x)) @ _GL_WEIGHTS)
                 for key in ("heat_capacity", "thermal_energy")}
     # ℓ has a log singularity at 0: integrate by parts, ℓ' = -u/x.
     integral["log_partition"] = (span[:, 0] ** 3 * log_partition_kernel(span[:, 0])

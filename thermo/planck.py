@@ -24,7 +24,8 @@ from scipy import constants as sc
 H_OVER_K_THZ = sc.h * 1e12 / sc.k
 
 #: Above this reduced frequency every kernel is below 1e-290 and set to 0.
-_X_MAX = 700.0
+X_MAX = 700.0
+_LN2 = float(np.log(2.0))
 
 
 def reduced_frequency(frequency_thz, temperature_k):
@@ -63,7 +64,7 @@ def reduced_frequency(frequency_thz, temperature_k):
 
 
 def _clip(x):
-    return np.minimum(np.asarray(x, dtype=float), _X_MAX)
+    return np.minimum(np.asarray(x, dtype=float), X_MAX)
 
 
 def occupation(x):
@@ -182,7 +183,11 @@ def log_partition_kernel(x):
 
     Notes
     -----
-    .. math:: \\ell(x) = -\\ln\\left(1-e^{-x}\\right) = -\\operatorname{log1p}(-e^{-x})
+    .. math:: \\ell(x) = -\\ln\\left(1-e^{-x}\\right)
+
+    evaluated as :math:`-\\ln(-\\operatorname{expm1}(-x))` below
+    :math:`\\ln 2` and :math:`-\\operatorname{log1p}(-e^{-x})` above, so that the
+    relative error stays at machine precision for every x.
 
     References
     ----------
@@ -195,8 +200,11 @@ def log_partition_kernel(x):
     0.69314718056
     """
     xc = _clip(x)
+    small = xc < _LN2
     with np.errstate(divide="ignore"):
-        return -np.log1p(-np.exp(-xc))
+        # -log(-expm1(-x)) is exact for small x, -log1p(-exp(-x)) for large x.
+        return np.where(small, -np.log(-np.expm1(-np.where(small, xc, 1.0))),
+                        -np.log1p(-np.exp(-np.where(small, 1.0, xc))))
 
 
 def entropy_kernel(x):

@@ -15,8 +15,7 @@ from scipy import constants as sc
 
 from .errors import OptionError
 
-#: Canonical unit names accepted everywhere (CLI, web, Python).
-FREQUENCY_UNITS = ("THz", "cm-1", "meV", "rad/s", "K")
+from .unit_names import FREQUENCY_UNITS  # noqa: F401  (re-exported)
 
 _ALIASES = {
     "thz": "THz", "terahertz": "THz",
