@@ -5,7 +5,7 @@ VENV   ?= .venv
 PY     := $(VENV)/bin/python
 PORT   ?= 8050
 
-.PHONY: run test bench demo-data clean
+.PHONY: run test bench bench-json bench-quick demo-data clean
 
 $(VENV)/.installed: requirements.txt
 	$(PYTHON) -m venv $(VENV)
@@ -24,8 +24,14 @@ run: $(VENV)/.installed
 test: $(VENV)/.test-installed
 	$(PY) -m pytest -q --headless
 
-bench: $(VENV)/.test-installed
+bench: $(VENV)/.test-installed        ## the seven performance figures, readable (about 2 minutes)
 	$(PY) -m bench
+
+bench-json: $(VENV)/.test-installed   ## the same as one JSON object
+	$(PY) -m bench --json
+
+bench-quick: $(VENV)/.test-installed  ## smoke run: fewer repeats, 200 batch files
+	$(PY) -m bench --quick
 
 demo-data: $(VENV)/.installed
 	$(PY) sample_dos/generate.py
