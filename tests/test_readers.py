@@ -8,11 +8,15 @@ openpyxl, an independent implementation of ECMA-376 SpreadsheetML.
 from __future__ import annotations
 
 import hashlib
+from unittest import mock
 
 import numpy as np
 import openpyxl
 import pytest
+from hypothesis import HealthCheck, given, settings
+from hypothesis import strategies as st
 
+from thermo import readers
 from thermo.errors import DosInputError
 from thermo.readers import RawTable, read_table
 
@@ -202,3 +206,127 @@ def test_missing_file_is_one_line_error(tmp_path):
 def test_wrong_source_type():
     with pytest.raises(DosInputError, match="cannot read input of type int"):
         read_table(42)
+
+
+def test_only_cr_lf_and_crlf_break_lines():
+    # Form feed and U+2028 are whitespace inside a line, not line breaks
+    # (the documented layout: lines end with \n, \r\n or \r).
+    table = read_table("# a\x0cb\r1 2\r\n3\u20284\n\x0c\n5 6\n")
+    assert table.comments == ["# a\x0cb"]
+    np.testing.assert_array_equal(table.data, [[1, 2], [3, 4], [5, 6]])
+    assert table.line_numbers == [2, 3, 5]
+
+
+# --- whole-body conversion against the per-cell parser -----------------------
+# The per-cell parser (_to_array, reached when _fast_array declines) is the
+# reference for the one-pass conversion: every field of the result, or the
+# error message, must be the same.  For clean tables the written numbers are
+# also checked against Python's float() of the text (repr round-trips exactly).
+
+def _outcome(source):
+    try:
+        table = read_table(source, name="t.dat")
+    except DosInputError as exc:
+        return str(exc)
+    return (table.data.tobytes(), table.data.shape, table.data.dtype, table.data.flags.c_contiguous,
+            table.names, table.header_unit, table.source, table.sha256,
+            table.line_numbers, table.comments)
+
+
+def _careful_outcome(source):
+    with mock.patch.object(readers, "_fast_array", return_value=None):
+        return _outcome(source)
+
+
+def _fast_results(source):
+    """What _fast_array returned while reading `source`."""
+    original, seen = readers._fast_array, []
+
+    def spy(rows, delimiter):
+        seen.append(original(rows, delimiter))
+        return seen[-1]
+
+    with mock.patch.object(readers, "_fast_array", spy):
+        _outcome(source)
+    return seen
+
+
+NUMBER_TEXT = st.one_of(
+    st.floats(allow_nan=False, allow_infinity=False).map(repr),
+    st.floats(-1e6, 1e6).map(lambda v: f"{v:.9g}"),
+    st.floats(allow_nan=False, allow_infinity=False).map(lambda v: f"{v:.6E}"),
+    st.floats(-1e3, 1e3).map(lambda v: f"{v:f}"),
+    st.integers(-10**20, 10**20).map(str),
+    st.sampled_from(["+.5", "5.", "-0", "-0.0", ".5e1", "1e-400", "007", "1E+05", "2e308"]),
+)
+ODD_CELL = st.sampled_from([
+    "1D3", "1d-2", "nan", "-inf", "Infinity", "1e999", "", " ", '"1.5"', "'2'", "1,5", "abc",
+    "1_0", "\u0663", "1..2", "-", "+", "e5", "1e", "0x1", "1 2", "\u00a01", "1\x0c", "#1",
+])
+SEPARATORS = st.sampled_from([" ", "\t", "  ", " \t", ",", ", ", " ,", ";", " ; ", "\t;"])
+
+
+@st.composite
+def table_texts(draw, odd=True):
+    sep = draw(SEPARATORS)
+    width = draw(st.integers(1, 4))
+    cell = st.one_of(NUMBER_TEXT, ODD_CELL) if odd else NUMBER_TEXT
+    rows = []
+    for _ in range(draw(st.integers(1, 6))):
+        row_width = draw(st.sampled_from([width, width, width, width + 1, max(width - 1, 1)])
+                         if odd else st.just(width))
+        row = sep.join(draw(st.lists(cell, min_size=row_width, max_size=row_width)))
+        if odd and draw(st.booleans()):
+            row += draw(st.sampled_from([sep, sep.strip() or sep, " ", "\t", sep * 2]))
+        rows.append(row)
+    if draw(st.booleans()):
+        rows.insert(0, sep.join(["freq (THz)", "total", "Si", "O"][:width]))
+    if draw(st.booleans()):
+        rows.insert(draw(st.integers(0, len(rows))), draw(st.sampled_from(["# c", "  ! x", "", "%"])))
+    end = draw(st.sampled_from(["\n", "\r\n", "\r"] + (["\x0c\n", "\u2028"] if odd else [])))
+    return (end.join(rows) + draw(st.sampled_from(["", end]))).encode("utf-8")
+
+
+COMPARE = settings(max_examples=200, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+
+
+@COMPARE
+@given(table_texts())
+def test_one_pass_conversion_matches_per_cell_parser(content):
+    assert _outcome(content) == _careful_outcome(content)
+
+
+@COMPARE
+@given(table_texts(odd=False))
+def test_clean_tables_take_the_one_pass_conversion(content):
+    outcome = _outcome(content)
+    assert outcome == _careful_outcome(content)
+    if isinstance(outcome, tuple):
+        results = _fast_results(content)
+        assert len(results) == 1 and results[0] is not None
+        rows = [line.strip() for line in content.decode().replace("\r\n", "\n").replace("\r", "\n")
+                .split("\n")]
+        body = [rows[n - 1] for n in outcome[8]]
+        sep = ";" if ";" in body[0] else "," if "," in body[0] else None
+        written = [[float(cell) for cell in row.split(sep)] for row in body]
+        np.testing.assert_array_equal(results[0], written)
+
+
+@pytest.mark.parametrize("rows, delimiter", [
+    (["1 2", "3 4 5"], None),          # ragged
+    (["1", "2"], None),                # one column
+    (["1 2", "3 1D3"], None),          # Fortran exponent
+    (["1 2", "3 nan"], None),
+    (["1 2", "3 1e999"], None),        # overflow to inf
+    (["1;2", "3;1,5"], ";"),           # decimal comma
+    (["1,2", "3,,4"], ","),            # empty cell
+    (["1,2,", "3,4,"], ","),           # trailing delimiter
+    (['"1",2', "3,4"], ","),           # quotes
+    (["1 2", "3 1_0"], None),          # digit separator accepted by float()
+    (["1 2", "3 \u0663"], None),       # non-ASCII digit accepted by float()
+    (["1 2", "3\x0c4"], None),         # form feed: left to the per-cell parser
+])
+def test_one_pass_conversion_declines_what_it_does_not_cover(rows, delimiter):
+    assert readers._fast_array(rows, delimiter) is None
+    content = "\n".join(rows).encode()
+    assert _outcome(content) == _careful_outcome(content)

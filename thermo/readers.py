@@ -26,6 +26,8 @@ import io
 import math
 import re
 from dataclasses import dataclass, field
+from itertools import chain, compress, count, repeat
+from operator import itemgetter, not_
 from pathlib import Path
 
 import numpy as np
@@ -37,10 +39,15 @@ from .units import guess_unit_from_text
 COMMENT_CHARS = ("#", "!", "%")
 
 _XLSX_MAGIC = b"PK\x03\x04"
+# Bytes a plain decimal cell may hold (whitespace and the delimiter added
+# per file); anything else sends the body to the per-cell parser.
+_PLAIN_BYTES = b"0123456789.eE+-"
 _NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eEdD][+-]?\d+)?")
 _NOT_FINITE = re.compile(r"[+-]?(?:nan|inf|infinity)", re.IGNORECASE)
 _DECIMAL_COMMA = re.compile(r"[+-]?\d+,\d+")
 _LINE_BREAK = re.compile(r"\r\n|\r|\n")
+# Breaks that str.splitlines honours besides \r\n, \r and \n.
+_OTHER_BREAKS = "\v\f\x1c\x1d\x1e\x85\u2028\u2029"
 # A header cell with its unit in brackets kept attached: "frequency (THz)".
 _HEADER_CELL = re.compile(r"[^\s(\[]+(?:\s*[(\[][^)\]]*[)\]])?|[(\[][^)\]]*[)\]]")
 # Denominators of a DOS unit ("states/THz", "per cm-1") are not frequency units.
@@ -110,7 +117,9 @@ def read_table(source, name: str | None = None) -> RawTable:
     A cell is a number when it matches
     ``[+-]digits[.digits][(e|E|d|D)[+-]digits]``; ``nan`` and ``inf`` are
     rejected.  The separator is taken from the first row that starts like a
-    number: ``;`` if present, else ``,``, else whitespace.
+    number: ``;`` if present, else ``,``, else whitespace.  A body of plain
+    decimal cells is converted in one pass; any other body goes through the
+    per-cell parser, which gives the same numbers and names the faulty cell.
 
     References
     ----------
@@ -136,15 +145,20 @@ def read_table(source, name: str | None = None) -> RawTable:
     comments, candidates = _split_comments(rows)
     if not candidates:
         raise DosInputError("no data rows (only comments or blank lines)", display)
-    split = None if is_xlsx else _choose_splitter(candidates)
-    cells = [(line, split(row) if split else row) for line, row in candidates]
+    delimiter = None if is_xlsx else _choose_delimiter(candidates)
+    split = None if is_xlsx else _splitter(delimiter)
     header = None
-    if not all(_looks_numeric(c) or c == "" for c in cells[0][1]):
-        header = candidates[0]
-        cells = cells[1:]
-    if not cells:
+    first = split(candidates[0][1]) if split else candidates[0][1]
+    if not all(_looks_numeric(c) or c == "" for c in first):
+        header, candidates = candidates[0], candidates[1:]
+    if not candidates:
         raise DosInputError("no data rows after the header", display, header[0])
-    data, lines = _to_array(cells, display)
+    data = None if is_xlsx else _fast_array(list(map(itemgetter(1), candidates)), delimiter)
+    if data is None:
+        cells = [(line, split(row) if split else row) for line, row in candidates]
+        data, lines = _to_array(cells, display)
+    else:
+        lines = list(map(itemgetter(0), candidates))
     names = _column_names(header, data.shape[1], split)
     unit = _frequency_unit(names[0] if header else None, comments, data.shape[1])
     return RawTable(data=data, names=names, header_unit=unit, source=display,
@@ -194,12 +208,11 @@ def _decode(raw: bytes, display: str) -> str:
 
 def _text_rows(text: str):
     """(line number, stripped line) of every non-blank line."""
-    rows = []
-    for number, line in enumerate(_LINE_BREAK.split(text), start=1):
-        stripped = line.strip()
-        if stripped:
-            rows.append((number, stripped))
-    return rows
+    # splitlines() is the faster split when no other break is present; it
+    # differs from _LINE_BREAK.split only by dropping a final empty line.
+    other = any(map(text.__contains__, _OTHER_BREAKS))
+    lines = _LINE_BREAK.split(text) if other else text.splitlines()
+    return list(filter(itemgetter(1), zip(count(1), map(str.strip, lines))))
 
 
 def _xlsx_rows(raw: bytes, display: str):
@@ -235,24 +248,27 @@ def _xlsx_cell(value) -> str:
 
 
 def _split_comments(rows):
-    comments, candidates = [], []
-    for number, row in rows:
-        first = row if isinstance(row, str) else row[0]
-        if first.lstrip().startswith(COMMENT_CHARS):
-            text = row if isinstance(row, str) else " ".join(c for c in row if c)
-            comments.append((number, text.strip()))
-        else:
-            candidates.append((number, row))
-    return comments, candidates
+    """(line, text) of the comment rows and (line, row) of the others."""
+    firsts = list(map(itemgetter(1), rows))
+    if not all(map(isinstance, firsts, repeat(str))):
+        firsts = [row if isinstance(row, str) else row[0] for row in firsts]
+    marked = list(map(str.startswith, map(str.lstrip, firsts), repeat(COMMENT_CHARS)))
+    comments = [(number, (row if isinstance(row, str) else " ".join(c for c in row if c)).strip())
+                for number, row in compress(rows, marked)]
+    return comments, list(compress(rows, map(not_, marked)))
 
 
-def _choose_splitter(candidates):
-    """Cell splitter for the whole file, chosen from the first numeric-looking row."""
+def _choose_delimiter(candidates):
+    """``";"``, ``","`` or None (whitespace), from the first numeric-looking row."""
     sample = next((row for _, row in candidates if _NUMBER.match(row)), candidates[0][1])
-    for delimiter in (";", ","):
-        if delimiter in sample:
-            return lambda row, d=delimiter: _split_delimited(row, d)
-    return str.split
+    return next((d for d in (";", ",") if d in sample), None)
+
+
+def _splitter(delimiter):
+    """Cell splitter of a text row for the file's delimiter."""
+    if delimiter is None:
+        return str.split
+    return lambda row: _split_delimited(row, delimiter)
 
 
 def _split_delimited(row: str, delimiter: str):
@@ -282,6 +298,37 @@ def _looks_numeric(cell: str) -> bool:
 def _shown(cell: str) -> str:
     text = cell if len(cell) <= 30 else cell[:27] + "..."
     return repr(text)
+
+
+def _fast_array(rows, delimiter):
+    """All data rows converted at once, or None if any row needs `_to_array`.
+
+    Accepted only when every cell is a plain decimal number (ASCII digits,
+    ``.``, ``e``/``E``, signs; blanks around it), every row has the same
+    number (>= 2) of cells and every value is finite.  For such rows
+    ``float`` accepts exactly the cells that ``_NUMBER`` matches and gives the
+    same values as `_number`, so the result is that of `_to_array`; any other
+    input (quotes, ``d`` exponents, decimal commas, empty cells, trailing
+    delimiters, ragged rows, nan/inf, overflow, non-ASCII) returns None.
+    """
+    text = "\n".join(rows)
+    allowed = _PLAIN_BYTES + b" \t\n" + (delimiter or "").encode()
+    if not text.isascii() or text.encode().translate(None, allowed):
+        return None
+    cells = list(map(str.split, rows, repeat(delimiter)))
+    widths = set(map(len, cells))
+    width = widths.pop()
+    if widths or width < 2:
+        return None
+    try:
+        values = np.fromiter(map(float, chain.from_iterable(cells)), dtype=float,
+                             count=len(rows) * width)
+    except ValueError:
+        return None
+    if not np.isfinite(values).all():
+        return None
+    values.shape = (len(rows), width)
+    return values
 
 
 def _to_array(cells, display):
