@@ -262,7 +262,11 @@ NUMBER_TEXT = st.one_of(
 ODD_CELL = st.sampled_from([
     "1D3", "1d-2", "nan", "-inf", "Infinity", "1e999", "", " ", '"1.5"', "'2'", "1,5", "abc",
     "1_0", "\u0663", "1..2", "-", "+", "e5", "1e", "0x1", "1 2", "\u00a01", "1\x0c", "#1",
+    "1-2", "1e+", "+-1", "1e5.5", ".", "-.e1", "1.2.3", "--1", "1e--2", "0b1", "1j",
 ])
+# Short strings over the characters of a plain number: finds cells that one
+# parser takes and the other refuses.
+NUMBER_LIKE = st.text(alphabet="0123456789.eE+- ", min_size=1, max_size=6)
 SEPARATORS = st.sampled_from([" ", "\t", "  ", " \t", ",", ", ", " ,", ";", " ; ", "\t;"])
 
 
@@ -270,7 +274,7 @@ SEPARATORS = st.sampled_from([" ", "\t", "  ", " \t", ",", ", ", " ,", ";", " ; 
 def table_texts(draw, odd=True):
     sep = draw(SEPARATORS)
     width = draw(st.integers(1, 4))
-    cell = st.one_of(NUMBER_TEXT, ODD_CELL) if odd else NUMBER_TEXT
+    cell = st.one_of(NUMBER_TEXT, ODD_CELL, NUMBER_LIKE) if odd else NUMBER_TEXT
     rows = []
     for _ in range(draw(st.integers(1, 6))):
         row_width = draw(st.sampled_from([width, width, width, width + 1, max(width - 1, 1)])

@@ -26,7 +26,7 @@ import io
 import math
 import re
 from dataclasses import dataclass, field
-from itertools import chain, compress, count, repeat
+from itertools import compress, count, repeat
 from operator import itemgetter, not_
 from pathlib import Path
 
@@ -305,29 +305,24 @@ def _fast_array(rows, delimiter):
 
     Accepted only when every cell is a plain decimal number (ASCII digits,
     ``.``, ``e``/``E``, signs; blanks around it), every row has the same
-    number (>= 2) of cells and every value is finite.  For such rows
-    ``float`` accepts exactly the cells that ``_NUMBER`` matches and gives the
-    same values as `_number`, so the result is that of `_to_array`; any other
-    input (quotes, ``d`` exponents, decimal commas, empty cells, trailing
-    delimiters, ragged rows, nan/inf, overflow, non-ASCII) returns None.
+    number (>= 2) of cells and every value is finite.  On such text numpy's
+    parser accepts exactly the cells that ``_NUMBER`` matches and rounds
+    correctly, as ``float`` does in `_number`, so the result is that of
+    `_to_array`; any other input (quotes, ``d`` exponents, decimal commas,
+    empty cells, trailing delimiters, ragged rows, nan/inf, overflow,
+    non-ASCII) returns None.
     """
     text = "\n".join(rows)
     allowed = _PLAIN_BYTES + b" \t\n" + (delimiter or "").encode()
     if not text.isascii() or text.encode().translate(None, allowed):
         return None
-    cells = list(map(str.split, rows, repeat(delimiter)))
-    widths = set(map(len, cells))
-    width = widths.pop()
-    if widths or width < 2:
-        return None
     try:
-        values = np.fromiter(map(float, chain.from_iterable(cells)), dtype=float,
-                             count=len(rows) * width)
-    except ValueError:
+        values = np.loadtxt(rows, dtype=float, delimiter=delimiter, comments=None,
+                            quotechar=None, ndmin=2)
+    except ValueError:   # ragged rows, empty or malformed cells
         return None
-    if not np.isfinite(values).all():
+    if values.shape[1] < 2 or not np.isfinite(values).all():
         return None
-    values.shape = (len(rows), width)
     return values
 
 
