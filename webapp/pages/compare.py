@@ -36,6 +36,9 @@ def _table_curves(datasets, temperatures, per, index):
 def comparison(workspace, ids, reference, quantity, temperatures, per):
     """Overlay and difference figures plus a table of largest differences.
 
+    The page starts per atom, so crystals with different atoms per formula
+    unit (or supercells written per cell) compare directly.
+
     Differences are ``dataset − reference`` on the reference's grid (DOS
     interpolated linearly onto the reference frequencies).
     """
@@ -85,7 +88,7 @@ def layout(workspace, prefs=None):
         c.controls(c.dropdown("cmp-datasets", options, ids, "Datasets", multi=True),
                    c.dropdown("cmp-reference", options, current and current["id"], "Reference"),
                    c.radio("cmp-quantity", QUANTITIES, 1, "Quantity")),
-        c.controls(*c.temperature_fields("cmp"), c.basis_field("cmp-per")),
+        c.controls(*c.temperature_fields("cmp"), c.basis_field("cmp-per", value="atom")),
         c.messages_panel("cmp-messages"),
         html.Div([c.graph("cmp-overlay-graph", "The chosen quantity for each dataset"),
                   c.graph("cmp-diff-graph", "Difference from the reference")], className="mh-grid"),
