@@ -12,7 +12,7 @@ import pytest
 
 from tests.conftest import debye_dos, dos_text
 from thermo import load_dos, tabulate
-from thermo.writers import read_exported_csv, read_exported_json
+from thermo.io.writers import read_exported_csv, read_exported_json
 
 ROOT = __import__("pathlib").Path(__file__).resolve().parents[1]
 

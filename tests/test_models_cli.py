@@ -19,7 +19,7 @@ import pytest
 from scipy import constants as sc
 
 from tests.test_models_spectra import gaussian, write_text
-from thermo.cli import main
+from thermo.cli.main import main
 from thermo.tables import COLUMNS
 
 H_OVER_K = sc.h * 1e12 / sc.k

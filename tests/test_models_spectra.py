@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from thermo.planck import H_OVER_K_THZ
+from thermo.kernels.planck import H_OVER_K_THZ
 from thermo.spectrum import LowFrequencyFit, PhononDOS
 
 

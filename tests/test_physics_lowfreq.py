@@ -15,7 +15,7 @@ from scipy.special import erf
 
 from tests.conftest import K_PER_THZ, dos_text
 from thermo import OptionError, load_dos, tabulate
-from thermo.lowfreq import reduced_dos
+from thermo.preparation.lowfreq import reduced_dos
 
 THETA = 400.0
 NU_D = THETA / K_PER_THZ

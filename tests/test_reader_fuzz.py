@@ -11,8 +11,8 @@ from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
 from thermo.errors import DosInputError
-from thermo.readers import RawTable, read_table
-from thermo.validation import CleanSpectrum, check_spectrum
+from thermo.io.readers import RawTable, read_table
+from thermo.preparation.validation import CleanSpectrum, check_spectrum
 
 FUZZ = settings(max_examples=300, deadline=None,
                 suppress_health_check=[HealthCheck.too_slow])

@@ -1,4 +1,4 @@
-"""Tests of thermo.readers.read_table.
+"""Tests of thermo.io.readers.read_table.
 
 Expected values are the numbers written into each test file (the file is the
 reference); unit names follow thermo.units.  The .xlsx inputs are written by
@@ -16,9 +16,9 @@ import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
-from thermo import readers
+from thermo.io import readers
 from thermo.errors import DosInputError
-from thermo.readers import RawTable, read_table
+from thermo.io.readers import RawTable, read_table
 
 ROWS = [(0.5, 0.01, 0.004), (1.0, 0.04, 0.02), (1.5, 0.09, 0.05)]
 EXPECTED = np.array(ROWS)

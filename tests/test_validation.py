@@ -1,4 +1,4 @@
-"""Tests of thermo.validation.check_spectrum.
+"""Tests of thermo.preparation.validation.check_spectrum.
 
 Inputs are small invented tables (a ν² spring-model DOS); the expected numbers
 and line numbers are the ones written into each table.
@@ -10,8 +10,8 @@ import numpy as np
 import pytest
 
 from thermo.errors import DosInputError, OptionError
-from thermo.readers import read_table
-from thermo.validation import CleanSpectrum, check_spectrum
+from thermo.io.readers import read_table
+from thermo.preparation.validation import CleanSpectrum, check_spectrum
 
 
 def _table(rows, header=None):

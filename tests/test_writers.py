@@ -1,4 +1,4 @@
-"""Tests of thermo.writers: exports read back by our readers and by
+"""Tests of thermo.io.writers: exports read back by our readers and by
 independent parsers (pandas.read_csv, the json standard library module,
 openpyxl)."""
 
@@ -13,8 +13,7 @@ import pandas as pd
 import pytest
 
 from thermo.errors import OptionError
-from thermo.writers import (EXPORT_FORMATS, export_table, read_exported_csv,
-                            read_exported_json, write_table)
+from thermo.io.writers import EXPORT_FORMATS, export_table, read_exported_csv, read_exported_json, write_table
 
 PROVENANCE = {
     "tool_version": "0.1.0",

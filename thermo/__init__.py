@@ -13,7 +13,7 @@ import importlib
 __version__ = "0.1.0"
 
 _EXPORTS = {
-    "load_dos": "loading",
+    "load_dos": "preparation.loading",
     "tabulate": "tables",
     "zero_point_energy": "tables",
     "estimated_relative_error": "tables",

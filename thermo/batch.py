@@ -37,7 +37,7 @@ class BatchOptions:
     temperatures : tuple of float
         Temperatures [K] of every table.
     freq_unit, atoms, negative, low_frequency :
-        As :func:`thermo.loading.load_dos`.
+        As :func:`thermo.preparation.loading.load_dos`.
     per : {'formula', 'atom', 'gram'}
         Basis of the tables (see :func:`thermo.tables.tabulate`).
     formula : str, optional
@@ -169,9 +169,9 @@ def process_file(source, target, options):
         Index row (keys :data:`INDEX_COLUMNS`); ``status`` is ``ok`` or
         ``failed`` with the one-line reason in ``error``.
     """
-    from .loading import load_dos
+    from .preparation.loading import load_dos
     from .tables import provenance, tabulate
-    from .writers import write_table
+    from .io.writers import write_table
 
     row = _blank_row(source)
     try:
@@ -314,7 +314,7 @@ def run_batch(inputs, outdir, options, workers=None, progress=True):
     [('bad.dat', 'failed'), ('good.dat', 'ok')]
     """
     from .tables import check_temperatures
-    from .writers import EXPORT_FORMATS
+    from .io.writers import EXPORT_FORMATS
 
     if options.fmt not in EXPORT_FORMATS:
         raise OptionError(f"unknown format {options.fmt!r}; choose {', '.join(EXPORT_FORMATS)}")

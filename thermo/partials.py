@@ -6,7 +6,9 @@ import numpy as np
 import pandas as pd
 from scipy import constants as sc
 
-from .integrals import direct_grid_sums, nu2_part_sums, trapezoid_weights
+from .kernels.direct import direct_grid_sums
+from .kernels.nu2 import nu2_part_sums
+from .kernels.quadrature import trapezoid_weights
 from .tables import check_temperatures
 
 

@@ -6,7 +6,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .planck import H_OVER_K_THZ
+from .kernels.planck import H_OVER_K_THZ
 
 
 @dataclass(frozen=True)
@@ -86,7 +86,7 @@ class PhononDOS:
     @property
     def mode_count(self) -> float:
         """Number of real modes carried by the spectrum [per formula unit]."""
-        from .integrals import mode_weights
+        from .kernels.quadrature import mode_weights
         total = float(mode_weights(self.frequency_thz, self.dos).sum())
         if self.low_frequency is not None:
             total += self.low_frequency.coefficient * self.low_frequency.cutoff_thz ** 3 / 3.0

@@ -12,7 +12,8 @@ from scipy import constants as sc
 from . import __version__
 from .errors import OptionError
 from .formula import formula_unit
-from .integrals import mode_weights, thermal_sums
+from .kernels.quadrature import mode_weights
+from .kernels.sums import thermal_sums
 
 #: Column names of :func:`tabulate` for each ``per`` choice.
 COLUMNS = {
@@ -130,7 +131,7 @@ def tabulate(dos, temperatures, per="formula", formula=None, method="auto"):
     formula : str, optional
         Chemical formula of the formula unit, for ``per='gram'``.
     method : {'auto', 'direct', 'fast'}
-        Evaluation of the sums (see :func:`thermo.integrals.grid_sums`).
+        Evaluation of the sums (see :func:`thermo.kernels.sums.grid_sums`).
 
     Returns
     -------
@@ -186,7 +187,7 @@ def table_from_sums(sums, temperatures, per="formula", atoms=1, formula=None):
     Parameters
     ----------
     sums : dict
-        As returned by :func:`thermo.integrals.thermal_sums` (or a model's
+        As returned by :func:`thermo.kernels.sums.thermal_sums` (or a model's
         equivalent): ``heat_capacity``, ``thermal_energy``, ``log_partition``,
         ``entropy`` [1] per formula unit and ``zero_point_thz`` [THz].
     temperatures : array_like

@@ -37,7 +37,7 @@ def normalised(text: str) -> str:
 
 def run_case(sample: Path, args) -> str:
     """Standard output of ``modeheat ARGS[0] SAMPLE ARGS[1:]`` (relative path)."""
-    from thermo.cli import main
+    from thermo.cli.main import main
     out = io.StringIO()
     argv = [args[0], str(sample.relative_to(ROOT)), *args[1:]]
     with contextlib.redirect_stdout(out), contextlib.redirect_stderr(io.StringIO()):

@@ -6,13 +6,13 @@ definition (:func:`theta_definitions`); see the module docstrings for the
 equations and references.
 """
 
-from .base import model_table
+from .tabulation import model_table
 from .composite import CompositeModel, composite_initial, composite_model, composite_sums, composite_table
 from .debye import (debye_coefficient, debye_spectrum, debye_heat_capacity, debye_heat_capacity_fraction, debye_sums,
                     debye_table)
-from .definitions import CAUTIONS, THETA_KEYS, model_tables, models_report, side_by_side, theta_definitions
+from .catalogue import CAUTIONS, THETA_KEYS, model_tables, models_report, side_by_side, theta_definitions
 from .einstein import einstein_heat_capacity, einstein_sums, einstein_table
-from .equivalent import debye_y_from_fraction, equivalent_debye_temperature, invert_debye_heat_capacity
+from .equivalent_debye import debye_y_from_fraction, equivalent_debye_temperature, invert_debye_heat_capacity
 from .fitting import (FitResult, default_fit_range, fit_debye_theta, fit_dos_theta, fit_einstein_theta,
                       fit_heat_capacity_data, least_squares_fit)
 from .modemap import mode_share_map

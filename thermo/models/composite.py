@@ -23,9 +23,10 @@ import numpy as np
 from scipy import constants as sc
 
 from ..errors import OptionError
-from ..integrals import SUM_KEYS, mode_quadrature, trapezoid_weights
-from ..planck import H_OVER_K_THZ
-from .base import model_table
+from ..kernels.direct import SUM_KEYS
+from ..kernels.quadrature import mode_quadrature, trapezoid_weights
+from ..kernels.planck import H_OVER_K_THZ
+from .tabulation import model_table
 from .debye import debye_sums
 from .einstein import einstein_sums
 from .fitting import fit_temperatures, least_squares_fit
@@ -111,7 +112,7 @@ def composite_sums(model, temperatures):
     Returns
     -------
     dict
-        As :func:`thermo.integrals.thermal_sums` [1].
+        As :func:`thermo.kernels.sums.thermal_sums` [1].
 
     Notes
     -----

@@ -1,7 +1,7 @@
 """Debye model: :math:`g(\\nu) = 3m\\nu^2/\\nu_D^3` up to ν_D = k_B θ_D / h.
 
 The Debye spectrum is exactly the analytic ν² form the core already integrates
-(:func:`thermo.integrals.nu2_part_sums`), so the model reuses it.
+(:func:`thermo.kernels.nu2.nu2_part_sums`), so the model reuses it.
 
 References
 ----------
@@ -16,10 +16,10 @@ from __future__ import annotations
 import numpy as np
 from scipy import constants as sc
 
-from ..integrals import nu2_part_sums
-from ..planck import H_OVER_K_THZ
+from ..kernels.nu2 import nu2_part_sums
+from ..kernels.planck import H_OVER_K_THZ
 from ..spectrum import LowFrequencyFit, PhononDOS
-from .base import check_theta, model_table, sums_on_hot
+from .tabulation import check_theta, model_table, sums_on_hot
 
 
 def debye_coefficient(theta_k, modes):
@@ -48,7 +48,7 @@ def debye_coefficient(theta_k, modes):
 
     Examples
     --------
-    >>> from thermo.planck import H_OVER_K_THZ
+    >>> from thermo.kernels.planck import H_OVER_K_THZ
     >>> round(debye_coefficient(H_OVER_K_THZ, 3), 12)
     9.0
     """
@@ -71,7 +71,7 @@ def debye_sums(theta_k, modes, temperatures):
     Returns
     -------
     dict
-        As :func:`thermo.integrals.thermal_sums` [1]; ``zero_point_thz`` [THz].
+        As :func:`thermo.kernels.sums.thermal_sums` [1]; ``zero_point_thz`` [THz].
 
     Notes
     -----

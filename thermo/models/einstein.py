@@ -13,8 +13,8 @@ from __future__ import annotations
 import numpy as np
 from scipy import constants as sc
 
-from ..planck import H_OVER_K_THZ, heat_capacity_kernel, log_partition_kernel, thermal_energy_kernel
-from .base import check_theta, model_table, sums_on_hot
+from ..kernels.planck import H_OVER_K_THZ, heat_capacity_kernel, log_partition_kernel, thermal_energy_kernel
+from .tabulation import check_theta, model_table, sums_on_hot
 
 
 def einstein_sums(theta_k, modes, temperatures):
@@ -32,7 +32,7 @@ def einstein_sums(theta_k, modes, temperatures):
     Returns
     -------
     dict
-        Same keys as :func:`thermo.integrals.thermal_sums`: arrays (M,) [1]
+        Same keys as :func:`thermo.kernels.sums.thermal_sums`: arrays (M,) [1]
         and ``zero_point_thz`` [THz].
 
     Notes

@@ -314,7 +314,7 @@ def fit_dos_theta(dos, kind, fit_range=None):
     Examples
     --------
     >>> from thermo.spectrum import PhononDOS
-    >>> from thermo.planck import H_OVER_K_THZ
+    >>> from thermo.kernels.planck import H_OVER_K_THZ
     >>> nu = np.linspace(4.9, 5.1, 201)
     >>> g = 3 * np.exp(-0.5 * ((nu - 5) / 0.01) ** 2) / (0.01 * np.sqrt(2 * np.pi))
     >>> d = PhononDOS(nu, g, atoms=1)     # 3 modes in a narrow peak at 5 THz

@@ -10,8 +10,8 @@ from __future__ import annotations
 import numpy as np
 
 from ..errors import OptionError
-from ..integrals import mode_quadrature
-from ..planck import entropy_kernel, heat_capacity_kernel, reduced_frequency
+from ..kernels.quadrature import mode_quadrature
+from ..kernels.planck import entropy_kernel, heat_capacity_kernel, reduced_frequency
 from ..tables import check_temperatures
 
 #: Default number of frequency bins of the map.
@@ -54,7 +54,7 @@ def mode_share_map(dos, temperatures, bins=DEFAULT_BINS):
     Notes
     -----
     Every node pair is evaluated directly, with the quadrature of
-    :func:`thermo.integrals.mode_quadrature` (weights :math:`w_i`):
+    :func:`thermo.kernels.quadrature.mode_quadrature` (weights :math:`w_i`):
 
     .. math:: s^{C}_{ij} = \\frac{w_i c(x_{ij})}{\\sum_i w_i c(x_{ij})},\\qquad
               s^{S}_{ij} = \\frac{w_i s(x_{ij})}{\\sum_i w_i s(x_{ij})},\\qquad

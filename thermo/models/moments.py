@@ -2,7 +2,7 @@
 
 Moments are averages over the normalised DOS,
 :math:`\\langle f\\rangle = \\int g f\\,d\\nu / \\int g\\,d\\nu`, evaluated with
-:func:`thermo.integrals.mode_quadrature` (Gauss nodes on the analytic
+:func:`thermo.kernels.quadrature.mode_quadrature` (Gauss nodes on the analytic
 :math:`A\\nu^2` part, trapezoid on the table), so :math:`\\langle\\nu^{-2}\\rangle`
 is finite whenever the low-frequency ν² form is in place.
 
@@ -19,8 +19,8 @@ from __future__ import annotations
 import numpy as np
 
 from ..errors import OptionError
-from ..integrals import mode_quadrature
-from ..planck import H_OVER_K_THZ
+from ..kernels.quadrature import mode_quadrature
+from ..kernels.planck import H_OVER_K_THZ
 
 
 #: A node at ν = 0 carrying less than this share of the modes counts as empty

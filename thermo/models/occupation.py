@@ -11,7 +11,7 @@ from __future__ import annotations
 import numpy as np
 from scipy import constants as sc
 
-from ..planck import occupation, reduced_frequency, thermal_energy_kernel
+from ..kernels.planck import occupation, reduced_frequency, thermal_energy_kernel
 
 #: k_B in meV/K and h in meV/THz (CODATA via scipy.constants).
 _KB_MEV = sc.k / sc.electron_volt * 1e3
@@ -52,7 +52,7 @@ def occupation_explorer(frequency_thz, temperatures):
 
     Examples
     --------
-    >>> from thermo.planck import H_OVER_K_THZ
+    >>> from thermo.kernels.planck import H_OVER_K_THZ
     >>> r = occupation_explorer([1.0], [H_OVER_K_THZ / np.log(2.0)])
     >>> round(float(r["occupation"][0, 0]), 12)     # x = ln 2: n = 1
     1.0

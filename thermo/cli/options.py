@@ -6,8 +6,8 @@ import sys
 
 import numpy as np
 
-from .errors import OptionError
-from .unit_names import FREQUENCY_UNITS
+from ..errors import OptionError
+from ..unit_names import FREQUENCY_UNITS
 
 DEFAULT_TEMPERATURES = "0:1000:10"
 
@@ -75,13 +75,13 @@ def parse_temperatures(spec: str):
             values = np.array([float(p) for p in text.split(",") if p.strip()])
     except ValueError:
         raise OptionError(f"temperatures {text!r}: use START:STOP:STEP or a comma list of numbers") from None
-    from .tables import check_temperatures
+    from ..tables import check_temperatures
     return check_temperatures(values)
 
 
 def load_from_args(args):
     """Load the DOS named by parsed input options."""
-    from .loading import load_dos
+    from ..preparation.loading import load_dos
     return load_dos(args.file, freq_unit=args.freq_unit, atoms=args.atoms,
                     negative=args.negative, low_frequency=args.low_frequency)
 

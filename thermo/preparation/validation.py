@@ -1,4 +1,4 @@
-"""Sanity checks that turn a :class:`~thermo.readers.RawTable` into a spectrum.
+"""Sanity checks that turn a :class:`~thermo.io.readers.RawTable` into a spectrum.
 
 The checks are about the shape of the data only (enough points, frequencies
 strictly increasing, DOS not negative, total not zero); no unit conversion or
@@ -13,8 +13,8 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
-from .errors import DosInputError, OptionError
-from .readers import RawTable
+from ..errors import DosInputError, OptionError
+from ..io.readers import RawTable
 
 #: Fewest data points accepted for a DOS.
 MIN_POINTS = 10
@@ -36,7 +36,7 @@ class CleanSpectrum:
     warnings : tuple of str
         One-line notes (e.g. small negative values clipped to zero).
     source, sha256, names, header_unit
-        Copied from the :class:`~thermo.readers.RawTable`.
+        Copied from the :class:`~thermo.io.readers.RawTable`.
     line_numbers : tuple of int
         File line of each point.
     """
@@ -58,7 +58,7 @@ def check_spectrum(raw: RawTable, negative_noise: float = 1e-3) -> CleanSpectrum
     Parameters
     ----------
     raw : RawTable
-        Output of :func:`thermo.readers.read_table`.
+        Output of :func:`thermo.io.readers.read_table`.
     negative_noise : float, optional
         Negative DOS values with :math:`|g| \\le` ``negative_noise`` ×
         max(total DOS) are set to 0 with one warning; larger negative values
@@ -94,7 +94,7 @@ def check_spectrum(raw: RawTable, negative_noise: float = 1e-3) -> CleanSpectrum
 
     Examples
     --------
-    >>> from thermo.readers import read_table
+    >>> from thermo.io.readers import read_table
     >>> rows = [f"{0.5 * k} {k * k * 0.01}" for k in range(12)]
     >>> rows[3] = "1.5 -0.0001"
     >>> spec = check_spectrum(read_table("\\n".join(rows) + "\\n"))

@@ -159,7 +159,7 @@ def equivalent_debye_temperature(dos, temperatures):
     Examples
     --------
     >>> from thermo.models.debye import debye_spectrum
-    >>> from thermo.planck import H_OVER_K_THZ
+    >>> from thermo.kernels.planck import H_OVER_K_THZ
     >>> d = debye_spectrum(2 * H_OVER_K_THZ)     # ν_D = 2 THz
     >>> (equivalent_debye_temperature(d, [5.0, 50.0]) / (2 * H_OVER_K_THZ)).round(9).tolist()
     [1.0, 1.0]

@@ -20,8 +20,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .errors import OptionError
-from .spectrum import LowFrequencyFit
+from ..errors import OptionError
+from ..spectrum import LowFrequencyFit
 
 #: Relative rms misfit below which a window is taken as ν²-like.
 TOLERANCE = 0.02

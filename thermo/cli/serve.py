@@ -14,6 +14,6 @@ def run(args) -> int:
     try:
         from webapp.__main__ import main as serve
     except ImportError as exc:
-        from .errors import OptionError
+        from ..errors import OptionError
         raise OptionError(f"the dashboard is not installed here ({exc})") from None
     return int(serve(args.options) or 0)

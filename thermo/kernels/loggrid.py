@@ -6,7 +6,7 @@ and :math:`\\tau = \\ln T`, :math:`K(x) = k(s - \\tau)`, so on uniform grids of
 :math:`\\sum_i w_i K(h\\nu_i/k_BT)` is a discrete correlation, evaluated with
 FFTs in :math:`O((N+M)\\log(N+M))` instead of :math:`O(NM)` kernel calls.
 
-Steps of :func:`grid_sums`:
+Steps of :func:`loggrid_sums`:
 
 1. deposit the mode weights on the :math:`s` grid with the transpose of
    8-point Lagrange interpolation (exact for polynomials of degree 7 in s);
@@ -18,7 +18,7 @@ Steps of :func:`grid_sums`:
    scale of the FFT's rounding error, about 1e-16 of it — are summed
    directly: the frozen, exponentially small end, summed over the nodes
    whose terms are not negligible.  So is a node at :math:`\\nu = 0` (with
-   its neighbour, see :func:`thermo.integrals.direct_grid_sums`).
+   its neighbour, see :func:`thermo.kernels.direct.direct_grid_sums`).
 
 The step :math:`\\Delta s = 0.002` keeps the interpolation error below 1e-9
 of each sum while the kernel is resolved up to :math:`x \\approx 30`; the
@@ -34,33 +34,54 @@ References
    SIAM Rev. 46, 501-517 (2004).
 """
 
+
+
 from __future__ import annotations
 
 import numpy as np
 
-from .integrals import KERNELS, SUM_KEYS, direct_grid_sums
+from .direct import KERNELS, SUM_KEYS, direct_grid_sums
 from .planck import X_MAX as _X_CLIP
 from .planck import H_OVER_K_THZ, log_partition_kernel, thermal_energy_kernel
 
 #: Step of the ln ν and ln T grids [1].
 STEP = 0.002
+
+
 #: Points of the Lagrange stencils (deposit and read-back); even.
 ORDER = 8
+
+
 #: A sum below this share of Σ|W|·max K (the scale of the FFT's rounding) is summed directly.
 DYNAMIC_RANGE = 1e-6
+
+
 #: Nodes whose term is below e^-46 (1e-20) of the largest are left out of a cold sum.
 _NEGLIGIBLE_LOG = 46.0
+
+
 #: Nodes below this share of the highest frequency are summed directly.
 _LOW_NODE_SHARE = 1e-9
+
+
 #: Below these sizes the direct sum is as fast (measured: fast ~0.6 ms, direct ~1 ms at 20,000 pairs).
 MIN_TEMPERATURES = 16
+
+
 MIN_PAIRS = 20_000
+
+
 #: Pairs evaluated at once by the direct sums of cold temperatures (memory bound).
 _PAIRS_PER_PASS = 1_000_000
+
+
 #: Longest log grid accepted (ln-range / STEP), to bound memory and time.
 MAX_GRID = 1 << 20
 
+
 _STENCIL = np.arange(ORDER, dtype=float)
+
+
 #: Barycentric denominators Π_{j≠k}(k − j) of the equispaced stencil.
 _DENOM = np.array([np.prod([k - j for j in range(ORDER) if j != k]) for k in range(ORDER)], dtype=float)
 
@@ -222,7 +243,7 @@ def _relevant_nodes(nu, w, temperature):
     """
     if np.any(np.diff(nu) < 0):
         return nu.size
-    # the kernels clip x at 700 (thermo.planck); bound what they compute
+    # the kernels clip x at 700 (thermo.kernels.planck); bound what they compute
     x = np.minimum(H_OVER_K_THZ * nu / temperature, _X_CLIP)
     bound = np.log(np.abs(w)) + 2.0 * np.log1p(x) - x
     last = np.flatnonzero(bound >= bound.max() - _NEGLIGIBLE_LOG)[-1]
@@ -244,7 +265,7 @@ def frozen_sums(nodes_thz, weights, temperatures):
     Returns
     -------
     dict of str to numpy.ndarray, shape (M,)
-        As :func:`thermo.integrals.direct_grid_sums` (same clipping of x at
+        As :func:`thermo.kernels.direct.direct_grid_sums` (same clipping of x at
         700), to rounding.
 
     Notes
@@ -296,7 +317,7 @@ def _fill_cold(out, nu, w, t, cold, groups=4):
                 out[key][part] = exact[key]
 
 
-def grid_sums(nodes_thz, weights, temperatures):
+def loggrid_sums(nodes_thz, weights, temperatures):
     """Sums :math:`\\sum_i w_i K(h\\nu_i/k_BT_j)` by log-grid correlation.
 
     Parameters
@@ -308,7 +329,7 @@ def grid_sums(nodes_thz, weights, temperatures):
     Returns
     -------
     dict of str to numpy.ndarray, shape (M,)
-        The sums of :func:`thermo.integrals.direct_grid_sums` (same keys) to
+        The sums of :func:`thermo.kernels.direct.direct_grid_sums` (same keys) to
         about 1e-9 relative.
 
     Notes
@@ -333,7 +354,7 @@ def grid_sums(nodes_thz, weights, temperatures):
     >>> nu = np.linspace(0.0, 10.0, 2001)
     >>> w = np.full(nu.size, 3.0 / nu.size)
     >>> t = np.linspace(5.0, 800.0, 200)
-    >>> fast = grid_sums(nu, w, t)["heat_capacity"]
+    >>> fast = loggrid_sums(nu, w, t)["heat_capacity"]
     >>> ref = direct_grid_sums(nu, w, t)["heat_capacity"]
     >>> bool(np.max(np.abs(fast / ref - 1)) < 1e-8)
     True
@@ -364,118 +385,3 @@ def grid_sums(nodes_thz, weights, temperatures):
         for key in SUM_KEYS:
             out[key] = out[key] + extra[key]
     return out
-
-
-#: ∫_0^∞ x³/(eˣ−1) dx = π⁴/15.
-_J_INFINITE = np.pi ** 4 / 15.0
-#: Below this X the Bernoulli series of J(X) is used, above it the e^{−kX} series.
-_J_SPLIT = 1.0
-_J_TERMS = np.arange(1, 41, dtype=float)
-
-
-def _bernoulli_coefficients(count=40):
-    """c_n = B_n / (n! (n + 3)) for n = 0..count (B_1 = −1/2)."""
-    from scipy import special
-    b = special.bernoulli(count)
-    n = np.arange(count + 1)
-    return b / (special.factorial(n) * (n + 3))
-
-
-_J_SERIES = _bernoulli_coefficients()
-
-
-def debye_integral(upper):
-    """:math:`J(X) = \\int_0^X x^3/(e^x-1)\\,dx`, to rounding.
-
-    Parameters
-    ----------
-    upper : array_like
-        Upper limit :math:`X` [1], >= 0.
-
-    Returns
-    -------
-    numpy.ndarray
-        :math:`J(X)` [1]; :math:`\\pi^4/15` as :math:`X \\to \\infty`.
-
-    Notes
-    -----
-    For :math:`X < 1`, the Bernoulli series
-    :math:`J = \\sum_n B_n X^{n+3} / (n!\\,(n+3))` (radius :math:`2\\pi`);
-    above, :math:`J = \\pi^4/15 - \\sum_{k \\ge 1} e^{-kX}
-    (X^3/k + 3X^2/k^2 + 6X/k^3 + 6/k^4)` with 40 terms (error below
-    :math:`e^{-41}`).
-
-    References
-    ----------
-    .. [1] M. Abramowitz, I. A. Stegun, *Handbook of Mathematical Functions*
-       (NBS, 1964), 27.1.1-27.1.3 (Debye functions) and 23.1.1 (Bernoulli
-       numbers).
-
-    Examples
-    --------
-    >>> round(float(debye_integral(1e3)) / (np.pi ** 4 / 15), 15)
-    1.0
-    >>> round(float(debye_integral(1e-3)) / (1e-9 / 3), 6)   # x³/(eˣ−1) ≈ x²
-    0.999625
-    """
-    x = np.asarray(upper, dtype=float)
-    small = x < _J_SPLIT
-    xs = np.where(small, x, 0.0)
-    series = xs ** 3 * np.polynomial.polynomial.polyval(xs, _J_SERIES)
-    # beyond X = 800 every e^{-kX} underflows: clip so that X³ stays finite
-    z = np.clip(x, _J_SPLIT, 800.0)[..., None] * _J_TERMS          # z = kX
-    tail = np.sum(np.exp(-z) * (((z + 3.0) * z + 6.0) * z + 6.0) / _J_TERMS ** 4, axis=-1)
-    return np.where(small, series, _J_INFINITE - tail)
-
-
-def debye_part_sums(coefficient, cutoff_thz, temperatures):
-    """Sums of the analytic part :math:`A\\nu^2` on :math:`[0, \\nu_c]`, in closed form.
-
-    Parameters
-    ----------
-    coefficient, cutoff_thz, temperatures : float, float, array_like (M,)
-        :math:`A` [modes / THz³], :math:`\\nu_c` [THz] and T [K] > 0, as
-        for :func:`thermo.integrals.nu2_part_sums`.
-
-    Returns
-    -------
-    dict of str to numpy.ndarray, shape (M,)
-        The sums of :func:`thermo.integrals.nu2_part_sums` (which integrates
-        the same by 64-point Gauss–Legendre quadrature) [1].
-
-    Notes
-    -----
-    With :math:`X = h\\nu_c/k_BT`, :math:`s = A(k_BT/h)^3` and
-    :math:`J(X) = \\int_0^X x^3/(e^x-1)dx` (:func:`debye_integral`),
-    integrating by parts:
-
-    .. math::
-        \\int_0^X x^2 u\\,dx = J,\\quad
-        \\int_0^X x^2 c\\,dx = 4J - X^3 u(X),\\quad
-        \\int_0^X x^2 \\ell\\,dx = \\frac{X^3 \\ell(X) + J}{3}.
-
-    References
-    ----------
-    .. [1] P. Debye, "Zur Theorie der spezifischen Wärmen", Ann. Phys. 344,
-       789-839 (1912).
-    .. [2] M. Abramowitz, I. A. Stegun, *Handbook of Mathematical Functions*
-       (NBS, 1964), 27.1.
-
-    Examples
-    --------
-    >>> s = debye_part_sums(9.0, 1.0, [0.01])   # deep T³ regime, 3 modes
-    >>> x_d = H_OVER_K_THZ / 0.01
-    >>> round(float(s["heat_capacity"][0]) / (12 * np.pi**4 / 5 / x_d**3), 12)
-    1.0
-    """
-    t = np.asarray(temperatures, dtype=float)
-    if coefficient == 0.0 or cutoff_thz <= 0.0:
-        return {key: np.zeros_like(t) for key in SUM_KEYS}
-    scale = coefficient * (t / H_OVER_K_THZ) ** 3
-    big_x = H_OVER_K_THZ * cutoff_thz / t
-    j = debye_integral(big_x)
-    # X³ u(X) and X³ ℓ(X) vanish beyond the kernels' clipping; keep X³ finite there
-    cube = np.where(big_x < _X_CLIP, big_x, 0.0) ** 3
-    return {"heat_capacity": scale * (4.0 * j - cube * thermal_energy_kernel(big_x)),
-            "thermal_energy": scale * j,
-            "log_partition": scale * (cube * log_partition_kernel(big_x) + j) / 3.0}

@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import sys
 
-from .cli_common import add_input_options, add_table_options, add_temperature_option, parse_temperatures
+from .options import add_input_options, add_table_options, add_temperature_option, parse_temperatures
 
 
 def register(sub):
@@ -22,8 +22,8 @@ def register(sub):
 
 
 def run(args) -> int:
-    from .batch import INDEX_NAME, BatchOptions, run_batch
-    from .errors import OptionError
+    from ..batch import INDEX_NAME, BatchOptions, run_batch
+    from ..errors import OptionError
 
     if not args.output:
         raise OptionError("batch needs --output OUTDIR")

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import json
 
-from .cli_common import add_input_options, add_temperature_option, load_from_args, parse_temperatures, report_warnings
+from .options import (add_input_options, add_temperature_option, load_from_args, parse_temperatures, report_warnings)
 
 
 def register(sub):
@@ -16,7 +16,7 @@ def register(sub):
 
 def summarize(dos, temperatures):
     """The summary record of a DOS (JSON-able)."""
-    from .tables import provenance, tabulate
+    from ..tables import provenance, tabulate
     info = provenance(dos, temperatures)
     at_room = tabulate(dos, [298.15]).iloc[0]
     return {

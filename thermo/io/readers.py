@@ -1,7 +1,7 @@
 """Read a phonon DOS table (text, CSV or .xlsx) into a :class:`RawTable`.
 
 The reader only turns a file into numbers; physical checks (ordering,
-negative values, number of points) live in :mod:`thermo.validation`.
+negative values, number of points) live in :mod:`thermo.preparation.validation`.
 
 Accepted layouts
 ----------------
@@ -32,8 +32,8 @@ from pathlib import Path
 
 import numpy as np
 
-from .errors import DosInputError
-from .units import guess_unit_from_text
+from ..errors import DosInputError
+from ..units import guess_unit_from_text
 
 #: Characters that start a comment line.
 COMMENT_CHARS = ("#", "!", "%")

@@ -30,7 +30,7 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from .errors import DosInputError, OptionError
+from ..errors import DosInputError, OptionError
 
 #: Export formats accepted by :func:`export_table` and :func:`write_table`.
 EXPORT_FORMATS = ("csv", "json", "xlsx")

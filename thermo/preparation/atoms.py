@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .errors import DosInputError, OptionError
+from ..errors import DosInputError, OptionError
 
 #: Relative distance to 3n within which the atom count is inferred.
 INFER_TOLERANCE = 0.02

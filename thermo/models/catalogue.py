@@ -17,7 +17,7 @@ import math
 import numpy as np
 
 from .composite import composite_model
-from .equivalent import equivalent_debye_temperature
+from .equivalent_debye import equivalent_debye_temperature
 from .fitting import check_fit_range, default_fit_range, fit_debye_theta, fit_einstein_theta
 from .moments import debye_moment_temperature, einstein_entropy_temperature, einstein_mean_temperature
 
@@ -118,7 +118,7 @@ def theta_definitions(dos, fit_range=None):
     Examples
     --------
     >>> from thermo.models.debye import debye_spectrum
-    >>> from thermo.planck import H_OVER_K_THZ
+    >>> from thermo.kernels.planck import H_OVER_K_THZ
     >>> d = debye_spectrum(2 * H_OVER_K_THZ)     # ν_D = 2 THz
     >>> rows = theta_definitions(d)
     >>> sorted({round(r["value_K"] / (2 * H_OVER_K_THZ), 6) for r in rows if r["key"].startswith("debye")})
@@ -183,7 +183,7 @@ def models_report(dos, temperatures=None, fit_range=None, optical_terms=1):
     Examples
     --------
     >>> from thermo.models.debye import debye_spectrum
-    >>> from thermo.planck import H_OVER_K_THZ
+    >>> from thermo.kernels.planck import H_OVER_K_THZ
     >>> d = debye_spectrum(2 * H_OVER_K_THZ)     # ν_D = 2 THz
     >>> r = models_report(d, temperatures=[0.0, 50.0])
     >>> theta_d = r["equivalent_debye_temperature_K"]

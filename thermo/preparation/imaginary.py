@@ -9,8 +9,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .errors import OptionError
-from .integrals import trapezoid_weights
+from ..errors import OptionError
+from ..kernels.quadrature import trapezoid_weights
 
 #: Policies for negative-frequency weight.
 POLICIES = ("drop", "keep-count", "refuse")
@@ -69,7 +69,7 @@ def split_at_zero(frequency, columns):
     Notes
     -----
     Trapezoid integrals of the piecewise-linear DOS on each side of 0, with
-    sharp band edges read as steps (:func:`thermo.integrals.band_edge_segments`).
+    sharp band edges read as steps (:func:`thermo.kernels.quadrature.band_edge_segments`).
 
     References
     ----------

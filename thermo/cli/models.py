@@ -5,8 +5,7 @@ from __future__ import annotations
 import json
 import sys
 
-from .cli_common import (DEFAULT_TEMPERATURES, add_input_options, load_from_args, parse_temperatures,
-                         report_warnings)
+from .options import (DEFAULT_TEMPERATURES, add_input_options, load_from_args, parse_temperatures, report_warnings)
 
 
 def register(sub):
@@ -33,8 +32,8 @@ def parse_fit_range(text):
     >>> parse_fit_range("10:300")
     (10.0, 300.0)
     """
-    from .errors import OptionError
-    from .models.fitting import check_fit_range
+    from ..errors import OptionError
+    from ..models.fitting import check_fit_range
     parts = str(text).split(":")
     if len(parts) != 2:
         raise OptionError(f"fit range {text!r} must be TMIN:TMAX in K")
@@ -46,9 +45,9 @@ def parse_fit_range(text):
 
 
 def run(args) -> int:
-    from .errors import OptionError
-    from .models import CompositeModel, model_tables, models_report, side_by_side
-    from .writers import export_table
+    from ..errors import OptionError
+    from ..models import CompositeModel, model_tables, models_report, side_by_side
+    from ..io.writers import export_table
 
     if args.optical_terms < 1:
         raise OptionError(f"--optical-terms must be >= 1, got {args.optical_terms}")

@@ -1,6 +1,6 @@
 """Command line: ``python -m thermo`` / ``modeheat``.
 
-Subcommands live in ``cli_<name>.py`` modules, each with ``register(sub)``.
+Subcommands live in ``thermo/cli/<name>.py`` modules, each with ``register(sub)``.
 Bad input ends with exit code 2 and one line on stderr, never a traceback.
 """
 
@@ -10,8 +10,8 @@ import argparse
 import importlib
 import sys
 
-from . import __version__
-from .errors import ModeheatError
+from .. import __version__
+from ..errors import ModeheatError
 
 #: Subcommand modules, in the order shown by --help.
 SUBCOMMANDS = ("table", "summary", "models", "batch", "serve")
@@ -24,11 +24,7 @@ def build_parser():
     parser.add_argument("--version", action="version", version=f"modeheat {__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
     for name in SUBCOMMANDS:
-        try:
-            module = importlib.import_module(f"thermo.cli_{name}")
-        except ImportError:
-            continue
-        module.register(sub)
+        importlib.import_module(f"thermo.cli.{name}").register(sub)
     return parser
 
 

@@ -9,14 +9,14 @@ from __future__ import annotations
 
 import numpy as np
 
-from .errors import DosInputError, OptionError
-from .integrals import mode_weights
+from ..errors import DosInputError, OptionError
+from ..kernels.quadrature import mode_weights
 from .imaginary import check_policy, imaginary_warnings, split_at_zero
 from .lowfreq import apply_low_frequency, fit_low_frequency
-from .normalise import resolve_atoms
-from .readers import read_table
-from .spectrum import LowFrequencyFit, PhononDOS
-from .units import FREQUENCY_UNITS, canonical_unit, thz_to_unit
+from .atoms import resolve_atoms
+from ..io.readers import read_table
+from ..spectrum import LowFrequencyFit, PhononDOS
+from ..units import FREQUENCY_UNITS, canonical_unit, thz_to_unit
 from .validation import check_spectrum
 
 

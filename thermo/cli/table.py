@@ -5,8 +5,7 @@ from __future__ import annotations
 import sys
 from pathlib import Path
 
-from .cli_common import (add_input_options, add_table_options, add_temperature_option, load_from_args,
-                         parse_temperatures, report_warnings)
+from .options import (add_input_options, add_table_options, add_temperature_option, load_from_args, parse_temperatures, report_warnings)
 
 
 def register(sub):
@@ -18,9 +17,9 @@ def register(sub):
 
 
 def run(args) -> int:
-    from .errors import OptionError
-    from .tables import provenance, tabulate
-    from .writers import export_table, write_table
+    from ..errors import OptionError
+    from ..tables import provenance, tabulate
+    from ..io.writers import export_table, write_table
 
     temperatures = parse_temperatures(args.temperatures)
     if args.output and not args.force and Path(args.output).exists():

@@ -1,7 +1,7 @@
 """Shared plumbing of the model modules: kernel sums to tables.
 
 The models (Einstein, Debye, composite) produce the same dictionary of
-mode-weighted kernel sums as :func:`thermo.integrals.thermal_sums`; this
+mode-weighted kernel sums as :func:`thermo.kernels.sums.thermal_sums`; this
 module turns such a dictionary into a table with exactly the columns of
 :func:`thermo.tables.tabulate`, so model and DOS tables can be overlaid.
 """
@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..integrals import SUM_KEYS
+from ..kernels.direct import SUM_KEYS
 from ..tables import table_from_sums
 
 def sums_on_hot(evaluate, temperatures):
@@ -20,7 +20,7 @@ def sums_on_hot(evaluate, temperatures):
     ----------
     evaluate : callable
         ``evaluate(t_hot) -> dict`` of arrays keyed by
-        :data:`thermo.integrals.SUM_KEYS`, for temperatures > 0 [K].
+        :data:`thermo.kernels.direct.SUM_KEYS`, for temperatures > 0 [K].
     temperatures : array_like, shape (M,)
         Temperatures [K], >= 0.
 

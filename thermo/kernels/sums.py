@@ -1,0 +1,102 @@
+"""Mode sums of a whole DOS: the table part (direct or log-grid) plus the ν² part.
+
+The only entry point the tables and models need: :func:`thermal_sums` for a
+:class:`~thermo.spectrum.PhononDOS`, :func:`grid_sums` for nodes and weights.
+
+References
+----------
+.. [1] D. C. Wallace, *Thermodynamics of Crystals* (Wiley, 1972), §4.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ..errors import OptionError
+from . import loggrid
+from .direct import SUM_KEYS, direct_grid_sums
+from .nu2 import nu2_part_sums
+from .quadrature import mode_weights
+
+def grid_sums(nodes_thz, weights, temperatures, method="auto"):
+    """Dispatch the table-part sums to the direct or the fast evaluation.
+
+    Parameters
+    ----------
+    nodes_thz, weights : array_like, shape (N,)
+        Frequencies [THz] and mode weights [1].
+    temperatures : array_like, shape (M,)
+        Temperatures [K], > 0.
+    method : {'auto', 'direct', 'fast'}
+        ``direct`` sums every pair; ``fast`` uses the log-grid correlation
+        of :mod:`thermo.kernels.loggrid`; ``auto`` picks ``fast`` where it is
+        accurate and cheaper.
+
+    Returns
+    -------
+    dict of str to numpy.ndarray
+        As :func:`direct_grid_sums`.
+
+    Examples
+    --------
+    >>> s = grid_sums([1.0], [3.0], [1e6], method="direct")
+    >>> round(float(s["heat_capacity"][0]), 6)
+    3.0
+    """
+    if method not in ("auto", "direct", "fast"):
+        raise OptionError(f"unknown method {method!r}; choose auto, direct or fast")
+    if method == "fast" or (method == "auto" and loggrid.suitable(nodes_thz, weights, temperatures)):
+        return loggrid.loggrid_sums(nodes_thz, weights, temperatures)
+    return direct_grid_sums(nodes_thz, weights, temperatures)
+
+
+def thermal_sums(dos, temperatures, method="auto"):
+    """Mode-weighted kernel sums of a whole DOS at each temperature.
+
+    Parameters
+    ----------
+    dos : PhononDOS
+        Normalised DOS.
+    temperatures : array_like, shape (M,)
+        Temperatures [K], >= 0 (T = 0 gives exact zeros).
+    method : {'auto', 'direct', 'fast'}
+        Evaluation of the tabulated part (see :func:`grid_sums`).
+
+    Returns
+    -------
+    dict
+        ``heat_capacity``, ``thermal_energy``, ``log_partition`` and
+        ``entropy`` (= thermal_energy + log_partition), arrays (M,) [1];
+        ``zero_point_thz``, :math:`\\sum \\text{modes}\\cdot\\nu/2` [THz].
+
+    Notes
+    -----
+    .. math:: \\Sigma_K(T) = \\int_0^{\\nu_c} A\\nu^2 K\\,d\\nu
+              + \\sum_i w_i g_i K\\!\\left(\\frac{h\\nu_i}{k_BT}\\right)
+
+    References
+    ----------
+    .. [1] D. C. Wallace, *Thermodynamics of Crystals* (Wiley, 1972), §4.
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> d = PhononDOS(np.array([0.0, 1.0]), np.array([0.0, 6.0]), atoms=1)
+    >>> round(float(thermal_sums(d, [1e7])["heat_capacity"][0]), 6)
+    3.0
+    """
+    t = np.atleast_1d(np.asarray(temperatures, dtype=float))
+    hot = t > 0
+    out = {key: np.zeros_like(t) for key in SUM_KEYS}
+    if hot.any():
+        parts = [grid_sums(dos.frequency_thz, mode_weights(dos.frequency_thz, dos.dos), t[hot], method)]
+        if dos.low_frequency is not None:
+            parts.append(nu2_part_sums(dos.low_frequency.coefficient, dos.low_frequency.cutoff_thz, t[hot]))
+        for key in SUM_KEYS:
+            out[key][hot] = sum(p[key] for p in parts)
+    out["entropy"] = out["thermal_energy"] + out["log_partition"]
+    zp = float(np.sum(mode_weights(dos.frequency_thz, dos.dos) * dos.frequency_thz)) / 2
+    if dos.low_frequency is not None:
+        zp += dos.low_frequency.coefficient * dos.low_frequency.cutoff_thz ** 4 / 8
+    out["zero_point_thz"] = zp
+    return out
