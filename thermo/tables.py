@@ -10,20 +10,14 @@ import pandas as pd
 from scipy import constants as sc
 
 from . import __version__
+from .columns import BASES, table_columns
 from .errors import OptionError
 from .formula import formula_unit
 from .kernels.quadrature import mode_weights
 from .kernels.sums import thermal_sums
 
-#: Column names of :func:`tabulate` for each ``per`` choice.
-COLUMNS = {
-    "formula": ("temperature_K", "heat_capacity_v_J_per_mol_K", "entropy_J_per_mol_K",
-                "internal_energy_kJ_per_mol", "helmholtz_energy_kJ_per_mol"),
-    "atom": ("temperature_K", "heat_capacity_v_kB_per_atom", "entropy_kB_per_atom",
-             "internal_energy_meV_per_atom", "helmholtz_energy_meV_per_atom"),
-    "gram": ("temperature_K", "heat_capacity_v_J_per_g_K", "entropy_J_per_g_K",
-             "internal_energy_J_per_g", "helmholtz_energy_J_per_g"),
-}
+#: Column names of :func:`tabulate` for each ``per`` choice (from :mod:`thermo.columns`).
+COLUMNS = {basis: table_columns(basis) for basis in BASES}
 #: Zero-point energy [J/mol] per THz of Σ modes·ν/2.
 _ZPE_J_PER_MOL_PER_THZ = sc.N_A * sc.h * 1e12
 

@@ -16,6 +16,7 @@ def register(sub):
 
 def summarize(dos, temperatures):
     """The summary record of a DOS (JSON-able)."""
+    from ..columns import column_name
     from ..tables import provenance, tabulate
     info = provenance(dos, temperatures)
     at_room = tabulate(dos, [298.15]).iloc[0]
@@ -29,8 +30,8 @@ def summarize(dos, temperatures):
         "low_frequency": info["low_frequency"],
         "low_frequency_window_THz": info["low_frequency_window_THz"],
         "low_frequency_debye_temperature_K": info["low_frequency_debye_temperature_K"],
-        "heat_capacity_v_298K_J_per_mol_K": float(at_room.iloc[1]),
-        "entropy_298K_J_per_mol_K": float(at_room.iloc[2]),
+        "heat_capacity_v_298K_J_per_mol_K": float(at_room[column_name("heat_capacity_v")]),
+        "entropy_298K_J_per_mol_K": float(at_room[column_name("entropy")]),
         "estimated_relative_error": info["estimated_relative_error"],
         "max_frequency_THz": float(dos.frequency_thz[dos.dos > 0].max()),
         "warnings": info["warnings"],

@@ -16,6 +16,7 @@ import math
 
 import numpy as np
 
+from ..columns import column_name
 from .composite import composite_model
 from .equivalent_debye import equivalent_debye_temperature
 from .fitting import check_fit_range, default_fit_range, fit_debye_theta, fit_einstein_theta
@@ -277,7 +278,8 @@ def side_by_side(tables):
     """
     import pandas as pd
     first = next(iter(tables.values()))
-    parts = [first.iloc[:, :1].reset_index(drop=True)]
+    t_name = column_name("temperature")
+    parts = [first[[t_name]].reset_index(drop=True)]
     for name, table in tables.items():
-        parts.append(table.iloc[:, 1:].add_prefix(f"{name}_").reset_index(drop=True))
+        parts.append(table.drop(columns=t_name).add_prefix(f"{name}_").reset_index(drop=True))
     return pd.concat(parts, axis=1)

@@ -20,7 +20,8 @@ import numpy as np
 from scipy import constants as sc
 from scipy import optimize
 
-from ..tables import COLUMNS, check_temperatures, tabulate
+from ..columns import column_name
+from ..tables import check_temperatures, tabulate
 from .debye import debye_heat_capacity_fraction
 
 #: Fractions of the classical limit at or above this are not inverted.
@@ -165,5 +166,5 @@ def equivalent_debye_temperature(dos, temperatures):
     [1.0, 1.0]
     """
     t = check_temperatures(temperatures)
-    cv = tabulate(dos, t)[COLUMNS["formula"][1]].to_numpy()
+    cv = tabulate(dos, t)[column_name("heat_capacity_v")].to_numpy()
     return invert_debye_heat_capacity(t, cv, 3 * dos.atoms)

@@ -18,7 +18,8 @@ import numpy as np
 from scipy import optimize
 
 from ..errors import OptionError
-from ..tables import COLUMNS, tabulate
+from ..columns import column_name
+from ..tables import tabulate
 from .debye import debye_heat_capacity
 from .einstein import einstein_heat_capacity
 
@@ -26,7 +27,7 @@ from .einstein import einstein_heat_capacity
 HEAT_CAPACITY_MODELS = {"einstein": einstein_heat_capacity, "debye": debye_heat_capacity}
 #: Temperatures in a DOS fit range when none are given.
 FIT_POINTS = 60
-_CV = COLUMNS["formula"][1]
+_CV = column_name("heat_capacity_v")
 
 
 @dataclass(frozen=True)

@@ -11,6 +11,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
+from ..columns import column_name, find
 from ..errors import OptionError
 
 
@@ -49,12 +50,13 @@ def residual_table(reference, model):
     if list(reference.columns) != list(model.columns):
         raise OptionError("model and DOS tables have different columns: "
                           f"{list(model.columns)} vs {list(reference.columns)}")
-    t_ref, t_mod = reference.iloc[:, 0].to_numpy(float), model.iloc[:, 0].to_numpy(float)
+    t_name = column_name("temperature")
+    t_ref, t_mod = reference[t_name].to_numpy(float), model[t_name].to_numpy(float)
     if t_ref.shape != t_mod.shape or not np.allclose(t_ref, t_mod, rtol=1e-12, atol=0):
         raise OptionError("model and DOS tables are at different temperatures")
-    out = model.iloc[:, 1:].to_numpy(float) - reference.iloc[:, 1:].to_numpy(float)
-    df = pd.DataFrame(out, columns=reference.columns[1:])
-    df.insert(0, reference.columns[0], t_ref)
+    values = [c for c in reference.columns if c != t_name]
+    df = pd.DataFrame({c: model[c].to_numpy(float) - reference[c].to_numpy(float) for c in values})
+    df.insert(0, t_name, t_ref)
     return df
 
 
@@ -78,9 +80,10 @@ def largest_deviations(residuals):
     >>> largest_deviations(r)["entropy_J_per_mol_K"]
     {'deviation': -1.0, 'abs_max': 1.0, 'temperature_K': 2.0}
     """
-    t = residuals.iloc[:, 0].to_numpy(float)
+    t_name = column_name("temperature")
+    t = residuals[t_name].to_numpy(float)
     out = {}
-    for name in residuals.columns[1:]:
+    for name in (c for c in residuals.columns if c != t_name):
         values = residuals[name].to_numpy(float)
         if not np.isfinite(values).any():
             out[name] = {"deviation": None, "abs_max": None, "temperature_K": None}
@@ -96,7 +99,7 @@ def cv_over_t3(tables):
     Parameters
     ----------
     tables : dict of str to pandas.DataFrame
-        Name -> table with ``temperature_K`` first and C_v second; all at
+        Name -> table with ``temperature_K`` and a C_v column; all at
         the same temperatures.
 
     Returns
@@ -127,12 +130,13 @@ def cv_over_t3(tables):
     if not tables:
         raise OptionError("no tables given")
     first = next(iter(tables.values()))
-    t = first.iloc[:, 0].to_numpy(float)
+    t_name = column_name("temperature")
+    t = first[t_name].to_numpy(float)
     hot = t > 0
-    out = pd.DataFrame({first.columns[0]: t[hot]})
+    out = pd.DataFrame({t_name: t[hot]})
     for name, table in tables.items():
-        tt = table.iloc[:, 0].to_numpy(float)
+        tt = table[t_name].to_numpy(float)
         if tt.shape != t.shape or not np.allclose(tt, t, rtol=1e-12, atol=0):
             raise OptionError(f"table {name!r} is at different temperatures")
-        out[name] = table.iloc[:, 1].to_numpy(float)[hot] / t[hot] ** 3
+        out[name] = table[find(table, "heat_capacity_v")].to_numpy(float)[hot] / t[hot] ** 3
     return out

@@ -1,0 +1,209 @@
+"""The one column schema: quantity × basis → column name, unit and label.
+
+Every table modeheat writes (harmonic tables, models, quasi-harmonic,
+calorimetry, displacements, …) names its columns through this module, and
+every reader of a table (writers, CLI, dashboard) finds a column by its
+quantity and basis, never by position and never by parsing a label.
+
+A column name is ``<quantity>_<unit slug>``, e.g.
+``heat_capacity_v_J_per_mol_K``; the label shown to people is
+``<symbol> [<unit>]``, e.g. ``C_v [J/(mol K)]``.
+
+Quantities come in three kinds:
+
+- ``entropy`` — heat capacities and entropies: J/(mol K) per mole of formula
+  units, k_B per atom, J/(g K) per gram;
+- ``energy`` — energies: kJ/mol, meV per atom, J/g;
+- ``fixed`` — one unit whatever the basis (temperature, volume, …).
+
+Examples
+--------
+>>> column_name("heat_capacity_v", "atom")
+'heat_capacity_v_kB_per_atom'
+>>> lookup("entropy_J_per_g_K").label
+'S [J/(g K)]'
+>>> table_columns("formula")[:2]
+('temperature_K', 'heat_capacity_v_J_per_mol_K')
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from .errors import OptionError
+
+#: Bases of a table: per mole of formula units, per atom, per gram.
+BASES = ("formula", "atom", "gram")
+
+#: (unit shown, slug in column names) of each kind and basis.
+_UNITS = {
+    "entropy": {"formula": ("J/(mol K)", "J_per_mol_K"), "atom": ("k_B/atom", "kB_per_atom"),
+                "gram": ("J/(g K)", "J_per_g_K")},
+    "energy": {"formula": ("kJ/mol", "kJ_per_mol"), "atom": ("meV/atom", "meV_per_atom"),
+               "gram": ("J/g", "J_per_g")},
+}
+
+
+@dataclass(frozen=True)
+class Quantity:
+    """A physical quantity that may appear as a table column.
+
+    Attributes
+    ----------
+    key : str
+        Identifier, the first part of every column name (``heat_capacity_v``).
+    symbol : str
+        Symbol shown in labels (``C_v``).
+    kind : {'entropy', 'energy', 'fixed'}
+        How the unit follows the basis (see module notes).
+    unit : str
+        Unit for ``kind='fixed'`` (shown), e.g. ``K``.
+    slug : str
+        Unit slug for ``kind='fixed'`` (in the column name), e.g. ``K``.
+    description : str
+        One line for help texts and provenance.
+    """
+
+    key: str
+    symbol: str
+    kind: str
+    unit: str = ""
+    slug: str = ""
+    description: str = ""
+
+
+@dataclass(frozen=True)
+class Column:
+    """One column: a quantity on a basis (None for fixed-unit quantities)."""
+
+    quantity: Quantity
+    basis: str | None
+    unit: str
+    name: str
+
+    @property
+    def label(self) -> str:
+        """Text for axes and table headers, ``symbol [unit]``."""
+        return f"{self.quantity.symbol} [{self.unit}]" if self.unit else self.quantity.symbol
+
+
+QUANTITIES: dict[str, Quantity] = {}
+
+
+def register_quantity(key, symbol, kind, unit="", slug="", description=""):
+    """Add a quantity to the schema (idempotent for an identical definition).
+
+    Parameters
+    ----------
+    key, symbol, kind, unit, slug, description
+        As the attributes of :class:`Quantity`.
+
+    Returns
+    -------
+    Quantity
+
+    Raises
+    ------
+    OptionError
+        If ``key`` is already defined differently, or ``kind`` is unknown.
+    """
+    if kind not in ("entropy", "energy", "fixed"):
+        raise OptionError(f"quantity {key}: unknown kind {kind!r}")
+    q = Quantity(key, symbol, kind, unit, slug if kind == "fixed" else "", description)
+    if key in QUANTITIES and QUANTITIES[key] != q:
+        raise OptionError(f"quantity {key} is already defined differently")
+    QUANTITIES[key] = q
+    _NAMES.clear()
+    return q
+
+
+def column(key, basis="formula") -> Column:
+    """The column of quantity ``key`` on ``basis``.
+
+    Raises
+    ------
+    OptionError
+        Unknown quantity or basis.
+    """
+    q = QUANTITIES.get(key)
+    if q is None:
+        raise OptionError(f"unknown quantity {key!r}")
+    if q.kind == "fixed":
+        return Column(q, None, q.unit, f"{key}_{q.slug}" if q.slug else key)
+    if basis not in BASES:
+        raise OptionError(f"unknown basis {basis!r}; choose formula, atom or gram")
+    unit, slug = _UNITS[q.kind][basis]
+    return Column(q, basis, unit, f"{key}_{slug}")
+
+
+def column_name(key, basis="formula") -> str:
+    """Column name of quantity ``key`` on ``basis`` (see :func:`column`)."""
+    return column(key, basis).name
+
+
+_NAMES: dict[str, Column] = {}
+
+
+def lookup(name) -> Column:
+    """The :class:`Column` a column name stands for.
+
+    Raises
+    ------
+    OptionError
+        If no quantity and basis give this name.
+    """
+    if not _NAMES:
+        for q in QUANTITIES.values():
+            for basis in (BASES if q.kind != "fixed" else (None,)):
+                c = column(q.key, basis or "formula")
+                _NAMES[c.name] = c
+    try:
+        return _NAMES[name]
+    except KeyError:
+        raise OptionError(f"column {name!r} is not in the column schema") from None
+
+
+def label(name) -> str:
+    """Label of a column name, ``symbol [unit]``; unknown names are shown as they are."""
+    try:
+        return lookup(name).label
+    except OptionError:
+        return str(name)
+
+
+def find(table, key, basis=None) -> str:
+    """Name of the column of quantity ``key`` in ``table`` (any basis unless given).
+
+    Raises
+    ------
+    OptionError
+        If the table has no such column.
+    """
+    for name in table.columns:
+        try:
+            c = lookup(name)
+        except OptionError:
+            continue
+        if c.quantity.key == key and (basis is None or c.basis in (basis, None)):
+            return name
+    raise OptionError(f"the table has no {key} column")
+
+
+#: Quantities of the harmonic table, in column order.
+HARMONIC = ("temperature", "heat_capacity_v", "entropy", "internal_energy", "helmholtz_energy")
+
+
+def table_columns(basis="formula", keys=HARMONIC) -> tuple:
+    """Column names of a table of ``keys`` on ``basis`` (default: the harmonic table)."""
+    return tuple(column_name(k, basis) for k in keys)
+
+
+register_quantity("temperature", "T", "fixed", "K", "K", "temperature")
+register_quantity("heat_capacity_v", "C_v", "entropy", description="heat capacity at constant volume")
+register_quantity("heat_capacity_p", "C_p", "entropy", description="heat capacity at constant pressure")
+register_quantity("entropy", "S", "entropy", description="entropy")
+register_quantity("internal_energy", "U", "energy", description="internal energy, zero-point energy included")
+register_quantity("helmholtz_energy", "F", "energy", description="Helmholtz energy, zero-point energy included")
+register_quantity("enthalpy", "H", "energy", description="enthalpy")
+register_quantity("gibbs_energy", "G", "energy", description="Gibbs energy")
+register_quantity("zero_point_energy", "E_0", "energy", description="zero-point energy")
