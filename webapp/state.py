@@ -26,7 +26,7 @@ from pathlib import Path
 import numpy as np
 
 from thermo import load_dos, tabulate
-from thermo.cli_common import parse_temperatures
+from thermo.cli.options import parse_temperatures
 from thermo.errors import ModeheatError
 
 log = logging.getLogger(__name__)
@@ -118,7 +118,7 @@ def load(dataset):
 
 def stated_unit(dataset):
     """Frequency unit stated in the file header, or None."""
-    from thermo.readers import read_table
+    from thermo.io.readers import read_table
 
     def compute():
         try:

@@ -5,9 +5,9 @@ from __future__ import annotations
 import plotly.graph_objects as go
 from dash import Input, Output, State, dcc, html, no_update
 
-from thermo.cli_common import DEFAULT_TEMPERATURES, parse_temperatures
+from thermo.cli.options import DEFAULT_TEMPERATURES, parse_temperatures
 from thermo.tables import provenance
-from thermo.writers import export_table
+from thermo.io.writers import export_table
 
 from .. import components as c
 from .. import state

@@ -8,7 +8,7 @@ import numpy as np
 import plotly.graph_objects as go
 from dash import Input, Output, State, ctx, dcc, html, no_update
 
-from thermo.lowfreq import reduced_dos
+from thermo.preparation.lowfreq import reduced_dos
 from thermo.units import FREQUENCY_UNITS
 
 from .. import components as c
