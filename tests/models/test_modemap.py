@@ -15,7 +15,7 @@ import numpy as np
 import pytest
 from scipy import constants as sc
 
-from tests.test_models_spectra import debye_dos, peak_dos, theta_of
+from tests.spectra import debye_spectrum, peak_dos, theta_of
 from thermo.errors import OptionError
 from thermo.models import (cv_over_t3, debye_table, einstein_table, largest_deviations, mode_share_map,
                            model_tables, occupation_explorer, residual_table, side_by_side)
@@ -25,7 +25,7 @@ R = sc.R
 
 
 def test_mode_shares_sum_to_one_and_follow_mode_fractions_when_classical():
-    dos = debye_dos(5.0)
+    dos = debye_spectrum(5.0)
     m = mode_share_map(dos, [0.0, 10.0, 1e7], bins=10)
     assert m["heat_capacity_share"].shape == (10, 3) and m["entropy_share"].shape == (10, 3)
     assert np.isnan(m["heat_capacity_share"][:, 0]).all()          # undefined at T = 0
@@ -41,7 +41,7 @@ def test_mode_shares_sum_to_one_and_follow_mode_fractions_when_classical():
 def test_cumulative_heat_capacity_share_of_a_debye_solid_matches_mpmath():
     # Share of C_v from ν < ν' = ∫_0^{x'} x^4 e^x/(e^x-1)^2 / ∫_0^{y} (same), x' = hν'/k_BT (Debye 1912).
     nu_d, t = 5.0, 40.0
-    m = mode_share_map(debye_dos(nu_d), [t], bins=10)
+    m = mode_share_map(debye_spectrum(nu_d), [t], bins=10)
     mp.mp.dps = 25
     kernel = lambda x: x ** 4 * mp.exp(x) / mp.expm1(x) ** 2
     y = theta_of(nu_d) / t
@@ -54,14 +54,14 @@ def test_cumulative_heat_capacity_share_of_a_debye_solid_matches_mpmath():
 
 def test_mode_map_bins_are_limited():
     with pytest.raises(OptionError):
-        mode_share_map(debye_dos(5.0), [10.0], bins=0)
+        mode_share_map(debye_spectrum(5.0), [10.0], bins=0)
 
 
 def test_residuals_vanish_for_the_model_of_its_own_spectrum_and_show_the_einstein_failure():
     # The Debye model of a Debye DOS equals it (Debye 1912); an Einstein model of it misses most at low T.
     theta = theta_of(5.0)
     t = np.array([0.0, 5.0, 20.0, 100.0, 300.0])
-    dos = debye_dos(5.0)
+    dos = debye_spectrum(5.0)
     reference = tabulate(dos, t)
     same = residual_table(reference, debye_table(theta, 3, t))
     assert list(same.columns) == list(COLUMNS["formula"])

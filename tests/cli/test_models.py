@@ -18,7 +18,7 @@ import pandas as pd
 import pytest
 from scipy import constants as sc
 
-from tests.test_models_spectra import gaussian, write_text
+from tests.spectra import gaussian, write_text
 from thermo.cli.main import main
 from thermo.tables import COLUMNS
 

@@ -15,7 +15,7 @@ import numpy as np
 import pytest
 from scipy import constants as sc
 
-from tests.test_models_spectra import band_plus_peaks, debye_dos, peak_dos, theta_of, write_text
+from tests.spectra import band_plus_peaks, debye_spectrum, peak_dos, theta_of, write_text
 from thermo import load_dos
 from thermo.models import (THETA_KEYS, debye_moment_temperature, einstein_entropy_temperature,
                            equivalent_debye_temperature, fit_einstein_theta, frequency_moment,
@@ -29,7 +29,7 @@ H_OVER_K = sc.h * 1e12 / sc.k  # K per THz, CODATA
 def test_debye_spectrum_gives_every_debye_definition_equal_to_theta():
     # Barron et al. 1957: θ_D(n) = θ_D for every n on a Debye spectrum; also the elastic limit and the fit.
     nu_d = 5.0
-    rows = {r["key"]: r for r in theta_definitions(debye_dos(nu_d, atoms=2), fit_range=(5.0, 300.0))}
+    rows = {r["key"]: r for r in theta_definitions(debye_spectrum(nu_d, atoms=2), fit_range=(5.0, 300.0))}
     assert set(rows) == set(THETA_KEYS)
     for key, row in rows.items():
         if key.startswith("debye"):
@@ -45,7 +45,7 @@ def test_debye_spectrum_gives_flat_equivalent_debye_temperature():
     # Barron et al. 1957: θ_D(T) is constant for a Debye solid.
     nu_d = 5.0
     t = np.array([0.5, 2.0, 10.0, 50.0, 240.0, 1000.0, 1e4])
-    np.testing.assert_allclose(equivalent_debye_temperature(debye_dos(nu_d), t), nu_d * H_OVER_K, rtol=1e-9)
+    np.testing.assert_allclose(equivalent_debye_temperature(debye_spectrum(nu_d), t), nu_d * H_OVER_K, rtol=1e-9)
 
 
 def test_tabulated_debye_file_through_the_loader(tmp_path):
@@ -131,7 +131,7 @@ def test_log_moment_of_a_dos_that_does_not_vanish_at_zero_frequency():
     # Reference: mpmath quadrature of the same piecewise-linear spectrum's exact Gaussian form
     # (grid fine enough that interpolation error is below 1e-4).
     from thermo.spectrum import PhononDOS
-    from tests.test_models_spectra import gaussian
+    from tests.spectra import gaussian
     nu = np.linspace(0.0, 12.0, 6001)
     g = gaussian(nu, 5.0, 1.5, 3.0)
     dos = PhononDOS(nu, g * 3.0 / np.trapezoid(g, nu), atoms=1)

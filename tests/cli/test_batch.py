@@ -20,7 +20,7 @@ from thermo.batch import INDEX_COLUMNS, INDEX_NAME, BatchOptions, output_names, 
 from thermo.cli.main import main
 from thermo.io.writers import read_exported_csv
 
-REPO = Path(__file__).resolve().parents[1]
+REPO = Path(__file__).resolve().parents[2]
 TEMPS = (0.0, 10.0, 100.0, 300.0, 3000.0)
 
 

@@ -10,11 +10,11 @@ import numpy as np
 import pandas as pd
 import pytest
 
-from tests.conftest import debye_dos, dos_text
+from tests.spectra import debye_table, dos_text
 from thermo import load_dos, tabulate
 from thermo.io.writers import read_exported_csv, read_exported_json
 
-ROOT = __import__("pathlib").Path(__file__).resolve().parents[1]
+ROOT = __import__("pathlib").Path(__file__).resolve().parents[2]
 
 
 def run_cli(*args):
@@ -24,7 +24,7 @@ def run_cli(*args):
 @pytest.fixture
 def debye_file(tmp_path):
     path = tmp_path / "debye.dat"
-    path.write_text(dos_text(*debye_dos(380.0, points=801)))
+    path.write_text(dos_text(*debye_table(380.0, points=801)))
     return path
 
 

@@ -43,8 +43,8 @@ def _debye_reference(theta, t):
 
 @pytest.fixture(scope="module")
 def debye(request):
-    from tests.conftest import dos_text, debye_dos
-    return load_dos(dos_text(*debye_dos(THETA, points=2001)))
+    from tests.spectra import dos_text, debye_table
+    return load_dos(dos_text(*debye_table(THETA, points=2001)))
 
 
 def test_debye_table_matches_mpmath_from_theta_over_50_to_3_theta(debye):

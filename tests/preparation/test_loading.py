@@ -13,7 +13,7 @@ import openpyxl
 import pytest
 from scipy import constants as sc
 
-from tests.conftest import debye_dos, dos_text
+from tests.spectra import debye_table, dos_text
 from thermo import DosInputError, OptionError, load_dos, tabulate
 from thermo.units import thz_to_unit
 
@@ -21,7 +21,7 @@ TEMPS = [5.0, 50.0, 300.0, 900.0]
 
 
 def _reference_table():
-    return tabulate(load_dos(dos_text(*debye_dos(350.0, points=701))), TEMPS)
+    return tabulate(load_dos(dos_text(*debye_table(350.0, points=701))), TEMPS)
 
 
 # Factors computed here from CODATA, independent of thermo.units.
@@ -36,7 +36,7 @@ CODATA_PER_THZ = {
 
 @pytest.mark.parametrize("unit", list(CODATA_PER_THZ))
 def test_every_unit_gives_the_same_table(unit):
-    nu, g = debye_dos(350.0, points=701)
+    nu, g = debye_table(350.0, points=701)
     f = CODATA_PER_THZ[unit]
     assert thz_to_unit(unit) == pytest.approx(f, rel=1e-12)
     text = dos_text(nu * f, g / f, header="freq dos")
@@ -47,20 +47,20 @@ def test_every_unit_gives_the_same_table(unit):
 @pytest.mark.parametrize("header, unit", [("frequency (cm-1) dos", "cm-1"), ("energy_meV total", "meV"),
                                           ("# nu [THz]\nnu g", "THz"), ("omega (rad/s) g", "rad/s")])
 def test_unit_taken_from_header(header, unit):
-    nu, g = debye_dos(350.0, points=201)
+    nu, g = debye_table(350.0, points=201)
     f = CODATA_PER_THZ[unit]
     dos = load_dos(dos_text(nu * f, g / f, header=header))
     assert dos.source["freq_unit"] == unit
 
 
 def test_unit_missing_is_refused_with_the_choices():
-    nu, g = debye_dos(350.0, points=201)
+    nu, g = debye_table(350.0, points=201)
     with pytest.raises(DosInputError, match="THz, cm-1, meV, rad/s, K"):
         load_dos(dos_text(nu, g, header="x y"))
 
 
 def test_explicit_unit_wins_over_header_with_a_warning():
-    nu, g = debye_dos(350.0, points=201)
+    nu, g = debye_table(350.0, points=201)
     dos = load_dos(dos_text(nu, g, header="nu_meV g"), freq_unit="THz")
     assert dos.source["freq_unit"] == "THz"
     assert any("states meV" in w for w in dos.warnings)
@@ -68,19 +68,19 @@ def test_explicit_unit_wins_over_header_with_a_warning():
 
 def test_bad_unit_name_is_an_option_error():
     with pytest.raises(OptionError, match="choose one of"):
-        load_dos(dos_text(*debye_dos(350.0)), freq_unit="furlongs")
+        load_dos(dos_text(*debye_table(350.0)), freq_unit="furlongs")
 
 
 @pytest.mark.parametrize("delimiter", [" ", "\t", ",", ";", "   "])
 def test_delimiters(delimiter):
-    nu, g = debye_dos(350.0, points=701)
+    nu, g = debye_table(350.0, points=701)
     text = dos_text(nu, g, header=delimiter.join(["frequency_THz", "total"]), delimiter=delimiter)
     table = tabulate(load_dos(text), TEMPS)
     assert np.allclose(table.to_numpy(), _reference_table().to_numpy(), rtol=1e-12)
 
 
 def test_xlsx_input(tmp_path):
-    nu, g = debye_dos(350.0, points=701)
+    nu, g = debye_table(350.0, points=701)
     book = openpyxl.Workbook()
     sheet = book.active
     sheet.append(["frequency (THz)", "dos"])
@@ -93,7 +93,7 @@ def test_xlsx_input(tmp_path):
 
 
 def test_arbitrary_normalisation_is_rescaled_and_atoms_inferred_or_asked():
-    nu, g = debye_dos(350.0, points=401, atoms=2)
+    nu, g = debye_table(350.0, points=401, atoms=2)
     dos = load_dos(dos_text(nu, g))
     assert dos.atoms == 2 and dos.source["atoms_inferred"]
     with pytest.raises(DosInputError, match="atoms per formula unit"):
@@ -107,7 +107,7 @@ def test_arbitrary_normalisation_is_rescaled_and_atoms_inferred_or_asked():
 
 def _with_imaginary(share):
     """A Debye DOS (3 modes) plus a flat block of imaginary modes at ν < 0."""
-    nu, g = debye_dos(350.0, points=701)
+    nu, g = debye_table(350.0, points=701)
     step = nu[1] - nu[0]
     neg = -step * np.arange(60, 0, -1)
     width = 60 * step
@@ -146,7 +146,7 @@ def test_small_imaginary_share_warns_without_instability_caution():
 
 def test_partial_columns_and_species_shares():
     from thermo.partials import species_contributions
-    nu, g = debye_dos(350.0, points=701, atoms=2)
+    nu, g = debye_table(350.0, points=701, atoms=2)
     text = dos_text(nu, g, 0.25 * g, 0.75 * g, header="frequency_THz total Aa Bb")
     dos = load_dos(text)
     assert set(dos.partials) == {"Aa", "Bb"}
@@ -170,8 +170,8 @@ def test_narrow_peak_gives_the_einstein_closed_form():
 
 def test_error_estimate_shrinks_with_a_finer_grid():
     from thermo import estimated_relative_error
-    coarse = load_dos(dos_text(*debye_dos(350.0, points=61)))
-    fine = load_dos(dos_text(*debye_dos(350.0, points=1201)))
+    coarse = load_dos(dos_text(*debye_table(350.0, points=61)))
+    fine = load_dos(dos_text(*debye_table(350.0, points=1201)))
     e_coarse = estimated_relative_error(coarse, np.linspace(5, 1000, 50))
     e_fine = estimated_relative_error(fine, np.linspace(5, 1000, 50))
     assert 0 < e_fine < e_coarse / 100

@@ -21,7 +21,7 @@ from __future__ import annotations
 import janaf
 import pytest
 
-from tests.conftest import debye_dos, dos_text
+from tests.spectra import debye_table, dos_text
 from thermo import load_dos, tabulate
 
 
@@ -39,7 +39,7 @@ def janaf_row(index, temperature="298.15"):
 def test_debye_solid_is_plausible_against_janaf(index, theta):
     assert "(cr)" in janaf.Table(index).formula
     cp, s_ref = janaf_row(index)
-    row = tabulate(load_dos(dos_text(*debye_dos(theta, points=1001))), [298.15]).iloc[0]
+    row = tabulate(load_dos(dos_text(*debye_table(theta, points=1001))), [298.15]).iloc[0]
     cv, s = row.heat_capacity_v_J_per_mol_K, row.entropy_J_per_mol_K
     assert 0.90 * cp <= cv <= cp
     assert 0.88 * s_ref <= s <= s_ref

@@ -12,7 +12,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from tests.test_models_spectra import band_plus_peaks, theta_of
+from tests.spectra import band_plus_peaks, theta_of
 from thermo.errors import OptionError
 from thermo.models import (CompositeModel, composite_model, fit_heat_capacity_data, least_squares_fit)
 from thermo.models.composite import composite_sums
@@ -98,8 +98,8 @@ def test_composite_model_with_two_optical_terms():
 
 
 def test_composite_of_one_atom_has_no_optical_term():
-    from tests.test_models_spectra import debye_dos
-    model = composite_model(debye_dos(4.0), fit_range=(5.0, 300.0))
+    from tests.spectra import debye_spectrum
+    model = composite_model(debye_spectrum(4.0), fit_range=(5.0, 300.0))
     assert model.einstein_thetas_K == () and model.debye_theta_K == pytest.approx(theta_of(4.0), rel=1e-9)
 
 

@@ -13,7 +13,7 @@ import pytest
 from scipy import constants as sc
 from scipy.special import erf
 
-from tests.conftest import K_PER_THZ, dos_text
+from tests.spectra import K_PER_THZ, dos_text
 from thermo import OptionError, load_dos, tabulate
 from thermo.preparation.lowfreq import reduced_dos
 
