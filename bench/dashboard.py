@@ -83,14 +83,8 @@ def _wait_for_server(url, proc, timeout=60.0):
 
 
 def _browser():
-    from selenium import webdriver
-    from selenium.webdriver.chrome.options import Options
-    options = Options()
-    options.binary_location = CHROMIUM
-    for flag in ("--headless", "--no-sandbox", "--disable-gpu", "--disable-dev-shm-usage",
-                 "--disable-background-networking", "--disable-component-update", "--window-size=1280,1000"):
-        options.add_argument(flag)
-    driver = webdriver.Chrome(options=options)
+    from webapp.browser import start
+    driver = start()
     driver.set_script_timeout(90)
     return driver
 
@@ -155,9 +149,9 @@ def p5(repeat=5):
 
 
 def _workspace():
-    from webapp import state
+    from webapp import session
     nu, g = cases.spring_crystal(UPLOAD_POINTS)
-    dataset = state.new_dataset("bench.dat", cases.as_text(nu, g).encode())
+    dataset = session.new_dataset("bench.dat", cases.as_text(nu, g).encode())
     return {"datasets": [dataset], "active": dataset["id"], "rev": "bench"}
 
 

@@ -7,12 +7,12 @@ quantity and basis, never by position and never by parsing a label.
 
 A column name is ``<quantity>_<unit slug>``, e.g.
 ``heat_capacity_v_J_per_mol_K``; the label shown to people is
-``<symbol> [<unit>]``, e.g. ``C_v [J/(mol K)]``.
+``<symbol> [<unit>]``, e.g. ``C_v [J/(mol·K)]``.
 
 Quantities come in three kinds:
 
-- ``entropy`` — heat capacities and entropies: J/(mol K) per mole of formula
-  units, k_B per atom, J/(g K) per gram;
+- ``entropy`` — heat capacities and entropies: J/(mol·K) per mole of formula
+  units, k_B per atom, J/(g·K) per gram;
 - ``energy`` — energies: kJ/mol, meV per atom, J/g;
 - ``fixed`` — one unit whatever the basis (temperature, volume, …).
 
@@ -21,7 +21,7 @@ Examples
 >>> column_name("heat_capacity_v", "atom")
 'heat_capacity_v_kB_per_atom'
 >>> lookup("entropy_J_per_g_K").label
-'S [J/(g K)]'
+'S [J/(g·K)]'
 >>> table_columns("formula")[:2]
 ('temperature_K', 'heat_capacity_v_J_per_mol_K')
 """
@@ -37,8 +37,8 @@ BASES = ("formula", "atom", "gram")
 
 #: (unit shown, slug in column names) of each kind and basis.
 _UNITS = {
-    "entropy": {"formula": ("J/(mol K)", "J_per_mol_K"), "atom": ("k_B/atom", "kB_per_atom"),
-                "gram": ("J/(g K)", "J_per_g_K")},
+    "entropy": {"formula": ("J/(mol·K)", "J_per_mol_K"), "atom": ("k_B/atom", "kB_per_atom"),
+                "gram": ("J/(g·K)", "J_per_g_K")},
     "energy": {"formula": ("kJ/mol", "kJ_per_mol"), "atom": ("meV/atom", "meV_per_atom"),
                "gram": ("J/g", "J_per_g")},
 }

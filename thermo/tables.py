@@ -110,6 +110,40 @@ def _convert(values, per, atoms, formula):
     return cv / mass, s / mass, u / mass, f / mass
 
 
+def classical_heat_capacity(atoms, per="formula", formula=None):
+    r"""Classical (Dulong–Petit) limit of C_v in the units of the ``per`` basis.
+
+    Parameters
+    ----------
+    atoms : int
+        Atoms per formula unit n.
+    per : {'formula', 'atom', 'gram'}
+        Basis, as in :func:`tabulate`.
+    formula : str, optional
+        Chemical formula (needed for ``per='gram'``).
+
+    Returns
+    -------
+    float
+        3nR [J/(mol·K)], 3 [k_B/atom] or 3nR/M [J/(g·K)].
+
+    Notes
+    -----
+    Every one of the 3n modes holds k_B of heat capacity when k_BT ≫ hν
+    (equipartition; the law of Dulong and Petit, common practice), so the
+    harmonic C_v rises to :math:`C_v \to 3nR`.
+
+    Examples
+    --------
+    >>> round(classical_heat_capacity(2), 4)
+    49.8868
+    >>> classical_heat_capacity(2, per="atom")
+    3.0
+    """
+    limit = 3.0 * atoms * sc.R
+    return float(_convert((limit, 0.0, 0.0, 0.0), per, atoms, formula)[0])
+
+
 def tabulate(dos, temperatures, per="formula", formula=None, method="auto"):
     """Harmonic C_v, S, U and F of a phonon DOS at the given temperatures.
 

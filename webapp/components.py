@@ -1,51 +1,16 @@
-"""Shared layout pieces: labelled controls, message panels, figures, graphs."""
+"""Shared layout pieces: labelled controls, message panels, graph containers, the dataset note."""
 
 from __future__ import annotations
 
-import plotly.graph_objects as go
-from dash import dcc, html
+from dash import Input, Output, callback, dcc, html
 
-#: Our own trace colours (deep teal, amber, plum, moss, brick, slate, sand).
-PALETTE = ("#0f6e7a", "#d0892b", "#7a4f9a", "#4f8a3a", "#b3443a", "#4d5f73", "#a88b4a")
-INK = "#1f2a33"
-GRID = "#dde4e8"
-FONT = "system-ui, -apple-system, 'Segoe UI', Roboto, 'Helvetica Neue', Arial, sans-serif"
+from .figures import PALETTE, graph_config, message_figure
+from .labels import PER_CHOICES
 
 CAUTION = ("Results use the harmonic approximation at fixed volume (C_v): no thermal expansion, "
            "anharmonicity, electronic terms or melting. Imaginary modes are left out and signal an "
            "unstable structure. Not validated for design use without comparison to measured data "
            "and local practice.")
-
-
-def _axis(title):
-    return {"title": {"text": title, "font": {"size": 13}}, "showgrid": True, "gridcolor": GRID,
-            "zeroline": False, "ticks": "outside", "showline": True, "mirror": True, "linecolor": "#9aa7b0",
-            "automargin": True}
-
-
-def figure(x_title, y_title, title=None, height=360):
-    """An empty figure in the modeheat style with titled axes (units in brackets).
-
-    The look is set explicitly, without a plotly template, which keeps
-    building a figure well under a millisecond.
-    """
-    return go.Figure(layout={
-        "template": {}, "colorway": list(PALETTE), "height": height,
-        "font": {"family": FONT, "color": INK, "size": 13},
-        "title": {"text": title, "x": 0.01, "xanchor": "left", "font": {"size": 15}} if title else {},
-        "margin": {"l": 64, "r": 18, "t": 44 if title else 16, "b": 52},
-        "paper_bgcolor": "white", "plot_bgcolor": "#fbfcfc", "hovermode": "x unified",
-        "hoverlabel": {"bgcolor": "white", "bordercolor": "#9aa7b0"},
-        "legend": {"orientation": "h", "y": -0.22, "x": 0, "font": {"size": 12}},
-        "xaxis": _axis(x_title), "yaxis": _axis(y_title)})
-
-
-def message_figure(text, height=360):
-    """A blank figure that states why there is nothing to plot."""
-    return go.Figure(layout=dict(template={}, height=height, xaxis={"visible": False}, paper_bgcolor="white",
-                      plot_bgcolor="white", yaxis={"visible": False}, margin={"l": 10, "r": 10, "t": 10, "b": 10},
-                      annotations=[{"text": text, "showarrow": False, "xref": "paper", "yref": "paper",
-                                    "x": 0.5, "y": 0.5, "font": {"size": 14, "color": "#6b7780"}}]))
 
 
 def graph(graph_id, label):
@@ -58,13 +23,6 @@ def graph(graph_id, label):
         className="mh-figure", **{"aria-label": label})
 
 
-def graph_config(image_format, name):
-    """Plotly config: modebar image download in ``image_format`` (png or svg)."""
-    return {"displaylogo": False, "responsive": True,
-            "toImageButtonOptions": {"format": image_format, "filename": f"modeheat-{name}",
-                                     "scale": 2 if image_format == "png" else 1}}
-
-
 def field(label, control, control_id, hint=None):
     """A labelled form field (the label is tied to the control for accessibility)."""
     parts = [html.Span(label, className="mh-label"), control]
@@ -74,26 +32,31 @@ def field(label, control, control_id, hint=None):
 
 
 def number(control_id, value, label, step="any", min_value=None, max_value=None, hint=None):
+    """A labelled number box (sent when the user leaves the field or presses Enter)."""
     return field(label, dcc.Input(id=control_id, type="number", value=value, step=step, min=min_value,
                                   max=max_value, debounce=True, className="mh-input"),
                  control_id, hint)
 
 
 def text(control_id, value, label, placeholder=None, hint=None):
+    """A labelled text box (sent when the user leaves the field or presses Enter)."""
     return field(label, dcc.Input(id=control_id, type="text", value=value, placeholder=placeholder,
                                   debounce=True, className="mh-input"),
                  control_id, hint)
 
 
 def dropdown(control_id, options, value, label, clearable=False, multi=False, hint=None):
+    """A labelled dropdown."""
     return field(label, dcc.Dropdown(id=control_id, options=options, value=value, clearable=clearable,
                                      multi=multi, className="mh-dropdown"),
                  control_id, hint)
 
 
-def radio(control_id, options, value, label):
+def radio(control_id, options, value, label, persist=False):
+    """Radio buttons with a label; ``persist`` keeps the choice for the browser tab."""
+    kept = {"persistence": True, "persistence_type": "session"} if persist else {}
     return html.Div([html.Span(label, className="mh-label", id=f"{control_id}-label"),
-                     dcc.RadioItems(id=control_id, options=options, value=value, inline=True,
+                     dcc.RadioItems(id=control_id, options=options, value=value, inline=True, **kept,
                                     className="mh-radio", inputClassName="mh-radio-input",
                                     labelClassName="mh-radio-label")],
                     className="mh-field", role="radiogroup", **{"aria-labelledby": f"{control_id}-label"})
@@ -117,6 +80,7 @@ def message_items(items):
 
 
 def no_data_note():
+    """The note shown when no dataset is loaded, with a link to the Spectrum page."""
     return html.P(["No dataset loaded. Add one on the ", dcc.Link("Spectrum", href="/spectrum"),
                    " page."], className="mh-msg mh-msg-info")
 
@@ -128,6 +92,7 @@ def key_numbers(pairs):
 
 
 def page(title, intro, *children):
+    """A page section: heading, one-line introduction, content."""
     return html.Section([html.H1(title), html.P(intro, className="mh-intro"), *children],
                         className="mh-page")
 
@@ -140,7 +105,7 @@ def temperature_fields(prefix, t_min=0, t_max=1000, step=5):
 
 
 def basis_field(control_id, value="formula"):
-    from .state import PER_CHOICES
+    """Radio buttons of the basis: per formula unit, per atom, per gram."""
     return radio(control_id, PER_CHOICES, value, "Values")
 
 
@@ -151,3 +116,19 @@ def active_note(dataset):
     return html.P(["Dataset: ", html.Strong(dataset["name"], className="mh-dataset-name"),
                    " (change it on the ", dcc.Link("Spectrum", href="/spectrum"), " page)"],
                   className="mh-active-note")
+
+
+def active_slot(prefix):
+    """Where a page names its dataset (filled by the page's callback with :func:`active_note`)."""
+    return html.Div(id=f"{prefix}-active", children=no_data_note())
+
+
+def follow_image_format(*graph_ids):
+    """Register the callback that gives the page's graphs the image format chosen on the Export page."""
+    outputs = [Output(g, "config") for g in graph_ids]
+
+    def configs(prefs):
+        fmt = (prefs or {}).get("image_format", "png")
+        out = [graph_config(fmt if fmt in ("png", "svg") else "png", g) for g in graph_ids]
+        return out if len(out) > 1 else out[0]
+    callback(*outputs, Input("mh-prefs", "data"))(configs)

@@ -13,17 +13,11 @@ import time
 from pathlib import Path
 
 
-def browser(width=1280, height=1000, chromium="/usr/bin/chromium"):
-    from selenium import webdriver
-    from selenium.webdriver.chrome.options import Options
-    options = Options()
-    options.binary_location = chromium
-    for flag in ("--headless", "--no-sandbox", "--disable-gpu", "--disable-background-networking",
-                 "--disable-component-update", "--disable-sync", "--disable-dev-shm-usage",
-                 f"--window-size={width},{height}", "--hide-scrollbars"):
-        options.add_argument(flag)
-    options.set_capability("goog:loggingPrefs", {"browser": "SEVERE"})
-    return webdriver.Chrome(options=options)
+def browser(width=1280, height=1000):
+    """Headless Chromium for the screenshots (shared options of :mod:`webapp.browser`)."""
+    from .browser import start
+    driver = start(width=width, height=height, console_log=True)
+    return driver
 
 
 def wait_for_plots(driver, timeout=30.0):

@@ -5,32 +5,18 @@ Run with ``pytest tests/browser --headless``.  Chromium is Debian's
 """
 
 import os
-import shutil
 
 import pytest
-from selenium.webdriver.chrome.options import Options
 
-CHROMIUM = os.environ.get("MODEHEAT_CHROMIUM", "/usr/bin/chromium")
+from webapp.browser import available, chrome_options
 
 
 def pytest_configure(config):
     config.addinivalue_line("markers", "browser: end-to-end test in headless Chromium")
 
 
-def chrome_options():
-    """Chromium options shared by the fixtures and the second, isolated browser."""
-    options = Options()
-    if os.path.exists(CHROMIUM):
-        options.binary_location = CHROMIUM
-    for flag in ("--no-sandbox", "--disable-gpu", "--disable-background-networking",
-                 "--disable-component-update", "--disable-sync", "--disable-dev-shm-usage",
-                 "--window-size=1280,1000"):
-        options.add_argument(flag)
-    return options
-
-
 def pytest_setup_options():
-    return chrome_options()
+    return chrome_options(headless=False)   # dash_duo adds --headless itself (pytest --headless)
 
 
 def pytest_collection_modifyitems(config, items):
@@ -38,19 +24,21 @@ def pytest_collection_modifyitems(config, items):
     for item in items:
         if str(item.fspath).startswith(here):
             item.add_marker(pytest.mark.browser)
-    if not (os.path.exists(CHROMIUM) and shutil.which("chromedriver")):
-        skip = pytest.mark.skip(reason="Chromium or chromedriver not installed")
-        for item in items:
-            if str(item.fspath).startswith(here):
-                item.add_marker(skip)
+    if not available() and any(str(item.fspath).startswith(here) for item in items):
+        if os.environ.get("MODEHEAT_NO_BROWSER"):
+            skip = pytest.mark.skip(reason="MODEHEAT_NO_BROWSER is set")
+            for item in items:
+                if str(item.fspath).startswith(here):
+                    item.add_marker(skip)
+        else:
+            raise pytest.UsageError("Chromium or chromedriver is not installed (apt-get install chromium "
+                                    "chromium-driver); set MODEHEAT_NO_BROWSER=1 to skip the browser tests")
 
 
 @pytest.fixture
 def second_browser():
     """A separate headless Chromium session (its own profile and storage)."""
     from selenium import webdriver
-    options = chrome_options()
-    options.add_argument("--headless")
-    driver = webdriver.Chrome(options=options)
+    driver = webdriver.Chrome(options=chrome_options())
     yield driver
     driver.quit()

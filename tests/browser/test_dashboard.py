@@ -16,7 +16,7 @@ from selenium.webdriver.common.by import By
 
 from thermo import load_dos, tabulate
 from thermo.io.writers import read_exported_csv
-from webapp import state
+from webapp import demo, session
 from webapp.app import create_app
 from webapp.pages import PAGES
 
@@ -248,7 +248,7 @@ def test_figure_image_format_choice_reaches_the_plots(duo):
 def test_workspace_too_large_for_session_storage_is_kept_until_reload(dash_duo, tmp_path):
     good = tmp_path / "long_debye.dat"   # larger than any demo file: the first to be left out
     good.write_text("# frequency (THz) dos\n" + "\n".join(f"{a} {9 * a * a / 125}" for a in np.linspace(0, 5, 6001)))
-    demo_size = len(json.dumps(state.demo_workspace()))
+    demo_size = len(json.dumps(demo.demo_workspace()))
     dash_duo.start_server(create_app(saved_limit_chars=demo_size + 200))   # the demo fits, the upload not
     dash_duo.driver.get(dash_duo.server_url + "/spectrum")
     wait_drawn(dash_duo.driver, ["sp-dos-graph"])

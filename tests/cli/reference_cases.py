@@ -1,7 +1,7 @@
 """CLI cases whose outputs on ``sample_dos/`` are kept in ``tests/cli/reference/``.
 
 The reference files pin the command line's behaviour: a refactor must leave them
-byte-identical (apart from ``created_utc``).  A deliberate change of behaviour
+identical (apart from ``created_utc``; numbers to 1e-8 relative).  A deliberate change of behaviour
 regenerates them with ``python -m tests.cli.reference_cases`` and says so in the
 commit message.
 """

@@ -16,10 +16,14 @@ import pytest
 from scipy import constants as sc
 
 from thermo import load_dos, tabulate
-from webapp import app as webapp_app
-from webapp import state
+from thermo.columns import column_name, label
+from webapp import cache, intake, session
+from webapp.demo import demo_workspace
+from webapp.app import create_app
 from webapp.pages import PAGES, compare, export, home, modemap, models, spectrum, thermodynamics
 
+ALL = ["heat_capacity_v", "entropy", "internal_energy", "helmholtz_energy"]
+S_MOL = column_name("entropy", "formula")
 PLAIN = "# frequency (THz) dos\n" + "\n".join(f"{a} {9 * a * a / 125}" for a in np.linspace(0, 5, 101)) + "\n"
 GARBAGE = "# frequency (THz) dos\n0 0\n1 0.1\n2 banana\n"
 
@@ -30,13 +34,13 @@ def url(text):
 
 @pytest.fixture
 def ws():
-    new, _ = state.add_uploads(state.empty_workspace(), [url(PLAIN)], ["debye.dat"], 10 ** 6)
+    new, _ = intake.add_uploads(session.empty_workspace(), [url(PLAIN)], ["debye.dat"], 10 ** 6)
     return new
 
 
 @pytest.fixture(scope="module")
 def demo():
-    return state.demo_workspace()
+    return demo_workspace()
 
 
 def controls(ws, **change):
@@ -47,14 +51,13 @@ def controls(ws, **change):
 
 def test_every_page_lays_out_with_demo_and_with_nothing(demo):
     for module in PAGES:
-        assert module.layout(demo) is not None
-        assert module.layout(state.empty_workspace()) is not None
+        assert module.layout() is not None
     paths = [m.PATH for m in PAGES]
     assert len(set(paths)) == len(paths) and "/" in paths
 
 
 def test_server_serves_layout_with_demo_datasets():
-    client = webapp_app.server.test_client()
+    client = create_app().server.test_client()
     assert client.get("/thermodynamics").status_code == 200
     layout = json.loads(client.get("/_dash-layout").data)
     text = json.dumps(layout)
@@ -76,9 +79,9 @@ def test_spectrum_refused_by_size_is_reported(ws):
 
 def test_spectrum_unit_change_and_bad_window(ws):
     new, notes = spectrum.apply_edit(ws, "sp-unit", controls(ws, **{"sp-unit": "cm-1"}))
-    assert notes == [] and state.active(new)["options"]["freq_unit"] == "cm-1"
+    assert notes == [] and session.active(new)["options"]["freq_unit"] == "cm-1"
     # 1 cm-1 = c·100 Hz (CODATA via scipy.constants): the top frequency 5 cm-1 in THz
-    top = state.load(state.active(new)).input_frequency_thz[-1]
+    top = cache.load(session.active(new)).input_frequency_thz[-1]
     assert top == pytest.approx(5 * sc.c * 100 / 1e12, rel=1e-9)
     bad, notes = spectrum.apply_edit(ws, "sp-low-hi", controls(ws, **{"sp-lowmode": "manual", "sp-low-lo": 2,
                                                                      "sp-low-hi": 1}))
@@ -93,12 +96,12 @@ def test_spectrum_manual_window_round_trips_to_controls(ws):
     assert notes == []
     shown = spectrum.control_values(new)
     assert (shown["sp-lowmode"], shown["sp-low-lo"], shown["sp-low-hi"]) == ("manual", 0.2, 1.0)
-    assert state.load(state.active(new)).low_frequency.window_thz == pytest.approx((0.2, 1.0), abs=0.06)
+    assert cache.load(session.active(new)).low_frequency.window_thz == pytest.approx((0.2, 1.0), abs=0.06)
 
 
 def test_spectrum_rename_remove(ws):
     new, _ = spectrum.apply_edit(ws, "sp-rename-btn", controls(ws), rename_text="cell 4x4x4")
-    assert state.active(new)["name"] == "cell 4x4x4"
+    assert session.active(new)["name"] == "cell 4x4x4"
     gone, notes = spectrum.apply_edit(new, "sp-remove-btn", controls(new))
     assert gone["datasets"] == [] and notes[0][0] == "info"
     assert spectrum.apply_edit(gone, "sp-unit", controls(gone)) == (gone, [])
@@ -106,9 +109,9 @@ def test_spectrum_rename_remove(ws):
 
 def test_spectrum_draw_shows_imaginary_share_of_unstable_demo(demo):
     soft = next(d for d in demo["datasets"] if "soft" in d["name"])
-    dos_fig, red_fig, warnings, _ = spectrum.draw(state.activated(demo, soft["id"]))
+    dos_fig, red_fig, warnings, _ = spectrum.draw(session.activated(demo, soft["id"]))
     assert "THz" in dos_fig.layout.xaxis.title.text and "states/THz" in dos_fig.layout.yaxis.title.text
-    share = state.load(soft).source["negative_mode_fraction"]
+    share = cache.load(soft).source["negative_mode_fraction"]
     assert share > 0
     assert any(f"{100 * share:.3g} %" in w.children for w in warnings)
     assert any(t.name.startswith("partial") for t in dos_fig.data)
@@ -145,7 +148,7 @@ def without_timestamp(text):
 def test_export_csv_equals_command_line_output(tmp_path, ws, per):
     path = tmp_path / "debye.dat"
     path.write_text(PLAIN)
-    name, content = export.export_bytes(state.active(ws), "0:600:20", per, [1, 2, 3, 4], "csv")
+    name, content = export.export_bytes(session.active(ws), "0:600:20", per, ALL, "csv")
     assert name == f"debye-{per}.csv"
     assert without_timestamp(content.decode()) == without_timestamp(cli_csv(path, "0:600:20", per))
 
@@ -153,12 +156,12 @@ def test_export_csv_equals_command_line_output(tmp_path, ws, per):
 def test_export_xlsx_and_json_hold_the_tabulated_values(ws):
     t = np.arange(0.0, 301.0, 50.0)
     ref = tabulate(load_dos(PLAIN.encode(), name="debye.dat"), t, per="formula")
-    _, js = export.export_bytes(state.active(ws), "0:300:50", "formula", [1, 4], "json")
+    _, js = export.export_bytes(session.active(ws), "0:300:50", "formula", ["heat_capacity_v", "helmholtz_energy"], "json")
     obj = json.loads(js)
     assert obj["columns"] == [ref.columns[0], ref.columns[1], ref.columns[4]]
-    np.testing.assert_array_equal(np.array(obj["data"]), ref.iloc[:, [0, 1, 4]].to_numpy())
+    np.testing.assert_array_equal(np.array(obj["data"]), ref[[column_name(k) for k in ("temperature", "heat_capacity_v", "helmholtz_energy")]].to_numpy())
     assert obj["provenance"]["input"] == "debye.dat"
-    _, xl = export.export_bytes(state.active(ws), "0:300:50", "formula", [1, 2, 3, 4], "xlsx")
+    _, xl = export.export_bytes(session.active(ws), "0:300:50", "formula", ALL, "xlsx")
     sheet = openpyxl.load_workbook(io.BytesIO(xl))["table"]
     rows = list(sheet.values)
     assert list(rows[0]) == list(ref.columns)
@@ -167,10 +170,10 @@ def test_export_xlsx_and_json_hold_the_tabulated_values(ws):
 
 
 def test_export_preview_and_errors(ws):
-    text, fig, msgs = export.preview(ws, "0:100:10", "formula", [2, 4])
+    text, fig, msgs, _ = export.preview(ws, "0:100:10", "formula", ["entropy", "helmholtz_energy"])
     assert text.startswith("# tool: modeheat") and msgs == []
     assert fig.layout.yaxis.title.text == "S [J/(mol·K)]" and len(fig.data[0].x) == 11
-    text, _, msgs = export.preview(ws, "ten to twenty", "formula", [1])
+    text, _, msgs, _ = export.preview(ws, "ten to twenty", "formula", ["heat_capacity_v"])
     assert text == "" and "temperatures" in msgs[0].children
     assert export.image_format("svg", {"image_format": "png"}) == {"image_format": "svg"}
 
@@ -179,8 +182,8 @@ def test_compare_difference_equals_table_difference(demo):
     fcc = next(d for d in demo["datasets"] if d["name"] == "springium_fcc.dat")
     md = next(d for d in demo["datasets"] if d["name"] == "springium_md.csv")
     t = np.arange(0.0, 501.0, 25.0)
-    over, diff, table = compare.comparison(demo, [fcc["id"], md["id"]], fcc["id"], 2, t, "formula")
-    expected = state.table(md, t, "formula").iloc[:, 2] - state.table(fcc, t, "formula").iloc[:, 2]
+    over, diff, table = compare.comparison(demo, [fcc["id"], md["id"]], fcc["id"], "entropy", t, "formula")
+    expected = (cache.table(md, t, "formula")[S_MOL] - cache.table(fcc, t, "formula")[S_MOL])
     np.testing.assert_allclose(np.asarray(diff.data[0].y), expected.to_numpy(), rtol=1e-12, atol=1e-12)
     assert len(over.data) == 2
     _, self_diff, _ = compare.comparison(demo, [fcc["id"]], fcc["id"], "dos", t, "formula")
@@ -191,9 +194,9 @@ def test_models_and_mode_map_draw_with_demo(demo):
     pytest.importorskip("thermo.models")
     options = models.choices(demo, None, None)
     assert options[1] and options[3]
-    figs = models.draw(demo, options[1], options[3], 1, 0, 400, 10, "formula", 1)
+    figs = models.draw(demo, options[1], options[3], 1, 0, 400, 10, "formula", "heat_capacity_v")
     assert figs[-1] == [] and len(figs[0].data) >= 3
-    heat, msgs = modemap.draw_map(demo, "heat_capacity_share", 10, 400)
+    heat, _, msgs = modemap.draw_map(demo, "heat_capacity_share", 10, 400)
     assert msgs == []
     z = np.asarray(heat.data[0].z)
     np.testing.assert_allclose(z.sum(axis=0), 100.0, rtol=1e-6)   # each column is a whole (100 %)
@@ -202,37 +205,37 @@ def test_models_and_mode_map_draw_with_demo(demo):
 
 
 def test_mode_map_bad_range_is_a_message(demo):
-    fig, msgs = modemap.draw_map(demo, "entropy_share", 400, 10)
+    fig, _, msgs = modemap.draw_map(demo, "entropy_share", 400, 10)
     assert "T from < T to" in msgs[0].children
-    fig, msgs = modemap.draw_map(demo, "entropy_share", None, 10)
+    fig, _, msgs = modemap.draw_map(demo, "entropy_share", None, 10)
     assert "two numbers" in msgs[0].children
 
 
 def test_home_summary_for_demo_and_empty(demo):
     children, fig = home.summary(demo)
     assert len(fig.data) >= 1
-    note, _ = home.summary(state.empty_workspace())
+    note, _ = home.summary(session.empty_workspace())
     assert "No dataset" in str(note)
 
 
 def test_unit_choice_shows_the_unit_the_file_states(ws):
-    d = state.active(ws)
+    d = session.active(ws)
     assert spectrum.unit_options(d)[0]["label"] == "as stated in file (THz)"
-    chosen, _ = state.with_options(ws, d["id"], {"freq_unit": "cm-1"})
-    assert spectrum.unit_options(state.active(chosen))[0]["label"] == "as stated in file (THz)"
+    chosen, _ = intake.with_options(ws, d["id"], {"freq_unit": "cm-1"})
+    assert spectrum.unit_options(session.active(chosen))[0]["label"] == "as stated in file (THz)"
     assert [o["value"] for o in spectrum.unit_options(d)[1:]] == ["THz", "cm-1", "meV", "rad/s", "K"]
 
 
 @pytest.mark.parametrize("per", ["formula", "atom", "gram"])
 def test_models_page_works_in_every_basis(demo, per):
     pytest.importorskip("thermo.models")
-    d = state.active(demo)
-    ws, error = state.with_options(demo, d["id"], {"formula": "LiCs"})   # 2 atoms, like the demo crystal
+    d = session.active(demo)
+    ws, error = intake.with_options(demo, d["id"], {"formula": "LiCs"})   # 2 atoms, like the demo crystal
     assert error is None
     opts = models.choices(ws, None, None)
-    values, residual, lowt, thetad, msgs = models.draw(ws, opts[1], opts[3], 1, 0, 600, 20, per, 1)
+    values, residual, lowt, thetad, msgs = models.draw(ws, opts[1], opts[3], 1, 0, 600, 20, per, "heat_capacity_v")
     assert msgs == [] and len(values.data) == 4
-    expected = state.table(state.active(ws), np.arange(0.0, 601.0, 20.0), per).iloc[:, 1]
+    expected = cache.table(session.active(ws), np.arange(0.0, 601.0, 20.0), per)[column_name("heat_capacity_v", per)]
     np.testing.assert_array_equal(np.asarray(values.data[0].y), expected.to_numpy())
-    assert values.layout.yaxis.title.text == state.COLUMN_LABELS[
-        state.table(state.active(ws), [300.0], per).columns[1]]
+    # the axis names the schema's quantity and unit (thermo.columns)
+    assert values.layout.yaxis.title.text == label(column_name("heat_capacity_v", per))

@@ -8,7 +8,8 @@ from __future__ import annotations
 
 import sys
 
-from .options import add_input_options, add_table_options, add_temperature_option, parse_temperatures
+from ..temperatures import parse_temperatures
+from .options import add_input_options, add_table_options, add_temperature_option
 
 
 def register(sub):

@@ -5,7 +5,8 @@ from __future__ import annotations
 import json
 import sys
 
-from .options import (DEFAULT_TEMPERATURES, add_input_options, load_from_args, parse_temperatures, report_warnings)
+from ..temperatures import DEFAULT_TEMPERATURES, parse_temperatures
+from .options import add_input_options, load_from_args, report_warnings
 
 
 def register(sub):

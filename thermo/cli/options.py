@@ -4,12 +4,8 @@ from __future__ import annotations
 
 import sys
 
-import numpy as np
-
-from ..errors import OptionError
+from ..temperatures import DEFAULT_TEMPERATURES
 from ..unit_names import FREQUENCY_UNITS
-
-DEFAULT_TEMPERATURES = "0:1000:10"
 
 
 def add_input_options(parser, many=False):
@@ -46,37 +42,6 @@ def add_temperature_option(parser, default=DEFAULT_TEMPERATURES):
     parser.add_argument("--temperatures", default=default, metavar="SPEC",
                         help="START:STOP:STEP in K (STOP included) or a comma list "
                              f"(default {default})")
-
-
-def parse_temperatures(spec: str):
-    """Temperatures from ``START:STOP:STEP`` (STOP included) or ``a,b,c``.
-
-    Examples
-    --------
-    >>> parse_temperatures("0:20:10").tolist()
-    [0.0, 10.0, 20.0]
-    >>> parse_temperatures("5, 298.15").tolist()
-    [5.0, 298.15]
-    """
-    text = str(spec).strip()
-    try:
-        if ":" in text:
-            parts = [float(p) for p in text.split(":")]
-            if len(parts) != 3:
-                raise ValueError
-            start, stop, step = parts
-            if step <= 0 or stop < start:
-                raise OptionError(f"temperature range {text!r} needs STEP > 0 and STOP >= START")
-            count = int(np.floor((stop - start) / step + 1e-9)) + 1
-            if count > 1_000_000:
-                raise OptionError(f"temperature range {text!r} has more than a million points")
-            values = start + step * np.arange(count)
-        else:
-            values = np.array([float(p) for p in text.split(",") if p.strip()])
-    except ValueError:
-        raise OptionError(f"temperatures {text!r}: use START:STOP:STEP or a comma list of numbers") from None
-    from ..tables import check_temperatures
-    return check_temperatures(values)
 
 
 def load_from_args(args):

@@ -4,7 +4,8 @@ from __future__ import annotations
 
 import json
 
-from .options import (add_input_options, add_temperature_option, load_from_args, parse_temperatures, report_warnings)
+from ..temperatures import parse_temperatures
+from .options import add_input_options, add_temperature_option, load_from_args, report_warnings
 
 
 def register(sub):

@@ -5,7 +5,9 @@ from __future__ import annotations
 import sys
 from pathlib import Path
 
-from .options import (add_input_options, add_table_options, add_temperature_option, load_from_args, parse_temperatures, report_warnings)
+from ..temperatures import parse_temperatures
+from .options import (add_input_options, add_table_options, add_temperature_option, load_from_args,
+                      report_warnings)
 
 
 def register(sub):

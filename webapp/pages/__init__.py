@@ -1,10 +1,11 @@
-"""Dashboard pages, one module each, in navigation order.
+"""Dashboard pages, one module each: ``dash.register_page`` + ``layout(**query)`` + its ``@callback``s.
 
-Each module defines ``WORKSPACE`` (id of the page's copy of the workspace
-store), ``PATH``, ``NAME`` (navigation label), ``layout(workspace, prefs=None)``
-returning the page's components, and ``register(app)`` adding its callbacks.
+The Dash instance (:mod:`webapp.shell`) is imported first: Dash registers
+pages only after the app exists.  ``PAGES`` lists the modules in navigation
+order.
 """
 
+from .. import shell  # noqa: F401  (the app must exist before register_page)
 from . import compare, export, home, modemap, models, spectrum, thermodynamics
 
-PAGES = (home, spectrum, thermodynamics, models, modemap, compare, export)
+PAGES = tuple(sorted((home, spectrum, thermodynamics, models, modemap, compare, export), key=lambda m: m.ORDER))

@@ -2,34 +2,41 @@
 
 from __future__ import annotations
 
+import dash
 import numpy as np
 import plotly.graph_objects as go
-from dash import Input, Output, html
+from dash import Input, Output, State, callback, html
 
+from thermo.columns import find
+from thermo.temperatures import temperature_range
+
+from .. import cache, session
 from .. import components as c
-from .. import state
+from .. import figures as fg
+from ..labels import axis_title
+from ..reporting import reported
 
-WORKSPACE = "cmp-workspace"
-PATH = "/compare"
-NAME = "Compare"
-QUANTITIES = [{"label": "DOS", "value": "dos"}, {"label": "C_v", "value": 1}, {"label": "S", "value": 2},
-              {"label": "F", "value": 4}]
+PATH, NAME, ORDER = "/compare", "Compare", 5
+
+QUANTITIES = [{"label": "DOS", "value": "dos"}, {"label": "C_v", "value": "heat_capacity_v"},
+              {"label": "S", "value": "entropy"}, {"label": "F", "value": "helmholtz_energy"}]
 
 
 def _dos_curves(datasets):
     out = {}
     for d in datasets:
-        dos = state.load(d)
+        dos = cache.load(d)
         out[d["id"]] = (dos.input_frequency_thz, dos.input_dos)
     return out, "frequency ν [THz]", "g(ν) [states/THz per formula unit]"
 
 
-def _table_curves(datasets, temperatures, per, index):
+def _table_curves(datasets, temperatures, per, key):
     out, label = {}, None
     for d in datasets:
-        df = state.table(d, temperatures, per)
-        out[d["id"]] = (df.iloc[:, 0].to_numpy(), df.iloc[:, index].to_numpy())
-        label = state.COLUMN_LABELS[df.columns[index]]
+        df = cache.table(d, temperatures, per)
+        column = find(df, key)
+        out[d["id"]] = (df[find(df, "temperature")].to_numpy(), df[column].to_numpy())
+        label = axis_title(column)
     return out, "temperature T [K]", label
 
 
@@ -44,22 +51,22 @@ def comparison(workspace, ids, reference, quantity, temperatures, per):
     """
     chosen = [d for d in workspace["datasets"] if d["id"] in (ids or [])]
     if not chosen:
-        blank = c.message_figure("choose datasets to compare")
+        blank = fg.message_figure("choose datasets to compare")
         return blank, blank, []
-    ref = state.find(workspace, reference) or chosen[0]
+    ref = session.find(workspace, reference) or chosen[0]
     if ref not in chosen:
         chosen = [ref] + chosen
     if quantity == "dos":
         curves, x_title, y_title = _dos_curves(chosen)
     else:
-        curves, x_title, y_title = _table_curves(chosen, temperatures, per, int(quantity))
-    over = c.figure(x_title, y_title)
-    diff = c.figure(x_title, f"Δ from reference ({y_title})")
+        curves, x_title, y_title = _table_curves(chosen, temperatures, per, quantity)
+    over = fg.figure(x_title, y_title)
+    diff = fg.figure(x_title, f"Δ from reference ({y_title})")
     x_ref, y_ref = curves[ref["id"]]
     rows = []
     for k, d in enumerate(chosen):
         x, y = curves[d["id"]]
-        colour = c.PALETTE[k % len(c.PALETTE)]
+        colour = fg.PALETTE[k % len(fg.PALETTE)]
         over.add_trace(go.Scatter(x=x, y=y, mode="lines", name=d["name"], hovertemplate="%{y:.5g}",
                                   line={"width": 2, "color": colour}))
         if d["id"] == ref["id"]:
@@ -72,22 +79,21 @@ def comparison(workspace, ids, reference, quantity, temperatures, per):
                              html.Td("—" if worst is None else f"{delta[worst]:+.4g}"),
                              html.Td("—" if worst is None else f"{x_ref[worst]:.4g}")]))
     diff.add_hline(y=0, line_color="#9aa7b0")
+    at = "ν [THz]" if quantity == "dos" else "T [K]"
     table = html.Table([html.Thead(html.Tr([html.Th("dataset"), html.Th("largest difference"),
-                                            html.Th(f"at {x_title.split(' ')[-2]}")])),
+                                            html.Th(f"at {at}")])),
                         html.Tbody(rows)], className="mh-table") if rows else []
     return over, diff, table
 
 
-def layout(workspace, prefs=None):
-    options = [{"label": d["name"], "value": d["id"]} for d in workspace.get("datasets", [])]
-    ids = [o["value"] for o in options]
-    current = state.active(workspace)
+def layout(**_query):
+    """The compare page (dataset choices are filled by :func:`choices`)."""
     return c.page(
         "Compare", "Overlay datasets — e.g. the same crystal with larger supercells, denser meshes or "
                    "less smearing — and see how far each is from a reference.",
-        c.controls(c.dropdown("cmp-datasets", options, ids, "Datasets", multi=True),
-                   c.dropdown("cmp-reference", options, current and current["id"], "Reference"),
-                   c.radio("cmp-quantity", QUANTITIES, 1, "Quantity")),
+        c.controls(c.dropdown("cmp-datasets", [], [], "Datasets", multi=True),
+                   c.dropdown("cmp-reference", [], None, "Reference"),
+                   c.radio("cmp-quantity", QUANTITIES, "heat_capacity_v", "Quantity")),
         c.controls(*c.temperature_fields("cmp"), c.basis_field("cmp-per", value="atom")),
         c.messages_panel("cmp-messages"),
         html.Div([c.graph("cmp-overlay-graph", "The chosen quantity for each dataset"),
@@ -97,20 +103,37 @@ def layout(workspace, prefs=None):
     )
 
 
+@callback(Output("cmp-datasets", "options"), Output("cmp-datasets", "value"), Output("cmp-reference", "options"),
+          Output("cmp-reference", "value"), Input("mh-workspace", "data"), State("cmp-datasets", "value"),
+          State("cmp-reference", "value"))
+def choices(workspace, ids, reference):
+    """Dataset choices; a first visit compares all datasets against the active one."""
+    options = [{"label": d["name"], "value": d["id"]} for d in (workspace or {}).get("datasets", [])]
+    known = [o["value"] for o in options]
+    ids = [i for i in (ids or []) if i in known] or known
+    if reference not in known:
+        reference = (session.active(workspace) or {}).get("id")
+    return options, ids, options, reference
+
+
+def _failed(message):
+    blank = fg.message_figure("nothing to compare for these settings")
+    return blank, blank, [], c.message_items([("error", message)])
+
+
+@callback(Output("cmp-overlay-graph", "figure"), Output("cmp-diff-graph", "figure"),
+          Output("cmp-table", "children"), Output("cmp-messages", "children"),
+          Input("mh-workspace", "data"), Input("cmp-datasets", "value"), Input("cmp-reference", "value"),
+          Input("cmp-quantity", "value"), Input("cmp-tmin", "value"), Input("cmp-tmax", "value"),
+          Input("cmp-step", "value"), Input("cmp-per", "value"))
+@reported(_failed)
 def draw(workspace, ids, reference, quantity, t_min, t_max, step, per):
-    try:
-        temperatures = state.temperature_grid(t_min, t_max, step)
-        over, diff, table = comparison(workspace or state.empty_workspace(), ids, reference, quantity,
-                                       temperatures, per)
-        return over, diff, table, []
-    except Exception as exc:  # message, nothing raised
-        blank = c.message_figure("nothing to compare for these settings")
-        return blank, blank, [], c.message_items([("error", state.one_line(exc))])
+    """Overlay, difference and largest-difference table for the chosen datasets."""
+    temperatures = temperature_range(t_min, t_max, step)
+    over, diff, table = comparison(workspace or session.empty_workspace(), ids, reference, quantity,
+                                   temperatures, per)
+    return over, diff, table, []
 
 
-def register(app):
-    app.callback(Output("cmp-overlay-graph", "figure"), Output("cmp-diff-graph", "figure"),
-                  Output("cmp-table", "children"), Output("cmp-messages", "children"),
-                  Input(WORKSPACE, "data"), Input("cmp-datasets", "value"), Input("cmp-reference", "value"),
-                  Input("cmp-quantity", "value"), Input("cmp-tmin", "value"), Input("cmp-tmax", "value"),
-                  Input("cmp-step", "value"), Input("cmp-per", "value"))(draw)
+c.follow_image_format("cmp-overlay-graph", "cmp-diff-graph")
+dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

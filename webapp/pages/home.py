@@ -2,15 +2,17 @@
 
 from __future__ import annotations
 
-from dash import Input, Output, dcc, html
+import dash
+from dash import Input, Output, callback, dcc, html
 
+from .. import cache, session
 from .. import components as c
-from .. import state
-from . import spectrum, thermodynamics
+from .. import figures as fg
+from ..reporting import reported
+from .thermodynamics import key_numbers
 
-WORKSPACE = "home-workspace"
-PATH = "/"
-NAME = "Overview"
+PATH, NAME, ORDER = "/", "Overview", 0
+
 GUIDE = [("/spectrum", "Spectrum", "load DOS files, set units and atoms, check imaginary modes and the ν² fit"),
          ("/thermodynamics", "Thermodynamics", "C_v, S, U, F versus temperature, key numbers, table preview"),
          ("/models", "Models", "Einstein, Debye and composite models against the DOS, every θ with its definition"),
@@ -19,7 +21,8 @@ GUIDE = [("/spectrum", "Spectrum", "load DOS files, set units and atoms, check i
          ("/export", "Export", "tables as CSV, XLSX or JSON with provenance; figure image format")]
 
 
-def layout(workspace, prefs=None):
+def layout(**_query):
+    """The overview page."""
     return c.page(
         "Overview", "From a phonon density of states to harmonic thermodynamic tables, model "
                     "comparisons and exports.",
@@ -32,22 +35,20 @@ def layout(workspace, prefs=None):
         ], className="mh-split mh-split-right"))
 
 
+@callback(Output("home-summary", "children"), Output("home-dos-graph", "figure"), Input("mh-workspace", "data"))
+@reported(lambda message: (c.message_items([("error", message)]), fg.message_figure("cannot draw")))
 def summary(workspace):
-    current = state.active(workspace)
+    """Facts, key numbers and the DOS plot of the active dataset."""
+    current = session.active(workspace)
     if current is None:
-        return c.no_data_note(), c.message_figure("no dataset loaded")
-    try:
-        dos = state.load(current)
-        keys = thermodynamics.key_numbers(current, "formula")
-        facts = html.P([html.Strong(current["name"], className="mh-dataset-name"),
-                        f" — {dos.atoms} atom(s) per formula unit, read in {dos.source.get('freq_unit')}, "
-                        f"{len((workspace or {}).get('datasets', []))} dataset(s) loaded"])
-        notes = c.message_items([("warn", w) for w in dos.warnings])
-        return [facts, keys, *notes], spectrum.dos_figure(dos)
-    except Exception as exc:  # message, nothing raised
-        return c.message_items([("error", state.one_line(exc))]), c.message_figure("cannot draw")
+        return c.no_data_note(), fg.message_figure("no dataset loaded")
+    dos = cache.load(current)
+    facts = html.P([html.Strong(current["name"], className="mh-dataset-name"),
+                    f" — {dos.atoms} atom(s) per formula unit, read in {dos.source.get('freq_unit')}, "
+                    f"{len((workspace or {}).get('datasets', []))} dataset(s) loaded"])
+    notes = c.message_items([("warn", w) for w in dos.warnings])
+    return [facts, key_numbers(current, "formula"), *notes], fg.dos_figure(dos)
 
 
-def register(app):
-    app.callback(Output("home-summary", "children"), Output("home-dos-graph", "figure"),
-                  Input(WORKSPACE, "data"))(summary)
+c.follow_image_format("home-dos-graph")
+dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title="modeheat", layout=layout)

@@ -2,25 +2,31 @@
 
 from __future__ import annotations
 
+import dash
 import numpy as np
 import plotly.graph_objects as go
-from dash import Input, Output, State, html
+from dash import Input, Output, State, callback, html
 
+from thermo import models
+from thermo.columns import find
+from thermo.temperatures import temperature_range
+
+from .. import cache, session
 from .. import components as c
-from .. import state
+from .. import figures as fg
+from ..labels import axis_title
+from ..reporting import reported
 
-WORKSPACE = "mod-workspace"
-PATH = "/models"
-NAME = "Models"
-RESIDUAL_CHOICES = [{"label": "C_v", "value": 1}, {"label": "S", "value": 2}, {"label": "U", "value": 3},
-                    {"label": "F", "value": 4}]
+PATH, NAME, ORDER = "/models", "Models", 3
+
+RESIDUAL_CHOICES = [{"label": "C_v", "value": "heat_capacity_v"}, {"label": "S", "value": "entropy"},
+                    {"label": "U", "value": "internal_energy"}, {"label": "F", "value": "helmholtz_energy"}]
 _GRAPHS = ("mod-values-graph", "mod-residual-graph", "mod-lowt-graph", "mod-thetad-graph")
 
 
 def thetas(dataset):
     """Every θ definition of the dataset (cached), as dicts of :func:`thermo.models.theta_definitions`."""
-    from thermo import models
-    return state.derived("thetas", dataset, models.theta_definitions)
+    return cache.derived("thetas", dataset, models.theta_definitions)
 
 
 def theta_options(dataset, prefix):
@@ -42,12 +48,10 @@ def _theta(dataset, key):
 
 def model_tables(dataset, temperatures, per, einstein_key, debye_key, optical_terms):
     """``{label: DataFrame}`` of the DOS result and each chosen model, same columns."""
-    from thermo import models
-    dos = state.load(dataset)
-    formula = dataset.get("options", {}).get("formula") or None
-    extra = {"atoms": dos.atoms, "formula": formula if per == "gram" else None}
+    dos = cache.load(dataset)
+    extra = {"atoms": dos.atoms, "formula": cache.formula_for(dataset, per)}
     modes = 3 * dos.atoms
-    tables = {"DOS": state.table(dataset, temperatures, per)}
+    tables = {"DOS": cache.table(dataset, temperatures, per)}
     theta_e, theta_d = _theta(dataset, einstein_key), _theta(dataset, debye_key)
     if theta_e is not None:
         tables[f"Einstein θ_E = {theta_e:.4g} K"] = models.einstein_table(theta_e, modes, temperatures,
@@ -56,53 +60,51 @@ def model_tables(dataset, temperatures, per, einstein_key, debye_key, optical_te
         tables[f"Debye θ_D = {theta_d:.4g} K"] = models.debye_table(theta_d, modes, temperatures,
                                                                     per=per, **extra)
     if optical_terms:
-        composite = state.derived("composite", dataset,
+        composite = cache.derived("composite", dataset,
                                   lambda d: models.composite_model(d, optical_terms=int(optical_terms)),
                                   int(optical_terms))
         tables[f"Debye + {int(optical_terms)} Einstein"] = models.composite_table(composite, temperatures, per=per, **extra)
     return tables
 
 
-def figures(dataset, temperatures, per, einstein_key, debye_key, optical_terms, residual_index):
-    from thermo import models
+def figures(dataset, temperatures, per, einstein_key, debye_key, optical_terms, residual_key):
+    """Values, residuals, C_v/T³ and θ_D(T) figures of the DOS result and the chosen models."""
     tables = model_tables(dataset, temperatures, per, einstein_key, debye_key, optical_terms)
     dos_table = tables["DOS"]
-    cols = list(dos_table.columns)
-    values = c.figure("temperature T [K]", state.COLUMN_LABELS[cols[1]])
-    residual = c.figure("temperature T [K]",
-                        f"model − DOS: {state.COLUMN_LABELS[cols[residual_index]]}")
+    t, cv = find(dos_table, "temperature"), find(dos_table, "heat_capacity_v")
+    values = fg.figure("temperature T [K]", axis_title(cv))
+    residual = fg.figure("temperature T [K]", f"model − DOS: {axis_title(find(dos_table, residual_key))}")
     for k, (label, df) in enumerate(tables.items()):
-        style = {"width": 3 if label == "DOS" else 2, "color": c.PALETTE[k % len(c.PALETTE)],
+        style = {"width": 3 if label == "DOS" else 2, "color": fg.PALETTE[k % len(fg.PALETTE)],
                  "dash": None if label == "DOS" else ("dash", "dot", "dashdot")[k % 3]}
-        values.add_trace(go.Scatter(x=df[cols[0]], y=df[cols[1]], name=label, mode="lines", line=style,
+        values.add_trace(go.Scatter(x=df[t], y=df[cv], name=label, mode="lines", line=style,
                                     hovertemplate="%{y:.5g}"))
         if label != "DOS":
             res = models.residual_table(dos_table, df)
-            residual.add_trace(go.Scatter(x=res[cols[0]], y=res[res.columns[residual_index]], name=label,
-                                          mode="lines", line=style, hovertemplate="%{y:.3g}"))
+            residual.add_trace(go.Scatter(x=res[find(res, "temperature")], y=res[find(res, residual_key)],
+                                          name=label, mode="lines", line=style, hovertemplate="%{y:.3g}"))
     residual.add_hline(y=0, line_color="#9aa7b0")
 
     low_t = np.geomspace(1.0, max(2.0, min(float(np.max(temperatures)), 300.0)), 120)
     formula_tables = model_tables(dataset, low_t, "formula", einstein_key, debye_key, optical_terms)
     ratio = models.cv_over_t3(formula_tables)
-    lowt = c.figure("temperature T [K]", "C_v/T³ [J/(mol·K⁴)]")
-    for k, name in enumerate(ratio.columns[1:]):
-        lowt.add_trace(go.Scatter(x=ratio["temperature_K"], y=ratio[name], name=name, mode="lines",
-                                  line={"width": 2, "color": c.PALETTE[k % len(c.PALETTE)]},
-                                  hovertemplate="%{y:.4g}"))
+    lowt = fg.figure("temperature T [K]", "C_v/T³ [J/(mol·K⁴)]")
+    t_ratio = find(ratio, "temperature")
+    for k, name in enumerate(col for col in ratio.columns if col != t_ratio):
+        lowt.add_trace(fg.line(ratio[t_ratio], ratio[name], name, k, width=2, hover="%{y:.4g}"))
     lowt.update_xaxes(type="log")
 
     grid = np.asarray(temperatures, dtype=float)
     grid = grid[grid > 0]
-    theta_t = state.derived("theta_of_t", dataset,
+    theta_t = cache.derived("theta_of_t", dataset,
                             lambda d: models.equivalent_debye_temperature(d, grid), grid.tobytes())
-    thetad = c.figure("temperature T [K]", "equivalent Debye temperature θ_D(T) [K]")
-    thetad.add_trace(go.Scatter(x=grid, y=theta_t, mode="lines", name="θ_D(T) from the DOS C_v",
-                                line={"width": 2.2, "color": c.PALETTE[0]}, hovertemplate="%{y:.4g} K"))
+    thetad = fg.figure("temperature T [K]", "equivalent Debye temperature θ_D(T) [K]")
+    thetad.add_trace(fg.line(grid, theta_t, "θ_D(T) from the DOS C_v", hover="%{y:.4g} K"))
     return values, residual, lowt, thetad
 
 
 def theta_table(dataset):
+    """Every θ definition with value, uncertainty, fit range, definition and reference."""
     rows = []
     for t in thetas(dataset):
         value = "undefined" if t["value_K"] is None else f"{t['value_K']:.5g}"
@@ -116,18 +118,18 @@ def theta_table(dataset):
     return html.Table([html.Thead(head), html.Tbody(rows)], className="mh-table mh-theta-table")
 
 
-def layout(workspace, prefs=None):
-    current = state.active(workspace)
+def layout(**_query):
+    """The models page."""
     return c.page(
         "Models", "How well do an Einstein, a Debye or a composite model describe the DOS result? "
                   "Each θ definition gives a different model; pick one and look at the residuals.",
-        c.active_note(current),
+        c.active_slot("mod"),
         c.controls(c.dropdown("mod-einstein", [], None, "Einstein θ_E", clearable=True),
                    c.dropdown("mod-debye", [], None, "Debye θ_D", clearable=True),
                    c.radio("mod-optical", [{"label": "none", "value": 0}, {"label": "1", "value": 1},
                                            {"label": "2", "value": 2}], 1, "Composite: Einstein terms")),
         c.controls(*c.temperature_fields("mod", 0, 800, 5), c.basis_field("mod-per"),
-                   c.radio("mod-residual", RESIDUAL_CHOICES, 1, "Residual of")),
+                   c.radio("mod-residual", RESIDUAL_CHOICES, "heat_capacity_v", "Residual of")),
         c.messages_panel("mod-messages"),
         html.Div([c.graph("mod-values-graph", "Heat capacity: DOS result and models"),
                   c.graph("mod-residual-graph", "Residuals: model minus DOS result"),
@@ -138,39 +140,47 @@ def layout(workspace, prefs=None):
     )
 
 
+def _no_choices(message):
+    return [], None, [], None, c.message_items([("error", message)]), dash.no_update
+
+
+@callback(Output("mod-einstein", "options"), Output("mod-einstein", "value"),
+          Output("mod-debye", "options"), Output("mod-debye", "value"),
+          Output("mod-theta-table", "children"), Output("mod-active", "children"),
+          Input("mh-workspace", "data"), State("mod-einstein", "value"), State("mod-debye", "value"))
+@reported(_no_choices)
 def choices(workspace, einstein_key, debye_key):
-    current = state.active(workspace)
+    """θ choices of the active dataset (keeping the user's picks when they still exist) and the θ table."""
+    current = session.active(workspace)
     if current is None:
-        return [], None, [], None, c.no_data_note()
-    try:
-        e_opts, d_opts = theta_options(current, "einstein"), theta_options(current, "debye")
-    except Exception as exc:  # message, nothing raised
-        return [], None, [], None, c.message_items([("error", state.one_line(exc))])
+        return [], None, [], None, c.no_data_note(), c.active_note(None)
+    e_opts, d_opts = theta_options(current, "einstein"), theta_options(current, "debye")
     pick = (lambda opts, key: key if key in [o["value"] for o in opts]
             else (opts[0]["value"] if opts else None))
-    return e_opts, pick(e_opts, einstein_key), d_opts, pick(d_opts, debye_key), theta_table(current)
+    return (e_opts, pick(e_opts, einstein_key), d_opts, pick(d_opts, debye_key), theta_table(current),
+            c.active_note(current))
 
 
-def draw(workspace, einstein_key, debye_key, optical, t_min, t_max, step, per, residual_index):
-    current = state.active(workspace)
+def _failed(message):
+    blank = fg.message_figure("nothing to show for these settings")
+    return blank, blank, blank, blank, c.message_items([("error", message)])
+
+
+@callback(*[Output(g, "figure") for g in _GRAPHS], Output("mod-messages", "children"),
+          Input("mh-workspace", "data"), Input("mod-einstein", "value"), Input("mod-debye", "value"),
+          Input("mod-optical", "value"), Input("mod-tmin", "value"), Input("mod-tmax", "value"),
+          Input("mod-step", "value"), Input("mod-per", "value"), Input("mod-residual", "value"))
+@reported(_failed)
+def draw(workspace, einstein_key, debye_key, optical, t_min, t_max, step, per, residual_key):
+    """The four model figures for the page's settings."""
+    current = session.active(workspace)
     if current is None:
-        blank = c.message_figure("no dataset loaded")
+        blank = fg.message_figure("no dataset loaded")
         return blank, blank, blank, blank, []
-    try:
-        temperatures = state.temperature_grid(t_min, t_max, step)
-        return (*figures(current, temperatures, per, einstein_key, debye_key, optical,
-                         int(residual_index or 1)), [])
-    except Exception as exc:  # message, nothing raised
-        blank = c.message_figure("nothing to show for these settings")
-        return blank, blank, blank, blank, c.message_items([("error", state.one_line(exc))])
+    temperatures = temperature_range(t_min, t_max, step)
+    return (*figures(current, temperatures, per, einstein_key, debye_key, optical,
+                     residual_key or "heat_capacity_v"), [])
 
 
-def register(app):
-    app.callback(Output("mod-einstein", "options"), Output("mod-einstein", "value"),
-                  Output("mod-debye", "options"), Output("mod-debye", "value"),
-                  Output("mod-theta-table", "children"),
-                  Input(WORKSPACE, "data"), State("mod-einstein", "value"), State("mod-debye", "value"))(choices)
-    app.callback(*[Output(g, "figure") for g in _GRAPHS], Output("mod-messages", "children"),
-                  Input(WORKSPACE, "data"), Input("mod-einstein", "value"), Input("mod-debye", "value"),
-                  Input("mod-optical", "value"), Input("mod-tmin", "value"), Input("mod-tmax", "value"),
-                  Input("mod-step", "value"), Input("mod-per", "value"), Input("mod-residual", "value"))(draw)
+c.follow_image_format(*_GRAPHS)
+dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

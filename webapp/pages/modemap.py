@@ -2,16 +2,21 @@
 
 from __future__ import annotations
 
+import dash
 import numpy as np
 import plotly.graph_objects as go
-from dash import Input, Output, dcc, html
+from dash import Input, Output, callback, dcc, html
 
+from thermo import models
+from thermo.errors import OptionError
+
+from .. import cache, session
 from .. import components as c
-from .. import state
+from .. import figures as fg
+from ..reporting import reported
 
-WORKSPACE = "mm-workspace"
-PATH = "/modes"
-NAME = "Mode map"
+PATH, NAME, ORDER = "/modes", "Mode map", 4
+
 BINS = 160
 MAP_TEMPERATURES = 120
 SHARE_CHOICES = [{"label": "heat capacity C_v", "value": "heat_capacity_share"},
@@ -26,17 +31,18 @@ def slider_temperature(position):
 
 
 def share_map(dataset, temperatures):
-    from thermo import models
+    """Share of C_v and S per frequency bin at each temperature (cached)."""
     t = np.asarray(temperatures, dtype=float)
-    return state.derived("share_map", dataset, lambda d: models.mode_share_map(d, t, bins=BINS),
+    return cache.derived("share_map", dataset, lambda d: models.mode_share_map(d, t, bins=BINS),
                          t.tobytes(), BINS)
 
 
 def heat_map_figure(dataset, temperatures, quantity):
+    """Heat map of the chosen share over temperature × frequency."""
     data = share_map(dataset, temperatures)
     label = "C_v" if quantity == "heat_capacity_share" else "S"
     z = np.asarray(data[quantity], dtype=float) * 100.0
-    fig = c.figure("temperature T [K]", "frequency ν [THz]")
+    fig = fg.figure("temperature T [K]", "frequency ν [THz]")
     fig.add_trace(go.Heatmap(x=data["temperature_K"], y=data["frequency_thz"], z=z,
                              colorscale=[[0, "#f7f4ea"], [0.35, "#e3b15c"], [0.7, "#b85b2c"], [1, "#3a1f3d"]],
                              colorbar={"title": {"text": f"share of {label} [% per bin]"}},
@@ -48,25 +54,24 @@ def heat_map_figure(dataset, temperatures, quantity):
 
 def explorer_figures(dataset, temperature):
     """Cumulative share of C_v, occupation n(ν,T) and energy per mode at one temperature."""
-    from thermo import models
-    dos = state.load(dataset)
+    dos = cache.load(dataset)
     cumulative = share_map(dataset, np.array([temperature]))
     edges = np.asarray(cumulative["bin_edges_thz"], dtype=float)[1:]
-    cum = c.figure("frequency ν [THz]", "cumulative share of C_v [%]")
+    cum = fg.figure("frequency ν [THz]", "cumulative share of C_v [%]")
     cum.add_trace(go.Scatter(x=edges, y=100 * np.asarray(cumulative["cumulative_heat_capacity_share"])[:, 0],
                              mode="lines", name=f"modes below ν, T = {temperature:.4g} K",
-                             line={"width": 2.4, "color": c.PALETTE[0]}, hovertemplate="%{y:.3g} %"))
+                             line={"width": 2.4, "color": fg.PALETTE[0]}, hovertemplate="%{y:.3g} %"))
     cum.update_yaxes(range=[0, 101])
     top = float(np.max(dos.input_frequency_thz))
     nu = np.linspace(top / 400, top, 400)
     occ = models.occupation_explorer(nu, np.array([temperature]))
-    planck = c.figure("frequency ν [THz]", "occupation n(ν, T) [1]")
+    planck = fg.figure("frequency ν [THz]", "occupation n(ν, T) [1]")
     planck.add_trace(go.Scatter(x=nu, y=np.asarray(occ["occupation"])[:, 0], mode="lines",
-                                name="Planck occupation n", line={"width": 2.4, "color": c.PALETTE[2]},
+                                name="Planck occupation n", line={"width": 2.4, "color": fg.PALETTE[2]},
                                 hovertemplate="n = %{y:.4g}"))
     planck.add_trace(go.Scatter(x=nu, y=np.asarray(occ["mean_energy_meV"])[:, 0], mode="lines",
                                 name="energy per mode hν(n+½) [meV]", yaxis="y2",
-                                line={"width": 2, "dash": "dash", "color": c.PALETTE[1]},
+                                line={"width": 2, "dash": "dash", "color": fg.PALETTE[1]},
                                 hovertemplate="%{y:.4g} meV"))
     planck.update_layout(yaxis={"type": "log"}, margin={"r": 70},
                          yaxis2={"title": {"text": "energy per mode [meV]"}, "overlaying": "y", "side": "right",
@@ -75,12 +80,12 @@ def explorer_figures(dataset, temperature):
     return cum, planck
 
 
-def layout(workspace, prefs=None):
-    current = state.active(workspace)
+def layout(**_query):
+    """The mode-map page."""
     return c.page(
         "Mode map", "Each frequency's share of the heat capacity or entropy across temperature: soft modes "
                     "dominate at low T, all modes count near the classical limit.",
-        c.active_note(current),
+        c.active_slot("mm"),
         c.controls(c.radio("mm-quantity", SHARE_CHOICES, "heat_capacity_share", "Share of"),
                    c.number("mm-tmin", 2, "T from [K]", min_value=0.1),
                    c.number("mm-tmax", 1000, "T to [K]", min_value=0.1),
@@ -99,7 +104,6 @@ def layout(workspace, prefs=None):
 
 def map_temperatures(t_min, t_max):
     """Log-spaced temperatures of the map [K]; one-line OptionError when the range is empty."""
-    from thermo.errors import OptionError
     try:
         lo, hi = float(t_min), float(t_max)
     except (TypeError, ValueError):
@@ -109,35 +113,36 @@ def map_temperatures(t_min, t_max):
     return np.geomspace(lo, hi, MAP_TEMPERATURES)
 
 
+@callback(Output("mm-map-graph", "figure"), Output("mm-active", "children"), Output("mm-messages", "children"),
+          Input("mh-workspace", "data"), Input("mm-quantity", "value"), Input("mm-tmin", "value"),
+          Input("mm-tmax", "value"))
+@reported(lambda message: (fg.message_figure("nothing to show"), dash.no_update,
+                           c.message_items([("error", message)])))
 def draw_map(workspace, quantity, t_min, t_max):
-    current = state.active(workspace)
+    """The share heat map for the chosen quantity and temperature range."""
+    current = session.active(workspace)
     if current is None:
-        return c.message_figure("no dataset loaded"), []
-    try:
-        temperatures = map_temperatures(t_min, t_max)
-        return heat_map_figure(current, temperatures, quantity), []
-    except Exception as exc:  # message, nothing raised
-        return c.message_figure("nothing to show"), c.message_items([("error", state.one_line(exc))])
+        return fg.message_figure("no dataset loaded"), c.active_note(None), []
+    return heat_map_figure(current, map_temperatures(t_min, t_max), quantity), c.active_note(current), []
 
 
+@callback(Output("mm-cumulative-graph", "figure"), Output("mm-planck-graph", "figure"),
+          Output("mm-temperature-text", "children"), Input("mh-workspace", "data"), Input("mm-temperature", "value"))
 def draw_explorer(workspace, position):
-    current = state.active(workspace)
+    """Cumulative share and Planck occupation at the slider's temperature."""
+    current = session.active(workspace)
     temperature = slider_temperature(position)
     text = f"T = {temperature:.4g} K"
     if current is None:
-        blank = c.message_figure("no dataset loaded")
+        blank = fg.message_figure("no dataset loaded")
         return blank, blank, text
-    try:
-        return (*explorer_figures(current, temperature), text)
-    except Exception as exc:  # message, nothing raised
-        blank = c.message_figure(state.one_line(exc))
-        return blank, blank, text
+    return (*_explorer_or_message(current, temperature), text)
 
 
-def register(app):
-    app.callback(Output("mm-map-graph", "figure"), Output("mm-messages", "children"),
-                  Input(WORKSPACE, "data"), Input("mm-quantity", "value"), Input("mm-tmin", "value"),
-                  Input("mm-tmax", "value"))(draw_map)
-    app.callback(Output("mm-cumulative-graph", "figure"), Output("mm-planck-graph", "figure"),
-                  Output("mm-temperature-text", "children"),
-                  Input(WORKSPACE, "data"), Input("mm-temperature", "value"))(draw_explorer)
+@reported(lambda message: (fg.message_figure(message),) * 2)
+def _explorer_or_message(dataset, temperature):
+    return explorer_figures(dataset, temperature)
+
+
+c.follow_image_format("mm-map-graph", "mm-cumulative-graph", "mm-planck-graph")
+dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -2,21 +2,18 @@
 
 from __future__ import annotations
 
-import uuid
+import dash
+from dash import ClientsideFunction, Input, Output, State, callback, clientside_callback, ctx, dcc, html, no_update
 
-import numpy as np
-import plotly.graph_objects as go
-from dash import Input, Output, State, ctx, dcc, html, no_update
-
-from thermo.preparation.lowfreq import reduced_dos
+from thermo.errors import OptionError
 from thermo.units import FREQUENCY_UNITS
 
+from .. import cache, intake, session
 from .. import components as c
-from .. import state
+from .. import figures as fg
+from ..reporting import attempt, reported
 
-WORKSPACE = "sp-workspace"
-PATH = "/spectrum"
-NAME = "Spectrum"
+PATH, NAME, ORDER = "/spectrum", "Spectrum", 1
 
 NEGATIVE_CHOICES = [{"label": "leave out, rescale rest to 3n", "value": "drop"},
                     {"label": "leave out, keep count", "value": "keep-count"},
@@ -24,18 +21,20 @@ NEGATIVE_CHOICES = [{"label": "leave out, rescale rest to 3n", "value": "drop"},
 LOW_CHOICES = [{"label": "automatic", "value": "auto"}, {"label": "window", "value": "manual"},
                {"label": "off", "value": "off"}]
 _CONTROL_IDS = ("sp-unit", "sp-atoms", "sp-formula", "sp-negative", "sp-lowmode", "sp-low-lo", "sp-low-hi")
+_UPLOAD = "mh-upload-checked"
 
 
 # ---------------------------------------------------------------- pure logic
 
+def _stated_unit(dataset):
+    if session.options_of(dataset)["freq_unit"]:
+        return cache.stated_unit(dataset)
+    return cache.load(dataset).source.get("freq_unit")   # with no unit chosen, the file's own unit was used
+
+
 def unit_options(dataset):
-    stated = None
-    if dataset is not None:
-        explicit = dataset.get("options", {}).get("freq_unit")
-        try:   # with no unit chosen, the loaded unit is the one the file states
-            stated = state.stated_unit(dataset) if explicit else state.load(dataset).source.get("freq_unit")
-        except Exception:  # an unloadable dataset simply has no stated unit to show
-            stated = None
+    """Choices of the frequency-unit control; the first says what the file states."""
+    stated = attempt(_stated_unit, dataset)[0] if dataset is not None else None
     first = {"label": f"as stated in file ({stated})" if stated else "as stated in file (none found)",
              "value": "auto"}
     return [first] + [{"label": u, "value": u} for u in FREQUENCY_UNITS]
@@ -43,8 +42,7 @@ def unit_options(dataset):
 
 def control_values(workspace):
     """Values of the option controls for the active dataset (dict by control id)."""
-    d = state.active(workspace)
-    opts = {**state.DEFAULT_OPTIONS, **(d or {}).get("options", {})}
+    opts = session.options_of(session.active(workspace))
     low = opts["low_frequency"]
     mode, lo, hi = ("auto", None, None) if low == "auto" else ("off", None, None) if low == "off" \
         else ("manual", *(float(v) for v in str(low).split(":")))
@@ -55,7 +53,6 @@ def control_values(workspace):
 
 def options_from_controls(values):
     """Load options from control values; raises OptionError for a bad window."""
-    from thermo.errors import OptionError
     atoms = values.get("sp-atoms")
     if atoms in ("", None):
         atoms = None
@@ -97,38 +94,38 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
     -------
     (dict, list of (kind, text))
     """
-    ws = workspace or state.empty_workspace()
-    if trigger == "mh-upload-checked" and upload:
+    ws = workspace or session.empty_workspace()
+    if trigger == _UPLOAD and upload:
         refused = [("error", text) for text in upload.get("refused", [])]
         files = upload.get("files", [])
-        new, notes = state.add_uploads(ws, [f["contents"] for f in files], [f["name"] for f in files],
-                                       upload.get("max_bytes", 10 ** 12))
+        new, notes = intake.add_uploads(ws, [f["contents"] for f in files], [f["name"] for f in files],
+                                        upload.get("max_bytes", int(intake.DEFAULT_MAX_UPLOAD_MB * 1e6)))
         return new, refused + notes
-    current = state.active(ws)
+    current = session.active(ws)
     if trigger == "sp-dataset":
-        return state.activated(ws, selected), []
+        return session.activated(ws, selected), []
     if current is None:
         return ws, []
     if trigger == "sp-rename-btn":
-        return state.renamed(ws, current["id"], rename_text), []
+        return session.renamed(ws, current["id"], rename_text), []
     if trigger == "sp-remove-btn":
-        return state.removed(ws, current["id"]), [("info", f"removed {current['name']}")]
+        return session.removed(ws, current["id"]), [("info", f"removed {current['name']}")]
     if trigger in _CONTROL_IDS:
-        try:
-            options = options_from_controls(values)
-        except Exception as exc:  # one-line message, keep the dataset as it was
-            return ws, [("error", state.one_line(exc))]
-        new, error = state.with_options(ws, current["id"], options)
+        options, error = attempt(options_from_controls, values)
+        if error:
+            return ws, [("error", error)]
+        if options == {key: session.options_of(current)[key] for key in options}:
+            return ws, []      # the controls were only set to show the dataset's own options
+        new, error = intake.with_options(ws, current["id"], options)
         return new, [("error", f"{current['name']}: {error}; previous settings kept")] if error else []
     return ws, []
 
 
 def dataset_summary(dataset):
     """One row of facts about a dataset, or its load error."""
-    try:
-        dos = state.load(dataset)
-    except Exception as exc:  # shown in the list, never raised
-        return [dataset["name"], "—", "—", "—", state.one_line(exc)]
+    dos, error = attempt(cache.load, dataset)
+    if error:
+        return [dataset["name"], "—", "—", "—", error]
     src = dos.source
     return [dataset["name"], str(dos.atoms) + (" (inferred)" if src.get("atoms_inferred") else ""),
             src.get("freq_unit", "?"), str(len(dos.input_frequency_thz)),
@@ -156,60 +153,11 @@ def warning_items(dos):
     return items
 
 
-def dos_figure(dos):
-    fig = c.figure("frequency ν [THz]", "DOS g(ν) [states/THz per formula unit]")
-    nu, g = dos.input_frequency_thz, dos.input_dos
-    fig.add_trace(go.Scatter(x=nu, y=g, name="total (as read, normalised)", mode="lines",
-                             line={"width": 2, "color": c.PALETTE[0]},
-                             hovertemplate="%{y:.4g}"))
-    for k, (name, col) in enumerate(dos.input_partials.items()):
-        fig.add_trace(go.Scatter(x=nu, y=col, name=f"partial: {name}", mode="lines",
-                                 line={"width": 1.4, "color": c.PALETTE[(k + 1) % len(c.PALETTE)]},
-                                 hovertemplate="%{y:.4g}"))
-    fit = dos.low_frequency
-    if fit is not None:
-        x = np.linspace(0.0, fit.cutoff_thz, 80)
-        fig.add_trace(go.Scatter(x=x, y=fit.coefficient * x * x, name="ν² form used below cut-off",
-                                 mode="lines", line={"width": 2, "dash": "dash", "color": c.INK},
-                                 hovertemplate="%{y:.4g}"))
-    if nu.size and nu[0] < 0:
-        fig.add_vrect(x0=float(nu[0]), x1=0.0, fillcolor="#b3443a", opacity=0.08, line_width=0,
-                      annotation_text="imaginary", annotation_position="top left")
-    return fig
-
-
-def reduced_figure(dos):
-    fig = c.figure("frequency ν [THz]", "g(ν)/ν² [states/THz³ per formula unit]")
-    nu, red = reduced_dos(dos.input_frequency_thz, dos.input_dos)
-    fit = dos.low_frequency
-    top = float(nu.max()) if nu.size else 1.0
-    x_max = min(top, 2.5 * fit.cutoff_thz) if fit is not None else 0.4 * top
-    keep = nu <= x_max
-    fig.add_trace(go.Scatter(x=nu[keep], y=red[keep], name="g/ν² of the input", mode="lines",
-                             line={"width": 2, "color": c.PALETTE[0]}, hovertemplate="%{y:.4g}"))
-    if fit is not None:
-        lo, hi = fit.window_thz
-        fig.add_vrect(x0=lo, x1=hi, fillcolor=c.PALETTE[1], opacity=0.15, line_width=0,
-                      annotation_text="fit window", annotation_position="top left")
-        fig.add_trace(go.Scatter(x=[0.0, fit.cutoff_thz], y=[fit.coefficient] * 2, mode="lines",
-                                 name=f"fitted A = {fit.coefficient:.4g}",
-                                 line={"width": 2, "dash": "dash", "color": c.INK}))
-        ref = red[(nu >= lo) & (nu <= hi)]
-        if ref.size:
-            span = float(np.nanmax(ref) - np.nanmin(ref)) or abs(fit.coefficient)
-            fig.update_yaxes(range=[max(0.0, float(np.nanmin(ref)) - 2 * span), float(np.nanmax(ref)) + 3 * span])
-    else:
-        finite = red[keep & (nu > 0.05 * x_max)]
-        if finite.size:
-            fig.update_yaxes(range=[0, float(np.nanpercentile(finite, 98)) * 1.3])
-    return fig
-
-
 # ---------------------------------------------------------------- layout
 
-def layout(workspace, prefs=None):
-    values = control_values(workspace)
-    current = state.active(workspace)
+def layout(**_query):
+    """The spectrum page (controls are filled from the workspace by :func:`sync`)."""
+    values = control_values(None)
     return c.page(
         "Spectrum", "Load phonon DOS files, tell how to read them, and check the spectrum before any "
                     "thermodynamics.",
@@ -219,17 +167,16 @@ def layout(workspace, prefs=None):
                            children=html.Div(["Drop DOS files here or ", html.U("choose files"),
                                               html.Br(), html.Small("text (.dat, .txt, .csv, .tsv) or .xlsx; "
                                                                     "several at once")])),
-                dcc.Store(id="mh-upload-checked"),
+                dcc.Store(id=_UPLOAD),
                 c.messages_panel("sp-messages"),
                 html.H2("Datasets"),
-                c.dropdown("sp-dataset", _dataset_options(workspace), current and current["id"],
-                           "Active dataset"),
-                html.Div([c.text("sp-rename", current["name"] if current else "", "New name"),
+                c.dropdown("sp-dataset", [], None, "Active dataset"),
+                html.Div([c.text("sp-rename", "", "New name"),
                           html.Button("Rename", id="sp-rename-btn", className="mh-button"),
                           html.Button("Remove", id="sp-remove-btn", className="mh-button mh-danger")],
                          className="mh-inline"),
                 html.H2("Reading options"),
-                c.dropdown("sp-unit", unit_options(current), values["sp-unit"], "Frequency unit"),
+                c.dropdown("sp-unit", unit_options(None), values["sp-unit"], "Frequency unit"),
                 c.number("sp-atoms", values["sp-atoms"], "Atoms per formula unit", step=1, min_value=1,
                          hint="empty: inferred from the DOS integral"),
                 c.text("sp-formula", values["sp-formula"], "Formula", placeholder="e.g. MgO",
@@ -261,7 +208,7 @@ def _list_table(workspace):
     rows = [dataset_summary(d) for d in (workspace or {}).get("datasets", [])]
     if not rows:
         return c.no_data_note()
-    act = (state.active(workspace) or {}).get("id")
+    act = (session.active(workspace) or {}).get("id")
     head = html.Tr([html.Th(h) for h in ("name", "atoms", "unit", "points", "imaginary")])
     body = [html.Tr([html.Td(v) for v in row], className="mh-active-row" if d["id"] == act else None)
             for row, d in zip(rows, workspace["datasets"])]
@@ -270,59 +217,87 @@ def _list_table(workspace):
 
 # ---------------------------------------------------------------- callbacks
 
-def edit(upload, selected, unit, atoms, formula, negative, lowmode, lo, hi, _r, _x, workspace,
-         rename_text, config):
-    trigger = ctx.triggered_id
-    values = dict(zip(_CONTROL_IDS, (unit, atoms, formula, negative, lowmode, lo, hi)))
-    if upload:
-        upload = {**upload, "max_bytes": (config or {}).get("max_upload_bytes", 10 ** 12)}
-    try:
-        new, notes = apply_edit(workspace, trigger, values, upload, rename_text, selected)
-    except Exception as exc:  # last line of defence: message, nothing raised
-        new, notes = workspace, [("error", state.one_line(exc))]
-    if new is workspace:   # the page copy is always sent, so the plots also draw on the first call
-        saved = (new, no_update, no_update, no_update)
-    else:
-        new = {**new, "rev": uuid.uuid4().hex}
-        kept, left_out = state.persistable(new, (config or {}).get("saved_limit_chars",
-                                                                   state.SAVED_LIMIT_CHARS))
-        notes = notes + [("warn", f"{name} is too large to keep across a page reload; it stays loaded "
-                                  "until this tab is reloaded or closed") for name in left_out]
-        saved = (new, new, kept, {"path": PATH, "rev": new["rev"]})
-    current = state.active(new)
-    shown = control_values(new)
-    return (*saved, _dataset_options(new),
-            current and current["id"], unit_options(current), *[shown[i] for i in _CONTROL_IDS],
-            current["name"] if current else "",
-            c.message_items(notes))
+def _commit(old, new, notes, config):
+    """Outputs (workspace, tab storage, messages) after an action that gave ``new``."""
+    if new is old:
+        return no_update, no_update, c.message_items(notes) if notes else no_update
+    new = session.revised(new)
+    kept, left_out = session.persistable(new, (config or {}).get("saved_limit_chars", session.SAVED_LIMIT_CHARS))
+    notes = notes + [("warn", f"{name} is too large to keep across a page reload; it stays loaded "
+                              "until this tab is reloaded or closed") for name in left_out]
+    return new, kept, c.message_items(notes)
 
 
+def _refused(message):
+    return no_update, no_update, c.message_items([("error", message)])
+
+
+_EDITED = (Output("mh-workspace", "data", allow_duplicate=True), Output("mh-saved", "data", allow_duplicate=True),
+           Output("sp-messages", "children", allow_duplicate=True))
+
+clientside_callback(ClientsideFunction("modeheat", "checkUpload"), Output(_UPLOAD, "data"),
+                    Input("mh-upload", "contents"), State("mh-upload", "filename"), State("mh-config", "data"),
+                    prevent_initial_call=True)
+
+
+@callback(*_EDITED, Input(_UPLOAD, "data"), State("mh-workspace", "data"), State("mh-config", "data"),
+          prevent_initial_call=True)
+@reported(_refused)
+def upload(checked, workspace, config):
+    """Add the files that passed the browser's size check; the server checks the size again."""
+    checked = {**(checked or {}), "max_bytes": dash.get_app().server.config["MODEHEAT_MAX_UPLOAD_BYTES"]}
+    new, notes = apply_edit(workspace, _UPLOAD, {}, checked)
+    return _commit(workspace, new, notes, config)
+
+
+@callback(*_EDITED, Input("sp-dataset", "value"), Input("sp-rename-btn", "n_clicks"),
+          Input("sp-remove-btn", "n_clicks"), State("mh-workspace", "data"), State("sp-rename", "value"),
+          State("mh-config", "data"), prevent_initial_call=True)
+@reported(_refused)
+def choose(selected, _rename, _remove, workspace, rename_text, config):
+    """Activate, rename or remove a dataset."""
+    new, notes = apply_edit(workspace, ctx.triggered_id, {}, rename_text=rename_text, selected=selected)
+    return _commit(workspace, new, notes, config)
+
+
+@callback(*_EDITED, *[Input(i, "value") for i in _CONTROL_IDS], State("mh-workspace", "data"),
+          State("mh-config", "data"), prevent_initial_call=True)
+@reported(_refused)
+def reread(*args):
+    """Re-read the active dataset with the options of the controls (kept as they were if it fails)."""
+    *values, workspace, config = args
+    new, notes = apply_edit(workspace, ctx.triggered_id, dict(zip(_CONTROL_IDS, values)))
+    return _commit(workspace, new, notes, config)
+
+
+@callback(Output("sp-dataset", "options"), Output("sp-dataset", "value"), Output("sp-unit", "options"),
+          *[Output(i, "value") for i in _CONTROL_IDS], Output("sp-rename", "value"), Input("mh-workspace", "data"))
+def sync(workspace):
+    """Show the workspace in the controls: dataset list, active dataset and its options."""
+    current = session.active(workspace)
+    shown = control_values(workspace)
+    return (_dataset_options(workspace), current and current["id"], unit_options(current),
+            *[shown[i] for i in _CONTROL_IDS], current["name"] if current else "")
+
+
+def _blank(message):
+    blank = fg.message_figure("cannot draw this dataset")
+    return blank, blank, c.message_items([("error", message)]), no_update
+
+
+@callback(Output("sp-dos-graph", "figure"), Output("sp-reduced-graph", "figure"),
+          Output("sp-warnings", "children"), Output("sp-list", "children"), Input("mh-workspace", "data"))
+@reported(_blank)
 def draw(workspace):
+    """The DOS and reduced-DOS plots, the checks and the list of datasets."""
     listing = _list_table(workspace)
-    current = state.active(workspace)
+    current = session.active(workspace)
     if current is None:
-        blank = c.message_figure("no dataset loaded")
+        blank = fg.message_figure("no dataset loaded")
         return blank, blank, [], listing
-    try:
-        dos = state.load(current)
-        return dos_figure(dos), reduced_figure(dos), c.message_items(warning_items(dos)), listing
-    except Exception as exc:  # the page stays usable
-        blank = c.message_figure("cannot draw this dataset")
-        return blank, blank, c.message_items([("error", state.one_line(exc))]), listing
+    dos = cache.load(current)
+    return fg.dos_figure(dos), fg.reduced_figure(dos), c.message_items(warning_items(dos)), listing
 
 
-def register(app):
-    control_outputs = [Output(i, "value") for i in _CONTROL_IDS]
-    app.callback(
-        Output(WORKSPACE, "data"), Output("mh-workspace", "data", allow_duplicate=True),
-        Output("mh-saved", "data"), Output("mh-route", "data", allow_duplicate=True), Output("sp-dataset", "options"), Output("sp-dataset", "value"),
-        Output("sp-unit", "options"), *control_outputs, Output("sp-rename", "value"),
-        Output("sp-messages", "children"),
-        Input("mh-upload-checked", "data"), Input("sp-dataset", "value"),
-        *[Input(i, "value") for i in _CONTROL_IDS],
-        Input("sp-rename-btn", "n_clicks"), Input("sp-remove-btn", "n_clicks"),
-        State(WORKSPACE, "data"), State("sp-rename", "value"), State("mh-config", "data"),
-        prevent_initial_call="initial_duplicate")(edit)
-    app.callback(Output("sp-dos-graph", "figure"), Output("sp-reduced-graph", "figure"),
-                  Output("sp-warnings", "children"), Output("sp-list", "children"),
-                  Input(WORKSPACE, "data"))(draw)
+c.follow_image_format("sp-dos-graph", "sp-reduced-graph")
+dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

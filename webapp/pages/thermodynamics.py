@@ -2,62 +2,73 @@
 
 from __future__ import annotations
 
-import plotly.graph_objects as go
-from dash import Input, Output, dcc, html
+import dash
+from dash import Input, Output, callback, dcc, html
 
+from thermo.columns import find
+from thermo.tables import classical_heat_capacity
+from thermo.temperatures import temperature_range
+
+from .. import cache, session
 from .. import components as c
-from .. import state
+from .. import figures as fg
+from ..labels import axis_title, unit_of
+from ..reporting import reported
 
-WORKSPACE = "th-workspace"
-PATH = "/thermodynamics"
-NAME = "Thermodynamics"
+PATH, NAME, ORDER = "/thermodynamics", "Thermodynamics", 2
+
 ROOM_K = 298.15
+#: Quantity keys of the four plots, in order, and their graphs.
+QUANTITIES = ("heat_capacity_v", "entropy", "internal_energy", "helmholtz_energy")
 _GRAPHS = ("th-cv-graph", "th-s-graph", "th-u-graph", "th-f-graph")
 
 
 def key_numbers(dataset, per):
     """Zero-point energy and C_v, S at 298.15 K in the units of ``per``."""
-    point = state.table(dataset, [0.0, ROOM_K], per)
-    names = [state.COLUMN_LABELS[col] for col in point.columns]
-    u_unit = names[3].split("[")[1].rstrip("]")
-    keys = [("zero-point energy", f"{point.iloc[0, 3]:.5g} {u_unit}"),
-            (f"C_v at {ROOM_K} K", f"{point.iloc[1, 1]:.5g} {names[1].split('[')[1].rstrip(']')}"),
-            (f"S at {ROOM_K} K", f"{point.iloc[1, 2]:.5g} {names[2].split('[')[1].rstrip(']')}")]
+    point = cache.table(dataset, [0.0, ROOM_K], per)
+    u, cv, s = (find(point, key) for key in ("internal_energy", "heat_capacity_v", "entropy"))
+    keys = [("zero-point energy", f"{point[u].iloc[0]:.5g} {unit_of(u)}"),
+            (f"C_v at {ROOM_K} K", f"{point[cv].iloc[1]:.5g} {unit_of(cv)}"),
+            (f"S at {ROOM_K} K", f"{point[s].iloc[1]:.5g} {unit_of(s)}")]
     return c.key_numbers(keys)
+
+
+def dulong_petit(dataset, per):
+    """The classical limit 3nR of the dataset in the units of ``per``."""
+    return classical_heat_capacity(cache.load(dataset).atoms, per, cache.formula_for(dataset, per))
 
 
 def figures(dataset, temperatures, per, log_t):
     """The four figures, key numbers and preview rows for one dataset."""
-    df = state.table(dataset, temperatures, per)
-    columns = list(df.columns)
+    df = cache.table(dataset, temperatures, per)
+    t = find(df, "temperature")
     figs = []
-    for k, col in enumerate(columns[1:]):
-        fig = c.figure("temperature T [K]", state.COLUMN_LABELS[col])
-        fig.add_trace(go.Scatter(x=df[columns[0]], y=df[col], mode="lines", name=dataset["name"],
-                                 line={"width": 2.2, "color": c.PALETTE[k % len(c.PALETTE)]},
-                                 hovertemplate="%{y:.5g}"))
-        if k == 0:
-            limit = state.dulong_petit(dataset, per)
-            fig.add_hline(y=limit, line_dash="dot", line_color=c.INK,
+    for k, key in enumerate(QUANTITIES):
+        col = find(df, key)
+        fig = fg.figure("temperature T [K]", axis_title(col))
+        fig.add_trace(fg.line(df[t], df[col], dataset["name"], k))
+        if key == "heat_capacity_v":
+            limit = dulong_petit(dataset, per)
+            fig.add_hline(y=limit, line_dash="dot", line_color=fg.INK,
                           annotation_text=f"3nR (Dulong–Petit) = {limit:.4g}", annotation_position="bottom right")
         if log_t:
             fig.update_xaxes(type="log")
         figs.append(fig)
     step = max(1, len(df) // 12)
     preview = df.iloc[::step]
-    table = html.Table([html.Thead(html.Tr([html.Th(state.COLUMN_LABELS[col]) for col in columns])),
+    table = html.Table([html.Thead(html.Tr([html.Th(axis_title(col)) for col in df.columns])),
                         html.Tbody([html.Tr([html.Td(f"{v:.6g}") for v in row])
                                     for row in preview.itertuples(index=False)])],
                        className="mh-table mh-numbers")
     return figs, key_numbers(dataset, per), table
 
 
-def layout(workspace, prefs=None):
-    current = state.active(workspace)
+def layout(**_query):
+    """The thermodynamics page."""
     return c.page(
         "Thermodynamics", "Harmonic heat capacity, entropy, internal and Helmholtz energy of the active "
                           "dataset. U and F include the zero-point energy.",
-        c.active_note(current),
+        c.active_slot("th"),
         c.controls(*c.temperature_fields("th"), c.basis_field("th-per"),
                    c.field("Temperature axis", dcc.Checklist(
                        id="th-logt", options=[{"label": " logarithmic", "value": "log"}], value=[]),
@@ -73,22 +84,25 @@ def layout(workspace, prefs=None):
     )
 
 
+def _failed(message):
+    blank = fg.message_figure("nothing to show for these settings")
+    return (blank,) * 4 + ([], [], dash.no_update, c.message_items([("error", message)]))
+
+
+@callback(*[Output(g, "figure") for g in _GRAPHS], Output("th-keys", "children"),
+          Output("th-table", "children"), Output("th-active", "children"), Output("th-messages", "children"),
+          Input("mh-workspace", "data"), Input("th-tmin", "value"), Input("th-tmax", "value"),
+          Input("th-step", "value"), Input("th-per", "value"), Input("th-logt", "value"))
+@reported(_failed)
 def draw(workspace, t_min, t_max, step, per, log_t):
-    current = state.active(workspace)
+    """Plots, key numbers and table preview for the page's settings."""
+    current = session.active(workspace)
     if current is None:
-        blank = c.message_figure("no dataset loaded")
-        return blank, blank, blank, blank, [], [], []
-    try:
-        temperatures = state.temperature_grid(t_min, t_max, step)
-        figs, keys, table = figures(current, temperatures, per, bool(log_t))
-        return (*figs, keys, table, [])
-    except Exception as exc:  # message instead of a broken page
-        blank = c.message_figure("nothing to show for these settings")
-        return (blank,) * 4 + ([], [], c.message_items([("error", state.one_line(exc))]))
+        blank = fg.message_figure("no dataset loaded")
+        return blank, blank, blank, blank, [], [], c.active_note(None), []
+    figs, keys, table = figures(current, temperature_range(t_min, t_max, step), per, bool(log_t))
+    return (*figs, keys, table, c.active_note(current), [])
 
 
-def register(app):
-    app.callback(*[Output(g, "figure") for g in _GRAPHS], Output("th-keys", "children"),
-                  Output("th-table", "children"), Output("th-messages", "children"),
-                  Input(WORKSPACE, "data"), Input("th-tmin", "value"), Input("th-tmax", "value"),
-                  Input("th-step", "value"), Input("th-per", "value"), Input("th-logt", "value"))(draw)
+c.follow_image_format(*_GRAPHS)
+dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -1,0 +1,109 @@
+"""Figure builders shared by the pages: the modeheat look, placeholders and the DOS plots."""
+
+from __future__ import annotations
+
+import numpy as np
+import plotly.graph_objects as go
+
+from thermo.preparation.lowfreq import reduced_dos
+
+#: Our own trace colours (deep teal, amber, plum, moss, brick, slate, sand).
+PALETTE = ("#0f6e7a", "#d0892b", "#7a4f9a", "#4f8a3a", "#b3443a", "#4d5f73", "#a88b4a")
+INK = "#1f2a33"
+GRID = "#dde4e8"
+FONT = "system-ui, -apple-system, 'Segoe UI', Roboto, 'Helvetica Neue', Arial, sans-serif"
+
+
+def _axis(title):
+    return {"title": {"text": title, "font": {"size": 13}}, "showgrid": True, "gridcolor": GRID,
+            "zeroline": False, "ticks": "outside", "showline": True, "mirror": True, "linecolor": "#9aa7b0",
+            "automargin": True}
+
+
+def figure(x_title, y_title, title=None, height=360):
+    """An empty figure in the modeheat style with titled axes (units in brackets).
+
+    The look is set explicitly, without a plotly template, which keeps
+    building a figure well under a millisecond.
+    """
+    return go.Figure(layout={
+        "template": {}, "colorway": list(PALETTE), "height": height,
+        "font": {"family": FONT, "color": INK, "size": 13},
+        "title": {"text": title, "x": 0.01, "xanchor": "left", "font": {"size": 15}} if title else {},
+        "margin": {"l": 64, "r": 18, "t": 44 if title else 16, "b": 52},
+        "paper_bgcolor": "white", "plot_bgcolor": "#fbfcfc", "hovermode": "x unified",
+        "hoverlabel": {"bgcolor": "white", "bordercolor": "#9aa7b0"},
+        "legend": {"orientation": "h", "y": -0.22, "x": 0, "font": {"size": 12}},
+        "xaxis": _axis(x_title), "yaxis": _axis(y_title)})
+
+
+def message_figure(text, height=360):
+    """A blank figure that states why there is nothing to plot."""
+    return go.Figure(layout=dict(template={}, height=height, xaxis={"visible": False}, paper_bgcolor="white",
+                      plot_bgcolor="white", yaxis={"visible": False}, margin={"l": 10, "r": 10, "t": 10, "b": 10},
+                      annotations=[{"text": text, "showarrow": False, "xref": "paper", "yref": "paper",
+                                    "x": 0.5, "y": 0.5, "font": {"size": 14, "color": "#6b7780"}}]))
+
+
+def graph_config(image_format, name):
+    """Plotly config: modebar image download in ``image_format`` (png or svg)."""
+    return {"displaylogo": False, "responsive": True,
+            "toImageButtonOptions": {"format": image_format, "filename": f"modeheat-{name}",
+                                     "scale": 2 if image_format == "png" else 1}}
+
+
+def dos_figure(dos):
+    """The DOS as read (normalised), its partial columns and the ν² form used below the cut-off."""
+    fig = figure("frequency ν [THz]", "DOS g(ν) [states/THz per formula unit]")
+    nu, g = dos.input_frequency_thz, dos.input_dos
+    fig.add_trace(go.Scatter(x=nu, y=g, name="total (as read, normalised)", mode="lines",
+                             line={"width": 2, "color": PALETTE[0]},
+                             hovertemplate="%{y:.4g}"))
+    for k, (name, col) in enumerate(dos.input_partials.items()):
+        fig.add_trace(go.Scatter(x=nu, y=col, name=f"partial: {name}", mode="lines",
+                                 line={"width": 1.4, "color": PALETTE[(k + 1) % len(PALETTE)]},
+                                 hovertemplate="%{y:.4g}"))
+    fit = dos.low_frequency
+    if fit is not None:
+        x = np.linspace(0.0, fit.cutoff_thz, 80)
+        fig.add_trace(go.Scatter(x=x, y=fit.coefficient * x * x, name="ν² form used below cut-off",
+                                 mode="lines", line={"width": 2, "dash": "dash", "color": INK},
+                                 hovertemplate="%{y:.4g}"))
+    if nu.size and nu[0] < 0:
+        fig.add_vrect(x0=float(nu[0]), x1=0.0, fillcolor="#b3443a", opacity=0.08, line_width=0,
+                      annotation_text="imaginary", annotation_position="top left")
+    return fig
+
+
+def reduced_figure(dos):
+    """The reduced DOS g/ν² near ν = 0 with the fitted window and coefficient."""
+    fig = figure("frequency ν [THz]", "g(ν)/ν² [states/THz³ per formula unit]")
+    nu, red = reduced_dos(dos.input_frequency_thz, dos.input_dos)
+    fit = dos.low_frequency
+    top = float(nu.max()) if nu.size else 1.0
+    x_max = min(top, 2.5 * fit.cutoff_thz) if fit is not None else 0.4 * top
+    keep = nu <= x_max
+    fig.add_trace(go.Scatter(x=nu[keep], y=red[keep], name="g/ν² of the input", mode="lines",
+                             line={"width": 2, "color": PALETTE[0]}, hovertemplate="%{y:.4g}"))
+    if fit is not None:
+        lo, hi = fit.window_thz
+        fig.add_vrect(x0=lo, x1=hi, fillcolor=PALETTE[1], opacity=0.15, line_width=0,
+                      annotation_text="fit window", annotation_position="top left")
+        fig.add_trace(go.Scatter(x=[0.0, fit.cutoff_thz], y=[fit.coefficient] * 2, mode="lines",
+                                 name=f"fitted A = {fit.coefficient:.4g}",
+                                 line={"width": 2, "dash": "dash", "color": INK}))
+        ref = red[(nu >= lo) & (nu <= hi)]
+        if ref.size:
+            span = float(np.nanmax(ref) - np.nanmin(ref)) or abs(fit.coefficient)
+            fig.update_yaxes(range=[max(0.0, float(np.nanmin(ref)) - 2 * span), float(np.nanmax(ref)) + 3 * span])
+    else:
+        finite = red[keep & (nu > 0.05 * x_max)]
+        if finite.size:
+            fig.update_yaxes(range=[0, float(np.nanpercentile(finite, 98)) * 1.3])
+    return fig
+
+
+def line(x, y, name, k=0, width=2.2, dash=None, hover="%{y:.5g}", **extra):
+    """A line trace in palette colour ``k``."""
+    return go.Scatter(x=x, y=y, mode="lines", name=name, hovertemplate=hover,
+                      line={"width": width, "color": PALETTE[k % len(PALETTE)], "dash": dash}, **extra)

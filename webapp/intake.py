@@ -1,0 +1,85 @@
+"""What enters a workspace is checked first: uploaded files (decoded, size-limited, loaded) and option changes."""
+
+from __future__ import annotations
+
+import base64
+import binascii
+
+from thermo.errors import ModeheatError
+from thermo.formula import formula_unit
+
+from . import cache, session
+from .reporting import attempt, one_line
+
+#: Default per-file upload limit [MB].
+DEFAULT_MAX_UPLOAD_MB = 20.0
+
+
+class UploadRefused(ModeheatError):
+    """An upload that never reached :mod:`thermo` (size limit, bad encoding)."""
+
+
+def decode_upload(contents: str, name: str) -> bytes:
+    """Bytes of a ``dcc.Upload`` data URL (``data:<type>;base64,<data>``)."""
+    head, sep, data = str(contents or "").partition(",")
+    if not sep or ";base64" not in head:
+        raise UploadRefused(f"{name}: the upload did not arrive as a base64 data URL")
+    try:
+        return base64.b64decode(data, validate=True)
+    except binascii.Error:
+        raise UploadRefused(f"{name}: the upload is not valid base64") from None
+
+
+def _checked_dataset(workspace, contents, name, max_bytes):
+    raw = decode_upload(contents, name)
+    if len(raw) > max_bytes:
+        raise UploadRefused(f"{name}: the file is {len(raw) / 1e6:.1f} MB; "
+                            f"the upload limit is {max_bytes / 1e6:g} MB")
+    dataset = session.new_dataset(session.unique_name(workspace, name), raw)
+    cache.load(dataset)
+    return dataset
+
+
+def add_uploads(workspace, contents_list, names, max_bytes):
+    """Add uploaded files that load; report the others.
+
+    Each file is checked with :func:`thermo.load_dos` under default options
+    before it enters the workspace, so a bad file never replaces the active
+    dataset.  The last good file becomes active.
+
+    Returns
+    -------
+    workspace : dict
+        A new workspace (the input is not modified).
+    messages : list of (str, str)
+        ``("error" | "info", one-line text)`` for each file.
+    """
+    ws = {"datasets": list((workspace or {}).get("datasets", [])),
+          "active": (workspace or {}).get("active")}
+    messages = []
+    for contents, name in zip(contents_list or [], names or []):
+        dataset, error = attempt(_checked_dataset, ws, contents, name, max_bytes)
+        if error:
+            messages.append(("error", error))
+            continue
+        ws = session.with_dataset(ws, dataset)
+        messages.append(("info", f"loaded {dataset['name']}"))
+    return ws, messages
+
+
+def with_options(workspace, dataset_id, options):
+    """Workspace with new load options for one dataset, if they load.
+
+    Returns ``(workspace, error)``; on error the workspace is unchanged.
+    """
+    old = session.find(workspace, dataset_id)
+    if old is None:
+        return workspace, "no dataset is selected"
+    candidate = {**old, "options": {**session.options_of(old), **options}}
+    try:
+        cache.load(candidate)
+        if candidate["options"].get("formula"):
+            formula_unit(candidate["options"]["formula"])
+    except ModeheatError as exc:  # keep the previous options
+        return workspace, one_line(exc)
+    return session.replaced(workspace, candidate), None

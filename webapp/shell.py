@@ -1,0 +1,82 @@
+"""The Dash instance and the page shell: header with navigation, shared stores, the page container, caution.
+
+Dash's pages mechanism is used: each module of :mod:`webapp.pages` calls
+``dash.register_page`` and owns its layout and callbacks.  Pages are
+registered after this instance exists (Dash requires it), by importing
+:mod:`webapp.pages`; :mod:`webapp.app` does both and is the entry point.
+
+Settings live in the Flask config (``MODEHEAT_*`` keys), set by
+:func:`configure` from options and the environment, never from the browser.
+"""
+
+from __future__ import annotations
+
+import logging
+import os
+
+import dash
+from dash import ALL, ClientsideFunction, Dash, Input, Output, State, dcc, html, no_update
+
+from . import components, demo, intake, session
+
+app = Dash(__name__, title="modeheat", use_pages=True, pages_folder="", suppress_callback_exceptions=True,
+           assets_folder=os.path.join(os.path.dirname(__file__), "assets"), update_title=None)
+server = app.server
+logging.getLogger("werkzeug").setLevel(logging.WARNING)
+
+_DEMO = {}
+
+
+def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None):
+    """Set the server's settings (upload limit [MB], demo folder, session-storage limit [characters])."""
+    if max_upload_mb is None:
+        max_upload_mb = float(os.environ.get("MODEHEAT_MAX_UPLOAD_MB", intake.DEFAULT_MAX_UPLOAD_MB))
+    server.config["MODEHEAT_MAX_UPLOAD_BYTES"] = int(float(max_upload_mb) * 1e6)
+    server.config["MODEHEAT_DEMO_DIR"] = str(demo_dir) if demo_dir is not None else None
+    server.config["MODEHEAT_SAVED_LIMIT_CHARS"] = int(saved_limit_chars or session.SAVED_LIMIT_CHARS)
+
+
+def demo_workspace():
+    """The demo workspace of the configured folder (built once per folder; pure data)."""
+    folder = server.config.get("MODEHEAT_DEMO_DIR")
+    if folder not in _DEMO:
+        _DEMO[folder] = demo.demo_workspace(folder)
+    return _DEMO[folder]
+
+
+def _pages():
+    return sorted(dash.page_registry.values(), key=lambda p: p.get("order") or 0)
+
+
+def shell():
+    """The layout common to all pages (evaluated on every page load)."""
+    nav = [dcc.Link(p["name"], href=p["path"], className="mh-nav-link",
+                    id={"type": "mh-nav", "path": p["path"]}) for p in _pages()]
+    return html.Div([
+        dcc.Location(id="mh-url", refresh=False),
+        dcc.Store(id="mh-workspace", storage_type="memory", data=demo_workspace()),
+        dcc.Store(id="mh-saved", storage_type="session"),
+        dcc.Store(id="mh-prefs", storage_type="session", data={"image_format": "png"}),
+        dcc.Store(id="mh-config", data={"max_upload_bytes": server.config["MODEHEAT_MAX_UPLOAD_BYTES"],
+                                        "saved_limit_chars": server.config["MODEHEAT_SAVED_LIMIT_CHARS"]}),
+        html.Header([html.Div([html.Span("mode", className="mh-brand-a"), html.Span("heat", className="mh-brand-b")],
+                              className="mh-brand"),
+                     html.Nav(nav, className="mh-nav", **{"aria-label": "pages"})], className="mh-header"),
+        html.Main(dash.page_container, id="mh-page", className="mh-main"),
+        html.Footer([html.Strong("Caution. "), components.CAUTION], className="mh-footer", id="mh-caution"),
+    ], className="mh-shell")
+
+
+def restore(saved, workspace):
+    """Workspace restored from the tab's session storage (after a reload)."""
+    if not saved or (workspace or {}).get("rev") == saved.get("rev"):
+        return no_update
+    return saved
+
+
+configure()
+app.layout = shell
+app.callback(Output("mh-workspace", "data", allow_duplicate=True), Input("mh-saved", "data"),
+             State("mh-workspace", "data"), prevent_initial_call="initial_duplicate")(restore)
+app.clientside_callback(ClientsideFunction("modeheat", "navClasses"),
+                        Output({"type": "mh-nav", "path": ALL}, "className"), Input("mh-url", "pathname"))
