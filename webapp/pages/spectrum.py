@@ -102,8 +102,8 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
                                         upload.get("max_bytes", int(intake.DEFAULT_MAX_UPLOAD_MB * 1e6)))
         return new, refused + notes
     current = session.active(ws)
-    if trigger == "sp-dataset":
-        return session.activated(ws, selected), []
+    if trigger == "sp-dataset":      # also fired when the selector only shows the active dataset
+        return (ws if current is None or selected in (None, current["id"]) else session.activated(ws, selected)), []
     if current is None:
         return ws, []
     if trigger == "sp-rename-btn":
@@ -245,6 +245,8 @@ clientside_callback(ClientsideFunction("modeheat", "checkUpload"), Output(_UPLOA
 @reported(_refused)
 def upload(checked, workspace, config):
     """Add the files that passed the browser's size check; the server checks the size again."""
+    if not checked:
+        return no_update, no_update, no_update
     checked = {**(checked or {}), "max_bytes": dash.get_app().server.config["MODEHEAT_MAX_UPLOAD_BYTES"]}
     new, notes = apply_edit(workspace, _UPLOAD, {}, checked)
     return _commit(workspace, new, notes, config)
