@@ -3,7 +3,11 @@
 The public names are imported lazily (PEP 562) so that ``python -m thermo``
 starts without loading pandas or scipy until a command needs them.
 
->>> from thermo import load_dos, tabulate   # doctest: +SKIP
+>>> import thermo
+>>> sorted(n for n in thermo.__all__ if n in ("load_dos", "tabulate"))
+['load_dos', 'tabulate']
+>>> callable(thermo.tabulate)
+True
 """
 
 from __future__ import annotations

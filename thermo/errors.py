@@ -50,7 +50,3 @@ class OptionError(ModeheatError, ValueError):
 
 class ModeheatWarning(UserWarning):
     """A result is computed but deserves attention (imaginary modes, clipping...)."""
-
-
-class StabilityWarning(ModeheatWarning):
-    """Imaginary modes above 1 % of all modes: the lattice is dynamically unstable."""
