@@ -241,10 +241,7 @@ def write_index(rows, path, force=False):
 def _progress_bar(total, enabled):
     if not (enabled and sys.stderr.isatty()):
         return None
-    try:
-        from tqdm import tqdm
-    except ImportError:
-        return None
+    from tqdm import tqdm     # a runtime requirement: a missing install fails loudly
     return tqdm(total=total, file=sys.stderr, unit="file", desc="tables")
 
 

@@ -8,6 +8,7 @@ import sys
 
 
 def build_parser():
+    """Options of ``python -m webapp``."""
     p = argparse.ArgumentParser(prog="python -m webapp", description="Serve the modeheat dashboard.")
     p.add_argument("--host", default="127.0.0.1",
                    help="interface to bind (default 127.0.0.1, this machine only)")
@@ -19,6 +20,7 @@ def build_parser():
 
 
 def main(argv=None) -> int:
+    """Serve the dashboard; returns the exit code."""
     args = build_parser().parse_args(argv)
     if args.max_upload_mb is not None:
         if not args.max_upload_mb > 0:

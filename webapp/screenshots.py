@@ -36,6 +36,7 @@ def wait_for_plots(driver, timeout=30.0):
 
 
 def main(argv=None) -> int:
+    """Save a PNG of every page of a running dashboard; returns the exit code."""
     from .pages import PAGES
     p = argparse.ArgumentParser(prog="python -m webapp.screenshots")
     p.add_argument("--url", default="http://127.0.0.1:8050")

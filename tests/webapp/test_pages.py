@@ -191,7 +191,6 @@ def test_compare_difference_equals_table_difference(demo):
 
 
 def test_models_and_mode_map_draw_with_demo(demo):
-    pytest.importorskip("thermo.models")
     options = models.choices(demo, None, None)
     assert options[1] and options[3]
     figs = models.draw(demo, options[1], options[3], 1, 0, 400, 10, "formula", "heat_capacity_v")
@@ -228,7 +227,6 @@ def test_unit_choice_shows_the_unit_the_file_states(ws):
 
 @pytest.mark.parametrize("per", ["formula", "atom", "gram"])
 def test_models_page_works_in_every_basis(demo, per):
-    pytest.importorskip("thermo.models")
     d = session.active(demo)
     ws, error = intake.with_options(demo, d["id"], {"formula": "LiCs"})   # 2 atoms, like the demo crystal
     assert error is None
