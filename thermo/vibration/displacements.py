@@ -217,8 +217,8 @@ def displacement_table(dos, temperatures, formula=None, masses=None, distance_a=
     return pd.concat(frames, ignore_index=True)
 
 
-def _refitted(dos, factor):
-    """The DOS prepared again with the low-frequency window scaled by ``factor``."""
+def _refitted(dos, move):
+    """The DOS prepared again with the low-frequency window's ends scaled by ``move``."""
     from ..kernels.quadrature import mode_weights
     from ..preparation.imaginary import split_at_zero
     from ..preparation.lowfreq import apply_low_frequency, fit_low_frequency
@@ -227,7 +227,7 @@ def _refitted(dos, factor):
     cols = [dos.input_dos] + [dos.input_partials[k] for k in names]
     _, nu, cols = split_at_zero(dos.input_frequency_thz, cols)
     lo, hi = dos.low_frequency.window_thz
-    fit, _ = fit_low_frequency(nu, cols[0], (lo * factor, hi * factor))
+    fit, _ = fit_low_frequency(nu, cols[0], (lo * move[0], hi * move[1]))
     grid, cut = apply_low_frequency(nu, cols, fit.cutoff_thz)
     treated = float(mode_weights(grid, cut[0]).sum()) + fit.coefficient * fit.cutoff_thz ** 3 / 3.0
     scale = dos.mode_count / treated
@@ -237,17 +237,22 @@ def _refitted(dos, factor):
                      low, dos.source, dos.warnings)
 
 
-def window_sensitivity(dos, temperatures, formula=None, masses=None, factors=(0.5, 2.0)):
+#: Factors applied to the (start, stop) of the fitted window when measuring the sensitivity.
+WINDOW_MOVES = ((0.7, 1.0), (1.4, 1.0), (1.0, 0.7), (1.0, 1.4), (0.7, 0.7), (1.4, 1.4))
+
+
+def window_sensitivity(dos, temperatures, formula=None, masses=None, moves=WINDOW_MOVES):
     """Largest relative change of ⟨u²⟩ when the low-frequency window moves.
 
     Parameters
     ----------
     dos, temperatures, formula, masses
         As :func:`mean_square_displacement`; ``dos`` keeps its input arrays.
-    factors : sequence of float
-        Both ends of the fitted window are multiplied by each factor and the
-        DOS is prepared again (public functions of
-        :mod:`thermo.preparation.lowfreq`).
+    moves : sequence of (float, float)
+        Factors on the start and the stop of the fitted window; for each,
+        the DOS is prepared again (public functions of
+        :mod:`thermo.preparation.lowfreq`).  Windows where no ν² form fits
+        (or start >= stop) are skipped.
 
     Returns
     -------
@@ -275,15 +280,15 @@ def window_sensitivity(dos, temperatures, formula=None, masses=None, factors=(0.
     base = mean_square_displacement(dos, t, formula, masses)
     worst = {name: 0.0 for name in base}
     windows = []
-    for f in factors:
+    for move in moves:
         try:
-            other = _refitted(dos, f)
+            other = _refitted(dos, move)
         except OptionError:
             continue
         windows.append(list(other.low_frequency.window_thz))
         for name, r in mean_square_displacement(other, t, formula, masses).items():
             worst[name] = max(worst[name], float(np.max(np.abs(r["msd"] / base[name]["msd"] - 1.0))))
-    note = None if windows else "no ν² form fits the shifted windows"
+    note = None if windows else "no ν² form fits the moved windows"
     return {"per_species": worst, "windows_THz": windows, "note": note}
 
 
@@ -332,8 +337,10 @@ def displacement_summary(dos, formula=None, masses=None, distance_a=None, temper
     sens = window_sensitivity(dos, key, formula, masses)
     worst = max(sens["per_species"].values(), default=0.0)
     if worst > 0.02:
-        notes.append(f"⟨u²⟩ changes by up to {100 * worst:.1f} % when the low-frequency window is halved or "
-                     "doubled; the acoustic part of the DOS limits its accuracy")
+        notes.append(f"⟨u²⟩ changes by up to {100 * worst:.1f} % when the low-frequency window is moved "
+                     "(ends ×0.7 and ×1.4); the acoustic part of the DOS limits its accuracy")
+    if sens["note"]:
+        notes.append(f"window sensitivity of ⟨u²⟩ not measured: {sens['note']}")
     return {"convention": CONVENTION, "species": species, "window_sensitivity": sens, "warnings": notes,
             "low_frequency_debye_temperature_K": dos.low_frequency_debye_temperature_k()}
 
