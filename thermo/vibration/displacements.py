@@ -29,7 +29,7 @@ from scipy import constants as sc
 from ..columns import column_name
 from ..errors import OptionError
 from ..formula import formula_unit
-from ..kernels.planck import occupation, reduced_frequency
+from ..kernels.planck import H_OVER_K_THZ, occupation, reduced_frequency
 from ..kernels.quadrature import trapezoid_weights
 from ..partials import _window_shares
 from ..tables import check_temperatures
@@ -61,13 +61,23 @@ def _counts_from_formula(formula):
 def _integrals(dos, column, share, t):
     """∫ g coth(x/2)/ν dν [modes/THz] on T, ∫ g/ν² dν [modes/THz²] and modes of one column."""
     nu = np.asarray(dos.frequency_thz, float)
-    w = np.asarray(column, float) * trapezoid_weights(nu, dos.dos)
+    column = np.asarray(column, float)
+    w = column * trapezoid_weights(nu, dos.dos)
     pos = nu > 0
     with np.errstate(divide="ignore"):
         coth = 1.0 + 2.0 * occupation(reduced_frequency(nu[pos], t))
     main = (w[pos] / nu[pos]) @ coth
     inverse_square = float(np.sum(w[pos] / nu[pos] ** 2))
     modes = float(np.sum(w))
+    zero = np.flatnonzero(~pos)
+    if zero.size and pos.any() and column[zero[0]] == 0:
+        # Node at ν = 0 with g(0) = 0: the integrand's limit for g ≈ Aν² (A from the next node),
+        # g coth(x/2)/ν → 2A k_BT/h and g/ν² → A.
+        first = np.flatnonzero(pos)[0]
+        reduced = column[first] / nu[first] ** 2
+        half = trapezoid_weights(nu, dos.dos)[zero[0]]
+        main = main + half * reduced * 2.0 * t / H_OVER_K_THZ
+        inverse_square += half * reduced
     fit = dos.low_frequency
     if fit is not None:
         main = main + share * nu2_displacement_integral(fit.coefficient, fit.cutoff_thz, t)
