@@ -86,14 +86,21 @@ def _integrals(dos, column, share, t):
     return main, inverse_square, modes
 
 
-def _parts(dos, formula, masses):
+def _parts(dos, formula, masses, species=None):
     """(label, column, share of the ν² part, mass [u], atoms per formula unit) per species."""
     masses = dict(masses or {})
+    if species is not None:
+        missing = [s for s in species if s not in dos.partials]
+        if missing:
+            raise OptionError(f"no partial-DOS column {', '.join(missing)}; the file has: "
+                              + (", ".join(dos.partials) or "no partial columns"))
     if dos.partials:
         shares = _window_shares(dos)
         counts = _counts_from_formula(formula) if formula else {}
         parts = []
         for name, col in dos.partials.items():
+            if species is not None and name not in species:
+                continue
             mass = float(masses[name]) if name in masses else _element_mass(name)
             parts.append((name, col, shares[name], mass, counts.get(name)))
         return parts
@@ -108,7 +115,7 @@ def _parts(dos, formula, masses):
     raise OptionError("atomic masses are needed: give the chemical formula, or the mass of each species")
 
 
-def mean_square_displacement(dos, temperatures, formula=None, masses=None):
+def mean_square_displacement(dos, temperatures, formula=None, masses=None, species=None):
     """Total ⟨u²⟩(T) of each species, and its classical high-T limit [Å²].
 
     Parameters
@@ -123,6 +130,8 @@ def mean_square_displacement(dos, temperatures, formula=None, masses=None):
     masses : dict of str to float, optional
         Mass of each species [u]; overrides the element mass (isotopes,
         invented species).
+    species : sequence of str, optional
+        Partial-DOS columns to report (default all).
 
     Returns
     -------
@@ -160,7 +169,7 @@ def mean_square_displacement(dos, temperatures, formula=None, masses=None):
     """
     t = check_temperatures(temperatures)
     out = {}
-    for name, col, share, mass, atoms in _parts(dos, formula, masses):
+    for name, col, share, mass, atoms in _parts(dos, formula, masses, species):
         main, inverse_square, modes = _integrals(dos, col, share, t)
         n = atoms if atoms else modes / 3.0
         if not n > 0:
@@ -172,12 +181,12 @@ def mean_square_displacement(dos, temperatures, formula=None, masses=None):
     return out
 
 
-def displacement_table(dos, temperatures, formula=None, masses=None, distance_a=None):
+def displacement_table(dos, temperatures, formula=None, masses=None, distance_a=None, species=None):
     """⟨u²⟩, U_iso, B, classical ⟨u²⟩, θ_M (and Lindemann ratio) per species and T.
 
     Parameters
     ----------
-    dos, temperatures, formula, masses
+    dos, temperatures, formula, masses, species
         As :func:`mean_square_displacement`.
     distance_a : float, optional
         Nearest-neighbour distance d [Å]; adds the Lindemann ratio
@@ -210,7 +219,7 @@ def displacement_table(dos, temperatures, formula=None, masses=None, distance_a=
     """
     t = check_temperatures(temperatures)
     frames = []
-    for name, r in mean_square_displacement(dos, t, formula, masses).items():
+    for name, r in mean_square_displacement(dos, t, formula, masses, species).items():
         u = r["msd"]
         cols = {
             column_name("species"): [name] * t.size,
@@ -251,12 +260,12 @@ def _refitted(dos, move):
 WINDOW_MOVES = ((0.7, 1.0), (1.4, 1.0), (1.0, 0.7), (1.0, 1.4), (0.7, 0.7), (1.4, 1.4))
 
 
-def window_sensitivity(dos, temperatures, formula=None, masses=None, moves=WINDOW_MOVES):
+def window_sensitivity(dos, temperatures, formula=None, masses=None, moves=WINDOW_MOVES, species=None):
     """Largest relative change of ⟨u²⟩ when the low-frequency window moves.
 
     Parameters
     ----------
-    dos, temperatures, formula, masses
+    dos, temperatures, formula, masses, species
         As :func:`mean_square_displacement`; ``dos`` keeps its input arrays.
     moves : sequence of (float, float)
         Factors on the start and the stop of the fitted window; for each,
@@ -287,7 +296,7 @@ def window_sensitivity(dos, temperatures, formula=None, masses=None, moves=WINDO
         return {"per_species": {}, "windows_THz": [], "note": "low-frequency treatment is off"}
     if dos.input_frequency_thz is None or dos.input_dos is None:
         return {"per_species": {}, "windows_THz": [], "note": "the DOS has no input table to refit"}
-    base = mean_square_displacement(dos, t, formula, masses)
+    base = mean_square_displacement(dos, t, formula, masses, species)
     worst = {name: 0.0 for name in base}
     windows = []
     for move in moves:
@@ -296,18 +305,18 @@ def window_sensitivity(dos, temperatures, formula=None, masses=None, moves=WINDO
         except OptionError:
             continue
         windows.append(list(other.low_frequency.window_thz))
-        for name, r in mean_square_displacement(other, t, formula, masses).items():
+        for name, r in mean_square_displacement(other, t, formula, masses, species).items():
             worst[name] = max(worst[name], float(np.max(np.abs(r["msd"] / base[name]["msd"] - 1.0))))
     note = None if windows else "no ν² form fits the moved windows"
     return {"per_species": worst, "windows_THz": windows, "note": note}
 
 
-def displacement_summary(dos, formula=None, masses=None, distance_a=None, temperatures=None):
+def displacement_summary(dos, formula=None, masses=None, distance_a=None, temperatures=None, species=None):
     """Key numbers per species: zero-point ⟨u²⟩, B and θ_M at 298.15 K, cautions.
 
     Parameters
     ----------
-    dos, formula, masses, distance_a
+    dos, formula, masses, distance_a, species
         As :func:`displacement_table`.
     temperatures : array_like, optional
         Temperatures [K] scanned for the Lindemann caution and the window
@@ -330,28 +339,28 @@ def displacement_summary(dos, formula=None, masses=None, distance_a=None, temper
     """
     t = check_temperatures(np.arange(0.0, 1001.0, 10.0) if temperatures is None else temperatures)
     key = check_temperatures([0.0, ROOM_K])
-    table = displacement_table(dos, key, formula, masses, distance_a)
-    species = {}
-    results = mean_square_displacement(dos, key, formula, masses)
+    table = displacement_table(dos, key, formula, masses, distance_a, species)
+    per_species = {}
+    results = mean_square_displacement(dos, key, formula, masses, species)
     b_col, u_col = column_name("debye_waller_b"), column_name("mean_square_displacement")
     th_col = column_name("debye_waller_temperature")
     for name, r in results.items():
         rows = table[table[column_name("species")] == name]
-        species[name] = {
+        per_species[name] = {
             "mass_amu": r["mass_amu"], "atoms": r["atoms"],
             "msd_zero_point_A2": float(rows[u_col].iloc[0]), "msd_298K_A2": float(rows[u_col].iloc[1]),
             "b_zero_point_A2": float(rows[b_col].iloc[0]), "b_298K_A2": float(rows[b_col].iloc[1]),
             "theta_m_zero_point_K": float(rows[th_col].iloc[0]), "theta_m_298K_K": float(rows[th_col].iloc[1]),
         }
-    notes = list(caution_lines(dos, displacement_table(dos, t, formula, masses, distance_a), results))
-    sens = window_sensitivity(dos, key, formula, masses)
+    notes = list(caution_lines(dos, displacement_table(dos, t, formula, masses, distance_a, species), results))
+    sens = window_sensitivity(dos, key, formula, masses, species=species)
     worst = max(sens["per_species"].values(), default=0.0)
     if worst > 0.02:
         notes.append(f"⟨u²⟩ changes by up to {100 * worst:.1f} % when the low-frequency window is moved "
                      "(ends ×0.7 and ×1.4); the acoustic part of the DOS limits its accuracy")
     if sens["note"]:
         notes.append(f"window sensitivity of ⟨u²⟩ not measured: {sens['note']}")
-    return {"convention": CONVENTION, "species": species, "window_sensitivity": sens, "warnings": notes,
+    return {"convention": CONVENTION, "species": per_species, "window_sensitivity": sens, "warnings": notes,
             "low_frequency_debye_temperature_K": dos.low_frequency_debye_temperature_k()}
 
 
@@ -371,3 +380,34 @@ def caution_lines(dos, table, results=None):
         notes.append("the DOS is nonzero at ν = 0 and the low-frequency treatment is off: ⟨u²⟩ "
                      "(weighted by 1/ω) is unreliable; switch the treatment on")
     return notes
+
+
+def displacement_provenance(dos, temperatures, formula=None, masses=None, distance_a=None, summary=None,
+                            species=None):
+    """Provenance record for an exported displacement table (JSON-able).
+
+    Parameters
+    ----------
+    dos, temperatures, formula, masses, distance_a, species
+        As :func:`displacement_table`.
+    summary : dict, optional
+        :func:`displacement_summary` result, computed when None.
+
+    Returns
+    -------
+    dict
+        :func:`thermo.tables.provenance` with the displacement settings,
+        convention, per-species key numbers, window sensitivity and warnings.
+    """
+    from ..tables import provenance
+    info = provenance(dos, temperatures, formula=formula)
+    summary = summary or displacement_summary(dos, formula, masses, distance_a, temperatures, species)
+    info.update({
+        "basis": "per atom of each species", "masses_amu": {k: v["mass_amu"] for k, v in summary["species"].items()},
+        "nearest_neighbour_distance_A": distance_a, "convention": CONVENTION,
+        "model": "harmonic: ⟨u²⟩ = ħ/(2 m n) ∫ g(ω)/ω coth(ħω/2k_BT) dω per species; no anharmonic terms",
+        "displacement_key_numbers": summary["species"],
+        "window_sensitivity": summary["window_sensitivity"],
+        "warnings": list(dos.warnings) + summary["warnings"],
+    })
+    return info
