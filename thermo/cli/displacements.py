@@ -30,52 +30,12 @@ def register(sub):
     p.set_defaults(func=run)
 
 
-def parse_masses(text):
-    """``"A=12.4,B=88.6"`` -> {"A": 12.4, "B": 88.6} (u)."""
-    from ..errors import OptionError
-    out = {}
-    for item in filter(None, (s.strip() for s in str(text or "").split(","))):
-        name, sep, value = item.partition("=")
-        try:
-            mass = float(value)
-        except ValueError:
-            mass = float("nan")
-        if not sep or not name.strip() or not mass > 0:
-            raise OptionError(f"mass {item!r} must read SPECIES=MASS with the mass in u > 0")
-        out[name.strip()] = mass
-    return out
-
-
-def parse_distance(distance, lattice):
-    """Nearest-neighbour distance [Å] from ``--distance`` or ``--lattice TYPE:A``."""
-    from ..errors import OptionError
-    from ..vibration.lindemann import nearest_neighbour_distance
-    if distance is not None:
-        if not distance > 0:
-            raise OptionError("--distance must be > 0 Å")
-        return float(distance)
-    if lattice:
-        kind, _, a = str(lattice).partition(":")
-        try:
-            return nearest_neighbour_distance(kind, float(a))
-        except ValueError as exc:
-            if isinstance(exc, OptionError):
-                raise
-            raise OptionError(f"--lattice {lattice!r} must read TYPE:A, e.g. fcc:3.61") from None
-    return None
-
-
-def parse_species(text):
-    """``"A,B"`` -> ["A", "B"]; None when not given."""
-    names = [c.strip() for c in str(text or "").split(",") if c.strip()]
-    return names or None
-
-
 def run(args) -> int:
     from ..errors import OptionError
     from ..io.writers import export_table, write_table
     from ..temperatures import parse_temperatures
     from ..vibration.displacements import displacement_provenance, displacement_summary, displacement_table
+    from ..vibration.inputs import parse_distance, parse_masses, parse_species
 
     temperatures = parse_temperatures(args.temperatures)
     if args.output and not args.force and Path(args.output).exists():
