@@ -114,7 +114,8 @@ def elastic_comparison(dataset, values):
     if cmp["dos_K"] is not None:
         pairs += [("θ_D of the DOS (ν² region)", f"{cmp['dos_K']:.4g} K"),
                   ("difference (DOS − elastic)", f"{cmp['difference_K']:+.3g} K ({100 * cmp['relative_difference']:+.2g} %)")]
-    return html.Div([c.key_numbers(pairs), html.P(cmp["note"], className="mh-msg mh-msg-info")])
+    far = cmp["relative_difference"] is not None and abs(cmp["relative_difference"]) > 0.05
+    return html.Div([c.key_numbers(pairs), html.P(cmp["note"], className=f"mh-msg mh-msg-{'warn' if far else 'info'}")])
 
 
 def layout(**_query):
