@@ -186,3 +186,22 @@ def test_summary_reports_room_temperature_and_lindemann():
     assert any("Lindemann" in w for w in s["warnings"])
     quiet = displacement_summary(debye_spectrum(THETA), masses={"X": MASS}, distance_a=5.0)
     assert not any("Lindemann" in w for w in quiet["warnings"])
+
+
+def test_mass_for_an_unknown_column_is_refused():
+    from thermo.errors import OptionError
+    dos = load_dos(_two_species_text(), atoms=2)
+    with pytest.raises(OptionError, match="not a partial-DOS column"):
+        mean_square_displacement(dos, [300.0], masses={"Mq": 24.0})
+
+
+def test_formula_counts_and_isotope_override():
+    # ⟨u²⟩ of a harmonic species scales as 1/m at fixed spectrum in the classical limit
+    # (equipartition, Willis and Pryor 1975 §4.3); an isotope mass given for O changes only O.
+    dos = load_dos(_two_species_text(), atoms=2)
+    plain = mean_square_displacement(dos, [2000.0], formula="MgO")
+    heavy = mean_square_displacement(dos, [2000.0], formula="MgO", masses={"O": 18.0})
+    assert plain["Mg"]["msd"][0] == heavy["Mg"]["msd"][0]
+    ratio = heavy["O"]["classical"][0] / plain["O"]["classical"][0]
+    assert ratio == pytest.approx(plain["O"]["mass_amu"] / 18.0, rel=1e-12)
+    assert plain["Mg"]["atoms"] == 1.0 and plain["O"]["atoms"] == 1.0

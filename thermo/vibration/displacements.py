@@ -95,6 +95,10 @@ def _parts(dos, formula, masses, species=None):
             raise OptionError(f"no partial-DOS column {', '.join(missing)}; the file has: "
                               + (", ".join(dos.partials) or "no partial columns"))
     if dos.partials:
+        unknown = [k for k in masses if k not in dos.partials]
+        if unknown:
+            raise OptionError(f"mass given for {', '.join(unknown)}, which is not a partial-DOS column "
+                              f"(columns: {', '.join(dos.partials)})")
         shares = _window_shares(dos)
         counts = _counts_from_formula(formula) if formula else {}
         parts = []
@@ -370,15 +374,19 @@ CONVENTION = ("⟨u²⟩ is the total mean-square displacement (sum of three dir
 
 
 def caution_lines(dos, table, results=None):
-    """Cautions for a displacement table: Lindemann ratio, partial mode counts, ν = 0 weight."""
+    """Cautions for a displacement table: Lindemann ratio, partial mode counts, imaginary modes, ν = 0."""
     notes = list(lindemann_warnings(table))
     for name, r in (results or {}).items():
         if r["atoms"] and abs(r["modes_found"] / (3.0 * r["atoms"]) - 1.0) > 0.02:
             notes.append(f"the partial DOS of {name} carries {r['modes_found']:.4g} modes, not "
                          f"3 × {r['atoms']:g}; its ⟨u²⟩ is scaled per atom of the formula")
+    share = float(dos.source.get("negative_mode_fraction") or 0.0)
+    if share > 0:
+        notes.append(f"{100 * share:.3g} % of the modes are imaginary (dropped): the lattice is unstable and "
+                     "its ⟨u²⟩, dominated by the softest modes, is not meaningful")
     if dos.low_frequency is None and dos.frequency_thz[0] == 0 and dos.dos[0] > 0:
-        notes.append("the DOS is nonzero at ν = 0 and the low-frequency treatment is off: ⟨u²⟩ "
-                     "(weighted by 1/ω) is unreliable; switch the treatment on")
+        notes.append("the DOS is nonzero at ν = 0 and no ν² (acoustic) form is applied: ⟨u²⟩, weighted "
+                     "by 1/ω, depends on the lowest points and is unreliable")
     return notes
 
 
