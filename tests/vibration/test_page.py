@@ -71,3 +71,18 @@ def test_elastic_comparison():
     assert "by -25.7 %" in text and "mh-msg-warn" in text              # (320 - 430.8)/430.8 = -25.7 %
     hint = page.elastic(_workspace(), None, None, None, None, None, None)
     assert "Enter the density" in hint.children
+
+
+def test_download_carries_table_and_cautions():
+    # The downloaded CSV reads back to the same ⟨u²⟩ (Willis–Pryor reference) with the caution.
+    import base64
+    from thermo.io.writers import read_exported_csv
+    import periodictable
+    data, note = page.download(1, _workspace(), 0, 960, 320, "", 1.0, "csv")
+    assert data["filename"] == "debye_test_displacements.csv" and "prepared" in note[0].children
+    raw = base64.b64decode(data["content"]) if data.get("base64") else data["content"].encode()
+    table, meta = read_exported_csv(raw)
+    mass = periodictable.elements.symbol("Al").mass
+    want = [willis_pryor_msd(t / THETA, THETA, mass) for t in (0.0, 320.0, 640.0, 960.0)]
+    np.testing.assert_allclose(table["mean_square_displacement_A2"], want, rtol=1e-5)
+    assert any("Lindemann" in w for w in meta["warnings"])

@@ -3,11 +3,13 @@
 from __future__ import annotations
 
 import dash
-from dash import Input, Output, callback, html
+from dash import Input, Output, State, callback, dcc, html, no_update
 
 from thermo.columns import column_name, label
 from thermo.temperatures import temperature_range
-from thermo.vibration.displacements import CONVENTION, displacement_summary, displacement_table
+from thermo.io.writers import export_table
+from thermo.vibration.displacements import (CONVENTION, displacement_provenance, displacement_summary,
+                                            displacement_table)
 from thermo.vibration.elastic import compare_debye_temperatures, elastic_debye_temperature
 from thermo.vibration.inputs import parse_distance, parse_masses
 from thermo.vibration.lindemann import LINDEMANN_THRESHOLD
@@ -54,6 +56,15 @@ def results(dataset, temperatures, masses_text, distance):
     summary = cache.derived("displacement-summary", dataset,
                             lambda dos: displacement_summary(dos, formula, masses, d, temperatures), *key)
     return table, summary, notes
+
+
+def export_bytes(dataset, temperatures, masses_text, distance, fmt):
+    """File name and content of the displacement table with its provenance (as the CLI writes it)."""
+    table, summary, _ = results(dataset, temperatures, masses_text, distance)
+    formula, masses, d, _ = _settings(dataset, masses_text, distance)
+    info = displacement_provenance(cache.load(dataset), temperatures, formula, masses, d, summary)
+    stem = dataset["name"].rsplit(".", 1)[0]
+    return f"{stem}_displacements.{fmt}", export_table(table, info, fmt)
 
 
 def figures(table, distance=None):
@@ -139,6 +150,10 @@ def layout(**_query):
                   c.graph("dw-lindemann-graph", "rms displacement √⟨u²⟩; dashed: 0.1·d, the Lindemann limit "
                                                 "(common practice; give d)")],
                  className="mh-grid"),
+        html.Div([c.radio("dw-format", [{"label": f, "value": f.lower()} for f in ("CSV", "JSON", "XLSX")],
+                          "csv", "File format"),
+                  html.Button("Download displacement table", id="dw-download-btn", className="mh-button mh-primary"),
+                  dcc.Download(id="dw-download"), html.Span(id="dw-download-note")], className="mh-inline"),
         html.H2("θ_D from elastic data (Anderson method, Voigt–Reuss–Hill)"),
         c.controls(c.number("dw-c11", None, "C11 [GPa]"), c.number("dw-c12", None, "C12 [GPa]"),
                    c.number("dw-c44", None, "C44 [GPa]"), c.number("dw-density", None, "density [g/cm³]", min_value=0),
@@ -179,6 +194,20 @@ def elastic(workspace, *values):
     if current is None:
         return c.no_data_note()
     return elastic_comparison(current, values)
+
+
+@callback(Output("dw-download", "data"), Output("dw-download-note", "children"),
+          Input("dw-download-btn", "n_clicks"), State("mh-workspace", "data"), State("dw-tmin", "value"),
+          State("dw-tmax", "value"), State("dw-step", "value"), State("dw-masses", "value"),
+          State("dw-distance", "value"), State("dw-format", "value"), prevent_initial_call=True)
+@reported(lambda message: (no_update, c.message_items([("error", message)])))
+def download(_clicks, workspace, t_min, t_max, step, masses_text, distance, fmt):
+    """The displacement table with provenance and cautions."""
+    current = session.active(workspace)
+    if current is None:
+        return no_update, c.no_data_note()
+    name, content = export_bytes(current, temperature_range(t_min, t_max, step), masses_text, distance, fmt)
+    return dcc.send_bytes(content, name), c.message_items([("info", f"prepared {name}")])
 
 
 c.follow_image_format(*_GRAPHS)
