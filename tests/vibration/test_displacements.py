@@ -205,3 +205,12 @@ def test_formula_counts_and_isotope_override():
     ratio = heavy["O"]["classical"][0] / plain["O"]["classical"][0]
     assert ratio == pytest.approx(plain["O"]["mass_amu"] / 18.0, rel=1e-12)
     assert plain["Mg"]["atoms"] == 1.0 and plain["O"]["atoms"] == 1.0
+
+
+def test_one_species_with_two_atoms_per_formula_unit():
+    # Two identical atoms per formula unit (6 modes, both Debye): each follows Willis and Pryor.
+    dos = load_dos(dos_text(*debye_table(THETA, atoms=2)), atoms=2)
+    r = mean_square_displacement(dos, [0.0, 300.0], masses={"X": MASS})["X"]
+    np.testing.assert_allclose(r["msd"], [willis_pryor_msd(0.0), willis_pryor_msd(300.0 / THETA)], rtol=1e-5)
+    same = mean_square_displacement(dos, [0.0, 300.0], formula="Si2")["Si"]
+    assert same["atoms"] == 2.0

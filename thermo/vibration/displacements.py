@@ -113,9 +113,12 @@ def _parts(dos, formula, masses, species=None):
         counts = _counts_from_formula(formula)
         label = next(iter(counts)) if len(counts) == 1 else ALL_ATOMS
         return [(label, dos.dos, 1.0, molar_mass / atoms, float(atoms))]
-    if len(masses) == 1 and dos.atoms == 1:
+    if len(masses) == 1:                      # one species, however many atoms per formula unit
         (name, mass), = masses.items()
-        return [(name, dos.dos, 1.0, float(mass), 1.0)]
+        return [(name, dos.dos, 1.0, float(mass), float(dos.atoms))]
+    if masses:
+        raise OptionError(f"{len(masses)} masses given but the DOS has no partial columns; give the chemical "
+                          "formula for the mass-weighted mean, or one mass for a one-species crystal")
     raise OptionError("atomic masses are needed: give the chemical formula, or the mass of each species")
 
 
