@@ -8,7 +8,6 @@ when the neighbour distance makes √⟨u²⟩/d exceed 0.1 (common practice).
 import numpy as np
 import pytest
 from dash.testing.wait import until
-from selenium.webdriver.common.by import By
 from selenium.webdriver.common.keys import Keys
 
 from tests.browser.test_dashboard import drawn, heading, no_console_errors, values
