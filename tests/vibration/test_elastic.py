@@ -16,9 +16,14 @@ from thermo.vibration.lindemann import lindemann_warnings, nearest_neighbour_dis
 def test_anderson_theta_for_aluminium():
     # Handbook values, FROM MEMORY: aluminium elastic constants extrapolated to 0 K,
     # C11 = 114.3, C12 = 61.92, C44 = 31.62 GPa (Kamm and Alers 1964), density 2.733 g/cm³
-    # at 0 K; molar mass 26.98 g/mol (IUPAC).  Anderson, J. Phys. Chem. Solids 24, 909 (1963)
-    # compares such elastic θ_D with θ_D ≈ 428 K (the 0 K value, FROM MEMORY); within 1 %.
-    r = elastic_debye_temperature(2.733, 26.98, 1, c11=114.3, c12=61.92, c44=31.62)
+    # at 0 K; molar mass from periodictable (IUPAC).  Expected θ_D = 428 K, the low-temperature
+    # θ_D of aluminium quoted in handbooks (e.g. Kittel, Introduction to Solid State Physics,
+    # Table 5.1), FROM MEMORY; Anderson, J. Phys. Chem. Solids 24, 909 (1963) tabulates elastic
+    # θ_D of this kind beside the calorimetric ones.  His exact table entry was not checked
+    # (no copy at hand).  Tolerance 1 % as the issue asks; ours gives 430.8 K (+0.65 %).
+    from thermo.formula import formula_unit
+    mass, atoms = formula_unit("Al")
+    r = elastic_debye_temperature(2.733, mass, atoms, c11=114.3, c12=61.92, c44=31.62)
     assert r["theta_K"] == pytest.approx(428.0, rel=0.01)
 
 
