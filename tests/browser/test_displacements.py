@@ -10,7 +10,9 @@ import pytest
 from dash.testing.wait import until
 from selenium.webdriver.common.keys import Keys
 
-from tests.browser.test_dashboard import drawn, heading, no_console_errors, values
+from selenium.webdriver.common.by import By
+
+from tests.browser.test_dashboard import drawn, heading, js_graph, no_console_errors, values
 from thermo import load_dos
 from thermo.vibration.displacements import mean_square_displacement
 from webapp.app import create_app
@@ -32,6 +34,12 @@ def test_displacements_page_draws_demo_and_warns(dash_duo):
     dos = load_dos(DEMO_DIR / "lightheavy_rocksalt.tsv")
     want = mean_square_displacement(dos, np.arange(0.0, 1001.0, 10.0), masses={"Ly": 12.4, "Hv": 88.6})
     np.testing.assert_allclose(values(dash_duo.driver, "dw-msd-graph", 0), want["Ly"]["msd"], rtol=1e-9)
+
+    for g in graphs:   # titled axes, as on every page
+        assert js_graph(dash_duo.driver, g, "gd.layout.xaxis.title.text") == "temperature T [K]"
+    unnamed = [e.get_attribute("id") for e in dash_duo.driver.find_elements(
+        By.CSS_SELECTOR, ".mh-page input, .mh-page button") if e.is_displayed() and not e.accessible_name.strip()]
+    assert unnamed == []
 
     field = dash_duo.find_element("#dw-distance")
     field.send_keys("1.5", Keys.ENTER)
