@@ -207,3 +207,16 @@ register_quantity("helmholtz_energy", "F", "energy", description="Helmholtz ener
 register_quantity("enthalpy", "H", "energy", description="enthalpy")
 register_quantity("gibbs_energy", "G", "energy", description="Gibbs energy")
 register_quantity("zero_point_energy", "E_0", "energy", description="zero-point energy")
+
+# --- displacements (thermo/vibration) ---
+register_quantity("species", "species", "fixed", description="atomic species (or the mass-weighted mean)")
+register_quantity("mean_square_displacement", "⟨u²⟩", "fixed", "Å²", "A2",
+                  "total mean-square displacement of an atom (sum of three directions)")
+register_quantity("isotropic_displacement", "U_iso", "fixed", "Å²", "A2",
+                  "isotropic displacement parameter, ⟨u²⟩/3 (per direction)")
+register_quantity("debye_waller_b", "B", "fixed", "Å²", "A2", "isotropic Debye–Waller factor 8π²U_iso")
+register_quantity("classical_mean_square_displacement", "⟨u²⟩ classical", "fixed", "Å²", "A2",
+                  "high-temperature limit k_BT/(m n) ∫ g/ω² of ⟨u²⟩")
+register_quantity("debye_waller_temperature", "θ_M", "fixed", "K", "K",
+                  "Debye temperature giving the same ⟨u²⟩ at T")
+register_quantity("lindemann_ratio", "√⟨u²⟩/d", "fixed", description="rms displacement over nearest-neighbour distance")

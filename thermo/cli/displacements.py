@@ -1,0 +1,60 @@
+"""``modeheat displacements``: ⟨u²⟩, U_iso, B and θ_M per species from a (partial) DOS."""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+from .options import add_input_options, add_temperature_option, load_from_args, report_warnings
+
+
+def register(sub):
+    p = sub.add_parser("displacements",
+                       help="mean-square displacements ⟨u²⟩, U_iso, Debye–Waller B and θ_M per species vs T")
+    add_input_options(p)
+    add_temperature_option(p, default="0:1000:10")
+    p.add_argument("--formula", help="chemical formula of the formula unit (masses and atom counts), e.g. MgO")
+    p.add_argument("--masses", metavar="S=M,...",
+                   help="mass of each species in u, e.g. Ly=12.4,Hv=88.6 (isotopes, invented species)")
+    p.add_argument("--species-columns", metavar="S,...",
+                   help="partial-DOS columns to report (default: all partial columns)")
+    where = p.add_mutually_exclusive_group()
+    where.add_argument("--distance", type=float, metavar="D",
+                       help="nearest-neighbour distance in Å (adds the Lindemann ratio)")
+    where.add_argument("--lattice", metavar="TYPE:A",
+                       help="lattice and parameter a in Å, e.g. fcc:3.61 (d from the cell; sc, bcc, fcc, hcp, "
+                            "rocksalt, cscl, diamond, zincblende)")
+    p.add_argument("--format", default="csv", choices=["csv", "json", "xlsx"], help="table format (default csv)")
+    p.add_argument("--output", metavar="PATH", help="write here (default: stdout for csv/json)")
+    p.add_argument("--force", action="store_true", help="replace an existing output file")
+    p.set_defaults(func=run)
+
+
+def run(args) -> int:
+    from ..errors import OptionError
+    from ..io.writers import export_table, write_table
+    from ..temperatures import parse_temperatures
+    from ..vibration.displacements import displacement_provenance, displacement_summary, displacement_table
+    from ..vibration.inputs import parse_distance, parse_masses, parse_species
+
+    temperatures = parse_temperatures(args.temperatures)
+    if args.output and not args.force and Path(args.output).exists():
+        raise OptionError(f"refusing to overwrite existing file {args.output}; use --force to replace it")
+    masses = parse_masses(args.masses)
+    distance = parse_distance(args.distance, args.lattice)
+    species = parse_species(args.species_columns)
+    dos = load_from_args(args)
+    table = displacement_table(dos, temperatures, args.formula, masses, distance, species)
+    summary = displacement_summary(dos, args.formula, masses, distance, temperatures, species)
+    report_warnings(dos)
+    for note in summary["warnings"]:
+        print(f"warning: {note}", file=sys.stderr)
+    info = displacement_provenance(dos, temperatures, args.formula, masses, distance, summary, species)
+    if args.output:
+        write_table(table, info, args.format, args.output, overwrite=args.force)
+        print(f"wrote {args.output}", file=sys.stderr)
+        return 0
+    if args.format == "xlsx":
+        raise OptionError("xlsx output needs --output PATH")
+    sys.stdout.write(export_table(table, info, args.format).decode("utf-8"))
+    return 0
