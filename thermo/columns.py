@@ -207,3 +207,7 @@ register_quantity("helmholtz_energy", "F", "energy", description="Helmholtz ener
 register_quantity("enthalpy", "H", "energy", description="enthalpy")
 register_quantity("gibbs_energy", "G", "energy", description="Gibbs energy")
 register_quantity("zero_point_energy", "E_0", "energy", description="zero-point energy")
+
+# --- polynomials (issue 14) ---
+register_quantity("enthalpy_increment", "H − H°(298.15 K)", "energy",
+                  description="enthalpy relative to its value at 298.15 K")
