@@ -14,7 +14,8 @@ import pytest
 
 from tests.spectra import band_plus_peaks
 from thermo.errors import OptionError
-from thermo.polynomials import cantera_yaml, fit_polynomial, harmonic_source
+from thermo.io.cantera_yaml import cantera_yaml
+from thermo.polynomials import fit_polynomial, harmonic_source
 
 ct = pytest.importorskip("cantera")
 TEMPERATURES = (300.0, 600.0, 1000.0, 1500.0)

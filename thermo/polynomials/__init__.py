@@ -3,15 +3,14 @@
 :mod:`.forms` (the published equations), :mod:`.sources` (harmonic table or
 any (T, C_p) table -> C_p, S, H − H(298.15)), :mod:`.fitting`
 (:func:`fit_polynomial`), :mod:`.result` (:class:`PolynomialFit`:
-coefficients, ``evaluate(T)``, errors), :mod:`.yamlblock` (Cantera YAML).
+coefficients, ``evaluate(T)``, errors).  Files: :mod:`thermo.io.cantera_yaml`.
 """
 
 from .fitting import DEFAULT_RANGE, fit_polynomial
 from .forms import KEYS, nasa7_properties, sgte_properties, shomate_properties
 from .result import FitRange, PolynomialFit
 from .sources import HeatCapacityData, harmonic_source, heat_capacity_source, source_from_table
-from .yamlblock import cantera_yaml
 
-__all__ = ["DEFAULT_RANGE", "FitRange", "HeatCapacityData", "KEYS", "PolynomialFit", "cantera_yaml",
+__all__ = ["DEFAULT_RANGE", "FitRange", "HeatCapacityData", "KEYS", "PolynomialFit",
            "fit_polynomial", "harmonic_source", "heat_capacity_source", "nasa7_properties",
            "sgte_properties", "shomate_properties", "source_from_table"]

@@ -17,7 +17,7 @@ from __future__ import annotations
 
 from ..errors import OptionError
 from ..formula import formula_unit
-from .forms import KEYS
+from ..polynomials.forms import KEYS
 
 #: Cantera model name of each form that has one.
 MODELS = {"nasa7": "NASA7", "shomate": "Shomate"}
@@ -79,7 +79,7 @@ def cantera_yaml(fit, formula):
 
     Examples
     --------
-    >>> from thermo.polynomials.result import FitRange, PolynomialFit
+    >>> from thermo.polynomials import FitRange, PolynomialFit
     >>> fit = PolynomialFit("shomate", (FitRange(298.15, 1000.0, dict(zip("ABCDEFGH", [30.0] + [0.0] * 7))),))
     >>> print(cantera_yaml(fit, "Cu").splitlines()[-6])
         model: Shomate
@@ -104,3 +104,51 @@ def cantera_yaml(fit, formula):
         lines.append("    - [" + ", ".join(repr(float(rng.coefficients[k])) for k in keys) + "]")
     lines.append(f"    note: modeheat fit, phase {fit.phase}")
     return "\n".join(lines) + "\n"
+
+
+def polynomial_export(fit, fmt, formula=None):
+    """A fit as file text: ``json`` (the record of :meth:`PolynomialFit.to_dict`),
+    ``csv`` (one row per coefficient, provenance lines first) or ``yaml`` (Cantera).
+
+    Parameters
+    ----------
+    fit : PolynomialFit
+    fmt : {'json', 'csv', 'yaml'}
+    formula : str, optional
+        Chemical formula (needed for ``yaml``; recorded otherwise).
+
+    Returns
+    -------
+    str
+
+    Raises
+    ------
+    OptionError
+        Unknown format, or as :func:`cantera_yaml`.
+
+    Examples
+    --------
+    >>> from thermo.polynomials import FitRange, PolynomialFit
+    >>> fit = PolynomialFit("sgte", (FitRange(298.15, 1000.0, dict(zip("abcdef", [1.0] * 6))),))
+    >>> polynomial_export(fit, "csv").splitlines()[-1]
+    '0,298.15,1000.0,f,1.0'
+    """
+    import json
+
+    import pandas as pd
+
+    from .writers import export_table
+
+    kind = str(fmt).lower()
+    if kind == "yaml":
+        return cantera_yaml(fit, formula)
+    record = fit.to_dict()
+    record["formula"] = formula
+    if kind == "json":
+        return json.dumps(record, indent=2, allow_nan=False, ensure_ascii=False) + "\n"
+    if kind != "csv":
+        raise OptionError(f"unknown polynomial format {fmt!r}; choose json, csv or yaml")
+    rows = [(i, r["T_min_K"], r["T_max_K"], key, value) for i, r in enumerate(record.pop("ranges"))
+            for key, value in r["coefficients"].items()]
+    table = pd.DataFrame(rows, columns=["range", "T_min_K", "T_max_K", "coefficient", "value"])
+    return export_table(table, record, "csv").decode("utf-8")
