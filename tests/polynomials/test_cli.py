@@ -93,8 +93,9 @@ def test_cp_table_input_gives_the_same_fit(capsys, tmp_path):
 @pytest.mark.parametrize("argv, text", [
     (("--form", "sgte", "--format", "yaml"), "no sgte model"),
     (("--format", "yaml"), "needs --formula"),
-    (("--range", "900:300"), "0 < LO < HI"),
-    (("--range", "abc"), "LO:HI"),
+    (("--range", "900:300"), "TMIN < TMAX"),
+    (("--range", "0:300"), "0 < LO < HI"),
+    (("--range", "abc"), "TMIN:TMAX"),
     (("--form", "nasa7", "--mid", "2000"), "must lie inside"),
 ])
 def test_bad_options_end_with_one_line(capsys, argv, text):

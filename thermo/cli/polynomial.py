@@ -33,23 +33,6 @@ def register(sub):
     p.set_defaults(func=run)
 
 
-def parse_range(text):
-    """``LO:HI`` in K as two floats.
-
-    Examples
-    --------
-    >>> parse_range("298.15:1500")
-    (298.15, 1500.0)
-    """
-    from ..errors import OptionError
-    parts = str(text).split(":")
-    try:
-        lo, hi = (float(v) for v in parts)
-    except ValueError:
-        raise OptionError(f"range {text!r} must be LO:HI in K") from None
-    return lo, hi
-
-
 def load_source(args, t_range):
     """The heat-capacity source named by the parsed options."""
     from ..polynomials import harmonic_source, source_from_table
@@ -68,8 +51,9 @@ def run(args) -> int:
     from ..io.cantera_yaml import polynomial_export, species_name
     from ..polynomials import fit_polynomial
     from ..polynomials.fitting import check_range
+    from .models import parse_fit_range
 
-    t_range = check_range(parse_range(args.range), args.form)
+    t_range = check_range(parse_fit_range(args.range), args.form)
     if args.format == "yaml" and args.form == "sgte":
         raise OptionError("Cantera's YAML schema has no sgte model; use --format json or csv for sgte")
     if args.format == "yaml" and not args.formula:
