@@ -56,6 +56,17 @@ def test_block_loads_unchanged_in_a_fixed_stoichiometry_phase(source, form):
         assert solid.gibbs_mole / 1e3 == pytest.approx(ours["gibbs_energy"][i], rel=1e-6)
 
 
+def test_two_range_shomate_loads_in_cantera(source):
+    fit = fit_polynomial(source, "shomate", (298.15, 1500.0), t_mid=700.0, formation_enthalpy=-601.6)
+    assert len(fit.ranges) == 2
+    thermo = ct.Species.list_from_yaml(cantera_yaml(fit, "MgO"), section="species")[0].thermo
+    ours = fit.properties(np.array(TEMPERATURES))
+    for i, t in enumerate(TEMPERATURES):
+        assert thermo.cp(t) / 1e3 == pytest.approx(ours["heat_capacity_p"][i], rel=1e-6)
+        assert thermo.h(t) / 1e3 == pytest.approx(ours["enthalpy"][i], rel=1e-6)
+        assert thermo.s(t) / 1e3 == pytest.approx(ours["entropy"][i], rel=1e-6)
+
+
 def test_sgte_has_no_cantera_model(source):
     fit = fit_polynomial(source, "sgte", (298.15, 1500.0))
     with pytest.raises(OptionError, match="no sgte model"):

@@ -98,6 +98,19 @@ def test_coefficients_reproduce_the_table(two_species, form):
     assert fit["errors"]["heat_capacity_p"]["max_relative"] == pytest.approx(np.max(_relative(cp, cp_ref)), rel=0.3, abs=2e-6)
 
 
+@pytest.mark.parametrize("form, formula", [("shomate", shomate), ("sgte", sgte)])
+def test_two_range_shomate_and_sgte_are_continuous_and_reproduce_the_table(two_species, form, formula):
+    dos, cp_ref, dh_ref, s_ref = two_species
+    fit = fit_polynomial(harmonic_source(dos, 298.15, 1500.0), form, (298.15, 1500.0), t_mid=700.0).to_dict()
+    lo, hi = fit["ranges"]
+    assert lo["T_max_K"] == hi["T_min_K"] == 700.0
+    for x, y in zip(formula(lo["coefficients"], 700.0), formula(hi["coefficients"], 700.0)):
+        assert x == pytest.approx(y, rel=1e-10)
+    values = np.array([formula((lo if T <= 700.0 else hi)["coefficients"], T) for T in T_CHECK]).T
+    assert np.max(_relative(values[0], cp_ref)) < 1e-3
+    assert np.max(_relative(values[2], s_ref)) < 1e-3
+
+
 def test_nasa7_is_continuous_at_the_midpoint(two_species):
     dos = two_species[0]
     fit = fit_polynomial(harmonic_source(dos, 298.15, 1500.0), "nasa7", (298.15, 1500.0), t_mid=800.0).to_dict()

@@ -21,7 +21,8 @@ def register(sub):
                    help="polynomial form (default shomate)")
     p.add_argument("--range", default="298.15:1500", metavar="LO:HI", help="fit range in K (default 298.15:1500)")
     p.add_argument("--mid", type=float, metavar="T",
-                   help="nasa7 common midpoint in K (default: geometric mean of the range, to 10 K)")
+                   help="common midpoint of two ranges in K: nasa7 always has two (default: geometric mean "
+                        "of the range, to 10 K); shomate and sgte get two ranges only with --mid")
     p.add_argument("--formation-enthalpy", type=float, default=0.0, metavar="KJ_PER_MOL",
                    help="enthalpy of formation at 298.15 K in kJ/mol (default 0: an element in its reference state)")
     p.add_argument("--phase", default="cr", metavar="LABEL", help="phase label, e.g. cr, alpha (default cr)")

@@ -4,9 +4,10 @@ Method (the same for every form): C_p is fitted by linear least squares in
 relative error over the range; then the two integration constants (H and S)
 are fixed by the source's values at the reference temperature (298.15 K when
 inside the range, else the first source point in it), so that H and S are exactly
-consistent with the fitted C_p.  The NASA 7-term fit has two ranges sharing
-a midpoint: C_p is constrained equal there and the upper range's constants
-make H and S continuous.
+consistent with the fitted C_p.  A fit of two ranges sharing a midpoint
+(always for NASA 7-term, on request for Shomate and SGTE) has C_p
+constrained equal there, and the upper range's constants make H and S
+continuous.
 
 References
 ----------
@@ -23,7 +24,7 @@ import numpy as np
 from scipy import constants as sc
 
 from ..errors import OptionError
-from .forms import BASES, KEYS, T_STANDARD, nasa7_properties
+from .forms import BASES, KEYS, PROPERTIES, T_STANDARD
 from .result import FitRange, PolynomialFit, fit_errors
 
 #: Lowest temperature [K] each form is meant for (common practice: WebBook Shomate and NASA
@@ -131,6 +132,15 @@ def _sgte(cp_coefficients, t_ref, h_ref, s_ref):
     return dict(zip(KEYS["sgte"], map(float, (a, b, c, d, e, f))))
 
 
+def _constants(form, cp_coefficients, t_ref, h_ref, s_ref, formation_kj):
+    """All coefficients of one range from its C_p part and H, S [J/mol, J/(mol·K)] at ``t_ref``."""
+    if form == "shomate":
+        return _shomate(cp_coefficients, t_ref, h_ref, s_ref, formation_kj)
+    if form == "nasa7":
+        return _nasa7(cp_coefficients, t_ref, h_ref, s_ref)
+    return _sgte(cp_coefficients, t_ref, h_ref, s_ref)
+
+
 def fit_polynomial(source, form="shomate", t_range=DEFAULT_RANGE, t_mid=None, formation_enthalpy=0.0,
                    phase="cr", name=None):
     """Fit one published polynomial form to a heat-capacity source.
@@ -144,8 +154,9 @@ def fit_polynomial(source, form="shomate", t_range=DEFAULT_RANGE, t_mid=None, fo
     t_range : (float, float)
         Fit range [K].
     t_mid : float, optional
-        NASA 7-term common midpoint [K] (default :func:`default_midpoint`);
-        ignored by the other forms.
+        Common midpoint of two ranges [K]: NASA 7-term always has two
+        (default :func:`default_midpoint`); Shomate and SGTE get two only
+        when it is given.
     formation_enthalpy : float
         Δ_fH°(298.15 K) [kJ/mol]; 0 for an element in its reference state.
     phase : str
@@ -166,8 +177,8 @@ def fit_polynomial(source, form="shomate", t_range=DEFAULT_RANGE, t_mid=None, fo
     Notes
     -----
     C_p minimises :math:`\\sum_i [(C_p^{fit}(T_i) - C_p(T_i))/C_p(T_i)]^2`
-    over the range (with :math:`C_p^{lo}(T_m) = C_p^{hi}(T_m)` for NASA
-    7-term [4]_); then with the reference temperature :math:`T_r`
+    over the range (with :math:`C_p^{lo}(T_m) = C_p^{hi}(T_m)` for two
+    ranges [4]_); then with the reference temperature :math:`T_r`
     (298.15 K if inside the range, else the first source point in it)
     :math:`H(T_r) = \\Delta_fH^\\circ + [H(T_r) - H(298.15)]_{source}` and
     :math:`S(T_r) = S_{source}(T_r)` fix the constants (Shomate F, G [2]_;
@@ -190,13 +201,12 @@ def fit_polynomial(source, form="shomate", t_range=DEFAULT_RANGE, t_mid=None, fo
         raise OptionError(f"only {data.temperature.size} source points lie in {lo:g}–{hi:g} K; at least 8 needed")
     if not np.all(data.heat_capacity > 0):
         raise OptionError("C_p must be positive over the fit range")
-    mid = None
-    if form == "nasa7":
-        mid = float(t_mid) if t_mid is not None else default_midpoint(lo, hi)
+    mid = float(t_mid) if t_mid is not None else (default_midpoint(lo, hi) if form == "nasa7" else None)
+    if mid is not None:
         if not lo < mid < hi:
-            raise OptionError(f"NASA midpoint {mid:g} K must lie inside the range {lo:g}–{hi:g} K")
+            raise OptionError(f"midpoint {mid:g} K must lie inside the range {lo:g}–{hi:g} K")
         if min((data.temperature <= mid).sum(), (data.temperature > mid).sum()) < 6:
-            raise OptionError(f"NASA midpoint {mid:g} K leaves fewer than 6 source points in one range")
+            raise OptionError(f"midpoint {mid:g} K leaves fewer than 6 source points in one range")
     # sources hold 298.15 K as a grid point; otherwise anchor at the first point of the range
     at = np.flatnonzero(np.isclose(data.temperature, T_STANDARD, rtol=0, atol=1e-9))
     i_ref = int(at[0]) if at.size else 0
@@ -204,15 +214,15 @@ def fit_polynomial(source, form="shomate", t_range=DEFAULT_RANGE, t_mid=None, fo
     h_inc_ref, s_ref = float(data.enthalpy_increment[i_ref]), float(data.entropy[i_ref])
     formation = float(formation_enthalpy)
     h_ref = 1e3 * formation + h_inc_ref
+    if mid is not None and mid <= t_ref:
+        raise OptionError(f"midpoint {mid:g} K must lie above the reference temperature {t_ref:g} K")
     cps = _cp_fit(form, data.temperature, data.heat_capacity, mid)
-    if form == "shomate":
-        ranges = [FitRange(lo, hi, _shomate(cps[0], t_ref, h_ref, s_ref, formation))]
-    elif form == "sgte":
-        ranges = [FitRange(lo, hi, _sgte(cps[0], t_ref, h_ref, s_ref))]
+    low = _constants(form, cps[0], t_ref, h_ref, s_ref, formation)
+    if mid is None:
+        ranges = [FitRange(lo, hi, low)]
     else:
-        low = _nasa7(cps[0], t_ref, h_ref, s_ref)
-        at_mid = nasa7_properties(low, mid)
-        high = _nasa7(cps[1], mid, float(at_mid["enthalpy"]), float(at_mid["entropy"]))
+        at_mid = PROPERTIES[form](low, mid)
+        high = _constants(form, cps[1], mid, float(at_mid["enthalpy"]), float(at_mid["entropy"]), formation)
         ranges = [FitRange(lo, mid, low), FitRange(mid, hi, high)]
     method = ("C_p least squares in relative error; H and S constants from the source at "
               f"{t_ref:g} K" + ("; C_p equal at the midpoint, H and S continuous" if mid else ""))
