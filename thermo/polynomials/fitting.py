@@ -162,7 +162,7 @@ def fit_polynomial(source, form="shomate", t_range=DEFAULT_RANGE, t_mid=None, fo
     phase : str
         Phase label (``cr``, ``alpha``, …), kept with the coefficients.
     name : str, optional
-        Species name; default from the source label.
+        Species name, e.g. ``MgO(cr)`` (default empty).
 
     Returns
     -------
@@ -227,7 +227,7 @@ def fit_polynomial(source, form="shomate", t_range=DEFAULT_RANGE, t_mid=None, fo
     method = ("C_p least squares in relative error; H and S constants from the source at "
               f"{t_ref:g} K" + ("; C_p equal at the midpoint, H and S continuous" if mid else ""))
     fit = PolynomialFit(form=form, ranges=tuple(ranges), formation_enthalpy_kJ_per_mol=formation,
-                        phase=str(phase or "cr"), name=name or source.label, reference_temperature_K=t_ref,
+                        phase=str(phase or "cr"), name=name or "", reference_temperature_K=t_ref,
                         source=source.label, method=method, errors={}, warnings=())
     errors = fit_errors(fit, data)
     return fit.with_report(errors, _warnings(form, lo, errors, source.notes, t_ref))
