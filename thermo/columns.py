@@ -220,3 +220,6 @@ register_quantity("classical_mean_square_displacement", "⟨u²⟩ classical", "
 register_quantity("debye_waller_temperature", "θ_M", "fixed", "K", "K",
                   "Debye temperature giving the same ⟨u²⟩ at T")
 register_quantity("lindemann_ratio", "√⟨u²⟩/d", "fixed", description="rms displacement over nearest-neighbour distance")
+# --- polynomials (issue 14) ---
+register_quantity("enthalpy_increment", "H − H°(298.15 K)", "energy",
+                  description="enthalpy relative to its value at 298.15 K")

@@ -6,8 +6,7 @@ order.
 """
 
 from .. import shell  # noqa: F401  (the app must exist before register_page)
-from . import compare, export, home, modemap, models, spectrum, thermodynamics
-from . import displacements
+from . import compare, displacements, export, home, modemap, models, polynomials, spectrum, thermodynamics
 
-PAGES = tuple(sorted((home, spectrum, thermodynamics, models, modemap, compare, export, displacements),
+PAGES = tuple(sorted((home, spectrum, thermodynamics, models, modemap, compare, export, displacements, polynomials),
                      key=lambda m: m.ORDER))

@@ -19,7 +19,7 @@ from .. import components as c
 from .. import figures as fg
 from ..reporting import reported
 
-PATH, NAME, ORDER = "/displacements", "Displacements", 7
+PATH, NAME, ORDER = "/displacements", "Displacements", 8
 
 #: Masses [u] of the invented species of the demo files (sample_dos/generate.py), used when the
 #: mass field is empty.

@@ -17,7 +17,7 @@ from .. import figures as fg
 from ..labels import axis_title
 from ..reporting import reported
 
-PATH, NAME, ORDER = "/export", "Export", 6
+PATH, NAME, ORDER = "/export", "Export", 10
 
 #: Value columns one may keep, by quantity key (the temperature column is always kept).
 VALUE_CHOICES = [{"label": "heat capacity C_v", "value": "heat_capacity_v"},

@@ -1,0 +1,154 @@
+"""A fitted polynomial as a species entry of Cantera's YAML input format.
+
+The schema is the documented, open YAML format of the Cantera library
+(species ``thermo`` models ``NASA7`` and ``Shomate``, keys ``model``,
+``reference-pressure``, ``temperature-ranges``, ``data``, ``note``); the
+SGTE Gibbs polynomial has no model there.
+
+References
+----------
+.. [1] D. G. Goodwin, H. K. Moffat, I. Schoegl, R. L. Speth and B. W. Weber,
+   Cantera: An Object-oriented Software Toolkit for Chemical Kinetics,
+   Thermodynamics, and Transport Processes, version 3.2.0 (2025),
+   "YAML input file reference: species thermo models", https://cantera.org.
+"""
+
+from __future__ import annotations
+
+from ..errors import OptionError
+from ..formula import formula_unit
+from ..polynomials.forms import KEYS
+
+#: Cantera model name of each form that has one.
+MODELS = {"nasa7": "NASA7", "shomate": "Shomate"}
+#: Standard-state pressure written with every block [Pa] (1 bar, IUPAC standard state).
+STANDARD_PRESSURE_PA = 1e5
+
+
+def composition(formula):
+    """Element counts of a formula as a YAML flow mapping, e.g. ``{Mg: 1, O: 1}``.
+
+    Examples
+    --------
+    >>> composition("Al2O3")
+    '{Al: 2, O: 3}'
+    """
+    import periodictable
+
+    formula_unit(formula)  # one-line error for a bad formula
+    atoms = periodictable.formula(str(formula).strip()).atoms
+    return "{" + ", ".join(f"{el.symbol}: {int(round(n))}" for el, n in atoms.items()) + "}"
+
+
+def species_name(formula, phase):
+    """Species name ``FORMULA(phase)``.
+
+    Examples
+    --------
+    >>> species_name("MgO", "cr")
+    'MgO(cr)'
+    """
+    return f"{str(formula).strip()}({str(phase).strip() or 'cr'})"
+
+
+def cantera_yaml(fit, formula):
+    """The ``species:`` block of a fit in Cantera's YAML format.
+
+    Parameters
+    ----------
+    fit : PolynomialFit
+        A Shomate or NASA 7-term fit.
+    formula : str
+        Chemical formula of the formula unit (the species composition).
+
+    Returns
+    -------
+    str
+        YAML text: comments with the fit quality and cautions, then
+        ``species:`` with one entry.
+
+    Raises
+    ------
+    OptionError
+        An SGTE fit (no Cantera model), or a missing or unreadable formula.
+
+    Notes
+    -----
+    Shomate data are the seven coefficients A–G (WebBook units); NASA7
+    data are a1–a7 per range, lowest range first.
+
+    Examples
+    --------
+    >>> from thermo.polynomials import FitRange, PolynomialFit
+    >>> fit = PolynomialFit("shomate", (FitRange(298.15, 1000.0, dict(zip("ABCDEFGH", [30.0] + [0.0] * 7))),))
+    >>> print(cantera_yaml(fit, "Cu").splitlines()[-6])
+        model: Shomate
+    """
+    if fit.form not in MODELS:
+        raise OptionError(f"Cantera's YAML schema has no {fit.form} model; use json or csv for it, "
+                          "or fit nasa7 or shomate for YAML")
+    if not formula:
+        raise OptionError("YAML output needs the chemical formula (the species composition): give --formula")
+    keys = KEYS[fit.form][:7]
+    bounds = [fit.ranges[0].T_min_K] + [r.T_max_K for r in fit.ranges]
+    lines = [f"# modeheat {fit.form} fit: {fit.method}",
+             f"# source: {fit.source}; formation enthalpy at 298.15 K: {fit.formation_enthalpy_kJ_per_mol:g} kJ/mol"]
+    for key, err in fit.errors.items():
+        lines.append(f"# {key}: max relative error {err['max_relative']:.3g}, rms {err['rms_relative']:.3g}")
+    lines += [f"# caution: {w}" for w in fit.warnings]
+    lines += ["species:", f"- name: {species_name(formula, fit.phase)}",
+              f"  composition: {composition(formula)}", "  thermo:", f"    model: {MODELS[fit.form]}",
+              f"    reference-pressure: {STANDARD_PRESSURE_PA:.6g}",
+              "    temperature-ranges: [" + ", ".join(repr(float(b)) for b in bounds) + "]", "    data:"]
+    for rng in fit.ranges:
+        lines.append("    - [" + ", ".join(repr(float(rng.coefficients[k])) for k in keys) + "]")
+    lines.append(f"    note: modeheat fit, phase {fit.phase}")
+    return "\n".join(lines) + "\n"
+
+
+def polynomial_export(fit, fmt, formula=None):
+    """A fit as file text: ``json`` (the record of :meth:`PolynomialFit.to_dict`),
+    ``csv`` (one row per coefficient, provenance lines first) or ``yaml`` (Cantera).
+
+    Parameters
+    ----------
+    fit : PolynomialFit
+    fmt : {'json', 'csv', 'yaml'}
+    formula : str, optional
+        Chemical formula (needed for ``yaml``; recorded otherwise).
+
+    Returns
+    -------
+    str
+
+    Raises
+    ------
+    OptionError
+        Unknown format, or as :func:`cantera_yaml`.
+
+    Examples
+    --------
+    >>> from thermo.polynomials import FitRange, PolynomialFit
+    >>> fit = PolynomialFit("sgte", (FitRange(298.15, 1000.0, dict(zip("abcdef", [1.0] * 6))),))
+    >>> polynomial_export(fit, "csv").splitlines()[-1]
+    '0,298.15,1000.0,f,1.0'
+    """
+    import json
+
+    import pandas as pd
+
+    from .writers import export_table
+
+    kind = str(fmt).lower()
+    if kind == "yaml":
+        return cantera_yaml(fit, formula)
+    record = fit.to_dict()
+    record["formula"] = formula
+    if kind == "json":
+        return json.dumps(record, indent=2, allow_nan=False, ensure_ascii=False) + "\n"
+    if kind != "csv":
+        raise OptionError(f"unknown polynomial format {fmt!r}; choose json, csv or yaml")
+    rows = [(i, r["T_min_K"], r["T_max_K"], key, value) for i, r in enumerate(record.pop("ranges"))
+            for key, value in r["coefficients"].items()]
+    table = pd.DataFrame(rows, columns=["range", "T_min_K", "T_max_K", "coefficient", "value"])
+    return export_table(table, record, "csv").decode("utf-8")

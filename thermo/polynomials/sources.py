@@ -1,0 +1,244 @@
+"""Heat-capacity sources for the polynomial fits: a harmonic table or any (T, C_p) table.
+
+A source is a :class:`HeatCapacityData`: C_p, S and H − H(298.15 K) on one
+temperature grid, per mole of formula units.  Any result that gives C_p
+versus T (harmonic table, quasi-harmonic C_p, a calorimetry fit) becomes a
+source through :func:`heat_capacity_source` or :func:`source_from_table`.
+
+References
+----------
+.. [1] D. C. Wallace, *Thermodynamics of Crystals* (Wiley, 1972), §4.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from scipy.interpolate import CubicSpline
+
+from ..columns import find
+from ..errors import OptionError
+from .forms import T_STANDARD
+
+#: Caution carried by every fit of a harmonic table.
+HARMONIC_CAUTION = ("C_p is taken as the harmonic C_v at fixed volume (no thermal expansion, "
+                    "anharmonicity, electrons or defects); at high T the real C_p is larger, "
+                    "most near melting — check against validated data before design use")
+
+
+@dataclass(frozen=True)
+class HeatCapacityData:
+    """C_p, S and H − H(298.15 K) of one phase on a temperature grid.
+
+    Attributes
+    ----------
+    temperature : numpy.ndarray
+        Increasing temperatures [K].
+    heat_capacity : numpy.ndarray
+        C_p [J/(mol·K)].
+    entropy : numpy.ndarray
+        S [J/(mol·K)].
+    enthalpy_increment : numpy.ndarray
+        H − H(298.15 K) [J/mol].
+    label : str
+        What the values are (shown in reports).
+    notes : tuple of str
+        Cautions that travel with every fit of this source.
+    """
+
+    temperature: np.ndarray
+    heat_capacity: np.ndarray
+    entropy: np.ndarray
+    enthalpy_increment: np.ndarray
+    label: str = "heat-capacity table"
+    notes: tuple = ()
+
+    def within(self, t_min, t_max):
+        """The points with t_min <= T <= t_max (a new :class:`HeatCapacityData`)."""
+        keep = (self.temperature >= t_min - 1e-9) & (self.temperature <= t_max + 1e-9)
+        return HeatCapacityData(self.temperature[keep], self.heat_capacity[keep], self.entropy[keep],
+                                self.enthalpy_increment[keep], self.label, self.notes)
+
+
+def fit_grid(t_min, t_max, points=400):
+    """Fit temperatures [K]: ``points`` evenly spaced on [t_min, t_max], plus 298.15 K inside.
+
+    Examples
+    --------
+    >>> g = fit_grid(200.0, 400.0, 3)
+    >>> g.tolist()
+    [200.0, 298.15, 300.0, 400.0]
+    """
+    t = np.linspace(float(t_min), float(t_max), int(points))
+    if t_min < T_STANDARD < t_max:
+        t = np.union1d(t, [T_STANDARD])
+    return t
+
+
+def harmonic_source(dos, t_min, t_max, points=400):
+    """Heat-capacity source of a phonon DOS in the harmonic approximation.
+
+    Parameters
+    ----------
+    dos : PhononDOS
+        Normalised DOS (see :func:`thermo.load_dos`).
+    t_min, t_max : float
+        Temperature range [K].
+    points : int
+        Grid points over the range.
+
+    Returns
+    -------
+    HeatCapacityData
+        C_p ≈ C_v, S and H − H(298.15) ≈ U − U(298.15) per mole of formula units.
+
+    Notes
+    -----
+    In the harmonic crystal at zero pressure :math:`C_p = C_v` and
+    :math:`H = U` (no thermal expansion, :math:`PV` negligible for a solid
+    at 1 bar) [1]_, so :math:`H - H_{298.15} = U(T) - U(298.15\\,\\mathrm{K})`.
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> nu = np.linspace(0.0, 5.0, 501)
+    >>> src = harmonic_source(PhononDOS(nu, 9 * nu ** 2 / 125, atoms=1), 298.15, 1000.0, 50)
+    >>> round(float(src.enthalpy_increment[0]), 6)
+    0.0
+    """
+    from ..tables import tabulate
+
+    t = fit_grid(t_min, t_max, points)
+    table = tabulate(dos, np.union1d(t, [T_STANDARD]))
+    temps = table[find(table, "temperature")].to_numpy()
+    u = table[find(table, "internal_energy", "formula")].to_numpy() * 1e3
+    u_ref = float(np.interp(T_STANDARD, temps, u))
+    keep = np.isin(temps, t)
+    notes = (HARMONIC_CAUTION,) + tuple(dos.warnings)
+    return HeatCapacityData(temps[keep], table[find(table, "heat_capacity_v", "formula")].to_numpy()[keep],
+                            table[find(table, "entropy", "formula")].to_numpy()[keep],
+                            (u - u_ref)[keep], f"harmonic table of {dos.source.get('name') or 'the DOS'}", notes)
+
+
+def heat_capacity_source(temperature, heat_capacity, entropy=None, entropy_298=None,
+                         label="C_p table", notes=()):
+    """Heat-capacity source from any (T, C_p) table.
+
+    Parameters
+    ----------
+    temperature : array_like
+        Increasing temperatures [K]; the range must include 298.15 K (added as
+        a point, by the spline, when it is not one).
+    heat_capacity : array_like
+        C_p [J/(mol·K)] per mole of formula units.
+    entropy : array_like, optional
+        S [J/(mol·K)] at the same temperatures (e.g. a third-law entropy).
+    entropy_298 : float, optional
+        S(298.15 K) [J/(mol·K)], needed when ``entropy`` is not given.
+    label : str
+        Description for reports.
+    notes : sequence of str
+        Cautions to carry.
+
+    Returns
+    -------
+    HeatCapacityData
+
+    Raises
+    ------
+    OptionError
+        Fewer than 4 points, temperatures not increasing, 298.15 K outside the
+        table, or no entropy reference.
+
+    Notes
+    -----
+    A cubic spline of C_p is integrated exactly:
+    :math:`H - H_{298.15} = \\int_{298.15}^{T} C_p\\,dT'` and, without a given
+    entropy, :math:`S = S_{298.15} + \\int_{298.15}^{T} (C_p/T')\\,dT'`.
+
+    Examples
+    --------
+    >>> t = np.linspace(250.0, 500.0, 11)
+    >>> src = heat_capacity_source(t, np.full(11, 25.0), entropy_298=30.0)
+    >>> round(float(src.enthalpy_increment[-1]), 3)     # 25 (500 - 298.15)
+    5046.25
+    """
+    t = np.asarray(temperature, dtype=float).ravel()
+    cp = np.asarray(heat_capacity, dtype=float).ravel()
+    if t.size < 4 or cp.size != t.size:
+        raise OptionError(f"a C_p table needs at least 4 (T, C_p) rows of equal length, got {t.size}")
+    if not (np.all(np.isfinite(t)) and np.all(np.isfinite(cp))):
+        raise OptionError("the C_p table has values that are not finite numbers")
+    if np.any(np.diff(t) <= 0) or t[0] <= 0:
+        raise OptionError("the C_p table's temperatures must be positive and increasing")
+    if not t[0] <= T_STANDARD <= t[-1]:
+        raise OptionError(f"the C_p table ({t[0]:g}–{t[-1]:g} K) must include 298.15 K, where H and S are referenced")
+    spline = CubicSpline(t, cp)
+    if not np.any(t == T_STANDARD):     # hold the reference point itself (H and S are anchored there)
+        at = int(np.searchsorted(t, T_STANDARD))
+        if entropy is not None:
+            entropy = np.insert(np.asarray(entropy, dtype=float).ravel(), at,
+                                CubicSpline(t, np.asarray(entropy, dtype=float).ravel())(T_STANDARD))
+        t, cp = np.insert(t, at, T_STANDARD), np.insert(cp, at, spline(T_STANDARD))
+    dh = spline.antiderivative()
+    h = dh(t) - dh(T_STANDARD)
+    if entropy is not None:
+        s = np.asarray(entropy, dtype=float).ravel()
+        if s.size != t.size or not np.all(np.isfinite(s)):
+            raise OptionError("the entropy column must be finite numbers beside every temperature")
+    else:
+        if entropy_298 is None:
+            raise OptionError("a C_p table without entropy needs S(298.15 K): give entropy_298 in J/(mol·K)")
+        ds = CubicSpline(t, cp / t).antiderivative()
+        s = float(entropy_298) + ds(t) - ds(T_STANDARD)
+    return HeatCapacityData(t, cp, s, h, label, tuple(notes))
+
+
+def source_from_table(table, entropy_298=None, label="C_p table"):
+    """Heat-capacity source from a table whose columns follow :mod:`thermo.columns`.
+
+    Parameters
+    ----------
+    table : pandas.DataFrame
+        Columns ``temperature_K`` and ``heat_capacity_p_J_per_mol_K`` (or
+        ``heat_capacity_v_J_per_mol_K``, then taken as C_p with a note);
+        ``entropy_J_per_mol_K`` optional.
+    entropy_298 : float, optional
+        S(298.15 K) [J/(mol·K)] when the table has no entropy.
+    label : str
+        Description for reports.
+
+    Returns
+    -------
+    HeatCapacityData
+
+    Raises
+    ------
+    OptionError
+        Missing columns (named), or as :func:`heat_capacity_source`.
+
+    Examples
+    --------
+    >>> import pandas as pd
+    >>> df = pd.DataFrame({"temperature_K": [250.0, 300, 400, 500], "heat_capacity_p_J_per_mol_K": [25.0] * 4})
+    >>> round(float(source_from_table(df, entropy_298=30.0).entropy[2]), 4)
+    30.1546
+    """
+    t = find(table, "temperature")
+    notes = []
+    try:
+        cp = find(table, "heat_capacity_p", "formula")
+    except OptionError:
+        try:
+            cp = find(table, "heat_capacity_v", "formula")
+        except OptionError:
+            raise OptionError("the table has no heat_capacity_p_J_per_mol_K (or heat_capacity_v_J_per_mol_K) "
+                              "column; values per mole of formula units are needed") from None
+        notes.append(f"column {cp} (C_v) taken as C_p")
+    try:
+        s = table[find(table, "entropy", "formula")].to_numpy(dtype=float)
+    except OptionError:
+        s = None
+    return heat_capacity_source(table[t].to_numpy(dtype=float), table[cp].to_numpy(dtype=float),
+                                entropy=s, entropy_298=entropy_298, label=label, notes=notes)

@@ -1,0 +1,163 @@
+"""Polynomials page: Shomate, NASA 7-term or SGTE coefficients of the active dataset, with the fit quality."""
+
+from __future__ import annotations
+
+import dash
+import numpy as np
+from dash import Input, Output, State, callback, dcc, html, no_update
+
+from thermo.errors import ModeheatError
+from thermo.io.cantera_yaml import polynomial_export, species_name
+from thermo.polynomials import fit_polynomial, harmonic_source
+
+from .. import cache, session
+from .. import components as c
+from .. import figures as fg
+from ..reporting import one_line, reported
+
+PATH, NAME, ORDER = "/polynomials", "Polynomials", 9
+
+FORM_CHOICES = [{"label": "Shomate", "value": "shomate"}, {"label": "NASA 7-term", "value": "nasa7"},
+                {"label": "SGTE (Gibbs energy)", "value": "sgte"}]
+OUTPUT_CHOICES = [{"label": "JSON", "value": "json"}, {"label": "CSV", "value": "csv"},
+                  {"label": "Cantera YAML", "value": "yaml"}]
+#: Compared quantities: error key, legend text.
+ERROR_CURVES = (("heat_capacity_p", "C_p"), ("enthalpy_increment", "H − H°(298.15 K)"), ("entropy", "S"))
+_GRAPHS = ("po-fit-graph", "po-error-graph")
+
+
+def _number(value, default):
+    return default if value in (None, "") else float(value)
+
+
+def fitted(dataset, form, t_min, t_max, t_mid, formation, phase, formula):
+    """The fit of a dataset (memoised by content, options and settings) and its source."""
+    lo, hi = _number(t_min, 298.15), _number(t_max, 1500.0)
+    mid = None if t_mid in (None, "") else float(t_mid)
+    name = species_name(formula, phase) if formula else None
+
+    def compute(dos):
+        source = harmonic_source(dos, lo, hi)
+        return source, fit_polynomial(source, form, (lo, hi), t_mid=mid, formation_enthalpy=_number(formation, 0.0),
+                                      phase=phase or "cr", name=name)
+    return cache.derived("polynomial", dataset, compute, form, lo, hi, mid, _number(formation, 0.0),
+                         phase or "cr", name)
+
+
+def figures(source, fit):
+    """C_p of the table with the fit overlaid, and the relative-error curves [%]."""
+    t = source.within(fit.t_min, fit.t_max).temperature
+    data = source.within(fit.t_min, fit.t_max)
+    p = fit.properties(t)
+    over = fg.figure("temperature T [K]", "C_p [J/(mol·K)]")
+    over.add_trace(fg.line(t, data.heat_capacity, "harmonic table (C_p = C_v)", 0, width=5))
+    over.add_trace(fg.line(t, p["heat_capacity_p"], f"{fit.form} fit", 1, dash="dash"))
+    for r in fit.ranges[1:]:
+        over.add_vline(x=r.T_min_K, line_dash="dot", line_color=fg.INK, annotation_text="midpoint")
+    err = fg.figure("temperature T [K]", "fit − table [% of table]")
+    sources = {"heat_capacity_p": data.heat_capacity, "enthalpy_increment": data.enthalpy_increment,
+               "entropy": data.entropy}
+    for k, (key, text) in enumerate(ERROR_CURVES):
+        ref = sources[key]
+        scale = np.maximum(np.abs(ref), 1e-3 * float(np.max(np.abs(ref))))
+        err.add_trace(fg.line(t, 100.0 * (p[key] - ref) / scale, text, k, hover="%{y:.3g} %"))
+    err.add_hrect(y0=-0.1, y1=0.1, fillcolor=fg.PALETTE[3], opacity=0.08, line_width=0,
+                  annotation_text="±0.1 %", annotation_position="top left")
+    return over, err
+
+
+def error_numbers(fit):
+    """Key numbers: maximum and RMS relative error of each compared quantity."""
+    return c.key_numbers([(f"{text}: max / rms error",
+                           f"{100 * fit.errors[key]['max_relative']:.3g} % / {100 * fit.errors[key]['rms_relative']:.2g} %")
+                          for key, text in ERROR_CURVES])
+
+
+def layout(**_query):
+    """The polynomials page."""
+    return c.page(
+        "Polynomials", "Coefficients of published polynomial forms fitted to the harmonic heat capacity of the "
+                       "active dataset, ready for thermochemical databases. C_p is fitted; H and S follow "
+                       "from it, anchored to the table at 298.15 K.",
+        c.active_slot("po"),
+        c.controls(c.radio("po-form", FORM_CHOICES, "shomate", "Form"),
+                   c.number("po-tmin", 298.15, "T from [K]", min_value=1),
+                   c.number("po-tmax", 1500, "T to [K]", min_value=1),
+                   c.number("po-mid", None, "Midpoint [K]",
+                            hint="two ranges; blank: one range, NASA √(T_from·T_to) to 10 K"),
+                   c.number("po-formation", 0, "Δ_fH°(298.15 K) [kJ/mol]", hint="0 for an element in its reference state"),
+                   c.text("po-phase", "cr", "Phase label"),
+                   c.text("po-formula", "", "Formula", placeholder="e.g. MgO", hint="needed for Cantera YAML")),
+        c.messages_panel("po-messages"),
+        html.P(c.CAUTION + " Polynomial coefficients carry the harmonic C_p (= C_v) further into database "
+                           "use; compare with validated data before a design decision.", className="mh-msg mh-msg-info"),
+        html.Div(id="po-keys"),
+        html.Div([c.graph("po-fit-graph", "C_p of the table and the fitted polynomial"),
+                  c.graph("po-error-graph", "Relative error of the fit: C_p, H − H°(298.15 K), S")],
+                 className="mh-grid"),
+        html.H2("Coefficients"),
+        c.controls(c.radio("po-output", OUTPUT_CHOICES, "json", "Block format")),
+        html.Div([html.Button("Download coefficients", id="po-download-btn", className="mh-button mh-primary"),
+                  dcc.Download(id="po-download"),
+                  dcc.Clipboard(target_id="po-block", title="copy the block", className="mh-copy")],
+                 className="mh-inline"),
+        dcc.Loading(html.Pre(id="po-block", className="mh-pre"), type="dot"),
+    )
+
+
+def _settings(form, t_min, t_max, t_mid, formation, phase, formula):
+    return form or "shomate", t_min, t_max, t_mid, formation, (phase or "cr").strip(), (formula or "").strip()
+
+
+def _failed(message):
+    blank = fg.message_figure("nothing to show for these settings")
+    return blank, blank, [], "", no_update, c.message_items([("error", message)])
+
+
+_SETTINGS = [Input("po-form", "value"), Input("po-tmin", "value"), Input("po-tmax", "value"),
+             Input("po-mid", "value"), Input("po-formation", "value"), Input("po-phase", "value"),
+             Input("po-formula", "value")]
+
+
+@callback(Output("po-fit-graph", "figure"), Output("po-error-graph", "figure"), Output("po-keys", "children"),
+          Output("po-block", "children"), Output("po-active", "children"), Output("po-messages", "children"),
+          Input("mh-workspace", "data"), *_SETTINGS, Input("po-output", "value"))
+@reported(_failed)
+def draw(workspace, form, t_min, t_max, t_mid, formation, phase, formula, output):
+    """Fit, overlay and error plots, key numbers, the coefficient block and the warnings."""
+    current = session.active(workspace)
+    if current is None:
+        blank = fg.message_figure("no dataset loaded")
+        return blank, blank, [], "", c.active_note(None), []
+    settings = _settings(form, t_min, t_max, t_mid, formation, phase, formula)
+    source, fit = fitted(current, *settings)
+    over, err = figures(source, fit)
+    messages = [("warning", w) for w in fit.warnings]
+    try:
+        block = polynomial_export(fit, output or "json", settings[-1] or None)
+    except ModeheatError as exc:  # a format this fit cannot take (SGTE or no formula for YAML): say so
+        block, messages = "", messages + [("error", one_line(exc))]
+    return over, err, error_numbers(fit), block, c.active_note(current), c.message_items(messages)
+
+
+@callback(Output("po-download", "data"), Output("po-messages", "children", allow_duplicate=True),
+          Input("po-download-btn", "n_clicks"), State("mh-workspace", "data"),
+          *[State(i.component_id, i.component_property) for i in _SETTINGS], State("po-output", "value"),
+          prevent_initial_call=True)
+@reported(lambda message: (no_update, c.message_items([("error", message)])))
+def download(_clicks, workspace, form, t_min, t_max, t_mid, formation, phase, formula, output):
+    """The coefficient file, as ``modeheat polynomial`` writes it."""
+    current = session.active(workspace)
+    if current is None:
+        return no_update, [c.no_data_note()]
+    settings = _settings(form, t_min, t_max, t_mid, formation, phase, formula)
+    _, fit = fitted(current, *settings)
+    fmt = output or "json"
+    text = polynomial_export(fit, fmt, settings[-1] or None)
+    stem = current["name"].rsplit(".", 1)[0] or "polynomial"
+    name = f"{stem}-{fit.form}.{fmt}"
+    return dcc.send_string(text, name), no_update
+
+
+c.follow_image_format(*_GRAPHS)
+dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)
