@@ -236,7 +236,7 @@ def path_values(surface, pressure_ev_a3):
     b = fit.bulk_modulus(safe)
     s_fit = VolumePolynomial.fit(v_all, surface.entropy_ev_per_k, fit.polynomial.reference)
     c_fit = VolumePolynomial.fit(v_all, surface.heat_capacity_ev_per_k, fit.polynomial.reference)
-    alpha = s_fit.derivative(safe) / b
+    alpha = s_fit.derivative(safe) / b + 0.0     # + 0.0: no signed zero at T = 0
     s = s_fit.value(safe)
     cv = c_fit.value(safe)
     cp = cv + alpha ** 2 * b * safe * t
