@@ -268,3 +268,34 @@ def _table(vs, surface, p, per, formula, diagnose, tolerance, pressure_gpa):
     df.attrs.update(per=per, formula=formula, pressure_GPa=float(pressure_gpa), eos=surface.fit.kind,
                     diagnostics=diagnose(vs, surface, outside, tolerance))
     return df
+
+
+def free_energy_curves(surface, pressure_gpa=0.0, points=81):
+    """F(V) at the sampled volumes, its fitted curve and the minimum, for plots.
+
+    Parameters
+    ----------
+    surface : FreeEnergySurface
+        From :func:`free_energy_surface` (usually at a few temperatures).
+    pressure_gpa : float
+        Pressure [GPa]; the curves show G = F + pV.
+    points : int
+        Volumes of each fitted curve.
+
+    Returns
+    -------
+    dict
+        ``volumes_A3`` (K,), ``sampled_eV`` (K, M), ``curve_volumes_A3`` (points,),
+        ``curve_eV`` (M, points), ``minimum_volume_A3`` and ``minimum_eV`` (M,),
+        all per formula unit; NaN where no minimum was found.
+    """
+    p = float(pressure_gpa) / GPA_PER_EV_A3
+    v = surface.volumes_a3
+    grid = np.linspace(v.min(), v.max(), int(points))
+    m = surface.temperatures_k.size
+    v_min = equilibrium_volume(surface.fit, p, v.min(), v.max())
+    safe = np.where(np.isfinite(v_min), v_min, np.median(v))
+    g_min = np.where(np.isfinite(v_min), surface.fit.energy(safe) + p * safe, np.nan)
+    return {"volumes_A3": v, "sampled_eV": surface.helmholtz_ev + p * v[:, None], "curve_volumes_A3": grid,
+            "curve_eV": surface.fit.energy(np.broadcast_to(grid, (m, grid.size))) + p * grid,
+            "minimum_volume_A3": v_min, "minimum_eV": g_min}

@@ -18,7 +18,8 @@ GUIDE = [("/spectrum", "Spectrum", "load DOS files, set units and atoms, check i
          ("/models", "Models", "Einstein, Debye and composite models against the DOS, every θ with its definition"),
          ("/modes", "Mode map", "which frequencies carry the heat capacity and entropy at each temperature"),
          ("/compare", "Compare", "several datasets overlaid, differences against a reference"),
-         ("/export", "Export", "tables as CSV, XLSX or JSON with provenance; figure image format")]
+         ("/export", "Export", "tables as CSV, XLSX or JSON with provenance; figure image format"),
+         ("/quasiharmonic", "Quasi-harmonic", "DOS at several volumes: V(T), thermal expansion, B_T, C_p, G, γ")]
 
 
 def layout(**_query):
