@@ -269,40 +269,79 @@ def fit_eos(volumes, energies, kind="birch-murnaghan"):
 
 
 def _fit_vinet(v, f, poly):
-    m = f.shape[1]
-    out = np.full((4, m), np.nan)
-    scale = np.array([1.0, float(np.median(v)), 0.5, 4.0])
-    guess = None
-    for j in range(m):
-        start = _start_from_polynomial(v, f[:, j], poly, j) if guess is None else guess
-        if start is None:
-            continue
-
-        def misfit(p, col=f[:, j]):
-            e0, v0, b0, bp = p * scale
-            return vinet_energy(v, e0, v0, b0, bp) - col
-
-        sol = least_squares(misfit, start / scale, method="lm", xtol=1e-14, ftol=1e-14, gtol=1e-14)
-        params = sol.x * scale
-        if np.all(np.isfinite(params)) and params[2] > 0 and params[3] > 1:
-            out[:, j] = params
-            guess = params
-        else:
-            guess = None
-    return out
+    """Vinet parameters (4, M): Levenberg–Marquardt on all temperatures at once, per-T fallback."""
+    start = _start_from_polynomial(v, poly)
+    params = _levenberg_marquardt(v, f, start)
+    bad = ~(np.all(np.isfinite(params), axis=0) & (params[2] > 0) & (params[3] > 1))
+    for j in np.flatnonzero(bad):
+        params[:, j] = _fit_vinet_one(v, f[:, j], start[:, j])
+    return params
 
 
-def _start_from_polynomial(v, col, poly, j):
+def _vinet_misfit(v, f, p):
+    return vinet_energy(v[:, None], p[0], p[1], p[2], p[3]) - f
+
+
+def _levenberg_marquardt(v, f, start, iterations=60):
+    scale = np.abs(start) + np.array([1.0, 0.0, 0.0, 0.0])[:, None]
+    x = start / scale
+    lam = np.full(f.shape[1], 1e-3)
+    with np.errstate(all="ignore"):
+        r = _vinet_misfit(v, f, x * scale)
+        cost = np.sum(r * r, axis=0)
+        for _ in range(iterations):
+            jac = np.empty(r.shape + (4,))
+            for k in range(4):
+                step = np.zeros_like(x)
+                step[k] = 1e-7
+                jac[..., k] = (_vinet_misfit(v, f, (x + step) * scale) - r) / 1e-7
+            jt = np.moveaxis(jac, 0, 1)                              # (M, K, 4)
+            a = np.einsum("mki,mkj->mij", jt, jt)
+            g = np.einsum("mki,km->mi", jt, r)
+            a_damped = a + lam[:, None, None] * np.eye(4) * np.diagonal(a, axis1=1, axis2=2)[:, :, None]
+            delta = -np.linalg.solve(a_damped + 1e-300 * np.eye(4), g[..., None])[..., 0].T
+            trial = x + delta
+            r_trial = _vinet_misfit(v, f, trial * scale)
+            cost_trial = np.sum(r_trial * r_trial, axis=0)
+            better = np.isfinite(cost_trial) & (cost_trial <= cost)
+            x = np.where(better, trial, x)
+            r = np.where(better, r_trial, r)
+            done = better & (np.max(np.abs(delta), axis=0) < 1e-12)
+            cost = np.where(better, cost_trial, cost)
+            lam = np.where(better, lam / 3, lam * 4)
+            if np.all(done | (lam > 1e12)):
+                break
+    return x * scale
+
+
+def _fit_vinet_one(v, col, start):
+    if not np.all(np.isfinite(start)):
+        return np.full(4, np.nan)
+    scale = np.abs(start) + np.array([1.0, 0.0, 0.0, 0.0])
+
+    def misfit(p):
+        e0, v0, b0, bp = p * scale
+        return vinet_energy(v, e0, v0, b0, bp) - col
+
+    params = least_squares(misfit, start / scale, method="lm", xtol=1e-14, ftol=1e-14, gtol=1e-14).x * scale
+    ok = np.all(np.isfinite(params)) and params[2] > 0 and params[3] > 1
+    return params if ok else np.full(4, np.nan)
+
+
+def _start_from_polynomial(v, poly):
+    """E_0, V_0, B_0, B_0' (4, M) of the Birch–Murnaghan fits, the start of the Vinet fits."""
+    m = poly.coefficients.shape[1]
     grid = np.linspace(v.min(), v.max(), 201)
-    one = VolumePolynomial(poly.coefficients[:, j:j + 1], poly.reference)
-    e = one.value(grid[None, :])[0]
-    k = int(np.argmin(e))
-    fit = EosFit("birch-murnaghan", one, None, np.zeros(1))
-    v0 = grid[k]
-    b0 = float(fit.bulk_modulus(np.array([v0]))[0])
-    if not b0 > 0:
-        return None
+    fit = EosFit("birch-murnaghan", poly, None, np.zeros(m))
+    e = poly.value(np.broadcast_to(grid, (m, grid.size)))
+    v0 = grid[np.argmin(e, axis=1)]
+    for _ in range(8):      # Newton steps on P(V0) = 0
+        b = fit.bulk_modulus(v0)
+        v0 = np.clip(v0 + fit.pressure(v0) * v0 / np.where(b > 0, b, np.nan), v.min() * 0.8, v.max() * 1.2)
+    b0 = fit.bulk_modulus(v0)
     h = 1e-3 * v0
-    bp = float((fit.bulk_modulus(np.array([v0 + h])) - fit.bulk_modulus(np.array([v0 - h])))[0]
-               / (fit.pressure(np.array([v0 + h])) - fit.pressure(np.array([v0 - h])))[0])
-    return np.array([float(e[k]), v0, b0, bp if 1.5 < bp < 15 else 4.0])
+    bp = (fit.bulk_modulus(v0 + h) - fit.bulk_modulus(v0 - h)) / (fit.pressure(v0 + h) - fit.pressure(v0 - h))
+    bp = np.where((bp > 1.5) & (bp < 15), bp, 4.0)
+    start = np.array([poly.value(v0), v0, b0, bp])
+    start[:, ~(b0 > 0)] = np.nan
+    return start
