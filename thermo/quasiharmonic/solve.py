@@ -79,6 +79,16 @@ def free_energy_surface(volume_set, temperatures, eos="birch-murnaghan", method=
     Notes
     -----
     .. math:: F(V,T) = E(V) + E_0(V) + k_BT\\int g_V(\\nu)\\ln\\left(1-e^{-h\\nu/k_BT}\\right)d\\nu
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> from thermo.quasiharmonic.volumeset import make_volume_set
+    >>> nu = np.linspace(0.0, 5.0, 101)
+    >>> vs = make_volume_set([(v, 0.0, PhononDOS(nu, 9 * nu**2 / 125, atoms=1)) for v in (18, 19, 20, 21, 22)])
+    >>> s = free_energy_surface(vs, [0.0, 300.0])
+    >>> s.helmholtz_ev.shape, bool(s.helmholtz_ev[0, 1] < s.helmholtz_ev[0, 0])
+    ((5, 2), True)
     """
     t = check_temperatures(temperatures)
     eos = check_eos(eos)
@@ -114,6 +124,14 @@ def equilibrium_volume(fit, pressure_ev_a3, v_low, v_high):
     -----
     A coarse search on 241 volumes brackets the minimum, then Newton steps on
     :math:`P(V) = p` with :math:`dP/dV = -B/V` polish it.
+
+    Examples
+    --------
+    >>> from thermo.quasiharmonic.eos import birch_murnaghan_energy
+    >>> v = np.linspace(18.0, 22.0, 9)
+    >>> fit = fit_eos(v, birch_murnaghan_energy(v, 0.0, 20.3, 0.6, 4.0)[:, None])
+    >>> round(float(equilibrium_volume(fit, 0.0, 18.0, 22.0)[0]), 9)
+    20.3
     """
     m = fit.residual_rms.size
     grid = np.linspace(v_low * (1 - _MARGIN), v_high * (1 + _MARGIN), _POINTS)
@@ -288,6 +306,18 @@ def free_energy_curves(surface, pressure_gpa=0.0, points=81):
         ``volumes_A3`` (K,), ``sampled_eV`` (K, M), ``curve_volumes_A3`` (points,),
         ``curve_eV`` (M, points), ``minimum_volume_A3`` and ``minimum_eV`` (M,),
         all per formula unit; NaN where no minimum was found.
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> from thermo.quasiharmonic.eos import birch_murnaghan_energy
+    >>> from thermo.quasiharmonic.volumeset import make_volume_set
+    >>> nu = np.linspace(0.0, 5.0, 101)       # the same DOS at every volume: F_vib does not move the minimum
+    >>> vs = make_volume_set([(v, float(birch_murnaghan_energy(v, 0.0, 20.0, 0.6, 4.0)), PhononDOS(nu, 9 * nu**2 / 125, atoms=1))
+    ...                       for v in (18, 19, 20, 21, 22)])
+    >>> curves = free_energy_curves(free_energy_surface(vs, [0.0]))
+    >>> round(float(curves["minimum_volume_A3"][0]), 6)
+    20.0
     """
     p = float(pressure_gpa) / GPA_PER_EV_A3
     v = surface.volumes_a3

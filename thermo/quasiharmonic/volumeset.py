@@ -180,6 +180,16 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative="drop
         Unreadable manifest or DOS (one line naming the file and line).
     OptionError
         Fewer than 5 volumes, repeated volumes, inconsistent atoms.
+
+    Examples
+    --------
+    >>> nu = np.linspace(0.0, 6.0, 301)
+    >>> dos = "frequency_THz total\\n" + "\\n".join(f"{a} {9 * a * a / 216}" for a in nu)
+    >>> rows = "\\n".join(f"{19 + k},{0.01 * (k - 2) ** 2},v{k}.dat" for k in range(5))
+    >>> vs = read_manifest("volume_A3,energy_eV,dos_file\\n" + rows + "\\n",
+    ...                    files={f"v{k}.dat": dos.encode() for k in range(5)})
+    >>> vs.volumes_a3.tolist(), vs.atoms
+    ([19.0, 20.0, 21.0, 22.0, 23.0], 1)
     """
     if isinstance(source, bytes):
         raw, folder, shown = source, None, name or "<manifest>"
