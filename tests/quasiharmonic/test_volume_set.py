@@ -16,9 +16,9 @@ def write_set(folder, volumes=ds.VOLUMES, energy_column="energy_eV", factor=1.0,
     lines = ["# invented Debye volume set", delimiter.join(["volume_A3", energy_column, "dos_file"])]
     for i, v in enumerate(volumes):
         nu, g = debye_table(ds.theta(v), 1, 801)
-        if i == negative_at:      # 5 % of the modes moved to imaginary frequencies
-            nu = np.concatenate([[-1.0, -0.5], nu[1:]])
-            g = np.concatenate([[0.0, 0.3], g[1:] * 0.95])
+        if i == negative_at:      # 5 % of the 3 modes moved to imaginary frequencies (triangle of area 0.15)
+            nu = np.concatenate([[-1.0, -0.5], nu])
+            g = np.concatenate([[0.0, 0.3], g * 0.95])
         name = f"d{i}.dat"
         (folder / name).write_text(dos_text(nu, g), encoding="utf-8")
         lines.append(delimiter.join([repr(float(v)), repr(float(ds.static_energy(v)) / factor), name]))

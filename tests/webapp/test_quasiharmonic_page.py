@@ -21,13 +21,13 @@ from webapp import intake, session
 from webapp.pages import quasiharmonic as qh
 
 SETTINGS = dict(t_min=0, t_max=600, step=50, pressure=0, eos="birch-murnaghan", per="formula", negative="drop",
-                formula=None)
+                formula=None, tolerance=1)
 
 
 def draw(record, source="manifest", rows=None, workspace=None, **change):
     s = {**SETTINGS, **change}
     return qh.draw(record, source, rows or [], workspace, s["t_min"], s["t_max"], s["step"], s["pressure"],
-                   s["eos"], s["per"], s["negative"], s["formula"])
+                   s["eos"], s["per"], s["negative"], s["formula"], s["tolerance"])
 
 
 def as_urls(paths):
@@ -71,13 +71,25 @@ def test_loaded_datasets_with_typed_volumes(tmp_path):
 
 def test_download_equals_command_line(tmp_path, capsys):
     record = qh.demo_set()
-    sent, _ = qh.download(1, record, "manifest", [], None, 0, 600, 50, 1.5, "vinet", "atom", "drop", None, "csv")
+    sent, _ = qh.download(1, record, "manifest", [], None, 0, 600, 50, 1.5, "vinet", "atom", "drop", None, 0.5,
+                          "csv")
     page_table, page_info = read_exported_csv(base64.b64decode(sent["content"]))
     assert main(["quasiharmonic", str(qh.DEMO_MANIFEST), "--temperatures", "0:600:50", "--pressure", "1.5",
-                 "--eos", "vinet", "--per", "atom"]) == 0
+                 "--eos", "vinet", "--per", "atom", "--imaginary-tolerance", "0.005"]) == 0
     cli_table, cli_info = read_exported_csv(capsys.readouterr().out.encode())
     assert sent["filename"] == "springium_volumes-quasiharmonic-atom.csv"
     assert list(page_table.columns) == list(cli_table.columns)
     np.testing.assert_allclose(page_table.to_numpy(float), cli_table.to_numpy(float), rtol=1e-12)
     assert {k: v for k, v in page_info.items() if k != "created_utc"} == \
         {k: v for k, v in cli_info.items() if k != "created_utc"}
+
+
+def test_imaginary_tolerance_field(tmp_path):
+    manifest = write_set(tmp_path, negative_at=10)      # 5 % imaginary modes at the largest volume
+    names, urls = as_urls([manifest, *sorted(tmp_path.glob("d*.dat"))])
+    record = qh.set_from_uploads(names, urls)
+    listed = [m.children for m in draw(record, tolerance=1)[-1]]
+    assert any("d10.dat" in t and "imaginary" in t and "tolerance 1 %" in t for t in listed)
+    quiet = [m.children for m in draw(record, tolerance=10)[-1]]
+    assert not any("tolerance" in t for t in quiet)
+    assert "between 0 and 100" in draw(qh.demo_set(), tolerance=150)[-1][0].children

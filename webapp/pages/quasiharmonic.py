@@ -11,7 +11,7 @@ import dash
 from dash import Input, Output, State, callback, dash_table, dcc, html, no_update
 
 from thermo.columns import find
-from thermo.errors import DosInputError
+from thermo.errors import DosInputError, OptionError
 from thermo.io.writers import export_table
 from thermo.quasiharmonic import (CAUTIONS, free_energy_curves, free_energy_surface, make_volume_set,
                                   quasiharmonic_table, read_manifest)
@@ -83,17 +83,19 @@ def _volume_set(record, source, rows, workspace, negative):
                          name=manifest["name"])
 
 
-def results(record, source, rows, workspace, temperatures, pressure, eos, per, negative, formula=None):
+def results(record, source, rows, workspace, temperatures, pressure, eos, per, negative, formula=None,
+            tolerance_percent=1.0):
     """(volume set, table, F(V) curves), memoised on content and settings."""
     digest = hashlib.sha256(json.dumps([record if source == "manifest" else None, rows if source == "datasets"
                                         else None, [d["sha256"] for d in (workspace or {}).get("datasets", [])]
                                         if source == "datasets" else None], sort_keys=True).encode()).hexdigest()
-    key = (digest, source, tuple(temperatures.tolist()), float(pressure), eos, per, negative, formula)
+    tolerance = _tolerance(tolerance_percent)
+    key = (digest, source, tuple(temperatures.tolist()), float(pressure), eos, per, negative, formula, tolerance)
 
     def compute():
         vs = _volume_set(record, source, rows, workspace, negative)
         table = quasiharmonic_table(vs, temperatures, pressure_gpa=pressure, eos=eos, per=per,
-                                    formula=formula)
+                                    formula=formula, imaginary_tolerance=tolerance)
         shown = [t for t in CURVE_TEMPERATURES if t <= temperatures.max()] or [float(temperatures.max())]
         curves = free_energy_curves(free_energy_surface(vs, shown, eos), pressure)
         return vs, table, (shown, curves)
@@ -155,6 +157,8 @@ def layout(**_query):
                    c.radio("qh-eos", EOS_CHOICES, "birch-murnaghan", "Equation of state"),
                    c.radio("qh-negative", [{"label": v, "value": v} for v in ("drop", "keep-count", "refuse")],
                            "drop", "Imaginary modes"),
+                   c.number("qh-tolerance", 1, "imaginary tolerance [%]", min_value=0, max_value=100,
+                            hint="volumes above it are listed"),
                    c.radio("qh-per", PER_CHOICES, "formula", "Values"),
                    c.text("qh-formula", "", "Formula (per gram)", placeholder="e.g. MgO")),
         c.messages_panel("qh-messages"),
@@ -198,6 +202,17 @@ def _failed(message):
     return (blank,) * len(_GRAPHS) + ([], c.message_items([("error", message)]))
 
 
+def _tolerance(percent):
+    """Imaginary-mode tolerance as a fraction from a percentage field (blank: 1 %)."""
+    try:
+        value = 1.0 if percent in (None, "") else float(percent)
+    except (TypeError, ValueError):
+        raise OptionError("the imaginary tolerance must be a number in percent") from None
+    if not 0 <= value < 100:
+        raise OptionError(f"the imaginary tolerance must be between 0 and 100 %, got {value:g}")
+    return value / 100.0
+
+
 def _settings(t_min, t_max, step, pressure):
     return temperature_range(t_min, t_max, step), float(pressure or 0.0)
 
@@ -206,13 +221,13 @@ def _settings(t_min, t_max, step, pressure):
           Input("qh-set", "data"), Input("qh-source", "value"), Input("qh-rows", "data"), Input("mh-workspace", "data"),
           Input("qh-tmin", "value"), Input("qh-tmax", "value"), Input("qh-step", "value"), Input("qh-pressure", "value"),
           Input("qh-eos", "value"), Input("qh-per", "value"), Input("qh-negative", "value"),
-          Input("qh-formula", "value"))
+          Input("qh-formula", "value"), Input("qh-tolerance", "value"))
 @reported(_failed)
-def draw(record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula):
+def draw(record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula, tolerance):
     """Plots, key numbers and diagnostics for the page's settings."""
     temperatures, p = _settings(t_min, t_max, step, pressure)
     vs, table, curves = results(record, source, rows, workspace, temperatures, p, eos, per, negative,
-                                formula or None)
+                                formula or None, tolerance)
     diag = table.attrs["diagnostics"]
     keys = c.key_numbers([("volumes", f"{diag['volume_count']} ({diag['volume_range_A3'][0]:g}–"
                                       f"{diag['volume_range_A3'][1]:g} Å³)"),
@@ -227,14 +242,16 @@ def draw(record, source, rows, workspace, t_min, t_max, step, pressure, eos, per
           Input("qh-download-btn", "n_clicks"), State("qh-set", "data"), State("qh-source", "value"),
           State("qh-rows", "data"), State("mh-workspace", "data"), State("qh-tmin", "value"), State("qh-tmax", "value"),
           State("qh-step", "value"), State("qh-pressure", "value"), State("qh-eos", "value"), State("qh-per", "value"),
-          State("qh-negative", "value"), State("qh-formula", "value"), State("qh-format", "value"),
+          State("qh-negative", "value"), State("qh-formula", "value"), State("qh-tolerance", "value"),
+          State("qh-format", "value"),
           prevent_initial_call=True)
 @reported(lambda message: (no_update, c.message_items([("error", message)])))
 def download(_clicks, record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula,
-             fmt):
+             tolerance, fmt):
     """The quasi-harmonic table with its provenance, as the command line writes it."""
     temperatures, p = _settings(t_min, t_max, step, pressure)
-    vs, table, _ = results(record, source, rows, workspace, temperatures, p, eos, per, negative, formula or None)
+    vs, table, _ = results(record, source, rows, workspace, temperatures, p, eos, per, negative, formula or None,
+                           tolerance)
     content = export_table(table, quasiharmonic_provenance(vs, table, temperatures), fmt)
     name = f"{Path(str(vs.source.get('name') or 'volumes')).stem}-quasiharmonic-{per}.{fmt}"
     return dcc.send_bytes(content, name), c.message_items([("info", f"prepared {name}")])
