@@ -35,7 +35,8 @@ FORMAT_CHOICES = [{"label": "CSV", "value": "csv"}, {"label": "Excel (XLSX)", "v
                   {"label": "JSON", "value": "json"}]
 #: Temperatures of the F(V) curves [K].
 CURVE_TEMPERATURES = (0.0, 200.0, 400.0, 600.0, 800.0, 1000.0)
-_GRAPHS = ("qh-fv-graph", "qh-v-graph", "qh-alpha-graph", "qh-b-graph", "qh-cp-graph", "qh-gamma-graph")
+_GRAPHS = ("qh-fv-graph", "qh-v-graph", "qh-alpha-graph", "qh-b-graph", "qh-cp-graph", "qh-gamma-graph",
+           "qh-residual-graph")
 _MEMO = cache._LRU(16)     # pure results keyed by content hashes and settings (no per-user state)
 
 
@@ -103,7 +104,7 @@ def results(record, source, rows, workspace, temperatures, pressure, eos, per, n
 
 
 def figures(table, curves):
-    """The six figures: F(V) with the minimum path, V, α, B_T, C_p and C_v, γ against T."""
+    """The figures: F(V) with the minimum path; V, α, B_T, C_p and C_v, γ and the EOS misfit against T."""
     shown, cv = curves
     fv = fg.figure("volume V [Å³ per formula unit]", "G = F + pV [eV per formula unit]")
     for k, t in enumerate(shown):
@@ -118,7 +119,8 @@ def figures(table, curves):
     outside = table[find(table, "outside_volume_range")].astype(bool)
     figs = [fv]
     for k, keys in enumerate((("volume",), ("thermal_expansion",), ("bulk_modulus_T",),
-                              ("heat_capacity_p", "heat_capacity_v"), ("gruneisen_parameter",))):
+                              ("heat_capacity_p", "heat_capacity_v"), ("gruneisen_parameter",),
+                              ("eos_fit_residual",))):
         first = find(table, keys[0])
         fig = fg.figure("temperature T [K]", axis_title(first))
         for j, key in enumerate(keys):
@@ -169,7 +171,9 @@ def layout(**_query):
                   c.graph("qh-alpha-graph", "Volumetric thermal expansion α(T)"),
                   c.graph("qh-b-graph", "Isothermal bulk modulus B_T(T)"),
                   c.graph("qh-cp-graph", "Heat capacity at constant pressure (solid) and at V(T) (dashed)"),
-                  c.graph("qh-gamma-graph", "Mean Grüneisen parameter γ = α B_T V / C_v")], className="mh-grid"),
+                  c.graph("qh-gamma-graph", "Mean Grüneisen parameter γ = α B_T V / C_v"),
+                  c.graph("qh-residual-graph", "Root-mean-square misfit of the equation of state to F(V) "
+                                               "at each temperature")], className="mh-grid"),
         html.H2("Export"),
         html.Div([c.radio("qh-format", FORMAT_CHOICES, "csv", "File format"),
                   html.Button("Download quasi-harmonic table", id="qh-download-btn", className="mh-button mh-primary"),
