@@ -223,3 +223,12 @@ register_quantity("lindemann_ratio", "√⟨u²⟩/d", "fixed", description="rms
 # --- polynomials (issue 14) ---
 register_quantity("enthalpy_increment", "H − H°(298.15 K)", "energy",
                   description="enthalpy relative to its value at 298.15 K")
+# --- quasi-harmonic step (thermo.quasiharmonic) ---
+register_quantity("volume", "V", "fixed", "Å³", "A3", "volume per formula unit")
+register_quantity("thermal_expansion", "α", "fixed", "1/K", "per_K", "volumetric thermal expansion (1/V) dV/dT")
+register_quantity("bulk_modulus_T", "B_T", "fixed", "GPa", "GPa", "isothermal bulk modulus")
+register_quantity("gruneisen_parameter", "γ", "fixed", description="mean Grüneisen parameter α B_T V / C_v")
+register_quantity("eos_fit_residual", "ΔF_rms", "fixed", "meV", "meV",
+                  "rms misfit of the equation of state to F(V), per formula unit")
+register_quantity("outside_volume_range", "outside", "fixed",
+                  description="True where the minimum lies outside the sampled volumes (extrapolated)")

@@ -6,7 +6,20 @@ order.
 """
 
 from .. import shell  # noqa: F401  (the app must exist before register_page)
-from . import compare, displacements, export, home, modemap, models, polynomials, spectrum, thermodynamics
+from . import compare
+from . import displacements
+from . import export
+from . import home
+from . import modemap
+from . import models
+from . import polynomials
+from . import quasiharmonic
+from . import spectrum
+from . import thermodynamics
 
-PAGES = tuple(sorted((home, spectrum, thermodynamics, models, modemap, compare, export, displacements, polynomials),
-                     key=lambda m: m.ORDER))
+PAGES = tuple(sorted((
+    home, spectrum, thermodynamics, models, modemap, compare, export,
+    quasiharmonic,
+    displacements,
+    polynomials,
+), key=lambda m: m.ORDER))

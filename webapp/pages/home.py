@@ -19,8 +19,10 @@ GUIDE = [("/spectrum", "Spectrum", "load DOS files, set units and atoms, check i
          ("/modes", "Mode map", "which frequencies carry the heat capacity and entropy at each temperature"),
          ("/compare", "Compare", "several datasets overlaid, differences against a reference"),
          ("/export", "Export", "tables as CSV, XLSX or JSON with provenance; figure image format"),
+         ("/quasiharmonic", "Quasi-harmonic", "DOS at several volumes: V(T), thermal expansion, B_T, C_p, G, γ"),
          ("/displacements", "Displacements", "⟨u²⟩, Debye–Waller B and θ_M per species, Lindemann caution, elastic θ_D"),
-         ("/polynomials", "Polynomials", "Shomate, NASA 7-term or SGTE coefficients with fit errors, JSON/CSV/Cantera YAML")]
+         ("/polynomials", "Polynomials", "Shomate, NASA 7-term or SGTE coefficients with fit errors, JSON/CSV/Cantera YAML"),
+]
 
 
 def layout(**_query):

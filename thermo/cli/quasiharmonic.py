@@ -1,0 +1,63 @@
+"""``modeheat quasiharmonic``: V(T), α, B_T, C_p, G from DOS at several volumes (a manifest)."""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+from .options import add_input_options, add_table_options, add_temperature_option
+
+_DEFAULT_TEMPERATURES = "0:1000:10"
+
+
+def register(sub):
+    p = sub.add_parser("quasiharmonic",
+                       help="quasi-harmonic V(T), thermal expansion, B_T, C_p, G from DOS at several volumes")
+    add_input_options(p)
+    for action in p._actions:   # the positional is the manifest here; same reading options for every DOS
+        if action.dest == "file":
+            action.metavar = "MANIFEST"
+            action.help = ("volume set: CSV with volume_A3, energy_eV (or energy_Ry/energy_Ha/"
+                           "energy_kJ_per_mol) and dos_file (relative to the manifest), one row per volume")
+    add_temperature_option(p, default=_DEFAULT_TEMPERATURES)
+    p.add_argument("--pressure", type=float, default=0.0, metavar="GPa", help="pressure p in GPa (default 0)")
+    p.add_argument("--eos", default="birch-murnaghan", choices=["birch-murnaghan", "vinet"],
+                   help="equation of state fitted to F(V) at each temperature (default birch-murnaghan)")
+    p.add_argument("--imaginary-tolerance", type=float, default=None, metavar="SHARE",
+                   help="list volumes whose imaginary-mode share exceeds this fraction (default 0.01)")
+    add_table_options(p, "write here (default: stdout for csv/json)")
+    p.set_defaults(func=run)
+
+
+def run(args) -> int:
+    from ..errors import OptionError
+    from ..io.writers import export_table, write_table
+    from ..preparation.imaginary import UNSTABLE_SHARE
+    from ..quasiharmonic import quasiharmonic_table, read_manifest
+    from ..quasiharmonic.report import quasiharmonic_provenance
+    from ..temperatures import parse_temperatures
+
+    temperatures = parse_temperatures(args.temperatures)
+    tolerance = UNSTABLE_SHARE if args.imaginary_tolerance is None else args.imaginary_tolerance
+    if not 0 <= tolerance < 1:
+        raise OptionError(f"--imaginary-tolerance must be a fraction in [0, 1), got {tolerance:g}")
+    if args.output and not args.force and Path(args.output).exists():
+        raise OptionError(f"refusing to overwrite existing file {args.output}; use --force to replace it")
+    volume_set = read_manifest(args.file, freq_unit=args.freq_unit, atoms=args.atoms,
+                               negative=args.negative, low_frequency=args.low_frequency)
+    table = quasiharmonic_table(volume_set, temperatures, pressure_gpa=args.pressure, eos=args.eos,
+                                per=args.per, formula=args.formula, imaginary_tolerance=tolerance)
+    info = quasiharmonic_provenance(volume_set, table, temperatures)
+    for note in info["warnings"]:
+        print(f"warning: {note}", file=sys.stderr)
+    residual = table.attrs["diagnostics"]["max_fit_residual_meV"]
+    print(f"note: {args.eos} fit to F(V) over {volume_set.volumes_a3.size} volumes, largest rms residual "
+          f"{residual:.3g} meV per formula unit (column eos_fit_residual_meV)", file=sys.stderr)
+    if args.output:
+        write_table(table, info, args.format, args.output, overwrite=args.force)
+        print(f"wrote {args.output}", file=sys.stderr)
+        return 0
+    if args.format == "xlsx":
+        raise OptionError("xlsx output needs --output PATH")
+    sys.stdout.write(export_table(table, info, args.format).decode("utf-8"))
+    return 0

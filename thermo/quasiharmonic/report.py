@@ -1,0 +1,75 @@
+"""Provenance record of a quasi-harmonic table (written beside every export)."""
+
+from __future__ import annotations
+
+import datetime
+import re
+
+from .. import __version__
+from ..tables import estimated_relative_error
+
+
+def _grouped_warnings(volume_set):
+    """DOS warnings, one line per kind: the first file's text and the files it applies to."""
+    groups = {}
+    for name, dos in zip(volume_set.names, volume_set.doses):
+        for text in dos.warnings:
+            key = re.sub(r"[-+]?\d[\d.eE+-]*", "#", text)
+            groups.setdefault(key, [text, []])[1].append(name)
+    out = []
+    for text, names in groups.values():
+        where = names[0] if len(names) == 1 else (f"{len(names)} of {len(volume_set.names)} volumes"
+                                                  f" ({names[0]} ... {names[-1]})")
+        out.append(f"{where}: {text}" + ("" if len(names) == 1 else " (values of the first)"))
+    return out
+
+
+def quasiharmonic_provenance(volume_set, table, temperatures):
+    """Provenance of :func:`thermo.quasiharmonic.quasiharmonic_table` output.
+
+    Parameters
+    ----------
+    volume_set : VolumeSet
+        The volume set the table came from.
+    table : pandas.DataFrame
+        The quasi-harmonic table (its ``attrs`` carry the settings and diagnostics).
+    temperatures : array_like
+        Temperatures of the table [K].
+
+    Returns
+    -------
+    dict
+        JSON-able: the keys of a harmonic table's provenance (tool, version,
+        input and SHA-256, unit, atoms, policies, low-frequency settings, the
+        largest discretisation error estimate, basis, warnings, model,
+        timestamp) plus the EOS, pressure, per-volume records and cautions.
+    """
+    doses = volume_set.doses
+    first = doses[0]
+    diag = table.attrs.get("diagnostics", {})
+    fits = [d.low_frequency for d in doses]
+    warnings = _grouped_warnings(volume_set)
+    return {
+        "tool": "modeheat", "version": __version__,
+        "input": volume_set.source.get("name"), "input_sha256": volume_set.source.get("sha256"),
+        "frequency_unit": sorted({str(d.source.get("freq_unit")) for d in doses}),
+        "atoms": volume_set.atoms, "atoms_inferred": bool(first.source.get("atoms_inferred")),
+        "negative_policy": first.source.get("negative_policy"),
+        "low_frequency": "off" if fits[0] is None else ("auto" if fits[0].automatic else "manual"),
+        "estimated_relative_error": max(estimated_relative_error(d, temperatures) for d in doses),
+        "basis": table.attrs.get("per"), "formula": table.attrs.get("formula"),
+        "equation_of_state": table.attrs.get("eos"), "pressure_GPa": table.attrs.get("pressure_GPa"),
+        "volume_range_A3": diag.get("volume_range_A3"),
+        "max_fit_residual_meV": diag.get("max_fit_residual_meV"),
+        "outside_range_K": diag.get("outside_range_K"),
+        "imaginary_volumes_A3": diag.get("imaginary_volumes"),
+        "volumes": [{"volume_A3": r["volume_A3"], "energy_eV": r["energy_eV"], "dos_file": r["dos_file"],
+                     "dos_sha256": d.source.get("sha256"), "imaginary_share": r["imaginary_share"],
+                     "raw_integral": d.source.get("raw_integral")}
+                    for r, d in zip(diag.get("volumes", []), doses)],
+        "warnings": list(diag.get("warnings", [])) + warnings,
+        "cautions": list(diag.get("cautions", [])),
+        "model": "quasi-harmonic: F(V,T) = E(V) + F_vib(V,T) (zero-point included), EOS fit at each T, "
+                 "G = min_V (F + pV); no explicit anharmonic, electronic or defect terms",
+        "created_utc": datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="seconds"),
+    }

@@ -1,0 +1,265 @@
+"""Quasi-harmonic page: a volume set (manifest + DOS files, or loaded datasets) -> V(T), α, B_T, C_p, G."""
+
+from __future__ import annotations
+
+import base64
+import hashlib
+import json
+from pathlib import Path
+
+import dash
+from dash import Input, Output, State, callback, dash_table, dcc, html, no_update
+
+from thermo.columns import find
+from thermo.errors import DosInputError, OptionError
+from thermo.io.writers import export_table
+from thermo.quasiharmonic import (CAUTIONS, free_energy_curves, free_energy_surface, make_volume_set,
+                                  quasiharmonic_table, read_manifest)
+from thermo.quasiharmonic.report import quasiharmonic_provenance
+from thermo.temperatures import temperature_range
+
+from .. import cache, session
+from .. import components as c
+from .. import figures as fg
+from ..labels import PER_CHOICES, axis_title
+from ..reporting import reported
+
+PATH, NAME, ORDER = "/quasiharmonic", "Quasi-harmonic", 6
+
+DEMO_MANIFEST = Path(__file__).resolve().parents[2] / "sample_dos" / "volumes" / "springium_volumes.csv"
+EOS_CHOICES = [{"label": "Birch–Murnaghan (3rd order)", "value": "birch-murnaghan"},
+               {"label": "Vinet", "value": "vinet"}]
+SOURCE_CHOICES = [{"label": "manifest + DOS files", "value": "manifest"},
+                  {"label": "loaded datasets (type volumes and energies)", "value": "datasets"}]
+FORMAT_CHOICES = [{"label": "CSV", "value": "csv"}, {"label": "Excel (XLSX)", "value": "xlsx"},
+                  {"label": "JSON", "value": "json"}]
+#: Temperatures of the F(V) curves [K].
+CURVE_TEMPERATURES = (0.0, 200.0, 400.0, 600.0, 800.0, 1000.0)
+_GRAPHS = ("qh-fv-graph", "qh-v-graph", "qh-alpha-graph", "qh-b-graph", "qh-cp-graph", "qh-gamma-graph",
+           "qh-residual-graph")
+_MEMO = cache._LRU(16)     # pure results keyed by content hashes and settings (no per-user state)
+
+
+def _entry(name, raw):
+    return {"name": name, "content": base64.b64encode(raw).decode("ascii")}
+
+
+def demo_set():
+    """The invented springium volume set of ``sample_dos/volumes/`` as a browser-side record."""
+    folder = DEMO_MANIFEST.parent
+    names = [line.split(",")[2].strip() for line in DEMO_MANIFEST.read_text().splitlines()[3:] if line.strip()]
+    return {"manifest": _entry(DEMO_MANIFEST.name, DEMO_MANIFEST.read_bytes()),
+            "files": [_entry(n, (folder / n).read_bytes()) for n in names]}
+
+
+def set_from_uploads(names, contents):
+    """The record of an upload: the file whose header names ``volume_A3`` is the manifest."""
+    manifest, files = None, []
+    for name, url in zip(names or [], contents or []):
+        raw = base64.b64decode(url.split(",", 1)[1])
+        if manifest is None and b"volume_A3" in raw[:4000] and b"dos_file" in raw[:4000]:
+            manifest = _entry(name, raw)
+        else:
+            files.append(_entry(name, raw))
+    if manifest is None:
+        raise DosInputError("no manifest among the files: upload a CSV with the columns volume_A3, "
+                         "energy_eV (or energy_Ry/energy_Ha/energy_kJ_per_mol) and dos_file with its DOS files")
+    return {"manifest": manifest, "files": files}
+
+
+def _volume_set(record, source, rows, workspace, negative):
+    if source == "datasets":
+        entries = []
+        for row in rows or []:
+            dataset = session.find(workspace, row.get("id"))
+            if dataset is None or row.get("volume_A3") in (None, "") or row.get("energy_eV") in (None, ""):
+                continue
+            opts = session.options_of(dataset)
+            dos = cache.load({**dataset, "options": {**opts, "negative": negative}})
+            entries.append((float(row["volume_A3"]), float(row["energy_eV"]), dos, dataset["name"]))
+        return make_volume_set(entries, {"name": "loaded datasets"})
+    manifest = record["manifest"]
+    files = {f["name"]: base64.b64decode(f["content"]) for f in record["files"]}
+    return read_manifest(base64.b64decode(manifest["content"]), files=files, negative=negative,
+                         name=manifest["name"])
+
+
+def results(record, source, rows, workspace, temperatures, pressure, eos, per, negative, formula=None,
+            tolerance_percent=1.0):
+    """(volume set, table, F(V) curves), memoised on content and settings."""
+    digest = hashlib.sha256(json.dumps([record if source == "manifest" else None, rows if source == "datasets"
+                                        else None, [d["sha256"] for d in (workspace or {}).get("datasets", [])]
+                                        if source == "datasets" else None], sort_keys=True).encode()).hexdigest()
+    tolerance = _tolerance(tolerance_percent)
+    key = (digest, source, tuple(temperatures.tolist()), float(pressure), eos, per, negative, formula, tolerance)
+
+    def compute():
+        vs = _volume_set(record, source, rows, workspace, negative)
+        table = quasiharmonic_table(vs, temperatures, pressure_gpa=pressure, eos=eos, per=per,
+                                    formula=formula, imaginary_tolerance=tolerance)
+        shown = [t for t in CURVE_TEMPERATURES if t <= temperatures.max()] or [float(temperatures.max())]
+        curves = free_energy_curves(free_energy_surface(vs, shown, eos), pressure)
+        return vs, table, (shown, curves)
+    return _MEMO.get(key, compute)
+
+
+def figures(table, curves):
+    """The figures: F(V) with the minimum path; V, α, B_T, C_p and C_v, γ and the EOS misfit against T."""
+    shown, cv = curves
+    fv = fg.figure("volume V [Å³ per formula unit]", "G = F + pV [eV per formula unit]")
+    for k, t in enumerate(shown):
+        fv.add_trace(fg.line(cv["curve_volumes_A3"], cv["curve_eV"][k], f"{t:g} K (fit)", k))
+        fv.add_trace(fg.go.Scatter(x=cv["volumes_A3"], y=cv["sampled_eV"][:, k], mode="markers", showlegend=False,
+                                   marker={"color": fg.PALETTE[k % len(fg.PALETTE)], "size": 7},
+                                   name=f"{t:g} K (sampled)", hovertemplate="%{y:.6g}"))
+    fv.add_trace(fg.go.Scatter(x=cv["minimum_volume_A3"], y=cv["minimum_eV"], mode="lines+markers",
+                               name="minimum path", line={"color": fg.INK, "dash": "dot"},
+                               marker={"symbol": "x", "size": 9, "color": fg.INK}))
+    t = table[find(table, "temperature")]
+    outside = table[find(table, "outside_volume_range")].astype(bool)
+    figs = [fv]
+    for k, keys in enumerate((("volume",), ("thermal_expansion",), ("bulk_modulus_T",),
+                              ("heat_capacity_p", "heat_capacity_v"), ("gruneisen_parameter",),
+                              ("eos_fit_residual",))):
+        first = find(table, keys[0])
+        fig = fg.figure("temperature T [K]", axis_title(first))
+        for j, key in enumerate(keys):
+            col = find(table, key)
+            fig.add_trace(fg.line(t, table[col], axis_title(col), k + j, dash="dash" if j else None))
+        if outside.any():
+            fig.add_trace(fg.go.Scatter(x=t[outside], y=table[first][outside], mode="markers",
+                                        name="outside the sampled volumes (extrapolated)",
+                                        marker={"color": fg.PALETTE[4], "size": 6, "symbol": "triangle-up"}))
+        figs.append(fig)
+    return figs
+
+
+def layout(**_query):
+    """The quasi-harmonic page."""
+    return c.page(
+        "Quasi-harmonic", "DOS at several volumes plus static lattice energies: F(V,T) = E(V) + F_vib(V,T) "
+                          "fitted by an equation of state at each temperature and minimised at pressure p.",
+        dcc.Store(id="qh-set", data=demo_set(), storage_type="memory"),
+        c.controls(c.radio("qh-source", SOURCE_CHOICES, "manifest", "Volume set from"),
+                   html.Div([dcc.Upload(id="qh-upload", multiple=True, className="mh-upload",
+                                        children=html.Span(["Drop or ", html.A("choose"), " the manifest (CSV: "
+                                                            "volume_A3, energy_eV, dos_file) together with its DOS files"])),
+                             html.Small(id="qh-set-note", className="mh-hint")], className="mh-field")),
+        html.Div(id="qh-datasets-panel", children=[
+            html.P("Type the volume and static energy of each loaded dataset (at least 5 rows); rows left "
+                   "empty are not used.", className="mh-intro"),
+            dash_table.DataTable(id="qh-rows", editable=True, data=[],
+                                 columns=[{"name": "dataset", "id": "name", "editable": False},
+                                          {"name": "V [Å³ per formula unit]", "id": "volume_A3", "type": "numeric"},
+                                          {"name": "E static [eV per formula unit]", "id": "energy_eV",
+                                           "type": "numeric"}],
+                                 style_table={"maxWidth": "720px"})], style={"display": "none"}),
+        c.controls(*c.temperature_fields("qh", 0, 1000, 10),
+                   c.number("qh-pressure", 0, "pressure p [GPa]"),
+                   c.radio("qh-eos", EOS_CHOICES, "birch-murnaghan", "Equation of state"),
+                   c.radio("qh-negative", [{"label": v, "value": v} for v in ("drop", "keep-count", "refuse")],
+                           "drop", "Imaginary modes"),
+                   c.number("qh-tolerance", 1, "imaginary tolerance [%]", min_value=0, max_value=100,
+                            hint="volumes above it are listed"),
+                   c.radio("qh-per", PER_CHOICES, "formula", "Values"),
+                   c.text("qh-formula", "", "Formula (per gram)", placeholder="e.g. MgO")),
+        c.messages_panel("qh-messages"),
+        html.Div(id="qh-keys"),
+        html.Div([c.graph("qh-fv-graph", "G(V) at several temperatures: sampled points, fitted equation of state "
+                                         "and the minimum path"),
+                  c.graph("qh-v-graph", "Equilibrium volume V(T)"),
+                  c.graph("qh-alpha-graph", "Volumetric thermal expansion α(T)"),
+                  c.graph("qh-b-graph", "Isothermal bulk modulus B_T(T)"),
+                  c.graph("qh-cp-graph", "Heat capacity at constant pressure (solid) and at V(T) (dashed)"),
+                  c.graph("qh-gamma-graph", "Mean Grüneisen parameter γ = α B_T V / C_v"),
+                  c.graph("qh-residual-graph", "Root-mean-square misfit of the equation of state to F(V) "
+                                               "at each temperature")], className="mh-grid"),
+        html.H2("Export"),
+        html.Div([c.radio("qh-format", FORMAT_CHOICES, "csv", "File format"),
+                  html.Button("Download quasi-harmonic table", id="qh-download-btn", className="mh-button mh-primary"),
+                  dcc.Download(id="qh-download")], className="mh-inline"),
+        html.Ul([html.Li(text) for text in CAUTIONS], className="mh-caution"),
+    )
+
+
+@callback(Output("qh-set", "data"), Output("qh-set-note", "children"), Input("qh-upload", "contents"),
+          State("qh-upload", "filename"), prevent_initial_call=True)
+@reported(lambda message: (no_update, message))
+def uploaded(contents, names):
+    """Keep an uploaded manifest and its DOS files in the browser."""
+    record = set_from_uploads(names, contents)
+    return record, f"{record['manifest']['name']} with {len(record['files'])} DOS file(s)"
+
+
+@callback(Output("qh-rows", "data"), Output("qh-datasets-panel", "style"), Input("qh-source", "value"),
+          Input("mh-workspace", "data"), State("qh-rows", "data"))
+def dataset_rows(source, workspace, rows):
+    """One editable row per loaded dataset (typed values kept)."""
+    typed = {r.get("id"): r for r in rows or []}
+    data = [{"id": d["id"], "name": d["name"], "volume_A3": typed.get(d["id"], {}).get("volume_A3"),
+             "energy_eV": typed.get(d["id"], {}).get("energy_eV")} for d in (workspace or {}).get("datasets", [])]
+    return data, ({} if source == "datasets" else {"display": "none"})
+
+
+def _failed(message):
+    blank = fg.message_figure("nothing to show for these settings")
+    return (blank,) * len(_GRAPHS) + ([], c.message_items([("error", message)]))
+
+
+def _tolerance(percent):
+    """Imaginary-mode tolerance as a fraction from a percentage field (blank: 1 %)."""
+    try:
+        value = 1.0 if percent in (None, "") else float(percent)
+    except (TypeError, ValueError):
+        raise OptionError("the imaginary tolerance must be a number in percent") from None
+    if not 0 <= value < 100:
+        raise OptionError(f"the imaginary tolerance must be between 0 and 100 %, got {value:g}")
+    return value / 100.0
+
+
+def _settings(t_min, t_max, step, pressure):
+    return temperature_range(t_min, t_max, step), float(pressure or 0.0)
+
+
+@callback(*[Output(g, "figure") for g in _GRAPHS], Output("qh-keys", "children"), Output("qh-messages", "children"),
+          Input("qh-set", "data"), Input("qh-source", "value"), Input("qh-rows", "data"), Input("mh-workspace", "data"),
+          Input("qh-tmin", "value"), Input("qh-tmax", "value"), Input("qh-step", "value"), Input("qh-pressure", "value"),
+          Input("qh-eos", "value"), Input("qh-per", "value"), Input("qh-negative", "value"),
+          Input("qh-formula", "value"), Input("qh-tolerance", "value"))
+@reported(_failed)
+def draw(record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula, tolerance):
+    """Plots, key numbers and diagnostics for the page's settings."""
+    temperatures, p = _settings(t_min, t_max, step, pressure)
+    vs, table, curves = results(record, source, rows, workspace, temperatures, p, eos, per, negative,
+                                formula or None, tolerance)
+    diag = table.attrs["diagnostics"]
+    keys = c.key_numbers([("volumes", f"{diag['volume_count']} ({diag['volume_range_A3'][0]:g}–"
+                                      f"{diag['volume_range_A3'][1]:g} Å³)"),
+                          ("largest EOS rms residual", f"{diag['max_fit_residual_meV']:.3g} meV"),
+                          ("rows outside the sampled volumes", str(int(table[find(table, 'outside_volume_range')].sum())))])
+    notes = [("warn", w) for w in diag["warnings"]] + [("warn", f"{n}: {w}") for n, d in zip(vs.names, vs.doses)
+                                                       for w in d.warnings if "inferred" not in w]
+    return (*figures(table, curves), keys, c.message_items(notes[:12]))
+
+
+@callback(Output("qh-download", "data"), Output("qh-messages", "children", allow_duplicate=True),
+          Input("qh-download-btn", "n_clicks"), State("qh-set", "data"), State("qh-source", "value"),
+          State("qh-rows", "data"), State("mh-workspace", "data"), State("qh-tmin", "value"), State("qh-tmax", "value"),
+          State("qh-step", "value"), State("qh-pressure", "value"), State("qh-eos", "value"), State("qh-per", "value"),
+          State("qh-negative", "value"), State("qh-formula", "value"), State("qh-tolerance", "value"),
+          State("qh-format", "value"),
+          prevent_initial_call=True)
+@reported(lambda message: (no_update, c.message_items([("error", message)])))
+def download(_clicks, record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula,
+             tolerance, fmt):
+    """The quasi-harmonic table with its provenance, as the command line writes it."""
+    temperatures, p = _settings(t_min, t_max, step, pressure)
+    vs, table, _ = results(record, source, rows, workspace, temperatures, p, eos, per, negative, formula or None,
+                           tolerance)
+    content = export_table(table, quasiharmonic_provenance(vs, table, temperatures), fmt)
+    name = f"{Path(str(vs.source.get('name') or 'volumes')).stem}-quasiharmonic-{per}.{fmt}"
+    return dcc.send_bytes(content, name), c.message_items([("info", f"prepared {name}")])
+
+
+c.follow_image_format(*_GRAPHS)
+dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)
