@@ -8,11 +8,21 @@ Accepted layouts
 * text with columns separated by whitespace (spaces and/or tabs), commas or
   semicolons; the separator is detected once per file from the first data
   row.  The decimal mark is always ``.``;
-* ``.xlsx`` workbooks (recognised by their zip signature), first sheet only;
+* text in UTF-8 (with or without a byte-order mark) or UTF-16 (with a
+  byte-order mark, or plain ASCII content saved as UTF-16);
+* ``.xlsx`` workbooks (recognised by their zip signature): the first sheet or
+  the one chosen by name or number; text rows above the header row (titles)
+  are kept as comments;
 * comment lines start with ``#``, ``!`` or ``%`` (after optional blanks);
   blank lines are skipped;
 * an optional header row: the first non-comment row, if any of its cells is
   not a number.
+
+The frequency unit is taken only from the first header cell, from a commented
+header row, or from an explicit statement in a comment (``# frequency unit:
+THz``, ``# frequencies in cm-1``, ``# nu (meV)``).  A unit merely mentioned in
+a comment (``# smearing sigma = 2 cm-1``) is never taken; it is recorded in
+:attr:`RawTable.unit_mentions` so that callers can ask for the unit.
 
 Column 1 is the frequency, column 2 the total DOS, further columns partial
 DOS.  Every problem raises :class:`thermo.errors.DosInputError` with a one-line
@@ -33,7 +43,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import DosInputError
-from ..units import guess_unit_from_text
+from ..units import guess_unit_from_text, units_in_text
 
 #: Characters that start a comment line.
 COMMENT_CHARS = ("#", "!", "%")
@@ -45,6 +55,13 @@ _PLAIN_BYTES = b"0123456789.eE+-"
 _NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eEdD][+-]?\d+)?")
 _NOT_FINITE = re.compile(r"[+-]?(?:nan|inf|infinity)", re.IGNORECASE)
 _DECIMAL_COMMA = re.compile(r"[+-]?\d+,\d+")
+# An explicit statement of the frequency unit in a comment: a frequency word
+# followed by ":", "=", "in", "(" or "[" and the unit, or "unit(s): <unit>".
+_UNIT_STATEMENT = re.compile(
+    r"(?:\b(?:frequenc(?:y|ies)|freqs?|nu|omega|energy|energies|wavenumbers?|x|column\s*1)"
+    r"(?:\s+(?:axis|column))?(?:\s+units?)?\s*(?:[:=]|\bin\b|[(\[])|[νω]\s*(?:[:=]|\bin\b|[(\[])"
+    r"|\bunits?\s*(?:of\s+(?:the\s+)?frequenc(?:y|ies)\s*)?[:=])"
+    r"\s*(?P<unit>[^\s,;)\]]+(?:\s*(?:\^|\*\*)?\s*-\s*1)?)", re.IGNORECASE)
 _LINE_BREAK = re.compile(r"\r\n|\r|\n")
 # Breaks that str.splitlines honours besides \r\n, \r and \n.
 _OTHER_BREAKS = "\v\f\x1c\x1d\x1e\x85\u2028\u2029"
@@ -78,6 +95,11 @@ class RawTable:
         1-based file line (sheet row for .xlsx) of each data row.
     comments : list of str
         Comment lines, stripped of surrounding blanks.
+    unit_mentions : tuple of (int, str)
+        ``(line, unit)`` of frequency units a comment mentions without
+        stating them as the frequency unit (not used for ``header_unit``).
+    sheet : str or None
+        Name of the worksheet read (.xlsx), else None.
     """
 
     data: np.ndarray
@@ -87,9 +109,11 @@ class RawTable:
     sha256: str
     line_numbers: list = field(default_factory=list)
     comments: list = field(default_factory=list)
+    unit_mentions: tuple = ()
+    sheet: str | None = None
 
 
-def read_table(source, name: str | None = None) -> RawTable:
+def read_table(source, name: str | None = None, sheet=None) -> RawTable:
     """Read a DOS table from a path, raw bytes or text.
 
     Parameters
@@ -100,6 +124,9 @@ def read_table(source, name: str | None = None) -> RawTable:
     name : str, optional
         Display name used in messages; default the file name, ``"<text>"``
         for text and ``"<bytes>"`` for bytes.
+    sheet : str or int, optional
+        Worksheet of an ``.xlsx`` workbook: its name or 1-based number
+        (default the first sheet); ignored for text.
 
     Returns
     -------
@@ -141,10 +168,17 @@ def read_table(source, name: str | None = None) -> RawTable:
     if not raw.strip():
         raise DosInputError("the file is empty", display)
     is_xlsx = raw.startswith(_XLSX_MAGIC)
-    rows = _xlsx_rows(raw, display) if is_xlsx else _text_rows(_decode(raw, display))
+    sheet_name = None
+    if is_xlsx:
+        rows, sheet_name = _xlsx_rows(raw, display, sheet)
+    else:
+        rows = _text_rows(_decode(raw, display))
     comments, candidates = _split_comments(rows)
+    if is_xlsx:
+        comments, candidates = _xlsx_titles(comments, candidates)
     if not candidates:
-        raise DosInputError("no data rows (only comments or blank lines)", display)
+        where = f" on sheet {sheet_name!r}" if sheet_name else ""
+        raise DosInputError(f"no data rows{where} (only comments or blank lines)", display)
     delimiter = None if is_xlsx else _choose_delimiter(candidates)
     split = None if is_xlsx else _splitter(delimiter)
     header = None
@@ -160,10 +194,11 @@ def read_table(source, name: str | None = None) -> RawTable:
     else:
         lines = list(map(itemgetter(0), candidates))
     names = _column_names(header, data.shape[1], split)
-    unit = _frequency_unit(names[0] if header else None, comments, data.shape[1])
+    unit, mentions = _frequency_unit(names[0] if header else None, comments, data.shape[1])
     return RawTable(data=data, names=names, header_unit=unit, source=display,
                     sha256=digest, line_numbers=lines,
-                    comments=[text for _, text in comments])
+                    comments=[text for _, text in comments], unit_mentions=mentions,
+                    sheet=sheet_name)
 
 
 # ----------------------------------------------------------------------------
@@ -192,7 +227,34 @@ def _raw_bytes(source, name):
         raise DosInputError(f"cannot read file: {reason}", display) from None
 
 
+_UTF16_BOMS = (b"\xff\xfe", b"\xfe\xff")
+
+
+def _utf16_guess(raw: bytes):
+    """``"utf-16-le"``/``"utf-16-be"`` for ASCII text saved as UTF-16 without BOM, else None."""
+    if len(raw) < 4 or len(raw) % 2:
+        return None
+    even, odd = raw[0::2], raw[1::2]
+    if even.count(0) == 0 and odd.count(0) >= 0.9 * len(odd):
+        return "utf-16-le"
+    if odd.count(0) == 0 and even.count(0) >= 0.9 * len(even):
+        return "utf-16-be"
+    return None
+
+
 def _decode(raw: bytes, display: str) -> str:
+    encoding = "utf-16" if raw.startswith(_UTF16_BOMS) else _utf16_guess(raw)
+    if encoding:
+        try:
+            text = raw.decode(encoding)
+        except UnicodeDecodeError as exc:
+            raise DosInputError(f"broken UTF-16 text (offset {exc.start}); save the file as UTF-8",
+                                display) from None
+        nul = text.find("\x00")
+        if nul >= 0:
+            raise DosInputError("binary content (NUL character); expected a text table",
+                                display, text.count("\n", 0, nul) + 1)
+        return text
     nul = raw.find(b"\x00")
     if nul >= 0:
         raise DosInputError("binary content (NUL byte); expected a text table",
@@ -215,14 +277,31 @@ def _text_rows(text: str):
     return list(filter(itemgetter(1), zip(count(1), map(str.strip, lines))))
 
 
-def _xlsx_rows(raw: bytes, display: str):
-    """(sheet row, cells) of every non-empty row of the first sheet."""
+def _pick_sheet(book, sheet, display):
+    names = list(book.sheetnames)
+    if sheet is None or (isinstance(sheet, str) and not sheet.strip()):
+        return book.worksheets[0]
+    text = str(sheet).strip()
+    if text in names:
+        return book[text]
+    if text.isdigit() and 1 <= int(text) <= len(names):
+        return book.worksheets[int(text) - 1]
+    raise DosInputError(f"no sheet {text!r} in the workbook; its sheets are "
+                        + ", ".join(repr(n) for n in names) + " (give a name or a number from 1)",
+                        display)
+
+
+def _xlsx_rows(raw: bytes, display: str, choice=None):
+    """(sheet row, cells) of every non-empty row of the chosen sheet, and its name."""
     try:
         import openpyxl
 
         book = openpyxl.load_workbook(io.BytesIO(raw), read_only=True, data_only=True)
+    except Exception:  # openpyxl/zipfile raise many types for broken files
+        raise DosInputError("not a readable .xlsx workbook", display) from None
+    try:
+        sheet = _pick_sheet(book, choice, display)
         try:
-            sheet = book.worksheets[0]
             rows = []
             for number, values in enumerate(sheet.iter_rows(values_only=True), start=1):
                 cells = list(values)
@@ -230,11 +309,22 @@ def _xlsx_rows(raw: bytes, display: str):
                     cells.pop()
                 if cells:
                     rows.append((number, [_xlsx_cell(c) for c in cells]))
-        finally:
-            book.close()
-    except Exception:  # openpyxl/zipfile raise many types for broken files
-        raise DosInputError("not a readable .xlsx workbook", display) from None
-    return rows
+        except Exception:  # openpyxl/zipfile raise many types for broken files
+            raise DosInputError("not a readable .xlsx workbook", display) from None
+    finally:
+        book.close()
+    return rows, sheet.title
+
+
+def _xlsx_titles(comments, candidates):
+    """Text rows above the header of a sheet become comments (titles, notes)."""
+    first_data = next((k for k, (_, row) in enumerate(candidates)
+                       if sum(_looks_numeric(c) for c in row) >= 2
+                       and all(_looks_numeric(c) or c == "" for c in row)), None)
+    if first_data is None or first_data <= 1:
+        return comments, candidates
+    titles = [(line, " ".join(c for c in row if c)) for line, row in candidates[:first_data - 1]]
+    return sorted(comments + titles), candidates[first_data - 1:]
 
 
 def _xlsx_cell(value) -> str:
@@ -400,21 +490,35 @@ def _column_names(header, width, split):
     return out
 
 
+def _stated_in_comment(body, width):
+    """Unit a comment states for column 1 (commented header or explicit statement)."""
+    cells = _HEADER_CELL.findall(body)
+    if len(cells) == width and not _looks_numeric(cells[0]):   # a commented-out header row
+        unit = guess_unit_from_text(cells[0])
+        if unit:
+            return unit
+    stated = {guess_unit_from_text(m.group("unit")) for m in _UNIT_STATEMENT.finditer(body)}
+    stated.discard(None)
+    return stated.pop() if len(stated) == 1 else None
+
+
 def _frequency_unit(first_header_cell, comments, width):
-    """Unit of column 1 from its header cell, else from the comment lines."""
+    """Unit of column 1 and the comment lines that only mention a unit.
+
+    The unit comes from the first header cell, else from a comment that
+    states it (see the module notes); units named in other comments are
+    returned as ``(line, unit)`` mentions and never used.
+    """
     if first_header_cell:
         unit = guess_unit_from_text(first_header_cell)
         if unit:
-            return unit
-    found = set()
-    for _, text in comments:
-        body = text.lstrip("".join(COMMENT_CHARS)).strip()
-        cells = _HEADER_CELL.findall(body)
-        unit = None
-        if len(cells) == width:   # looks like a commented-out header row
-            unit = guess_unit_from_text(cells[0])
-        if not unit:
-            unit = guess_unit_from_text(_DOS_DENOMINATOR.sub(" ", body))
+            return unit, ()
+    found, mentions = set(), []
+    for line, text in comments:
+        body = _DOS_DENOMINATOR.sub(" ", text.lstrip("".join(COMMENT_CHARS)).strip())
+        unit = _stated_in_comment(body, width)
         if unit:
             found.add(unit)
-    return found.pop() if len(found) == 1 else None
+        else:
+            mentions += [(line, u) for u in units_in_text(body)]
+    return (found.pop() if len(found) == 1 else None), tuple(mentions)
