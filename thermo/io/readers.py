@@ -186,7 +186,8 @@ def read_table(source, name: str | None = None, sheet=None) -> RawTable:
     if not all(_looks_numeric(c) or c == "" for c in first):
         header, candidates = candidates[0], candidates[1:]
     if not candidates:
-        raise DosInputError("no data rows after the header", display, header[0])
+        where = f" on sheet {sheet_name!r}" if sheet_name else ""
+        raise DosInputError(f"no data rows{where} after the header", display, header[0])
     data = None if is_xlsx else _fast_array(list(map(itemgetter(1), candidates)), delimiter)
     if data is None:
         cells = [(line, split(row) if split else row) for line, row in candidates]

@@ -144,8 +144,9 @@ def partial_sum_warnings(frequency, total, partials, tolerance=PARTIAL_SUM_TOLER
     list of str
         One warning naming the columns when
         :math:`\\int |\\sum_k g_k - g| \\,d\\nu > \\epsilon \\int g \\,d\\nu`,
-        plus, in that case, a note on each column that only grows with
-        frequency (a cumulative count rather than a density).
+        plus, in that case, a note on each column that equals (within 5 %
+        of its end value) the running integral of another column: a
+        cumulative count rather than a density.
 
     Notes
     -----
@@ -177,13 +178,23 @@ def partial_sum_warnings(frequency, total, partials, tolerance=PARTIAL_SUM_TOLER
         notes.append(f"{word} {listed} {'does' if len(names) == 1 else 'do'} not add up to the total DOS: "
                      f"their sum differs by {100 * mismatch:.3g} % of the total's integral (tolerance "
                      f"{100 * tolerance:g} %; sum/total = {ratio:.4g}); species results may be wrong")
-    for k in names if notes else ():
-        col = np.asarray(partials[k], float)
-        if col.size > 3 and col[-1] > 0 and np.all(np.diff(col) >= 0) \
-                and np.count_nonzero(np.diff(col)) > col.size // 2:
-            notes.append(f"partial column {k!r} only grows with frequency: it looks like a cumulative "
-                         "count, not a density of states")
+    if notes:
+        running = {"the total": _running_integral(nu, g)}
+        running.update({repr(k): _running_integral(nu, np.asarray(partials[k], float)) for k in names})
+        for k in names:
+            col = np.asarray(partials[k], float)
+            for what, integral in running.items():
+                if what != repr(k) and integral[-1] > 0 and \
+                        np.max(np.abs(col - integral)) <= 0.05 * integral[-1]:
+                    notes.append(f"partial column {k!r} follows the running integral of {what}: it is a "
+                                 "cumulative count, not a density of states")
+                    break
     return notes
+
+
+def _running_integral(nu, g):
+    """Trapezoid running integral of g over ν (0 at the first point)."""
+    return np.concatenate([[0.0], np.cumsum(0.5 * (g[1:] + g[:-1]) * np.diff(nu))])
 
 
 def entropy_298_per_atom(dos):
