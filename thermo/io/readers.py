@@ -42,8 +42,8 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import DosInputError
-from ..units import guess_unit_from_text, units_in_text
+from ..errors import DosInputError, ModeheatError
+from ..units import canonical_unit, guess_unit_from_text, units_in_text
 
 #: Characters that start a comment line.
 COMMENT_CHARS = ("#", "!", "%")
@@ -498,6 +498,10 @@ def _stated_in_comment(body, width):
         unit = guess_unit_from_text(cells[0])
         if unit:
             return unit
+    try:   # the whole comment is a unit name: "# THz", "# [cm-1]"
+        return canonical_unit(body.strip(" ()[]:"))
+    except ModeheatError:
+        pass
     stated = {guess_unit_from_text(m.group("unit")) for m in _UNIT_STATEMENT.finditer(body)}
     stated.discard(None)
     return stated.pop() if len(stated) == 1 else None
