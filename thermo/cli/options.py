@@ -40,7 +40,7 @@ def add_table_options(parser, output_help):
     parser.add_argument("--format", default=None, choices=["csv", "json", "xlsx"],
                         help="table format (default: from the --output suffix, else csv)")
     parser.add_argument("--output", metavar="PATH", help=output_help)
-    parser.add_argument("--digits", type=int, default=8, metavar="N",
+    parser.add_argument("--digits", type=int, default=8, metavar="N",  # = io.writers.DEFAULT_DIGITS
                         help="significant digits of the numbers written (default 8, which the numerics "
                              "support; 17 for full double precision)")
     parser.add_argument("--force", action="store_true", help="replace existing output files")

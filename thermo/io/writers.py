@@ -32,6 +32,10 @@ import pandas as pd
 
 from ..errors import DosInputError, OptionError
 
+#: Significant digits the command line and the dashboard write by default: the
+#: quadrature and low-frequency treatment support about 1e-5 relative at worst,
+#: so 8 digits lose nothing and stay readable.
+DEFAULT_DIGITS = 8
 #: Export formats accepted by :func:`export_table` and :func:`write_table`.
 EXPORT_FORMATS = ("csv", "json", "xlsx")
 
