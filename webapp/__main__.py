@@ -8,7 +8,7 @@ import sys
 
 
 def build_parser():
-    from thermo.cli.serve import add_server_options
+    from thermo.cli.options import add_server_options
     p = argparse.ArgumentParser(prog="python -m webapp", description="Serve the modeheat dashboard.")
     add_server_options(p)
     return p

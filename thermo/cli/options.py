@@ -72,3 +72,18 @@ def report_warnings(dos):
     """Print the DOS's cautions on stderr, one per line."""
     for note in dos.warnings:
         print(f"warning: {note}", file=sys.stderr)
+
+
+#: Port the dashboard listens on by default.
+DEFAULT_PORT = 8050
+
+
+def add_server_options(parser):
+    """Add ``--host``, ``--port``, ``--debug`` and ``--max-upload-mb`` (``serve`` and ``python -m webapp``)."""
+    parser.add_argument("--host", default="127.0.0.1",
+                        help="interface to bind (default 127.0.0.1, this machine only)")
+    parser.add_argument("--port", type=int, default=DEFAULT_PORT, help=f"port (default {DEFAULT_PORT})")
+    parser.add_argument("--debug", action="store_true",
+                        help="Dash debug mode with reloading (development only)")
+    parser.add_argument("--max-upload-mb", type=float, default=None, metavar="MB",
+                        help="largest accepted upload per file in MB (default 20)")

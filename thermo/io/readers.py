@@ -32,7 +32,6 @@ message naming the file, line and column.
 from __future__ import annotations
 
 import hashlib
-import io
 import math
 import re
 from dataclasses import dataclass, field
@@ -42,8 +41,10 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import DosInputError, ModeheatError
-from ..units import canonical_unit, guess_unit_from_text, units_in_text
+from ..errors import DosInputError
+from .decoding import decode_text
+from .unit_statements import HEADER_CELL, frequency_unit
+from .workbook import xlsx_rows, xlsx_titles
 
 #: Characters that start a comment line.
 COMMENT_CHARS = ("#", "!", "%")
@@ -55,22 +56,10 @@ _PLAIN_BYTES = b"0123456789.eE+-"
 _NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eEdD][+-]?\d+)?")
 _NOT_FINITE = re.compile(r"[+-]?(?:nan|inf|infinity)", re.IGNORECASE)
 _DECIMAL_COMMA = re.compile(r"[+-]?\d+,\d+")
-# An explicit statement of the frequency unit in a comment: a frequency word
-# followed by ":", "=", "in", "(" or "[" and the unit, or "unit(s): <unit>".
-_UNIT_STATEMENT = re.compile(
-    r"(?:\b(?:frequenc(?:y|ies)|freqs?|nu|omega|energy|energies|wavenumbers?|x|column\s*1)"
-    r"(?:\s+(?:axis|column))?(?:\s+units?)?\s*(?:[:=]|\bin\b|[(\[])|[νω]\s*(?:[:=]|\bin\b|[(\[])"
-    r"|\bunits?\s*(?:of\s+(?:the\s+)?frequenc(?:y|ies)\s*)?[:=])"
-    r"\s*(?P<unit>[^\s,;)\]]+(?:\s*(?:\^|\*\*)?\s*-\s*1)?)", re.IGNORECASE)
 _LINE_BREAK = re.compile(r"\r\n|\r|\n")
 # Breaks that str.splitlines honours besides \r\n, \r and \n.
 _OTHER_BREAKS = "\v\f\x1c\x1d\x1e\x85\u2028\u2029"
-# A header cell with its unit in brackets kept attached: "frequency (THz)".
-_HEADER_CELL = re.compile(r"[^\s(\[]+(?:\s*[(\[][^)\]]*[)\]])?|[(\[][^)\]]*[)\]]")
-# Denominators of a DOS unit ("states/THz", "per cm-1") are not frequency units.
-_DOS_DENOMINATOR = re.compile(
-    r"(?:states|modes|dos|arb\.?|a\.u\.|1(?!\s*/\s*cm\b))\s*/\s*[a-z0-9^*\-⁻¹]+(?:\s*-\s*1)?|\bper\s+\S+",
-    re.IGNORECASE)
+
 
 
 @dataclass(frozen=True)
@@ -170,12 +159,12 @@ def read_table(source, name: str | None = None, sheet=None) -> RawTable:
     is_xlsx = raw.startswith(_XLSX_MAGIC)
     sheet_name = None
     if is_xlsx:
-        rows, sheet_name = _xlsx_rows(raw, display, sheet)
+        rows, sheet_name = xlsx_rows(raw, display, sheet)
     else:
-        rows = _text_rows(_decode(raw, display))
+        rows = _text_rows(decode_text(raw, display))
     comments, candidates = _split_comments(rows)
     if is_xlsx:
-        comments, candidates = _xlsx_titles(comments, candidates)
+        comments, candidates = xlsx_titles(comments, candidates, _looks_numeric)
     if not candidates:
         where = f" on sheet {sheet_name!r}" if sheet_name else ""
         raise DosInputError(f"no data rows{where} (only comments or blank lines)", display)
@@ -195,7 +184,8 @@ def read_table(source, name: str | None = None, sheet=None) -> RawTable:
     else:
         lines = list(map(itemgetter(0), candidates))
     names = _column_names(header, data.shape[1], split)
-    unit, mentions = _frequency_unit(names[0] if header else None, comments, data.shape[1])
+    unit, mentions = frequency_unit(names[0] if header else None, comments, data.shape[1],
+                                    "".join(COMMENT_CHARS))
     return RawTable(data=data, names=names, header_unit=unit, source=display,
                     sha256=digest, line_numbers=lines,
                     comments=[text for _, text in comments], unit_mentions=mentions,
@@ -228,47 +218,6 @@ def _raw_bytes(source, name):
         raise DosInputError(f"cannot read file: {reason}", display) from None
 
 
-_UTF16_BOMS = (b"\xff\xfe", b"\xfe\xff")
-
-
-def _utf16_guess(raw: bytes):
-    """``"utf-16-le"``/``"utf-16-be"`` for ASCII text saved as UTF-16 without BOM, else None."""
-    if len(raw) < 4 or len(raw) % 2:
-        return None
-    even, odd = raw[0::2], raw[1::2]
-    if even.count(0) == 0 and odd.count(0) >= 0.9 * len(odd):
-        return "utf-16-le"
-    if odd.count(0) == 0 and even.count(0) >= 0.9 * len(even):
-        return "utf-16-be"
-    return None
-
-
-def _decode(raw: bytes, display: str) -> str:
-    encoding = "utf-16" if raw.startswith(_UTF16_BOMS) else _utf16_guess(raw)
-    if encoding:
-        try:
-            text = raw.decode(encoding)
-        except UnicodeDecodeError as exc:
-            raise DosInputError(f"broken UTF-16 text (offset {exc.start}); save the file as UTF-8",
-                                display) from None
-        nul = text.find("\x00")
-        if nul >= 0:
-            raise DosInputError("binary content (NUL character); expected a text table",
-                                display, text.count("\n", 0, nul) + 1)
-        return text
-    nul = raw.find(b"\x00")
-    if nul >= 0:
-        raise DosInputError("binary content (NUL byte); expected a text table",
-                            display, raw.count(b"\n", 0, nul) + 1)
-    try:
-        return raw.decode("utf-8-sig")
-    except UnicodeDecodeError as exc:
-        line = raw.count(b"\n", 0, exc.start) + 1
-        raise DosInputError(
-            f"not UTF-8 text (byte 0x{raw[exc.start]:02X} at offset {exc.start}); "
-            "save the file as UTF-8", display, line) from None
-
-
 def _text_rows(text: str):
     """(line number, stripped line) of every non-blank line."""
     # splitlines() is the faster split when no other break is present; it
@@ -276,66 +225,6 @@ def _text_rows(text: str):
     other = any(map(text.__contains__, _OTHER_BREAKS))
     lines = _LINE_BREAK.split(text) if other else text.splitlines()
     return list(filter(itemgetter(1), zip(count(1), map(str.strip, lines))))
-
-
-def _pick_sheet(book, sheet, display):
-    names = list(book.sheetnames)
-    if sheet is None or (isinstance(sheet, str) and not sheet.strip()):
-        return book.worksheets[0]
-    text = str(sheet).strip()
-    if text in names:
-        return book[text]
-    if text.isdigit() and 1 <= int(text) <= len(names):
-        return book.worksheets[int(text) - 1]
-    raise DosInputError(f"no sheet {text!r} in the workbook; its sheets are "
-                        + ", ".join(repr(n) for n in names) + " (give a name or a number from 1)",
-                        display)
-
-
-def _xlsx_rows(raw: bytes, display: str, choice=None):
-    """(sheet row, cells) of every non-empty row of the chosen sheet, and its name."""
-    try:
-        import openpyxl
-
-        book = openpyxl.load_workbook(io.BytesIO(raw), read_only=True, data_only=True)
-    except Exception:  # openpyxl/zipfile raise many types for broken files
-        raise DosInputError("not a readable .xlsx workbook", display) from None
-    try:
-        sheet = _pick_sheet(book, choice, display)
-        try:
-            rows = []
-            for number, values in enumerate(sheet.iter_rows(values_only=True), start=1):
-                cells = list(values)
-                while cells and (cells[-1] is None or str(cells[-1]).strip() == ""):
-                    cells.pop()
-                if cells:
-                    rows.append((number, [_xlsx_cell(c) for c in cells]))
-        except Exception:  # openpyxl/zipfile raise many types for broken files
-            raise DosInputError("not a readable .xlsx workbook", display) from None
-    finally:
-        book.close()
-    return rows, sheet.title
-
-
-def _xlsx_titles(comments, candidates):
-    """Text rows above the header of a sheet become comments (titles, notes)."""
-    first_data = next((k for k, (_, row) in enumerate(candidates)
-                       if sum(_looks_numeric(c) for c in row) >= 2
-                       and all(_looks_numeric(c) or c == "" for c in row)), None)
-    if first_data is None or first_data <= 1:
-        return comments, candidates
-    titles = [(line, " ".join(c for c in row if c)) for line, row in candidates[:first_data - 1]]
-    return sorted(comments + titles), candidates[first_data - 1:]
-
-
-def _xlsx_cell(value) -> str:
-    if value is None:
-        return ""
-    if isinstance(value, bool):
-        return str(value)
-    if isinstance(value, (int, float)):
-        return repr(float(value))
-    return str(value).strip()
 
 
 def _split_comments(rows):
@@ -469,7 +358,7 @@ def _header_cells(row, split, width):
         return list(row)
     if split is not str.split:
         return split(row)
-    tries = (_HEADER_CELL.findall(row), row.split(), re.split(r"\s{2,}|\t", row))
+    tries = (HEADER_CELL.findall(row), row.split(), re.split(r"\s{2,}|\t", row))
     return next((t for t in tries if len(t) == width), tries[0])
 
 
@@ -489,41 +378,3 @@ def _column_names(header, width, split):
         seen.add(text)
         out.append(text)
     return out
-
-
-def _stated_in_comment(body, width):
-    """Unit a comment states for column 1 (commented header or explicit statement)."""
-    cells = _HEADER_CELL.findall(body)
-    if len(cells) == width and not _looks_numeric(cells[0]):   # a commented-out header row
-        unit = guess_unit_from_text(cells[0])
-        if unit:
-            return unit
-    try:   # the whole comment is a unit name: "# THz", "# [cm-1]"
-        return canonical_unit(body.strip(" ()[]:"))
-    except ModeheatError:
-        pass
-    stated = {guess_unit_from_text(m.group("unit")) for m in _UNIT_STATEMENT.finditer(body)}
-    stated.discard(None)
-    return stated.pop() if len(stated) == 1 else None
-
-
-def _frequency_unit(first_header_cell, comments, width):
-    """Unit of column 1 and the comment lines that only mention a unit.
-
-    The unit comes from the first header cell, else from a comment that
-    states it (see the module notes); units named in other comments are
-    returned as ``(line, unit)`` mentions and never used.
-    """
-    if first_header_cell:
-        unit = guess_unit_from_text(first_header_cell)
-        if unit:
-            return unit, ()
-    found, mentions = set(), []
-    for line, text in comments:
-        body = _DOS_DENOMINATOR.sub(" ", text.lstrip("".join(COMMENT_CHARS)).strip())
-        unit = _stated_in_comment(body, width)
-        if unit:
-            found.add(unit)
-        else:
-            mentions += [(line, u) for u in units_in_text(body)]
-    return (found.pop() if len(found) == 1 else None), tuple(mentions)
