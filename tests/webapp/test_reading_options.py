@@ -103,3 +103,17 @@ def test_old_policy_name_in_a_saved_workspace_shows_the_new_choice():
     d["options"]["negative"] = "keep-count"
     assert spectrum.control_values(ws)["sp-negative"] == "drop-unscaled"
     assert "drop-unscaled" in [c["value"] for c in spectrum.NEGATIVE_CHOICES]
+
+
+def test_filling_in_the_automatic_window_changes_nothing():
+    """The page writes the automatic window into the fields; that echo must not choose a window."""
+    ws, _, _ = _upload(session.empty_workspace(), _values(), STATED)
+    shown = spectrum.control_values(ws)
+    same, notes = spectrum.apply_edit(ws, "sp-low-lo", shown)
+    assert same is ws and notes == []
+
+
+def test_showing_the_active_dataset_in_the_selector_keeps_the_messages():
+    ws, _, _ = _upload(session.empty_workspace(), _values(), STATED)
+    same, notes = spectrum.apply_edit(ws, "sp-dataset", {}, selected=session.active(ws)["id"])
+    assert same is ws and notes == []

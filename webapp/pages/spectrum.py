@@ -74,11 +74,12 @@ def control_values(workspace):
             "sp-lowmode": mode, "sp-low-lo": lo, "sp-low-hi": hi, "sp-sheet": opts.get("sheet") or ""}
 
 
-def options_from_controls(values, trigger=None):
+def options_from_controls(values, trigger=None, shown_window=(None, None)):
     """Load options from control values; raises OptionError for a bad window.
 
     Typing a window limit (``trigger`` is a window field) chooses the manual
-    window, so typed numbers are used rather than wiped.
+    window, so typed numbers are used rather than wiped; limits equal to
+    ``shown_window`` (the automatic window the page filled in) change nothing.
     """
     atoms = values.get("sp-atoms")
     if atoms in ("", None):
@@ -89,7 +90,8 @@ def options_from_controls(values, trigger=None):
         atoms = int(float(atoms))
     mode = values.get("sp-lowmode") or "auto"
     lo, hi = values.get("sp-low-lo"), values.get("sp-low-hi")
-    if trigger in ("sp-low-lo", "sp-low-hi") and lo is not None and hi is not None:
+    if trigger in ("sp-low-lo", "sp-low-hi") and lo is not None and hi is not None \
+            and (lo, hi) != tuple(shown_window):
         mode = "manual"
     if mode == "manual":
         if lo is None or hi is None:
@@ -155,6 +157,8 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
         return new, refused + notes
     current = session.active(ws)
     if trigger == "sp-dataset":
+        if current is not None and selected == current["id"]:
+            return ws, []      # the selector was only set to show the active dataset: keep the messages
         return session.activated(ws, selected), []
     if current is None:
         return ws, []
@@ -163,7 +167,7 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
     if trigger == "sp-remove-btn":
         return session.removed(ws, current["id"]), [("info", f"removed {current['name']}")]
     if trigger in _CONTROL_IDS:
-        options, error = attempt(options_from_controls, values, trigger)
+        options, error = attempt(options_from_controls, values, trigger, _automatic_window(current))
         if error:
             return ws, [("error", error)]
         if options == {key: session.options_of(current)[key] for key in options}:
