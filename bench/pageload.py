@@ -12,12 +12,9 @@ from __future__ import annotations
 
 import os
 import statistics
-import subprocess
-import sys
 import time
-from pathlib import Path
 
-from .dashboard import CHROMIUM, _browser, _free_port, _wait_for_server
+from .dashboard import CHROMIUM, served_dashboard
 
 #: Resolves with true when the page showing ``arguments[0]`` (its path) is loaded.
 _LOADED_JS = """
@@ -67,16 +64,8 @@ def p11(repeat=5, port=None):
     if not os.path.exists(CHROMIUM):
         return {"p11_first_page_s": None, "p11_navigation_s": None, "p11_note": "Chromium not installed"}
     from webapp.pages import PAGES
-    repo = Path(__file__).resolve().parents[1]
-    port = port or int(os.environ.get("MODEHEAT_BENCH_PORT", 0)) or _free_port()
-    proc = subprocess.Popen([sys.executable, "-m", "webapp", "--port", str(port)], cwd=repo,
-                            stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
-                            env={**os.environ, "PYTHONPATH": str(repo)})
-    driver = None
-    try:
-        base = f"http://127.0.0.1:{port}"
-        _wait_for_server(base + "/", proc)
-        driver = _browser()
+    port = port or int(os.environ.get("MODEHEAT_BENCH_PORT", 0)) or None
+    with served_dashboard(port) as (base, driver):
         paths = [m.PATH for m in sorted(PAGES, key=lambda m: m.ORDER) if m.PATH != "/"] + ["/"]
         _cold(driver, base)                                  # warm-up of server and browser
         first = [_cold(driver, base) for _ in range(repeat)]
@@ -87,11 +76,3 @@ def p11(repeat=5, port=None):
                 "p11_case": f"home page after clearing cache and storage (median of {repeat}); menu clicks "
                             f"through {len(paths)} pages (median of {len(moves)})",
                 "contrast": {"p11_first_page_times_s": first, "p11_navigation_times_s": moves}}
-    finally:
-        if driver is not None:
-            driver.quit()
-        proc.terminate()
-        try:
-            proc.wait(timeout=10)
-        except subprocess.TimeoutExpired:
-            proc.kill()
