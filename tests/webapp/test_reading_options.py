@@ -117,3 +117,34 @@ def test_showing_the_active_dataset_in_the_selector_keeps_the_messages():
     ws, _, _ = _upload(session.empty_workspace(), _values(), STATED)
     same, notes = spectrum.apply_edit(ws, "sp-dataset", {}, selected=session.active(ws)["id"])
     assert same is ws and notes == []
+
+
+def test_sheet_option_reads_the_chosen_worksheet_of_an_upload():
+    import io
+
+    import openpyxl
+    book = openpyxl.Workbook()
+    book.active.title = "notes"
+    book.active.append(["invented model, for a test"])
+    sheet = book.create_sheet("dos")
+    sheet.append(["Phonon DOS (invented)"])
+    sheet.append(["frequency (THz)", "total"])
+    for a, b in zip(NU, G3):
+        sheet.append([float(a), float(b)])
+    out = io.BytesIO()
+    book.save(out)
+    url = "data:application/octet-stream;base64," + base64.b64encode(out.getvalue()).decode()
+    job = {"files": [{"name": "book.xlsx", "contents": url}], "max_bytes": 10 ** 6, "pending": []}
+    refused, notes = spectrum.apply_edit(session.empty_workspace(), "mh-upload-checked", _values(), dict(job))
+    assert refused["datasets"] == [] and "sheet" in notes[0][1]
+    new, notes = spectrum.apply_edit(session.empty_workspace(), "mh-upload-checked", _values(**{"sp-sheet": "dos"}),
+                                     {**job, "pending": []})
+    assert notes == [("info", "loaded book.xlsx")]
+    dos = spectrum.cache.load(session.active(new))
+    assert dos.source["sheet"] == "dos" and dos.atoms == 1
+
+
+def test_implausible_unit_is_warned_in_the_checks_panel():
+    ws, _, _ = _upload(session.empty_workspace(), _values(**{"sp-unit": "rad/s"}), BARE)
+    items = spectrum.warning_items(spectrum.cache.load(session.active(ws)))
+    assert any(kind == "warn" and "check the frequency unit" in text for kind, text in items)
