@@ -148,3 +148,14 @@ def test_implausible_unit_is_warned_in_the_checks_panel():
     ws, _, _ = _upload(session.empty_workspace(), _values(**{"sp-unit": "rad/s"}), BARE)
     items = spectrum.warning_items(spectrum.cache.load(session.active(ws)))
     assert any(kind == "warn" and "check the frequency unit" in text for kind, text in items)
+
+
+def test_refused_option_change_names_the_file_once():
+    nu = np.linspace(-0.5, 6, 131)
+    text = "# frequency (THz) dos\n" + "\n".join(f"{a} {0.01 if a < 0 else 9 * a * a / 216}" for a in nu) + "\n"
+    ws, _, _ = _upload(session.empty_workspace(), _values(), text)
+    same, notes = spectrum.apply_edit(ws, "sp-negative", {**spectrum.control_values(ws), "sp-negative": "refuse"})
+    assert same is ws
+    kind, message = notes[0]
+    assert kind == "error" and "refuse" in message and message.count("f0.dat") == 1
+    assert message.endswith("previous settings kept")

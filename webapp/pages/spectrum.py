@@ -173,7 +173,10 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
         if options == {key: session.options_of(current)[key] for key in options}:
             return ws, []      # the controls were only set to show the dataset's own options
         new, error = intake.with_options(ws, current["id"], options)
-        return new, [("error", f"{current['name']}: {error}; previous settings kept")] if error else []
+        if not error:
+            return new, []
+        prefix = f"{current['name']}: "
+        return new, [("error", prefix + error.removeprefix(prefix) + "; previous settings kept")]
     return ws, []
 
 
