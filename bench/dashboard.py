@@ -10,6 +10,7 @@ parameters that miss the result caches (a real recomputation).
 
 from __future__ import annotations
 
+import contextlib
 import os
 import socket
 import statistics
@@ -82,6 +83,30 @@ def _wait_for_server(url, proc, timeout=60.0):
     raise RuntimeError("the dashboard did not answer within 60 s")
 
 
+@contextlib.contextmanager
+def served_dashboard(port=None):
+    """The real server (``python -m webapp``) and a headless Chromium: yields (base URL, driver)."""
+    repo = Path(__file__).resolve().parents[1]
+    port = port or _free_port()
+    proc = subprocess.Popen([sys.executable, "-m", "webapp", "--port", str(port)], cwd=repo,
+                            stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
+                            env={**os.environ, "PYTHONPATH": str(repo)})
+    driver = None
+    try:
+        base = f"http://127.0.0.1:{port}"
+        _wait_for_server(base + "/", proc)
+        driver = _browser()
+        yield base, driver
+    finally:
+        if driver is not None:
+            driver.quit()
+        proc.terminate()
+        try:
+            proc.wait(timeout=10)
+        except subprocess.TimeoutExpired:
+            proc.kill()
+
+
 def _browser():
     from webapp.browser import start
     driver = start()
@@ -115,16 +140,7 @@ def p5(repeat=5):
     if not (os.path.exists(CHROMIUM) and any(
             os.path.exists(os.path.join(d, "chromedriver")) for d in os.environ.get("PATH", "").split(os.pathsep))):
         return {"p5_upload_to_plot_s": None, "p5_note": "Chromium or chromedriver not installed"}
-    repo = Path(__file__).resolve().parents[1]
-    port = _free_port()
-    proc = subprocess.Popen([sys.executable, "-m", "webapp", "--port", str(port)], cwd=repo,
-                            stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
-                            env={**os.environ, "PYTHONPATH": str(repo)})
-    driver = None
-    try:
-        base = f"http://127.0.0.1:{port}"
-        _wait_for_server(base + "/", proc)
-        driver = _browser()
+    with served_dashboard(int(os.environ.get("MODEHEAT_BENCH_PORT", 0)) or None) as (base, driver):
         times = []
         with tempfile.TemporaryDirectory(prefix="modeheat-bench-") as tmp:
             for k in range(repeat + 1):
@@ -138,14 +154,6 @@ def p5(repeat=5):
         return {"p5_upload_to_plot_s": statistics.median(times),
                 "p5_case": f"{UPLOAD_POINTS}-line DOS, Spectrum page, median of {repeat} uploads after one warm-up",
                 "contrast": {"p5_upload_times_s": times}}
-    finally:
-        if driver is not None:
-            driver.quit()
-        proc.terminate()
-        try:
-            proc.wait(timeout=10)
-        except subprocess.TimeoutExpired:
-            proc.kill()
 
 
 def _workspace():

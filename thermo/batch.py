@@ -12,6 +12,7 @@ from __future__ import annotations
 
 import csv
 import dataclasses
+import fnmatch
 import glob
 import io
 import os
@@ -24,6 +25,8 @@ from .errors import ModeheatError, OptionError
 INDEX_NAME = "index.csv"
 #: Columns of the index file, in order.
 INDEX_COLUMNS = ("input", "status", "output", "atoms", "imaginary_fraction", "warnings", "error")
+#: File name patterns taken from a directory by default (known DOS file kinds).
+KNOWN_PATTERNS = ("*.dat", "*.txt", "*.csv", "*.tsv", "*.dos", "*.xlsx")
 #: Most files handed to one worker process at a time.
 _MAX_CHUNK = 16
 
@@ -46,6 +49,8 @@ class BatchOptions:
         Table format.
     force : bool
         Replace existing output files.
+    digits : int, optional
+        Significant digits of the written numbers (None: full precision).
     """
 
     temperatures: tuple
@@ -57,20 +62,30 @@ class BatchOptions:
     formula: str | None = None
     fmt: str = "csv"
     force: bool = False
+    digits: int | None = None
 
 
-def expand_inputs(patterns, exclude_dir=None):
+def _wanted(name, patterns):
+    return any(fnmatch.fnmatch(name.lower(), p.lower()) for p in patterns)
+
+
+def expand_inputs(patterns, exclude_dir=None, pattern=None, skipped=None):
     """Input files named by paths, directories and glob patterns.
 
     Parameters
     ----------
     patterns : iterable of str or path-like
-        A file, a directory (its visible regular files, not recursive) or a
-        glob pattern (``**`` recurses).
+        A file, a directory (its visible regular files matching ``pattern``,
+        not recursive) or a glob pattern (``**`` recurses).
     exclude_dir : path-like, optional
         Files inside this directory found through another directory or a
         pattern are skipped (the output directory, so that ``data/**`` does
         not read the tables of ``data/tables``).
+    pattern : str or sequence of str, optional
+        File name patterns taken from a directory (case-insensitive);
+        default :data:`KNOWN_PATTERNS`.
+    skipped : list, optional
+        Receives the files of a directory left out by ``pattern``.
 
     Returns
     -------
@@ -93,20 +108,25 @@ def expand_inputs(patterns, exclude_dir=None):
     ['a.dat', 'b.dat']
     """
     skip = Path(exclude_dir).resolve() if exclude_dir is not None else None
+    wanted = KNOWN_PATTERNS if pattern is None else ((pattern,) if isinstance(pattern, str) else tuple(pattern))
     found, seen = [], set()
-    for pattern in patterns:
-        text = os.fspath(pattern)
+    for item in patterns:
+        text = os.fspath(item)
         path = Path(text)
         if path.is_file():
             matches = [path]
         elif path.is_dir():
-            matches = sorted(p for p in path.iterdir() if p.is_file() and not p.name.startswith("."))
+            files = sorted(p for p in path.iterdir() if p.is_file() and not p.name.startswith("."))
+            matches = [p for p in files if _wanted(p.name, wanted)]
+            if skipped is not None:
+                skipped.extend(str(p) for p in files if not _wanted(p.name, wanted))
         else:
             matches = sorted(Path(p) for p in glob.glob(text, recursive=True) if Path(p).is_file())
         if skip is not None and not path.is_file() and path.resolve() != skip:
             matches = [p for p in matches if skip not in p.resolve().parents]
         if not matches:
-            raise OptionError(f"no input files match {text!r}")
+            kinds = f" (taking {', '.join(wanted)}; choose others with a pattern)" if path.is_dir() else ""
+            raise OptionError(f"no input files match {text!r}{kinds}")
         for match in matches:
             key = match.resolve()
             if key not in seen:
@@ -181,7 +201,7 @@ def process_file(source, target, options):
                    warnings=" | ".join(_one_line(w) for w in dos.warnings))
         table = tabulate(dos, options.temperatures, per=options.per, formula=options.formula)
         info = provenance(dos, options.temperatures, per=options.per, formula=options.formula)
-        write_table(table, info, options.fmt, target, overwrite=options.force)
+        write_table(table, info, options.fmt, target, overwrite=options.force, digits=options.digits)
         row.update(status="ok", output=Path(target).name)
     except ModeheatError as exc:
         row["error"] = _one_line(exc)
@@ -272,7 +292,7 @@ def _run_pool(jobs, options, workers, bar):
     return [rows[source] for source, _ in jobs]
 
 
-def run_batch(inputs, outdir, options, workers=None, progress=True):
+def run_batch(inputs, outdir, options, workers=None, progress=True, pattern=None):
     """Write a table for every input file and an index of the outcomes.
 
     Parameters
@@ -287,11 +307,15 @@ def run_batch(inputs, outdir, options, workers=None, progress=True):
         Worker processes (default: ``os.cpu_count()``); 1 runs in this process.
     progress : bool
         Show a progress bar on stderr when it is a terminal.
+    pattern : str or sequence of str, optional
+        File name patterns taken from directories (default :data:`KNOWN_PATTERNS`).
 
     Returns
     -------
     list of dict
-        One index row per input, in input order (keys :data:`INDEX_COLUMNS`).
+        One index row per input, in input order (keys :data:`INDEX_COLUMNS`),
+        then one ``status = skipped`` row per directory file left out by the
+        pattern.
 
     Raises
     ------
@@ -304,7 +328,7 @@ def run_batch(inputs, outdir, options, workers=None, progress=True):
     >>> import tempfile
     >>> with tempfile.TemporaryDirectory() as tmp:
     ...     good = Path(tmp) / "good.dat"
-    ...     _ = good.write_text("# THz\\n" + "\\n".join(f"{v/10} {0.072 * (v/10)**2}" for v in range(51)))
+    ...     _ = good.write_text("# frequency unit: THz\\n" + "\\n".join(f"{v/10} {0.072 * (v/10)**2}" for v in range(51)))
     ...     _ = (Path(tmp) / "bad.dat").write_text("not a spectrum\\n")
     ...     rows = run_batch([tmp], Path(tmp) / "out", BatchOptions(temperatures=(300.0,)), workers=1)
     ...     [(Path(r["input"]).name, r["status"]) for r in rows]
@@ -322,7 +346,8 @@ def run_batch(inputs, outdir, options, workers=None, progress=True):
     out = Path(outdir)
     if out.exists() and not out.is_dir():
         raise OptionError(f"output {out} exists and is not a directory")
-    sources = expand_inputs(inputs, exclude_dir=out)
+    skipped = []
+    sources = expand_inputs(inputs, exclude_dir=out, pattern=pattern, skipped=skipped)
     targets = [str(out / name) for name in output_names(sources, options.fmt, out)]
     check_targets(targets, out / INDEX_NAME, options.force)
     out.mkdir(parents=True, exist_ok=True)
@@ -342,5 +367,7 @@ def run_batch(inputs, outdir, options, workers=None, progress=True):
     finally:
         if bar is not None:
             bar.close()
+    rows += [dict(_blank_row(p), status="skipped", error="not a known DOS file kind (see the pattern option)")
+             for p in skipped if Path(p).resolve() != (out / INDEX_NAME).resolve()]
     write_index(rows, out / INDEX_NAME, force=options.force)
     return rows

@@ -45,7 +45,7 @@ class PhononDOS:
     The spectrum is ``A ν²`` on ``[0, cutoff]`` (when ``low_frequency`` is set)
     followed by the piecewise-linear tabulated part ``frequency_thz``/``dos``
     (which then starts at the cut-off).  Its total integral is ``3 * atoms``
-    minus the imaginary modes dropped under policy ``keep-count``.
+    minus the imaginary modes dropped under policy ``drop-unscaled``.
 
     Attributes
     ----------

@@ -1,4 +1,4 @@
 """Names of the frequency units (kept free of heavy imports for the CLI)."""
 
 #: Canonical unit names accepted everywhere (CLI, web, Python).
-FREQUENCY_UNITS = ("THz", "cm-1", "meV", "rad/s", "K")
+FREQUENCY_UNITS = ("THz", "cm-1", "meV", "eV", "Hz", "rad/s", "rad/ps", "K")

@@ -22,6 +22,10 @@ _ALIASES = {
     "cm-1": "cm-1", "cm^-1": "cm-1", "1/cm": "cm-1", "cm**-1": "cm-1", "cm⁻¹": "cm-1",
     "invcm": "cm-1", "wavenumber": "cm-1", "wavenumbers": "cm-1", "kayser": "cm-1",
     "mev": "meV", "millielectronvolt": "meV",
+    "ev": "eV", "electronvolt": "eV",
+    "hz": "Hz", "hertz": "Hz", "1/s": "Hz", "s-1": "Hz", "s^-1": "Hz",
+    "rad/ps": "rad/ps", "rad ps-1": "rad/ps", "rad.ps-1": "rad/ps", "rad ps^-1": "rad/ps",
+    "radps-1": "rad/ps", "rad/ps^-1": "rad/ps",
     "rad/s": "rad/s", "rad s-1": "rad/s", "rad.s-1": "rad/s", "rad s^-1": "rad/s",
     "rads-1": "rad/s", "radps": "rad/s", "angular": "rad/s",
     "k": "K", "kelvin": "K",
@@ -32,7 +36,10 @@ _PER_THZ = {
     "THz": 1.0,
     "cm-1": 1e12 / (sc.c * 100.0),                    # ν/c in cm⁻¹
     "meV": sc.h * 1e12 / (sc.milli * sc.electron_volt),  # hν in meV
+    "eV": sc.h * 1e12 / sc.electron_volt,             # hν in eV
+    "Hz": 1e12,                                       # ν in Hz
     "rad/s": 2.0 * math.pi * 1e12,                    # ω = 2πν
+    "rad/ps": 2.0 * math.pi,                          # ω = 2πν in rad per picosecond
     "K": sc.h * 1e12 / sc.k,                          # hν/k_B in K
 }
 
@@ -86,7 +93,8 @@ def thz_to_unit(unit: str) -> float:
     Notes
     -----
     With CODATA constants from :mod:`scipy.constants`:
-    :math:`\\tilde\\nu = \\nu/c`, :math:`E = h\\nu`, :math:`\\omega = 2\\pi\\nu`,
+    :math:`\\tilde\\nu = \\nu/c`, :math:`E = h\\nu` (meV, eV), :math:`\\omega = 2\\pi\\nu`
+    (rad/s, rad/ps),
     :math:`T = h\\nu/k_B`.
 
     References
@@ -126,6 +134,30 @@ def to_thz(values, unit: str):
     return values / thz_to_unit(unit)
 
 
+_UNIT_PATTERNS = (
+    ("THz", r"(?<![a-z])thz(?![a-z])"),
+    ("cm-1", r"cm\s*(\^|\*\*)?\s*-\s*1|1\s*/\s*cm|cm⁻¹|wavenumber"),
+    ("meV", r"(?<![a-z])mev(?![a-z])"),
+    ("eV", r"(?<![a-z0-9])ev(?![a-z])"),
+    ("Hz", r"(?<![a-z])hz(?![a-z])"),
+    ("rad/s", r"rad\s*/\s*s(?![a-z])|rad\s*s\s*\^?-1|rad\.s-1"),
+    ("rad/ps", r"rad\s*/\s*ps(?![a-z])|rad\s*ps\s*\^?-1|rad\.ps-1"),
+    ("K", r"\(\s*k\s*\)|\[\s*k\s*\]|(?<![a-z])kelvin(?![a-z])|_k(?![a-z0-9])"),
+)
+
+
+def units_in_text(text: str) -> list:
+    """Every frequency unit named anywhere in ``text`` (canonical names, in table order).
+
+    Examples
+    --------
+    >>> units_in_text("sigma = 0.1 meV, range 0-20 THz")
+    ['THz', 'meV']
+    """
+    low = str(text).lower()
+    return [unit for unit, pat in _UNIT_PATTERNS if re.search(pat, low)]
+
+
 def guess_unit_from_text(text: str) -> str | None:
     """Find a frequency unit stated in a header or comment line, if any.
 
@@ -145,14 +177,8 @@ def guess_unit_from_text(text: str) -> str | None:
     'cm-1'
     >>> guess_unit_from_text("energy_meV")
     'meV'
+    >>> guess_unit_from_text("omega [rad/ps]")
+    'rad/ps'
     """
-    low = text.lower()
-    patterns = [
-        ("THz", r"(?<![a-z])thz(?![a-z])"),
-        ("cm-1", r"cm\s*(\^|\*\*)?\s*-\s*1|1\s*/\s*cm|cm⁻¹|wavenumber"),
-        ("meV", r"(?<![a-z])mev(?![a-z])"),
-        ("rad/s", r"rad\s*/\s*s|rad\s*s\s*\^?-1|rad\.s-1"),
-        ("K", r"\(\s*k\s*\)|\[\s*k\s*\]|(?<![a-z])kelvin(?![a-z])|_k(?![a-z0-9])"),
-    ]
-    found = [unit for unit, pat in patterns if re.search(pat, low)]
+    found = units_in_text(text)
     return found[0] if len(found) == 1 else None

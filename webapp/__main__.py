@@ -8,20 +8,15 @@ import sys
 
 
 def build_parser():
-    """Options of ``python -m webapp``."""
+    """Options of ``python -m webapp`` (the same as ``modeheat serve``)."""
+    from thermo.cli.options import add_server_options
     p = argparse.ArgumentParser(prog="python -m webapp", description="Serve the modeheat dashboard.")
-    p.add_argument("--host", default="127.0.0.1",
-                   help="interface to bind (default 127.0.0.1, this machine only)")
-    p.add_argument("--port", type=int, default=8050, help="port (default 8050)")
-    p.add_argument("--debug", action="store_true", help="Dash debug mode with reloading (development only)")
-    p.add_argument("--max-upload-mb", type=float, default=None, metavar="MB",
-                   help="largest accepted upload per file in MB (default 20)")
+    add_server_options(p)
     return p
 
 
-def main(argv=None) -> int:
-    """Serve the dashboard; returns the exit code."""
-    args = build_parser().parse_args(argv)
+def serve(args) -> int:
+    """Serve with parsed options (``host``, ``port``, ``debug``, ``max_upload_mb``)."""
     if args.max_upload_mb is not None:
         if not args.max_upload_mb > 0:
             print("error: --max-upload-mb must be > 0", file=sys.stderr)
@@ -33,6 +28,11 @@ def main(argv=None) -> int:
     from .app import app
     app.run(host=args.host, port=args.port, debug=args.debug)
     return 0
+
+
+def main(argv=None) -> int:
+    """Serve the dashboard; returns the exit code."""
+    return serve(build_parser().parse_args(argv))
 
 
 if __name__ == "__main__":

@@ -49,7 +49,7 @@ _DERIVED_CACHE = _LRU(96)
 def _load_key(dataset):
     opts = options_of(dataset)
     return (dataset["sha256"], dataset["name"], opts["freq_unit"], opts["atoms"],
-            opts["negative"], str(opts["low_frequency"]))
+            opts["negative"], str(opts["low_frequency"]), opts.get("sheet") or None)
 
 
 def load(dataset):
@@ -61,7 +61,7 @@ def load(dataset):
 
     def compute():
         return load_dos(content_bytes(dataset), freq_unit=key[2], atoms=key[3],
-                        negative=key[4], low_frequency=key[5], name=key[1])
+                        negative=key[4], low_frequency=key[5], name=key[1], sheet=key[6])
     return _DOS_CACHE.get(key, compute)
 
 

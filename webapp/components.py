@@ -97,11 +97,16 @@ def page(title, intro, *children):
                         className="mh-page")
 
 
-def temperature_fields(prefix, t_min=0, t_max=1000, step=5):
-    """Fields ``<prefix>-tmin``, ``-tmax``, ``-step`` of a temperature grid [K]."""
-    return [number(f"{prefix}-tmin", t_min, "T from [K]", min_value=0),
-            number(f"{prefix}-tmax", t_max, "T to [K]", min_value=0),
-            number(f"{prefix}-step", step, "step [K]", min_value=0)]
+def temperature_fields(prefix, t_min=0, t_max=1500, step=5):
+    """Fields ``<prefix>-tmin``, ``-tmax``, ``-step`` of a temperature grid [K].
+
+    No browser-side limits: every typed value reaches
+    :func:`thermo.temperatures.temperature_range`, whose message names the
+    problem (a browser limit would only blank the field).
+    """
+    return [number(f"{prefix}-tmin", t_min, "T from [K]"),
+            number(f"{prefix}-tmax", t_max, "T to [K]"),
+            number(f"{prefix}-step", step, "step [K]")]
 
 
 def basis_field(control_id, value="formula"):

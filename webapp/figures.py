@@ -75,6 +75,28 @@ def dos_figure(dos):
     return fig
 
 
+def reduced_range(values, reference=None, min_share=0.25):
+    """y-range of a reduced-DOS plot that never zooms into noise.
+
+    The span is at least ``min_share`` of the typical value (the fitted
+    coefficient when given, else the median), so a flat g/ν² shows as flat
+    rather than as 1e-6 wiggles blown up to the full height.
+
+    Examples
+    --------
+    >>> reduced_range(np.array([1.0, 1.0, 1.0]), 1.0)
+    [0.75, 1.25]
+    """
+    finite = np.asarray(values, float)
+    finite = finite[np.isfinite(finite)]
+    if not finite.size:
+        return None
+    typical = abs(float(reference)) if reference else float(np.nanmedian(np.abs(finite)))
+    lo, hi = float(np.nanpercentile(finite, 2)), float(np.nanpercentile(finite, 98))
+    span = max(hi - lo, min_share * typical)
+    return [max(0.0, lo - span), hi + span]
+
+
 def reduced_figure(dos):
     """The reduced DOS g/ν² near ν = 0 with the fitted window and coefficient."""
     fig = figure("frequency ν [THz]", "g(ν)/ν² [states/THz³ per formula unit]")
@@ -92,14 +114,14 @@ def reduced_figure(dos):
         fig.add_trace(go.Scatter(x=[0.0, fit.cutoff_thz], y=[fit.coefficient] * 2, mode="lines",
                                  name=f"fitted A = {fit.coefficient:.4g}",
                                  line={"width": 2, "dash": "dash", "color": INK}))
-        ref = red[(nu >= lo) & (nu <= hi)]
-        if ref.size:
-            span = float(np.nanmax(ref) - np.nanmin(ref)) or abs(fit.coefficient)
-            fig.update_yaxes(range=[max(0.0, float(np.nanmin(ref)) - 2 * span), float(np.nanmax(ref)) + 3 * span])
+        window = reduced_range(red[(nu >= lo) & (nu <= hi)], fit.coefficient)
+        if window:
+            fig.update_yaxes(range=window)
     else:
         finite = red[keep & (nu > 0.05 * x_max)]
         if finite.size:
-            fig.update_yaxes(range=[0, float(np.nanpercentile(finite, 98)) * 1.3])
+            fig.update_yaxes(range=[0, reduced_range(finite)[1]])
+    fig.update_yaxes(exponentformat="e", tickformat=".3~g")
     return fig
 
 

@@ -30,22 +30,58 @@ def decode_upload(contents: str, name: str) -> bytes:
         raise UploadRefused(f"{name}: the upload is not valid base64") from None
 
 
-def _checked_dataset(workspace, contents, name, max_bytes):
+#: Words of a refusal -> the reading option that fixes it (shown after the message).
+_FIXES = (
+    ("frequency unit is not stated", "choose the Frequency unit under Reading options"),
+    ("give the number of atoms", "type the Atoms per formula unit under Reading options"),
+    ("policy is to refuse", "choose another Imaginary modes option"),
+    ("sheet", "type the Sheet under Reading options"),
+)
+
+
+def fix_hint(message: str) -> str:
+    """The reading option that would fix a refused file, or ``""``.
+
+    Examples
+    --------
+    >>> fix_hint("a.dat: the frequency unit is not stated in the file")
+    'choose the Frequency unit under Reading options'
+    """
+    return next((fix for words, fix in _FIXES if words in str(message)), "")
+
+
+def _checked_dataset(workspace, contents, name, max_bytes, options=None):
     raw = decode_upload(contents, name)
     if len(raw) > max_bytes:
         raise UploadRefused(f"{name}: the file is {len(raw) / 1e6:.1f} MB; "
                             f"the upload limit is {max_bytes / 1e6:g} MB")
-    dataset = session.new_dataset(session.unique_name(workspace, name), raw)
+    name = session.unique_name(workspace, name)
+    options = {**session.DEFAULT_OPTIONS, **(options or {})}
+    # The unit and atom count a file states itself win over options carried on the page
+    # (they may have been set for another file); the options fill in what the file lacks.
+    own = {**options, "freq_unit": None, "atoms": None}
+    dataset = session.new_dataset(name, raw, own)
+    try:
+        cache.load(dataset)
+        return dataset
+    except ModeheatError:
+        if own == options:
+            raise
+    dataset = session.new_dataset(name, raw, options)
     cache.load(dataset)
     return dataset
 
 
-def add_uploads(workspace, contents_list, names, max_bytes):
+def add_uploads(workspace, contents_list, names, max_bytes, options=None, refused=None):
     """Add uploaded files that load; report the others.
 
-    Each file is checked with :func:`thermo.load_dos` under default options
-    before it enters the workspace, so a bad file never replaces the active
-    dataset.  The last good file becomes active.
+    Each file is checked with :func:`thermo.load_dos` under ``options`` (the
+    page's reading options; default options when None) before it enters the
+    workspace, so a bad file never replaces the active dataset.  The last
+    good file becomes active.  A file that arrived but that :mod:`thermo`
+    refused is appended to ``refused`` (``{"name", "contents"}``) when a list
+    is given, so that it can be read again with other options; its message
+    names the option that would fix it.
 
     Returns
     -------
@@ -58,9 +94,13 @@ def add_uploads(workspace, contents_list, names, max_bytes):
           "active": (workspace or {}).get("active")}
     messages = []
     for contents, name in zip(contents_list or [], names or []):
-        dataset, error = attempt(_checked_dataset, ws, contents, name, max_bytes)
+        dataset, error = attempt(_checked_dataset, ws, contents, name, max_bytes, options)
         if error:
-            messages.append(("error", error))
+            hint = fix_hint(error)
+            if refused is not None and not error.startswith(f"{name}: the upload") and "upload limit" not in error:
+                refused.append({"name": name, "contents": contents})
+                hint = (hint + ", then press Read again") if hint else ""
+            messages.append(("error", error + (f" — {hint}" if hint else "")))
             continue
         ws = session.with_dataset(ws, dataset)
         messages.append(("info", f"loaded {dataset['name']}"))

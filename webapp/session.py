@@ -21,7 +21,7 @@ import uuid
 #: Load options of a new dataset (see :func:`thermo.load_dos`); ``formula``
 #: is only used for values per gram.
 DEFAULT_OPTIONS = {"freq_unit": None, "atoms": None, "negative": "drop",
-                   "low_frequency": "auto", "formula": ""}
+                   "low_frequency": "auto", "formula": "", "sheet": None}
 #: Largest workspace [characters of JSON] kept in the tab's session storage
 #: (browsers allow about 5 million characters per site; common practice).
 SAVED_LIMIT_CHARS = 3_000_000

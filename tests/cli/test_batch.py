@@ -145,3 +145,22 @@ def test_progress_bar_on_a_terminal(inputs, tmp_path):
     assert proc.returncode == 1
     assert "5/5" in text and "file/s" in text          # tqdm's bar reached the end
     assert "c_bad.dat" in text
+
+
+def test_directory_takes_known_kinds_and_reports_skipped(inputs, tmp_path):
+    (inputs / "helper.py").write_text("print('not a spectrum')\n")
+    (inputs / "f.dos").write_text(_debye_text(5.5))
+    out = inputs / "tables"          # output folder inside the input folder
+    code = subprocess.run([sys.executable, "-m", "thermo", "batch", str(inputs), "--output", str(out),
+                           "--temperatures", "300"], capture_output=True, text=True, cwd=REPO)
+    assert code.returncode == 1      # c_bad.dat fails, helper.py is skipped, not failed
+    assert "skipped 1 file of other kinds (helper.py)" in code.stderr
+    assert "5 of 6 tables written" in code.stderr
+    index = _index(out)
+    assert {r["status"] for r in index if r["input"].endswith("helper.py")} == {"skipped"}
+    again = subprocess.run([sys.executable, "-m", "thermo", "batch", str(inputs), "--output", str(out),
+                            "--temperatures", "300", "--pattern", "*.dos", "--force"],
+                           capture_output=True, text=True, cwd=REPO)
+    assert again.returncode == 0, again.stderr
+    assert "1 of 1 table written" in again.stderr
+    assert [r["status"] for r in _index(out)].count("ok") == 1

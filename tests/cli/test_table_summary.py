@@ -29,12 +29,12 @@ def debye_file(tmp_path):
 
 
 def test_table_csv_to_stdout_equals_tabulate(debye_file):
-    out = run_cli("table", str(debye_file), "--temperatures", "0:300:50")
+    out = run_cli("table", str(debye_file), "--temperatures", "0:300:50", "--digits", "17")
     assert out.returncode == 0, out.stderr
     df, info = read_exported_csv(out.stdout)
     expected = tabulate(load_dos(debye_file), np.arange(0, 301, 50.0))
     assert list(df.columns) == list(expected.columns)
-    assert np.allclose(df.to_numpy(), expected.to_numpy(), rtol=1e-12)
+    assert np.allclose(df.to_numpy(), expected.to_numpy(), rtol=1e-15, atol=0)
     assert info["input_sha256"] and info["atoms"] == 1 and info["frequency_unit"] == "THz"
     assert "inferred" in out.stderr  # warnings go to stderr
 
@@ -51,7 +51,9 @@ def test_table_files_round_trip(debye_file, tmp_path, fmt):
         assert info["basis"] == "atom"
     else:
         df = pd.read_excel(target, sheet_name="table")
-    assert np.allclose(df.to_numpy(dtype=float), expected.to_numpy(), rtol=1e-12)
+    # default 8 significant digits: rounding error at most half a unit in the 8th digit
+    assert np.allclose(df.to_numpy(dtype=float), expected.to_numpy(), rtol=5e-8, atol=0)
+    assert not np.allclose(df.to_numpy(dtype=float), expected.to_numpy(), rtol=1e-12, atol=0)
     again = run_cli("table", str(debye_file), "--format", fmt, "--output", str(target))
     assert again.returncode == 2 and "overwrite" in again.stderr and "--force" in again.stderr
 
@@ -96,3 +98,56 @@ def test_line_number_in_error_message(tmp_path):
     path.write_text("# c\nfrequency_THz total\n" + "\n".join(f"{i} {i}" for i in range(12)) + "\n12 x\n")
     out = run_cli("table", str(path))
     assert "line 15" in out.stderr
+
+
+def test_default_grid_has_standard_temperature_and_eight_digits(debye_file):
+    out = run_cli("table", str(debye_file))
+    assert out.returncode == 0, out.stderr
+    df, info = read_exported_csv(out.stdout)
+    t = df["temperature_K"].to_numpy()
+    # our default grid: 0-1500 K every 5 K plus 298.15 K (the standard reference temperature)
+    assert t[0] == 0.0 and t[-1] == 1500.0 and len(t) == 302 and 298.15 in t
+    assert np.all(np.diff(t) > 0)
+    assert info["significant_digits"] == 8
+    body = [line for line in out.stdout.splitlines() if line and not line.startswith("#")][1:]
+    digits = [len(c.lstrip("-").replace(".", "").split("e")[0].lstrip("0")) for row in body for c in row.split(",")]
+    assert max(digits) == 8
+
+
+@pytest.mark.parametrize("name, fmt, ok", [("t.xlsx", None, True), ("t.json", None, True),
+                                            ("t.xlsx", "csv", False), ("t.txt", None, False),
+                                            ("t.txt", "json", True)])
+def test_format_from_output_suffix(debye_file, tmp_path, name, fmt, ok):
+    target = tmp_path / name
+    out = run_cli("table", str(debye_file), "--temperatures", "300", "--output", str(target),
+                  *(["--format", fmt] if fmt else []))
+    if not ok:
+        assert out.returncode == 2 and len(out.stderr.strip().splitlines()) == 1 and not target.exists()
+        return
+    assert out.returncode == 0, out.stderr
+    raw = target.read_bytes()
+    if name.endswith(".xlsx"):
+        assert raw.startswith(b"PK\x03\x04")
+        assert pd.read_excel(target, sheet_name="table")["temperature_K"].tolist() == [300.0]
+    else:
+        assert read_exported_json(target)[0]["temperature_K"].tolist() == [300.0]
+
+
+def test_serve_has_real_options():
+    out = run_cli("serve", "--help")
+    assert out.returncode == 0
+    for option in ("--port", "--host", "--debug", "--max-upload-mb"):
+        assert option in out.stdout
+    bad = run_cli("serve", "--port", "0")
+    assert bad.returncode == 2 and "--port" in bad.stderr
+
+
+def test_wrong_unit_is_warned_on_the_command_line(debye_file):
+    out = run_cli("table", str(debye_file), "--freq-unit", "rad/s", "--temperatures", "298.15")
+    assert out.returncode == 0
+    assert "check the frequency unit" in out.stderr and "entropy at 298.15 K" in out.stderr
+
+
+def test_summary_says_what_temperatures_do():
+    out = run_cli("summary", "--help")
+    assert "estimated_relative_error" in " ".join(out.stdout.split())

@@ -55,7 +55,7 @@ def test_unit_taken_from_header(header, unit):
 
 def test_unit_missing_is_refused_with_the_choices():
     nu, g = debye_table(350.0, points=201)
-    with pytest.raises(DosInputError, match="THz, cm-1, meV, rad/s, K"):
+    with pytest.raises(DosInputError, match="THz, cm-1, meV, eV, Hz, rad/s, rad/ps, K"):
         load_dos(dos_text(nu, g, header="x y"))
 
 

@@ -143,8 +143,14 @@ def test_temperature_range_errors_are_one_line():
     with pytest.raises(OptionError) as info:
         temperature_range(10, 0, 5)
     assert "\n" not in reporting.one_line(info.value)
-    with pytest.raises(OptionError, match="three numbers"):
+    with pytest.raises(OptionError, match="lowest temperature is missing or not a number"):
         temperature_range("ten", 0, 5)
+    with pytest.raises(OptionError, match="highest temperature -5 K is below 0 K"):
+        temperature_range(0, -5, 5)
+    with pytest.raises(OptionError, match="highest temperature 5 K is below the lowest 10 K; swap"):
+        temperature_range(10, 5, 5)
+    with pytest.raises(OptionError, match="step must be > 0 K"):
+        temperature_range(0, 5, 0)
 
 
 def test_reported_callback_turns_any_error_into_the_fallback():

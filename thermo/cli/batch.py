@@ -7,9 +7,10 @@ reported on stderr and in ``index.csv``), 2 for bad options (nothing written).
 from __future__ import annotations
 
 import sys
+from pathlib import Path
 
 from ..temperatures import parse_temperatures
-from .options import add_input_options, add_table_options, add_temperature_option
+from .options import add_input_options, add_table_options, add_temperature_option, check_digits
 
 
 def register(sub):
@@ -17,6 +18,9 @@ def register(sub):
     add_input_options(p, many=True)
     add_temperature_option(p)
     add_table_options(p, "directory for the tables and index.csv (created when missing; required)")
+    p.add_argument("--pattern", action="append", metavar="GLOB",
+                   help="file names taken from a directory, e.g. '*.dos' (repeatable; default: the known "
+                        "DOS kinds .dat .txt .csv .tsv .dos .xlsx); other files are reported as skipped")
     p.add_argument("--workers", type=int, metavar="N",
                    help="worker processes (default: the number of cores)")
     p.set_defaults(func=run)
@@ -34,11 +38,23 @@ def run(args) -> int:
         temperatures=tuple(parse_temperatures(args.temperatures).tolist()),
         freq_unit=args.freq_unit, atoms=args.atoms, negative=args.negative,
         low_frequency=args.low_frequency, per=args.per, formula=args.formula,
-        fmt=args.format, force=args.force)
-    rows = run_batch(args.file, args.output, options, workers=args.workers, progress=True)
-    failed = [row for row in rows if row["status"] != "ok"]
+        fmt=args.format or "csv", force=args.force, digits=check_digits(args.digits))
+    rows = run_batch(args.file, args.output, options, workers=args.workers, progress=True,
+                     pattern=args.pattern)
+    failed = [row for row in rows if row["status"] == "failed"]
+    skipped = [row for row in rows if row["status"] == "skipped"]
+    done = [row for row in rows if row["status"] == "ok"]
     for row in failed:
         print(f"failed: {row['error']}", file=sys.stderr)
-    print(f"{len(rows) - len(failed)} of {len(rows)} tables written to {args.output}; "
+    if skipped:
+        names = ", ".join(Path(row["input"]).name for row in skipped[:5]) + (" ..." if len(skipped) > 5 else "")
+        print(f"skipped {_count(len(skipped), 'file')} of other kinds ({names}); choose files with --pattern",
+              file=sys.stderr)
+    tried = len(done) + len(failed)
+    print(f"{len(done)} of {_count(tried, 'table')} written to {args.output}; "
           f"see {INDEX_NAME} there", file=sys.stderr)
     return 1 if failed else 0
+
+
+def _count(n, noun):
+    return f"{n} {noun}" + ("" if n == 1 else "s")

@@ -6,7 +6,7 @@ import json
 import sys
 
 from ..temperatures import DEFAULT_TEMPERATURES, parse_temperatures
-from .options import add_input_options, load_from_args, report_warnings
+from .options import add_input_options, check_digits, load_from_args, report_warnings
 
 
 def register(sub):
@@ -22,6 +22,8 @@ def register(sub):
                    help="Einstein terms sharing the 3n-3 optical modes in the composite model (default 1)")
     p.add_argument("--format", default="json", choices=["json", "csv"],
                    help="json: every θ with definitions (default); csv: DOS and model tables side by side")
+    p.add_argument("--digits", type=int, default=8, metavar="N",
+                   help="significant digits of the csv table (default 8; 17 for full double precision)")
     p.set_defaults(func=run)
 
 
@@ -70,5 +72,6 @@ def run(args) -> int:
             "composite_einstein_theta_K": report["composite_einstein_theta_K"],
             "fit_range_K": report["fit_range_K"],
             "note": "einstein/debye columns use the θ fitted to C_v over fit_range_K; U and F include the ZPE"}
-    sys.stdout.write(export_table(side_by_side(tables), info, "csv").decode("utf-8"))
+    sys.stdout.write(export_table(side_by_side(tables), info, "csv", digits=check_digits(args.digits))
+                     .decode("utf-8"))
     return 0

@@ -17,12 +17,17 @@ def add_input_options(parser, many=False):
         parser.add_argument("file", help="DOS file: text (space, tab, comma or semicolon separated) or .xlsx")
     parser.add_argument("--freq-unit", metavar="U",
                         help=f"unit of the frequency column: {', '.join(FREQUENCY_UNITS)} "
-                             "(default: as stated in the file header)")
+                             "(default: as stated by the frequency column's header or an explicit "
+                             "unit line such as '# frequency unit: THz'; never guessed)")
     parser.add_argument("--atoms", type=int, metavar="N",
                         help="atoms per formula unit (default: inferred when the DOS integrates to 3N)")
-    parser.add_argument("--negative", default="drop", choices=["drop", "keep-count", "refuse"],
-                        help="imaginary (negative-frequency) modes: drop and renormalise (default), "
-                             "drop without renormalising, or refuse the file")
+    parser.add_argument("--negative", default="drop", choices=["drop", "drop-unscaled", "refuse", "keep-count"],
+                        metavar="{drop,drop-unscaled,refuse}",
+                        help="imaginary (negative-frequency) modes: drop and renormalise to 3N (default), "
+                             "drop-unscaled: drop without renormalising (old spelling keep-count still "
+                             "accepted), or refuse the file")
+    parser.add_argument("--sheet", metavar="NAME_OR_NUMBER",
+                        help=".xlsx input: worksheet name or number from 1 (default: the first sheet)")
     parser.add_argument("--low-frequency", default="auto", metavar="auto|off|LOW:HIGH",
                         help="ν² treatment below a cut-off: automatic window (default), off, or a window in THz")
 
@@ -32,26 +37,53 @@ def add_table_options(parser, output_help):
     parser.add_argument("--per", default="formula", choices=["formula", "atom", "gram"],
                         help="basis: per mole of formula units (default), per atom, per gram (needs --formula)")
     parser.add_argument("--formula", help="chemical formula of the formula unit, e.g. MgO (for --per gram)")
-    parser.add_argument("--format", default="csv", choices=["csv", "json", "xlsx"], help="table format (default csv)")
+    parser.add_argument("--format", default=None, choices=["csv", "json", "xlsx"],
+                        help="table format (default: from the --output suffix, else csv)")
     parser.add_argument("--output", metavar="PATH", help=output_help)
+    parser.add_argument("--digits", type=int, default=8, metavar="N",  # = io.writers.DEFAULT_DIGITS
+                        help="significant digits of the numbers written (default 8, which the numerics "
+                             "support; 17 for full double precision)")
     parser.add_argument("--force", action="store_true", help="replace existing output files")
 
 
 def add_temperature_option(parser, default=DEFAULT_TEMPERATURES):
     """Add ``--temperatures SPEC``."""
     parser.add_argument("--temperatures", default=default, metavar="SPEC",
-                        help="START:STOP:STEP in K (STOP included) or a comma list "
-                             f"(default {default})")
+                        help="START:STOP:STEP in K (STOP included), a comma list, or both mixed "
+                             f"(default {default}: 0 to 1500 K every 5 K plus the standard 298.15 K)")
 
 
 def load_from_args(args):
     """Load the DOS named by parsed input options."""
     from ..preparation.loading import load_dos
     return load_dos(args.file, freq_unit=args.freq_unit, atoms=args.atoms,
-                    negative=args.negative, low_frequency=args.low_frequency)
+                    negative=args.negative, low_frequency=args.low_frequency, sheet=args.sheet)
+
+
+def check_digits(digits):
+    """``--digits`` as an int from 1 to 17 (OptionError otherwise)."""
+    from ..errors import OptionError
+    if digits is None or not 1 <= digits <= 17:
+        raise OptionError(f"--digits must be from 1 to 17, not {digits}")
+    return digits
 
 
 def report_warnings(dos):
     """Print the DOS's cautions on stderr, one per line."""
     for note in dos.warnings:
         print(f"warning: {note}", file=sys.stderr)
+
+
+#: Port the dashboard listens on by default.
+DEFAULT_PORT = 8050
+
+
+def add_server_options(parser):
+    """Add ``--host``, ``--port``, ``--debug`` and ``--max-upload-mb`` (``serve`` and ``python -m webapp``)."""
+    parser.add_argument("--host", default="127.0.0.1",
+                        help="interface to bind (default 127.0.0.1, this machine only)")
+    parser.add_argument("--port", type=int, default=DEFAULT_PORT, help=f"port (default {DEFAULT_PORT})")
+    parser.add_argument("--debug", action="store_true",
+                        help="Dash debug mode with reloading (development only)")
+    parser.add_argument("--max-upload-mb", type=float, default=None, metavar="MB",
+                        help="largest accepted upload per file in MB (default 20)")

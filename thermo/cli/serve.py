@@ -1,19 +1,26 @@
-"""``modeheat serve``: start the dashboard (imports the web layer lazily)."""
+"""``modeheat serve``: start the dashboard (imports the web layer lazily).
+
+The server options are defined once, in :func:`.options.add_server_options`;
+``python -m webapp`` uses the same definitions.
+"""
 
 from __future__ import annotations
 
+from .options import add_server_options
 
 def register(sub):
-    p = sub.add_parser("serve", help="serve the browser dashboard (same options as python -m webapp)")
-    p.add_argument("options", nargs="*", metavar="OPTION",
-                   help="passed on to the dashboard, e.g. -- --port 8060")
+    p = sub.add_parser("serve", help="serve the browser dashboard",
+                       description="Serve the modeheat dashboard in the browser.")
+    add_server_options(p)
     p.set_defaults(func=run)
 
 
 def run(args) -> int:
+    from ..errors import OptionError
+    if not 0 < args.port < 65536:
+        raise OptionError(f"--port must be from 1 to 65535, not {args.port}")
     try:
-        from webapp.__main__ import main as serve
+        from webapp.__main__ import serve
     except ImportError as exc:
-        from ..errors import OptionError
         raise OptionError(f"the dashboard is not installed here ({exc})") from None
-    return int(serve(args.options) or 0)
+    return int(serve(args) or 0)

@@ -5,13 +5,16 @@ from __future__ import annotations
 import json
 
 from ..temperatures import parse_temperatures
-from .options import add_input_options, add_temperature_option, load_from_args, report_warnings
+from .options import add_input_options, load_from_args, report_warnings
 
 
 def register(sub):
     p = sub.add_parser("summary", help="key numbers of a DOS (atoms, imaginary share, ZPE, θ_D ...) as JSON")
     add_input_options(p)
-    add_temperature_option(p, default="0:1000:10")
+    p.add_argument("--temperatures", default="0:1500:5,298.15", metavar="SPEC",
+                   help="temperatures [K] over which the estimated_relative_error is taken (the other "
+                        "numbers are at 298.15 K or temperature-free); START:STOP:STEP and/or a comma "
+                        "list (default 0:1500:5,298.15)")
     p.set_defaults(func=run)
 
 

@@ -6,8 +6,8 @@ import sys
 from pathlib import Path
 
 from ..temperatures import parse_temperatures
-from .options import (add_input_options, add_table_options, add_temperature_option, load_from_args,
-                      report_warnings)
+from .options import (add_input_options, add_table_options, add_temperature_option, check_digits,
+                      load_from_args, report_warnings)
 
 
 def register(sub):
@@ -21,9 +21,11 @@ def register(sub):
 def run(args) -> int:
     from ..errors import OptionError
     from ..tables import provenance, tabulate
-    from ..io.writers import export_table, write_table
+    from ..io.writers import export_table, format_from_suffix, write_table
 
     temperatures = parse_temperatures(args.temperatures)
+    digits = check_digits(args.digits)
+    fmt = format_from_suffix(args.output, args.format) if args.output else (args.format or "csv")
     if args.output and not args.force and Path(args.output).exists():
         raise OptionError(f"refusing to overwrite existing file {args.output}; use --force to replace it")
     dos = load_from_args(args)
@@ -31,10 +33,10 @@ def run(args) -> int:
     report_warnings(dos)
     info = provenance(dos, temperatures, per=args.per, formula=args.formula)
     if args.output:
-        write_table(table, info, args.format, args.output, overwrite=args.force)
+        write_table(table, info, fmt, args.output, overwrite=args.force, digits=digits)
         print(f"wrote {args.output}", file=sys.stderr)
         return 0
-    if args.format == "xlsx":
+    if fmt == "xlsx":
         raise OptionError("xlsx output needs --output PATH")
-    sys.stdout.write(export_table(table, info, args.format).decode("utf-8"))
+    sys.stdout.write(export_table(table, info, fmt, digits=digits).decode("utf-8"))
     return 0

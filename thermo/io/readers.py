@@ -8,11 +8,21 @@ Accepted layouts
 * text with columns separated by whitespace (spaces and/or tabs), commas or
   semicolons; the separator is detected once per file from the first data
   row.  The decimal mark is always ``.``;
-* ``.xlsx`` workbooks (recognised by their zip signature), first sheet only;
+* text in UTF-8 (with or without a byte-order mark) or UTF-16 (with a
+  byte-order mark, or plain ASCII content saved as UTF-16);
+* ``.xlsx`` workbooks (recognised by their zip signature): the first sheet or
+  the one chosen by name or number; text rows above the header row (titles)
+  are kept as comments;
 * comment lines start with ``#``, ``!`` or ``%`` (after optional blanks);
   blank lines are skipped;
 * an optional header row: the first non-comment row, if any of its cells is
   not a number.
+
+The frequency unit is taken only from the first header cell, from a commented
+header row, or from an explicit statement in a comment (``# frequency unit:
+THz``, ``# frequencies in cm-1``, ``# nu (meV)``).  A unit merely mentioned in
+a comment (``# smearing sigma = 2 cm-1``) is never taken; it is recorded in
+:attr:`RawTable.unit_mentions` so that callers can ask for the unit.
 
 Column 1 is the frequency, column 2 the total DOS, further columns partial
 DOS.  Every problem raises :class:`thermo.errors.DosInputError` with a one-line
@@ -22,7 +32,6 @@ message naming the file, line and column.
 from __future__ import annotations
 
 import hashlib
-import io
 import math
 import re
 from dataclasses import dataclass, field
@@ -33,7 +42,9 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import DosInputError
-from ..units import guess_unit_from_text
+from .decoding import decode_text
+from .unit_statements import HEADER_CELL, frequency_unit
+from .workbook import xlsx_rows, xlsx_titles
 
 #: Characters that start a comment line.
 COMMENT_CHARS = ("#", "!", "%")
@@ -48,12 +59,7 @@ _DECIMAL_COMMA = re.compile(r"[+-]?\d+,\d+")
 _LINE_BREAK = re.compile(r"\r\n|\r|\n")
 # Breaks that str.splitlines honours besides \r\n, \r and \n.
 _OTHER_BREAKS = "\v\f\x1c\x1d\x1e\x85\u2028\u2029"
-# A header cell with its unit in brackets kept attached: "frequency (THz)".
-_HEADER_CELL = re.compile(r"[^\s(\[]+(?:\s*[(\[][^)\]]*[)\]])?|[(\[][^)\]]*[)\]]")
-# Denominators of a DOS unit ("states/THz", "per cm-1") are not frequency units.
-_DOS_DENOMINATOR = re.compile(
-    r"(?:states|modes|dos|arb\.?|a\.u\.|1(?!\s*/\s*cm\b))\s*/\s*[a-z0-9^*\-⁻¹]+(?:\s*-\s*1)?|\bper\s+\S+",
-    re.IGNORECASE)
+
 
 
 @dataclass(frozen=True)
@@ -78,6 +84,11 @@ class RawTable:
         1-based file line (sheet row for .xlsx) of each data row.
     comments : list of str
         Comment lines, stripped of surrounding blanks.
+    unit_mentions : tuple of (int, str)
+        ``(line, unit)`` of frequency units a comment mentions without
+        stating them as the frequency unit (not used for ``header_unit``).
+    sheet : str or None
+        Name of the worksheet read (.xlsx), else None.
     """
 
     data: np.ndarray
@@ -87,9 +98,11 @@ class RawTable:
     sha256: str
     line_numbers: list = field(default_factory=list)
     comments: list = field(default_factory=list)
+    unit_mentions: tuple = ()
+    sheet: str | None = None
 
 
-def read_table(source, name: str | None = None) -> RawTable:
+def read_table(source, name: str | None = None, sheet=None) -> RawTable:
     """Read a DOS table from a path, raw bytes or text.
 
     Parameters
@@ -100,6 +113,9 @@ def read_table(source, name: str | None = None) -> RawTable:
     name : str, optional
         Display name used in messages; default the file name, ``"<text>"``
         for text and ``"<bytes>"`` for bytes.
+    sheet : str or int, optional
+        Worksheet of an ``.xlsx`` workbook: its name or 1-based number
+        (default the first sheet); ignored for text.
 
     Returns
     -------
@@ -141,10 +157,17 @@ def read_table(source, name: str | None = None) -> RawTable:
     if not raw.strip():
         raise DosInputError("the file is empty", display)
     is_xlsx = raw.startswith(_XLSX_MAGIC)
-    rows = _xlsx_rows(raw, display) if is_xlsx else _text_rows(_decode(raw, display))
+    sheet_name = None
+    if is_xlsx:
+        rows, sheet_name = xlsx_rows(raw, display, sheet)
+    else:
+        rows = _text_rows(decode_text(raw, display))
     comments, candidates = _split_comments(rows)
+    if is_xlsx:
+        comments, candidates = xlsx_titles(comments, candidates, _looks_numeric)
     if not candidates:
-        raise DosInputError("no data rows (only comments or blank lines)", display)
+        where = f" on sheet {sheet_name!r}" if sheet_name else ""
+        raise DosInputError(f"no data rows{where} (only comments or blank lines)", display)
     delimiter = None if is_xlsx else _choose_delimiter(candidates)
     split = None if is_xlsx else _splitter(delimiter)
     header = None
@@ -152,7 +175,8 @@ def read_table(source, name: str | None = None) -> RawTable:
     if not all(_looks_numeric(c) or c == "" for c in first):
         header, candidates = candidates[0], candidates[1:]
     if not candidates:
-        raise DosInputError("no data rows after the header", display, header[0])
+        where = f" on sheet {sheet_name!r}" if sheet_name else ""
+        raise DosInputError(f"no data rows{where} after the header", display, header[0])
     data = None if is_xlsx else _fast_array(list(map(itemgetter(1), candidates)), delimiter)
     if data is None:
         cells = [(line, split(row) if split else row) for line, row in candidates]
@@ -160,10 +184,12 @@ def read_table(source, name: str | None = None) -> RawTable:
     else:
         lines = list(map(itemgetter(0), candidates))
     names = _column_names(header, data.shape[1], split)
-    unit = _frequency_unit(names[0] if header else None, comments, data.shape[1])
+    unit, mentions = frequency_unit(names[0] if header else None, comments, data.shape[1],
+                                    "".join(COMMENT_CHARS))
     return RawTable(data=data, names=names, header_unit=unit, source=display,
                     sha256=digest, line_numbers=lines,
-                    comments=[text for _, text in comments])
+                    comments=[text for _, text in comments], unit_mentions=mentions,
+                    sheet=sheet_name)
 
 
 # ----------------------------------------------------------------------------
@@ -192,20 +218,6 @@ def _raw_bytes(source, name):
         raise DosInputError(f"cannot read file: {reason}", display) from None
 
 
-def _decode(raw: bytes, display: str) -> str:
-    nul = raw.find(b"\x00")
-    if nul >= 0:
-        raise DosInputError("binary content (NUL byte); expected a text table",
-                            display, raw.count(b"\n", 0, nul) + 1)
-    try:
-        return raw.decode("utf-8-sig")
-    except UnicodeDecodeError as exc:
-        line = raw.count(b"\n", 0, exc.start) + 1
-        raise DosInputError(
-            f"not UTF-8 text (byte 0x{raw[exc.start]:02X} at offset {exc.start}); "
-            "save the file as UTF-8", display, line) from None
-
-
 def _text_rows(text: str):
     """(line number, stripped line) of every non-blank line."""
     # splitlines() is the faster split when no other break is present; it
@@ -213,38 +225,6 @@ def _text_rows(text: str):
     other = any(map(text.__contains__, _OTHER_BREAKS))
     lines = _LINE_BREAK.split(text) if other else text.splitlines()
     return list(filter(itemgetter(1), zip(count(1), map(str.strip, lines))))
-
-
-def _xlsx_rows(raw: bytes, display: str):
-    """(sheet row, cells) of every non-empty row of the first sheet."""
-    try:
-        import openpyxl
-
-        book = openpyxl.load_workbook(io.BytesIO(raw), read_only=True, data_only=True)
-        try:
-            sheet = book.worksheets[0]
-            rows = []
-            for number, values in enumerate(sheet.iter_rows(values_only=True), start=1):
-                cells = list(values)
-                while cells and (cells[-1] is None or str(cells[-1]).strip() == ""):
-                    cells.pop()
-                if cells:
-                    rows.append((number, [_xlsx_cell(c) for c in cells]))
-        finally:
-            book.close()
-    except Exception:  # openpyxl/zipfile raise many types for broken files
-        raise DosInputError("not a readable .xlsx workbook", display) from None
-    return rows
-
-
-def _xlsx_cell(value) -> str:
-    if value is None:
-        return ""
-    if isinstance(value, bool):
-        return str(value)
-    if isinstance(value, (int, float)):
-        return repr(float(value))
-    return str(value).strip()
 
 
 def _split_comments(rows):
@@ -378,7 +358,7 @@ def _header_cells(row, split, width):
         return list(row)
     if split is not str.split:
         return split(row)
-    tries = (_HEADER_CELL.findall(row), row.split(), re.split(r"\s{2,}|\t", row))
+    tries = (HEADER_CELL.findall(row), row.split(), re.split(r"\s{2,}|\t", row))
     return next((t for t in tries if len(t) == width), tries[0])
 
 
@@ -398,23 +378,3 @@ def _column_names(header, width, split):
         seen.add(text)
         out.append(text)
     return out
-
-
-def _frequency_unit(first_header_cell, comments, width):
-    """Unit of column 1 from its header cell, else from the comment lines."""
-    if first_header_cell:
-        unit = guess_unit_from_text(first_header_cell)
-        if unit:
-            return unit
-    found = set()
-    for _, text in comments:
-        body = text.lstrip("".join(COMMENT_CHARS)).strip()
-        cells = _HEADER_CELL.findall(body)
-        unit = None
-        if len(cells) == width:   # looks like a commented-out header row
-            unit = guess_unit_from_text(cells[0])
-        if not unit:
-            unit = guess_unit_from_text(_DOS_DENOMINATOR.sub(" ", body))
-        if unit:
-            found.add(unit)
-    return found.pop() if len(found) == 1 else None

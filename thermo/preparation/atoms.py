@@ -10,6 +10,18 @@ from ..errors import DosInputError, OptionError
 INFER_TOLERANCE = 0.02
 
 
+def modes_text(count: float) -> str:
+    """``"1 mode"``, ``"2.5 modes"``: a mode count with its noun in the right number.
+
+    Examples
+    --------
+    >>> modes_text(1.0), modes_text(5.97)
+    ('1 mode', '5.97 modes')
+    """
+    shown = f"{count:.6g}"
+    return f"{shown} mode" if shown in ("1", "-1") else f"{shown} modes"
+
+
 def resolve_atoms(raw_integral: float, atoms=None, source: str | None = None):
     """Atoms per formula unit, given or inferred from the DOS integral.
 
@@ -64,5 +76,5 @@ def resolve_atoms(raw_integral: float, atoms=None, source: str | None = None):
     if n >= 1 and abs(raw_integral - 3 * n) <= INFER_TOLERANCE * 3 * n:
         return n, True
     raise DosInputError(
-        f"the DOS integrates to {raw_integral:.6g} modes, not 3n for a whole n; "
+        f"the DOS integrates to {modes_text(raw_integral)}, not 3n for a whole n; "
         "give the number of atoms per formula unit", source)

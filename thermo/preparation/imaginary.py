@@ -13,7 +13,9 @@ from ..errors import OptionError
 from ..kernels.quadrature import trapezoid_weights
 
 #: Policies for negative-frequency weight.
-POLICIES = ("drop", "keep-count", "refuse")
+POLICIES = ("drop", "drop-unscaled", "refuse")
+#: Former spellings still accepted (one release), mapped to the current name.
+POLICY_ALIASES = {"keep-count": "drop-unscaled"}
 #: Above this share of modes the lattice is called dynamically unstable.
 UNSTABLE_SHARE = 0.01
 
@@ -24,7 +26,8 @@ def check_policy(policy: str) -> str:
     Parameters
     ----------
     policy : str
-        ``drop``, ``keep-count`` or ``refuse`` (case-insensitive).
+        ``drop``, ``drop-unscaled`` or ``refuse`` (case-insensitive); the
+        former spelling ``keep-count`` is read as ``drop-unscaled``.
 
     Returns
     -------
@@ -39,9 +42,10 @@ def check_policy(policy: str) -> str:
     Examples
     --------
     >>> check_policy("Keep-Count")
-    'keep-count'
+    'drop-unscaled'
     """
     name = str(policy).strip().lower().replace("_", "-")
+    name = POLICY_ALIASES.get(name, name)
     if name not in POLICIES:
         raise OptionError(f"unknown imaginary-mode policy {policy!r}; choose one of {', '.join(POLICIES)}")
     return name
@@ -121,7 +125,7 @@ def imaginary_warnings(share: float, policy: str) -> list:
     if share <= 0:
         return []
     what = {"drop": "left out and the real modes renormalised to 3n",
-            "keep-count": "left out without renormalising (the real modes carry fewer than 3n)",
+            "drop-unscaled": "left out without renormalising (the real modes carry fewer than 3n)",
             "refuse": "refused"}[policy]
     out = [f"{100 * share:.3g} % of modes are imaginary (negative frequencies); they are {what}"]
     if share > UNSTABLE_SHARE:

@@ -7,20 +7,30 @@ lowest frequencies by a fitted ν² form, normalise to 3n modes.
 
 from __future__ import annotations
 
+import dataclasses
+
 import numpy as np
 
 from ..errors import DosInputError, OptionError
 from ..kernels.quadrature import mode_weights
 from .imaginary import check_policy, imaginary_warnings, split_at_zero
 from .lowfreq import apply_low_frequency, fit_low_frequency
-from .atoms import resolve_atoms
+from .atoms import modes_text, resolve_atoms
 from ..io.readers import read_table
 from ..spectrum import LowFrequencyFit, PhononDOS
 from ..units import FREQUENCY_UNITS, canonical_unit, thz_to_unit
+from .plausibility import entropy_298_per_atom, partial_sum_warnings, unit_warnings
 from .validation import check_spectrum
 
 
-def _unit(explicit, stated, source):
+def _mention_note(mentions):
+    if not mentions:
+        return ""
+    where = "; ".join(f"line {line} mentions {unit}" for line, unit in mentions[:3])
+    return f" ({where}, but not as the frequency unit)"
+
+
+def _unit(explicit, stated, source, mentions=()):
     if explicit is not None:
         unit = canonical_unit(explicit)
         note = None
@@ -29,8 +39,8 @@ def _unit(explicit, stated, source):
         return unit, note
     if stated is not None:
         return stated, None
-    raise DosInputError("the frequency unit is not stated in the file; choose one of "
-                        + ", ".join(FREQUENCY_UNITS), source)
+    raise DosInputError("the frequency unit is not stated in the file" + _mention_note(mentions)
+                        + "; set the frequency unit option to one of " + ", ".join(FREQUENCY_UNITS), source)
 
 
 def _low_frequency_option(value):
@@ -49,7 +59,8 @@ def _low_frequency_option(value):
     return (float(lo), float(hi))
 
 
-def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency="auto", name=None):
+def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency="auto", name=None,
+             sheet=None):
     """Read a phonon DOS file and prepare it for thermodynamic integration.
 
     Parameters
@@ -57,18 +68,23 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
     source : str, pathlib.Path or bytes
         File path, file content (bytes), or file text (a str with a newline).
     freq_unit : str, optional
-        Unit of the frequency column: ``THz``, ``cm-1``, ``meV``, ``rad/s``
-        or ``K``; taken from the header when None (refused when absent).
+        Unit of the frequency column: ``THz``, ``cm-1``, ``meV``, ``eV``,
+        ``Hz``, ``rad/s``, ``rad/ps`` or ``K``; taken from the frequency
+        column's header or an explicit unit statement when None (refused
+        when absent, never guessed from a comment that merely mentions a unit).
     atoms : int, optional
         Atoms per formula unit n; inferred when the DOS integrates to 3n.
-    negative : {'drop', 'keep-count', 'refuse'}
+    negative : {'drop', 'drop-unscaled', 'refuse'}
         Imaginary-mode policy: drop them and renormalise the rest to 3n,
-        drop them without renormalising, or refuse the file.
+        drop them without renormalising (former name ``keep-count``, still
+        accepted), or refuse the file.
     low_frequency : 'auto', 'off' or (low, high)
         ν² treatment below the cut-off: automatic window, none, or a window
         in THz.
     name : str, optional
         Display name of the input for messages and provenance.
+    sheet : str or int, optional
+        Worksheet of an ``.xlsx`` file (name or 1-based number; default the first).
 
     Returns
     -------
@@ -88,8 +104,12 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
     :math:`g_{\\mathrm{THz}} = g_u\\, d\\nu_u/d\\nu_{\\mathrm{THz}}`.  The
     imaginary share is :math:`\\int_{\\nu<0} g / \\int g`.  The final scale is
     :math:`3n / \\int g_{\\mathrm{treated}}` (``drop``) or
-    :math:`3n(1-f_{\\mathrm{imag}}) / \\int g_{\\mathrm{treated}}` (``keep-count``),
+    :math:`3n(1-f_{\\mathrm{imag}}) / \\int g_{\\mathrm{treated}}` (``drop-unscaled``),
     where "treated" is the real part after the low-frequency treatment.
+    Every load runs the plausibility checks of
+    :mod:`thermo.preparation.plausibility` (maximum frequency and entropy at
+    298.15 K per atom for the chosen unit; partial columns against the total)
+    and adds their warnings.
 
     References
     ----------
@@ -98,7 +118,9 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
 
     Examples
     --------
-    >>> import numpy as np
+    >>> import dataclasses
+
+import numpy as np
     >>> nu = np.linspace(0.0, 5.0, 101)
     >>> text = "# frequency (THz) dos\\n" + "\\n".join(f"{a} {9*a*a/125}" for a in nu)
     >>> dos = load_dos(text)
@@ -107,9 +129,10 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
     """
     policy = check_policy(negative)
     window = _low_frequency_option(low_frequency)
-    clean = check_spectrum(read_table(source, name=name))
+    raw = read_table(source, name=name, sheet=sheet)
+    clean = check_spectrum(raw)
     src = clean.source
-    unit, unit_note = _unit(freq_unit, clean.header_unit, src)
+    unit, unit_note = _unit(freq_unit, clean.header_unit, src, raw.unit_mentions)
     notes = list(clean.warnings) + ([unit_note] if unit_note else [])
 
     factor = thz_to_unit(unit)
@@ -126,6 +149,7 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
         raise DosInputError(f"{100 * share:.3g} % of modes are imaginary (negative frequencies) "
                             "and the policy is to refuse them", src)
     notes += imaginary_warnings(share, policy)
+    notes += partial_sum_warnings(nu_all, cols_all[0], dict(zip(names, cols_all[1:])))
     n_atoms, inferred = resolve_atoms(raw_integral, atoms, src)
     if inferred:
         notes.append(f"atoms per formula unit inferred as {n_atoms} from the DOS integral {raw_integral:.6g}")
@@ -142,7 +166,7 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
     real_modes = 3 * n_atoms * (1.0 if policy == "drop" else 1.0 - share)
     scale = real_modes / treated
     if not inferred and abs(raw_integral / (3 * n_atoms) - 1) > 0.02:
-        notes.append(f"the DOS integrates to {raw_integral:.6g} modes and is rescaled by "
+        notes.append(f"the DOS integrates to {modes_text(raw_integral)} and is rescaled by "
                      f"{scale:.6g} to 3n = {3 * n_atoms}")
     if fit is not None:
         fit = LowFrequencyFit(fit.coefficient * scale, fit.cutoff_thz, fit.window_thz,
@@ -153,10 +177,17 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
         "negative_mode_fraction": share, "negative_policy": policy,
         "atoms_inferred": inferred, "columns": list(clean.names),
     }
-    return PhononDOS(
+    if raw.sheet is not None:
+        provenance["sheet"] = raw.sheet
+    dos = PhononDOS(
         frequency_thz=grid, dos=cut[0] * scale, atoms=n_atoms,
         partials={k: c * scale for k, c in zip(names, cut[1:])},
         low_frequency=fit, source=provenance, warnings=tuple(notes),
         input_frequency_thz=nu_all, input_dos=cols_all[0] * scale,
         input_partials={k: c * scale for k, c in zip(names, cols_all[1:])},
     )
+    top = float(np.asarray(clean.frequency, float)[np.asarray(clean.total) > 0].max())
+    checks = unit_warnings(top, unit, entropy_298_per_atom(dos))
+    if checks:
+        dos = dataclasses.replace(dos, warnings=dos.warnings + tuple(checks))
+    return dos

@@ -7,7 +7,7 @@ import plotly.graph_objects as go
 from dash import Input, Output, State, callback, dcc, html, no_update
 
 from thermo.columns import find
-from thermo.io.writers import export_table
+from thermo.io.writers import DEFAULT_DIGITS, export_table
 from thermo.tables import provenance
 from thermo.temperatures import DEFAULT_TEMPERATURES, parse_temperatures
 
@@ -43,7 +43,7 @@ def export_bytes(dataset, spec, per, value_keys, fmt):
     formula = session.options_of(dataset).get("formula") or None
     info = provenance(cache.load(dataset), temperatures, per=per, formula=formula)
     stem = dataset["name"].rsplit(".", 1)[0] or "table"
-    return f"{stem}-{per}.{fmt}", export_table(df[keep], info, fmt)
+    return f"{stem}-{per}.{fmt}", export_table(df[keep], info, fmt, digits=DEFAULT_DIGITS)
 
 
 def layout(**_query):

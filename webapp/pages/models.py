@@ -14,7 +14,7 @@ from thermo.temperatures import temperature_range
 from .. import cache, session
 from .. import components as c
 from .. import figures as fg
-from ..labels import axis_title
+from ..labels import axis_title, theta_label
 from ..reporting import reported
 
 PATH, NAME, ORDER = "/models", "Models", 3
@@ -31,12 +31,8 @@ def thetas(dataset):
 
 def theta_options(dataset, prefix):
     """Dropdown options of the defined θ whose key starts with ``prefix``."""
-    return [{"label": f"{_short(t['key'])} = {t['value_K']:.4g} K", "value": t["key"]}
+    return [{"label": f"{theta_label(t['key'])} = {t['value_K']:.4g} K", "value": t["key"]}
             for t in thetas(dataset) if t["key"].startswith(prefix) and t["value_K"] is not None]
-
-
-def _short(key):
-    return key.removesuffix("_K").replace("_", " ")
 
 
 def _theta(dataset, key):
@@ -93,6 +89,7 @@ def figures(dataset, temperatures, per, einstein_key, debye_key, optical_terms, 
     for k, name in enumerate(col for col in ratio.columns if col != t_ratio):
         lowt.add_trace(fg.line(ratio[t_ratio], ratio[name], name, k, width=2, hover="%{y:.4g}"))
     lowt.update_xaxes(type="log")
+    lowt.update_yaxes(exponentformat="e", tickformat=".2~e")   # scientific notation, no SI prefixes
 
     grid = np.asarray(temperatures, dtype=float)
     grid = grid[grid > 0]
@@ -110,7 +107,7 @@ def theta_table(dataset):
         value = "undefined" if t["value_K"] is None else f"{t['value_K']:.5g}"
         unc = "—" if t.get("uncertainty_K") in (None, 0) else f"± {t['uncertainty_K']:.2g}"
         rng = t.get("fit_range_K")
-        rows.append(html.Tr([html.Td(_short(t["key"])), html.Td(value), html.Td(unc),
+        rows.append(html.Tr([html.Td(theta_label(t["key"])), html.Td(value), html.Td(unc),
                              html.Td("—" if not rng else f"{rng[0]:.4g}–{rng[1]:.4g} K"),
                              html.Td(t.get("definition", "")), html.Td(t.get("reference", ""), className="mh-ref")]))
     head = html.Tr([html.Th(h) for h in ("θ", "value [K]", "uncertainty [K]", "fit range", "definition",

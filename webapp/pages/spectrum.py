@@ -16,12 +16,15 @@ from ..reporting import attempt, reported
 PATH, NAME, ORDER = "/spectrum", "Spectrum", 1
 
 NEGATIVE_CHOICES = [{"label": "leave out, rescale rest to 3n", "value": "drop"},
-                    {"label": "leave out, keep count", "value": "keep-count"},
+                    {"label": "leave out, do not rescale", "value": "drop-unscaled"},
                     {"label": "refuse the file", "value": "refuse"}]
 LOW_CHOICES = [{"label": "automatic", "value": "auto"}, {"label": "window", "value": "manual"},
                {"label": "off", "value": "off"}]
-_CONTROL_IDS = ("sp-unit", "sp-atoms", "sp-formula", "sp-negative", "sp-lowmode", "sp-low-lo", "sp-low-hi")
+_CONTROL_IDS = ("sp-unit", "sp-atoms", "sp-formula", "sp-negative", "sp-lowmode", "sp-low-lo", "sp-low-hi",
+                "sp-sheet")
 _UPLOAD = "mh-upload-checked"
+_REFUSED = "sp-refused"
+_RETRY = "sp-retry-btn"
 
 
 # ---------------------------------------------------------------- pure logic
@@ -40,19 +43,44 @@ def unit_options(dataset):
     return [first] + [{"label": u, "value": u} for u in FREQUENCY_UNITS]
 
 
+def _automatic_window(dataset):
+    """The automatic low-frequency fit window [THz] of a dataset, rounded for display, or (None, None)."""
+    if dataset is None:
+        return None, None
+    auto = {**dataset, "options": {**session.options_of(dataset), "low_frequency": "auto"}}
+    dos, _ = attempt(cache.load, auto)
+    fit = dos.low_frequency if dos is not None else None
+    if fit is None:
+        return None, None
+    return tuple(float(f"{v:.4g}") for v in fit.window_thz)
+
+
 def control_values(workspace):
-    """Values of the option controls for the active dataset (dict by control id)."""
-    opts = session.options_of(session.active(workspace))
+    """Values of the option controls for the active dataset (dict by control id).
+
+    The window fields always show a window: the chosen one, else the
+    automatic one, so that choosing "window" starts from the automatic fit.
+    """
+    current = session.active(workspace)
+    opts = session.options_of(current)
     low = opts["low_frequency"]
-    mode, lo, hi = ("auto", None, None) if low == "auto" else ("off", None, None) if low == "off" \
-        else ("manual", *(float(v) for v in str(low).split(":")))
+    if low in ("auto", "off"):
+        mode, (lo, hi) = low, _automatic_window(current)
+    else:
+        mode, lo, hi = ("manual", *(float(v) for v in str(low).split(":")))
+    negative = {"keep-count": "drop-unscaled"}.get(opts["negative"], opts["negative"])
     return {"sp-unit": opts["freq_unit"] or "auto", "sp-atoms": opts["atoms"],
-            "sp-formula": opts["formula"] or "", "sp-negative": opts["negative"],
-            "sp-lowmode": mode, "sp-low-lo": lo, "sp-low-hi": hi}
+            "sp-formula": opts["formula"] or "", "sp-negative": negative,
+            "sp-lowmode": mode, "sp-low-lo": lo, "sp-low-hi": hi, "sp-sheet": opts.get("sheet") or ""}
 
 
-def options_from_controls(values):
-    """Load options from control values; raises OptionError for a bad window."""
+def options_from_controls(values, trigger=None, shown_window=(None, None)):
+    """Load options from control values; raises OptionError for a bad window.
+
+    Typing a window limit (``trigger`` is a window field) chooses the manual
+    window, so typed numbers are used rather than wiped; limits equal to
+    ``shown_window`` (the automatic window the page filled in) change nothing.
+    """
     atoms = values.get("sp-atoms")
     if atoms in ("", None):
         atoms = None
@@ -61,17 +89,39 @@ def options_from_controls(values):
             raise OptionError(f"atoms per formula unit must be a whole number >= 1, not {atoms}")
         atoms = int(float(atoms))
     mode = values.get("sp-lowmode") or "auto"
+    lo, hi = values.get("sp-low-lo"), values.get("sp-low-hi")
+    if trigger in ("sp-low-lo", "sp-low-hi") and lo is not None and hi is not None \
+            and (lo, hi) != tuple(shown_window):
+        mode = "manual"
     if mode == "manual":
-        lo, hi = values.get("sp-low-lo"), values.get("sp-low-hi")
-        if lo is None or hi is None or not 0 <= float(lo) < float(hi):
-            raise OptionError("the low-frequency window needs 0 <= low < high (THz)")
+        if lo is None or hi is None:
+            raise OptionError("type both limits of the low-frequency window (THz), e.g. 0.2 and 0.6")
+        if not 0 <= float(lo) < float(hi):
+            raise OptionError(f"the low-frequency window {lo}–{hi} THz needs 0 <= low < high")
         low = f"{float(lo)}:{float(hi)}"
     else:
         low = mode
     unit = values.get("sp-unit")
     return {"freq_unit": None if unit in (None, "auto") else unit, "atoms": atoms,
             "formula": (values.get("sp-formula") or "").strip(),
-            "negative": values.get("sp-negative") or "drop", "low_frequency": low}
+            "negative": values.get("sp-negative") or "drop", "low_frequency": low,
+            "sheet": (values.get("sp-sheet") or "").strip() or None}
+
+
+def upload_options(values):
+    """Reading options for the next upload from the controls.
+
+    A manual window belongs to one spectrum, so the next file gets the
+    automatic window; bad control values give the default options.
+
+    Examples
+    --------
+    >>> upload_options({"sp-atoms": 2, "sp-lowmode": "manual", "sp-low-lo": 1, "sp-low-hi": 2})["atoms"]
+    2
+    """
+    mode = values.get("sp-lowmode")
+    options, error = attempt(options_from_controls, {**values, "sp-lowmode": "auto" if mode == "manual" else mode})
+    return dict(session.DEFAULT_OPTIONS) if error else options
 
 
 def apply_edit(workspace, trigger, values, upload=None, rename_text=None, selected=None):
@@ -86,7 +136,9 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
     values : dict
         Option control values by id.
     upload : dict, optional
-        Output of the client-side size check: ``files`` and ``refused``.
+        Output of the client-side size check: ``files`` and ``refused``; with
+        ``trigger`` the retry button, ``files`` are the files refused before.
+        The files are read with the reading options of ``values``.
     rename_text, selected : str, optional
         Rename box text; dataset chosen in the selector.
 
@@ -95,15 +147,19 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
     (dict, list of (kind, text))
     """
     ws = workspace or session.empty_workspace()
-    if trigger == _UPLOAD and upload:
+    if trigger in (_UPLOAD, _RETRY) and upload:
         refused = [("error", text) for text in upload.get("refused", [])]
         files = upload.get("files", [])
+        pending = upload.setdefault("pending", [])
         new, notes = intake.add_uploads(ws, [f["contents"] for f in files], [f["name"] for f in files],
-                                        upload.get("max_bytes", int(intake.DEFAULT_MAX_UPLOAD_MB * 1e6)))
+                                        upload.get("max_bytes", int(intake.DEFAULT_MAX_UPLOAD_MB * 1e6)),
+                                        options=upload_options(values), refused=pending)
         return new, refused + notes
     current = session.active(ws)
-    if trigger == "sp-dataset":      # also fired when the selector only shows the active dataset
-        return (ws if current is None or selected in (None, current["id"]) else session.activated(ws, selected)), []
+    if trigger == "sp-dataset":
+        if current is not None and selected == current["id"]:
+            return ws, []      # the selector was only set to show the active dataset: keep the messages
+        return session.activated(ws, selected), []
     if current is None:
         return ws, []
     if trigger == "sp-rename-btn":
@@ -111,13 +167,16 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
     if trigger == "sp-remove-btn":
         return session.removed(ws, current["id"]), [("info", f"removed {current['name']}")]
     if trigger in _CONTROL_IDS:
-        options, error = attempt(options_from_controls, values)
+        options, error = attempt(options_from_controls, values, trigger, _automatic_window(current))
         if error:
             return ws, [("error", error)]
         if options == {key: session.options_of(current)[key] for key in options}:
             return ws, []      # the controls were only set to show the dataset's own options
         new, error = intake.with_options(ws, current["id"], options)
-        return new, [("error", f"{current['name']}: {error}; previous settings kept")] if error else []
+        if not error:
+            return new, []
+        prefix = f"{current['name']}: "
+        return new, [("error", prefix + error.removeprefix(prefix) + "; previous settings kept")]
     return ws, []
 
 
@@ -168,7 +227,10 @@ def layout(**_query):
                                               html.Br(), html.Small("text (.dat, .txt, .csv, .tsv) or .xlsx; "
                                                                     "several at once")])),
                 dcc.Store(id=_UPLOAD),
+                dcc.Store(id=_REFUSED, data=[]),
                 c.messages_panel("sp-messages"),
+                html.Button("Read again with these options", id=_RETRY, className="mh-button",
+                            style={"display": "none"}),
                 html.H2("Datasets"),
                 c.dropdown("sp-dataset", [], None, "Active dataset"),
                 html.Div([c.text("sp-rename", "", "New name"),
@@ -176,6 +238,7 @@ def layout(**_query):
                           html.Button("Remove", id="sp-remove-btn", className="mh-button mh-danger")],
                          className="mh-inline"),
                 html.H2("Reading options"),
+                html.Small("They apply to the active dataset and to the next upload.", className="mh-hint"),
                 c.dropdown("sp-unit", unit_options(None), values["sp-unit"], "Frequency unit"),
                 c.number("sp-atoms", values["sp-atoms"], "Atoms per formula unit", step=1, min_value=1,
                          hint="empty: inferred from the DOS integral"),
@@ -186,6 +249,8 @@ def layout(**_query):
                 html.Div([c.number("sp-low-lo", values["sp-low-lo"], "Window from [THz]", min_value=0),
                           c.number("sp-low-hi", values["sp-low-hi"], "to [THz]", min_value=0)],
                          className="mh-inline"),
+                c.text("sp-sheet", values["sp-sheet"], "Sheet (.xlsx)", placeholder="first sheet",
+                       hint="name or number from 1"),
             ], className="mh-side"),
             html.Div([
                 c.graph("sp-dos-graph", "Phonon DOS with partial columns; dashed: the ν² form used below "
@@ -240,16 +305,29 @@ clientside_callback(ClientsideFunction("modeheat", "checkUpload"), Output(_UPLOA
                     prevent_initial_call=True)
 
 
-@callback(*_EDITED, Input(_UPLOAD, "data"), State("mh-workspace", "data"), State("mh-config", "data"),
-          prevent_initial_call=True)
-@reported(_refused)
-def upload(checked, workspace, config):
-    """Add the files that passed the browser's size check; the server checks the size again."""
-    if not checked:
-        return no_update, no_update, no_update
-    checked = {**(checked or {}), "max_bytes": dash.get_app().server.config["MODEHEAT_MAX_UPLOAD_BYTES"]}
-    new, notes = apply_edit(workspace, _UPLOAD, {}, checked)
-    return _commit(workspace, new, notes, config)
+def _refused_upload(message):
+    return (*_refused(message), no_update, no_update)
+
+
+@callback(*_EDITED, Output(_REFUSED, "data"), Output(_RETRY, "style"), Input(_UPLOAD, "data"),
+          Input(_RETRY, "n_clicks"), State(_REFUSED, "data"), State("mh-workspace", "data"),
+          State("mh-config", "data"), *[State(i, "value") for i in _CONTROL_IDS], prevent_initial_call=True)
+@reported(_refused_upload)
+def upload(checked, _retry, pending, workspace, config, *values):
+    """Read new files (or the refused ones again) with the page's reading options.
+
+    The server checks the size again after the browser's check.
+    """
+    limit = dash.get_app().server.config["MODEHEAT_MAX_UPLOAD_BYTES"]
+    trigger = ctx.triggered_id
+    if trigger == _UPLOAD and not checked:      # the page's first render, not an upload
+        return (no_update,) * 5
+    files = (checked or {}) if trigger == _UPLOAD else {"files": pending or []}
+    job = {**files, "max_bytes": limit, "pending": []}
+    new, notes = apply_edit(workspace, trigger, dict(zip(_CONTROL_IDS, values)), job)
+    left = job["pending"]
+    return (*_commit(workspace, new, notes, config), left,
+            {"display": "inline-block" if left else "none"})
 
 
 @callback(*_EDITED, Input("sp-dataset", "value"), Input("sp-rename-btn", "n_clicks"),

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import dash
+import numpy as np
 from dash import Input, Output, callback, dcc, html
 
 from thermo.columns import find
@@ -38,6 +39,23 @@ def dulong_petit(dataset, per):
     return classical_heat_capacity(cache.load(dataset).atoms, per, cache.formula_for(dataset, per))
 
 
+def preview_temperatures(temperatures, rows=12):
+    """About ``rows`` temperatures of the grid for the preview, with 298.15 K when in range.
+
+    Examples
+    --------
+    >>> preview_temperatures(np.arange(0.0, 1001.0, 10.0)).tolist()[:4]
+    [0.0, 80.0, 160.0, 240.0]
+    >>> 298.15 in preview_temperatures(np.arange(0.0, 1001.0, 10.0))
+    True
+    """
+    t = np.asarray(temperatures, dtype=float)
+    picked = t[::max(1, len(t) // rows)]
+    if t.size and t.min() <= ROOM_K <= t.max():
+        picked = np.union1d(picked, [ROOM_K])
+    return picked
+
+
 def figures(dataset, temperatures, per, log_t):
     """The four figures, key numbers and preview rows for one dataset."""
     df = cache.table(dataset, temperatures, per)
@@ -54,8 +72,7 @@ def figures(dataset, temperatures, per, log_t):
         if log_t:
             fig.update_xaxes(type="log")
         figs.append(fig)
-    step = max(1, len(df) // 12)
-    preview = df.iloc[::step]
+    preview = cache.table(dataset, preview_temperatures(df[t].to_numpy()), per)
     table = html.Table([html.Thead(html.Tr([html.Th(axis_title(col)) for col in df.columns])),
                         html.Tbody([html.Tr([html.Td(f"{v:.6g}") for v in row])
                                     for row in preview.itertuples(index=False)])],

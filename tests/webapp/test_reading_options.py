@@ -1,0 +1,161 @@
+"""Spectrum page: reading options apply to the next upload, refused files can be read again,
+the manual low-frequency window starts from the automatic one.
+
+The spectra are invented Debye-like test data; the reference is the library's own
+load_dos with the same options (the thermodynamics themselves are checked against
+mpmath in tests/preparation and tests/tables).
+"""
+
+import base64
+
+import numpy as np
+import pytest
+
+from thermo import load_dos
+from webapp import session
+from webapp.pages import spectrum
+
+NU = np.linspace(0, 6, 121)
+G3 = 9 * NU ** 2 / 6 ** 3           # 3 modes: one atom
+NORMALISED = "# frequency (THz) dos\n" + "\n".join(f"{a} {b / 6}" for a, b in zip(NU, 2 * G3)) + "\n"   # integrates to 1
+BARE = "\n".join(f"{a} {b}" for a, b in zip(NU, G3)) + "\n"                                            # no unit
+STATED = "# frequency (THz) dos\n" + BARE
+
+
+def _upload(ws, values, *texts, trigger="mh-upload-checked"):
+    files = [{"name": f"f{k}.dat", "contents": "data:text/plain;base64," + base64.b64encode(t.encode()).decode()}
+             for k, t in enumerate(texts)]
+    job = {"files": files, "max_bytes": 10 ** 6, "pending": []}
+    new, notes = spectrum.apply_edit(ws, trigger, values, job)
+    return new, notes, job["pending"]
+
+
+def _values(**change):
+    values = spectrum.control_values(session.empty_workspace())
+    values.update(change)
+    return values
+
+
+def test_atoms_typed_first_apply_to_the_upload():
+    new, notes, pending = _upload(session.empty_workspace(), _values(**{"sp-atoms": 2}), NORMALISED)
+    assert notes == [("info", "loaded f0.dat")] and pending == []
+    d = session.active(new)
+    assert session.options_of(d)["atoms"] == 2
+    assert spectrum.control_values(new)["sp-atoms"] == 2
+
+
+def test_unit_chosen_first_applies_to_a_bare_file():
+    new, notes, _ = _upload(session.empty_workspace(), _values(**{"sp-unit": "THz"}), BARE)
+    assert notes == [("info", "loaded f0.dat")]
+    assert session.options_of(session.active(new))["freq_unit"] == "THz"
+
+
+def test_refused_file_names_the_fix_and_is_read_again():
+    ws = session.empty_workspace()
+    new, notes, pending = _upload(ws, _values(), BARE)
+    assert new["datasets"] == [] and len(pending) == 1
+    kind, text = notes[0]
+    assert kind == "error" and "frequency unit is not stated" in text
+    assert "choose the Frequency unit under Reading options, then press Read again" in text
+    assert text.count("f0.dat") == 1                      # the file is named once
+    job = {"files": pending, "max_bytes": 10 ** 6, "pending": []}
+    again, notes = spectrum.apply_edit(new, "sp-retry-btn", _values(**{"sp-unit": "THz"}), job)
+    assert notes == [("info", "loaded f0.dat")] and job["pending"] == []
+    reference = load_dos(BARE, freq_unit="THz")
+    np.testing.assert_allclose(spectrum.cache.load(session.active(again)).dos, reference.dos, rtol=1e-12)
+
+
+def test_options_carried_from_another_file_do_not_override_what_a_file_states():
+    new, notes, _ = _upload(session.empty_workspace(), _values(**{"sp-unit": "cm-1", "sp-atoms": 2}), STATED)
+    d = session.active(new)
+    assert session.options_of(d)["freq_unit"] is None and session.options_of(d)["atoms"] is None
+    assert spectrum.cache.load(d).source["freq_unit"] == "THz" and spectrum.cache.load(d).atoms == 1
+
+
+def test_window_fields_start_from_the_automatic_window_and_typing_chooses_the_window():
+    ws, _, _ = _upload(session.empty_workspace(), _values(), STATED)
+    shown = spectrum.control_values(ws)
+    fit = spectrum.cache.load(session.active(ws)).low_frequency
+    assert shown["sp-lowmode"] == "auto"
+    assert shown["sp-low-lo"] == pytest.approx(fit.window_thz[0], rel=1e-3)
+    assert shown["sp-low-hi"] == pytest.approx(fit.window_thz[1], rel=1e-3)
+    # choosing "window" with the pre-filled limits works (it used to say "needs 0 <= low < high")
+    chosen, notes = spectrum.apply_edit(ws, "sp-lowmode", {**shown, "sp-lowmode": "manual"})
+    assert notes == []
+    assert session.options_of(session.active(chosen))["low_frequency"] != "auto"
+    # a number typed while "automatic" is selected is used, not wiped
+    typed, notes = spectrum.apply_edit(ws, "sp-low-hi", {**shown, "sp-low-lo": 0.5, "sp-low-hi": 1.5})
+    assert notes == []
+    assert session.options_of(session.active(typed))["low_frequency"] == "0.5:1.5"
+    assert spectrum.control_values(typed)["sp-lowmode"] == "manual"
+
+
+def test_empty_window_asks_for_both_limits():
+    ws, _, _ = _upload(session.empty_workspace(), _values(), STATED)
+    values = {**spectrum.control_values(ws), "sp-lowmode": "manual", "sp-low-lo": None, "sp-low-hi": None}
+    same, notes = spectrum.apply_edit(ws, "sp-lowmode", values)
+    assert same is ws and "type both limits" in notes[0][1]
+
+
+def test_old_policy_name_in_a_saved_workspace_shows_the_new_choice():
+    ws, _, _ = _upload(session.empty_workspace(), _values(), STATED)
+    d = session.active(ws)
+    d["options"]["negative"] = "keep-count"
+    assert spectrum.control_values(ws)["sp-negative"] == "drop-unscaled"
+    assert "drop-unscaled" in [c["value"] for c in spectrum.NEGATIVE_CHOICES]
+
+
+def test_filling_in_the_automatic_window_changes_nothing():
+    """The page writes the automatic window into the fields; that echo must not choose a window."""
+    ws, _, _ = _upload(session.empty_workspace(), _values(), STATED)
+    shown = spectrum.control_values(ws)
+    same, notes = spectrum.apply_edit(ws, "sp-low-lo", shown)
+    assert same is ws and notes == []
+
+
+def test_showing_the_active_dataset_in_the_selector_keeps_the_messages():
+    ws, _, _ = _upload(session.empty_workspace(), _values(), STATED)
+    same, notes = spectrum.apply_edit(ws, "sp-dataset", {}, selected=session.active(ws)["id"])
+    assert same is ws and notes == []
+
+
+def test_sheet_option_reads_the_chosen_worksheet_of_an_upload():
+    import io
+
+    import openpyxl
+    book = openpyxl.Workbook()
+    book.active.title = "notes"
+    book.active.append(["invented model, for a test"])
+    sheet = book.create_sheet("dos")
+    sheet.append(["Phonon DOS (invented)"])
+    sheet.append(["frequency (THz)", "total"])
+    for a, b in zip(NU, G3):
+        sheet.append([float(a), float(b)])
+    out = io.BytesIO()
+    book.save(out)
+    url = "data:application/octet-stream;base64," + base64.b64encode(out.getvalue()).decode()
+    job = {"files": [{"name": "book.xlsx", "contents": url}], "max_bytes": 10 ** 6, "pending": []}
+    refused, notes = spectrum.apply_edit(session.empty_workspace(), "mh-upload-checked", _values(), dict(job))
+    assert refused["datasets"] == [] and "sheet" in notes[0][1]
+    new, notes = spectrum.apply_edit(session.empty_workspace(), "mh-upload-checked", _values(**{"sp-sheet": "dos"}),
+                                     {**job, "pending": []})
+    assert notes == [("info", "loaded book.xlsx")]
+    dos = spectrum.cache.load(session.active(new))
+    assert dos.source["sheet"] == "dos" and dos.atoms == 1
+
+
+def test_implausible_unit_is_warned_in_the_checks_panel():
+    ws, _, _ = _upload(session.empty_workspace(), _values(**{"sp-unit": "rad/s"}), BARE)
+    items = spectrum.warning_items(spectrum.cache.load(session.active(ws)))
+    assert any(kind == "warn" and "check the frequency unit" in text for kind, text in items)
+
+
+def test_refused_option_change_names_the_file_once():
+    nu = np.linspace(-0.5, 6, 131)
+    text = "# frequency (THz) dos\n" + "\n".join(f"{a} {0.01 if a < 0 else 9 * a * a / 216}" for a in nu) + "\n"
+    ws, _, _ = _upload(session.empty_workspace(), _values(), text)
+    same, notes = spectrum.apply_edit(ws, "sp-negative", {**spectrum.control_values(ws), "sp-negative": "refuse"})
+    assert same is ws
+    kind, message = notes[0]
+    assert kind == "error" and "refuse" in message and message.count("f0.dat") == 1
+    assert message.endswith("previous settings kept")
