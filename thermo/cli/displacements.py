@@ -3,9 +3,9 @@
 from __future__ import annotations
 
 import sys
-from pathlib import Path
 
-from .options import add_input_options, add_temperature_option, load_from_args, report_warnings
+from .options import (add_input_options, add_output_options, add_temperature_option, emit_table, load_from_args,
+                      output_plan, report_warnings)
 
 
 def register(sub):
@@ -24,22 +24,17 @@ def register(sub):
     where.add_argument("--lattice", metavar="TYPE:A",
                        help="lattice and parameter a in Å, e.g. fcc:3.61 (d from the cell; sc, bcc, fcc, hcp, "
                             "rocksalt, cscl, diamond, zincblende)")
-    p.add_argument("--format", default="csv", choices=["csv", "json", "xlsx"], help="table format (default csv)")
-    p.add_argument("--output", metavar="PATH", help="write here (default: stdout for csv/json)")
-    p.add_argument("--force", action="store_true", help="replace an existing output file")
+    add_output_options(p, "write here (default: stdout for csv/json)")
     p.set_defaults(func=run)
 
 
 def run(args) -> int:
-    from ..errors import OptionError
-    from ..io.writers import export_table, write_table
     from ..temperatures import parse_temperatures
     from ..vibration.displacements import displacement_provenance, displacement_summary, displacement_table
     from ..vibration.inputs import parse_distance, parse_masses, parse_species
 
     temperatures = parse_temperatures(args.temperatures)
-    if args.output and not args.force and Path(args.output).exists():
-        raise OptionError(f"refusing to overwrite existing file {args.output}; use --force to replace it")
+    plan = output_plan(args)
     masses = parse_masses(args.masses)
     distance = parse_distance(args.distance, args.lattice)
     species = parse_species(args.species_columns)
@@ -50,11 +45,4 @@ def run(args) -> int:
     for note in summary["warnings"]:
         print(f"warning: {note}", file=sys.stderr)
     info = displacement_provenance(dos, temperatures, args.formula, masses, distance, summary, species)
-    if args.output:
-        write_table(table, info, args.format, args.output, overwrite=args.force)
-        print(f"wrote {args.output}", file=sys.stderr)
-        return 0
-    if args.format == "xlsx":
-        raise OptionError("xlsx output needs --output PATH")
-    sys.stdout.write(export_table(table, info, args.format).decode("utf-8"))
-    return 0
+    return emit_table(table, info, args, plan)

@@ -37,6 +37,11 @@ def add_table_options(parser, output_help):
     parser.add_argument("--per", default="formula", choices=["formula", "atom", "gram"],
                         help="basis: per mole of formula units (default), per atom, per gram (needs --formula)")
     parser.add_argument("--formula", help="chemical formula of the formula unit, e.g. MgO (for --per gram)")
+    add_output_options(parser, output_help)
+
+
+def add_output_options(parser, output_help):
+    """Add ``--format``, ``--output``, ``--digits`` and ``--force`` (see :func:`output_plan`)."""
     parser.add_argument("--format", default=None, choices=["csv", "json", "xlsx"],
                         help="table format (default: from the --output suffix, else csv)")
     parser.add_argument("--output", metavar="PATH", help=output_help)
@@ -87,3 +92,36 @@ def add_server_options(parser):
                         help="Dash debug mode with reloading (development only)")
     parser.add_argument("--max-upload-mb", type=float, default=None, metavar="MB",
                         help="largest accepted upload per file in MB (default 20)")
+
+
+def output_plan(args):
+    """``(format, digits)`` of a table command, checked before any work.
+
+    The format comes from ``--format``, else from the ``--output`` suffix, else
+    csv; an existing output file is refused unless ``--force``.
+    """
+    from pathlib import Path
+
+    from ..errors import OptionError
+    from ..io.writers import format_from_suffix
+    digits = check_digits(args.digits)
+    fmt = format_from_suffix(args.output, args.format) if args.output else (args.format or "csv")
+    if args.output and not args.force and Path(args.output).exists():
+        raise OptionError(f"refusing to overwrite existing file {args.output}; use --force to replace it")
+    if fmt == "xlsx" and not args.output:
+        raise OptionError("xlsx output needs --output PATH")
+    return fmt, digits
+
+
+def emit_table(table, info, args, plan):
+    """Write a table with its provenance to ``--output`` or standard output; returns exit code 0."""
+    import sys
+
+    from ..io.writers import export_table, write_table
+    fmt, digits = plan
+    if args.output:
+        write_table(table, info, fmt, args.output, overwrite=args.force, digits=digits)
+        print(f"wrote {args.output}", file=sys.stderr)
+    else:
+        sys.stdout.write(export_table(table, info, fmt, digits=digits).decode("utf-8"))
+    return 0

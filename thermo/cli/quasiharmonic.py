@@ -3,9 +3,8 @@
 from __future__ import annotations
 
 import sys
-from pathlib import Path
 
-from .options import add_input_options, add_table_options, add_temperature_option
+from .options import add_input_options, add_table_options, add_temperature_option, emit_table, output_plan
 
 _DEFAULT_TEMPERATURES = "0:1000:10"
 
@@ -31,7 +30,6 @@ def register(sub):
 
 def run(args) -> int:
     from ..errors import OptionError
-    from ..io.writers import export_table, write_table
     from ..preparation.imaginary import UNSTABLE_SHARE
     from ..quasiharmonic import quasiharmonic_table, read_manifest
     from ..quasiharmonic.report import quasiharmonic_provenance
@@ -41,8 +39,7 @@ def run(args) -> int:
     tolerance = UNSTABLE_SHARE if args.imaginary_tolerance is None else args.imaginary_tolerance
     if not 0 <= tolerance < 1:
         raise OptionError(f"--imaginary-tolerance must be a fraction in [0, 1), got {tolerance:g}")
-    if args.output and not args.force and Path(args.output).exists():
-        raise OptionError(f"refusing to overwrite existing file {args.output}; use --force to replace it")
+    plan = output_plan(args)
     volume_set = read_manifest(args.file, freq_unit=args.freq_unit, atoms=args.atoms,
                                negative=args.negative, low_frequency=args.low_frequency)
     table = quasiharmonic_table(volume_set, temperatures, pressure_gpa=args.pressure, eos=args.eos,
@@ -53,11 +50,4 @@ def run(args) -> int:
     residual = table.attrs["diagnostics"]["max_fit_residual_meV"]
     print(f"note: {args.eos} fit to F(V) over {volume_set.volumes_a3.size} volumes, largest rms residual "
           f"{residual:.3g} meV per formula unit (column eos_fit_residual_meV)", file=sys.stderr)
-    if args.output:
-        write_table(table, info, args.format, args.output, overwrite=args.force)
-        print(f"wrote {args.output}", file=sys.stderr)
-        return 0
-    if args.format == "xlsx":
-        raise OptionError("xlsx output needs --output PATH")
-    sys.stdout.write(export_table(table, info, args.format).decode("utf-8"))
-    return 0
+    return emit_table(table, info, args, plan)

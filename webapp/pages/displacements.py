@@ -7,7 +7,7 @@ from dash import Input, Output, State, callback, dcc, html, no_update
 
 from thermo.columns import column_name, label
 from thermo.temperatures import temperature_range
-from thermo.io.writers import export_table
+from thermo.io.writers import DEFAULT_DIGITS, export_table
 from thermo.vibration.displacements import (CONVENTION, displacement_provenance, displacement_summary,
                                             displacement_table)
 from thermo.vibration.elastic import compare_debye_temperatures, elastic_debye_temperature
@@ -64,7 +64,7 @@ def export_bytes(dataset, temperatures, masses_text, distance, fmt):
     formula, masses, d, _ = _settings(dataset, masses_text, distance)
     info = displacement_provenance(cache.load(dataset), temperatures, formula, masses, d, summary)
     stem = dataset["name"].rsplit(".", 1)[0]
-    return f"{stem}_displacements.{fmt}", export_table(table, info, fmt)
+    return f"{stem}_displacements.{fmt}", export_table(table, info, fmt, digits=DEFAULT_DIGITS)
 
 
 def figures(table, distance=None):

@@ -12,7 +12,7 @@ from dash import Input, Output, State, callback, dash_table, dcc, html, no_updat
 
 from thermo.columns import find
 from thermo.errors import DosInputError, OptionError
-from thermo.io.writers import export_table
+from thermo.io.writers import DEFAULT_DIGITS, export_table
 from thermo.quasiharmonic import (CAUTIONS, free_energy_curves, free_energy_surface, make_volume_set,
                                   quasiharmonic_table, read_manifest)
 from thermo.quasiharmonic.report import quasiharmonic_provenance
@@ -256,7 +256,7 @@ def download(_clicks, record, source, rows, workspace, t_min, t_max, step, press
     temperatures, p = _settings(t_min, t_max, step, pressure)
     vs, table, _ = results(record, source, rows, workspace, temperatures, p, eos, per, negative, formula or None,
                            tolerance)
-    content = export_table(table, quasiharmonic_provenance(vs, table, temperatures), fmt)
+    content = export_table(table, quasiharmonic_provenance(vs, table, temperatures), fmt, digits=DEFAULT_DIGITS)
     name = f"{Path(str(vs.source.get('name') or 'volumes')).stem}-quasiharmonic-{per}.{fmt}"
     return dcc.send_bytes(content, name), c.message_items([("info", f"prepared {name}")])
 
