@@ -207,3 +207,16 @@ register_quantity("helmholtz_energy", "F", "energy", description="Helmholtz ener
 register_quantity("enthalpy", "H", "energy", description="enthalpy")
 register_quantity("gibbs_energy", "G", "energy", description="Gibbs energy")
 register_quantity("zero_point_energy", "E_0", "energy", description="zero-point energy")
+
+# --- calorimetry (measured heat capacity, thermo/calorimetry) ---
+register_quantity("heat_capacity_p_measured", "C_p,meas", "entropy", description="measured heat capacity at constant pressure")
+register_quantity("heat_capacity_p_uncertainty", "u(C_p)", "entropy", description="standard uncertainty of the measured C_p")
+register_quantity("heat_capacity_p_model", "C_p,model", "entropy", description="fitted model heat capacity at constant pressure")
+register_quantity("heat_capacity_lattice", "C_lat", "entropy", description="lattice (phonon) part of the model heat capacity")
+register_quantity("heat_capacity_electronic", "γT", "entropy", description="electronic part γT of the model heat capacity")
+register_quantity("heat_capacity_dilation", "C_p−C_v", "entropy", description="dilation term C_p − C_v of the model")
+register_quantity("heat_capacity_p_residual", "ΔC_p", "entropy", description="model minus measured C_p")
+register_quantity("relative_residual", "ΔC_p/C_p", "fixed", description="(model − measured)/measured C_p")
+register_quantity("entropy_third_law", "S°", "entropy", description="third-law entropy ∫₀ᵀ C_p/T dT")
+register_quantity("entropy_third_law_uncertainty", "u(S°)", "entropy", description="standard uncertainty of the third-law entropy")
+register_quantity("enthalpy_increment", "H°−H°(0)", "energy", description="enthalpy increment ∫₀ᵀ C_p dT")
