@@ -79,7 +79,8 @@ def analyse(measured, model: HeatCapacityModel, fixed=None, fit_range=None, low_
         (T_min, T_max) [K].
     low_t_max : float, optional
         Upper limit of the C/T = γ + βT² analysis [K]; default: the points
-        below 1/50 of the fitted θ_D (or of 300 K), when at least 3.
+        below 1/30 of the fitted θ_D (or of 300 K), when at least 3
+        (there the T⁵ term bends C/T by about 0.5 %).
 
     Returns
     -------
@@ -116,7 +117,7 @@ def analyse(measured, model: HeatCapacityModel, fixed=None, fit_range=None, low_
     else:
         notes.append(f"the data span {t[0]:g}-{t[-1]:g} K and do not reach 298.15 K: no S° from data")
     theta = fit.values.get("theta_D_K")
-    limit = low_t_max if low_t_max is not None else (theta or 300.0) / 50.0
+    limit = low_t_max if low_t_max is not None else (theta or 300.0) / 30.0
     try:
         low = low_temperature_analysis(t, measured.heat_capacity_J_per_mol_K, model.atoms,
                                        measured.uncertainty_J_per_mol_K, limit)
