@@ -37,7 +37,8 @@ def test_json_keys_and_janaf_aluminium_entropy(tmp_path, capsys):
     # The data start at 100 K: the T³ extrapolation below it (C(100 K)/3 = 4.33 vs JANAF S(100 K) =
     # 6.987) makes S° from data too low, and the report says so.
     assert out["entropy_298_15_from_data_J_per_mol_K"]["value"] < 0.95 * 28.275
-    assert out["entropy_below_first_point_J_per_mol_K"] == pytest.approx(12.997 / 3)
+    # C = γT + bT³ through C(T₁): S(T₁) = C₁/3 + 2γT₁/3 with the held γ.
+    assert out["entropy_below_first_point_J_per_mol_K"] == pytest.approx((12.997 + 2 * 1.35e-3 * 100) / 3)
     assert any("T³ extrapolation below 100 K" in n for n in out["notes"]) and "note:" in captured.err
     assert out["max_relative_residual"] <= 0.015
     assert len(out["residuals"]["temperature_K"]) == out["points_fitted"] == 11
