@@ -8,7 +8,8 @@ Nernst–Lindemann dilation term A = 6e-6 mol/J, sampled like a calorimetry
 campaign (1 K steps at low temperature, 5 K steps above) with 0.4 % Gaussian
 scatter (fixed seed) and a stated standard uncertainty of 0.5 %.  Nothing
 describes a real material.  Run ``python sample_dos/generate_calorimetry.py``
-to rewrite ``springium_cp.csv`` (deterministic).
+to rewrite ``measured/springium_cp.csv`` (deterministic; a folder of its own so that
+the dashboard does not offer it as a DOS demo).
 """
 
 from __future__ import annotations
@@ -38,7 +39,7 @@ def main():
              "Nernst-Lindemann A 6e-6 mol/J; 0.4 % scatter",
              "temperature_K,heat_capacity_J_per_mol_K,uncertainty_J_per_mol_K"]
     lines += [f"{a:.2f},{b:.6g},{0.005 * b:.3g}" for a, b in zip(t, measured)]
-    (HERE / "springium_cp.csv").write_text("\n".join(lines) + "\n", encoding="utf-8")
+    (HERE / "measured" / "springium_cp.csv").write_text("\n".join(lines) + "\n", encoding="utf-8")
 
 
 if __name__ == "__main__":

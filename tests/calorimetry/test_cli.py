@@ -47,7 +47,7 @@ def test_json_keys_and_janaf_aluminium_entropy(tmp_path, capsys):
 def test_demo_with_dos_reports_scale_and_dos_entropy(capsys):
     # Invented demo: the generator softened the DOS by 4 % (scale 0.96) and used
     # γ = 1.1 mJ/(mol K²), A = 6e-6 mol/J; the fit must find them within 3σ.
-    assert main(["calorimetry", "sample_dos/springium_cp.csv", "--dos", "sample_dos/springium_fcc.dat"]) == 0
+    assert main(["calorimetry", "sample_dos/measured/springium_cp.csv", "--dos", "sample_dos/springium_fcc.dat"]) == 0
     out = json.loads(capsys.readouterr().out)
     for key, true in (("scale", 0.96), ("gamma_J_per_mol_K2", 1.1e-3), ("dilation_A_mol_per_J", 6e-6)):
         assert abs(out["fit"][key]["value"] - true) <= 3 * out["fit"][key]["uncertainty"], key
@@ -57,14 +57,14 @@ def test_demo_with_dos_reports_scale_and_dos_entropy(capsys):
 
 
 def test_csv_and_xlsx_tables(tmp_path, capsys):
-    assert main(["calorimetry", "sample_dos/springium_cp.csv", "--atoms", "1", "--range", "20:350",
+    assert main(["calorimetry", "sample_dos/measured/springium_cp.csv", "--atoms", "1", "--range", "20:350",
                  "--format", "csv"]) == 0
     text = capsys.readouterr().out
     df = pd.read_csv(io.StringIO(text), comment="#")
     assert df["relative_residual"].isna().sum() == int((df["temperature_K"] < 20).sum()) > 0
     assert np.all(np.diff(df["entropy_third_law_J_per_mol_K"]) > 0)
     out = tmp_path / "cal.xlsx"
-    assert main(["calorimetry", "sample_dos/springium_cp.csv", "--format", "xlsx", "--output", str(out)]) == 0
+    assert main(["calorimetry", "sample_dos/measured/springium_cp.csv", "--format", "xlsx", "--output", str(out)]) == 0
     assert out.read_bytes()[:2] == b"PK"
 
 
@@ -76,6 +76,6 @@ def test_csv_and_xlsx_tables(tmp_path, capsys):
     (["--model", "debye+dilation-values"], "needs --dilation-values"),
 ])
 def test_bad_options_exit_2_with_one_line(extra, message, capsys):
-    assert main(["calorimetry", "sample_dos/springium_cp.csv", "--atoms", "1", *extra]) == 2
+    assert main(["calorimetry", "sample_dos/measured/springium_cp.csv", "--atoms", "1", *extra]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert err[-1].startswith("error:") and message in err[-1]
