@@ -49,6 +49,6 @@ def test_held_gamma_and_bad_fix_text(page, workspace):
     assert "unknown parameter 'zeta'" in _text(bad[-1]) and "Traceback" not in _text(bad[-1])
 
 
-def test_no_measurement_yet(page, workspace):
+def test_first_visit_shows_the_demo_measurement(page, workspace):
     out = page.draw(None, workspace, "debye", [], "", "", 1, "header", "")
-    assert "No measured file" in out[-2]
+    assert "springium_cp.csv" in out[-2] and "invented demo measurement" in _text(out[-1])

@@ -11,7 +11,7 @@ import plotly.graph_objects as go
 from dash import Input, Output, State, callback, dcc, html
 
 from thermo.calorimetry import HeatCapacityModel, parse_fixed, read_heat_capacity
-from thermo.calorimetry.report import analyse
+from thermo.calorimetry.report import CAUTIONS, analyse
 from thermo.cli.models import parse_fit_range
 from thermo.columns import column_name, find
 from thermo.errors import OptionError
@@ -67,7 +67,7 @@ def layout(**_query):
                  className="mh-grid"),
         html.H2("Fitted parameters"),
         dcc.Loading(html.Div(id="cal-params"), type="dot"),
-        html.P(c.CAUTION, className="mh-msg mh-msg-info"),
+        html.Div([html.P(text, className="mh-msg mh-msg-info") for text in CAUTIONS], id="cal-cautions"),
     )
 
 
@@ -111,9 +111,11 @@ def _fixed(text):
 def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula):
     """Fit and draw for the page's settings."""
     current = session.active(workspace)
-    if not stored:
-        blank = fg.message_figure("no measured data: upload a file or use the demo measurement")
-        return blank, blank, blank, [], [], c.active_note(current), "No measured file loaded.", []
+    demo_note = []
+    if not stored:   # first visit: the invented demo measurement, as the DOS demos
+        stored = demo_measurement()
+        demo_note = [("info", "Showing the invented demo measurement (imaginary metal 'springium'); "
+                              "upload your own file above.")]
     measured = _measured(stored, unit, formula)
     dos = cache.load(current) if current is not None and lattice == "dos" else None
     if lattice == "dos" and dos is None:
@@ -129,7 +131,7 @@ def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula
                 f"{measured.temperature_K[0]:g}–{measured.temperature_K[-1]:g} K, read in {measured.unit}; " \
                 f"model {report['model']}, weights: {report['weighting']}"
     return (*figs, _keys(report), _parameter_table(report), c.active_note(current), file_note,
-            c.message_items(notes))
+            c.message_items(demo_note + notes))
 
 
 def _overlay(measured, fit, dataset):
