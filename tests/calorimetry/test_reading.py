@@ -83,3 +83,11 @@ def test_restricted_range_refuses_too_few_points():
     with pytest.raises(OptionError, match="holds 1"):
         m.restricted(25, 40)
     assert np.all(m.temperature_K == [10, 20, 30])
+
+
+def test_kilo_units_are_refused_not_misread():
+    # A kJ header must not be read as J (a silent factor 1000).
+    with pytest.raises(OptionError, match="not supported"):
+        read_heat_capacity("T (K),Cp (kJ/(mol K))\n10,0.001\n20,0.002\n")
+    with pytest.raises(OptionError, match="not supported"):
+        heat_capacity_unit("kcal/(mol K)")

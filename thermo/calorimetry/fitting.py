@@ -89,9 +89,11 @@ def parse_fixed(items):
             value = float(text)
         except ValueError:
             raise OptionError(f"--fix {item!r}: {text!r} is not a number") from None
-        if not (np.isfinite(value) and value >= 0):
-            raise OptionError(f"--fix {item!r}: the value must be finite and >= 0")
-        out[parameter_name(name.strip())] = value
+        key = parameter_name(name.strip())
+        positive = key in ("theta_D_K", "scale")
+        if not (np.isfinite(value) and (value > 0 if positive else value >= 0)):
+            raise OptionError(f"--fix {item!r}: the value must be finite and {'> 0' if positive else '>= 0'}")
+        out[key] = value
     return out
 
 

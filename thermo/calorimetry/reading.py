@@ -92,6 +92,11 @@ def heat_capacity_unit(text):
     str or None
         A key of :data:`CP_UNITS`, or None when no unit is recognised.
 
+    Raises
+    ------
+    OptionError
+        A unit with kJ or kcal (not accepted, to avoid a silent factor 1000).
+
     Examples
     --------
     >>> heat_capacity_unit("heat_capacity_J_per_mol_K"), heat_capacity_unit("Cp [mJ mol-1 K-1]")
@@ -106,6 +111,9 @@ def heat_capacity_unit(text):
     m = _CP_PATTERN.search(s)
     if not m:
         return None
+    if m.group(1) == "j" and s[max(0, m.start() - 1):m.start()] == "k" or "kcal/" in s:
+        raise OptionError(f"heat-capacity unit in {str(text)!r} is not supported; "
+                          f"give one of {', '.join(CP_UNITS)}")
     energy = {"mj": "mJ", "cal": "cal", "j": "J"}[m.group(1)]
     basis = "g" if "g" in m.group(2) else "mol"
     unit = f"{energy}/({basis} K)"

@@ -105,10 +105,12 @@ def analyse(measured, model: HeatCapacityModel, fixed=None, fit_range=None, low_
     gamma = fit.values.get("gamma_J_per_mol_K2", 0.0)
     table = third_law_from_data(t, measured.heat_capacity_J_per_mol_K, t, sigma, gamma)
     data_s = {"value": None, "uncertainty": None}
+    data_h = dict(data_s)
     extrapolated = None
     if t[0] <= STANDARD_K <= t[-1]:
         one = third_law_from_data(t, measured.heat_capacity_J_per_mol_K, STANDARD_K, sigma, gamma)
         data_s = _pair(one["entropy"][0], one["entropy_uncertainty"][0])
+        data_h = _pair(one["enthalpy"][0] / 1e3, one["enthalpy_uncertainty"][0] / 1e3)
         extrapolated = float(one["extrapolated_entropy"][0])
         share = extrapolated / one["entropy"][0]
         if share > 0.02:
@@ -138,18 +140,20 @@ def analyse(measured, model: HeatCapacityModel, fixed=None, fit_range=None, low_
         "enthalpy_298_15_minus_0_kJ_per_mol": _pair(model_s["enthalpy"][0] / 1e3,
                                                     model_s["enthalpy_uncertainty"][0] / 1e3),
         "entropy_298_15_from_data_J_per_mol_K": data_s,
+        "enthalpy_298_15_minus_0_from_data_kJ_per_mol": data_h,
         "entropy_below_first_point_J_per_mol_K": extrapolated,
         "low_temperature_analysis": low,
         "notes": notes, "cautions": list(CAUTIONS),
     }
-    if model.dos is not None:
-        from ..kernels.sums import thermal_sums
-        s_dos = sc.R * thermal_sums(model.dos, [STANDARD_K])["entropy"][0]
-        report["entropy_298_15_from_dos_J_per_mol_K"] = float(s_dos)
-        report["note_dos_entropy"] = "harmonic vibrational S of the unscaled DOS: no electronic or dilation part"
     third = pd.DataFrame({column_name("temperature"): t,
                           column_name("heat_capacity_p_measured"): measured.heat_capacity_J_per_mol_K,
                           column_name("entropy_third_law"): table["entropy"],
                           column_name("entropy_third_law_uncertainty"): table["entropy_uncertainty"],
                           column_name("enthalpy_increment"): table["enthalpy"] / 1e3})
+    if model.dos is not None:
+        from ..kernels.sums import thermal_sums
+        s_dos = sc.R * thermal_sums(model.dos, np.append(t, STANDARD_K))["entropy"]
+        report["entropy_298_15_from_dos_J_per_mol_K"] = float(s_dos[-1])
+        report["note_dos_entropy"] = "harmonic vibrational S of the unscaled DOS: no electronic or dilation part"
+        third[column_name("entropy")] = s_dos[:-1]
     return report, fit, third
