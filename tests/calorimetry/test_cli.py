@@ -79,3 +79,23 @@ def test_bad_options_exit_2_with_one_line(extra, message, capsys):
     assert main(["calorimetry", "sample_dos/measured/springium_cp.csv", "--atoms", "1", *extra]) == 2
     err = capsys.readouterr().err.strip().splitlines()
     assert err[-1].startswith("error:") and message in err[-1]
+
+
+def test_dilation_values_file_is_used_as_given(tmp_path, capsys):
+    # Data = Debye(θ_D 320 K) + a given C_p − C_v = α²B_T V T (made-up α, B_T, V); with the same
+    # values supplied through --dilation-values the Debye fit must be exact.
+    from thermo.calorimetry import dilation_from_expansion
+    from .test_external import _debye_cv_mpmath
+    t = np.linspace(20.0, 500.0, 25)
+    dc = dilation_from_expansion(4e-5, 1.2e11, 8e-6, t)
+    cp = np.array([_debye_cv_mpmath(x, 320.0) for x in t]) + dc
+    measured = tmp_path / "m.txt"
+    measured.write_text("T Cp\n" + "".join(f"{a:.10g} {b:.12g}\n" for a, b in zip(t, cp)))
+    given = tmp_path / "dilation.txt"
+    given.write_text("".join(f"{a:.10g} {b:.12g}\n" for a, b in zip(t, dc)))
+    assert main(["calorimetry", str(measured), "--atoms", "1", "--model", "debye+dilation-values",
+                 "--dilation-values", str(given)]) == 0
+    out = json.loads(capsys.readouterr().out)
+    assert out["fit"]["theta_D_K"]["value"] == pytest.approx(320.0, rel=1e-7)
+    assert out["max_relative_residual"] < 1e-8
+    assert np.array(out["residuals"]["heat_capacity_dilation_J_per_mol_K"]) == pytest.approx(dc, rel=1e-9)

@@ -43,8 +43,9 @@ def test_dilation_hook_alpha2_b_v_t():
     model = HeatCapacityModel(atoms=1, electronic=False, dilation="values", dilation_table=table)
     parts = model.parts([150.0], {"theta_D_K": 343.0})
     assert parts["dilation"][0] == pytest.approx(0.5 * (table[1][0] + table[1][1]))
-    with pytest.raises(OptionError, match="cover 100-300 K"):
+    with pytest.raises(OptionError, match="end at 300 K"):
         model.parts([400.0], {"theta_D_K": 343.0})
+    assert model.parts([50.0], {"theta_D_K": 343.0})["dilation"][0] == pytest.approx(0.5 * table[1][0])
 
 
 def test_held_parameter_and_unknown_names():

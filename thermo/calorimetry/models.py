@@ -146,7 +146,8 @@ class HeatCapacityModel:
         Needed for ``lattice='dos'``.
     dilation_table : tuple of arrays, optional
         (T [K], C_p − C_v [J/(mol K)]) for ``dilation='values'``, e.g. from
-        :func:`dilation_from_expansion`; linear interpolation, refused outside.
+        :func:`dilation_from_expansion`; linear interpolation, a straight line
+        to 0 at 0 K below the first value, refused above the last.
     """
 
     atoms: int = 1
@@ -227,11 +228,14 @@ class HeatCapacityModel:
 
     def _given_dilation(self, t):
         tt, dc = (np.asarray(v, dtype=float) for v in self.dilation_table)
-        hot = t > 0
-        if np.any((t[hot] < tt.min() * (1 - 1e-12)) | (t[hot] > tt.max() * (1 + 1e-12))):
-            raise OptionError(f"the given C_p - C_v values cover {tt.min():g}-{tt.max():g} K; "
-                              f"the model is needed at {t[hot].min():g}-{t[hot].max():g} K")
-        return np.where(hot, np.interp(t, tt, dc), 0.0)
+        order = np.argsort(tt)
+        tt, dc = tt[order], dc[order]
+        if np.any(t > tt.max() * (1 + 1e-12)):
+            raise OptionError(f"the given C_p - C_v values end at {tt.max():g} K; "
+                              f"the model is needed up to {t.max():g} K")
+        if tt[0] > 0:   # C_p - C_v vanishes at 0 K: straight line to 0 below the first value
+            tt, dc = np.concatenate([[0.0], tt]), np.concatenate([[0.0], dc])
+        return np.interp(t, tt, dc)
 
 
 def low_temperature_analysis(temperatures, heat_capacity, atoms, sigma=None, t_max=None):
