@@ -52,3 +52,12 @@ def test_held_gamma_and_bad_fix_text(page, workspace):
 def test_first_visit_shows_the_demo_measurement(page, workspace):
     out = page.draw(None, workspace, "debye", [], "", "", 1, "header", "")
     assert "springium_cp.csv" in out[-2] and "invented demo measurement" in _text(out[-1])
+
+
+def test_upload_over_the_limit_is_refused_with_a_message(page, workspace):
+    import base64
+    contents = "data:text/csv;base64," + base64.b64encode(b"T,Cp\n" + b"1,2\n" * 3000).decode()
+    stored = page.uploaded_measurement(contents, "big.csv", max_bytes=1000)
+    out = page.draw(stored, workspace, "debye", [], "", "", 1, "header", "")
+    assert "big.csv: the file is 0.012 MB; the upload limit is 0.001 MB" in _text(out[-1])
+    assert page.uploaded_measurement(contents, "ok.csv", max_bytes=10 ** 6)["contents"] == contents

@@ -72,12 +72,22 @@ def layout(**_query):
 
 
 @callback(Output("cal-measured", "data"), Input("cal-upload", "contents"), Input("cal-demo", "n_clicks"),
-          State("cal-upload", "filename"), prevent_initial_call=True)
-def keep_measured(contents, _clicks, name):
+          State("cal-upload", "filename"), State("mh-config", "data"), prevent_initial_call=True)
+def keep_measured(contents, _clicks, name, config):
     """The measured file as a data URL in the browser's session store."""
     if dash.ctx.triggered_id == "cal-demo":
         return demo_measurement()
-    return {"name": name or "upload", "contents": contents}
+    return uploaded_measurement(contents, name, (config or {}).get("max_upload_bytes"))
+
+
+def uploaded_measurement(contents, name, max_bytes=None):
+    """Store entry of an upload, or of its refusal (size limit) shown by :func:`draw`."""
+    name = name or "upload"
+    size = len(contents or "") * 3 // 4          # base64 carries 3 bytes in 4 characters
+    if max_bytes and size > max_bytes:
+        return {"name": name, "refused": f"{name}: the file is {size / 1e6:.3g} MB; "
+                                         f"the upload limit is {max_bytes / 1e6:g} MB"}
+    return {"name": name, "contents": contents}
 
 
 def demo_measurement():
@@ -92,6 +102,8 @@ def _failed(message):
 
 
 def _measured(stored, unit, formula):
+    if stored.get("refused"):
+        raise OptionError(stored["refused"])
     raw = decode_upload(stored["contents"], stored["name"])
     return read_heat_capacity(raw, cp_unit=None if unit == "header" else unit, formula=formula or None,
                               name=stored["name"])
