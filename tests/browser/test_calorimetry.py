@@ -42,7 +42,10 @@ def test_upload_fit_and_error_message(duo, tmp_path):
     until(lambda: js_graph(duo.driver, "cal-overlay-graph", "gd._fullData[0].x.length") == 64, 20)
     y = np.array(js_graph(duo.driver, "cal-overlay-graph", "Array.from(gd._fullData[0].y)"), dtype=float)
     assert y[-1] == pytest.approx(cv[-1] + 1e-3 * t[-1], rel=1e-6)    # converted to J/(mol K)
-    assert "θ_D" in duo.driver.find_element(By.ID, "cal-param-table").text
+    # An upload is compared with the active DOS (scale s); switching to Debye refits with θ_D.
+    until(lambda: "frequency scale s" in duo.driver.find_element(By.ID, "cal-param-table").text, 20)
+    duo.driver.find_element(By.CSS_SELECTOR, "#cal-lattice input[value=debye]").click()
+    until(lambda: duo.driver.find_element(By.CSS_SELECTOR, "#cal-param-table tbody td").text == "θ_D", 20)
     duo.driver.find_element(By.CSS_SELECTOR, "#cal-upload input[type=file]").send_keys(str(bad))
     until(lambda: "'banana' is not a number" in _messages(duo.driver), 20)
     assert "Traceback" not in _messages(duo.driver)

@@ -26,6 +26,9 @@ PATH, NAME, ORDER = "/calorimetry", "Calorimetry", 5.5
 
 #: The invented measured demo file (see ``sample_dos/generate_calorimetry.py``).
 DEMO_FILE = Path(__file__).resolve().parents[2] / "sample_dos" / "measured" / "springium_cp.csv"
+#: The demo DOS the demo measurement was generated from.
+DEMO_DOS = "springium_fcc.dat"
+ROOM_K = 298.15
 _GRAPHS = ("cal-overlay-graph", "cal-residual-graph", "cal-lowt-graph")
 _UNITS = [{"label": "as the header states", "value": "header"}] + [
     {"label": u, "value": u} for u in ("J/(mol K)", "J/(g K)", "cal/(mol K)", "mJ/(mol K)")]
@@ -48,7 +51,7 @@ def layout(**_query):
         c.active_slot("cal"),
         c.controls(
             c.radio("cal-lattice", [{"label": " Debye θ_D", "value": "debye"},
-                                    {"label": " active DOS × scale s", "value": "dos"}], "debye", "Lattice part"),
+                                    {"label": " active DOS × scale s", "value": "dos"}], "dos", "Lattice part"),
             c.field("Further terms", dcc.Checklist(id="cal-terms", value=["electronic", "nernst-lindemann"],
                                                    options=[{"label": " electronic γT", "value": "electronic"},
                                                             {"label": " dilation A·C_p²·T (Nernst–Lindemann)",
@@ -122,21 +125,31 @@ def _fixed(text):
 @reported(_failed)
 def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula):
     """Fit and draw for the page's settings."""
-    current = session.active(workspace)
     demo_note = []
     if not stored:   # first visit: the invented demo measurement, as the DOS demos
         stored = demo_measurement()
         demo_note = [("info", "Showing the invented demo measurement (imaginary metal 'springium'); "
                               "upload your own file above.")]
+    current = _dos_dataset(workspace, stored)
     measured = _measured(stored, unit, formula)
-    dos = cache.load(current) if current is not None and lattice == "dos" else None
+    dos = cache.load(current) if current is not None else None
     if lattice == "dos" and dos is None:
         raise OptionError("the DOS lattice part needs an active dataset (load one on the Spectrum page)")
+    active = session.active(workspace)
+    if current is not None and (active is None or current["id"] != active["id"]):
+        demo_note.append(("info", f"The demo measurement is paired with the demo DOS {current['name']}."))
+    n = int(dos.atoms if dos is not None and lattice == "dos" else (atoms or 1))
+    if dos is not None and dos.atoms != n:
+        demo_note.append(("warn", f"the DOS {current['name']} has {dos.atoms} atoms per formula unit, the "
+                                  f"measurement is analysed for {n}: its C_v curve is per its own formula unit"))
     terms = terms or []
-    model = HeatCapacityModel(atoms=int(dos.atoms if dos is not None else (atoms or 1)), lattice=lattice,
-                              electronic="electronic" in terms,
-                              dilation="nernst-lindemann" if "nernst-lindemann" in terms else "none", dos=dos)
+    model = HeatCapacityModel(atoms=n, lattice=lattice, electronic="electronic" in terms,
+                              dilation="nernst-lindemann" if "nernst-lindemann" in terms else "none",
+                              dos=dos if lattice == "dos" else None)
     report, fit, _third = analyse(measured, model, _fixed(fix), parse_fit_range(fit_range) if fit_range else None)
+    if dos is not None and "entropy_298_15_from_dos_J_per_mol_K" not in report:
+        report["entropy_298_15_from_dos_J_per_mol_K"] = float(
+            cache.table(current, [ROOM_K])[column_name("entropy")].iloc[0])
     figs = [_overlay(measured, fit, current), _residuals(fit), _low_t(report, measured)]
     notes = [("warn", n) for n in report["notes"]]
     file_note = f"Measured: {measured.source} — {measured.temperature_K.size} points, " \
@@ -144,6 +157,15 @@ def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula
                 f"model {report['model']}, weights: {report['weighting']}"
     return (*figs, _keys(report), _parameter_table(report), c.active_note(current), file_note,
             c.message_items(demo_note + notes))
+
+
+def _dos_dataset(workspace, stored):
+    """The DOS to compare with: the demo DOS for the demo measurement when loaded, else the active one."""
+    if stored.get("name") == DEMO_FILE.name:
+        demo = next((d for d in (workspace or {}).get("datasets", []) if d["name"] == DEMO_DOS), None)
+        if demo is not None:
+            return demo
+    return session.active(workspace)
 
 
 def _overlay(measured, fit, dataset):
@@ -222,9 +244,10 @@ def _parameter_table(report):
                                  html.Td(f"{low[key]['uncertainty']:.3g}"), html.Td(unit)]))
     head = html.Thead(html.Tr([html.Th(h) for h in ("parameter", "value", "standard uncertainty", "unit")]))
     names = report["correlation"]["parameters"]
-    corr = html.Table([html.Thead(html.Tr([html.Th("r")] + [html.Th(n) for n in names])),
+    shown = [_PARAM_TEXT[n][0] for n in names]
+    corr = html.Table([html.Thead(html.Tr([html.Th("r")] + [html.Th(n) for n in shown])),
                        html.Tbody([html.Tr([html.Th(n)] + [html.Td(f"{v:+.3f}") for v in row])
-                                   for n, row in zip(names, report["correlation"]["matrix"])])],
+                                   for n, row in zip(shown, report["correlation"]["matrix"])])],
                       className="mh-table mh-numbers", id="cal-correlation")
     return [html.Table([head, html.Tbody(rows)], className="mh-table mh-numbers", id="cal-param-table"),
             html.H3("Correlation of the fitted parameters"), corr]
