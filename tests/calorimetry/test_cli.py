@@ -99,3 +99,14 @@ def test_dilation_values_file_is_used_as_given(tmp_path, capsys):
     assert out["fit"]["theta_D_K"]["value"] == pytest.approx(320.0, rel=1e-7)
     assert out["max_relative_residual"] < 1e-8
     assert np.array(out["residuals"]["heat_capacity_dilation_J_per_mol_K"]) == pytest.approx(dc, rel=1e-9)
+
+
+def test_undetermined_parameters_give_strict_json(tmp_path, capsys):
+    # Two points far above θ_D: A and γ cannot both be found; the JSON must still be strict
+    # (no NaN/Infinity tokens) and say so through null uncertainties or a correlation warning.
+    path = tmp_path / "flat.csv"
+    path.write_text("T,Cp\n800,25.1\n900,25.3\n1000,25.5\n")
+    assert main(["calorimetry", str(path), "--atoms", "1", "--fix", "theta_D=300"]) == 0
+    text = capsys.readouterr().out
+    assert "NaN" not in text and "Infinity" not in text
+    json.loads(text)

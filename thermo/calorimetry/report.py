@@ -66,6 +66,17 @@ def _pair(value, uncertainty):
     return {"value": clean(value), "uncertainty": clean(uncertainty)}
 
 
+def _finite_or_none(value):
+    """The report with every NaN/inf number replaced by None (strict JSON)."""
+    if isinstance(value, dict):
+        return {k: _finite_or_none(v) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [_finite_or_none(v) for v in value]
+    if isinstance(value, (float, np.floating)):
+        return float(value) if np.isfinite(value) else None
+    return value
+
+
 def analyse(measured, model: HeatCapacityModel, fixed=None, fit_range=None, low_t_max=None):
     """Fit, S°(298.15 K) from model and data, low-T analysis and DOS comparison.
 
@@ -145,6 +156,7 @@ def analyse(measured, model: HeatCapacityModel, fixed=None, fit_range=None, low_
         "low_temperature_analysis": low,
         "notes": notes, "cautions": list(CAUTIONS),
     }
+    report = _finite_or_none(report)
     third = pd.DataFrame({column_name("temperature"): t,
                           column_name("heat_capacity_p_measured"): measured.heat_capacity_J_per_mol_K,
                           column_name("entropy_third_law"): table["entropy"],
