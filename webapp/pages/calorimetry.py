@@ -192,8 +192,14 @@ def _overlay(measured, fit, dataset):
 def _residuals(fit):
     df = fit.residuals
     fig = fg.figure("temperature T [K]", "relative residual [%]")
+    sigma = df[column_name("heat_capacity_p_uncertainty")] / df[column_name("heat_capacity_p_measured")]
+    bars = None if sigma.isna().all() else {"array": 100 * sigma, "visible": True, "thickness": 1}
     fig.add_trace(go.Scatter(x=df[column_name("temperature")], y=100 * df[column_name("relative_residual")],
-                             mode="markers", name="(model − measured)/measured", marker={"color": fg.PALETTE[0]}))
+                             mode="markers", name="(model − measured)/measured; bars: stated uncertainty",
+                             marker={"color": fg.PALETTE[0]}, error_y=bars))
+    low, high = fit.fit_range_K
+    fig.add_vrect(x0=low, x1=high, fillcolor=fg.PALETTE[0], opacity=0.05, line_width=0,
+                  annotation_text="fit range", annotation_position="top left")
     fig.add_hline(y=0, line_color=fg.INK, line_width=1)
     return fig
 
