@@ -86,44 +86,42 @@ def third_law_from_data(temperatures, heat_capacity, temperature, sigma=None, ga
                           f"asked for {where.max():g} K")
     n = t.size
     eye = np.eye(n)
-    s_spline = CubicSpline(t, eye / t[:, None]) if n > 2 else None
-    h_spline = CubicSpline(t, eye) if n > 2 else None
     t1 = t[0]
-    # Weights on each C_j of S and H at T_1 (extrapolation) and beyond.
-    out_s, out_h, ext = [], [], []
-    for x in where:
-        low = min(x, t1)
-        frac = low / t1
-        ws = eye[0] * frac ** 3 / 3.0
-        wh = eye[0] * frac ** 3 * low / 4.0
-        cs = gamma * low * (1 - frac ** 2 / 3.0)      # γT − γT₁(T/T₁)³/3 … from b's γ part
-        ch = gamma * low ** 2 * (0.5 - frac ** 2 / 4.0)
-        ext.append(float(ws @ c + cs))
-        if x > t1:
-            if s_spline is None:   # two points: straight lines
-                ws = ws + _trapezoid_weights(t, x, 1.0 / t)
-                wh = wh + _trapezoid_weights(t, x, np.ones(n))
-            else:
-                ws = ws + s_spline.integrate(t1, x)
-                wh = wh + h_spline.integrate(t1, x)
-        out_s.append((float(ws @ c + cs), _spread(ws, sigma)))
-        out_h.append((float(wh @ c + ch), _spread(wh, sigma)))
-    s_arr, us = (np.array(v) for v in zip(*out_s))
-    h_arr, uh = (np.array(v) for v in zip(*out_h))
-    return {"entropy": s_arr, "entropy_uncertainty": us, "enthalpy": h_arr,
-            "enthalpy_uncertainty": uh, "extrapolated_entropy": np.array(ext)}
+    low = np.minimum(where, t1)
+    frac = low / t1
+    # Weights on each C_j (rows: targets): the T³ (+γT) part below T₁ ...
+    ws = np.outer(frac ** 3 / 3.0, eye[0])
+    wh = np.outer(frac ** 3 * low / 4.0, eye[0])
+    cs = gamma * low * (1 - frac ** 2 / 3.0)
+    ch = gamma * low ** 2 * (0.5 - frac ** 2 / 4.0)
+    extrapolated = ws @ c + cs
+    # ... plus the spline integrals from T₁ (zero for targets at or below T₁).
+    above = where > t1
+    ws[above] += _integral_weights(CubicSpline(t, eye / t[:, None]), t, where[above])
+    wh[above] += _integral_weights(CubicSpline(t, eye), t, where[above])
+    return {"entropy": ws @ c + cs, "entropy_uncertainty": _spread(ws, sigma),
+            "enthalpy": wh @ c + ch, "enthalpy_uncertainty": _spread(wh, sigma),
+            "extrapolated_entropy": extrapolated}
 
 
-def _trapezoid_weights(t, x, factor):
-    w = np.zeros(t.size)
-    w[0] = w[1] = 0.5 * (min(x, t[1]) - t[0])
-    return w * factor
+def _integral_weights(spline, knots, targets):
+    """∫_{t₁}^{x} of each basis spline (columns) at each target x (rows), from the polynomial pieces."""
+    coef = spline.c                                   # (4, pieces, basis)
+    powers = np.arange(4, 0, -1)                      # ∫ c_m (x−x_k)^(3−m) → c_m h^(4−m)/(4−m)
+    h = np.diff(knots)
+    full = np.einsum("mkj,mk->kj", coef, h[None, :] ** powers[:, None] / powers[:, None])
+    cumulative = np.vstack([np.zeros(coef.shape[2]), np.cumsum(full, axis=0)])
+    k = np.clip(np.searchsorted(knots, targets, side="right") - 1, 0, h.size - 1)
+    dx = targets - knots[k]
+    part = np.einsum("mkj,mk->kj", coef[:, k, :], dx[None, :] ** powers[:, None] / powers[:, None])
+    return cumulative[k] + part
 
 
 def _spread(weights, sigma):
+    """√Σ_j (w_j σ_j)² for each row of weights (zeros without σ)."""
     if sigma is None:
-        return 0.0
-    return float(np.sqrt(np.sum((weights * np.asarray(sigma, dtype=float)) ** 2)))
+        return np.zeros(weights.shape[0])
+    return np.sqrt(np.sum((weights * np.asarray(sigma, dtype=float)) ** 2, axis=1))
 
 
 def _integrals(function, where):
