@@ -136,3 +136,17 @@ def test_low_temperature_analysis_recovers_gamma_and_theta():
     assert abs(r["theta_D_K"]["value"] - theta) <= 3 * r["theta_D_K"]["uncertainty"]
     assert abs(r["gamma_J_per_mol_K2"]["value"] - gamma) <= 3 * r["gamma_J_per_mol_K2"]["uncertainty"]
     assert r["theta_D_K"]["uncertainty"] < 0.05 * theta
+
+
+def test_data_entropy_uncertainty_matches_monte_carlo_scatter():
+    # GUM Supplement 1 (JCGM 101:2008): propagation by Monte Carlo.  The linear propagation
+    # reported for S° from data must match the scatter of S° over 400 noisy copies (within 12 %).
+    theta = 300.0
+    t = np.arange(6.0, 310.0, 10.0)
+    c = np.array([_debye_cv_mpmath(x, theta) for x in t])
+    sigma = 0.01 * c
+    reported = third_law_from_data(t, c, 298.15, sigma)["entropy_uncertainty"][0]
+    rng = np.random.default_rng(101)
+    draws = [third_law_from_data(t, c + rng.normal(0, sigma), 298.15)["entropy"][0] for _ in range(400)]
+    assert np.std(draws, ddof=1) == pytest.approx(reported, rel=0.12)
+    assert reported > 0
