@@ -152,6 +152,8 @@ def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula
             cache.table(current, [ROOM_K])[column_name("entropy")].iloc[0])
     figs = [_overlay(measured, fit, current), _residuals(fit), _low_t(report, measured)]
     notes = [("warn", n) for n in report["notes"]]
+    if dos is not None:
+        notes += [("warn", f"{current['name']}: {w}") for w in dos.warnings]
     file_note = f"Measured: {measured.source} — {measured.temperature_K.size} points, " \
                 f"{measured.temperature_K[0]:g}–{measured.temperature_K[-1]:g} K, read in {measured.unit}; " \
                 f"model {report['model']}, weights: {report['weighting']}"
