@@ -102,3 +102,17 @@ def test_model_text():
     with pytest.raises(OptionError, match="unknown model term"):
         parse_model("einstein", True)
     assert sc.R > 8.3
+
+
+def test_results_do_not_jump_when_the_data_are_merely_resampled():
+    # The same smooth Debye + γT + Nernst–Lindemann curve sampled on 40 and on 131 points
+    # (noise-free): the start-value scan is a heuristic, the fitted values must not depend on it.
+    model = HeatCapacityModel(atoms=2)
+    truth = {"theta_D_K": 512.0, "gamma_J_per_mol_K2": 0.8e-3, "dilation_A_mol_per_J": 2e-6}
+    results = []
+    for t in (np.linspace(12.0, 800.0, 40), np.geomspace(12.0, 800.0, 131)):
+        data = MeasuredHeatCapacity(t, model.heat_capacity_p(t, truth), None, "J/(mol K)", "x")
+        results.append(fit_measured_heat_capacity(data, model).values)
+    for key, value in truth.items():
+        assert results[0][key] == pytest.approx(value, rel=1e-6)
+        assert results[1][key] == pytest.approx(value, rel=1e-6)
