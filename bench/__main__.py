@@ -18,6 +18,7 @@ GOALS = {
     "p6_callback_median_s": ("<=", 0.15), "p7_batch_1000_s": ("<=", 20.0),
     "p8_quasiharmonic_s": ("<=", 0.5),
     "p11_first_page_s": ("<=", 1.0), "p11_navigation_s": ("<=", 0.3),
+    "p9_calorimetry_fit_s": ("<=", 0.3),
 }
 
 
@@ -31,7 +32,7 @@ def _guarded(name, fn, keys):
 
 def measure(only=None, quick=False):
     """All requested figures in one dict."""
-    from . import dashboard, figures, pageload, quasiharmonic
+    from . import calorimetry, dashboard, figures, pageload, quasiharmonic
     from .timing import machine
     plan = [
         ("p1", lambda: figures.p1_p2(repeat=7 if quick else 15, quad_temperatures=5 if quick else 25),
@@ -44,6 +45,7 @@ def measure(only=None, quick=False):
          ("p7_batch_1000_s",)),
         ("p8", lambda: quasiharmonic.p8(repeat=3 if quick else 7), ("p8_quasiharmonic_s",)),
         ("p11", lambda: pageload.p11(repeat=3 if quick else 5), ("p11_first_page_s", "p11_navigation_s")),
+        ("p9", lambda: calorimetry.p9(repeat=3 if quick else 7), ("p9_calorimetry_fit_s",)),
     ]
     result = {}
     contrast = {}

@@ -232,3 +232,15 @@ register_quantity("eos_fit_residual", "ΔF_rms", "fixed", "meV", "meV",
                   "rms misfit of the equation of state to F(V), per formula unit")
 register_quantity("outside_volume_range", "outside", "fixed",
                   description="True where the minimum lies outside the sampled volumes (extrapolated)")
+# --- calorimetry (measured heat capacity, thermo/calorimetry) ---
+register_quantity("heat_capacity_p_measured", "C_p,meas", "entropy", description="measured heat capacity at constant pressure")
+register_quantity("heat_capacity_p_uncertainty", "u(C_p)", "entropy", description="standard uncertainty of the measured C_p")
+register_quantity("heat_capacity_p_model", "C_p,model", "entropy", description="fitted model heat capacity at constant pressure")
+register_quantity("heat_capacity_lattice", "C_lat", "entropy", description="lattice (phonon) part of the model heat capacity")
+register_quantity("heat_capacity_electronic", "γT", "entropy", description="electronic part γT of the model heat capacity")
+register_quantity("heat_capacity_dilation", "C_p−C_v", "entropy", description="dilation term C_p − C_v of the model")
+register_quantity("heat_capacity_p_residual", "ΔC_p", "entropy", description="model minus measured C_p")
+register_quantity("relative_residual", "ΔC_p/C_p", "fixed", description="(model − measured)/measured C_p")
+register_quantity("entropy_third_law", "S°", "entropy", description="third-law entropy ∫₀ᵀ C_p/T dT")
+register_quantity("entropy_third_law_uncertainty", "u(S°)", "entropy", description="standard uncertainty of the third-law entropy")
+register_quantity("enthalpy_increment", "H°−H°(0)", "energy", description="enthalpy increment ∫₀ᵀ C_p dT")

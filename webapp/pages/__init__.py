@@ -6,6 +6,7 @@ order.
 """
 
 from .. import shell  # noqa: F401  (the app must exist before register_page)
+from . import calorimetry
 from . import compare
 from . import displacements
 from . import export
@@ -20,6 +21,7 @@ from . import thermodynamics
 PAGES = tuple(sorted((
     home, spectrum, thermodynamics, models, modemap, compare, export,
     quasiharmonic,
+    calorimetry,
     displacements,
     polynomials,
 ), key=lambda m: m.ORDER))

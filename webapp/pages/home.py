@@ -20,6 +20,7 @@ GUIDE = [("/spectrum", "Spectrum", "load DOS files, set units and atoms, check i
          ("/compare", "Compare", "several datasets overlaid, differences against a reference"),
          ("/export", "Export", "tables as CSV, XLSX or JSON with provenance; figure image format"),
          ("/quasiharmonic", "Quasi-harmonic", "DOS at several volumes: V(T), thermal expansion, B_T, C_p, G, γ"),
+         ("/calorimetry", "Calorimetry", "measured C_p against the DOS: fitted γT and dilation terms, residuals, S°(298.15 K)"),
          ("/displacements", "Displacements", "⟨u²⟩, Debye–Waller B and θ_M per species, Lindemann caution, elastic θ_D"),
          ("/polynomials", "Polynomials", "Shomate, NASA 7-term or SGTE coefficients with fit errors, JSON/CSV/Cantera YAML"),
 ]

@@ -1,0 +1,112 @@
+"""``modeheat calorimetry``: fit measured C_p(T), third-law entropy, comparison with a DOS."""
+
+from __future__ import annotations
+
+import json
+import sys
+from pathlib import Path
+
+from ..unit_names import FREQUENCY_UNITS
+
+
+def register(sub):
+    p = sub.add_parser("calorimetry", help="fit a model to measured C_p(T) (lattice + γT + dilation) with "
+                                           "uncertainties; third-law entropy S°(298.15 K) from data and model")
+    p.add_argument("measured", metavar="MEASURED",
+                   help="measured heat capacity: columns T [K], C_p, optional standard uncertainty "
+                        "(text, CSV or .xlsx)")
+    p.add_argument("--dos", metavar="DOS", help="phonon DOS file for the lattice part and the S comparison")
+    p.add_argument("--freq-unit", metavar="U", help=f"frequency unit of --dos: {', '.join(FREQUENCY_UNITS)}")
+    p.add_argument("--atoms", type=int, metavar="N",
+                   help="atoms per formula unit (default: from --dos, else from --formula, else 1)")
+    p.add_argument("--formula", help="chemical formula of the formula unit (for C_p in J/(g K))")
+    p.add_argument("--cp-unit", metavar="UNIT",
+                   help="C_p unit: J/(mol K), J/(g K), cal/(mol K), mJ/(mol K) (default: from the header)")
+    p.add_argument("--model", metavar="TERMS",
+                   help="terms joined by '+': debye or dos; electronic; nernst-lindemann or dilation-values "
+                        "(default debye+electronic+nernst-lindemann, dos+... with --dos)")
+    p.add_argument("--fix", action="append", default=[], metavar="NAME=VALUE",
+                   help="hold a parameter: theta_D [K], scale, gamma [J/(mol K²)], A [mol/J]; repeatable")
+    p.add_argument("--range", metavar="LO:HI", help="fit range in K (default all points)")
+    p.add_argument("--dilation-values", metavar="PATH",
+                   help="table of T [K] and C_p - C_v [J/(mol K)] for the dilation-values term")
+    p.add_argument("--low-t-max", type=float, metavar="K",
+                   help="upper temperature of the C/T = γ + βT² analysis (default θ_D/30)")
+    p.add_argument("--format", default="json", choices=["json", "csv", "xlsx"],
+                   help="json: fit, entropies, notes (default); csv/xlsx: residual and third-law table")
+    p.add_argument("--output", metavar="PATH", help="write here (default stdout; needed for xlsx)")
+    p.add_argument("--force", action="store_true", help="replace an existing output file")
+    p.set_defaults(func=run)
+
+
+def build_model(args, dos):
+    """The :class:`HeatCapacityModel` the options describe."""
+    from ..calorimetry.models import HeatCapacityModel
+    from ..calorimetry.report import parse_model
+    from ..errors import OptionError
+    terms = parse_model(args.model, dos is not None)
+    atoms = args.atoms or (dos.atoms if dos is not None else None)
+    if atoms is None and args.formula:
+        from ..formula import formula_unit
+        atoms = formula_unit(args.formula)[1]
+    if atoms is None:
+        atoms = 1
+        print("warning: atoms per formula unit not given; assumed 1 (use --atoms)", file=sys.stderr)
+    table = None
+    if terms["dilation"] == "values":
+        if not args.dilation_values:
+            raise OptionError("the dilation-values term needs --dilation-values PATH")
+        from ..io.readers import read_table
+        raw = read_table(args.dilation_values)
+        table = (raw.data[:, 0], raw.data[:, 1])
+    if terms["lattice"] == "dos" and dos is None:
+        raise OptionError("the dos lattice term needs --dos DOS")
+    return HeatCapacityModel(atoms=int(atoms), dos=dos if terms["lattice"] == "dos" else None,
+                             dilation_table=table, **terms)
+
+
+def run(args) -> int:
+    from ..calorimetry import parse_fixed, read_heat_capacity
+    from ..calorimetry.report import analyse
+    from ..errors import OptionError
+    from ..io.writers import export_table, write_table
+    from .models import parse_fit_range
+
+    if args.output and not args.force and Path(args.output).exists():
+        raise OptionError(f"refusing to overwrite existing file {args.output}; use --force to replace it")
+    if args.format == "xlsx" and not args.output:
+        raise OptionError("xlsx output needs --output PATH")
+    measured = read_heat_capacity(args.measured, cp_unit=args.cp_unit, formula=args.formula)
+    dos = None
+    if args.dos:
+        from ..preparation.loading import load_dos
+        dos = load_dos(args.dos, freq_unit=args.freq_unit, atoms=args.atoms)
+        for note in dos.warnings:
+            print(f"warning: {args.dos}: {note}", file=sys.stderr)
+    model = build_model(args, dos)
+    fit_range = parse_fit_range(args.range) if args.range else None
+    report, fit, third = analyse(measured, model, parse_fixed(args.fix), fit_range, args.low_t_max)
+    for note in report["notes"]:
+        print(f"note: {note}", file=sys.stderr)
+    if args.format == "json":
+        report["residuals"] = {k: [_number(v) for v in fit.residuals[k]] for k in fit.residuals.columns}
+        text = json.dumps(report, indent=2, allow_nan=False) + "\n"
+        if args.output:
+            Path(args.output).write_text(text, encoding="utf-8")
+            print(f"wrote {args.output}", file=sys.stderr)
+        else:
+            sys.stdout.write(text)
+        return 0
+    table = third.merge(fit.residuals.drop(columns=[third.columns[1]]), on=third.columns[0], how="left")
+    info = {k: v for k, v in report.items() if k not in ("correlation", "low_temperature_analysis")}
+    if args.output:
+        write_table(table, info, args.format, args.output, overwrite=args.force)
+        print(f"wrote {args.output}", file=sys.stderr)
+        return 0
+    sys.stdout.write(export_table(table, info, args.format).decode("utf-8"))
+    return 0
+
+
+def _number(value):
+    value = float(value)
+    return value if value == value and abs(value) != float("inf") else None

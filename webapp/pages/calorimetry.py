@@ -1,0 +1,265 @@
+"""Calorimetry page: measured C_p next to the DOS, fitted model, residuals, C/T vs T², S°(298.15 K)."""
+
+from __future__ import annotations
+
+import base64
+from pathlib import Path
+
+import dash
+import numpy as np
+import plotly.graph_objects as go
+from dash import Input, Output, State, callback, dcc, html
+
+from thermo.calorimetry import HeatCapacityModel, parse_fixed, read_heat_capacity
+from thermo.calorimetry.report import CAUTIONS, analyse
+from thermo.cli.models import parse_fit_range
+from thermo.columns import column_name, find
+from thermo.errors import OptionError
+
+from .. import cache, session
+from .. import components as c
+from .. import figures as fg
+from ..intake import decode_upload
+from ..reporting import reported
+
+PATH, NAME, ORDER = "/calorimetry", "Calorimetry", 7
+
+#: The invented measured demo file (see ``sample_dos/generate_calorimetry.py``).
+DEMO_FILE = Path(__file__).resolve().parents[2] / "sample_dos" / "measured" / "springium_cp.csv"
+#: The demo DOS the demo measurement was generated from.
+DEMO_DOS = "springium_fcc.dat"
+ROOM_K = 298.15
+_GRAPHS = ("cal-overlay-graph", "cal-residual-graph", "cal-lowt-graph")
+_UNITS = [{"label": "as the header states", "value": "header"}] + [
+    {"label": u, "value": u} for u in ("J/(mol K)", "J/(g K)", "cal/(mol K)", "mJ/(mol K)")]
+_PARAM_TEXT = {"theta_D_K": ("θ_D", "K"), "scale": ("frequency scale s", "1"),
+               "gamma_J_per_mol_K2": ("γ", "J/(mol K²)"), "dilation_A_mol_per_J": ("A (Nernst–Lindemann)", "mol/J")}
+
+
+def layout(**_query):
+    """The calorimetry page."""
+    return c.page(
+        "Calorimetry", "Measured heat capacity against the DOS: fit lattice, electronic γT and dilation terms "
+                       "with uncertainties, and the third-law entropy S°(298.15 K) from data and model.",
+        html.Div([dcc.Upload(id="cal-upload", className="mh-upload",
+                             children=html.Div(["Drop a measured C_p file here or ", html.U("choose a file"),
+                                                html.Br(), html.Small("columns T [K], C_p, optional standard "
+                                                                      "uncertainty; text or .xlsx")])),
+                  html.Button("Use the demo measurement", id="cal-demo", n_clicks=0, className="mh-button")]),
+        dcc.Store(id="cal-measured", storage_type="session"),
+        html.P(id="cal-file", className="mh-active-note"),
+        c.active_slot("cal"),
+        c.controls(
+            c.radio("cal-lattice", [{"label": " Debye θ_D", "value": "debye"},
+                                    {"label": " active DOS × scale s", "value": "dos"}], "dos", "Lattice part"),
+            c.field("Further terms", dcc.Checklist(id="cal-terms", value=["electronic", "nernst-lindemann"],
+                                                   options=[{"label": " electronic γT", "value": "electronic"},
+                                                            {"label": " dilation A·C_p²·T (Nernst–Lindemann)",
+                                                             "value": "nernst-lindemann"}]), "cal-terms"),
+            c.text("cal-fix", "", "Hold parameters", "gamma=1.35e-3, A=4e-6",
+                   hint="NAME=VALUE, comma separated: theta_D, scale, gamma, A"),
+            c.text("cal-range", "", "Fit range [K]", "LO:HI (default all points)"),
+            c.number("cal-atoms", 1, "Atoms per formula unit", step=1, min_value=1),
+            c.dropdown("cal-unit", _UNITS, "header", "C_p unit"),
+            c.text("cal-formula", "", "Formula", "for J/(g K), e.g. Cu")),
+        c.messages_panel("cal-messages"),
+        html.Div(id="cal-keys"),
+        html.Div([c.graph("cal-overlay-graph", "Measured C_p with the fitted C_p, its terms and the DOS C_v"),
+                  c.graph("cal-residual-graph", "Relative residual (model − measured)/measured"),
+                  c.graph("cal-lowt-graph", "C/T against T² at low temperature: intercept γ, slope β")],
+                 className="mh-grid"),
+        html.H2("Fitted parameters"),
+        dcc.Loading(html.Div(id="cal-params"), type="dot"),
+        html.Div([html.P(text, className="mh-msg mh-msg-info") for text in CAUTIONS], id="cal-cautions"),
+    )
+
+
+@callback(Output("cal-measured", "data"), Input("cal-upload", "contents"), Input("cal-demo", "n_clicks"),
+          State("cal-upload", "filename"), State("mh-config", "data"), prevent_initial_call=True)
+def keep_measured(contents, _clicks, name, config):
+    """The measured file as a data URL in the browser's session store."""
+    if dash.ctx.triggered_id == "cal-demo":
+        return demo_measurement()
+    return uploaded_measurement(contents, name, (config or {}).get("max_upload_bytes"))
+
+
+def uploaded_measurement(contents, name, max_bytes=None):
+    """Store entry of an upload, or of its refusal (size limit) shown by :func:`draw`."""
+    name = name or "upload"
+    size = len(contents or "") * 3 // 4          # base64 carries 3 bytes in 4 characters
+    if max_bytes and size > max_bytes:
+        return {"name": name, "refused": f"{name}: the file is {size / 1e6:.3g} MB; "
+                                         f"the upload limit is {max_bytes / 1e6:g} MB"}
+    return {"name": name, "contents": contents}
+
+
+def demo_measurement():
+    """Store entry of the invented demo measurement."""
+    return {"name": DEMO_FILE.name, "contents": "data:text/csv;base64,"
+            + base64.b64encode(DEMO_FILE.read_bytes()).decode("ascii")}
+
+
+def _failed(message):
+    blank = fg.message_figure("nothing to show for these settings")
+    return (blank,) * 3 + ([], [], dash.no_update, dash.no_update, c.message_items([("error", message)]))
+
+
+def _measured(stored, unit, formula):
+    if stored.get("refused"):
+        raise OptionError(stored["refused"])
+    raw = decode_upload(stored["contents"], stored["name"])
+    return read_heat_capacity(raw, cp_unit=None if unit == "header" else unit, formula=formula or None,
+                              name=stored["name"])
+
+
+def _fixed(text):
+    items = [p.strip() for p in str(text or "").replace(";", ",").split(",") if p.strip()]
+    return parse_fixed(items)
+
+
+@callback(*[Output(g, "figure") for g in _GRAPHS], Output("cal-keys", "children"), Output("cal-params", "children"),
+          Output("cal-active", "children"), Output("cal-file", "children"), Output("cal-messages", "children"),
+          Input("cal-measured", "data"), Input("mh-workspace", "data"), Input("cal-lattice", "value"),
+          Input("cal-terms", "value"), Input("cal-fix", "value"), Input("cal-range", "value"),
+          Input("cal-atoms", "value"), Input("cal-unit", "value"), Input("cal-formula", "value"))
+@reported(_failed)
+def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula):
+    """Fit and draw for the page's settings."""
+    demo_note = []
+    if not stored:   # first visit: the invented demo measurement, as the DOS demos
+        stored = demo_measurement()
+        demo_note = [("info", "Showing the invented demo measurement (imaginary metal 'springium'); "
+                              "upload your own file above.")]
+    current = _dos_dataset(workspace, stored)
+    measured = _measured(stored, unit, formula)
+    dos = cache.load(current) if current is not None else None
+    if lattice == "dos" and dos is None:
+        raise OptionError("the DOS lattice part needs an active dataset (load one on the Spectrum page)")
+    active = session.active(workspace)
+    if current is not None and (active is None or current["id"] != active["id"]):
+        demo_note.append(("info", f"The demo measurement is paired with the demo DOS {current['name']}."))
+    n = int(dos.atoms if dos is not None and lattice == "dos" else (atoms or 1))
+    if dos is not None and dos.atoms != n:
+        demo_note.append(("warn", f"the DOS {current['name']} has {dos.atoms} atoms per formula unit, the "
+                                  f"measurement is analysed for {n}: its C_v curve is per its own formula unit"))
+    terms = terms or []
+    model = HeatCapacityModel(atoms=n, lattice=lattice, electronic="electronic" in terms,
+                              dilation="nernst-lindemann" if "nernst-lindemann" in terms else "none",
+                              dos=dos if lattice == "dos" else None)
+    report, fit, _third = analyse(measured, model, _fixed(fix), parse_fit_range(fit_range) if fit_range else None)
+    if dos is not None and "entropy_298_15_from_dos_J_per_mol_K" not in report:
+        report["entropy_298_15_from_dos_J_per_mol_K"] = float(
+            cache.table(current, [ROOM_K])[column_name("entropy")].iloc[0])
+    figs = [_overlay(measured, fit, current), _residuals(fit), _low_t(report, measured)]
+    notes = [("warn", n) for n in report["notes"]]
+    if dos is not None:
+        notes += [("warn", f"{current['name']}: {w}") for w in dos.warnings]
+    file_note = f"Measured: {measured.source} — {measured.temperature_K.size} points, " \
+                f"{measured.temperature_K[0]:g}–{measured.temperature_K[-1]:g} K, read in {measured.unit}; " \
+                f"model {report['model']}, weights: {report['weighting']}"
+    return (*figs, _keys(report), _parameter_table(report), c.active_note(current), file_note,
+            c.message_items(demo_note + notes))
+
+
+def _dos_dataset(workspace, stored):
+    """The DOS to compare with: the demo DOS for the demo measurement when loaded, else the active one."""
+    if stored.get("name") == DEMO_FILE.name:
+        demo = next((d for d in (workspace or {}).get("datasets", []) if d["name"] == DEMO_DOS), None)
+        if demo is not None:
+            return demo
+    return session.active(workspace)
+
+
+def _overlay(measured, fit, dataset):
+    t = measured.temperature_K
+    fig = fg.figure("temperature T [K]", "heat capacity [J/(mol K)]")
+    sigma = measured.uncertainty_J_per_mol_K
+    fig.add_trace(go.Scatter(x=t, y=measured.heat_capacity_J_per_mol_K, mode="markers", name="measured C_p",
+                             marker={"size": 6, "color": fg.PALETTE[1]},
+                             error_y=None if sigma is None else {"array": sigma, "visible": True}))
+    grid = np.linspace(0.0, float(t[-1]), 300)
+    parts = fit.model.parts(grid, fit.values)
+    fig.add_trace(fg.line(grid, parts["heat_capacity_p"], "fitted C_p", 0))
+    fig.add_trace(fg.line(grid, parts["lattice"], "lattice part", 2, width=1.5, dash="dash"))
+    if fit.model.electronic or fit.model.dilation != "none":
+        fig.add_trace(fg.line(grid, parts["electronic"] + parts["dilation"], "γT + dilation", 3, width=1.5,
+                              dash="dot"))
+    if dataset is not None:
+        df = cache.table(dataset, grid, "formula")
+        fig.add_trace(fg.line(df[find(df, "temperature")], df[find(df, "heat_capacity_v")],
+                              f"C_v of the DOS {dataset['name']} (harmonic)", 5, width=1.5))
+    return fig
+
+
+def _residuals(fit):
+    df = fit.residuals
+    fig = fg.figure("temperature T [K]", "relative residual [%]")
+    sigma = df[column_name("heat_capacity_p_uncertainty")] / df[column_name("heat_capacity_p_measured")]
+    bars = None if sigma.isna().all() else {"array": 100 * sigma, "visible": True, "thickness": 1}
+    fig.add_trace(go.Scatter(x=df[column_name("temperature")], y=100 * df[column_name("relative_residual")],
+                             mode="markers", name="(model − measured)/measured; bars: stated uncertainty",
+                             marker={"color": fg.PALETTE[0]}, error_y=bars))
+    low, high = fit.fit_range_K
+    fig.add_vrect(x0=low, x1=high, fillcolor=fg.PALETTE[0], opacity=0.05, line_width=0,
+                  annotation_text="fit range", annotation_position="top left")
+    fig.add_hline(y=0, line_color=fg.INK, line_width=1)
+    return fig
+
+
+def _low_t(report, measured):
+    low = report["low_temperature_analysis"]
+    t, cp = measured.temperature_K, measured.heat_capacity_J_per_mol_K
+    top = low["range_K"][1] if low else float(t[min(len(t) - 1, 9)])
+    keep = t <= 1.5 * top
+    fig = fg.figure("T² [K²]", "C_p/T [J/(mol K²)]")
+    fig.add_trace(go.Scatter(x=t[keep] ** 2, y=cp[keep] / t[keep], mode="markers", name="measured",
+                             marker={"color": fg.PALETTE[1]}))
+    if low:
+        x = np.linspace(0.0, float(t[keep][-1] ** 2), 50)
+        fig.add_trace(fg.line(x, low["gamma_J_per_mol_K2"]["value"] + low["beta_J_per_mol_K4"]["value"] * x,
+                              f"γ + βT² over {low['range_K'][0]:g}–{low['range_K'][1]:g} K", 0))
+    return fig
+
+
+def _pm(pair, digits=5):
+    if pair["value"] is None:
+        return "—"
+    u = pair.get("uncertainty")
+    return f"{pair['value']:.{digits}g} ± {u:.2g}" if u else f"{pair['value']:.{digits}g}"
+
+
+def _keys(report):
+    pairs = [("S°(298.15 K), model from 0 K", _pm(report["entropy_298_15_J_per_mol_K"]) + " J/(mol K)"),
+             ("S°(298.15 K), data + T³ below first point",
+              _pm(report["entropy_298_15_from_data_J_per_mol_K"]) + " J/(mol K)")]
+    if "entropy_298_15_from_dos_J_per_mol_K" in report:
+        pairs.append(("S(298.15 K) of the DOS (harmonic)", f"{report['entropy_298_15_from_dos_J_per_mol_K']:.5g} J/(mol K)"))
+    pairs.append(("max |relative residual|", f"{100 * report['max_relative_residual']:.3g} %"))
+    return c.key_numbers(pairs)
+
+
+def _parameter_table(report):
+    rows = []
+    for key, pair in report["fit"].items():
+        name, unit = _PARAM_TEXT[key]
+        rows.append(html.Tr([html.Td(name), html.Td(f"{pair['value']:.6g}"),
+                             html.Td("held" if pair["fixed"] else f"{pair['uncertainty']:.3g}"), html.Td(unit)]))
+    low = report["low_temperature_analysis"]
+    if low:
+        for key, label, unit in (("gamma_J_per_mol_K2", "γ from C/T = γ + βT²", "J/(mol K²)"),
+                                 ("theta_D_K", "θ_D from β", "K")):
+            rows.append(html.Tr([html.Td(label), html.Td(f"{low[key]['value']:.6g}"),
+                                 html.Td(f"{low[key]['uncertainty']:.3g}"), html.Td(unit)]))
+    head = html.Thead(html.Tr([html.Th(h) for h in ("parameter", "value", "standard uncertainty", "unit")]))
+    names = report["correlation"]["parameters"]
+    shown = [_PARAM_TEXT[n][0] for n in names]
+    corr = html.Table([html.Thead(html.Tr([html.Th("r")] + [html.Th(n) for n in shown])),
+                       html.Tbody([html.Tr([html.Th(n)] + [html.Td(f"{v:+.3f}") for v in row])
+                                   for n, row in zip(shown, report["correlation"]["matrix"])])],
+                      className="mh-table mh-numbers", id="cal-correlation")
+    return [html.Table([head, html.Tbody(rows)], className="mh-table mh-numbers", id="cal-param-table"),
+            html.H3("Correlation of the fitted parameters"), corr]
+
+
+c.follow_image_format(*_GRAPHS)
+dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)
