@@ -243,4 +243,4 @@ register_quantity("heat_capacity_p_residual", "ΔC_p", "entropy", description="m
 register_quantity("relative_residual", "ΔC_p/C_p", "fixed", description="(model − measured)/measured C_p")
 register_quantity("entropy_third_law", "S°", "entropy", description="third-law entropy ∫₀ᵀ C_p/T dT")
 register_quantity("entropy_third_law_uncertainty", "u(S°)", "entropy", description="standard uncertainty of the third-law entropy")
-register_quantity("enthalpy_increment", "H°−H°(0)", "energy", description="enthalpy increment ∫₀ᵀ C_p dT")
+register_quantity("enthalpy_from_zero", "H°−H°(0)", "energy", description="enthalpy increment from 0 K, ∫₀ᵀ C_p dT")

@@ -161,7 +161,7 @@ def analyse(measured, model: HeatCapacityModel, fixed=None, fit_range=None, low_
                           column_name("heat_capacity_p_measured"): measured.heat_capacity_J_per_mol_K,
                           column_name("entropy_third_law"): table["entropy"],
                           column_name("entropy_third_law_uncertainty"): table["entropy_uncertainty"],
-                          column_name("enthalpy_increment"): table["enthalpy"] / 1e3})
+                          column_name("enthalpy_from_zero"): table["enthalpy"] / 1e3})
     if model.dos is not None:
         from ..kernels.sums import thermal_sums
         s_dos = sc.R * thermal_sums(model.dos, np.append(t, STANDARD_K))["entropy"]
