@@ -54,3 +54,7 @@ class ModeheatWarning(UserWarning):
 
 class StabilityWarning(ModeheatWarning):
     """Imaginary modes above 1 % of all modes: the lattice is dynamically unstable."""
+
+
+class WorkspaceError(ModeheatError):
+    """A workspace file that cannot be opened or changed, or a dataset that is not in it."""

@@ -14,7 +14,7 @@ from .. import __version__
 from ..errors import ModeheatError
 
 #: Subcommand modules, in the order shown by --help.
-SUBCOMMANDS = ("table", "summary", "models", "batch", "serve")
+SUBCOMMANDS = ("table", "summary", "models", "batch", "serve", "workspace")
 
 
 def build_parser():
