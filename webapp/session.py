@@ -135,7 +135,12 @@ def persistable(workspace, limit=SAVED_LIMIT_CHARS):
         Workspace to store (same ``rev``).
     left_out : list of str
         Names of the datasets that will not survive a reload.
+
+    With ``limit=None`` the server keeps the workspace (:mod:`webapp.persistence`):
+    only the revision stamp is stored in the tab and nothing is left out.
     """
+    if limit is None:
+        return {"rev": workspace.get("rev"), "stored": True}, []
     datasets = list(workspace.get("datasets", []))
     left_out = []
     size = len(json.dumps(workspace))

@@ -227,6 +227,12 @@ class Space:
             raise WorkspaceError(f"no dataset {ref!r} in workspace {self.name!r} of {self.workspace.path}")
         return found
 
+    def has_id(self, dataset_id) -> bool:
+        """True when ``dataset_id`` is or was (deleted) a dataset of this space."""
+        with closing(self.workspace.connect()) as con:
+            return con.execute("SELECT 1 FROM datasets WHERE id = ? AND space_id = ?",
+                               (str(dataset_id), self.id)).fetchone() is not None
+
     def content(self, dataset) -> bytes:
         """The original bytes of a dataset (checked against its SHA-256)."""
         sha = dataset.sha256 if isinstance(dataset, Dataset) else str(dataset)
