@@ -6,6 +6,6 @@ order.
 """
 
 from .. import shell  # noqa: F401  (the app must exist before register_page)
-from . import compare, export, home, modemap, models, spectrum, thermodynamics
+from . import compare, export, home, modemap, models, spectrum, thermodynamics, workspace
 
-PAGES = tuple(sorted((home, spectrum, thermodynamics, models, modemap, compare, export), key=lambda m: m.ORDER))
+PAGES = tuple(sorted((home, spectrum, thermodynamics, models, modemap, compare, export, workspace), key=lambda m: m.ORDER))

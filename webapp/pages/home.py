@@ -18,7 +18,8 @@ GUIDE = [("/spectrum", "Spectrum", "load DOS files, set units and atoms, check i
          ("/models", "Models", "Einstein, Debye and composite models against the DOS, every θ with its definition"),
          ("/modes", "Mode map", "which frequencies carry the heat capacity and entropy at each temperature"),
          ("/compare", "Compare", "several datasets overlaid, differences against a reference"),
-         ("/export", "Export", "tables as CSV, XLSX or JSON with provenance; figure image format")]
+         ("/export", "Export", "tables as CSV, XLSX or JSON with provenance; figure image format"),
+         ("/workspace", "Workspace", "rename, group, annotate and delete datasets; named workspaces")]
 
 
 def layout(**_query):
