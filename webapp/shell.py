@@ -35,6 +35,7 @@ def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspa
     server.config["MODEHEAT_MAX_UPLOAD_BYTES"] = int(float(max_upload_mb) * 1e6)
     server.config["MODEHEAT_DEMO_DIR"] = str(demo_dir) if demo_dir is not None else None
     server.config["MODEHEAT_SAVED_LIMIT_CHARS"] = int(saved_limit_chars or session.SAVED_LIMIT_CHARS)
+    workspace = workspace if workspace is not None else os.environ.get("MODEHEAT_WORKSPACE") or None
     server.config["MODEHEAT_WORKSPACE"] = str(workspace) if workspace is not None else None
 
 
