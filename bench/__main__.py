@@ -16,6 +16,7 @@ GOALS = {
     "p2_speedup_vs_quad": ("report", None), "p3_max_rel_error": ("<=", 1e-4),
     "p4_low_t_rel_error": ("<=", 0.05), "p5_upload_to_plot_s": ("<=", 1.0),
     "p6_callback_median_s": ("<=", 0.15), "p7_batch_1000_s": ("<=", 20.0),
+    "p10_open_compare_s": ("<=", 1.0), "p10_add_1000_s": ("<=", 10.0),
 }
 
 
@@ -29,7 +30,7 @@ def _guarded(name, fn, keys):
 
 def measure(only=None, quick=False):
     """All requested figures in one dict."""
-    from . import dashboard, figures
+    from . import dashboard, figures, workspace
     from .timing import machine
     plan = [
         ("p1", lambda: figures.p1_p2(repeat=7 if quick else 15, quad_temperatures=5 if quick else 25),
@@ -40,6 +41,7 @@ def measure(only=None, quick=False):
         ("p6", dashboard.p6, ("p6_callback_median_s",)),
         ("p7", lambda: figures.p7(files=200 if quick else 1000, repeat=1 if quick else 3),
          ("p7_batch_1000_s",)),
+        ("p10", lambda: workspace.p10(quick), ("p10_open_compare_s", "p10_add_1000_s")),
     ]
     result = {}
     contrast = {}

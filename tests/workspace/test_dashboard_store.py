@@ -97,3 +97,22 @@ def test_browser_only_mode_keeps_session_storage_path():
     assert kept["datasets"] and left == []
     stamp, left = session.persistable(session.revised(ws), None)
     assert set(stamp) == {"rev", "stored"} and left == []
+
+
+def test_named_workspace_switch_sets_the_cookie(server, tmp_path):
+    lab = Workspace(tmp_path / "w.sqlite").create_named("lab")
+    with server.test_request_context("/", headers={"Cookie": f"{persistence.COOKIE}=own-key"}):
+        assert persistence.open_named(server, "wrong") is None
+        assert persistence.open_named(server, lab.key) == lab
+        response = server.process_response(server.response_class("x"))
+        assert f"{persistence.COOKIE}={lab.key}" in response.headers["Set-Cookie"]
+    with server.test_request_context("/", headers={"Cookie": f"{persistence.COOKIE}={lab.key}"}):
+        assert persistence.current_space(server).name == "lab"
+        persistence.own_space(server)
+        response = server.process_response(server.response_class("x"))
+        fresh = response.headers["Set-Cookie"].split(";")[0].split("=", 1)[1]
+    assert fresh not in (lab.key, "own-key") and len(fresh) >= 43
+    # a browser space's key does not open it as a named workspace
+    Workspace(tmp_path / "w.sqlite").browser("someone-else")
+    with server.test_request_context("/"):
+        assert persistence.open_named(server, "someone-else") is None

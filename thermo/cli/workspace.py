@@ -92,13 +92,15 @@ def _add(args, space):
         raise OptionError("--name needs exactly one file")
     settings = {"freq_unit": args.freq_unit, "atoms": args.atoms, "negative": args.negative,
                 "low_frequency": args.low_frequency, "formula": args.formula}
+    # the automatic ν² window never refuses a file (only an explicit window can), so the check skips its fit
+    check_window = "off" if str(args.low_frequency).lower() == "auto" else args.low_frequency
     added = present = failed = 0
     for path in files:
         raw = path.read_bytes()
         if not args.unchecked:
             try:
                 load_dos(raw, freq_unit=args.freq_unit, atoms=args.atoms, negative=args.negative,
-                         low_frequency=args.low_frequency, name=path.name)
+                         low_frequency=check_window, name=path.name)
             except ModeheatError as exc:
                 print(f"error: {exc}", file=sys.stderr)
                 failed += 1

@@ -21,7 +21,7 @@ import secrets
 import sqlite3
 import threading
 import uuid
-from contextlib import closing
+from contextlib import closing, contextmanager
 from dataclasses import dataclass
 from pathlib import Path
 
@@ -115,19 +115,37 @@ class Workspace:
                 with closing(connect(self.path)) as con:
                     migrate(con, where)
                 _MIGRATED.add(where)
+        self._local = threading.local()
+
+    def __eq__(self, other):
+        return isinstance(other, Workspace) and self.path.resolve() == other.path.resolve()
+
+    def __hash__(self):
+        return hash(str(self.path.resolve()))
+
+    def __repr__(self):
+        return f"Workspace({str(self.path)!r})"
 
     def connect(self) -> sqlite3.Connection:
         """A new connection to the file (the caller closes it)."""
         return connect(self.path)
 
+    @contextmanager
+    def db(self):
+        """This thread's connection of this object (opened once, reused by every call)."""
+        con = getattr(self._local, "con", None)
+        if con is None:
+            con = self._local.con = connect(self.path)
+        yield con
+
     def _space(self, where, args):
-        with closing(self.connect()) as con:
+        with self.db() as con:
             row = con.execute(f"SELECT id, name, key, kind FROM spaces WHERE {where}", args).fetchone()
         return Space(self, *row) if row else None
 
     def _create(self, name, kind, key=None):
         key = key or secrets.token_urlsafe(32)
-        with closing(self.connect()) as con, transaction(con, str(self.path)):
+        with self.db() as con, transaction(con, str(self.path)):
             con.execute("INSERT OR IGNORE INTO spaces (name, key, kind, created_utc) VALUES (?, ?, ?, ?)",
                         (name, key, kind, utc_now()))
         return self._space("name = ?", (name,))
@@ -159,7 +177,7 @@ class Workspace:
     def spaces(self, kinds=("local", "named")):
         """Spaces of the given kinds, by name (browser spaces are private and left out by default)."""
         marks = ",".join("?" * len(kinds))
-        with closing(self.connect()) as con:
+        with self.db() as con:
             rows = con.execute(f"SELECT id, name, key, kind FROM spaces WHERE kind IN ({marks}) ORDER BY name",
                                tuple(kinds)).fetchall()
         return [Space(self, *r) for r in rows]
@@ -167,7 +185,7 @@ class Workspace:
     def check(self) -> list:
         """Problems found: SQLite's integrity check and every blob re-hashed (empty when consistent)."""
         problems = []
-        with closing(self.connect()) as con:
+        with self.db() as con:
             status = con.execute("PRAGMA integrity_check").fetchone()[0]
             if status != "ok":
                 problems.append(f"integrity_check: {status}")
@@ -200,7 +218,7 @@ class Space:
     def datasets(self, include_deleted=False):
         """Datasets in the order they were added."""
         live = "" if include_deleted else " AND d.deleted_utc IS NULL"
-        with closing(self.workspace.connect()) as con:
+        with self.workspace.db() as con:
             rows = con.execute(f"SELECT {_COLUMNS} FROM datasets d JOIN blobs b ON b.sha256 = d.sha256 "
                                f"WHERE d.space_id = ?{live} ORDER BY d.added_utc, d.rowid", (self.id,)).fetchall()
         return [_dataset(r) for r in rows]
@@ -208,7 +226,7 @@ class Space:
     def find(self, ref):
         """The live dataset whose id, name or SHA-256 prefix (8+ digits) is ``ref``; None when absent."""
         ref = str(ref)
-        with closing(self.workspace.connect()) as con:
+        with self.workspace.db() as con:
             rows = con.execute(f"SELECT {_COLUMNS} FROM datasets d JOIN blobs b ON b.sha256 = d.sha256 "
                                "WHERE d.space_id = ? AND d.deleted_utc IS NULL AND (d.id = ? OR d.name = ? OR "
                                "(length(?) >= 8 AND d.sha256 LIKE ? || '%')) ORDER BY d.id = ? DESC, d.name = ? DESC",
@@ -229,14 +247,14 @@ class Space:
 
     def has_id(self, dataset_id) -> bool:
         """True when ``dataset_id`` is or was (deleted) a dataset of this space."""
-        with closing(self.workspace.connect()) as con:
+        with self.workspace.db() as con:
             return con.execute("SELECT 1 FROM datasets WHERE id = ? AND space_id = ?",
                                (str(dataset_id), self.id)).fetchone() is not None
 
     def content(self, dataset) -> bytes:
         """The original bytes of a dataset (checked against its SHA-256)."""
         sha = dataset.sha256 if isinstance(dataset, Dataset) else str(dataset)
-        with closing(self.workspace.connect()) as con:
+        with self.workspace.db() as con:
             row = con.execute("SELECT content FROM blobs WHERE sha256 = ?", (sha,)).fetchone()
         if row is None or sha256_hex(row[0]) != sha:
             raise WorkspaceError(f"workspace {self.workspace.path}: the bytes of {sha[:12]} are missing or damaged")
@@ -260,7 +278,7 @@ class Space:
         sha = sha256_hex(raw)
         key = _key(settings)
         name = " ".join(str(name or "").split()) or sha[:12]
-        with closing(self.workspace.connect()) as con:
+        with self.workspace.db() as con:
             with transaction(con, str(self.workspace.path)):
                 same = con.execute("SELECT id FROM datasets WHERE space_id = ? AND sha256 = ? AND settings = ? "
                                    "AND deleted_utc IS NULL", (self.id, sha, key)).fetchone()
@@ -269,7 +287,8 @@ class Space:
                 else:
                     con.execute("INSERT OR IGNORE INTO blobs VALUES (?, ?, ?)", (sha, len(raw), raw))
                     taken = {r[0] for r in con.execute("SELECT name FROM datasets WHERE space_id = ? AND "
-                                                       "deleted_utc IS NULL", (self.id,))}
+                                                       "deleted_utc IS NULL AND (name = ? OR substr(name, 1, ?) = ?)",
+                                                       (self.id, name, len(name) + 2, name + " ("))}
                     final, k = name, 2
                     while final in taken:
                         final, k = f"{name} ({k})", k + 1
@@ -298,7 +317,7 @@ class Space:
         if changes:
             sets = ", ".join(f"{k} = ?" for k in changes)
             try:
-                with closing(self.workspace.connect()) as con, transaction(con, str(self.workspace.path)):
+                with self.workspace.db() as con, transaction(con, str(self.workspace.path)):
                     con.execute(f"UPDATE datasets SET {sets} WHERE id = ? AND space_id = ?",
                                 (*changes.values(), d.id, self.id))
             except sqlite3.IntegrityError:
@@ -308,7 +327,7 @@ class Space:
     def remove(self, ref, soft=False):
         """Delete a dataset; ``soft`` only marks it (undone by :meth:`restore`). Bytes no one uses are dropped."""
         d = self.get(ref)
-        with closing(self.workspace.connect()) as con, transaction(con, str(self.workspace.path)):
+        with self.workspace.db() as con, transaction(con, str(self.workspace.path)):
             if soft:
                 con.execute("UPDATE datasets SET deleted_utc = ? WHERE id = ?", (utc_now(), d.id))
             else:
@@ -319,7 +338,7 @@ class Space:
 
     def restore(self, dataset_id):
         """Undo a soft delete (a name taken meanwhile gets a suffix); returns the dataset."""
-        with closing(self.workspace.connect()) as con, transaction(con, str(self.workspace.path)):
+        with self.workspace.db() as con, transaction(con, str(self.workspace.path)):
             row = con.execute("SELECT name FROM datasets WHERE id = ? AND space_id = ? AND deleted_utc IS NOT NULL",
                               (dataset_id, self.id)).fetchone()
             if row is None:
@@ -335,19 +354,19 @@ class Space:
     # ------------------------------------------------------------------ settings and sets
     def setting(self, key, default=None):
         """A space setting (JSON value) or ``default``."""
-        with closing(self.workspace.connect()) as con:
+        with self.workspace.db() as con:
             row = con.execute("SELECT value FROM settings WHERE space_id = ? AND key = ?", (self.id, key)).fetchone()
         return json.loads(row[0]) if row else default
 
     def set_setting(self, key, value):
         """Store a space setting (any JSON value)."""
-        with closing(self.workspace.connect()) as con, transaction(con, str(self.workspace.path)):
+        with self.workspace.db() as con, transaction(con, str(self.workspace.path)):
             con.execute("INSERT OR REPLACE INTO settings VALUES (?, ?, ?)", (self.id, key, json.dumps(value)))
 
     def save_set(self, name, kind, members, note=""):
         """Store a volume set or a measured set: ``members`` are ``(dataset ref, value)`` pairs, in order."""
         rows = [(self.get(ref).id, None if value is None else float(value)) for ref, value in members]
-        with closing(self.workspace.connect()) as con, transaction(con, str(self.workspace.path)):
+        with self.workspace.db() as con, transaction(con, str(self.workspace.path)):
             con.execute("DELETE FROM sets WHERE space_id = ? AND name = ?", (self.id, name))
             cur = con.execute("INSERT INTO sets (space_id, kind, name, note, created_utc) VALUES (?, ?, ?, ?, ?)",
                               (self.id, kind, name, note, utc_now()))
@@ -357,7 +376,7 @@ class Space:
     def sets(self):
         """``{name: {"kind", "note", "members": [(dataset id, value), ...]}}``."""
         out = {}
-        with closing(self.workspace.connect()) as con:
+        with self.workspace.db() as con:
             for sid, kind, name, note in con.execute("SELECT id, kind, name, note FROM sets WHERE space_id = ? "
                                                      "ORDER BY name", (self.id,)).fetchall():
                 members = con.execute("SELECT m.dataset_id, m.value FROM set_members m JOIN datasets d ON "
