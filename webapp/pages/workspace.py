@@ -7,8 +7,9 @@ from dash import Input, Output, State, callback, ctx, dcc, html, no_update
 
 from thermo.errors import WorkspaceError
 
+from .. import cache, persistence, session
 from .. import components as c
-from .. import persistence, session
+from .. import figures as fg
 from ..reporting import reported
 
 PATH, NAME, ORDER = "/workspace", "Workspace", 7
@@ -76,7 +77,9 @@ def layout(**_query):
         dcc.ConfirmDialog(id="ws-confirm"),
         dcc.Store(id="ws-trash", storage_type="session", data=[]),
         dcc.Location(id="ws-reload", refresh=True),
-        html.Div(id="ws-list"),
+        html.Div([html.Div(id="ws-list", className="mh-content"),
+                  html.Div(c.graph("ws-preview-graph", "Phonon DOS of the chosen dataset"), className="mh-side")],
+                 className="mh-split mh-split-right"),
         named)
 
 
@@ -117,6 +120,14 @@ def pick(dataset_id, workspace):
     """The chosen dataset's name, group and note in the fields."""
     d = session.find(workspace, dataset_id) or {}
     return d.get("name", ""), d.get("group", ""), d.get("note", "")
+
+
+@callback(Output("ws-preview-graph", "figure"), Input("ws-dataset", "value"), State("mh-workspace", "data"))
+@reported(lambda message: fg.message_figure(message))
+def preview(dataset_id, workspace):
+    """The chosen dataset's DOS, to tell datasets apart while naming and grouping them."""
+    d = session.find(workspace, dataset_id)
+    return fg.dos_figure(cache.load(d)) if d is not None else fg.message_figure("no dataset chosen")
 
 
 @callback(Output("ws-confirm", "displayed"), Output("ws-confirm", "message"), Input("ws-delete", "n_clicks"),
@@ -189,4 +200,5 @@ def switch(_open, _create, _own, key, new_name, space):
     return PATH, no_update
 
 
+c.follow_image_format("ws-preview-graph")
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)
