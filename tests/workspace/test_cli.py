@@ -99,3 +99,20 @@ def test_models_reads_stored_settings(tmp_path):
     assert ok.returncode == 0, ok.stderr
     # the unit is not in the header: without the stored setting the file itself is refused
     assert cli("models", src).returncode == 2
+
+
+def test_same_file_names_in_folders_get_the_folder_name(tmp_path):
+    a, b = tmp_path / "mesh8", tmp_path / "mesh12"
+    for k, folder in enumerate((a, b)):
+        folder.mkdir()
+        (folder / "dos.dat").write_text(debye_text(tag=k))
+    w = tmp_path / "w.sqlite"
+    assert cli("workspace", "add", a / "dos.dat", b / "dos.dat", "--workspace", w).returncode == 0
+    assert [d.name for d in Workspace(w).local().datasets()] == ["mesh8/dos.dat", "mesh12/dos.dat"]
+
+
+def test_a_missing_workspace_is_not_created_by_list(tmp_path):
+    w = tmp_path / "typo.sqlite"
+    r = cli("workspace", "list", "--workspace", w)
+    assert r.returncode == 2 and "no workspace at" in r.stderr and not w.exists()
+    assert cli("table", "ws:x", "--workspace", w).returncode == 2 and not w.exists()

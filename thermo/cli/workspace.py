@@ -62,10 +62,29 @@ def register(sub):
     p.set_defaults(func=run)
 
 
-def open_space(args):
-    """The space named by ``--workspace`` / ``--space``."""
-    from ..workspace import Workspace
-    return Workspace(getattr(args, "workspace", None)).local(getattr(args, "space", None) or "main")
+def open_space(args, create=False):
+    """The space named by ``--workspace`` / ``--space`` (the file is only created when ``create``)."""
+    from ..errors import WorkspaceError
+    from ..workspace import Workspace, default_path
+    path = Path(getattr(args, "workspace", None) or default_path())
+    if not create and not path.exists():
+        raise WorkspaceError(f"no workspace at {path}; add files first (modeheat workspace add FILE...)")
+    return Workspace(path).local(getattr(args, "space", None) or "main")
+
+
+def dataset_names(paths):
+    """A name per file: the file name, or ``folder/file`` where several files share a name.
+
+    Examples
+    --------
+    >>> from pathlib import Path
+    >>> dataset_names([Path("runs/mesh8/dos.dat"), Path("runs/mesh12/dos.dat"), Path("x.dat")])
+    ['mesh8/dos.dat', 'mesh12/dos.dat', 'x.dat']
+    """
+    counts = {}
+    for p in paths:
+        counts[p.name] = counts.get(p.name, 0) + 1
+    return [f"{p.parent.name}/{p.name}" if counts[p.name] > 1 and p.parent.name else p.name for p in paths]
 
 
 def _files(items):
@@ -95,7 +114,7 @@ def _add(args, space):
     # the automatic ν² window never refuses a file (only an explicit window can), so the check skips its fit
     check_window = "off" if str(args.low_frequency).lower() == "auto" else args.low_frequency
     added = present = failed = 0
-    for path in files:
+    for path, name in zip(files, dataset_names(files)):
         raw = path.read_bytes()
         if not args.unchecked:
             try:
@@ -105,7 +124,7 @@ def _add(args, space):
                 print(f"error: {exc}", file=sys.stderr)
                 failed += 1
                 continue
-        d, new = space.add(raw, args.name or path.name, settings, group=args.group, note=args.note)
+        d, new = space.add(raw, args.name or name, settings, group=args.group, note=args.note)
         added, present = added + new, present + (not new)
         if not new:
             print(f"{path}: already stored as {d.name!r} ({d.id})", file=sys.stderr)
@@ -166,7 +185,7 @@ def run(args) -> int:
     if verb is None:
         raise OptionError("workspace needs a verb: add, list, export, remove or spaces")
     return {"add": _add, "list": _list, "export": _export, "remove": _remove, "spaces": _spaces}[verb](
-        args, open_space(args))
+        args, open_space(args, create=verb == "add"))
 
 
 def is_reference(text) -> bool:
