@@ -63,7 +63,7 @@ def current_space(server, demo=None):
     if new and demo is not None:
         for d in demo().get("datasets", []):
             space.add(session.content_bytes(d), d["name"], _settings(d), group="demo", note=DEMO_NOTE,
-                      invented=True, dataset_id=d["id"] + "-demo")
+                      invented=True)
     return space
 
 

@@ -149,3 +149,38 @@ def test_upload_survives_reload_and_restart_and_stays_private(tmp_path, browsers
         assert src.name in text_of(first, "#ws-list")
     finally:
         _stop(server)
+
+
+def test_named_workspace_created_in_one_browser_opened_by_key_in_another(tmp_path, browsers):
+    src = tmp_path / "shared_debye.dat"
+    src.write_text(PLAIN)
+    server = _serve(tmp_path / "w.sqlite")
+    try:
+        first = browsers()
+        first.get(URL + "/workspace")
+        until(lambda: "springium" in text_of(first, "#ws-list"), 30)
+        first.find_element(By.ID, "ws-new-name").send_keys("lab study\n")
+        first.find_element(By.ID, "ws-create").click()
+        until(lambda: text_of(first, "#ws-new-key"), 20)
+        key = text_of(first, "#ws-new-key")
+        assert len(key) >= 43
+        first.get(URL + "/spectrum")                 # the new, empty named workspace
+        until(lambda: first.find_elements(By.CSS_SELECTOR, "#mh-upload input[type=file]"), 30)
+        first.find_element(By.CSS_SELECTOR, "#mh-upload input[type=file]").send_keys(str(src))
+        until(lambda: src.name in text_of(first, "#sp-list"), 30)
+        assert "springium" not in text_of(first, "#sp-list")
+        time.sleep(1.0)
+
+        second = browsers()
+        second.get(URL + "/workspace")
+        until(lambda: "springium" in text_of(second, "#ws-list"), 30)
+        assert src.name not in text_of(second, "#ws-list")
+        second.find_element(By.ID, "ws-open-key").send_keys(key + "\n")
+        second.find_element(By.ID, "ws-open").click()
+        until(lambda: src.name in text_of(second, "#ws-list"), 30)
+        assert "lab study" in text_of(second, "#ws-where")
+        second.find_element(By.ID, "ws-own").click()
+        until(lambda: "springium" in text_of(second, "#ws-list"), 30)
+        assert src.name not in text_of(second, "#ws-list")
+    finally:
+        _stop(server)

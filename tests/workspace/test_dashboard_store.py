@@ -116,3 +116,17 @@ def test_named_workspace_switch_sets_the_cookie(server, tmp_path):
     Workspace(tmp_path / "w.sqlite").browser("someone-else")
     with server.test_request_context("/"):
         assert persistence.open_named(server, "someone-else") is None
+
+
+def test_every_new_browser_gets_the_demo_once(tmp_path):
+    app = create_app(workspace=tmp_path / "d.sqlite")          # default demo folder sample_dos/
+    try:
+        one, two = app.server.test_client(), app.server.test_client()
+        one.get("/"), two.get("/")
+        names_one = [d["name"] for d in _layout_workspace(one)["datasets"]]
+        names_two = [d["name"] for d in _layout_workspace(two)["datasets"]]
+        assert "springium_fcc.dat" in names_one and names_one == names_two
+        assert [d["name"] for d in _layout_workspace(one)["datasets"]] == names_one     # not seeded twice
+        assert all(d["invented"] for d in _layout_workspace(two)["datasets"])
+    finally:
+        create_app()

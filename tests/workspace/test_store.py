@@ -78,6 +78,9 @@ def test_spaces_are_isolated(ws):
     assert two.datasets() == [] and ws.local().datasets() == []
     assert two.find("mine.dat") is None
     assert [s.name for s in ws.spaces()] == ["main"]       # browser spaces are not listed
+    taken = one.datasets()[0].id
+    with pytest.raises(WorkspaceError, match="taken"):
+        two.add(debye_text(tag=9).encode(), "other.dat", dataset_id=taken)
 
 
 def test_named_space_opened_by_key(ws):

@@ -293,6 +293,8 @@ class Space:
                     while final in taken:
                         final, k = f"{name} ({k})", k + 1
                     new_id = dataset_id or uuid.uuid4().hex[:10]
+                    if con.execute("SELECT 1 FROM datasets WHERE id = ?", (new_id,)).fetchone():
+                        raise WorkspaceError(f"dataset id {new_id!r} is taken in this workspace file")
                     con.execute("INSERT INTO datasets (id, space_id, name, sha256, settings, group_label, note, "
                                 "invented, added_utc) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)",
                                 (new_id, self.id, final, sha, key, str(group or ""), str(note or ""),
