@@ -18,6 +18,7 @@ import dash
 from dash import ALL, ClientsideFunction, Dash, Input, Output, State, dcc, html, no_update
 
 from . import components, demo, intake, persistence, session
+from .reporting import attempt
 
 app = Dash(__name__, title="modeheat", use_pages=True, pages_folder="", suppress_callback_exceptions=True,
            assets_folder=os.path.join(os.path.dirname(__file__), "assets"), update_title=None)
@@ -70,6 +71,7 @@ def shell():
                               className="mh-brand"),
                      html.Nav(nav, className="mh-nav", **{"aria-label": "pages"})], className="mh-header"),
         html.Main(dash.page_container, id="mh-page", className="mh-main"),
+        html.P(id="mh-sync-note", className="mh-msg mh-msg-error", role="alert"),
         html.Footer([html.Strong("Caution. "), components.CAUTION], className="mh-footer", id="mh-caution"),
     ], className="mh-shell")
 
@@ -85,8 +87,10 @@ def restore(saved, workspace):
 def keep(workspace, space):
     """Write each edit of the page's workspace to the server's store (when it keeps one)."""
     if not (space or {}).get("stored") or workspace is None:
-        return no_update
-    return {"changed": persistence.sync(persistence.current_space(server), workspace, space.get("loaded"))}
+        return no_update, no_update
+    changed, error = attempt(lambda: persistence.sync(persistence.current_space(server), workspace, space.get("loaded")))
+    note = f"The last change was not saved to the workspace: {error}" if error else ""
+    return {"changed": changed, "error": error}, note    # the page keeps its datasets either way
 
 
 configure()
@@ -94,6 +98,7 @@ persistence.install(server)
 app.layout = shell
 app.callback(Output("mh-workspace", "data", allow_duplicate=True), Input("mh-saved", "data"),
              State("mh-workspace", "data"), prevent_initial_call="initial_duplicate")(restore)
-app.callback(Output("mh-synced", "data"), Input("mh-workspace", "data"), State("mh-space", "data"))(keep)
+app.callback(Output("mh-synced", "data"), Output("mh-sync-note", "children"), Input("mh-workspace", "data"),
+             State("mh-space", "data"))(keep)
 app.clientside_callback(ClientsideFunction("modeheat", "navClasses"),
                         Output({"type": "mh-nav", "path": ALL}, "className"), Input("mh-url", "pathname"))
