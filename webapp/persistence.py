@@ -41,7 +41,10 @@ def _key():
 
 
 def install(server):
-    """Give every response of ``server`` the browser's space cookie (set once, HttpOnly, SameSite=Lax)."""
+    """Give every response of ``server`` the browser's space cookie (set once, HttpOnly, SameSite=Lax),
+    and let :func:`webapp.session.content_bytes` read stored bytes from the requesting browser's space only."""
+    session.STORED_BYTES["fetch"] = lambda sha: current_space(server).content(sha)
+
     @server.after_request
     def _cookie(response):
         if enabled(server) and flask.has_request_context():
@@ -74,9 +77,11 @@ def _settings(dataset):
 def browser_workspace(space):
     """The workspace dict (:mod:`webapp.session` format) of a stored space."""
     datasets = []
-    for d in space.datasets():
-        entry = session.new_dataset(d.name, space.content(d), {**d.settings, "formula": d.settings.get("formula") or ""})
-        datasets.append({**entry, "id": d.id, "group": d.group, "note": d.note, "invented": d.invented})
+    for d in space.datasets():       # bytes stay on the server: the page gets names, hashes and settings
+        datasets.append({"id": d.id, "name": d.name, "content": None, "encoding": "stored", "sha256": d.sha256,
+                         "size": d.size, "options": {**session.DEFAULT_OPTIONS, **d.settings,
+                                                     "formula": d.settings.get("formula") or ""},
+                         "group": d.group, "note": d.note, "invented": d.invented})
     active = space.setting("active")
     ids = {d["id"] for d in datasets}
     return {"datasets": datasets, "active": active if active in ids else (datasets[0]["id"] if datasets else None),

@@ -32,8 +32,15 @@ def empty_workspace():
     return {"datasets": [], "active": None}
 
 
+#: Reads the bytes of a dataset kept by the server (``encoding: "stored"``, no ``content``);
+#: set by :func:`webapp.persistence.install` (configuration, not per-user data).
+STORED_BYTES = {"fetch": None}
+
+
 def content_bytes(dataset) -> bytes:
     """Original file bytes of a dataset."""
+    if dataset.get("encoding") == "stored":
+        return STORED_BYTES["fetch"](dataset["sha256"])
     if dataset.get("encoding") == "base64":
         return base64.b64decode(dataset["content"])
     return dataset["content"].encode("utf-8")

@@ -78,6 +78,8 @@ def test_spaces_are_isolated(ws):
     assert two.datasets() == [] and ws.local().datasets() == []
     assert two.find("mine.dat") is None
     assert [s.name for s in ws.spaces()] == ["main"]       # browser spaces are not listed
+    with pytest.raises(WorkspaceError, match="missing"):     # another space cannot read the bytes by hash
+        two.content(one.datasets()[0].sha256)
     taken = one.datasets()[0].id
     with pytest.raises(WorkspaceError, match="taken"):
         two.add(debye_text(tag=9).encode(), "other.dat", dataset_id=taken)

@@ -252,10 +252,11 @@ class Space:
                                (str(dataset_id), self.id)).fetchone() is not None
 
     def content(self, dataset) -> bytes:
-        """The original bytes of a dataset (checked against its SHA-256)."""
+        """The original bytes of a dataset of this space (checked against its SHA-256)."""
         sha = dataset.sha256 if isinstance(dataset, Dataset) else str(dataset)
         with self.workspace.db() as con:
-            row = con.execute("SELECT content FROM blobs WHERE sha256 = ?", (sha,)).fetchone()
+            row = con.execute("SELECT content FROM blobs WHERE sha256 = ? AND EXISTS (SELECT 1 FROM datasets "
+                              "WHERE sha256 = ? AND space_id = ?)", (sha, sha, self.id)).fetchone()
         if row is None or sha256_hex(row[0]) != sha:
             raise WorkspaceError(f"workspace {self.workspace.path}: the bytes of {sha[:12]} are missing or damaged")
         return bytes(row[0])

@@ -89,7 +89,7 @@ def _listing(workspace):
         return c.no_data_note()
     head = html.Tr([html.Th(h) for h in ("name", "group", "note", "sha256", "size [bytes]", "origin")])
     body = [html.Tr([html.Td(d["name"]), html.Td(d.get("group", "")), html.Td(d.get("note", "")),
-                     html.Td(d["sha256"][:12], title=d["sha256"]), html.Td(len(session.content_bytes(d))),
+                     html.Td(d["sha256"][:12], title=d["sha256"]), html.Td(d.get("size") or len(session.content_bytes(d))),
                      html.Td("invented demo data" if d.get("invented") else "added")])
             for d in sorted(datasets, key=lambda d: (d.get("group", ""), d["name"]))]
     return html.Table([html.Thead(head), html.Tbody(body)], className="mh-table", id="ws-table")
