@@ -19,6 +19,7 @@ GOALS = {
     "p8_quasiharmonic_s": ("<=", 0.5),
     "p11_first_page_s": ("<=", 1.0), "p11_navigation_s": ("<=", 0.3),
     "p9_calorimetry_fit_s": ("<=", 0.3),
+    "p10_open_compare_s": ("<=", 1.0), "p10_add_1000_s": ("<=", 10.0),
 }
 
 
@@ -32,7 +33,7 @@ def _guarded(name, fn, keys):
 
 def measure(only=None, quick=False):
     """All requested figures in one dict."""
-    from . import calorimetry, dashboard, figures, pageload, quasiharmonic
+    from . import calorimetry, dashboard, figures, pageload, quasiharmonic, workspace
     from .timing import machine
     plan = [
         ("p1", lambda: figures.p1_p2(repeat=7 if quick else 15, quad_temperatures=5 if quick else 25),
@@ -46,6 +47,7 @@ def measure(only=None, quick=False):
         ("p8", lambda: quasiharmonic.p8(repeat=3 if quick else 7), ("p8_quasiharmonic_s",)),
         ("p11", lambda: pageload.p11(repeat=3 if quick else 5), ("p11_first_page_s", "p11_navigation_s")),
         ("p9", lambda: calorimetry.p9(repeat=3 if quick else 7), ("p9_calorimetry_fit_s",)),
+        ("p10", lambda: workspace.p10(quick), ("p10_open_compare_s", "p10_add_1000_s")),
     ]
     result = {}
     contrast = {}

@@ -50,3 +50,7 @@ class OptionError(ModeheatError, ValueError):
 
 class ModeheatWarning(UserWarning):
     """A result is computed but deserves attention (imaginary modes, clipping...)."""
+
+
+class WorkspaceError(ModeheatError):
+    """A workspace file that cannot be opened or changed, or a dataset that is not in it."""

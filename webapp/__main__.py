@@ -1,4 +1,4 @@
-"""``python -m webapp [--host 127.0.0.1] [--port 8050] [--debug] [--max-upload-mb 20]``."""
+"""``python -m webapp [--host 127.0.0.1] [--port 8050] [--debug] [--max-upload-mb 20] [--workspace PATH | --no-workspace]``."""
 
 from __future__ import annotations
 
@@ -25,7 +25,18 @@ def serve(args) -> int:
     if args.host not in ("127.0.0.1", "localhost", "::1"):
         print(f"warning: serving on {args.host} makes the dashboard reachable from other machines; "
               "it has no login", file=sys.stderr)
-    from .app import app
+    from thermo.errors import ModeheatError
+    from thermo.workspace import Workspace, default_path
+    from .app import create_app
+    path = None if args.no_workspace else (args.workspace or default_path())
+    if path is not None:
+        try:
+            Workspace(path)
+        except ModeheatError as exc:
+            print(f"error: {exc}", file=sys.stderr)
+            return 2
+        print(f"workspace: {path}", file=sys.stderr)
+    app = create_app(workspace=path)
     app.run(host=args.host, port=args.port, debug=args.debug)
     return 0
 

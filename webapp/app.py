@@ -14,7 +14,7 @@ from .shell import app, configure, server
 __all__ = ["app", "server", "create_app"]
 
 
-def create_app(max_upload_mb=None, demo_dir=None, saved_limit_chars=None):
+def create_app(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspace=None):
     """Configure the dashboard and return it.
 
     Parameters
@@ -26,6 +26,10 @@ def create_app(max_upload_mb=None, demo_dir=None, saved_limit_chars=None):
     saved_limit_chars : int, optional
         Largest workspace kept in the tab's session storage (see
         :func:`webapp.session.persistable`).
+    workspace : path, optional
+        SQLite workspace file (:mod:`thermo.workspace`) keeping every
+        browser's datasets across reloads and restarts; None keeps them in
+        the browser tab only.
     """
-    configure(max_upload_mb, demo_dir, saved_limit_chars)
+    configure(max_upload_mb, demo_dir, saved_limit_chars, workspace)
     return app

@@ -32,8 +32,15 @@ def empty_workspace():
     return {"datasets": [], "active": None}
 
 
+#: Reads the bytes of a dataset kept by the server (``encoding: "stored"``, no ``content``);
+#: set by :func:`webapp.persistence.install` (configuration, not per-user data).
+STORED_BYTES = {"fetch": None}
+
+
 def content_bytes(dataset) -> bytes:
     """Original file bytes of a dataset."""
+    if dataset.get("encoding") == "stored":
+        return STORED_BYTES["fetch"](dataset["sha256"])
     if dataset.get("encoding") == "base64":
         return base64.b64decode(dataset["content"])
     return dataset["content"].encode("utf-8")
@@ -135,7 +142,12 @@ def persistable(workspace, limit=SAVED_LIMIT_CHARS):
         Workspace to store (same ``rev``).
     left_out : list of str
         Names of the datasets that will not survive a reload.
+
+    With ``limit=None`` the server keeps the workspace (:mod:`webapp.persistence`):
+    only the revision stamp is stored in the tab and nothing is left out.
     """
+    if limit is None:
+        return {"rev": workspace.get("rev"), "stored": True}, []
     datasets = list(workspace.get("datasets", []))
     left_out = []
     size = len(json.dumps(workspace))

@@ -17,7 +17,8 @@ import os
 import dash
 from dash import ALL, ClientsideFunction, Dash, Input, Output, State, dcc, html, no_update
 
-from . import components, demo, intake, session
+from . import components, demo, intake, persistence, session
+from .reporting import attempt
 
 app = Dash(__name__, title="modeheat", use_pages=True, pages_folder="", suppress_callback_exceptions=True,
            assets_folder=os.path.join(os.path.dirname(__file__), "assets"), update_title=None)
@@ -27,13 +28,16 @@ logging.getLogger("werkzeug").setLevel(logging.WARNING)
 _DEMO = {}
 
 
-def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None):
-    """Set the server's settings (upload limit [MB], demo folder, session-storage limit [characters])."""
+def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspace=None):
+    """Set the server's settings (upload limit [MB], demo folder, session-storage limit [characters],
+    workspace file: None keeps the workspace in the browser only)."""
     if max_upload_mb is None:
         max_upload_mb = float(os.environ.get("MODEHEAT_MAX_UPLOAD_MB", intake.DEFAULT_MAX_UPLOAD_MB))
     server.config["MODEHEAT_MAX_UPLOAD_BYTES"] = int(float(max_upload_mb) * 1e6)
     server.config["MODEHEAT_DEMO_DIR"] = str(demo_dir) if demo_dir is not None else None
     server.config["MODEHEAT_SAVED_LIMIT_CHARS"] = int(saved_limit_chars or session.SAVED_LIMIT_CHARS)
+    workspace = workspace if workspace is not None else os.environ.get("MODEHEAT_WORKSPACE") or None
+    server.config["MODEHEAT_WORKSPACE"] = str(workspace) if workspace is not None else None
 
 
 def demo_workspace():
@@ -50,33 +54,51 @@ def _pages():
 
 def shell():
     """The layout common to all pages (evaluated on every page load)."""
+    stored = persistence.enabled(server)
     nav = [dcc.Link(p["name"], href=p["path"], className="mh-nav-link",
                     id={"type": "mh-nav", "path": p["path"]}) for p in _pages()]
     return html.Div([
         dcc.Location(id="mh-url", refresh=False),
-        dcc.Store(id="mh-workspace", storage_type="memory", data=demo_workspace()),
+        dcc.Store(id="mh-workspace", storage_type="memory", data=(persistence.browser_workspace(
+            persistence.current_space(server, demo_workspace)) if stored else demo_workspace())),
+        dcc.Store(id="mh-space", data={"stored": stored, "loaded": persistence.loaded_stamp()}),
+        dcc.Store(id="mh-synced"),
         dcc.Store(id="mh-saved", storage_type="session"),
         dcc.Store(id="mh-prefs", storage_type="session", data={"image_format": "png"}),
         dcc.Store(id="mh-config", data={"max_upload_bytes": server.config["MODEHEAT_MAX_UPLOAD_BYTES"],
-                                        "saved_limit_chars": server.config["MODEHEAT_SAVED_LIMIT_CHARS"]}),
+                                        "saved_limit_chars": None if stored else server.config["MODEHEAT_SAVED_LIMIT_CHARS"]}),
         html.Header([html.Div([html.Span("mode", className="mh-brand-a"), html.Span("heat", className="mh-brand-b")],
                               className="mh-brand"),
                      html.Nav(nav, className="mh-nav", **{"aria-label": "pages"})], className="mh-header"),
         html.Main(dash.page_container, id="mh-page", className="mh-main"),
+        html.P(id="mh-sync-note", className="mh-msg mh-msg-error", role="alert"),
         html.Footer([html.Strong("Caution. "), components.CAUTION], className="mh-footer", id="mh-caution"),
     ], className="mh-shell")
 
 
 def restore(saved, workspace):
-    """Workspace restored from the tab's session storage (after a reload)."""
-    if not saved or (workspace or {}).get("rev") == saved.get("rev"):
+    """Workspace restored from the tab's session storage (after a reload; not when the server keeps it)."""
+    if not saved or saved.get("stored") or (workspace or {}).get("stored") \
+            or (workspace or {}).get("rev") == saved.get("rev"):
         return no_update
     return saved
 
 
+def keep(workspace, space):
+    """Write each edit of the page's workspace to the server's store (when it keeps one)."""
+    if not (space or {}).get("stored") or workspace is None:
+        return no_update, no_update
+    changed, error = attempt(lambda: persistence.sync(persistence.current_space(server), workspace, space.get("loaded")))
+    note = f"The last change was not saved to the workspace: {error}" if error else ""
+    return {"changed": changed, "error": error}, note    # the page keeps its datasets either way
+
+
 configure()
+persistence.install(server)
 app.layout = shell
 app.callback(Output("mh-workspace", "data", allow_duplicate=True), Input("mh-saved", "data"),
              State("mh-workspace", "data"), prevent_initial_call="initial_duplicate")(restore)
+app.callback(Output("mh-synced", "data"), Output("mh-sync-note", "children"), Input("mh-workspace", "data"),
+             State("mh-space", "data"))(keep)
 app.clientside_callback(ClientsideFunction("modeheat", "navClasses"),
                         Output({"type": "mh-nav", "path": ALL}, "className"), Input("mh-url", "pathname"))

@@ -14,8 +14,8 @@ from .. import __version__
 from ..errors import ModeheatError
 
 #: Subcommand modules, in the order shown by --help.
-SUBCOMMANDS = ("table", "summary", "models", "batch", "serve", "quasiharmonic", "calorimetry", "displacements",
-               "elastic", "polynomial")
+SUBCOMMANDS = ("table", "summary", "models", "batch", "serve", "workspace", "quasiharmonic", "calorimetry",
+               "displacements", "elastic", "polynomial")
 
 
 def build_parser():

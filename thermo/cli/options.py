@@ -14,7 +14,10 @@ def add_input_options(parser, many=False):
         parser.add_argument("file", nargs="+", metavar="DIR_OR_GLOB",
                             help="DOS files, directories (their files) or glob patterns (quote them; ** recurses)")
     else:
-        parser.add_argument("file", help="DOS file: text (space, tab, comma or semicolon separated) or .xlsx")
+        parser.add_argument("file", help="DOS file: text (space, tab, comma or semicolon separated) or .xlsx, "
+                                         "or ws:NAME for a dataset of the workspace")
+        from .workspace import add_location_options
+        add_location_options(parser)
     parser.add_argument("--freq-unit", metavar="U",
                         help=f"unit of the frequency column: {', '.join(FREQUENCY_UNITS)} "
                              "(default: as stated by the frequency column's header or an explicit "
@@ -61,6 +64,14 @@ def add_temperature_option(parser, default=DEFAULT_TEMPERATURES):
 def load_from_args(args):
     """Load the DOS named by parsed input options."""
     from ..preparation.loading import load_dos
+    from .workspace import is_reference, resolve_reference
+    if is_reference(args.file):   # stored settings, unless an option says otherwise
+        raw, name, kept = resolve_reference(args)
+        return load_dos(raw, freq_unit=args.freq_unit or kept["freq_unit"],
+                        atoms=args.atoms or kept["atoms"],
+                        negative=kept["negative"] if args.negative == "drop" else args.negative,
+                        low_frequency=kept["low_frequency"] if args.low_frequency == "auto" else args.low_frequency,
+                        name=name)
     return load_dos(args.file, freq_unit=args.freq_unit, atoms=args.atoms,
                     negative=args.negative, low_frequency=args.low_frequency, sheet=args.sheet)
 
@@ -84,7 +95,7 @@ DEFAULT_PORT = 8050
 
 
 def add_server_options(parser):
-    """Add ``--host``, ``--port``, ``--debug`` and ``--max-upload-mb`` (``serve`` and ``python -m webapp``)."""
+    """Add ``--host``, ``--port``, ``--debug``, ``--max-upload-mb``, ``--workspace``/``--no-workspace`` (``serve``, ``python -m webapp``)."""
     parser.add_argument("--host", default="127.0.0.1",
                         help="interface to bind (default 127.0.0.1, this machine only)")
     parser.add_argument("--port", type=int, default=DEFAULT_PORT, help=f"port (default {DEFAULT_PORT})")
@@ -92,6 +103,11 @@ def add_server_options(parser):
                         help="Dash debug mode with reloading (development only)")
     parser.add_argument("--max-upload-mb", type=float, default=None, metavar="MB",
                         help="largest accepted upload per file in MB (default 20)")
+    parser.add_argument("--workspace", metavar="PATH",
+                        help="workspace file keeping each browser's datasets (default "
+                             "$XDG_DATA_HOME/modeheat/workspace.sqlite, else ~/.local/share/modeheat/workspace.sqlite)")
+    parser.add_argument("--no-workspace", action="store_true",
+                        help="keep datasets in the browser tab only (lost when the tab closes)")
 
 
 def output_plan(args):

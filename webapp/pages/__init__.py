@@ -17,6 +17,7 @@ from . import polynomials
 from . import quasiharmonic
 from . import spectrum
 from . import thermodynamics
+from . import workspace
 
 PAGES = tuple(sorted((
     home, spectrum, thermodynamics, models, modemap, compare, export,
@@ -24,4 +25,5 @@ PAGES = tuple(sorted((
     calorimetry,
     displacements,
     polynomials,
+    workspace,
 ), key=lambda m: m.ORDER))

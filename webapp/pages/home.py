@@ -23,6 +23,7 @@ GUIDE = [("/spectrum", "Spectrum", "load DOS files, set units and atoms, check i
          ("/calorimetry", "Calorimetry", "measured C_p against the DOS: fitted γT and dilation terms, residuals, S°(298.15 K)"),
          ("/displacements", "Displacements", "⟨u²⟩, Debye–Waller B and θ_M per species, Lindemann caution, elastic θ_D"),
          ("/polynomials", "Polynomials", "Shomate, NASA 7-term or SGTE coefficients with fit errors, JSON/CSV/Cantera YAML"),
+         ("/workspace", "Workspace", "rename, group, annotate and delete datasets; named workspaces"),
 ]
 
 
