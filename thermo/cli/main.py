@@ -46,3 +46,8 @@ def main(argv=None) -> int:
     except KeyboardInterrupt:
         print("error: interrupted", file=sys.stderr)
         return 130
+    except Exception as exc:  # noqa: BLE001 - a bug must still end in one line, not a traceback
+        detail = " ".join(str(exc).split())[:300]
+        print(f"error: internal error in '{args.command}' ({type(exc).__name__}: {detail}); "
+              "please report it with the input file", file=sys.stderr)
+        return 1

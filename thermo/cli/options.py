@@ -18,6 +18,11 @@ def add_input_options(parser, many=False):
                                          "or ws:NAME for a dataset of the workspace")
         from .workspace import add_location_options
         add_location_options(parser)
+    add_reading_options(parser)
+
+
+def add_reading_options(parser):
+    """Add ``--freq-unit``, ``--atoms``, ``--negative``, ``--sheet`` and ``--low-frequency``."""
     parser.add_argument("--freq-unit", metavar="U",
                         help=f"unit of the frequency column: {', '.join(FREQUENCY_UNITS)} "
                              "(default: as stated by the frequency column's header or an explicit "

@@ -17,8 +17,7 @@ from pathlib import Path
 
 #: Prefix marking a workspace dataset where a file name is expected.
 REFERENCE_PREFIX = "ws:"
-_CSV_FIELDS = ("id", "name", "sha256", "size_bytes", "added_utc", "group", "note", "invented",
-               "freq_unit", "atoms", "negative", "low_frequency", "formula")
+_CSV_FIELDS = ("id", "name", "sha256", "size_bytes", "added_utc", "group", "note", "invented")
 
 
 def add_location_options(parser):
@@ -38,12 +37,8 @@ def register(sub):
     add.add_argument("--name", help="name of the dataset (one file only; default the file name)")
     add.add_argument("--group", default="", help="group label, e.g. 'convergence: mesh'")
     add.add_argument("--note", default="", help="free-text note")
-    add.add_argument("--freq-unit", metavar="U", help="unit of the frequency column (default: file header)")
-    add.add_argument("--atoms", type=int, metavar="N", help="atoms per formula unit (default: inferred)")
-    add.add_argument("--negative", default="drop", choices=["drop", "keep-count", "refuse"],
-                     help="imaginary-mode policy stored with the dataset (default drop)")
-    add.add_argument("--low-frequency", default="auto", metavar="auto|off|LOW:HIGH",
-                     help="ν² window stored with the dataset (default auto)")
+    from .options import add_reading_options
+    add_reading_options(add)
     add.add_argument("--formula", default="", help="formula of the formula unit (for values per gram)")
     add.add_argument("--unchecked", action="store_true",
                      help="store without loading each file first (default: a file that does not load is refused)")
@@ -110,7 +105,7 @@ def _add(args, space):
     if args.name and len(files) != 1:
         raise OptionError("--name needs exactly one file")
     settings = {"freq_unit": args.freq_unit, "atoms": args.atoms, "negative": args.negative,
-                "low_frequency": args.low_frequency, "formula": args.formula}
+                "low_frequency": args.low_frequency, "formula": args.formula, "sheet": args.sheet}
     # the automatic ν² window never refuses a file (only an explicit window can), so the check skips its fit
     check_window = "off" if str(args.low_frequency).lower() == "auto" else args.low_frequency
     added = present = failed = 0
@@ -119,7 +114,7 @@ def _add(args, space):
         if not args.unchecked:
             try:
                 load_dos(raw, freq_unit=args.freq_unit, atoms=args.atoms, negative=args.negative,
-                         low_frequency=check_window, name=path.name)
+                         low_frequency=check_window, name=path.name, sheet=args.sheet)
             except ModeheatError as exc:
                 print(f"error: {exc}", file=sys.stderr)
                 failed += 1
@@ -139,7 +134,8 @@ def _list(args, space):
         sys.stdout.write(json.dumps(rows, indent=1, ensure_ascii=False) + "\n")
     elif args.format == "csv":
         buf = io.StringIO()
-        writer = csv.DictWriter(buf, fieldnames=_CSV_FIELDS, lineterminator="\n")
+        from ..workspace.store import SETTING_NAMES
+        writer = csv.DictWriter(buf, fieldnames=_CSV_FIELDS + SETTING_NAMES, lineterminator="\n")
         writer.writeheader()
         for r in rows:
             writer.writerow({**{k: r[k] for k in _CSV_FIELDS if k in r}, **r["settings"]})

@@ -30,9 +30,10 @@ from .location import default_path
 from .schema import connect, migrate, transaction, utc_now
 
 #: Settings a dataset is loaded with (the options of :func:`thermo.load_dos` plus the formula).
-SETTING_NAMES = ("freq_unit", "atoms", "negative", "low_frequency", "formula")
+SETTING_NAMES = ("freq_unit", "atoms", "negative", "low_frequency", "formula", "sheet")
 #: Settings of a dataset added without any.
-DEFAULT_SETTINGS = {"freq_unit": None, "atoms": None, "negative": "drop", "low_frequency": "auto", "formula": ""}
+DEFAULT_SETTINGS = {"freq_unit": None, "atoms": None, "negative": "drop", "low_frequency": "auto", "formula": "",
+                    "sheet": None}
 #: Name of the space the command line uses unless told otherwise.
 LOCAL_SPACE = "main"
 
