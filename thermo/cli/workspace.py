@@ -37,7 +37,7 @@ def register(sub):
     add.add_argument("--name", help="name of the dataset (one file only; default the file name)")
     add.add_argument("--group", default="", help="group label, e.g. 'convergence: mesh'")
     add.add_argument("--note", default="", help="free-text note")
-    from .options import add_reading_options
+    from .reading import add_reading_options
     add_reading_options(add)
     add.add_argument("--formula", default="", help="formula of the formula unit (for values per gram)")
     add.add_argument("--unchecked", action="store_true",
