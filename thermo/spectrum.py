@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
@@ -28,6 +28,16 @@ class LowFrequencyFit:
         Relative rms misfit of the fit in the window [1].
     automatic : bool
         True when the window was chosen automatically.
+    curvature : float
+        :math:`b` in :math:`A\\nu^2(1 + b\\nu^2)` [1 / THz²].
+    coefficient_uncertainty : float
+        Standard error of :math:`A` from the fit [same unit as ``coefficient``].
+    blend_top_thz : float or None
+        Top of the zone above the cut-off where the form is blended into the
+        data [THz].
+    species_shares : dict of str to float
+        Share of each partial column in the analytic part (its share of the
+        DOS in the fit window) [1].
     """
 
     coefficient: float
@@ -36,6 +46,27 @@ class LowFrequencyFit:
     offset: float = 0.0
     rms_relative_residual: float = 0.0
     automatic: bool = True
+    curvature: float = 0.0
+    coefficient_uncertainty: float = 0.0
+    blend_top_thz: float | None = None
+    species_shares: dict = field(default_factory=dict)
+
+    def analytic_moment(self, power=0) -> float:
+        """:math:`\\int_0^{\\nu_c} \\nu^p A\\nu^2(1+b\\nu^2)\\,d\\nu` [modes · THz^p].
+
+        Examples
+        --------
+        >>> LowFrequencyFit(9.0, 1.0, (0.0, 1.0)).analytic_moment()
+        3.0
+        """
+        nc = self.cutoff_thz
+        return float(self.coefficient * (nc ** (3 + power) / (3 + power)
+                                         + self.curvature * nc ** (5 + power) / (5 + power)))
+
+    def scaled(self, factor):
+        """The same fit with the DOS multiplied by ``factor`` [1]."""
+        return replace(self, coefficient=self.coefficient * factor, offset=self.offset * factor,
+                       coefficient_uncertainty=self.coefficient_uncertainty * factor)
 
 
 @dataclass(frozen=True)
@@ -89,7 +120,7 @@ class PhononDOS:
         from .kernels.quadrature import mode_weights
         total = float(mode_weights(self.frequency_thz, self.dos).sum())
         if self.low_frequency is not None:
-            total += self.low_frequency.coefficient * self.low_frequency.cutoff_thz ** 3 / 3.0
+            total += self.low_frequency.analytic_moment()
         return total
 
     def low_frequency_debye_temperature_k(self) -> float | None:

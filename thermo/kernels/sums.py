@@ -91,12 +91,13 @@ def thermal_sums(dos, temperatures, method="auto"):
     if hot.any():
         parts = [grid_sums(dos.frequency_thz, mode_weights(dos.frequency_thz, dos.dos), t[hot], method)]
         if dos.low_frequency is not None:
-            parts.append(nu2_part_sums(dos.low_frequency.coefficient, dos.low_frequency.cutoff_thz, t[hot]))
+            fit = dos.low_frequency
+            parts.append(nu2_part_sums(fit.coefficient, fit.cutoff_thz, t[hot], fit.curvature))
         for key in SUM_KEYS:
             out[key][hot] = sum(p[key] for p in parts)
     out["entropy"] = out["thermal_energy"] + out["log_partition"]
     zp = float(np.sum(mode_weights(dos.frequency_thz, dos.dos) * dos.frequency_thz)) / 2
     if dos.low_frequency is not None:
-        zp += dos.low_frequency.coefficient * dos.low_frequency.cutoff_thz ** 4 / 8
+        zp += dos.low_frequency.analytic_moment(1) / 2
     out["zero_point_thz"] = zp
     return out
