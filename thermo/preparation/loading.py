@@ -13,7 +13,7 @@ from dataclasses import replace
 from ..errors import DosInputError, OptionError
 from ..kernels.quadrature import mode_weights
 from .imaginary import check_policy, imaginary_warnings, split_at_zero
-from .lowfreq import blend_low_frequency, fit_low_frequency, window_shares
+from .lowfreq import WINDOW_MODES, blend_low_frequency, fit_low_frequency, window_shares
 from .atoms import resolve_atoms
 from ..io.readers import read_table
 from ..spectrum import PhononDOS
@@ -165,7 +165,7 @@ def _start_note(first, fit, modes_below, total):
 
 
 def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="auto",
-                   raw_integral=None, inferred=False):
+                   raw_integral=None, inferred=False, window_modes=WINDOW_MODES):
     """Low-frequency treatment and normalisation of the real (ν >= 0) part.
 
     Parameters
@@ -188,6 +188,8 @@ def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="aut
         Integral of the DOS as read, for the rescale report.
     inferred : bool
         Whether n was inferred from the integral (said in the rescale report).
+    window_modes : float
+        Modes below the automatic window's top (see :mod:`.lowfreq`).
 
     Returns
     -------
@@ -212,7 +214,7 @@ def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="aut
     fit, fit_note = (None, None)
     if window is not None:
         fit, fit_note = fit_low_frequency(nu, cols[0], None if window == "auto" else window,
-                                          total_modes=real_modes)
+                                          total_modes=real_modes, window_modes=window_modes)
     if fit_note:
         notes.append(fit_note)
     if fit is not None and names:
