@@ -7,7 +7,7 @@ import pandas as pd
 from scipy import constants as sc
 
 from .kernels.direct import direct_grid_sums
-from .kernels.nu2 import nu2_part_sums
+from .kernels.nu2 import analytic_part_sums
 from .kernels.quadrature import trapezoid_weights
 from .tables import check_temperatures
 
@@ -71,7 +71,7 @@ def species_contributions(dos, temperatures):
     t = check_temperatures(temperatures)
     hot = t > 0
     fit = dos.low_frequency
-    low = (nu2_part_sums(fit.coefficient, fit.cutoff_thz, t[hot], fit.curvature)
+    low = (analytic_part_sums(fit, t[hot])
            if dos.low_frequency is not None else None)
     shares = _window_shares(dos)
     weights = trapezoid_weights(dos.frequency_thz, dos.dos)

@@ -26,7 +26,7 @@ import numpy as np
 import pandas as pd
 
 from ..columns import column_name
-from ..kernels.nu2 import nu2_part_sums
+from ..kernels.nu2 import analytic_part_sums
 
 from ..kernels.sums import molar_values, thermal_sums
 from ..preparation.imaginary import split_at_zero
@@ -73,7 +73,7 @@ def _fit_part(dos, t):
         return np.zeros((4, t.size))
     out = np.zeros((4, t.size))
     hot = t > 0
-    s = nu2_part_sums(fit.coefficient, fit.cutoff_thz, t[hot], fit.curvature)
+    s = analytic_part_sums(fit, t[hot])
     rel = fit.coefficient_uncertainty / fit.coefficient
     r = sc.R
     out[:, hot] = rel * np.abs(np.array([r * s["heat_capacity"], r * (s["thermal_energy"] + s["log_partition"]),

@@ -20,7 +20,7 @@ from __future__ import annotations
 import numpy as np
 from scipy import special
 
-from .direct import SUM_KEYS
+from .direct import SUM_KEYS, direct_grid_sums
 from .planck import X_MAX as _X_CLIP
 from .planck import H_OVER_K_THZ, log_partition_kernel, thermal_energy_kernel
 
@@ -105,7 +105,7 @@ def debye_integral(upper):
     return bose_integral(3, upper)
 
 
-def nu2_part_sums(coefficient, cutoff_thz, temperatures, curvature=0.0):
+def nu2_part_sums(coefficient, cutoff_thz, temperatures, curvature=0.0, quartic=0.0):
     """Sums of the analytic part :math:`A\\nu^2` on :math:`[0, \\nu_c]`, in closed form.
 
     Parameters
@@ -116,8 +116,9 @@ def nu2_part_sums(coefficient, cutoff_thz, temperatures, curvature=0.0):
         :math:`\\nu_c` [THz].
     temperatures : array_like, shape (M,)
         Temperatures [K], > 0.
-    curvature : float
-        :math:`b` of the form :math:`A\\nu^2(1 + b\\nu^2)` [1/THz²].
+    curvature, quartic : float
+        :math:`b` [1/THz²] and :math:`c` [1/THz⁴] of the form
+        :math:`A\\nu^2(1 + b\\nu^2 + c\\nu^4)`.
 
     Returns
     -------
@@ -136,11 +137,12 @@ def nu2_part_sums(coefficient, cutoff_thz, temperatures, curvature=0.0):
         \\int_0^X x^2 c\\,dx = 4J - X^3 u(X),\\quad
         \\int_0^X x^2 \\ell\\,dx = \\frac{X^3 \\ell(X) + J}{3}.
 
-    The :math:`Ab\\nu^4` term adds, with :math:`s_5 = Ab(k_BT/h)^5` and
-    :math:`J_5` of :func:`bose_integral`, in general
+    The :math:`Ab\\nu^4` and :math:`Ac\\nu^6` terms add the same with
+    :math:`s_{m+1} = A b (k_BT/h)^{m+1}` (resp. :math:`Ac`) and
+    :math:`J_{m+1}` of :func:`bose_integral`; in general
     :math:`\\int_0^X x^m c = (m+2)J_{m+1} - X^{m+1}u(X)`,
     :math:`\\int_0^X x^m u = J_{m+1}`,
-    :math:`\\int_0^X x^m \\ell = (X^{m+1}\\ell(X) + J_{m+1})/(m+1)` at m = 4.
+    :math:`\\int_0^X x^m \\ell = (X^{m+1}\\ell(X) + J_{m+1})/(m+1)` at m = 4, 6.
 
     References
     ----------
@@ -161,7 +163,7 @@ def nu2_part_sums(coefficient, cutoff_thz, temperatures, curvature=0.0):
     inside = np.where(big_x < _X_CLIP, big_x, 0.0)
     u_edge, l_edge = thermal_energy_kernel(big_x), log_partition_kernel(big_x)
     out = {key: np.zeros_like(t) for key in SUM_KEYS}
-    for power, factor in ((2, coefficient), (4, coefficient * curvature)):
+    for power, factor in ((2, coefficient), (4, coefficient * curvature), (6, coefficient * quartic)):
         if factor == 0.0:
             continue
         scale = factor * (t / H_OVER_K_THZ) ** (power + 1)
@@ -170,4 +172,46 @@ def nu2_part_sums(coefficient, cutoff_thz, temperatures, curvature=0.0):
         out["heat_capacity"] = out["heat_capacity"] + scale * ((power + 2) * j - edge * u_edge)
         out["thermal_energy"] = out["thermal_energy"] + scale * j
         out["log_partition"] = out["log_partition"] + scale * (edge * l_edge + j) / (power + 1)
+    return out
+
+
+def analytic_part_sums(fit, temperatures):
+    """Sums of the whole analytic part of a :class:`~thermo.spectrum.LowFrequencyFit`.
+
+    Parameters
+    ----------
+    fit : LowFrequencyFit
+        The fitted form, its cut-off and taper.
+    temperatures : array_like, shape (M,)
+        Temperatures [K], > 0.
+
+    Returns
+    -------
+    dict of str to numpy.ndarray, shape (M,)
+        As :func:`nu2_part_sums`.
+
+    Notes
+    -----
+    :math:`\\int_0^{\\nu_a} M K\\,d\\nu` in closed form (:func:`nu2_part_sums`)
+    plus :math:`\\int_{\\nu_a}^{\\nu_m} W M K\\,d\\nu` by 48-point
+    Gauss–Legendre quadrature (smooth integrand, error far below rounding of
+    the table).
+
+    References
+    ----------
+    Abramowitz and Stegun (1964), 25.4.29.
+
+    Examples
+    --------
+    >>> from thermo.spectrum import LowFrequencyFit
+    >>> s = analytic_part_sums(LowFrequencyFit(9.0, 1.0, (0.0, 1.0)), [1e7])
+    >>> round(float(s["heat_capacity"][0]), 6)
+    3.0
+    """
+    t = np.asarray(temperatures, dtype=float)
+    out = nu2_part_sums(fit.coefficient, fit.cutoff_thz, t, fit.curvature, fit.quartic)
+    nodes, modes = fit.taper_nodes()
+    if nodes.size:
+        extra = direct_grid_sums(nodes, modes, t)
+        out = {key: out[key] + extra[key] for key in SUM_KEYS}
     return out

@@ -16,7 +16,7 @@ from scipy import constants as sc
 from ..errors import OptionError
 from . import loggrid
 from .direct import SUM_KEYS, direct_grid_sums
-from .nu2 import nu2_part_sums
+from .nu2 import analytic_part_sums
 from .quadrature import mode_weights
 
 #: Zero-point energy [J/mol] per THz of Σ modes·ν/2.
@@ -118,7 +118,7 @@ def thermal_sums(dos, temperatures, method="auto"):
         parts = [grid_sums(dos.frequency_thz, mode_weights(dos.frequency_thz, dos.dos), t[hot], method)]
         if dos.low_frequency is not None:
             fit = dos.low_frequency
-            parts.append(nu2_part_sums(fit.coefficient, fit.cutoff_thz, t[hot], fit.curvature))
+            parts.append(analytic_part_sums(fit, t[hot]))
         for key in SUM_KEYS:
             out[key][hot] = sum(p[key] for p in parts)
     out["entropy"] = out["thermal_energy"] + out["log_partition"]

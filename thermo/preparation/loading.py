@@ -200,7 +200,7 @@ def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="aut
     Notes
     -----
     :math:`\\text{scale} = 3n(1 - f_{\\text{imag}}^{[\\text{keep-count}]}) /
-    (\\int g_{\\text{treated}} + \\int_0^{\\nu_c} A\\nu^2(1+b\\nu^2)d\\nu)`.
+    (\\int g_{\\text{treated}} + \\int_0^{\\nu_c} A\\nu^2(1+b\\nu^2+c\\nu^4)d\\nu)`.
 
     Examples
     --------
@@ -223,7 +223,7 @@ def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="aut
     if fit is None:
         grid, cut = nu, cols
     else:
-        grid, cut = blend_low_frequency(nu, cols, fit, [fit.species_shares[k] for k in names])
+        grid, cut = blend_low_frequency(nu, cols, fit)
     tabulated = float(mode_weights(grid, cut[0]).sum())
     analytic = 0.0 if fit is None else fit.analytic_moment()
     scale = real_modes / (tabulated + analytic)
@@ -232,7 +232,7 @@ def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="aut
         below = float(cols[0][0]) * first / 3.0
         note = _start_note(first, None, below * scale, real_modes) if cols[0][0] > 0 else None
     else:
-        below = fit.coefficient * first ** 3 * (1 / 3 + fit.curvature * first ** 2 / 5)
+        below = fit.analytic_moment() if first >= fit.cutoff_thz else 0.0
         note = _start_note(first, fit, below * scale, real_modes)
     if note:
         notes.append(note)

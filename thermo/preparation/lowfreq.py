@@ -1,6 +1,7 @@
 """Low-frequency (acoustic, ν²) treatment of a tabulated phonon DOS.
 
-Near ν = 0 every crystal's DOS is Debye-like, :math:`g = A\\nu^2(1 + b\\nu^2)`,
+Near ν = 0 every crystal's DOS is Debye-like: the long-wave expansion of the
+acoustic dispersion gives the series :math:`g = A\\nu^2(1 + b\\nu^2 + c\\nu^4 + \\dots)`,
 and that region alone sets the low-temperature :math:`T^3` law.  A smeared or
 binned DOS carries spurious weight there (smearing by σ turns :math:`A\\nu^2`
 into :math:`A(\\nu^2+\\sigma^2)`; bins of width Δ into :math:`A(\\nu^2+\\Delta^2/12)`),
@@ -13,18 +14,18 @@ The treatment is a smooth function of the data, not of row counts:
    (a mode count, the same for any sampling of one spectrum), its bottom
    :math:`\\nu_a = \\max(\\nu_b/4,\\ 3\\sqrt{C/A},\\ \\nu_{first})` clears the
    smearing width and the first tabulated row;
-2. :math:`g = A\\nu^2 + Ab\\nu^4 + C` is fitted by least squares weighted with
+2. :math:`g = A\\nu^2 + Ab\\nu^4 + Ac\\nu^6 + C` is fitted by least squares weighted with
    the trapezoid widths (an approximation of a frequency integral, hence
    sampling independent) and relative to :math:`\\nu^2`;
 3. below :math:`\\nu_a` the DOS is the analytic :math:`A\\nu^2(1+b\\nu^2)`
-   (the offset :math:`C` is the artefact); on :math:`[\\nu_a, 2\\nu_a]` the
+   :math:`(1+c\\nu^4)` (the offset :math:`C` is the artefact); on :math:`[\\nu_a, 2\\nu_a]` the
    tabulated DOS is blended into the data with a smooth step, so no jump is
    left at the seam.
 
 The treatment is refused (off, with a caution) only when the DOS is not
 ν²-like at all: :math:`A \\le 0`, an offset outside
-:math:`-0.02 \\le C/(A\\nu_a^2) \\le 0.5`, a curvature :math:`|b|\\nu_b^2 > 1`
-(the ν⁴ term would dominate) or a misfit above :data:`NOISY_TOLERANCE`.  These
+:math:`-0.02 \\le C/(A\\nu_a^2) \\le 0.5`, a curvature :math:`|b|\\nu_b^2 + |c|\\nu_b^4 > 1`
+(the higher terms would dominate) or a misfit above :data:`NOISY_TOLERANCE`.  These
 are properties of the spectrum, converged integrals that do not move when the
 same DOS is resampled.
 
@@ -103,26 +104,28 @@ def reduced_dos(frequency_thz, dos):
     return nu[pos], g[pos] / nu[pos] ** 2
 
 
-def _weighted_fit(nu, g, widths, curvature=True):
-    """Fit g = aν² (+ a b ν⁴) + c, relative to ν², weighted by the trapezoid widths.
+def _weighted_fit(nu, g, widths, powers=3):
+    """Fit g = aν² (+ a b ν⁴ + a q ν⁶) + C, relative to ν², weighted by the trapezoid widths.
 
-    Returns (a, b, c, relative rms misfit, standard error of a).
+    ``powers`` terms of the series in ν² are fitted (1 to 3).
+    Returns (a, b, C, relative rms misfit, standard error of a, q).
     """
-    basis = [nu ** 2, np.ones_like(nu)] + ([nu ** 4] if curvature else [])
+    basis = [nu ** 2, np.ones_like(nu)] + [nu ** (2 * k) for k in range(2, powers + 1)]
     x = np.column_stack(basis)
     sw = np.sqrt(widths) / nu ** 2
     xw = x * sw[:, None]
     coef, *_ = np.linalg.lstsq(xw, g * sw, rcond=None)
     a, c = float(coef[0]), float(coef[1])
-    a2 = float(coef[2]) if curvature else 0.0
-    model = a * nu ** 2 + a2 * nu ** 4 + c
+    a2 = float(coef[2]) if powers >= 2 else 0.0
+    a3 = float(coef[3]) if powers >= 3 else 0.0
+    model = a * nu ** 2 + a2 * nu ** 4 + a3 * nu ** 6 + c
     if a <= 0 or np.any(model <= 0):
-        return a, 0.0, c, np.inf, np.inf
+        return a, 0.0, c, np.inf, np.inf, 0.0
     rho = float(np.sqrt(np.sum(widths * ((g - model) / model) ** 2) / np.sum(widths)))
     dof = max(nu.size - len(basis), 1)
     s2 = float(np.sum((sw * (g - model)) ** 2)) / dof
     cov = s2 * np.linalg.pinv(xw.T @ xw)
-    return a, a2 / a, c, rho, float(np.sqrt(max(cov[0, 0], 0.0)))
+    return a, a2 / a, c, rho, float(np.sqrt(max(cov[0, 0], 0.0))), a3 / a
 
 
 def _cumulative(nu, g, total_modes):
@@ -135,13 +138,13 @@ def _window_fit(nu, g, widths, lo, hi):
     count = int(sel.sum())
     if count < 3:
         return None, count
-    return _weighted_fit(nu[sel], g[sel], widths[sel], curvature=count >= 6), count
+    return _weighted_fit(nu[sel], g[sel], widths[sel], powers=3 if count >= 8 else 2 if count >= 5 else 1), count
 
 
 def _acceptable(fit, lo, hi):
-    a, b, c, rho, _ = fit
+    a, b, c, rho, _, q = fit
     return (np.isfinite(rho) and a > 0 and -0.02 * a * lo ** 2 <= c <= MAX_OFFSET * a * lo ** 2
-            and abs(b) * hi ** 2 <= MAX_CURVATURE and rho <= NOISY_TOLERANCE)
+            and abs(b) * hi ** 2 + abs(q) * hi ** 4 <= MAX_CURVATURE and rho <= NOISY_TOLERANCE)
 
 
 def _auto_window(nu, g, widths, total_modes, window_modes):
@@ -166,7 +169,7 @@ def _auto_window(nu, g, widths, total_modes, window_modes):
 
 
 def fit_low_frequency(frequency_thz, dos, window=None, total_modes=None, window_modes=WINDOW_MODES):
-    """Fit :math:`g = A\\nu^2(1 + b\\nu^2) + C` at low frequency.
+    """Fit :math:`g = A\\nu^2(1 + b\\nu^2 + c\\nu^4) + C` at low frequency.
 
     Parameters
     ----------
@@ -200,11 +203,11 @@ def fit_low_frequency(frequency_thz, dos, window=None, total_modes=None, window_
 
     Notes
     -----
-    Weighted least squares of :math:`g` on :math:`\\{\\nu^2, \\nu^4, 1\\}`
+    Weighted least squares of :math:`g` on :math:`\\{\\nu^2, \\nu^4, \\nu^6, 1\\}`
     with weights :math:`\\Delta_i/\\nu_i^4` (trapezoid widths
     :math:`\\Delta_i`), i.e. a discretised
-    :math:`\\int (g - M)^2/\\nu^4\\,d\\nu`; the ν⁴ term is dropped when the
-    window holds fewer than 6 rows.  The window and the refusal criteria
+    :math:`\\int (g - M)^2/\\nu^4\\,d\\nu`; the ν⁶ term is dropped when the
+    window holds fewer than 8 rows, the ν⁴ term below 5 rows.  The window and the refusal criteria
     are those of the module docstring.
 
     References
@@ -242,9 +245,9 @@ def fit_low_frequency(frequency_thz, dos, window=None, total_modes=None, window_
 
 
 def _record(fit, cut, window, automatic=True):
-    a, b, c, rho, sa = fit
+    a, b, c, rho, sa, q = fit
     return LowFrequencyFit(a, float(cut), (float(window[0]), float(window[1])), c, rho, automatic,
-                           curvature=b, coefficient_uncertainty=sa,
+                           curvature=b, quartic=q, coefficient_uncertainty=sa,
                            blend_top_thz=float(min(2.0 * cut, window[1])))
 
 
@@ -255,8 +258,8 @@ def _caution(fit, lo, hi):
             f"{lo:.3g}-{hi:.3g} THz); low-temperature values are uncertain")
 
 
-def blend_low_frequency(frequency_thz, arrays, fit, shares=()):
-    """Tabulated part above the cut-off, with the fitted form blended in.
+def blend_low_frequency(frequency_thz, arrays, fit):
+    """Tabulated part above the cut-off: the data's share :math:`1 - W` of the blend.
 
     Parameters
     ----------
@@ -266,9 +269,6 @@ def blend_low_frequency(frequency_thz, arrays, fit, shares=()):
         DOS columns [states / THz]: the total first, then partials.
     fit : LowFrequencyFit
         The fit; ``cutoff_thz`` = ν_a and ``blend_top_thz`` = ν_m.
-    shares : sequence of float
-        Share of each partial column in the analytic part
-        (:func:`window_shares`).
 
     Returns
     -------
@@ -279,13 +279,13 @@ def blend_low_frequency(frequency_thz, arrays, fit, shares=()):
 
     Notes
     -----
-    With :math:`M = A\\nu^2(1+b\\nu^2)`, :math:`s = (\\nu-\\nu_a)/(\\nu_m-\\nu_a)`
-    clipped to [0, 1] and the smooth step :math:`w = 1 - s^2(3-2s)`:
-    :math:`g' = wM + (1-w)g`.  A partial column :math:`g_X` becomes
-    :math:`w\\,\\phi_X M + (1-w)g_X`, with :math:`\\phi_X` the partial's
-    share of the DOS in the fit window — the same share that splits the
-    analytic part below ν_a among species, so the partials still add up to
-    the total.
+    With :math:`M = A\\nu^2(1+b\\nu^2+c\\nu^4)`, :math:`s = (\\nu-\\nu_a)/(\\nu_m-\\nu_a)`
+    clipped to [0, 1] and the smooth step :math:`W = 1 - s^2(3-2s)`, the
+    treated DOS is :math:`g' = WM + (1-W)g`.  The part :math:`WM` is analytic
+    (:meth:`~thermo.spectrum.LowFrequencyFit.taper_nodes`); the tabulated
+    part returned here is :math:`(1-W)g` (and :math:`(1-W)g_X` for each
+    partial column), which starts at 0 with zero slope at ν_a, so the
+    trapezoid rule has no end error at the seam.
 
     References
     ----------
@@ -296,19 +296,13 @@ def blend_low_frequency(frequency_thz, arrays, fit, shares=()):
     >>> fit = LowFrequencyFit(1.0, 1.0, (1.0, 4.0), blend_top_thz=2.0)
     >>> f, (g,) = blend_low_frequency([0.0, 1.0, 2.0, 3.0], [[0.0, 1.5, 5.0, 9.0]], fit)
     >>> f.tolist(), g.tolist()
-    ([1.0, 2.0, 3.0], [1.0, 5.0, 9.0])
+    ([1.0, 2.0, 3.0], [0.0, 5.0, 9.0])
     """
     nu = np.asarray(frequency_thz, dtype=float)
     lo = fit.cutoff_thz
-    top = fit.blend_top_thz if fit.blend_top_thz is not None else lo
     grid = np.concatenate([[lo], nu[nu > lo]])
-    model = fit.coefficient * grid ** 2 * (1.0 + fit.curvature * grid ** 2)
-    s = np.clip((grid - lo) / (top - lo), 0.0, 1.0) if top > lo else np.ones_like(grid)
-    w = 1.0 - s * s * (3.0 - 2.0 * s)
-    on_grid = [np.interp(grid, nu, np.asarray(col, float)) for col in arrays]
-    out = [w * model + (1.0 - w) * on_grid[0]]
-    out += [w * share * model + (1.0 - w) * col for share, col in zip(shares, on_grid[1:])]
-    return grid, out
+    keep = 1.0 - fit.taper(grid)
+    return grid, [keep * np.interp(grid, nu, np.asarray(col, float)) for col in arrays]
 
 
 def window_shares(frequency_thz, partials, window_thz):
