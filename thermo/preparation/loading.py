@@ -232,7 +232,7 @@ def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="aut
         below = float(cols[0][0]) * first / 3.0
         note = _start_note(first, None, below * scale, real_modes) if cols[0][0] > 0 else None
     else:
-        below = fit.analytic_moment() if first >= fit.cutoff_thz else 0.0
+        below = fit.coefficient * first ** 3 * (1 / 3 + first ** 2 * (fit.curvature / 5 + fit.quartic * first ** 2 / 7))
         note = _start_note(first, fit, below * scale, real_modes)
     if note:
         notes.append(note)

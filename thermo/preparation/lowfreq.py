@@ -24,7 +24,8 @@ The treatment is a smooth function of the data, not of row counts:
 
 The treatment is refused (off, with a caution) only when the DOS is not
 ν²-like at all: :math:`A \\le 0`, an offset outside
-:math:`-0.02 \\le C/(A\\nu_a^2) \\le 0.5`, a curvature :math:`|b|\\nu_b^2 + |c|\\nu_b^4 > 1`
+:math:`-0.02 - 3\\sigma_C/(A\\nu_a^2) \\le C/(A\\nu_a^2) \\le 0.5` (σ_C the
+standard error of C), a curvature :math:`|b|\\nu_b^2 + |c|\\nu_b^4 > 1`
 (the higher terms would dominate) or a misfit above :data:`NOISY_TOLERANCE`.  These
 are properties of the spectrum, converged integrals that do not move when the
 same DOS is resampled.
@@ -108,7 +109,7 @@ def _weighted_fit(nu, g, widths, powers=3):
     """Fit g = aν² (+ a b ν⁴ + a q ν⁶) + C, relative to ν², weighted by the trapezoid widths.
 
     ``powers`` terms of the series in ν² are fitted (1 to 3).
-    Returns (a, b, C, relative rms misfit, standard error of a, q).
+    Returns (a, b, C, relative rms misfit, standard error of a, q, standard error of C).
     """
     basis = [nu ** 2, np.ones_like(nu)] + [nu ** (2 * k) for k in range(2, powers + 1)]
     x = np.column_stack(basis)
@@ -120,12 +121,13 @@ def _weighted_fit(nu, g, widths, powers=3):
     a3 = float(coef[3]) if powers >= 3 else 0.0
     model = a * nu ** 2 + a2 * nu ** 4 + a3 * nu ** 6 + c
     if a <= 0 or np.any(model <= 0):
-        return a, 0.0, c, np.inf, np.inf, 0.0
+        return a, 0.0, c, np.inf, np.inf, 0.0, np.inf
     rho = float(np.sqrt(np.sum(widths * ((g - model) / model) ** 2) / np.sum(widths)))
     dof = max(nu.size - len(basis), 1)
     s2 = float(np.sum((sw * (g - model)) ** 2)) / dof
     cov = s2 * np.linalg.pinv(xw.T @ xw)
-    return a, a2 / a, c, rho, float(np.sqrt(max(cov[0, 0], 0.0))), a3 / a
+    return (a, a2 / a, c, rho, float(np.sqrt(max(cov[0, 0], 0.0))), a3 / a,
+            float(np.sqrt(max(cov[1, 1], 0.0))))
 
 
 def _cumulative(nu, g, total_modes):
@@ -142,8 +144,9 @@ def _window_fit(nu, g, widths, lo, hi):
 
 
 def _acceptable(fit, lo, hi):
-    a, b, c, rho, _, q = fit
-    return (np.isfinite(rho) and a > 0 and -0.02 * a * lo ** 2 <= c <= MAX_OFFSET * a * lo ** 2
+    a, b, c, rho, _, q, sc = fit
+    # a negative offset is allowed only within 2 % plus three standard errors (noise)
+    return (np.isfinite(rho) and a > 0 and -0.02 * a * lo ** 2 - 3.0 * sc <= c <= MAX_OFFSET * a * lo ** 2
             and abs(b) * hi ** 2 + abs(q) * hi ** 4 <= MAX_CURVATURE and rho <= NOISY_TOLERANCE)
 
 
@@ -245,7 +248,7 @@ def fit_low_frequency(frequency_thz, dos, window=None, total_modes=None, window_
 
 
 def _record(fit, cut, window, automatic=True):
-    a, b, c, rho, sa, q = fit
+    a, b, c, rho, sa, q, _sc = fit
     return LowFrequencyFit(a, float(cut), (float(window[0]), float(window[1])), c, rho, automatic,
                            curvature=b, quartic=q, coefficient_uncertainty=sa,
                            blend_top_thz=float(min(2.0 * cut, window[1])))
