@@ -136,11 +136,23 @@ def _cumulative(nu, g, total_modes):
 
 
 def _window_fit(nu, g, widths, lo, hi):
+    """Fit in [lo, hi]: the shortest series whose misfit is within twice the least one.
+
+    Only fits passing :func:`_acceptable` compete (the plain Aν² + C fit is
+    returned when none does, to be judged by the caller).  Misfits are
+    frequency integrals, so the choice does not move when the data are resampled.
+    """
     sel = (nu >= lo) & (nu <= hi) & (nu > 0)
     count = int(sel.sum())
     if count < 3:
         return None, count
-    return _weighted_fit(nu[sel], g[sel], widths[sel], powers=3 if count >= 8 else 2 if count >= 5 else 1), count
+    most = 3 if count >= 8 else 2 if count >= 5 else 1
+    fits = [_weighted_fit(nu[sel], g[sel], widths[sel], powers=p) for p in range(1, most + 1)]
+    good = [f for f in fits if _acceptable(f, lo, hi)]
+    if not good:
+        return fits[0], count
+    least = min(f[3] for f in good)
+    return next(f for f in good if f[3] <= 2.0 * least), count
 
 
 def _acceptable(fit, lo, hi):
@@ -159,8 +171,9 @@ def _auto_window(nu, g, widths, total_modes, window_modes):
     for _ in range(4):
         target = window_modes - below
         top = float(np.interp(target, cum, nu)) if target > 0 else 2.0 * max(first, step)
-        lo = max(top / SPAN, SMEAR_CLEARANCE * smear, first, step)
-        hi = max(top, 2.0 * lo)
+        # the bottom only moves up between passes, so the passes settle
+        lo = max(top / SPAN, SMEAR_CLEARANCE * smear, first, step, result[0] if result else 0.0)
+        hi = max(top, 3.0 * lo)
         fit, _count = _window_fit(nu, g, widths, lo, hi)
         if fit is None or not np.isfinite(fit[3]):
             return lo, hi, None
