@@ -207,3 +207,15 @@ register_quantity("helmholtz_energy", "F", "energy", description="Helmholtz ener
 register_quantity("enthalpy", "H", "energy", description="enthalpy")
 register_quantity("gibbs_energy", "G", "energy", description="Gibbs energy")
 register_quantity("zero_point_energy", "E_0", "energy", description="zero-point energy")
+
+# ---- error breakdown (thermo.accuracy.breakdown): numerical and low-frequency parts
+for _key, _symbol, _kind in (("heat_capacity_v", "C_v", "entropy"), ("entropy", "S", "entropy"),
+                             ("internal_energy", "U", "energy"), ("helmholtz_energy", "F", "energy")):
+    for _part, _what in (("numerical", "numerical (grid-halving) error"),
+                         ("low_frequency", "low-frequency (ν² treatment) error")):
+        register_quantity(f"{_key}_{_part}_error", f"δ{_symbol} {_part}", _kind,
+                          description=f"{_what} of {_symbol}")
+        register_quantity(f"{_key}_{_part}_relative_error", f"δ{_symbol}/{_symbol} {_part}", "fixed", "1",
+                          description=f"{_what} of {_symbol}, relative to |{_symbol}|")
+register_quantity("low_frequency_flag", "flag", "fixed", "",
+                  description="low-frequency spread of C_v or S over 1 %")

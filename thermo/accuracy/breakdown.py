@@ -96,9 +96,9 @@ def error_breakdown(dos, temperatures):
     -------
     pandas.DataFrame
         ``temperature_K``; for each quantity ``q`` of :data:`QUANTITIES`
-        its value and ``q_numerical_error``, ``q_low_frequency_error``
-        (per mole of formula units: J/(mol·K), kJ/mol) and their relative
-        forms ``..._relative`` [1]; ``low_frequency_flag``, True where the
+        its value and its numerical and low-frequency errors (per mole of
+        formula units: J/(mol·K), kJ/mol) and their relative forms [1],
+        named by :func:`error_column`; ``low_frequency_flag``, True where the
         relative low-frequency part of C_v or S exceeds 1 %.
 
     Notes
@@ -118,7 +118,7 @@ def error_breakdown(dos, temperatures):
     >>> nu = np.linspace(0.0, 8.0, 401)
     >>> dos = load_dos("# THz\\n" + "\\n".join(f"{a} {9 * a * a / 512}" for a in nu))
     >>> b = error_breakdown(dos, [5.0, 300.0])
-    >>> bool(b["heat_capacity_v_numerical_error_relative"].max() < 1e-3)
+    >>> bool(b[error_column("heat_capacity_v", "numerical", relative=True)].max() < 1e-3)
     True
     """
     t = np.atleast_1d(np.asarray(temperatures, dtype=float)).ravel()
@@ -143,12 +143,26 @@ def error_breakdown(dos, temperatures):
             value = base[i]
             columns[column_name(key)] = value * k
             for part, err in (("numerical", numerical[i]), ("low_frequency", low[i])):
-                columns[f"{key}_{part}_error"] = err * k
-                columns[f"{key}_{part}_error_relative"] = np.where(value != 0, err / np.abs(value), 0.0)
+                columns[error_column(key, part)] = err * k
+                columns[error_column(key, part, relative=True)] = np.where(value != 0, err / np.abs(value), 0.0)
     df = pd.DataFrame(columns)
-    df["low_frequency_flag"] = ((df["heat_capacity_v_low_frequency_error_relative"] > FLAG_SPREAD)
-                                | (df["entropy_low_frequency_error_relative"] > FLAG_SPREAD))
+    df[column_name("low_frequency_flag")] = (
+        (df[error_column("heat_capacity_v", "low_frequency", True)] > FLAG_SPREAD)
+        | (df[error_column("entropy", "low_frequency", True)] > FLAG_SPREAD))
     return df
+
+
+def error_column(key, part, relative=False):
+    """Column name of the ``part`` ('numerical' or 'low_frequency') error of quantity ``key``.
+
+    Examples
+    --------
+    >>> error_column("heat_capacity_v", "numerical")
+    'heat_capacity_v_numerical_error_J_per_mol_K'
+    >>> error_column("entropy", "low_frequency", relative=True)
+    'entropy_low_frequency_relative_error'
+    """
+    return column_name(f"{key}_{part}_relative_error" if relative else f"{key}_{part}_error")
 
 
 def estimated_relative_error(dos, temperatures, breakdown=None):
@@ -184,7 +198,7 @@ def estimated_relative_error(dos, temperatures, breakdown=None):
     worst = 0.0
     energy = np.abs(b[column_name("internal_energy")].to_numpy()[hot])
     for key in QUANTITIES:
-        total = (b[f"{key}_numerical_error"] + b[f"{key}_low_frequency_error"]).to_numpy()[hot]
+        total = (b[error_column(key, "numerical")] + b[error_column(key, "low_frequency")]).to_numpy()[hot]
         ref = energy if key == "helmholtz_energy" else np.abs(b[column_name(key)].to_numpy()[hot])
         with np.errstate(divide="ignore", invalid="ignore"):
             rel = np.where(ref > 0, total / ref, 0.0)
@@ -198,8 +212,8 @@ def breakdown_summary(breakdown):
     Examples
     --------
     >>> b = pd.DataFrame({"temperature_K": [1.0], "low_frequency_flag": [True],
-    ...                   **{f"{q}_{p}_error{r}": [0.0] for q in QUANTITIES
-    ...                      for p in ("numerical", "low_frequency") for r in ("", "_relative")}})
+    ...                   **{error_column(q, p, r): [0.0] for q in QUANTITIES
+    ...                      for p in ("numerical", "low_frequency") for r in (False, True)}})
     >>> breakdown_summary(b)["flagged_temperatures_K"]
     [1.0]
     """
@@ -208,11 +222,11 @@ def breakdown_summary(breakdown):
     for key in QUANTITIES:
         entry = {}
         for part in ("numerical", "low_frequency"):
-            rel = breakdown[f"{key}_{part}_error_relative"].to_numpy()
+            rel = breakdown[error_column(key, part, relative=True)].to_numpy()
             i = int(np.argmax(rel)) if rel.size else 0
             entry[part] = {"max_relative": float(rel[i]) if rel.size else 0.0,
                            "at_temperature_K": float(t[i]) if rel.size else None,
-                           "max_absolute": float(breakdown[f"{key}_{part}_error"].max())}
+                           "max_absolute": float(breakdown[error_column(key, part)].max())}
         out[key] = entry
-    out["flagged_temperatures_K"] = [float(v) for v in t[breakdown["low_frequency_flag"].to_numpy()]]
+    out["flagged_temperatures_K"] = [float(v) for v in t[breakdown[column_name("low_frequency_flag")].to_numpy()]]
     return out

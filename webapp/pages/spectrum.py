@@ -5,7 +5,7 @@ from __future__ import annotations
 import dash
 from dash import ClientsideFunction, Input, Output, State, callback, clientside_callback, ctx, dcc, html, no_update
 
-from thermo.accuracy.breakdown import FLAG_SPREAD, error_breakdown
+from thermo.accuracy.breakdown import FLAG_SPREAD, error_breakdown, error_column
 from thermo.errors import OptionError
 from thermo.units import FREQUENCY_UNITS
 
@@ -166,8 +166,9 @@ def accuracy_items(dos):
     items = []
     for key, symbol, unit in (("heat_capacity_v", "C_v", "J/(mol·K)"), ("entropy", "S", "J/(mol·K)")):
         for _, row in table.iterrows():
-            num, low = row[f"{key}_numerical_error"], row[f"{key}_low_frequency_error"]
-            rel_num, rel_low = row[f"{key}_numerical_error_relative"], row[f"{key}_low_frequency_error_relative"]
+            num, low = row[error_column(key, "numerical")], row[error_column(key, "low_frequency")]
+            rel_num = row[error_column(key, "numerical", relative=True)]
+            rel_low = row[error_column(key, "low_frequency", relative=True)]
             kind = "warn" if rel_low > FLAG_SPREAD else "info"
             items.append((kind, f"error estimate {symbol}({row['temperature_K']:g} K): numerical ±{num:.2g} "
                                 f"{unit} ({100 * rel_num:.2g} %), low-frequency ±{low:.2g} {unit} "
