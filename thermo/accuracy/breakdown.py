@@ -28,6 +28,7 @@ import pandas as pd
 from ..columns import column_name
 from ..kernels.nu2 import analytic_part_sums
 
+from ..kernels.quadrature import mode_weights
 from ..kernels.sums import molar_values, thermal_sums
 from ..preparation.imaginary import split_at_zero
 from ..preparation.loading import treat_spectrum
@@ -45,7 +46,7 @@ _ENERGY = (False, False, True, True)
 def _rebuild(dos, every=1, window="same", window_modes=WINDOW_MODES):
     """The DOS prepared again from its input rows (every ``every``-th), or None."""
     if dos.input_frequency_thz is None or dos.input_dos is None:
-        return None
+        return _halved_table(dos) if every == 2 else None
     nu_all, g_all = np.asarray(dos.input_frequency_thz), np.asarray(dos.input_dos)
     keep = np.arange(0, nu_all.size, every)
     if keep[-1] != nu_all.size - 1:
@@ -60,6 +61,19 @@ def _rebuild(dos, every=1, window="same", window_modes=WINDOW_MODES):
     grid, cut, fit, scale, _notes = treat_spectrum(nu, cols, [], dos.atoms, share, policy, window,
                                                    window_modes=window_modes)
     return PhononDOS(grid, cut[0] * scale, dos.atoms, low_frequency=fit)
+
+
+def _halved_table(dos):
+    """A DOS built without input rows: its tabulated part on every second point, same modes, same fit."""
+    nu, g = np.asarray(dos.frequency_thz), np.asarray(dos.dos)
+    keep = np.arange(0, nu.size, 2)
+    if keep[-1] != nu.size - 1:
+        keep = np.append(keep, nu.size - 1)
+    if keep.size < 2:
+        return None
+    full, half = mode_weights(nu, g).sum(), mode_weights(nu[keep], g[keep]).sum()
+    factor = full / half if half > 0 else 1.0
+    return PhononDOS(nu[keep], g[keep] * factor, dos.atoms, low_frequency=dos.low_frequency)
 
 
 def _values(dos, t):
@@ -188,7 +202,7 @@ def estimated_relative_error(dos, temperatures, breakdown=None):
     >>> from thermo.spectrum import PhononDOS
     >>> nu = np.linspace(0, 5, 201)
     >>> d = PhononDOS(nu, 9 * nu**2 / 125, atoms=1)
-    >>> estimated_relative_error(d, [100.0, 300.0]) < 1e-4
+    >>> 1e-9 < estimated_relative_error(d, [100.0, 300.0]) < 1e-3
     True
     """
     b = error_breakdown(dos, temperatures) if breakdown is None else breakdown
