@@ -244,3 +244,14 @@ register_quantity("relative_residual", "ΔC_p/C_p", "fixed", description="(model
 register_quantity("entropy_third_law", "S°", "entropy", description="third-law entropy ∫₀ᵀ C_p/T dT")
 register_quantity("entropy_third_law_uncertainty", "u(S°)", "entropy", description="standard uncertainty of the third-law entropy")
 register_quantity("enthalpy_from_zero", "H°−H°(0)", "energy", description="enthalpy increment from 0 K, ∫₀ᵀ C_p dT")
+# ---- error breakdown (thermo.accuracy.breakdown): numerical and low-frequency parts
+for _key, _symbol, _kind in (("heat_capacity_v", "C_v", "entropy"), ("entropy", "S", "entropy"),
+                             ("internal_energy", "U", "energy"), ("helmholtz_energy", "F", "energy")):
+    for _part, _what in (("numerical", "numerical (grid-halving) error"),
+                         ("low_frequency", "low-frequency (ν² treatment) error")):
+        register_quantity(f"{_key}_{_part}_error", f"δ{_symbol} {_part}", _kind,
+                          description=f"{_what} of {_symbol}")
+        register_quantity(f"{_key}_{_part}_relative_error", f"δ{_symbol}/{_symbol} {_part}", "fixed", "1",
+                          description=f"{_what} of {_symbol}, relative to |{_symbol}|")
+register_quantity("low_frequency_flag", "flag", "fixed", "",
+                  description="low-frequency spread of C_v or S over 1 %")

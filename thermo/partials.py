@@ -7,16 +7,18 @@ import pandas as pd
 from scipy import constants as sc
 
 from .kernels.direct import direct_grid_sums
-from .kernels.nu2 import nu2_part_sums
+from .kernels.nu2 import analytic_part_sums
 from .kernels.quadrature import trapezoid_weights
 from .tables import check_temperatures
 
 
 def _window_shares(dos):
-    """Each partial's share of the DOS inside the low-frequency fit window."""
+    """Each partial's share of the analytic ν² part (set when the DOS was loaded)."""
     fit = dos.low_frequency
     if fit is None or not dos.partials:
         return {name: 0.0 for name in dos.partials}
+    if fit.species_shares:
+        return {name: float(fit.species_shares.get(name, 0.0)) for name in dos.partials}
     lo, hi = fit.window_thz
     nu = dos.frequency_thz
     sel = (nu >= lo) & (nu <= hi)
@@ -68,7 +70,8 @@ def species_contributions(dos, temperatures):
     """
     t = check_temperatures(temperatures)
     hot = t > 0
-    low = (nu2_part_sums(dos.low_frequency.coefficient, dos.low_frequency.cutoff_thz, t[hot])
+    fit = dos.low_frequency
+    low = (analytic_part_sums(fit, t[hot])
            if dos.low_frequency is not None else None)
     shares = _window_shares(dos)
     weights = trapezoid_weights(dos.frequency_thz, dos.dos)

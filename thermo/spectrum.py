@@ -2,7 +2,7 @@
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 
 import numpy as np
 
@@ -28,6 +28,18 @@ class LowFrequencyFit:
         Relative rms misfit of the fit in the window [1].
     automatic : bool
         True when the window was chosen automatically.
+    curvature : float
+        :math:`b` in :math:`A\\nu^2(1 + b\\nu^2 + c\\nu^4)` [1 / THz²].
+    quartic : float
+        :math:`c` in :math:`A\\nu^2(1 + b\\nu^2 + c\\nu^4)` [1 / THz⁴].
+    coefficient_uncertainty : float
+        Standard error of :math:`A` from the fit [same unit as ``coefficient``].
+    blend_top_thz : float or None
+        Top of the zone above the cut-off where the form is blended into the
+        data [THz].
+    species_shares : dict of str to float
+        Share of each partial column in the analytic part (its share of the
+        DOS in the fit window) [1].
     """
 
     coefficient: float
@@ -36,13 +48,71 @@ class LowFrequencyFit:
     offset: float = 0.0
     rms_relative_residual: float = 0.0
     automatic: bool = True
+    curvature: float = 0.0
+    quartic: float = 0.0
+    coefficient_uncertainty: float = 0.0
+    blend_top_thz: float | None = None
+    species_shares: dict = field(default_factory=dict)
+
+    def form(self, frequency_thz):
+        """The fitted form :math:`A\\nu^2(1+b\\nu^2+c\\nu^4)` [states / THz]."""
+        nu = np.asarray(frequency_thz, dtype=float)
+        return self.coefficient * nu ** 2 * (1.0 + nu ** 2 * (self.curvature + self.quartic * nu ** 2))
+
+    def taper(self, frequency_thz):
+        """Share :math:`W` of the fitted form in the DOS: 1 below the cut-off, smooth step to 0 at ``blend_top_thz``."""
+        nu = np.asarray(frequency_thz, dtype=float)
+        top = self.blend_top_thz if self.blend_top_thz is not None else self.cutoff_thz
+        if top <= self.cutoff_thz:
+            return np.where(nu <= self.cutoff_thz, 1.0, 0.0)
+        s = np.clip((nu - self.cutoff_thz) / (top - self.cutoff_thz), 0.0, 1.0)
+        return 1.0 - s * s * (3.0 - 2.0 * s)
+
+    def taper_nodes(self):
+        """Gauss–Legendre nodes [THz] and modes [1] of :math:`W\\,A\\nu^2(\\dots)` above the cut-off.
+
+        Examples
+        --------
+        >>> f = LowFrequencyFit(9.0, 1.0, (1.0, 4.0), blend_top_thz=2.0)
+        >>> nodes, modes = f.taper_nodes()
+        >>> round(float(modes.sum()), 10)       # ∫_1^2 9ν² (1 - 3s² + 2s³) dν = 9 · 13/15, s = ν - 1
+        7.8
+        """
+        top = self.blend_top_thz if self.blend_top_thz is not None else self.cutoff_thz
+        if top <= self.cutoff_thz:
+            return np.zeros(0), np.zeros(0)
+        x, w = np.polynomial.legendre.leggauss(48)
+        half = 0.5 * (top - self.cutoff_thz)
+        nodes = self.cutoff_thz + half * (x + 1.0)
+        return nodes, half * w * self.form(nodes) * self.taper(nodes)
+
+    def analytic_moment(self, power=0) -> float:
+        """:math:`\\int_0^{\\nu_c} \\nu^p A\\nu^2(1+b\\nu^2+c\\nu^4)\\,d\\nu` [modes · THz^p].
+
+        Examples
+        --------
+        >>> LowFrequencyFit(9.0, 1.0, (0.0, 1.0)).analytic_moment()
+        3.0
+
+        Includes the tapered part above the cut-off (:meth:`taper_nodes`).
+        """
+        nc = self.cutoff_thz
+        nodes, modes = self.taper_nodes()
+        return float(np.sum(modes * nodes ** power) + self.coefficient * (nc ** (3 + power) / (3 + power)
+                                         + self.curvature * nc ** (5 + power) / (5 + power)
+                                         + self.quartic * nc ** (7 + power) / (7 + power)))
+
+    def scaled(self, factor):
+        """The same fit with the DOS multiplied by ``factor`` [1]."""
+        return replace(self, coefficient=self.coefficient * factor, offset=self.offset * factor,
+                       coefficient_uncertainty=self.coefficient_uncertainty * factor)
 
 
 @dataclass(frozen=True)
 class PhononDOS:
     """A normalised phonon DOS ready for thermodynamic integration.
 
-    The spectrum is ``A ν²`` on ``[0, cutoff]`` (when ``low_frequency`` is set)
+    The spectrum is ``A ν² (1 + b ν² + c ν⁴)`` on ``[0, cutoff]`` (when ``low_frequency`` is set)
     followed by the piecewise-linear tabulated part ``frequency_thz``/``dos``
     (which then starts at the cut-off).  Its total integral is ``3 * atoms``
     minus the imaginary modes dropped under policy ``drop-unscaled``.
@@ -89,7 +159,7 @@ class PhononDOS:
         from .kernels.quadrature import mode_weights
         total = float(mode_weights(self.frequency_thz, self.dos).sum())
         if self.low_frequency is not None:
-            total += self.low_frequency.coefficient * self.low_frequency.cutoff_thz ** 3 / 3.0
+            total += self.low_frequency.analytic_moment()
         return total
 
     def low_frequency_debye_temperature_k(self) -> float | None:

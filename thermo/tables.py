@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import dataclasses
 import datetime
 
 import numpy as np
@@ -13,13 +12,13 @@ from . import __version__
 from .columns import BASES, table_columns
 from .errors import OptionError
 from .formula import formula_unit
-from .kernels.quadrature import mode_weights
+from .accuracy.breakdown import error_breakdown, estimated_relative_error, breakdown_summary
+from .kernels.sums import ZPE_J_PER_MOL_PER_THZ as _ZPE_J_PER_MOL_PER_THZ
+from .kernels.sums import molar_values as _molar_values
 from .kernels.sums import thermal_sums
 
 #: Column names of :func:`tabulate` for each ``per`` choice (from :mod:`thermo.columns`).
 COLUMNS = {basis: table_columns(basis) for basis in BASES}
-#: Zero-point energy [J/mol] per THz of Σ modes·ν/2.
-_ZPE_J_PER_MOL_PER_THZ = sc.N_A * sc.h * 1e12
 
 
 def check_temperatures(temperatures):
@@ -86,14 +85,6 @@ def zero_point_energy(dos):
     399.03
     """
     return float(thermal_sums(dos, [0.0])["zero_point_thz"] * _ZPE_J_PER_MOL_PER_THZ)
-
-
-def _molar_values(sums, t):
-    """C_v, S [J/mol/K] and U, F [J/mol] per mole of formula units."""
-    zpe = sums["zero_point_thz"] * _ZPE_J_PER_MOL_PER_THZ
-    r = sc.R
-    return (r * sums["heat_capacity"], r * sums["entropy"],
-            zpe + r * t * sums["thermal_energy"], zpe - r * t * sums["log_partition"])
 
 
 def _convert(values, per, atoms, formula):
@@ -259,67 +250,6 @@ def table_from_sums(sums, temperatures, per="formula", atoms=1, formula=None):
     return df
 
 
-def _coarsened(dos):
-    """The same DOS on every second grid point, renormalised to its modes."""
-    keep = np.arange(0, dos.frequency_thz.size, 2)
-    if keep[-1] != dos.frequency_thz.size - 1:
-        keep = np.append(keep, dos.frequency_thz.size - 1)
-    coarse = dataclasses.replace(dos, frequency_thz=dos.frequency_thz[keep], dos=dos.dos[keep])
-    grid_fine = dos.mode_count - (0 if dos.low_frequency is None else
-                                  dos.low_frequency.coefficient * dos.low_frequency.cutoff_thz ** 3 / 3)
-    grid_coarse = float(mode_weights(coarse.frequency_thz, coarse.dos).sum())
-    if grid_coarse > 0:
-        coarse = dataclasses.replace(coarse, dos=coarse.dos * grid_fine / grid_coarse)
-    return coarse
-
-
-def estimated_relative_error(dos, temperatures):
-    """Discretisation error estimate: recompute on every second grid point.
-
-    Parameters
-    ----------
-    dos : PhononDOS
-        Normalised DOS.
-    temperatures : array_like
-        Temperatures [K].
-
-    Returns
-    -------
-    float
-        Largest relative difference of C_v, S, U, F between the full and
-        the halved grid [1]; each quantity's difference is divided by
-        ``max(|value|, 1e-3 max|value|)`` so that zero crossings of F do not
-        dominate.
-
-    Notes
-    -----
-    For a rule of order :math:`p` the error of the full grid is about
-    :math:`1/(2^p-1)` of this difference (1/3 for the trapezoid rule), so
-    the estimate is conservative (common practice, Richardson's argument).
-
-    References
-    ----------
-    .. [1] L. F. Richardson, "The deferred approach to the limit", Phil.
-       Trans. R. Soc. A 226, 299-361 (1927).
-
-    Examples
-    --------
-    >>> from thermo.spectrum import PhononDOS
-    >>> nu = np.linspace(0, 5, 201)
-    >>> d = PhononDOS(nu, 9 * nu**2 / 125, atoms=1)
-    >>> estimated_relative_error(d, [100.0, 300.0]) < 1e-4
-    True
-    """
-    t = check_temperatures(temperatures)
-    fine = _molar_values(thermal_sums(dos, t, method="auto"), t)
-    coarse = _molar_values(thermal_sums(_coarsened(dos), t, method="auto"), t)
-    worst = 0.0
-    for a, b in zip(fine, coarse):
-        floor = 1e-3 * float(np.max(np.abs(a))) if np.any(a) else 1.0
-        worst = max(worst, float(np.max(np.abs(a - b) / np.maximum(np.abs(a), floor))))
-    return worst
-
-
 def provenance(dos, temperatures, per="formula", formula=None):
     """Provenance record written beside every exported table.
 
@@ -339,7 +269,9 @@ def provenance(dos, temperatures, per="formula", formula=None):
     dict
         JSON-able values: tool, version, input name and SHA-256, unit, atoms,
         raw integral, scale factor, imaginary share and policy, low-frequency
-        settings, error estimate, warnings, timestamp (UTC, ISO 8601).
+        settings and fit, error estimate and its breakdown
+        (:func:`thermo.accuracy.breakdown.breakdown_summary`), warnings,
+        timestamp (UTC, ISO 8601).
 
     Examples
     --------
@@ -350,6 +282,7 @@ def provenance(dos, temperatures, per="formula", formula=None):
     """
     fit = dos.low_frequency
     src = dos.source
+    breakdown = error_breakdown(dos, temperatures)
     return {
         "tool": "modeheat", "version": __version__,
         "input": src.get("name"), "input_sha256": src.get("sha256"),
@@ -361,8 +294,14 @@ def provenance(dos, temperatures, per="formula", formula=None):
         "low_frequency": "off" if fit is None else ("auto" if fit.automatic else "manual"),
         "low_frequency_window_THz": None if fit is None else list(fit.window_thz),
         "low_frequency_cutoff_THz": None if fit is None else fit.cutoff_thz,
+        "low_frequency_fit": None if fit is None else {
+            "coefficient_per_THz3": fit.coefficient, "coefficient_std_error": fit.coefficient_uncertainty,
+            "curvature_per_THz2": fit.curvature, "offset": fit.offset,
+            "rms_relative_misfit": fit.rms_relative_residual, "blend_top_THz": fit.blend_top_thz,
+            "species_shares": dict(fit.species_shares)},
         "low_frequency_debye_temperature_K": dos.low_frequency_debye_temperature_k(),
-        "estimated_relative_error": estimated_relative_error(dos, temperatures),
+        "estimated_relative_error": estimated_relative_error(dos, temperatures, breakdown),
+        "error_breakdown": breakdown_summary(breakdown),
         "basis": per, "formula": formula,
         "zero_point_energy_kJ_per_mol": zero_point_energy(dos) / 1e3,
         "warnings": list(dos.warnings),

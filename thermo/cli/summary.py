@@ -36,7 +36,9 @@ def summarize(dos, temperatures):
         "low_frequency_debye_temperature_K": info["low_frequency_debye_temperature_K"],
         "heat_capacity_v_298K_J_per_mol_K": float(at_room[column_name("heat_capacity_v")]),
         "entropy_298K_J_per_mol_K": float(at_room[column_name("entropy")]),
+        "low_frequency_fit": info["low_frequency_fit"],
         "estimated_relative_error": info["estimated_relative_error"],
+        "error_breakdown": info["error_breakdown"],
         "max_frequency_THz": float(dos.frequency_thz[dos.dos > 0].max()),
         "warnings": info["warnings"],
     }

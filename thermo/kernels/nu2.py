@@ -20,29 +20,58 @@ from __future__ import annotations
 import numpy as np
 from scipy import special
 
-from .direct import SUM_KEYS
+from .direct import SUM_KEYS, direct_grid_sums
 from .planck import X_MAX as _X_CLIP
 from .planck import H_OVER_K_THZ, log_partition_kernel, thermal_energy_kernel
 
-#: ∫_0^∞ x³/(eˣ−1) dx = π⁴/15.
-_J_INFINITE = np.pi ** 4 / 15.0
-
-
-#: Below this X the Bernoulli series of J(X) is used, above it the e^{−kX} series.
+#: Below this X the Bernoulli series of J_m(X) is used, above it the e^{−kX} series.
 _J_SPLIT = 1.0
-
-
 _J_TERMS = np.arange(1, 41, dtype=float)
+_BERNOULLI = special.bernoulli(40) / special.factorial(np.arange(41))
 
 
-def _bernoulli_coefficients(count=40):
-    """c_n = B_n / (n! (n + 3)) for n = 0..count (B_1 = −1/2)."""
-    b = special.bernoulli(count)
-    n = np.arange(count + 1)
-    return b / (special.factorial(n) * (n + 3))
+def bose_integral(order, upper):
+    """:math:`J_m(X) = \\int_0^X x^m/(e^x-1)\\,dx` for a whole order m >= 1, to rounding.
 
+    Parameters
+    ----------
+    order : int
+        The power :math:`m` [1].
+    upper : array_like
+        Upper limit :math:`X` [1], >= 0.
 
-_J_SERIES = _bernoulli_coefficients()
+    Returns
+    -------
+    numpy.ndarray
+        :math:`J_m(X)` [1]; :math:`m!\\,\\zeta(m+1)` as :math:`X \\to \\infty`.
+
+    Notes
+    -----
+    For :math:`X < 1`, the Bernoulli series
+    :math:`J_m = \\sum_n B_n X^{n+m} / (n!\\,(n+m))` (radius :math:`2\\pi`);
+    above, :math:`J_m = m!\\zeta(m+1) - \\sum_{k=1}^{40} e^{-kX}
+    \\sum_{j=0}^{m} \\frac{m!}{(m-j)!} \\frac{X^{m-j}}{k^{j+1}}`.
+
+    References
+    ----------
+    Abramowitz and Stegun (1964), 23.1.1 and 27.1.
+
+    Examples
+    --------
+    >>> round(float(bose_integral(5, 1e3)) / (8 * np.pi ** 6 / 63), 15)
+    1.0
+    """
+    m = int(order)
+    x = np.asarray(upper, dtype=float)
+    small = x < _J_SPLIT
+    xs = np.where(small, x, 0.0)
+    series = xs ** m * np.polynomial.polynomial.polyval(xs, _BERNOULLI / (np.arange(41) + m))
+    # beyond X = 800 every e^{-kX} underflows: clip so that X^m stays finite
+    big = np.clip(x, _J_SPLIT, 800.0)[..., None]
+    poly = sum(special.factorial(m) / special.factorial(m - j) * big ** (m - j) / _J_TERMS ** (j + 1)
+               for j in range(m + 1))
+    tail = np.sum(np.exp(-big * _J_TERMS) * poly, axis=-1)
+    return np.where(small, series, special.factorial(m) * special.zeta(m + 1) - tail)
 
 
 def debye_integral(upper):
@@ -60,11 +89,7 @@ def debye_integral(upper):
 
     Notes
     -----
-    For :math:`X < 1`, the Bernoulli series
-    :math:`J = \\sum_n B_n X^{n+3} / (n!\\,(n+3))` (radius :math:`2\\pi`);
-    above, :math:`J = \\pi^4/15 - \\sum_{k \\ge 1} e^{-kX}
-    (X^3/k + 3X^2/k^2 + 6X/k^3 + 6/k^4)` with 40 terms (error below
-    :math:`e^{-41}`).
+    :math:`J = J_3` of :func:`bose_integral`.
 
     References
     ----------
@@ -77,17 +102,10 @@ def debye_integral(upper):
     >>> round(float(debye_integral(1e-3)) / (1e-9 / 3), 6)   # x³/(eˣ−1) ≈ x²
     0.999625
     """
-    x = np.asarray(upper, dtype=float)
-    small = x < _J_SPLIT
-    xs = np.where(small, x, 0.0)
-    series = xs ** 3 * np.polynomial.polynomial.polyval(xs, _J_SERIES)
-    # beyond X = 800 every e^{-kX} underflows: clip so that X³ stays finite
-    z = np.clip(x, _J_SPLIT, 800.0)[..., None] * _J_TERMS          # z = kX
-    tail = np.sum(np.exp(-z) * (((z + 3.0) * z + 6.0) * z + 6.0) / _J_TERMS ** 4, axis=-1)
-    return np.where(small, series, _J_INFINITE - tail)
+    return bose_integral(3, upper)
 
 
-def nu2_part_sums(coefficient, cutoff_thz, temperatures):
+def nu2_part_sums(coefficient, cutoff_thz, temperatures, curvature=0.0, quartic=0.0):
     """Sums of the analytic part :math:`A\\nu^2` on :math:`[0, \\nu_c]`, in closed form.
 
     Parameters
@@ -98,6 +116,9 @@ def nu2_part_sums(coefficient, cutoff_thz, temperatures):
         :math:`\\nu_c` [THz].
     temperatures : array_like, shape (M,)
         Temperatures [K], > 0.
+    curvature, quartic : float
+        :math:`b` [1/THz²] and :math:`c` [1/THz⁴] of the form
+        :math:`A\\nu^2(1 + b\\nu^2 + c\\nu^4)`.
 
     Returns
     -------
@@ -116,6 +137,13 @@ def nu2_part_sums(coefficient, cutoff_thz, temperatures):
         \\int_0^X x^2 c\\,dx = 4J - X^3 u(X),\\quad
         \\int_0^X x^2 \\ell\\,dx = \\frac{X^3 \\ell(X) + J}{3}.
 
+    The :math:`Ab\\nu^4` and :math:`Ac\\nu^6` terms add the same with
+    :math:`s_{m+1} = A b (k_BT/h)^{m+1}` (resp. :math:`Ac`) and
+    :math:`J_{m+1}` of :func:`bose_integral`; in general
+    :math:`\\int_0^X x^m c = (m+2)J_{m+1} - X^{m+1}u(X)`,
+    :math:`\\int_0^X x^m u = J_{m+1}`,
+    :math:`\\int_0^X x^m \\ell = (X^{m+1}\\ell(X) + J_{m+1})/(m+1)` at m = 4, 6.
+
     References
     ----------
     Debye (1912); Abramowitz and Stegun (1964), 27.1.
@@ -130,11 +158,60 @@ def nu2_part_sums(coefficient, cutoff_thz, temperatures):
     t = np.asarray(temperatures, dtype=float)
     if coefficient == 0.0 or cutoff_thz <= 0.0:
         return {key: np.zeros_like(t) for key in SUM_KEYS}
-    scale = coefficient * (t / H_OVER_K_THZ) ** 3
     big_x = H_OVER_K_THZ * cutoff_thz / t
-    j = debye_integral(big_x)
-    # X³ u(X) and X³ ℓ(X) vanish beyond the kernels' clipping; keep X³ finite there
-    cube = np.where(big_x < _X_CLIP, big_x, 0.0) ** 3
-    return {"heat_capacity": scale * (4.0 * j - cube * thermal_energy_kernel(big_x)),
-            "thermal_energy": scale * j,
-            "log_partition": scale * (cube * log_partition_kernel(big_x) + j) / 3.0}
+    # X^k u(X) and X^k ℓ(X) vanish beyond the kernels' clipping; keep X^k finite there
+    inside = np.where(big_x < _X_CLIP, big_x, 0.0)
+    u_edge, l_edge = thermal_energy_kernel(big_x), log_partition_kernel(big_x)
+    out = {key: np.zeros_like(t) for key in SUM_KEYS}
+    for power, factor in ((2, coefficient), (4, coefficient * curvature), (6, coefficient * quartic)):
+        if factor == 0.0:
+            continue
+        scale = factor * (t / H_OVER_K_THZ) ** (power + 1)
+        j = bose_integral(power + 1, big_x)
+        edge = inside ** (power + 1)
+        out["heat_capacity"] = out["heat_capacity"] + scale * ((power + 2) * j - edge * u_edge)
+        out["thermal_energy"] = out["thermal_energy"] + scale * j
+        out["log_partition"] = out["log_partition"] + scale * (edge * l_edge + j) / (power + 1)
+    return out
+
+
+def analytic_part_sums(fit, temperatures):
+    """Sums of the whole analytic part of a :class:`~thermo.spectrum.LowFrequencyFit`.
+
+    Parameters
+    ----------
+    fit : LowFrequencyFit
+        The fitted form, its cut-off and taper.
+    temperatures : array_like, shape (M,)
+        Temperatures [K], > 0.
+
+    Returns
+    -------
+    dict of str to numpy.ndarray, shape (M,)
+        As :func:`nu2_part_sums`.
+
+    Notes
+    -----
+    :math:`\\int_0^{\\nu_a} M K\\,d\\nu` in closed form (:func:`nu2_part_sums`)
+    plus :math:`\\int_{\\nu_a}^{\\nu_m} W M K\\,d\\nu` by 48-point
+    Gauss–Legendre quadrature (smooth integrand, error far below rounding of
+    the table).
+
+    References
+    ----------
+    Abramowitz and Stegun (1964), 25.4.29.
+
+    Examples
+    --------
+    >>> from thermo.spectrum import LowFrequencyFit
+    >>> s = analytic_part_sums(LowFrequencyFit(9.0, 1.0, (0.0, 1.0)), [1e7])
+    >>> round(float(s["heat_capacity"][0]), 6)
+    3.0
+    """
+    t = np.asarray(temperatures, dtype=float)
+    out = nu2_part_sums(fit.coefficient, fit.cutoff_thz, t, fit.curvature, fit.quartic)
+    nodes, modes = fit.taper_nodes()
+    if nodes.size:
+        extra = direct_grid_sums(nodes, modes, t)
+        out = {key: out[key] + extra[key] for key in SUM_KEYS}
+    return out

@@ -180,5 +180,6 @@ def mode_quadrature(dos):
     if fit is None or fit.cutoff_thz <= 0:
         return nodes, weights
     gl_nodes = fit.cutoff_thz * _GL_NODES
-    gl_weights = fit.cutoff_thz * _GL_WEIGHTS * fit.coefficient * gl_nodes ** 2
-    return np.concatenate([gl_nodes, nodes]), np.concatenate([gl_weights, weights])
+    gl_weights = fit.cutoff_thz * _GL_WEIGHTS * fit.coefficient * gl_nodes ** 2 * (1.0 + gl_nodes ** 2 * (fit.curvature + fit.quartic * gl_nodes ** 2))
+    taper_nodes, taper_modes = fit.taper_nodes()
+    return np.concatenate([gl_nodes, taper_nodes, nodes]), np.concatenate([gl_weights, taper_modes, weights])

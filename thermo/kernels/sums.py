@@ -11,12 +11,38 @@ References
 from __future__ import annotations
 
 import numpy as np
+from scipy import constants as sc
 
 from ..errors import OptionError
 from . import loggrid
 from .direct import SUM_KEYS, direct_grid_sums
-from .nu2 import nu2_part_sums
+from .nu2 import analytic_part_sums
 from .quadrature import mode_weights
+
+#: Zero-point energy [J/mol] per THz of Σ modes·ν/2.
+ZPE_J_PER_MOL_PER_THZ = sc.N_A * sc.h * 1e12
+
+
+def molar_values(sums, t):
+    """C_v, S [J/(mol·K)] and U, F [J/mol] per mole of formula units from the sums.
+
+    Notes
+    -----
+    :math:`C_v = R\\Sigma_c`, :math:`S = R\\Sigma_s`,
+    :math:`U = E_0 + RT\\Sigma_u`, :math:`F = E_0 - RT\\Sigma_\\ell`.
+
+    Examples
+    --------
+    >>> s = {"heat_capacity": np.array([1.0]), "entropy": np.array([0.0]),
+    ...      "thermal_energy": np.array([0.0]), "log_partition": np.array([0.0]), "zero_point_thz": 0.0}
+    >>> round(float(molar_values(s, np.array([1.0]))[0][0]), 6)
+    8.314463
+    """
+    zpe = sums["zero_point_thz"] * ZPE_J_PER_MOL_PER_THZ
+    r = sc.R
+    return (r * sums["heat_capacity"], r * sums["entropy"],
+            zpe + r * t * sums["thermal_energy"], zpe - r * t * sums["log_partition"])
+
 
 def grid_sums(nodes_thz, weights, temperatures, method="auto"):
     """Dispatch the table-part sums to the direct or the fast evaluation.
@@ -91,12 +117,13 @@ def thermal_sums(dos, temperatures, method="auto"):
     if hot.any():
         parts = [grid_sums(dos.frequency_thz, mode_weights(dos.frequency_thz, dos.dos), t[hot], method)]
         if dos.low_frequency is not None:
-            parts.append(nu2_part_sums(dos.low_frequency.coefficient, dos.low_frequency.cutoff_thz, t[hot]))
+            fit = dos.low_frequency
+            parts.append(analytic_part_sums(fit, t[hot]))
         for key in SUM_KEYS:
             out[key][hot] = sum(p[key] for p in parts)
     out["entropy"] = out["thermal_energy"] + out["log_partition"]
     zp = float(np.sum(mode_weights(dos.frequency_thz, dos.dos) * dos.frequency_thz)) / 2
     if dos.low_frequency is not None:
-        zp += dos.low_frequency.coefficient * dos.low_frequency.cutoff_thz ** 4 / 8
+        zp += dos.low_frequency.analytic_moment(1) / 2
     out["zero_point_thz"] = zp
     return out

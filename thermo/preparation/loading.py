@@ -10,14 +10,15 @@ from __future__ import annotations
 import dataclasses
 
 import numpy as np
+from dataclasses import replace
 
 from ..errors import DosInputError, OptionError
 from ..kernels.quadrature import mode_weights
 from .imaginary import check_policy, imaginary_warnings, split_at_zero
-from .lowfreq import apply_low_frequency, fit_low_frequency
+from .lowfreq import WINDOW_MODES, blend_low_frequency, fit_low_frequency, window_shares
 from .atoms import modes_text, resolve_atoms
 from ..io.readers import read_table
-from ..spectrum import LowFrequencyFit, PhononDOS
+from ..spectrum import PhononDOS
 from ..units import FREQUENCY_UNITS, canonical_unit, thz_to_unit
 from .plausibility import entropy_298_per_atom, partial_sum_warnings, unit_warnings
 from .validation import check_spectrum
@@ -156,26 +157,15 @@ import numpy as np
     if nu.size < 3 or real_integral <= 0:
         raise DosInputError("no real (positive-frequency) modes left after removing imaginary ones", src)
 
-    fit, fit_note = (None, None)
-    if window is not None:
-        fit, fit_note = fit_low_frequency(nu, cols[0], None if window == "auto" else window)
-    if fit_note:
-        notes.append(fit_note)
-    grid, cut = (nu, cols) if fit is None else apply_low_frequency(nu, cols, fit.cutoff_thz)
-    treated = float(mode_weights(grid, cut[0]).sum()) + (0.0 if fit is None else fit.coefficient * fit.cutoff_thz ** 3 / 3)
-    real_modes = 3 * n_atoms * (1.0 if policy == "drop" else 1.0 - share)
-    scale = real_modes / treated
-    if not inferred and abs(raw_integral / (3 * n_atoms) - 1) > 0.02:
-        notes.append(f"the DOS integrates to {modes_text(raw_integral)} and is rescaled by "
-                     f"{scale:.6g} to 3n = {3 * n_atoms}")
-    if fit is not None:
-        fit = LowFrequencyFit(fit.coefficient * scale, fit.cutoff_thz, fit.window_thz,
-                              fit.offset * scale, fit.rms_relative_residual, fit.automatic)
+    grid, cut, fit, scale, more = treat_spectrum(nu, cols, names, n_atoms, share, policy, window,
+                                                 raw_integral, inferred)
+    notes += more
     provenance = {
         "name": src, "sha256": clean.sha256, "freq_unit": unit,
         "raw_integral": raw_integral, "scale_factor": scale,
         "negative_mode_fraction": share, "negative_policy": policy,
         "atoms_inferred": inferred, "columns": list(clean.names),
+        "low_frequency_option": window,
     }
     if raw.sheet is not None:
         provenance["sheet"] = raw.sheet
@@ -191,3 +181,99 @@ import numpy as np
     if checks:
         dos = dataclasses.replace(dos, warnings=dos.warnings + tuple(checks))
     return dos
+
+
+def _start_note(first, fit, modes_below, total):
+    """The one warning about a DOS whose rows start above zero (None if they do not)."""
+    if first <= 0:
+        return None
+    pct = 100.0 * modes_below / total
+    if fit is not None:
+        return (f"the DOS starts at {first:.4g} THz, not 0: the fitted ν² law implies {pct:.3g} % of the "
+                f"modes below it, which were extrapolated with that law")
+    return (f"the DOS starts at {first:.4g} THz, not 0: about {pct:.3g} % of the modes (a ν² law through "
+            "the first row) lie below it and were left out; low-temperature values are too low")
+
+
+def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="auto",
+                   raw_integral=None, inferred=False, window_modes=WINDOW_MODES):
+    """Low-frequency treatment and normalisation of the real (ν >= 0) part.
+
+    Parameters
+    ----------
+    nu : numpy.ndarray, shape (N,)
+        Ascending frequencies >= 0 [THz].
+    cols : list of numpy.ndarray
+        Total DOS, then partials [states / THz, any scale].
+    names : list of str
+        Names of the partial columns.
+    atoms : int
+        Atoms per formula unit n.
+    share : float
+        Imaginary share of the modes [1].
+    policy : str
+        Imaginary-mode policy (``drop`` or ``keep-count``).
+    window : 'auto', None or (low, high)
+        Low-frequency option as normalised by :func:`load_dos`.
+    raw_integral : float, optional
+        Integral of the DOS as read, for the rescale report.
+    inferred : bool
+        Whether n was inferred from the integral (said in the rescale report).
+    window_modes : float
+        Modes below the automatic window's top (see :mod:`.lowfreq`).
+
+    Returns
+    -------
+    grid, columns, fit, scale, notes
+        Tabulated part, the fit scaled to 3n (or None), the factor applied
+        to the DOS [1] and the warnings.
+
+    Notes
+    -----
+    :math:`\\text{scale} = 3n(1 - f_{\\text{imag}}^{[\\text{keep-count}]}) /
+    (\\int g_{\\text{treated}} + \\int_0^{\\nu_c} A\\nu^2(1+b\\nu^2+c\\nu^4)d\\nu)`.
+
+    Examples
+    --------
+    >>> nu = np.linspace(0.0, 5.0, 101)
+    >>> grid, cols, fit, scale, notes = treat_spectrum(nu, [9 * nu**2 / 125], [], 1)
+    >>> round(scale, 4), fit.cutoff_thz > 0, len(notes)   # trapezoid excess of ∫ν², reported
+    (1.0, True, 1)
+    """
+    notes = []
+    real_modes = 3 * atoms * (1.0 if policy == "drop" else 1.0 - share)
+    fit, fit_note = (None, None)
+    if window is not None:
+        fit, fit_note = fit_low_frequency(nu, cols[0], None if window == "auto" else window,
+                                          total_modes=real_modes, window_modes=window_modes)
+    if fit_note:
+        notes.append(fit_note)
+    if fit is not None and names:
+        shares = window_shares(nu, cols[1:], fit.window_thz)
+        fit = replace(fit, species_shares=dict(zip(names, shares)))
+    if fit is None:
+        grid, cut = nu, cols
+    else:
+        grid, cut = blend_low_frequency(nu, cols, fit)
+    tabulated = float(mode_weights(grid, cut[0]).sum())
+    analytic = 0.0 if fit is None else fit.analytic_moment()
+    scale = real_modes / (tabulated + analytic)
+    first = float(nu[0])
+    if fit is None:
+        below = float(cols[0][0]) * first / 3.0
+        note = _start_note(first, None, below * scale, real_modes) if cols[0][0] > 0 else None
+    else:
+        below = fit.coefficient * first ** 3 * (1 / 3 + first ** 2 * (fit.curvature / 5 + fit.quartic * first ** 2 / 7))
+        note = _start_note(first, fit, below * scale, real_modes)
+    if note:
+        notes.append(note)
+    if abs(scale - 1.0) > 1e-6:
+        read = "" if raw_integral is None else f"the DOS as read integrates to {modes_text(raw_integral)}; "
+        why = f"3n with n = {atoms}{' (inferred)' if inferred else ''}"
+        if policy != "drop" and share > 0:
+            why += f" less the {100 * share:.3g} % imaginary modes"
+        notes.append(f"{read}after the low-frequency treatment it is rescaled by ×{scale:.6g} to "
+                     f"{real_modes:.6g} modes ({why})")
+    if fit is not None:
+        fit = fit.scaled(scale)
+    return grid, cut, fit, scale, notes

@@ -5,6 +5,7 @@ from __future__ import annotations
 import dash
 from dash import ClientsideFunction, Input, Output, State, callback, clientside_callback, ctx, dcc, html, no_update
 
+from thermo.accuracy.breakdown import FLAG_SPREAD, error_breakdown, error_column
 from thermo.errors import OptionError
 from thermo.units import FREQUENCY_UNITS
 
@@ -204,11 +205,34 @@ def warning_items(dos):
     fit = dos.low_frequency
     if fit is not None:
         theta = dos.low_frequency_debye_temperature_k()
-        items.append(("info", f"ν² form below {fit.cutoff_thz:.4g} THz, fitted over "
-                      f"{fit.window_thz[0]:.3g}–{fit.window_thz[1]:.3g} THz "
+        items.append(("info", f"ν² form below {fit.cutoff_thz:.4g} THz, blended into the data up to "
+                      f"{fit.blend_top_thz or fit.cutoff_thz:.4g} THz, fitted over "
+                      f"{fit.window_thz[0]:.3g}–{fit.window_thz[1]:.3g} THz: A = {fit.coefficient:.5g} "
+                      f"± {fit.coefficient_uncertainty:.2g} per THz³, b = {fit.curvature:.3g} per THz² "
                       f"(misfit {100 * fit.rms_relative_residual:.2g} %"
                       + (f", elastic-limit θ_D ≈ {theta:.4g} K)" if theta else ")")))
     items += [("warn", w) for w in dos.warnings]
+    return items + accuracy_items(dos)
+
+
+#: Temperatures of the error breakdown shown beside the spectrum [K].
+ACCURACY_TEMPERATURES = (5.0, 20.0, 298.15)
+
+
+def accuracy_items(dos):
+    """``(kind, text)`` lines of the error breakdown (numerical / low-frequency) of C_v and S."""
+    table = error_breakdown(dos, ACCURACY_TEMPERATURES)
+    items = []
+    for key, symbol, unit in (("heat_capacity_v", "C_v", "J/(mol·K)"), ("entropy", "S", "J/(mol·K)")):
+        for _, row in table.iterrows():
+            num, low = row[error_column(key, "numerical")], row[error_column(key, "low_frequency")]
+            rel_num = row[error_column(key, "numerical", relative=True)]
+            rel_low = row[error_column(key, "low_frequency", relative=True)]
+            kind = "warn" if rel_low > FLAG_SPREAD else "info"
+            items.append((kind, f"error estimate {symbol}({row['temperature_K']:g} K): numerical ±{num:.2g} "
+                                f"{unit} ({100 * rel_num:.2g} %), low-frequency ±{low:.2g} {unit} "
+                                f"({100 * rel_low:.2g} %)" + (" — over 1 %, check against measured data"
+                                                              if kind == "warn" else "")))
     return items
 
 

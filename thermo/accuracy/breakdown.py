@@ -1,0 +1,246 @@
+"""Error estimate of a harmonic table, split into a numerical and a low-frequency part.
+
+*Numerical*: the whole preparation is repeated on every second row of the
+input (the low-frequency treatment re-fitted on that halved grid) and the
+table recomputed; the difference is the estimate (conservative: for a rule of
+order p the full grid's error is about :math:`1/(2^p-1)` of it, Richardson's
+argument [1]_).
+
+*Low-frequency*: the spread of the table over plausible treatments — the
+automatic window placed at half and at twice its mode count, the fit's
+standard error of :math:`A` carried through the analytic part, and, when the
+treatment was switched off or set by hand, the automatic treatment.
+
+Both are given absolute (in the table's units) and relative to the value
+itself (no floor, so small values near T = 0 are judged too).
+
+References
+----------
+.. [1] L. F. Richardson, "The deferred approach to the limit", Phil. Trans.
+   R. Soc. A 226, 299-361 (1927).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+import pandas as pd
+
+from ..columns import column_name
+from ..kernels.nu2 import analytic_part_sums
+
+from ..kernels.quadrature import mode_weights
+from ..kernels.sums import molar_values, thermal_sums
+from ..preparation.imaginary import split_at_zero
+from ..preparation.loading import treat_spectrum
+from ..preparation.lowfreq import WINDOW_MODES, WINDOW_SPREAD
+from ..spectrum import PhononDOS
+from scipy import constants as sc
+
+#: Quantities of the breakdown, in the order of :func:`thermo.kernels.sums.molar_values`.
+QUANTITIES = ("heat_capacity_v", "entropy", "internal_energy", "helmholtz_energy")
+#: Relative low-frequency spread above which a row is flagged.
+FLAG_SPREAD = 0.01
+_ENERGY = (False, False, True, True)
+
+
+def _rebuild(dos, every=1, window="same", window_modes=WINDOW_MODES):
+    """The DOS prepared again from its input rows (every ``every``-th), or None."""
+    if dos.input_frequency_thz is None or dos.input_dos is None:
+        return _halved_table(dos) if every == 2 else None
+    nu_all, g_all = np.asarray(dos.input_frequency_thz), np.asarray(dos.input_dos)
+    keep = np.arange(0, nu_all.size, every)
+    if keep[-1] != nu_all.size - 1:
+        keep = np.append(keep, nu_all.size - 1)
+    _neg, nu, cols = split_at_zero(nu_all[keep], [g_all[keep]])
+    if nu.size < 3:
+        return None
+    if window == "same":
+        window = dos.source.get("low_frequency_option", "auto" if dos.low_frequency is not None else None)
+    share = dos.source.get("negative_mode_fraction") or 0.0
+    policy = dos.source.get("negative_policy") or "drop"
+    grid, cut, fit, scale, _notes = treat_spectrum(nu, cols, [], dos.atoms, share, policy, window,
+                                                   window_modes=window_modes)
+    return PhononDOS(grid, cut[0] * scale, dos.atoms, low_frequency=fit)
+
+
+def _halved_table(dos):
+    """A DOS built without input rows: its tabulated part on every second point, same modes, same fit."""
+    nu, g = np.asarray(dos.frequency_thz), np.asarray(dos.dos)
+    keep = np.arange(0, nu.size, 2)
+    if keep[-1] != nu.size - 1:
+        keep = np.append(keep, nu.size - 1)
+    if keep.size < 2:
+        return None
+    full, half = mode_weights(nu, g).sum(), mode_weights(nu[keep], g[keep]).sum()
+    factor = full / half if half > 0 else 1.0
+    return PhononDOS(nu[keep], g[keep] * factor, dos.atoms, low_frequency=dos.low_frequency)
+
+
+def _values(dos, t):
+    return np.array(molar_values(thermal_sums(dos, t), t))
+
+
+def _fit_part(dos, t):
+    """Change of C_v, S, U, F when A moves by its standard error."""
+    fit = dos.low_frequency
+    if fit is None or fit.coefficient <= 0 or not np.isfinite(fit.coefficient_uncertainty):
+        return np.zeros((4, t.size))
+    out = np.zeros((4, t.size))
+    hot = t > 0
+    s = analytic_part_sums(fit, t[hot])
+    rel = fit.coefficient_uncertainty / fit.coefficient
+    r = sc.R
+    out[:, hot] = rel * np.abs(np.array([r * s["heat_capacity"], r * (s["thermal_energy"] + s["log_partition"]),
+                                         r * t[hot] * s["thermal_energy"], r * t[hot] * s["log_partition"]]))
+    return out
+
+
+def error_breakdown(dos, temperatures):
+    """Numerical and low-frequency error of C_v, S, U and F at each temperature.
+
+    Parameters
+    ----------
+    dos : PhononDOS
+        Normalised DOS (from :func:`thermo.load_dos`, whose input rows are
+        kept for the re-preparation).
+    temperatures : array_like, shape (M,)
+        Temperatures [K], >= 0.
+
+    Returns
+    -------
+    pandas.DataFrame
+        ``temperature_K``; for each quantity ``q`` of :data:`QUANTITIES`
+        its value and its numerical and low-frequency errors (per mole of
+        formula units: J/(mol·K), kJ/mol) and their relative forms [1],
+        named by :func:`error_column`; ``low_frequency_flag``, True where the
+        relative low-frequency part of C_v or S exceeds 1 %.
+
+    Notes
+    -----
+    :math:`\\delta_{num} = |Q_h - Q_{h/2}|` (re-prepared on the halved grid);
+    :math:`\\delta_{lf} = \\max_w |Q_w - Q| + |\\partial Q/\\partial A|\\,\\sigma_A`
+    over the alternative treatments w; relative: :math:`\\delta/|Q|` (0 where
+    Q = 0, at T = 0).
+
+    References
+    ----------
+    Richardson (1927).
+
+    Examples
+    --------
+    >>> from thermo import load_dos
+    >>> nu = np.linspace(0.0, 8.0, 401)
+    >>> dos = load_dos("# THz\\n" + "\\n".join(f"{a} {9 * a * a / 512}" for a in nu))
+    >>> b = error_breakdown(dos, [5.0, 300.0])
+    >>> bool(b[error_column("heat_capacity_v", "numerical", relative=True)].max() < 1e-3)
+    True
+    """
+    t = np.atleast_1d(np.asarray(temperatures, dtype=float)).ravel()
+    base = _values(dos, t)
+    halved = _rebuild(dos, every=2)
+    numerical = np.abs(base - _values(halved, t)) if halved is not None else np.zeros_like(base)
+    alternatives = []
+    fit = dos.low_frequency
+    if fit is not None and fit.automatic:
+        alternatives = [_rebuild(dos, window="auto", window_modes=WINDOW_MODES * f) for f in WINDOW_SPREAD]
+    elif dos.input_dos is not None:
+        alternatives = [_rebuild(dos, window="auto")]
+    spread = np.zeros_like(base)
+    for alt in alternatives:
+        if alt is not None and (alt.low_frequency is not None or fit is not None):
+            spread = np.maximum(spread, np.abs(_values(alt, t) - base))
+    low = spread + _fit_part(dos, t)
+    columns = {column_name("temperature"): t}
+    with np.errstate(divide="ignore", invalid="ignore"):
+        for i, key in enumerate(QUANTITIES):
+            k = 1e-3 if _ENERGY[i] else 1.0
+            value = base[i]
+            columns[column_name(key)] = value * k
+            for part, err in (("numerical", numerical[i]), ("low_frequency", low[i])):
+                columns[error_column(key, part)] = err * k
+                columns[error_column(key, part, relative=True)] = np.where(value != 0, err / np.abs(value), 0.0)
+    df = pd.DataFrame(columns)
+    df[column_name("low_frequency_flag")] = (
+        (df[error_column("heat_capacity_v", "low_frequency", True)] > FLAG_SPREAD)
+        | (df[error_column("entropy", "low_frequency", True)] > FLAG_SPREAD))
+    return df
+
+
+def error_column(key, part, relative=False):
+    """Column name of the ``part`` ('numerical' or 'low_frequency') error of quantity ``key``.
+
+    Examples
+    --------
+    >>> error_column("heat_capacity_v", "numerical")
+    'heat_capacity_v_numerical_error_J_per_mol_K'
+    >>> error_column("entropy", "low_frequency", relative=True)
+    'entropy_low_frequency_relative_error'
+    """
+    return column_name(f"{key}_{part}_relative_error" if relative else f"{key}_{part}_error")
+
+
+def estimated_relative_error(dos, temperatures, breakdown=None):
+    """Largest relative error estimate (numerical + low-frequency) over the table.
+
+    Parameters
+    ----------
+    dos : PhononDOS
+        Normalised DOS.
+    temperatures : array_like
+        Temperatures [K].
+    breakdown : pandas.DataFrame, optional
+        A ready :func:`error_breakdown` of the same DOS and temperatures.
+
+    Returns
+    -------
+    float
+        :math:`\\max (\\delta_{num} + \\delta_{lf})/|Q|` over C_v, S and U at
+        every T > 0, and over F relative to :math:`|U|` (F crosses zero) [1].
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> nu = np.linspace(0, 5, 201)
+    >>> d = PhononDOS(nu, 9 * nu**2 / 125, atoms=1)
+    >>> 1e-9 < estimated_relative_error(d, [100.0, 300.0]) < 1e-3
+    True
+    """
+    b = error_breakdown(dos, temperatures) if breakdown is None else breakdown
+    hot = b[column_name("temperature")].to_numpy() > 0
+    if not hot.any():
+        return 0.0
+    worst = 0.0
+    energy = np.abs(b[column_name("internal_energy")].to_numpy()[hot])
+    for key in QUANTITIES:
+        total = (b[error_column(key, "numerical")] + b[error_column(key, "low_frequency")]).to_numpy()[hot]
+        ref = energy if key == "helmholtz_energy" else np.abs(b[column_name(key)].to_numpy()[hot])
+        with np.errstate(divide="ignore", invalid="ignore"):
+            rel = np.where(ref > 0, total / ref, 0.0)
+        worst = max(worst, float(np.max(rel)))
+    return worst
+
+
+def breakdown_summary(breakdown):
+    """JSON-able digest of :func:`error_breakdown`: worst parts per quantity and flagged rows.
+
+    Examples
+    --------
+    >>> b = pd.DataFrame({"temperature_K": [1.0], "low_frequency_flag": [True],
+    ...                   **{error_column(q, p, r): [0.0] for q in QUANTITIES
+    ...                      for p in ("numerical", "low_frequency") for r in (False, True)}})
+    >>> breakdown_summary(b)["flagged_temperatures_K"]
+    [1.0]
+    """
+    t = breakdown[column_name("temperature")].to_numpy()
+    out = {}
+    for key in QUANTITIES:
+        entry = {}
+        for part in ("numerical", "low_frequency"):
+            rel = breakdown[error_column(key, part, relative=True)].to_numpy()
+            i = int(np.argmax(rel)) if rel.size else 0
+            entry[part] = {"max_relative": float(rel[i]) if rel.size else 0.0,
+                           "at_temperature_K": float(t[i]) if rel.size else None,
+                           "max_absolute": float(breakdown[error_column(key, part)].max())}
+        out[key] = entry
+    out["flagged_temperatures_K"] = [float(v) for v in t[breakdown[column_name("low_frequency_flag")].to_numpy()]]
+    return out
