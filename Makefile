@@ -33,8 +33,10 @@ bench-json: $(VENV)/.test-installed   ## the same as one JSON object
 bench-quick: $(VENV)/.test-installed  ## smoke run: fewer repeats, 200 batch files
 	$(PY) -m bench --quick
 
-demo-data: $(VENV)/.installed
+demo-data: $(VENV)/.installed  ## regenerate every invented demo file (deterministic)
 	$(PY) sample_dos/generate.py
+	$(PY) sample_dos/volumes/generate_volumes.py
+	$(PY) sample_dos/generate_calorimetry.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info .pytest_cache
