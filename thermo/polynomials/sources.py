@@ -227,18 +227,41 @@ def source_from_table(table, entropy_298=None, label="C_p table"):
     """
     t = find(table, "temperature")
     notes = []
-    try:
-        cp = find(table, "heat_capacity_p", "formula")
-    except OptionError:
-        try:
-            cp = find(table, "heat_capacity_v", "formula")
-        except OptionError:
-            raise OptionError("the table has no heat_capacity_p_J_per_mol_K (or heat_capacity_v_J_per_mol_K) "
-                              "column; values per mole of formula units are needed") from None
+    cp = _first_column(table, ("heat_capacity_p", "heat_capacity_p_model", "heat_capacity_v"))
+    if cp is None:
+        raise OptionError("the table has no heat_capacity_p_J_per_mol_K (or heat_capacity_p_model_J_per_mol_K of a "
+                          "calorimetry fit, or heat_capacity_v_J_per_mol_K) column; values per mole of formula "
+                          "units are needed")
+    if cp.startswith("heat_capacity_v"):
         notes.append(f"column {cp} (C_v) taken as C_p")
-    try:
-        s = table[find(table, "entropy", "formula")].to_numpy(dtype=float)
-    except OptionError:
-        s = None
-    return heat_capacity_source(table[t].to_numpy(dtype=float), table[cp].to_numpy(dtype=float),
-                                entropy=s, entropy_298=entropy_298, label=label, notes=notes)
+    elif cp.startswith("heat_capacity_p_model"):
+        notes.append(f"column {cp} (the fitted model of a calorimetry table) taken as C_p")
+    entropy_column = _first_column(table, ("entropy", "entropy_third_law"))
+    s = None if entropy_column is None else table[entropy_column].to_numpy(dtype=float)
+    if entropy_column and entropy_column.startswith("entropy_third_law"):
+        notes.append(f"S from column {entropy_column} (third-law entropy integrated from the measured data)")
+    temperature, heat = table[t].to_numpy(dtype=float), table[cp].to_numpy(dtype=float)
+    keep = (temperature > 0) & np.isfinite(heat) & (np.isfinite(s) if s is not None else True)
+    if (temperature <= 0).any():
+        notes.append(f"{int((temperature <= 0).sum())} row(s) at T <= 0 K left out (C_p/T is not defined there)")
+    empty = int((~keep & (temperature > 0)).sum())
+    if empty:
+        notes.append(f"{empty} row(s) without finite C_p or S left out")
+    outside = "outside_volume_range"
+    if outside in table.columns:      # quasi-harmonic rows extrapolated beyond the sampled volumes
+        marked = table[outside].astype(bool).to_numpy()
+        if (marked & keep).any():
+            notes.append(f"{int((marked & keep).sum())} quasi-harmonic row(s) outside the sampled volumes left out")
+        keep &= ~marked
+    return heat_capacity_source(temperature[keep], heat[keep], entropy=None if s is None else s[keep],
+                                entropy_298=entropy_298, label=label, notes=notes)
+
+
+def _first_column(table, quantities):
+    """Name of the first of ``quantities`` (per mole of formula units) present in ``table``, else None."""
+    for quantity in quantities:
+        try:
+            return find(table, quantity, "formula")
+        except OptionError:
+            continue
+    return None
