@@ -17,7 +17,7 @@ def register(sub):
         if action.dest == "file":
             action.metavar = "MANIFEST"
             action.help = ("volume set: CSV with volume_A3, energy_eV (or energy_Ry/energy_Ha/"
-                           "energy_kJ_per_mol) and dos_file (relative to the manifest), one row per volume")
+                           "energy_kJ_per_mol) and dos_file (relative to the manifest, or ws:NAME for a dataset of the workspace), one row per volume")
     add_temperature_option(p, default=_DEFAULT_TEMPERATURES)
     p.add_argument("--pressure", type=float, default=0.0, metavar="GPa", help="pressure p in GPa (default 0)")
     p.add_argument("--eos", default="birch-murnaghan", choices=["birch-murnaghan", "vinet"],
@@ -41,7 +41,8 @@ def run(args) -> int:
         raise OptionError(f"--imaginary-tolerance must be a fraction in [0, 1), got {tolerance:g}")
     plan = output_plan(args)
     volume_set = read_manifest(args.file, freq_unit=args.freq_unit, atoms=args.atoms,
-                               negative=args.negative, low_frequency=args.low_frequency)
+                               negative=args.negative, low_frequency=args.low_frequency,
+                               resolve=_workspace_resolver(args))
     table = quasiharmonic_table(volume_set, temperatures, pressure_gpa=args.pressure, eos=args.eos,
                                 per=args.per, formula=args.formula, imaginary_tolerance=tolerance)
     info = quasiharmonic_provenance(volume_set, table, temperatures)
@@ -51,3 +52,16 @@ def run(args) -> int:
     print(f"note: {args.eos} fit to F(V) over {volume_set.volumes_a3.size} volumes, largest rms residual "
           f"{residual:.3g} meV per formula unit (column eos_fit_residual_meV)", file=sys.stderr)
     return emit_table(table, info, args, plan)
+
+
+def _workspace_resolver(args):
+    """``ws:NAME`` entries of the manifest read from the workspace (opened on first use)."""
+    from .workspace import REFERENCE_PREFIX, open_space
+    opened = {}
+
+    def resolve(reference):
+        if "space" not in opened:
+            opened["space"] = open_space(args)
+        space = opened["space"]
+        return space.content(space.get(str(reference)[len(REFERENCE_PREFIX):]))
+    return resolve

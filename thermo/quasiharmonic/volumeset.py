@@ -155,7 +155,7 @@ def parse_manifest(text, name="<manifest>"):
 
 
 def read_manifest(source, files=None, freq_unit=None, atoms=None, negative="drop",
-                  low_frequency="auto", name=None):
+                  low_frequency="auto", name=None, resolve=None):
     """Read a manifest and every DOS it lists.
 
     Parameters
@@ -169,6 +169,9 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative="drop
         As :func:`thermo.preparation.load_dos`, applied to every DOS.
     name : str, optional
         Display name of the manifest.
+    resolve : callable, optional
+        ``resolve(reference) -> bytes`` for ``dos_file`` entries of the form
+        ``ws:NAME`` (datasets of a workspace; the command line passes one).
 
     Returns
     -------
@@ -207,7 +210,12 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative="drop
     uploads = {Path(k).name: v for k, v in (files or {}).items()}
     entries = []
     for line, volume, energy, dos_file in parse_manifest(text, shown):
-        if files is not None:
+        if str(dos_file).startswith("ws:"):
+            if resolve is None:
+                raise DosInputError(f"dos_file {dos_file!r} names a workspace dataset, but no workspace is open",
+                                    shown, line)
+            content, label = resolve(dos_file), dos_file
+        elif files is not None:
             if Path(dos_file).name not in uploads:
                 raise DosInputError(f"dos_file {dos_file!r} was not uploaded with the manifest", shown, line)
             content, label = uploads[Path(dos_file).name], Path(dos_file).name
