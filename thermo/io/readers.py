@@ -141,7 +141,10 @@ def read_table(source, name: str | None = None) -> RawTable:
     if not raw.strip():
         raise DosInputError("the file is empty", display)
     is_xlsx = raw.startswith(_XLSX_MAGIC)
+    if is_xlsx:
+        check_xlsx_size(raw, display)
     rows = _xlsx_rows(raw, display) if is_xlsx else _text_rows(_decode(raw, display))
+    check_row_count(len(rows), display)
     comments, candidates = _split_comments(rows)
     if not candidates:
         raise DosInputError("no data rows (only comments or blank lines)", display)
@@ -159,6 +162,7 @@ def read_table(source, name: str | None = None) -> RawTable:
         data, lines = _to_array(cells, display)
     else:
         lines = list(map(itemgetter(0), candidates))
+    check_column_count(data.shape[1], display)
     names = _column_names(header, data.shape[1], split)
     unit = _frequency_unit(names[0] if header else None, comments, data.shape[1])
     return RawTable(data=data, names=names, header_unit=unit, source=display,
@@ -224,14 +228,21 @@ def _xlsx_rows(raw: bytes, display: str):
         try:
             sheet = book.worksheets[0]
             rows = []
+            cells_seen = 0
             for number, values in enumerate(sheet.iter_rows(values_only=True), start=1):
                 cells = list(values)
+                cells_seen += len(cells)
+                if cells_seen > MAX_XLSX_CELLS or number > MAX_ROWS:
+                    raise _TooLarge(number)
                 while cells and (cells[-1] is None or str(cells[-1]).strip() == ""):
                     cells.pop()
                 if cells:
                     rows.append((number, [_xlsx_cell(c) for c in cells]))
         finally:
             book.close()
+    except _TooLarge as exc:
+        raise DosInputError(f"the sheet has more than {MAX_XLSX_CELLS:,} cells or {MAX_ROWS:,} rows "
+                            f"(stopped at row {exc.args[0]})", display) from None
     except Exception:  # openpyxl/zipfile raise many types for broken files
         raise DosInputError("not a readable .xlsx workbook", display) from None
     return rows
@@ -328,6 +339,7 @@ def _fast_array(rows, delimiter):
 
 def _to_array(cells, display):
     width = len(cells[0][1])
+    check_column_count(width, display, cells[0][0])
     first_line = cells[0][0]
     if width < 2:
         raise DosInputError(
@@ -418,3 +430,50 @@ def _frequency_unit(first_header_cell, comments, width):
         if unit:
             found.add(unit)
     return found.pop() if len(found) == 1 else None
+
+
+# ----------------------------------------------------------------------------
+# size limits (checked before the expensive step)
+
+#: Most data rows (lines) a DOS file may have.
+MAX_ROWS = 2_000_000
+#: Most columns (frequency, total and partial DOS) a DOS file may have.
+MAX_COLUMNS = 256
+#: Largest uncompressed size of all parts of an .xlsx workbook [bytes].
+MAX_XLSX_UNPACKED_BYTES = 100_000_000
+#: Most cells read from the first sheet of an .xlsx workbook.
+MAX_XLSX_CELLS = 4_000_000
+
+
+class _TooLarge(Exception):
+    """Internal: the sheet passed a size limit while it was read."""
+
+
+def check_row_count(rows: int, display: str) -> None:
+    """Refuse a file of more than :data:`MAX_ROWS` non-blank rows."""
+    if rows > MAX_ROWS:
+        raise DosInputError(f"{rows:,} rows; at most {MAX_ROWS:,} are read", display)
+
+
+def check_column_count(width: int, display: str, line=None) -> None:
+    """Refuse a table of more than :data:`MAX_COLUMNS` columns."""
+    if width > MAX_COLUMNS:
+        raise DosInputError(f"{width:,} columns; at most {MAX_COLUMNS} are read", display, line)
+
+
+def check_xlsx_size(raw: bytes, display: str) -> None:
+    """Refuse a workbook that unpacks to more than :data:`MAX_XLSX_UNPACKED_BYTES`.
+
+    Only the zip directory is read (no part is decompressed); the sizes it
+    declares bound what :mod:`zipfile` will ever decompress.
+    """
+    import zipfile
+
+    try:
+        with zipfile.ZipFile(io.BytesIO(raw)) as book:
+            unpacked = sum(info.file_size for info in book.infolist())
+    except (zipfile.BadZipFile, zipfile.LargeZipFile, OSError, ValueError, EOFError):
+        raise DosInputError("not a readable .xlsx workbook", display) from None
+    if unpacked > MAX_XLSX_UNPACKED_BYTES:
+        raise DosInputError(f"the workbook would unpack to {unpacked / 1e6:,.0f} MB; at most "
+                            f"{MAX_XLSX_UNPACKED_BYTES / 1e6:g} MB are unpacked", display)

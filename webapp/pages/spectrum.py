@@ -86,7 +86,9 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
     values : dict
         Option control values by id.
     upload : dict, optional
-        Output of the client-side size check: ``files`` and ``refused``.
+        Output of the client-side size check: ``files`` and ``refused``.  The
+        size limit is always the server's setting; nothing in ``upload``
+        can change it.
     rename_text, selected : str, optional
         Rename box text; dataset chosen in the selector.
 
@@ -99,7 +101,7 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
         refused = [("error", text) for text in upload.get("refused", [])]
         files = upload.get("files", [])
         new, notes = intake.add_uploads(ws, [f["contents"] for f in files], [f["name"] for f in files],
-                                        upload.get("max_bytes", int(intake.DEFAULT_MAX_UPLOAD_MB * 1e6)))
+                                        dash.get_app().server.config["MODEHEAT_MAX_UPLOAD_BYTES"])
         return new, refused + notes
     current = session.active(ws)
     if trigger == "sp-dataset":
@@ -245,8 +247,7 @@ clientside_callback(ClientsideFunction("modeheat", "checkUpload"), Output(_UPLOA
 @reported(_refused)
 def upload(checked, workspace, config):
     """Add the files that passed the browser's size check; the server checks the size again."""
-    checked = {**(checked or {}), "max_bytes": dash.get_app().server.config["MODEHEAT_MAX_UPLOAD_BYTES"]}
-    new, notes = apply_edit(workspace, _UPLOAD, {}, checked)
+    new, notes = apply_edit(workspace, _UPLOAD, {}, checked or {})
     return _commit(workspace, new, notes, config)
 
 
