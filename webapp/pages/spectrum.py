@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import math
+
 import dash
 from dash import ClientsideFunction, Input, Output, State, callback, clientside_callback, ctx, dcc, html, no_update
 
@@ -57,13 +59,13 @@ def options_from_controls(values):
     if atoms in ("", None):
         atoms = None
     else:
-        if float(atoms) != int(float(atoms)) or int(float(atoms)) < 1:
+        if not math.isfinite(float(atoms)) or float(atoms) != int(float(atoms)) or int(float(atoms)) < 1:
             raise OptionError(f"atoms per formula unit must be a whole number >= 1, not {atoms}")
         atoms = int(float(atoms))
     mode = values.get("sp-lowmode") or "auto"
     if mode == "manual":
         lo, hi = values.get("sp-low-lo"), values.get("sp-low-hi")
-        if lo is None or hi is None or not 0 <= float(lo) < float(hi):
+        if lo is None or hi is None or not 0 <= float(lo) < float(hi) < math.inf:
             raise OptionError("the low-frequency window needs 0 <= low < high (THz)")
         low = f"{float(lo)}:{float(hi)}"
     else:
