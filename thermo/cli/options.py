@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 import sys
 
 from ..temperatures import DEFAULT_TEMPERATURES
@@ -45,9 +46,11 @@ def add_temperature_option(parser, default=DEFAULT_TEMPERATURES):
 
 
 def load_from_args(args):
-    """Load the DOS named by parsed input options."""
+    """Load the DOS named by parsed input options (the argument is always a path, never file text)."""
+    from pathlib import Path
+
     from ..preparation.loading import load_dos
-    return load_dos(args.file, freq_unit=args.freq_unit, atoms=args.atoms,
+    return load_dos(Path(args.file), name=os.path.basename(args.file) or None, freq_unit=args.freq_unit, atoms=args.atoms,
                     negative=args.negative, low_frequency=args.low_frequency)
 
 

@@ -15,6 +15,23 @@ XLSX
     Sheet ``table`` with header and rows, sheet ``provenance`` with
     ``key`` / ``value`` rows (lists and dicts as JSON text).
 
+Exports are inert
+-----------------
+Text from users (dataset and file names, column headers, labels) never
+becomes a spreadsheet formula, following OWASP's CSV-injection guidance [3]:
+
+* XLSX: every text is written as a text cell (never a formula cell);
+* CSV table cells and headers that are text and start with ``=``, ``+``,
+  ``-``, ``@``, tab or carriage return get a leading ``'``
+  (:func:`neutralised_cell`); :func:`read_exported_csv` removes it again;
+* CSV provenance lines: a ``,`` or ``;`` followed by a formula character
+  is written as a JSON escape (``\\u002c``, ``\\u003b``; the value is then
+  JSON), so no cell a spreadsheet splits off a ``# key: value`` line starts
+  like a formula.
+
+.. [3] OWASP Foundation, "CSV Injection",
+   https://owasp.org/www-community/attacks/CSV_Injection (accessed 2026).
+
 Every error is a one-line :class:`thermo.errors.OptionError` (bad format,
 refused overwrite, unwritable path) or :class:`thermo.errors.DosInputError`
 (unreadable export on reading back).
@@ -22,9 +39,13 @@ refused overwrite, unwritable path) or :class:`thermo.errors.DosInputError`
 
 from __future__ import annotations
 
+import csv
+import errno
 import io
 import json
 import math
+import os
+import re
 from pathlib import Path
 
 import numpy as np
@@ -147,14 +168,40 @@ def write_table(df: pd.DataFrame, provenance: dict, fmt: str | None, path,
     """
     target = Path(path)
     content = export_table(df, provenance, fmt if fmt is not None else target.suffix)
+    return write_file(target, content, overwrite)
+
+
+def write_file(path, content: bytes, overwrite: bool = False) -> Path:
+    """Write bytes to a file, never through a symbolic link.
+
+    Without ``overwrite`` the file must not exist (exclusive create); with it
+    an existing regular file is replaced, but a symbolic link in its place is
+    refused (``O_NOFOLLOW``), so nothing outside the intended folder is
+    written.
+
+    Raises
+    ------
+    OptionError
+        Existing file without ``overwrite``, a symbolic link, or a path that
+        cannot be written.
+    """
+    target = Path(path)
+    flags = os.O_WRONLY | os.O_CREAT | getattr(os, "O_NOFOLLOW", 0) | getattr(os, "O_BINARY", 0)
+    flags |= os.O_TRUNC if overwrite else os.O_EXCL
+    if target.is_symlink():
+        raise OptionError(f"{target} is a symbolic link; not written through it "
+                          "(remove the link or choose another name)")
     try:
-        with open(target, "wb" if overwrite else "xb") as handle:
+        fd = os.open(target, flags, 0o666)
+        with os.fdopen(fd, "wb") as handle:
             handle.write(content)
     except FileExistsError:
         raise OptionError(
             f"refusing to overwrite existing file {target}; choose another name "
             "or allow overwriting") from None
     except OSError as exc:
+        if exc.errno == errno.ELOOP:
+            raise OptionError(f"{target} is a symbolic link; not written through it") from None
         raise OptionError(f"cannot write {target}: {exc.strerror or exc}") from None
     return target
 
@@ -215,6 +262,10 @@ def read_exported_csv(source) -> tuple[pd.DataFrame, dict]:
     except Exception as exc:  # pandas parser errors come in many types
         raise DosInputError(f"not a readable CSV table ({type(exc).__name__})",
                             name, start + 1) from None
+    df = df.rename(columns=restored_cell)
+    for c in df.columns:
+        if df[c].dtype == object or pd.api.types.is_string_dtype(df[c]):
+            df[c] = df[c].map(restored_cell)
     return df, provenance
 
 
@@ -315,11 +366,55 @@ def _plain_provenance(provenance) -> dict:
 
 
 def _encode_value(value) -> str:
-    """Text of a provenance value on a CSV ``# key: value`` line."""
-    if isinstance(value, str) and value == " ".join(value.split()):
+    """Text of a provenance value on a CSV ``# key: value`` line (no cell separator in it)."""
+    if isinstance(value, str) and value == " ".join(value.split()) and not _RISKY_SPLIT.search(value):
         if _decode_value(value) == value:
             return value
+    return _inert_json(value)
+
+
+def _inert_json(value) -> str:
+    """JSON text of ``value`` whose strings hold no ``,``/``;`` before a formula character (escaped).
+
+    Structural commas remain, always followed by a blank and a JSON token, so
+    no spreadsheet cell split off at them starts with a formula character.
+    """
+    if isinstance(value, str):
+        return _RISKY_SPLIT.sub(lambda m: f"\\u{ord(m.group()):04x}", json.dumps(value, ensure_ascii=False))
+    if isinstance(value, dict):
+        return "{" + ", ".join(f"{_inert_json(str(k))}: {_inert_json(v)}" for k, v in value.items()) + "}"
+    if isinstance(value, (list, tuple)):
+        return "[" + ", ".join(_inert_json(v) for v in value) + "]"
     return json.dumps(value, ensure_ascii=False)
+
+
+#: Characters that make a spreadsheet read a cell as a formula (OWASP).
+FORMULA_PREFIXES = ("=", "+", "-", "@", "\t", "\r")
+# A cell separator (comma; semicolon in some locales) that would start a cell like a formula.
+_RISKY_SPLIT = re.compile(r"[,;](?=[ ]*[=+\-@\t\r])")
+
+
+def neutralised_cell(value):
+    """A CSV cell value that no spreadsheet evaluates (OWASP CSV-injection guidance).
+
+    Text starting with one of :data:`FORMULA_PREFIXES` gets a leading ``'``;
+    numbers and other text are returned unchanged.
+
+    Examples
+    --------
+    >>> neutralised_cell("=HYPERLINK(1)"), neutralised_cell("-x"), neutralised_cell(-1.5), neutralised_cell("Si")
+    ("'=HYPERLINK(1)", "'-x", -1.5, 'Si')
+    """
+    if isinstance(value, str) and value.startswith(FORMULA_PREFIXES):
+        return "'" + value
+    return value
+
+
+def restored_cell(value):
+    """Inverse of :func:`neutralised_cell` for cells read back."""
+    if isinstance(value, str) and value.startswith("'") and value[1:].startswith(FORMULA_PREFIXES):
+        return value[1:]
+    return value
 
 
 def _decode_value(text: str):
@@ -330,9 +425,22 @@ def _decode_value(text: str):
 
 
 def _csv_bytes(df, meta) -> bytes:
-    head = "".join(f"{_PROVENANCE_PREFIX}{k}: {_encode_value(v)}\n" for k, v in meta.items())
-    body = df.to_csv(index=False, lineterminator="\n")
+    head = "".join(f"{_PROVENANCE_PREFIX}{_inert_key(k)}: {_encode_value(v)}\n" for k, v in meta.items())
+    safe = df.rename(columns=lambda c: neutralised_cell(str(c)))
+    text_columns = [c for c in safe.columns if safe[c].dtype == object or pd.api.types.is_string_dtype(safe[c])]
+    if text_columns:
+        safe = safe.copy()
+        for c in text_columns:
+            safe[c] = safe[c].map(neutralised_cell)
+    # a carriage return inside text is not quoted by the minimal rule (rows end in \n): quote all text then
+    has_cr = any("\r" in str(c) for c in safe.columns) or any(
+        safe[c].map(lambda v: isinstance(v, str) and "\r" in v).any() for c in text_columns)
+    body = safe.to_csv(index=False, lineterminator="\n", quoting=csv.QUOTE_NONNUMERIC if has_cr else csv.QUOTE_MINIMAL)
     return (head + body).encode("utf-8")
+
+
+def _inert_key(key: str) -> str:
+    return key.replace(",", " ").replace(";", " ")
 
 
 def _rows(df):
@@ -355,18 +463,28 @@ def _xlsx_bytes(df, meta) -> bytes:
     book = openpyxl.Workbook()
     table = book.active
     table.title = "table"
-    table.append([str(c) for c in df.columns])
+    _append_inert(table, [str(c) for c in df.columns])
     for row in _rows(df):
-        table.append(row)
+        _append_inert(table, row)
     sheet = book.create_sheet("provenance")
     sheet.append(["key", "value"])
     for key, value in meta.items():
         cell = json.dumps(value, ensure_ascii=False) if isinstance(value, (list, dict)) \
             else value
-        sheet.append([key, cell])
+        _append_inert(sheet, [key, cell])
     out = io.BytesIO()
     book.save(out)
     return out.getvalue()
+
+
+def _append_inert(sheet, values):
+    """Append a row; text is stored as text cells, never as formulas."""
+    from openpyxl.cell.cell import ILLEGAL_CHARACTERS_RE
+
+    sheet.append([ILLEGAL_CHARACTERS_RE.sub("\ufffd", v) if isinstance(v, str) else v for v in values])
+    for cell, value in zip(sheet[sheet.max_row], values):
+        if isinstance(value, str):
+            cell.data_type = "s"
 
 
 def _exported_text(source):
