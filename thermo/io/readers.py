@@ -42,6 +42,7 @@ _XLSX_MAGIC = b"PK\x03\x04"
 # Bytes a plain decimal cell may hold (whitespace and the delimiter added
 # per file); anything else sends the body to the per-cell parser.
 _PLAIN_BYTES = b"0123456789.eE+-"
+_D_TO_E = str.maketrans("dD", "eE")
 _NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eEdD][+-]?\d+)?")
 _NOT_FINITE = re.compile(r"[+-]?(?:nan|inf|infinity)", re.IGNORECASE)
 _DECIMAL_COMMA = re.compile(r"[+-]?\d+,\d+")
@@ -156,7 +157,7 @@ def read_table(source, name: str | None = None) -> RawTable:
         header, candidates = candidates[0], candidates[1:]
     if not candidates:
         raise DosInputError("no data rows after the header", display, header[0])
-    data = None if is_xlsx else _fast_array(list(map(itemgetter(1), candidates)), delimiter)
+    data = None if is_xlsx else _chunked_array(candidates, delimiter, split, display)
     if data is None:
         cells = [(line, split(row) if split else row) for line, row in candidates]
         data, lines = _to_array(cells, display)
@@ -324,9 +325,11 @@ def _fast_array(rows, delimiter):
     non-ASCII) returns None.
     """
     text = "\n".join(rows)
-    allowed = _PLAIN_BYTES + b" \t\n" + (delimiter or "").encode()
+    allowed = _PLAIN_BYTES + b"dD \t\n" + (delimiter or "").encode()
     if not text.isascii() or text.encode().translate(None, allowed):
         return None
+    if "d" in text or "D" in text:      # Fortran exponents: 1.5d-3 is 1.5e-3, as in `_number`
+        rows = text.translate(_D_TO_E).split("\n")
     try:
         values = np.loadtxt(rows, dtype=float, delimiter=delimiter, comments=None,
                             quotechar=None, ndmin=2)
@@ -477,3 +480,38 @@ def check_xlsx_size(raw: bytes, display: str) -> None:
     if unpacked > MAX_XLSX_UNPACKED_BYTES:
         raise DosInputError(f"the workbook would unpack to {unpacked / 1e6:,.0f} MB; at most "
                             f"{MAX_XLSX_UNPACKED_BYTES / 1e6:g} MB are unpacked", display)
+
+
+# ----------------------------------------------------------------------------
+# fast conversion of large bodies
+
+#: Rows converted per block when the whole body is not plain.
+CHUNK_ROWS = 20_000
+
+
+def _chunked_array(candidates, delimiter, split, display):
+    """The body as an array, block by block, or None when a block needs the per-cell parser first.
+
+    The whole body is tried at once (:func:`_fast_array`); if that fails, it
+    is converted in blocks of :data:`CHUNK_ROWS` rows with the same width,
+    and only a block that is not plain goes through the per-cell parser,
+    which names the faulty cell exactly as for the whole file (the first
+    faulty block holds the first faulty cell).  A 10⁶-line file with one bad
+    cell at the end is so refused in about the time it takes to read.
+    """
+    rows = list(map(itemgetter(1), candidates))
+    whole = _fast_array(rows, delimiter)
+    if whole is not None or len(rows) <= CHUNK_ROWS:
+        return whole
+    width = None
+    blocks = []
+    for start in range(0, len(rows), CHUNK_ROWS):
+        block = _fast_array(rows[start:start + CHUNK_ROWS], delimiter)
+        if block is None or (width is not None and block.shape[1] != width):
+            part = candidates[start:start + CHUNK_ROWS]
+            head = [] if width is None else [candidates[0]]
+            cells = [(line, split(row)) for line, row in head + part]
+            block = _to_array(cells, display)[0][len(head):]
+        width = block.shape[1] if width is None else width
+        blocks.append(block)
+    return np.concatenate(blocks)
