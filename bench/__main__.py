@@ -1,4 +1,4 @@
-"""``python -m bench [--json] [--quick] [--only p1,p3,...]``: measure the seven figures.
+"""``python -m bench [--json] [--quick] [--only p1,p3,...]``: measure the figures.
 
 Prints one JSON object (``--json``) or a readable list: the figures
 ``p1_ratio_to_exp`` … ``p7_batch_1000_s``, contrast figures, the goals and
@@ -16,6 +16,7 @@ GOALS = {
     "p2_speedup_vs_quad": ("report", None), "p3_max_rel_error": ("<=", 1e-4),
     "p4_low_t_rel_error": ("<=", 0.05), "p5_upload_to_plot_s": ("<=", 1.0),
     "p6_callback_median_s": ("<=", 0.15), "p7_batch_1000_s": ("<=", 20.0),
+    "p12_parse_1e6_lines_s": ("<=", 2.0), "p13_p95_ms": ("<=", 300.0),
 }
 
 
@@ -29,7 +30,7 @@ def _guarded(name, fn, keys):
 
 def measure(only=None, quick=False):
     """All requested figures in one dict."""
-    from . import dashboard, figures
+    from . import dashboard, figures, load
     from .timing import machine
     plan = [
         ("p1", lambda: figures.p1_p2(repeat=7 if quick else 15, quad_temperatures=5 if quick else 25),
@@ -40,6 +41,8 @@ def measure(only=None, quick=False):
         ("p6", dashboard.p6, ("p6_callback_median_s",)),
         ("p7", lambda: figures.p7(files=200 if quick else 1000, repeat=1 if quick else 3),
          ("p7_batch_1000_s",)),
+        ("p12", lambda: load.p12(repeat=1 if quick else 3), ("p12_parse_1e6_lines_s",)),
+        ("p13", lambda: load.p13(rounds=3 if quick else 10), ("p13_p95_ms",)),
     ]
     result = {}
     contrast = {}
