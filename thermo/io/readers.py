@@ -33,16 +33,15 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import DosInputError
+from .fastpath import chunked_array
+from .fastpath import fast_array as _fast_array
+from .limits import MAX_ROWS, MAX_XLSX_CELLS, SheetTooLarge, check_column_count, check_row_count, check_xlsx_size
 from ..units import guess_unit_from_text
 
 #: Characters that start a comment line.
 COMMENT_CHARS = ("#", "!", "%")
 
 _XLSX_MAGIC = b"PK\x03\x04"
-# Bytes a plain decimal cell may hold (whitespace and the delimiter added
-# per file); anything else sends the body to the per-cell parser.
-_PLAIN_BYTES = b"0123456789.eE+-"
-_D_TO_E = str.maketrans("dD", "eE")
 _NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eEdD][+-]?\d+)?")
 _NOT_FINITE = re.compile(r"[+-]?(?:nan|inf|infinity)", re.IGNORECASE)
 _DECIMAL_COMMA = re.compile(r"[+-]?\d+,\d+")
@@ -157,7 +156,7 @@ def read_table(source, name: str | None = None) -> RawTable:
         header, candidates = candidates[0], candidates[1:]
     if not candidates:
         raise DosInputError("no data rows after the header", display, header[0])
-    data = None if is_xlsx else _chunked_array(candidates, delimiter, split, display)
+    data = None if is_xlsx else chunked_array(candidates, delimiter, split, display, _to_array, _fast_array)
     if data is None:
         cells = [(line, split(row) if split else row) for line, row in candidates]
         data, lines = _to_array(cells, display)
@@ -234,14 +233,14 @@ def _xlsx_rows(raw: bytes, display: str):
                 cells = list(values)
                 cells_seen += len(cells)
                 if cells_seen > MAX_XLSX_CELLS or number > MAX_ROWS:
-                    raise _TooLarge(number)
+                    raise SheetTooLarge(number)
                 while cells and (cells[-1] is None or str(cells[-1]).strip() == ""):
                     cells.pop()
                 if cells:
                     rows.append((number, [_xlsx_cell(c) for c in cells]))
         finally:
             book.close()
-    except _TooLarge as exc:
+    except SheetTooLarge as exc:
         raise DosInputError(f"the sheet has more than {MAX_XLSX_CELLS:,} cells or {MAX_ROWS:,} rows "
                             f"(stopped at row {exc.args[0]})", display) from None
     except Exception:  # openpyxl/zipfile raise many types for broken files
@@ -312,32 +311,6 @@ def _shown(cell: str) -> str:
     return repr(text)
 
 
-def _fast_array(rows, delimiter):
-    """All data rows converted at once, or None if any row needs `_to_array`.
-
-    Accepted only when every cell is a plain decimal number (ASCII digits,
-    ``.``, ``e``/``E``, signs; blanks around it), every row has the same
-    number (>= 2) of cells and every value is finite.  On such text numpy's
-    parser accepts exactly the cells that ``_NUMBER`` matches and rounds
-    correctly, as ``float`` does in `_number`, so the result is that of
-    `_to_array`; any other input (quotes, ``d`` exponents, decimal commas,
-    empty cells, trailing delimiters, ragged rows, nan/inf, overflow,
-    non-ASCII) returns None.
-    """
-    text = "\n".join(rows)
-    allowed = _PLAIN_BYTES + b"dD \t\n" + (delimiter or "").encode()
-    if not text.isascii() or text.encode().translate(None, allowed):
-        return None
-    if "d" in text or "D" in text:      # Fortran exponents: 1.5d-3 is 1.5e-3, as in `_number`
-        rows = text.translate(_D_TO_E).split("\n")
-    try:
-        values = np.loadtxt(rows, dtype=float, delimiter=delimiter, comments=None,
-                            quotechar=None, ndmin=2)
-    except ValueError:   # ragged rows, empty or malformed cells
-        return None
-    if values.shape[1] < 2 or not np.isfinite(values).all():
-        return None
-    return values
 
 
 def _to_array(cells, display):
@@ -433,85 +406,3 @@ def _frequency_unit(first_header_cell, comments, width):
         if unit:
             found.add(unit)
     return found.pop() if len(found) == 1 else None
-
-
-# ----------------------------------------------------------------------------
-# size limits (checked before the expensive step)
-
-#: Most data rows (lines) a DOS file may have.
-MAX_ROWS = 2_000_000
-#: Most columns (frequency, total and partial DOS) a DOS file may have.
-MAX_COLUMNS = 256
-#: Largest uncompressed size of all parts of an .xlsx workbook [bytes].
-MAX_XLSX_UNPACKED_BYTES = 100_000_000
-#: Most cells read from the first sheet of an .xlsx workbook.
-MAX_XLSX_CELLS = 4_000_000
-
-
-class _TooLarge(Exception):
-    """Internal: the sheet passed a size limit while it was read."""
-
-
-def check_row_count(rows: int, display: str) -> None:
-    """Refuse a file of more than :data:`MAX_ROWS` non-blank rows."""
-    if rows > MAX_ROWS:
-        raise DosInputError(f"{rows:,} rows; at most {MAX_ROWS:,} are read", display)
-
-
-def check_column_count(width: int, display: str, line=None) -> None:
-    """Refuse a table of more than :data:`MAX_COLUMNS` columns."""
-    if width > MAX_COLUMNS:
-        raise DosInputError(f"{width:,} columns; at most {MAX_COLUMNS} are read", display, line)
-
-
-def check_xlsx_size(raw: bytes, display: str) -> None:
-    """Refuse a workbook that unpacks to more than :data:`MAX_XLSX_UNPACKED_BYTES`.
-
-    Only the zip directory is read (no part is decompressed); the sizes it
-    declares bound what :mod:`zipfile` will ever decompress.
-    """
-    import zipfile
-
-    try:
-        with zipfile.ZipFile(io.BytesIO(raw)) as book:
-            unpacked = sum(info.file_size for info in book.infolist())
-    except Exception:  # zipfile raises many types for broken archives (BadZipFile, NotImplementedError, ...)
-        raise DosInputError("not a readable .xlsx workbook", display) from None
-    if unpacked > MAX_XLSX_UNPACKED_BYTES:
-        raise DosInputError(f"the workbook would unpack to {unpacked / 1e6:,.0f} MB; at most "
-                            f"{MAX_XLSX_UNPACKED_BYTES / 1e6:g} MB are unpacked", display)
-
-
-# ----------------------------------------------------------------------------
-# fast conversion of large bodies
-
-#: Rows converted per block when the whole body is not plain.
-CHUNK_ROWS = 20_000
-
-
-def _chunked_array(candidates, delimiter, split, display):
-    """The body as an array, block by block, or None when a block needs the per-cell parser first.
-
-    The whole body is tried at once (:func:`_fast_array`); if that fails, it
-    is converted in blocks of :data:`CHUNK_ROWS` rows with the same width,
-    and only a block that is not plain goes through the per-cell parser,
-    which names the faulty cell exactly as for the whole file (the first
-    faulty block holds the first faulty cell).  A 10⁶-line file with one bad
-    cell at the end is so refused in about the time it takes to read.
-    """
-    rows = list(map(itemgetter(1), candidates))
-    whole = _fast_array(rows, delimiter)
-    if whole is not None or len(rows) <= CHUNK_ROWS:
-        return whole
-    width = None
-    blocks = []
-    for start in range(0, len(rows), CHUNK_ROWS):
-        block = _fast_array(rows[start:start + CHUNK_ROWS], delimiter)
-        if block is None or (width is not None and block.shape[1] != width):
-            part = candidates[start:start + CHUNK_ROWS]
-            head = [] if width is None else [candidates[0]]
-            cells = [(line, split(row)) for line, row in head + part]
-            block = _to_array(cells, display)[0][len(head):]
-        width = block.shape[1] if width is None else width
-        blocks.append(block)
-    return np.concatenate(blocks)

@@ -40,18 +40,19 @@ refused overwrite, unwritable path) or :class:`thermo.errors.DosInputError`
 from __future__ import annotations
 
 import csv
-import errno
 import io
 import json
 import math
-import os
-import re
 from pathlib import Path
 
 import numpy as np
 import pandas as pd
 
 from ..errors import DosInputError, OptionError
+from .inert import FORMULA_PREFIXES, _RISKY_SPLIT, append_inert, inert_json, neutralised_cell, restored_cell, write_file
+
+__all__ = ["EXPORT_FORMATS", "FORMULA_PREFIXES", "export_table", "neutralised_cell", "read_exported_csv",
+           "read_exported_json", "restored_cell", "write_file", "write_table"]
 
 #: Export formats accepted by :func:`export_table` and :func:`write_table`.
 EXPORT_FORMATS = ("csv", "json", "xlsx")
@@ -169,41 +170,6 @@ def write_table(df: pd.DataFrame, provenance: dict, fmt: str | None, path,
     target = Path(path)
     content = export_table(df, provenance, fmt if fmt is not None else target.suffix)
     return write_file(target, content, overwrite)
-
-
-def write_file(path, content: bytes, overwrite: bool = False) -> Path:
-    """Write bytes to a file, never through a symbolic link.
-
-    Without ``overwrite`` the file must not exist (exclusive create); with it
-    an existing regular file is replaced, but a symbolic link in its place is
-    refused (``O_NOFOLLOW``), so nothing outside the intended folder is
-    written.
-
-    Raises
-    ------
-    OptionError
-        Existing file without ``overwrite``, a symbolic link, or a path that
-        cannot be written.
-    """
-    target = Path(path)
-    flags = os.O_WRONLY | os.O_CREAT | getattr(os, "O_NOFOLLOW", 0) | getattr(os, "O_BINARY", 0)
-    flags |= os.O_TRUNC if overwrite else os.O_EXCL
-    if target.is_symlink():
-        raise OptionError(f"{target} is a symbolic link; not written through it "
-                          "(remove the link or choose another name)")
-    try:
-        fd = os.open(target, flags, 0o666)
-        with os.fdopen(fd, "wb") as handle:
-            handle.write(content)
-    except FileExistsError:
-        raise OptionError(
-            f"refusing to overwrite existing file {target}; choose another name "
-            "or allow overwriting") from None
-    except OSError as exc:
-        if exc.errno == errno.ELOOP:
-            raise OptionError(f"{target} is a symbolic link; not written through it") from None
-        raise OptionError(f"cannot write {target}: {exc.strerror or exc}") from None
-    return target
 
 
 def read_exported_csv(source) -> tuple[pd.DataFrame, dict]:
@@ -370,51 +336,7 @@ def _encode_value(value) -> str:
     if isinstance(value, str) and value == " ".join(value.split()) and not _RISKY_SPLIT.search(value):
         if _decode_value(value) == value:
             return value
-    return _inert_json(value)
-
-
-def _inert_json(value) -> str:
-    """JSON text of ``value`` whose strings hold no ``,``/``;`` before a formula character (escaped).
-
-    Structural commas remain, always followed by a blank and a JSON token, so
-    no spreadsheet cell split off at them starts with a formula character.
-    """
-    if isinstance(value, str):
-        return _RISKY_SPLIT.sub(lambda m: f"\\u{ord(m.group()):04x}", json.dumps(value, ensure_ascii=False))
-    if isinstance(value, dict):
-        return "{" + ", ".join(f"{_inert_json(str(k))}: {_inert_json(v)}" for k, v in value.items()) + "}"
-    if isinstance(value, (list, tuple)):
-        return "[" + ", ".join(_inert_json(v) for v in value) + "]"
-    return json.dumps(value, ensure_ascii=False)
-
-
-#: Characters that make a spreadsheet read a cell as a formula (OWASP).
-FORMULA_PREFIXES = ("=", "+", "-", "@", "\t", "\r")
-# A cell separator (comma; semicolon in some locales) that would start a cell like a formula.
-_RISKY_SPLIT = re.compile(r"[,;](?=[ ]*[=+\-@\t\r])")
-
-
-def neutralised_cell(value):
-    """A CSV cell value that no spreadsheet evaluates (OWASP CSV-injection guidance).
-
-    Text starting with one of :data:`FORMULA_PREFIXES` gets a leading ``'``;
-    numbers and other text are returned unchanged.
-
-    Examples
-    --------
-    >>> neutralised_cell("=HYPERLINK(1)"), neutralised_cell("-x"), neutralised_cell(-1.5), neutralised_cell("Si")
-    ("'=HYPERLINK(1)", "'-x", -1.5, 'Si')
-    """
-    if isinstance(value, str) and value.startswith(FORMULA_PREFIXES):
-        return "'" + value
-    return value
-
-
-def restored_cell(value):
-    """Inverse of :func:`neutralised_cell` for cells read back."""
-    if isinstance(value, str) and value.startswith("'") and value[1:].startswith(FORMULA_PREFIXES):
-        return value[1:]
-    return value
+    return inert_json(value)
 
 
 def _decode_value(text: str):
@@ -463,28 +385,18 @@ def _xlsx_bytes(df, meta) -> bytes:
     book = openpyxl.Workbook()
     table = book.active
     table.title = "table"
-    _append_inert(table, [str(c) for c in df.columns])
+    append_inert(table, [str(c) for c in df.columns])
     for row in _rows(df):
-        _append_inert(table, row)
+        append_inert(table, row)
     sheet = book.create_sheet("provenance")
     sheet.append(["key", "value"])
     for key, value in meta.items():
         cell = json.dumps(value, ensure_ascii=False) if isinstance(value, (list, dict)) \
             else value
-        _append_inert(sheet, [key, cell])
+        append_inert(sheet, [key, cell])
     out = io.BytesIO()
     book.save(out)
     return out.getvalue()
-
-
-def _append_inert(sheet, values):
-    """Append a row; text is stored as text cells, never as formulas."""
-    from openpyxl.cell.cell import ILLEGAL_CHARACTERS_RE
-
-    sheet.append([ILLEGAL_CHARACTERS_RE.sub("\ufffd", v) if isinstance(v, str) else v for v in values])
-    for cell, value in zip(sheet[sheet.max_row], values):
-        if isinstance(value, str):
-            cell.data_type = "s"
 
 
 def _exported_text(source):
