@@ -104,9 +104,13 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
         files = upload.get("files", [])
         new, notes = intake.add_uploads(ws, [f["contents"] for f in files], [f["name"] for f in files],
                                         dash.get_app().server.config["MODEHEAT_MAX_UPLOAD_BYTES"])
+        if new.get("datasets") == ws.get("datasets") and new.get("active") == ws.get("active"):
+            new = ws      # nothing loaded: the workspace (and the messages shown) stay as they are
         return new, refused + notes
     current = session.active(ws)
     if trigger == "sp-dataset":
+        if current is not None and selected == current["id"]:
+            return ws, []  # the selector only shows the active dataset: no edit, messages kept
         return session.activated(ws, selected), []
     if current is None:
         return ws, []
