@@ -201,3 +201,20 @@ def test_each_extreme_cell_is_refused_or_harmless(cell):
     rows = [f"{float(a)!r} {9 * a * a / 125!r}" for a in nu]
     rows[7] = f"{float(nu[7])!r} {cell}"
     assert check_one("# frequency (THz) dos\n" + "\n".join(rows) + "\n", {}) is None
+
+
+@settings(max_examples=300, deadline=None)
+@given(temps=st.lists(st.floats(allow_nan=True, allow_infinity=True), min_size=1, max_size=6))
+def test_hypothesis_any_temperatures(temps):
+    nu = np.linspace(0.0, 1000.0, 60)            # the highest accepted frequency: the hardest case
+    text = "# frequency (THz) dos\n" + "\n".join(f"{float(a)!r} {float(9 * a * a / 1e9)!r}" for a in nu) + "\n"
+    dos = load_dos(text)
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        try:
+            table = tabulate(dos, temps)
+        except ModeheatError as exc:
+            assert "\n" not in str(exc)
+            return
+    assert np.isfinite(table.to_numpy(dtype=float)).all()
+    assert (table[C_V].to_numpy() <= 3 * dos.atoms * sc.R * (1 + 1e-9)).all()
