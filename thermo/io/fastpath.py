@@ -61,7 +61,7 @@ def fast_array(rows, delimiter):
 
 
 #: Rows converted per block when the whole body is not plain.
-CHUNK_ROWS = 20_000
+CHUNK_ROWS = 5_000
 
 
 def chunked_array(candidates, delimiter, split, display, per_cell, fast=None):
