@@ -63,7 +63,7 @@ def check_temperatures(temperatures):
 
 
 #: Accepted temperatures besides 0 K [K]: beyond these the Planck kernels leave double precision.
-TEMPERATURE_RANGE_K = (1.0e-6, 1.0e6)
+TEMPERATURE_RANGE_K = (1.0e-6, 1.0e10)
 
 
 def zero_point_energy(dos):
