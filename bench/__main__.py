@@ -20,6 +20,7 @@ GOALS = {
     "p11_first_page_s": ("<=", 1.0), "p11_navigation_s": ("<=", 0.3),
     "p9_calorimetry_fit_s": ("<=", 0.3),
     "p10_open_compare_s": ("<=", 1.0), "p10_add_1000_s": ("<=", 10.0),
+    "p12_parse_1e6_lines_s": ("<=", 2.0), "p13_p95_ms": ("<=", 300.0),
 }
 
 
@@ -33,7 +34,7 @@ def _guarded(name, fn, keys):
 
 def measure(only=None, quick=False):
     """All requested figures in one dict."""
-    from . import calorimetry, dashboard, figures, pageload, quasiharmonic, workspace
+    from . import calorimetry, dashboard, figures, load, pageload, quasiharmonic, workspace
     from .timing import machine
     plan = [
         ("p1", lambda: figures.p1_p2(repeat=7 if quick else 15, quad_temperatures=5 if quick else 25),
@@ -48,6 +49,8 @@ def measure(only=None, quick=False):
         ("p11", lambda: pageload.p11(repeat=3 if quick else 5), ("p11_first_page_s", "p11_navigation_s")),
         ("p9", lambda: calorimetry.p9(repeat=3 if quick else 7), ("p9_calorimetry_fit_s",)),
         ("p10", lambda: workspace.p10(quick), ("p10_open_compare_s", "p10_add_1000_s")),
+        ("p12", lambda: load.p12(repeat=1 if quick else 3), ("p12_parse_1e6_lines_s",)),
+        ("p13", lambda: load.p13(rounds=3 if quick else 10), ("p13_p95_ms",)),
     ]
     result = {}
     contrast = {}

@@ -140,17 +140,18 @@ def expand_inputs(patterns, exclude_dir=None, pattern=None, skipped=None):
 def output_names(inputs, fmt, outdir):
     """A distinct output file name for each input: ``<stem>.<fmt>``.
 
-    A stem met before, or a name that would land on an input file, gets
-    ``-2``, ``-3``, ... appended.
+    A stem met before, a name that would land on an input file, or the name
+    of the index (:data:`INDEX_NAME`, any letter case) gets ``-2``, ``-3``,
+    ... appended.
 
     Examples
     --------
-    >>> output_names(["a/x.dat", "b/x.dat", "y.txt"], "csv", "out")
-    ['x.csv', 'x-2.csv', 'y.csv']
+    >>> output_names(["a/x.dat", "b/x.dat", "y.txt", "index.dat"], "csv", "out")
+    ['x.csv', 'x-2.csv', 'y.csv', 'index-2.csv']
     """
     out = Path(outdir).resolve()
     inputs_resolved = {Path(p).resolve() for p in inputs}
-    taken, names = set(), []
+    taken, names = {INDEX_NAME.lower()}, []   # a table never takes the index's name
     for source in inputs:
         stem = Path(source).stem or "table"
         name, count = f"{stem}.{fmt}", 1
@@ -195,7 +196,7 @@ def process_file(source, target, options):
 
     row = _blank_row(source)
     try:
-        dos = load_dos(source, freq_unit=options.freq_unit, atoms=options.atoms,
+        dos = load_dos(Path(source), name=Path(source).name, freq_unit=options.freq_unit, atoms=options.atoms,
                        negative=options.negative, low_frequency=options.low_frequency)
         row.update(atoms=dos.atoms, imaginary_fraction=dos.source.get("negative_mode_fraction", ""),
                    warnings=" | ".join(_one_line(w) for w in dos.warnings))
@@ -236,6 +237,10 @@ def check_targets(targets, index_path, force):
 def write_index(rows, path, force=False):
     """Write the index rows as CSV (columns :data:`INDEX_COLUMNS`).
 
+    Text cells that a spreadsheet would read as a formula get a leading
+    ``'`` (:func:`thermo.io.writers.neutralised_cell`); a symbolic link in
+    place of the index is never followed.
+
     Examples
     --------
     >>> import tempfile
@@ -244,17 +249,15 @@ def write_index(rows, path, force=False):
     ...     p.read_text().splitlines()[0]
     'input,status,output,atoms,imaginary_fraction,warnings,error'
     """
+    from .io.writers import neutralised_cell, write_file
+
     buffer = io.StringIO()
     writer = csv.DictWriter(buffer, fieldnames=INDEX_COLUMNS, lineterminator="\n")
     writer.writeheader()
-    for row in rows:
-        writer.writerow({k: row.get(k, "") for k in INDEX_COLUMNS})
+    for row in rows:   # file names and messages may start like a formula: neutralised (OWASP)
+        writer.writerow({k: neutralised_cell(row.get(k, "")) for k in INDEX_COLUMNS})
     target = Path(path)
-    try:
-        with open(target, "w" if force else "x", encoding="utf-8", newline="") as handle:
-            handle.write(buffer.getvalue())
-    except FileExistsError:
-        raise OptionError(f"refusing to overwrite existing file {target}") from None
+    write_file(target, buffer.getvalue().encode("utf-8"), overwrite=force)
     return target
 
 

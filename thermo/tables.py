@@ -37,7 +37,8 @@ def check_temperatures(temperatures):
     Raises
     ------
     OptionError
-        If empty, not finite or negative.
+        If empty, not finite, negative, or outside 0 and
+        :data:`TEMPERATURE_RANGE_K`.
 
     Examples
     --------
@@ -52,7 +53,16 @@ def check_temperatures(temperatures):
         raise OptionError("no temperatures given")
     if not np.all(np.isfinite(t)) or np.any(t < 0):
         raise OptionError("temperatures must be finite and >= 0 K")
+    low, high = TEMPERATURE_RANGE_K
+    outside = t[(t != 0) & ((t < low) | (t > high))]
+    if outside.size:
+        raise OptionError(f"temperature {float(outside[0]):.3g} K is outside the accepted 0 or "
+                          f"{low:g} … {high:g} K (a harmonic table means nothing far above melting)")
     return t
+
+
+#: Accepted temperatures besides 0 K [K]: beyond these the Planck kernels leave double precision.
+TEMPERATURE_RANGE_K = (1.0e-6, 1.0e10)
 
 
 def zero_point_energy(dos):

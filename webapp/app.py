@@ -14,6 +14,22 @@ from .shell import app, configure, server
 __all__ = ["app", "server", "create_app"]
 
 
+def _set_up_before_serving():
+    """Run Dash's first-request set-up now, in one thread.
+
+    Dash registers the page router and copies the pages' callbacks into the
+    app on the first request, flagging it done before the work is done; under
+    a threaded server (gunicorn ``--threads``) concurrent first requests then
+    saw an app without some callbacks (found by bench figure P13).  Running
+    the ``before_request`` hooks once at import closes that window.
+    """
+    with server.test_request_context("/"):
+        server.preprocess_request()
+
+
+_set_up_before_serving()
+
+
 def create_app(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspace=None):
     """Configure the dashboard and return it.
 

@@ -2,15 +2,23 @@
 
 Results are keyed by the SHA-256 of the file content and the load options, so
 the caches hold pure results only and users never share state through them.
+
+Each cache is bounded by entry count and by bytes (arrays, tables and strings
+it holds, measured by :func:`held_bytes`); the four caches together hold at
+most ``MODEHEAT_CACHE_MB`` (environment, default 256) MB per server process.
 """
 
 from __future__ import annotations
 
+import dataclasses
 import hashlib
+import os
+import sys
 import threading
 from collections import OrderedDict
 
 import numpy as np
+import pandas as pd
 
 from thermo import load_dos, tabulate
 from thermo.errors import ModeheatError
@@ -19,31 +27,80 @@ from thermo.io.readers import read_table
 from .session import content_bytes, options_of
 
 
-class _LRU:
-    """Thread-safe least-recently-used memo of pure results."""
+def held_bytes(value, _depth=0) -> int:
+    """Approximate memory [bytes] held by a cached value (arrays, frames, dataclasses, containers)."""
+    if isinstance(value, np.ndarray):
+        return int(value.nbytes)
+    if isinstance(value, (pd.DataFrame, pd.Series)):
+        return int(value.memory_usage(deep=True).sum() if isinstance(value, pd.DataFrame)
+                   else value.memory_usage(deep=True))
+    if _depth > 6:
+        return sys.getsizeof(value)
+    if dataclasses.is_dataclass(value) and not isinstance(value, type):
+        return sys.getsizeof(value) + sum(held_bytes(getattr(value, f.name), _depth + 1)
+                                          for f in dataclasses.fields(value))
+    if isinstance(value, dict):
+        return sys.getsizeof(value) + sum(held_bytes(k, _depth + 1) + held_bytes(v, _depth + 1)
+                                          for k, v in value.items())
+    if isinstance(value, (list, tuple, set, frozenset)):
+        return sys.getsizeof(value) + sum(held_bytes(v, _depth + 1) for v in value)
+    if hasattr(value, "__dict__") and not isinstance(value, type):
+        return sys.getsizeof(value) + held_bytes(vars(value), _depth + 1)
+    return sys.getsizeof(value)
 
-    def __init__(self, size):
+
+class _LRU:
+    """Thread-safe least-recently-used memo of pure results, bounded by entries and bytes."""
+
+    def __init__(self, size, share):
         self.size = size
+        self.share = share            # share of the MODEHEAT_CACHE_MB budget
+        self.max_bytes = 0
+        self.held = 0
         self._data = OrderedDict()
         self._lock = threading.Lock()
+        self.resize()
+
+    def resize(self, total_bytes=None):
+        """Set the byte bound from ``total_bytes`` (default ``MODEHEAT_CACHE_MB``) and evict."""
+        if total_bytes is None:
+            total_bytes = float(os.environ.get("MODEHEAT_CACHE_MB", DEFAULT_CACHE_MB)) * 1e6
+        with self._lock:
+            self.max_bytes = int(total_bytes * self.share)
+            self._evict()
+
+    def _evict(self):
+        while self._data and (len(self._data) > self.size or self.held > self.max_bytes):
+            _, (_, nbytes) = self._data.popitem(last=False)
+            self.held -= nbytes
 
     def get(self, key, compute):
         with self._lock:
             if key in self._data:
                 self._data.move_to_end(key)
-                return self._data[key]
+                return self._data[key][0]
         value = compute()
+        nbytes = held_bytes(value)
         with self._lock:
-            self._data[key] = value
-            while len(self._data) > self.size:
-                self._data.popitem(last=False)
+            if key not in self._data and nbytes <= self.max_bytes:
+                self._data[key] = (value, nbytes)
+                self.held += nbytes
+                self._evict()
         return value
 
 
-_DOS_CACHE = _LRU(48)
-_TABLE_CACHE = _LRU(128)
-_HEADER_CACHE = _LRU(64)
-_DERIVED_CACHE = _LRU(96)
+#: Default memory budget of all result caches together [MB] (``MODEHEAT_CACHE_MB``).
+DEFAULT_CACHE_MB = 256.0
+_DOS_CACHE = _LRU(48, 0.45)
+_TABLE_CACHE = _LRU(128, 0.30)
+_HEADER_CACHE = _LRU(64, 0.05)
+_DERIVED_CACHE = _LRU(96, 0.20)
+CACHES = (_DOS_CACHE, _TABLE_CACHE, _HEADER_CACHE, _DERIVED_CACHE)
+
+
+def held_total() -> int:
+    """Bytes held by all result caches now."""
+    return sum(c.held for c in CACHES)
 
 
 def _load_key(dataset):

@@ -13,17 +13,40 @@ from .reporting import attempt, one_line
 
 #: Default per-file upload limit [MB].
 DEFAULT_MAX_UPLOAD_MB = 20.0
+#: Files at the full upload limit one request may carry: a callback request
+#: holds the tab's whole workspace (every dataset's content) besides new files.
+REQUEST_FILES = 4
+#: Room for the rest of a callback request (ids, options, figures) [bytes].
+REQUEST_OVERHEAD_BYTES = 2_000_000
+
+
+def request_limit(max_upload_bytes: int) -> int:
+    """Largest request body [bytes] the server reads, from the per-file upload limit [bytes].
+
+    Base64 turns 3 bytes into 4 characters, so a request may carry
+    :data:`REQUEST_FILES` files at the limit plus :data:`REQUEST_OVERHEAD_BYTES`.
+    """
+    return int(REQUEST_FILES * 4 * -(-int(max_upload_bytes) // 3) + REQUEST_OVERHEAD_BYTES)
 
 
 class UploadRefused(ModeheatError):
     """An upload that never reached :mod:`thermo` (size limit, bad encoding)."""
 
 
-def decode_upload(contents: str, name: str) -> bytes:
-    """Bytes of a ``dcc.Upload`` data URL (``data:<type>;base64,<data>``)."""
+def decode_upload(contents: str, name: str, max_bytes: int | None = None) -> bytes:
+    """Bytes of a ``dcc.Upload`` data URL (``data:<type>;base64,<data>``).
+
+    With ``max_bytes`` [bytes] the decoded size is checked from the length of
+    the base64 text before anything is decoded.
+    """
     head, sep, data = str(contents or "").partition(",")
     if not sep or ";base64" not in head:
         raise UploadRefused(f"{name}: the upload did not arrive as a base64 data URL")
+    if max_bytes is not None:
+        size = len(data) * 3 // 4 - data[-2:].count("=")
+        if size > max_bytes:
+            raise UploadRefused(f"{name}: the file is {size / 1e6:.1f} MB; "
+                                f"the upload limit is {max_bytes / 1e6:g} MB")
     try:
         return base64.b64decode(data, validate=True)
     except binascii.Error:
@@ -51,7 +74,7 @@ def fix_hint(message: str) -> str:
 
 
 def _checked_dataset(workspace, contents, name, max_bytes, options=None):
-    raw = decode_upload(contents, name)
+    raw = decode_upload(contents, name, max_bytes)
     if len(raw) > max_bytes:
         raise UploadRefused(f"{name}: the file is {len(raw) / 1e6:.1f} MB; "
                             f"the upload limit is {max_bytes / 1e6:g} MB")

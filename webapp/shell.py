@@ -7,6 +7,11 @@ registered after this instance exists (Dash requires it), by importing
 
 Settings live in the Flask config (``MODEHEAT_*`` keys), set by
 :func:`configure` from options and the environment, never from the browser.
+The request-body limit (Flask ``MAX_CONTENT_LENGTH``) follows from the same
+upload setting (:func:`webapp.intake.request_limit`): an oversize request is
+refused with HTTP 413 from its ``Content-Length`` (or, streamed, as soon as the
+limit is passed) before its body is read.  Every response carries the
+security headers of :func:`security_headers`.
 """
 
 from __future__ import annotations
@@ -26,6 +31,7 @@ server = app.server
 logging.getLogger("werkzeug").setLevel(logging.WARNING)
 
 _DEMO = {}
+_CSP = {}
 
 
 def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspace=None):
@@ -33,7 +39,11 @@ def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspa
     workspace file: None keeps the workspace in the browser only)."""
     if max_upload_mb is None:
         max_upload_mb = float(os.environ.get("MODEHEAT_MAX_UPLOAD_MB", intake.DEFAULT_MAX_UPLOAD_MB))
-    server.config["MODEHEAT_MAX_UPLOAD_BYTES"] = int(float(max_upload_mb) * 1e6)
+    upload_bytes = int(float(max_upload_mb) * 1e6)
+    if not upload_bytes > 0:
+        raise ValueError(f"the upload limit must be > 0 MB, not {max_upload_mb!r}")
+    server.config["MODEHEAT_MAX_UPLOAD_BYTES"] = upload_bytes
+    server.config["MAX_CONTENT_LENGTH"] = intake.request_limit(upload_bytes)
     server.config["MODEHEAT_DEMO_DIR"] = str(demo_dir) if demo_dir is not None else None
     server.config["MODEHEAT_SAVED_LIMIT_CHARS"] = int(saved_limit_chars or session.SAVED_LIMIT_CHARS)
     workspace = workspace if workspace is not None else os.environ.get("MODEHEAT_WORKSPACE") or None
@@ -46,6 +56,33 @@ def demo_workspace():
     if folder not in _DEMO:
         _DEMO[folder] = demo.demo_workspace(folder)
     return _DEMO[folder]
+
+
+def content_security_policy():
+    """The Content-Security-Policy value: own origin only, inline scripts by Dash's hashes.
+
+    ``style-src 'unsafe-inline'`` is needed by React's and plotly's inline
+    styles; images may be ``data:``/``blob:`` (figure export).  The hashes of
+    Dash's inline scripts (:meth:`dash.Dash.csp_hashes`) are taken once, after
+    every page has registered its callbacks.
+    """
+    if "csp" not in _CSP:
+        scripts = " ".join(["'self'", *app.csp_hashes()])
+        _CSP["csp"] = ("default-src 'self'; "
+                       f"script-src {scripts}; "
+                       "style-src 'self' 'unsafe-inline'; "
+                       "img-src 'self' data: blob:; font-src 'self' data:; connect-src 'self'; "
+                       "object-src 'none'; base-uri 'self'; form-action 'self'; frame-ancestors 'none'")
+    return _CSP["csp"]
+
+
+def security_headers(response):
+    """Add the security headers to every response (a Flask ``after_request`` hook)."""
+    response.headers.setdefault("X-Content-Type-Options", "nosniff")
+    response.headers.setdefault("X-Frame-Options", "DENY")
+    response.headers.setdefault("Referrer-Policy", "no-referrer")
+    response.headers.setdefault("Content-Security-Policy", content_security_policy())
+    return response
 
 
 def _pages():
@@ -95,6 +132,7 @@ def keep(workspace, space):
 
 configure()
 persistence.install(server)
+server.after_request(security_headers)
 app.layout = shell
 app.callback(Output("mh-workspace", "data", allow_duplicate=True), Input("mh-saved", "data"),
              State("mh-workspace", "data"), prevent_initial_call="initial_duplicate")(restore)

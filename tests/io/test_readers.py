@@ -319,7 +319,6 @@ def test_clean_tables_take_the_one_pass_conversion(content):
 @pytest.mark.parametrize("rows, delimiter", [
     (["1 2", "3 4 5"], None),          # ragged
     (["1", "2"], None),                # one column
-    (["1 2", "3 1D3"], None),          # Fortran exponent
     (["1 2", "3 nan"], None),
     (["1 2", "3 1e999"], None),        # overflow to inf
     (["1;2", "3;1,5"], ";"),           # decimal comma

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import os
 import sys
 
 from ..temperatures import DEFAULT_TEMPERATURES
@@ -48,7 +49,9 @@ def add_temperature_option(parser, default=DEFAULT_TEMPERATURES):
 
 
 def load_from_args(args):
-    """Load the DOS named by parsed input options."""
+    """Load the DOS named by parsed input options (the argument is always a path, never file text)."""
+    from pathlib import Path
+
     from ..preparation.loading import load_dos
     from .workspace import is_reference, resolve_reference
     if is_reference(args.file):   # stored settings, unless an option says otherwise
@@ -58,8 +61,8 @@ def load_from_args(args):
                         negative=kept["negative"] if args.negative == "drop" else args.negative,
                         low_frequency=kept["low_frequency"] if args.low_frequency == "auto" else args.low_frequency,
                         name=name)
-    return load_dos(args.file, freq_unit=args.freq_unit, atoms=args.atoms,
-                    negative=args.negative, low_frequency=args.low_frequency, sheet=args.sheet)
+    return load_dos(Path(args.file), name=os.path.basename(args.file) or None, freq_unit=args.freq_unit,
+                    atoms=args.atoms, negative=args.negative, low_frequency=args.low_frequency, sheet=args.sheet)
 
 
 def check_digits(digits):

@@ -45,14 +45,14 @@ from ..errors import DosInputError
 from .decoding import decode_text
 from .unit_statements import HEADER_CELL, frequency_unit
 from .workbook import xlsx_rows, xlsx_titles
+from .fastpath import chunked_array
+from .fastpath import fast_array as _fast_array
+from .limits import check_column_count, check_row_count, check_xlsx_size
 
 #: Characters that start a comment line.
 COMMENT_CHARS = ("#", "!", "%")
 
 _XLSX_MAGIC = b"PK\x03\x04"
-# Bytes a plain decimal cell may hold (whitespace and the delimiter added
-# per file); anything else sends the body to the per-cell parser.
-_PLAIN_BYTES = b"0123456789.eE+-"
 _NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eEdD][+-]?\d+)?")
 _NOT_FINITE = re.compile(r"[+-]?(?:nan|inf|infinity)", re.IGNORECASE)
 _DECIMAL_COMMA = re.compile(r"[+-]?\d+,\d+")
@@ -159,9 +159,11 @@ def read_table(source, name: str | None = None, sheet=None) -> RawTable:
     is_xlsx = raw.startswith(_XLSX_MAGIC)
     sheet_name = None
     if is_xlsx:
+        check_xlsx_size(raw, display)
         rows, sheet_name = xlsx_rows(raw, display, sheet)
     else:
         rows = _text_rows(decode_text(raw, display))
+    check_row_count(len(rows), display)
     comments, candidates = _split_comments(rows)
     if is_xlsx:
         comments, candidates = xlsx_titles(comments, candidates, _looks_numeric)
@@ -177,12 +179,13 @@ def read_table(source, name: str | None = None, sheet=None) -> RawTable:
     if not candidates:
         where = f" on sheet {sheet_name!r}" if sheet_name else ""
         raise DosInputError(f"no data rows{where} after the header", display, header[0])
-    data = None if is_xlsx else _fast_array(list(map(itemgetter(1), candidates)), delimiter)
+    data = None if is_xlsx else chunked_array(candidates, delimiter, split, display, _to_array, _fast_array)
     if data is None:
         cells = [(line, split(row) if split else row) for line, row in candidates]
         data, lines = _to_array(cells, display)
     else:
         lines = list(map(itemgetter(0), candidates))
+    check_column_count(data.shape[1], display)
     names = _column_names(header, data.shape[1], split)
     unit, mentions = frequency_unit(names[0] if header else None, comments, data.shape[1],
                                     "".join(COMMENT_CHARS))
@@ -280,34 +283,11 @@ def _shown(cell: str) -> str:
     return repr(text)
 
 
-def _fast_array(rows, delimiter):
-    """All data rows converted at once, or None if any row needs `_to_array`.
-
-    Accepted only when every cell is a plain decimal number (ASCII digits,
-    ``.``, ``e``/``E``, signs; blanks around it), every row has the same
-    number (>= 2) of cells and every value is finite.  On such text numpy's
-    parser accepts exactly the cells that ``_NUMBER`` matches and rounds
-    correctly, as ``float`` does in `_number`, so the result is that of
-    `_to_array`; any other input (quotes, ``d`` exponents, decimal commas,
-    empty cells, trailing delimiters, ragged rows, nan/inf, overflow,
-    non-ASCII) returns None.
-    """
-    text = "\n".join(rows)
-    allowed = _PLAIN_BYTES + b" \t\n" + (delimiter or "").encode()
-    if not text.isascii() or text.encode().translate(None, allowed):
-        return None
-    try:
-        values = np.loadtxt(rows, dtype=float, delimiter=delimiter, comments=None,
-                            quotechar=None, ndmin=2)
-    except ValueError:   # ragged rows, empty or malformed cells
-        return None
-    if values.shape[1] < 2 or not np.isfinite(values).all():
-        return None
-    return values
 
 
 def _to_array(cells, display):
     width = len(cells[0][1])
+    check_column_count(width, display, cells[0][0])
     first_line = cells[0][0]
     if width < 2:
         raise DosInputError(

@@ -15,6 +15,23 @@ XLSX
     Sheet ``table`` with header and rows, sheet ``provenance`` with
     ``key`` / ``value`` rows (lists and dicts as JSON text).
 
+Exports are inert
+-----------------
+Text from users (dataset and file names, column headers, labels) never
+becomes a spreadsheet formula, following OWASP's CSV-injection guidance [3]:
+
+* XLSX: every text is written as a text cell (never a formula cell);
+* CSV table cells and headers that are text and start with ``=``, ``+``,
+  ``-``, ``@``, tab or carriage return get a leading ``'``
+  (:func:`neutralised_cell`); :func:`read_exported_csv` removes it again;
+* CSV provenance lines: a ``,`` or ``;`` followed by a formula character
+  is written as a JSON escape (``\\u002c``, ``\\u003b``; the value is then
+  JSON), so no cell a spreadsheet splits off a ``# key: value`` line starts
+  like a formula.
+
+.. [3] OWASP Foundation, "CSV Injection",
+   https://owasp.org/www-community/attacks/CSV_Injection (accessed 2026).
+
 Every error is a one-line :class:`thermo.errors.OptionError` (bad format,
 refused overwrite, unwritable path) or :class:`thermo.errors.DosInputError`
 (unreadable export on reading back).
@@ -22,6 +39,7 @@ refused overwrite, unwritable path) or :class:`thermo.errors.DosInputError`
 
 from __future__ import annotations
 
+import csv
 import io
 import json
 import math
@@ -31,6 +49,10 @@ import numpy as np
 import pandas as pd
 
 from ..errors import DosInputError, OptionError
+from .inert import FORMULA_PREFIXES, _RISKY_SPLIT, append_inert, inert_json, neutralised_cell, restored_cell, write_file
+
+__all__ = ["EXPORT_FORMATS", "FORMULA_PREFIXES", "export_table", "neutralised_cell", "read_exported_csv",
+           "read_exported_json", "restored_cell", "write_file", "write_table"]
 
 #: Significant digits the command line and the dashboard write by default: the
 #: quadrature and low-frequency treatment support about 1e-5 relative at worst,
@@ -173,16 +195,7 @@ def write_table(df: pd.DataFrame, provenance: dict, fmt: str | None, path,
     target = Path(path)
     content = export_table(df, provenance, fmt if fmt is not None else format_from_suffix(target),
                            digits=digits)
-    try:
-        with open(target, "wb" if overwrite else "xb") as handle:
-            handle.write(content)
-    except FileExistsError:
-        raise OptionError(
-            f"refusing to overwrite existing file {target}; choose another name "
-            "or allow overwriting") from None
-    except OSError as exc:
-        raise OptionError(f"cannot write {target}: {exc.strerror or exc}") from None
-    return target
+    return write_file(target, content, overwrite)
 
 
 def read_exported_csv(source) -> tuple[pd.DataFrame, dict]:
@@ -241,6 +254,10 @@ def read_exported_csv(source) -> tuple[pd.DataFrame, dict]:
     except Exception as exc:  # pandas parser errors come in many types
         raise DosInputError(f"not a readable CSV table ({type(exc).__name__})",
                             name, start + 1) from None
+    df = df.rename(columns=restored_cell)
+    for c in df.columns:
+        if df[c].dtype == object or pd.api.types.is_string_dtype(df[c]):
+            df[c] = df[c].map(restored_cell)
     return df, provenance
 
 
@@ -368,11 +385,11 @@ def _plain_provenance(provenance) -> dict:
 
 
 def _encode_value(value) -> str:
-    """Text of a provenance value on a CSV ``# key: value`` line."""
-    if isinstance(value, str) and value == " ".join(value.split()):
+    """Text of a provenance value on a CSV ``# key: value`` line (no cell separator in it)."""
+    if isinstance(value, str) and value == " ".join(value.split()) and not _RISKY_SPLIT.search(value):
         if _decode_value(value) == value:
             return value
-    return json.dumps(value, ensure_ascii=False)
+    return inert_json(value)
 
 
 def _decode_value(text: str):
@@ -383,9 +400,22 @@ def _decode_value(text: str):
 
 
 def _csv_bytes(df, meta) -> bytes:
-    head = "".join(f"{_PROVENANCE_PREFIX}{k}: {_encode_value(v)}\n" for k, v in meta.items())
-    body = df.to_csv(index=False, lineterminator="\n")
+    head = "".join(f"{_PROVENANCE_PREFIX}{_inert_key(k)}: {_encode_value(v)}\n" for k, v in meta.items())
+    safe = df.rename(columns=lambda c: neutralised_cell(str(c)))
+    text_columns = [c for c in safe.columns if safe[c].dtype == object or pd.api.types.is_string_dtype(safe[c])]
+    if text_columns:
+        safe = safe.copy()
+        for c in text_columns:
+            safe[c] = safe[c].map(neutralised_cell)
+    # a carriage return inside text is not quoted by the minimal rule (rows end in \n): quote all text then
+    has_cr = any("\r" in str(c) for c in safe.columns) or any(
+        safe[c].map(lambda v: isinstance(v, str) and "\r" in v).any() for c in text_columns)
+    body = safe.to_csv(index=False, lineterminator="\n", quoting=csv.QUOTE_NONNUMERIC if has_cr else csv.QUOTE_MINIMAL)
     return (head + body).encode("utf-8")
+
+
+def _inert_key(key: str) -> str:
+    return key.replace(",", " ").replace(";", " ")
 
 
 def _rows(df):
@@ -408,15 +438,15 @@ def _xlsx_bytes(df, meta) -> bytes:
     book = openpyxl.Workbook()
     table = book.active
     table.title = "table"
-    table.append([str(c) for c in df.columns])
+    append_inert(table, [str(c) for c in df.columns])
     for row in _rows(df):
-        table.append(row)
+        append_inert(table, row)
     sheet = book.create_sheet("provenance")
     sheet.append(["key", "value"])
     for key, value in meta.items():
         cell = json.dumps(value, ensure_ascii=False) if isinstance(value, (list, dict)) \
             else value
-        sheet.append([key, cell])
+        append_inert(sheet, [key, cell])
     out = io.BytesIO()
     book.save(out)
     return out.getvalue()

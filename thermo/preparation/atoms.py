@@ -8,6 +8,9 @@ from ..errors import DosInputError, OptionError
 
 #: Relative distance to 3n within which the atom count is inferred.
 INFER_TOLERANCE = 0.02
+#: Most atoms per formula unit accepted, given or inferred (large cells of
+#: complex crystals hold a few thousand atoms).
+MAX_ATOMS = 10_000
 
 
 def modes_text(count: float) -> str:
@@ -44,9 +47,10 @@ def resolve_atoms(raw_integral: float, atoms=None, source: str | None = None):
     Raises
     ------
     OptionError
-        If ``atoms`` is not a positive whole number.
+        If ``atoms`` is not a whole number from 1 to :data:`MAX_ATOMS`.
     DosInputError
-        If ``atoms`` is None and the integral is not within 2 % of 3n.
+        If ``atoms`` is None and the integral is not within 2 % of 3n, or
+        would give more than :data:`MAX_ATOMS` atoms.
 
     Notes
     -----
@@ -69,9 +73,18 @@ def resolve_atoms(raw_integral: float, atoms=None, source: str | None = None):
             n = int(atoms)
         except (TypeError, ValueError):
             raise OptionError(f"atoms per formula unit must be a whole number, not {atoms!r}") from None
-        if n != float(atoms) or n < 1:
+        except OverflowError:
+            n = MAX_ATOMS + 1
+        if n <= MAX_ATOMS and (n != float(atoms) or n < 1):
             raise OptionError(f"atoms per formula unit must be a whole number >= 1, not {atoms!r}")
+        if n > MAX_ATOMS:
+            raise OptionError(f"atoms per formula unit must be at most {MAX_ATOMS:,}, not {atoms!r}")
         return n, False
+    if not np.isfinite(raw_integral):
+        raise DosInputError("the DOS integral is not finite; give the number of atoms per formula unit", source)
+    if raw_integral > 3 * MAX_ATOMS * (1 + INFER_TOLERANCE):
+        raise DosInputError(f"the DOS integrates to {raw_integral:.6g} modes, more than 3 x {MAX_ATOMS:,} "
+                            "atoms; give the number of atoms per formula unit", source)
     n = int(np.rint(raw_integral / 3.0))
     if n >= 1 and abs(raw_integral - 3 * n) <= INFER_TOLERANCE * 3 * n:
         return n, True

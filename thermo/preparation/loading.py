@@ -22,6 +22,7 @@ from ..spectrum import PhononDOS
 from ..units import FREQUENCY_UNITS, canonical_unit, thz_to_unit
 from .plausibility import entropy_298_per_atom, partial_sum_warnings, unit_warnings
 from .validation import check_spectrum
+from .validation import MAX_FREQUENCY_THZ, check_magnitudes, check_mode_count
 
 
 def _mention_note(mentions):
@@ -55,9 +56,19 @@ def _low_frequency_option(value):
             lo, hi = (float(v) for v in value.split(":"))
         except ValueError:
             raise OptionError(f"low-frequency window {value!r} must be 'auto', 'off' or LOW:HIGH in THz") from None
-        return (lo, hi)
-    lo, hi = value
-    return (float(lo), float(hi))
+        return _window(lo, hi, value)
+    try:
+        lo, hi = value
+        return _window(float(lo), float(hi), value)
+    except (TypeError, ValueError):
+        raise OptionError(f"low-frequency window {value!r} must be 'auto', 'off' or (low, high) in THz") from None
+
+
+def _window(lo, hi, given):
+    if not (0.0 <= lo < hi <= MAX_FREQUENCY_THZ):
+        raise OptionError(f"low-frequency window {given!r} must have 0 <= low < high <= "
+                          f"{MAX_FREQUENCY_THZ:g} THz")
+    return (lo, hi)
 
 
 def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency="auto", name=None,
@@ -132,17 +143,33 @@ import numpy as np
     window = _low_frequency_option(low_frequency)
     raw = read_table(source, name=name, sheet=sheet)
     clean = check_spectrum(raw)
+    try:
+        with np.errstate(over="raise", invalid="raise", divide="raise"):
+            return _prepared(raw, clean, freq_unit, atoms, policy, window)
+    except (FloatingPointError, np.linalg.LinAlgError, OverflowError, ZeroDivisionError) as exc:
+        # a safety net behind the magnitude checks: never a raw numpy error or warning
+        raise DosInputError(f"numbers out of the range this DOS can be prepared in ({exc})",
+                            clean.source) from None
+
+
+def _prepared(raw, clean, freq_unit, atoms, policy, window):
+    """The steps after reading: units, magnitudes, imaginary modes, atoms, low-frequency treatment, 3n."""
     src = clean.source
     unit, unit_note = _unit(freq_unit, clean.header_unit, src, raw.unit_mentions)
     notes = list(clean.warnings) + ([unit_note] if unit_note else [])
 
     factor = thz_to_unit(unit)
-    nu_all = np.asarray(clean.frequency, dtype=float) / factor
     names = list(clean.partials)
-    cols_all = [np.asarray(clean.total, float) * factor] + [np.asarray(clean.partials[k], float) * factor for k in names]
+    with np.errstate(over="ignore", invalid="ignore"):
+        nu_all = np.asarray(clean.frequency, dtype=float) / factor
+        cols_all = [np.asarray(clean.total, float) * factor] + [np.asarray(clean.partials[k], float) * factor
+                                                              for k in names]
+    check_magnitudes(nu_all, cols_all, src, clean.line_numbers)
     negative_modes, nu, cols = split_at_zero(nu_all, cols_all)
-    real_integral = float(mode_weights(nu, cols[0]).sum()) if nu.size > 1 else 0.0
-    raw_integral = float(negative_modes[0]) + real_integral
+    with np.errstate(over="ignore", invalid="ignore"):
+        real_integral = float(mode_weights(nu, cols[0]).sum()) if nu.size > 1 else 0.0
+        raw_integral = float(negative_modes[0]) + real_integral
+    check_mode_count(raw_integral, src)
     if not raw_integral > 0:
         raise DosInputError(f"the DOS integrates to {raw_integral:.6g}; it must be positive", src)
     share = float(negative_modes[0] / raw_integral)

@@ -18,6 +18,14 @@ from ..io.readers import RawTable
 
 #: Fewest data points accepted for a DOS.
 MIN_POINTS = 10
+#: Largest |frequency| accepted [THz] (about 33,000 cm⁻¹; the stiffest
+#: molecular vibrations lie near 130 THz, common practice).
+MAX_FREQUENCY_THZ = 1.0e3
+#: Smallest accepted highest frequency of a DOS [THz] (about 0.05 K).
+MIN_TOP_FREQUENCY_THZ = 1.0e-3
+#: Accepted range of the DOS integral as read [modes]; outside it the
+#: rescaling to 3n would magnify rounding or lose every digit.
+MODE_COUNT_RANGE = (1.0e-30, 1.0e30)
 
 
 @dataclass(frozen=True)
@@ -158,3 +166,75 @@ def _clip_negative(dos, threshold, lines, source) -> int:
     negative = dos < 0
     dos[negative] = 0.0
     return int(negative.sum())
+
+
+def check_magnitudes(frequency_thz, dos_columns, source, lines=()):
+    """Refuse frequencies and DOS values outside the ranges a phonon spectrum can have.
+
+    Parameters
+    ----------
+    frequency_thz : numpy.ndarray, shape (N,)
+        Frequencies converted to THz [THz].
+    dos_columns : sequence of numpy.ndarray, each shape (N,)
+        DOS columns converted to states/THz [states / THz].
+    source : str
+        File name for messages.
+    lines : sequence of int, optional
+        File line of each point.
+
+    Raises
+    ------
+    DosInputError
+        A frequency beyond :data:`MAX_FREQUENCY_THZ`, a highest frequency
+        below :data:`MIN_TOP_FREQUENCY_THZ`, or a DOS value that is not
+        finite after the unit conversion.
+
+    Notes
+    -----
+    With :math:`|\\nu| \\le 10^3` THz and finite :math:`g`, every power
+    :math:`\\nu^k` (k ≤ 4) and the Planck kernels stay finite in double
+    precision; the integral range is checked by :func:`check_mode_count`.
+
+    Examples
+    --------
+    >>> import numpy as np
+    >>> check_magnitudes(np.linspace(0, 5, 11), [np.ones(11)], "x.dat")
+    >>> check_magnitudes(np.linspace(0, 5e6, 11), [np.ones(11)], "x.dat")
+    Traceback (most recent call last):
+    ...
+    thermo.errors.DosInputError: x.dat, line 2: frequency 5e+05 THz is beyond the accepted 1000 THz; check the frequency unit
+    """
+    nu = np.asarray(frequency_thz, dtype=float)
+    lines = list(lines) or list(range(1, len(nu) + 1))
+    with np.errstate(all="ignore"):
+        far = np.flatnonzero(~(np.abs(nu) <= MAX_FREQUENCY_THZ))
+    if far.size:
+        i = int(far[0])
+        raise DosInputError(f"frequency {float(nu[i]):.3g} THz is beyond the accepted {MAX_FREQUENCY_THZ:g} THz; "
+                            "check the frequency unit", source, lines[i])
+    if nu.size and not float(nu.max()) >= MIN_TOP_FREQUENCY_THZ:
+        raise DosInputError(f"the highest frequency is {float(nu.max()):.3g} THz, below the accepted "
+                            f"{MIN_TOP_FREQUENCY_THZ:g} THz; check the frequency unit", source)
+    for k, col in enumerate(dos_columns):
+        bad = np.flatnonzero(~np.isfinite(np.asarray(col, dtype=float)))
+        if bad.size:
+            i = int(bad[0])
+            raise DosInputError("DOS value is too large to convert to states/THz (not finite)",
+                                source, lines[i], k + 2)
+
+
+def check_mode_count(integral, source):
+    """Refuse a DOS integral [modes] that is not finite or outside :data:`MODE_COUNT_RANGE`.
+
+    Examples
+    --------
+    >>> check_mode_count(6.0, "x.dat")
+    >>> check_mode_count(1e-319, "x.dat")
+    Traceback (most recent call last):
+    ...
+    thermo.errors.DosInputError: x.dat: the DOS integrates to 1e-319 modes; accepted are 1e-30 to 1e+30
+    """
+    low, high = MODE_COUNT_RANGE
+    if not (np.isfinite(integral) and low <= abs(integral) <= high):
+        raise DosInputError(f"the DOS integrates to {integral:.3g} modes; accepted are {low:g} to {high:g}",
+                            source)

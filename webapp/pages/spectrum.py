@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+import math
+
 import dash
 from dash import ClientsideFunction, Input, Output, State, callback, clientside_callback, ctx, dcc, html, no_update
 
@@ -86,7 +88,7 @@ def options_from_controls(values, trigger=None, shown_window=(None, None)):
     if atoms in ("", None):
         atoms = None
     else:
-        if float(atoms) != int(float(atoms)) or int(float(atoms)) < 1:
+        if not math.isfinite(float(atoms)) or float(atoms) != int(float(atoms)) or int(float(atoms)) < 1:
             raise OptionError(f"atoms per formula unit must be a whole number >= 1, not {atoms}")
         atoms = int(float(atoms))
     mode = values.get("sp-lowmode") or "auto"
@@ -97,7 +99,7 @@ def options_from_controls(values, trigger=None, shown_window=(None, None)):
     if mode == "manual":
         if lo is None or hi is None:
             raise OptionError("type both limits of the low-frequency window (THz), e.g. 0.2 and 0.6")
-        if not 0 <= float(lo) < float(hi):
+        if not 0 <= float(lo) < float(hi) < math.inf:
             raise OptionError(f"the low-frequency window {lo}–{hi} THz needs 0 <= low < high")
         low = f"{float(lo)}:{float(hi)}"
     else:
@@ -140,6 +142,8 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
         Output of the client-side size check: ``files`` and ``refused``; with
         ``trigger`` the retry button, ``files`` are the files refused before.
         The files are read with the reading options of ``values``.
+        The size limit is always the server's setting; nothing in ``upload``
+        can change it.
     rename_text, selected : str, optional
         Rename box text; dataset chosen in the selector.
 
@@ -155,6 +159,8 @@ def apply_edit(workspace, trigger, values, upload=None, rename_text=None, select
         new, notes = intake.add_uploads(ws, [f["contents"] for f in files], [f["name"] for f in files],
                                         upload.get("max_bytes", int(intake.DEFAULT_MAX_UPLOAD_MB * 1e6)),
                                         options=upload_options(values), refused=pending)
+        if new.get("datasets") == ws.get("datasets") and new.get("active") == ws.get("active"):
+            new = ws      # nothing loaded: the workspace (and the messages shown) stay as they are
         return new, refused + notes
     current = session.active(ws)
     if trigger == "sp-dataset":
