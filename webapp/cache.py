@@ -94,8 +94,9 @@ DEFAULT_CACHE_MB = 256.0
 _DOS_CACHE = _LRU(48, 0.45)
 _TABLE_CACHE = _LRU(128, 0.30)
 _HEADER_CACHE = _LRU(64, 0.05)
-_DERIVED_CACHE = _LRU(96, 0.20)
-CACHES = (_DOS_CACHE, _TABLE_CACHE, _HEADER_CACHE, _DERIVED_CACHE)
+_DERIVED_CACHE = _LRU(96, 0.15)
+_RESULT_CACHE = _LRU(32, 0.05)
+CACHES = (_DOS_CACHE, _TABLE_CACHE, _HEADER_CACHE, _DERIVED_CACHE, _RESULT_CACHE)
 
 
 def held_total() -> int:
@@ -153,3 +154,8 @@ def derived(kind, dataset, compute, *params):
     """
     key = (kind, _load_key(dataset), params)
     return _DERIVED_CACHE.get(key, lambda: compute(load(dataset)))
+
+
+def result(key, compute):
+    """Memoise ``compute()`` under ``key`` (content hashes and settings only; a pure result of :mod:`thermo`)."""
+    return _RESULT_CACHE.get(key, compute)

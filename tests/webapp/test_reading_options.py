@@ -145,9 +145,18 @@ def test_sheet_option_reads_the_chosen_worksheet_of_an_upload():
 
 
 def test_implausible_unit_is_warned_in_the_checks_panel():
-    ws, _, _ = _upload(session.empty_workspace(), _values(**{"sp-unit": "rad/s"}), BARE)
+    # THz numbers read as cm-1: the highest frequency becomes ~0.2 THz, below what solids have
+    ws, _, _ = _upload(session.empty_workspace(), _values(**{"sp-unit": "cm-1"}), BARE)
     items = spectrum.warning_items(spectrum.cache.load(session.active(ws)))
     assert any(kind == "warn" and "check the frequency unit" in text for kind, text in items)
+
+
+def test_impossible_unit_is_refused_in_one_line():
+    # THz numbers read as rad/s: ~1e-12 THz, outside the accepted frequency range, refused (not loaded)
+    ws, notes, _ = _upload(session.empty_workspace(), _values(**{"sp-unit": "rad/s"}), BARE)
+    assert session.active(ws) is None
+    errors = [text for kind, text in notes if kind == "error"]
+    assert len(errors) == 1 and "f0.dat" in errors[0] and "\n" not in errors[0]
 
 
 def test_refused_option_change_names_the_file_once():

@@ -65,15 +65,19 @@ def _upload_callback():
 
 
 def _upload_payload(files, config):
+    """A crafted request for the upload callback, built from the server's own dependency list."""
     cb = _upload_callback()
     outputs = [{"id": part.split(".")[0], "property": part.split(".", 1)[1]}
                for part in cb["output"].strip(".").split("...")]
-    return {"output": cb["output"], "outputs": outputs,
-            "inputs": [{"id": "mh-upload-checked", "property": "data",
-                        "value": {"files": files, "refused": [], "stamp": 1}}],
-            "state": [{"id": "mh-workspace", "property": "data", "value": {"datasets": [], "active": None}},
-                      {"id": "mh-config", "property": "data", "value": config}],
-            "changedPropIds": ["mh-upload-checked.data"]}
+    known = {("mh-upload-checked", "data"): {"files": files, "refused": [], "stamp": 1},
+             ("mh-workspace", "data"): {"datasets": [], "active": None},
+             ("mh-config", "data"): config}
+
+    def values(items):
+        return [{"id": i["id"], "property": i["property"], "value": known.get((i["id"], i["property"]))}
+                for i in items]
+    return {"output": cb["output"], "outputs": outputs, "inputs": values(cb["inputs"]),
+            "state": values(cb["state"]), "changedPropIds": ["mh-upload-checked.data"]}
 
 
 def _data_url(raw: bytes):

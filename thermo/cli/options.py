@@ -60,7 +60,7 @@ def load_from_args(args):
                         atoms=args.atoms or kept["atoms"],
                         negative=kept["negative"] if args.negative == "drop" else args.negative,
                         low_frequency=kept["low_frequency"] if args.low_frequency == "auto" else args.low_frequency,
-                        name=name)
+                        name=name, sheet=args.sheet or kept.get("sheet"))
     return load_dos(Path(args.file), name=os.path.basename(args.file) or None, freq_unit=args.freq_unit,
                     atoms=args.atoms, negative=args.negative, low_frequency=args.low_frequency, sheet=args.sheet)
 

@@ -37,7 +37,6 @@ FORMAT_CHOICES = [{"label": "CSV", "value": "csv"}, {"label": "Excel (XLSX)", "v
 CURVE_TEMPERATURES = (0.0, 200.0, 400.0, 600.0, 800.0, 1000.0)
 _GRAPHS = ("qh-fv-graph", "qh-v-graph", "qh-alpha-graph", "qh-b-graph", "qh-cp-graph", "qh-gamma-graph",
            "qh-residual-graph")
-_MEMO = cache._LRU(16)     # pure results keyed by content hashes and settings (no per-user state)
 
 
 def _entry(name, raw):
@@ -100,7 +99,7 @@ def results(record, source, rows, workspace, temperatures, pressure, eos, per, n
         shown = [t for t in CURVE_TEMPERATURES if t <= temperatures.max()] or [float(temperatures.max())]
         curves = free_energy_curves(free_energy_surface(vs, shown, eos), pressure)
         return vs, table, (shown, curves)
-    return _MEMO.get(key, compute)
+    return cache.result(key, compute)
 
 
 def figures(table, curves):
