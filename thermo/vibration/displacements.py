@@ -31,9 +31,12 @@ from ..errors import OptionError
 from ..formula import formula_unit
 from ..kernels.planck import H_OVER_K_THZ, occupation, reduced_frequency
 from ..kernels.quadrature import trapezoid_weights
-from ..partials import _window_shares
+from ..preparation.imaginary import split_at_zero
+from ..preparation.loading import treat_spectrum
+from ..preparation.lowfreq import WINDOW_MODES, WINDOW_SPREAD, window_shares
+from ..spectrum import PhononDOS
 from ..tables import check_temperatures
-from .debye_waller import _amplitude, debye_waller_temperature, nu2_displacement_integral
+from .debye_waller import _amplitude, analytic_displacement_integral, debye_waller_temperature
 from .lindemann import lindemann_ratio, lindemann_warnings
 
 #: Label of the mass-weighted mean over all atoms (no partial DOS).
@@ -80,10 +83,27 @@ def _integrals(dos, column, share, t):
         inverse_square += half * reduced
     fit = dos.low_frequency
     if fit is not None:
-        main = main + share * nu2_displacement_integral(fit.coefficient, fit.cutoff_thz, t)
-        inverse_square += share * fit.coefficient * fit.cutoff_thz
-        modes += share * fit.coefficient * fit.cutoff_thz ** 3 / 3.0
+        # the analytic part W·A ν²(1+bν²+cν⁴) below (and tapered above) the cut-off, as in the sums
+        main = main + share * analytic_displacement_integral(fit, t)
+        inverse_square += share * fit.analytic_moment(-2)
+        modes += share * fit.analytic_moment(0)
     return main, inverse_square, modes
+
+
+def _species_shares(dos):
+    """Each partial's share of the analytic part, as fixed when the DOS was loaded (``species_shares``)."""
+    fit = dos.low_frequency
+    if fit is None:
+        return {name: 0.0 for name in dos.partials}
+    if fit.species_shares:
+        return {name: float(fit.species_shares.get(name, 0.0)) for name in dos.partials}
+    # a DOS built without loading: the shares in the fit window, from the input columns when kept
+    names = list(dos.partials)
+    if dos.input_frequency_thz is not None and all(k in dos.input_partials for k in names):
+        nu, cols = dos.input_frequency_thz, [dos.input_partials[k] for k in names]
+    else:
+        nu, cols = dos.frequency_thz, [dos.partials[k] for k in names]
+    return dict(zip(names, window_shares(nu, cols, fit.window_thz)))
 
 
 def _parts(dos, formula, masses, species=None):
@@ -99,7 +119,7 @@ def _parts(dos, formula, masses, species=None):
         if unknown:
             raise OptionError(f"mass given for {', '.join(unknown)}, which is not a partial-DOS column "
                               f"(columns: {', '.join(dos.partials)})")
-        shares = _window_shares(dos)
+        shares = _species_shares(dos)
         counts = _counts_from_formula(formula) if formula else {}
         parts = []
         for name, col in dos.partials.items():
@@ -243,49 +263,68 @@ def displacement_table(dos, temperatures, formula=None, masses=None, distance_a=
     return pd.concat(frames, ignore_index=True)
 
 
-def _refitted(dos, move):
-    """The DOS prepared again with the low-frequency window's ends scaled by ``move``."""
-    from ..kernels.quadrature import mode_weights
-    from ..preparation.imaginary import split_at_zero
-    from ..preparation.lowfreq import apply_low_frequency, fit_low_frequency
-    from ..spectrum import LowFrequencyFit, PhononDOS
+def _refitted(dos, window, window_modes=WINDOW_MODES):
+    """The DOS prepared again from its input rows by :func:`~thermo.preparation.loading.treat_spectrum`.
+
+    ``window`` is ``"auto"`` (with ``window_modes``) or a (low, high) window
+    [THz]; returns None when no ν² form results.
+    """
     names = list(dos.partials)
     cols = [dos.input_dos] + [dos.input_partials[k] for k in names]
     _, nu, cols = split_at_zero(dos.input_frequency_thz, cols)
-    lo, hi = dos.low_frequency.window_thz
-    fit, _ = fit_low_frequency(nu, cols[0], (lo * move[0], hi * move[1]))
-    grid, cut = apply_low_frequency(nu, cols, fit.cutoff_thz)
-    treated = float(mode_weights(grid, cut[0]).sum()) + fit.coefficient * fit.cutoff_thz ** 3 / 3.0
-    scale = dos.mode_count / treated
-    low = LowFrequencyFit(fit.coefficient * scale, fit.cutoff_thz, fit.window_thz, fit.offset * scale,
-                          fit.rms_relative_residual, automatic=False)
+    share = float(dos.source.get("negative_mode_fraction") or 0.0)
+    policy = dos.source.get("negative_policy") or "drop"
+    grid, cut, fit, scale, _notes = treat_spectrum(nu, cols, names, dos.atoms, share, policy, window,
+                                                   window_modes=window_modes)
+    if fit is None:
+        return None
     return PhononDOS(grid, cut[0] * scale, dos.atoms, {k: c * scale for k, c in zip(names, cut[1:])},
-                     low, dos.source, dos.warnings)
+                     fit, dos.source, dos.warnings)
 
 
-#: Factors applied to the (start, stop) of the fitted window when measuring the sensitivity.
+#: Factors applied to the (start, stop) of a window given by hand when measuring the sensitivity.
 WINDOW_MOVES = ((0.7, 1.0), (1.4, 1.0), (1.0, 0.7), (1.0, 1.4), (0.7, 0.7), (1.4, 1.4))
 
 
+def _alternatives(dos, moves):
+    """(description, prepared DOS or None) of the other plausible low-frequency treatments."""
+    fit = dos.low_frequency
+    if fit.automatic:
+        how = "the automatic window's mode count is varied ×" + " and ×".join(f"{f:g}" for f in WINDOW_SPREAD)
+        return how, [_refitted(dos, "auto", WINDOW_MODES * f) for f in WINDOW_SPREAD]
+    lo, hi = fit.window_thz
+    found = []
+    for move in moves:
+        try:
+            found.append(_refitted(dos, (lo * move[0], hi * move[1])))
+        except OptionError:
+            found.append(None)
+    how = "the window's ends are moved by " + ", ".join(f"×{a:g}/×{b:g}" for a, b in moves)
+    return how, found
+
+
 def window_sensitivity(dos, temperatures, formula=None, masses=None, moves=WINDOW_MOVES, species=None):
-    """Largest relative change of ⟨u²⟩ when the low-frequency window moves.
+    """Largest relative change of ⟨u²⟩ under the other plausible low-frequency treatments.
 
     Parameters
     ----------
     dos, temperatures, formula, masses, species
         As :func:`mean_square_displacement`; ``dos`` keeps its input arrays.
     moves : sequence of (float, float)
-        Factors on the start and the stop of the fitted window; for each,
-        the DOS is prepared again (public functions of
-        :mod:`thermo.preparation.lowfreq`).  Windows where no ν² form fits
-        (or start >= stop) are skipped.
+        For a window given by hand: factors on its start and stop.  An
+        automatic window is instead refitted with its mode count
+        :data:`~thermo.preparation.lowfreq.WINDOW_MODES` times each factor of
+        :data:`~thermo.preparation.lowfreq.WINDOW_SPREAD`.  Each alternative
+        is prepared again by :func:`~thermo.preparation.loading.treat_spectrum`
+        (fit, blend, species shares, normalisation); those where no ν² form
+        fits are skipped.
 
     Returns
     -------
     dict
-        ``per_species``: {species: max |Δ⟨u²⟩|/⟨u²⟩ over factors and T} [1],
-        ``windows_THz``: the windows tried, ``note``: why none was tried,
-        or None.
+        ``per_species``: {species: max |Δ⟨u²⟩|/⟨u²⟩ over alternatives and T} [1],
+        ``windows_THz``: the windows tried, ``varied``: what was varied,
+        ``note``: why none was tried, or None.
 
     Notes
     -----
@@ -300,22 +339,21 @@ def window_sensitivity(dos, temperatures, formula=None, masses=None, moves=WINDO
     """
     t = check_temperatures(temperatures)
     if dos.low_frequency is None:
-        return {"per_species": {}, "windows_THz": [], "note": "low-frequency treatment is off"}
+        return {"per_species": {}, "windows_THz": [], "varied": None, "note": "low-frequency treatment is off"}
     if dos.input_frequency_thz is None or dos.input_dos is None:
-        return {"per_species": {}, "windows_THz": [], "note": "the DOS has no input table to refit"}
+        return {"per_species": {}, "windows_THz": [], "varied": None, "note": "the DOS has no input table to refit"}
     base = mean_square_displacement(dos, t, formula, masses, species)
     worst = {name: 0.0 for name in base}
     windows = []
-    for move in moves:
-        try:
-            other = _refitted(dos, move)
-        except OptionError:
+    how, others = _alternatives(dos, moves)
+    for other in others:
+        if other is None:
             continue
         windows.append(list(other.low_frequency.window_thz))
         for name, r in mean_square_displacement(other, t, formula, masses, species).items():
             worst[name] = max(worst[name], float(np.max(np.abs(r["msd"] / base[name]["msd"] - 1.0))))
-    note = None if windows else "no ν² form fits the moved windows"
-    return {"per_species": worst, "windows_THz": windows, "note": note}
+    note = None if windows else "no ν² form fits the other windows"
+    return {"per_species": worst, "windows_THz": windows, "varied": how, "note": note}
 
 
 def displacement_summary(dos, formula=None, masses=None, distance_a=None, temperatures=None, species=None):
@@ -363,8 +401,8 @@ def displacement_summary(dos, formula=None, masses=None, distance_a=None, temper
     sens = window_sensitivity(dos, key, formula, masses, species=species)
     worst = max(sens["per_species"].values(), default=0.0)
     if worst > 0.02:
-        notes.append(f"⟨u²⟩ changes by up to {100 * worst:.1f} % when the low-frequency window is moved "
-                     "(ends ×0.7 and ×1.4); the acoustic part of the DOS limits its accuracy")
+        notes.append(f"⟨u²⟩ changes by up to {100 * worst:.1f} % under other plausible low-frequency "
+                     f"windows ({sens['varied']}); the acoustic part of the DOS limits its accuracy")
     if sens["note"]:
         notes.append(f"window sensitivity of ⟨u²⟩ not measured: {sens['note']}")
     return {"convention": CONVENTION, "species": per_species, "window_sensitivity": sens, "warnings": notes,
