@@ -6,8 +6,9 @@ directions); the isotropic displacement parameter is
 :math:`U_{iso} = \\langle u^2\\rangle/3` (per direction) and the Debye–Waller
 factor :math:`B = 8\\pi^2 U_{iso}`.
 
-The low-frequency :math:`A\\nu^2` part of a DOS and the Debye model share one
-closed form, :func:`nu2_displacement_integral`.
+The low-frequency part :math:`A\\nu^2(1+b\\nu^2+c\\nu^4)` of a DOS and the Debye
+model share one closed form, :func:`nu2_displacement_integral`; the fitted
+form's taper is added by :func:`analytic_displacement_integral`.
 
 References
 ----------
