@@ -114,3 +114,19 @@ def test_window_sensitivity_refits_automatic_and_manual_windows():
     m = window_sensitivity(manual, [0.0, 300.0], masses={"X": MASS}, moves=((0.7, 1.0), (1.0, 1.4)))
     np.testing.assert_allclose(m["windows_THz"], [[0.28, 1.6], [0.4, 2.24]], rtol=1e-12)
     assert "ends are moved" in m["varied"]
+
+
+def test_partials_without_stored_shares_against_willis_pryor():
+    # A DOS whose fit carries no species_shares (built by hand) gets them from the fit window of its
+    # input columns; each species still follows Willis and Pryor eq. 4.66 (mpmath, test_displacements).
+    import dataclasses
+    import periodictable
+    from tests.vibration.test_displacements import _two_species_text, willis_pryor_msd
+    loaded = load_dos(_two_species_text(), atoms=2)
+    bare = dataclasses.replace(loaded, low_frequency=dataclasses.replace(loaded.low_frequency, species_shares={}))
+    t = np.array([0.0, 100.0, 300.0])
+    res = mean_square_displacement(bare, t, formula="MgO")
+    for name, theta in [("Mg", 250.0), ("O", 480.0)]:
+        mass = periodictable.elements.symbol(name).mass
+        want = [willis_pryor_msd(tt / theta, theta, mass) for tt in t]
+        np.testing.assert_allclose(res[name]["msd"], want, rtol=2e-4)   # as the stored-shares test
