@@ -2,7 +2,8 @@
 
 :mod:`.debye_waller` (Debye-model ⟨u²⟩ in closed form, the Debye–Waller
 temperature θ_M), :mod:`.displacements` (⟨u²⟩, U_iso and B per species from
-the partial DOS), :mod:`.lindemann` (nearest-neighbour distance, the
+the partial DOS; :mod:`.species` holds the per-species parts and integrals),
+:mod:`.lindemann` (nearest-neighbour distance, the
 Lindemann ratio and its caution), :mod:`.elastic` (θ_D from elastic
 constants or sound velocities, Anderson's method with the Voigt–Reuss–Hill
 average).

@@ -6,8 +6,9 @@ directions); the isotropic displacement parameter is
 :math:`U_{iso} = \\langle u^2\\rangle/3` (per direction) and the Debye–Waller
 factor :math:`B = 8\\pi^2 U_{iso}`.
 
-The low-frequency :math:`A\\nu^2` part of a DOS and the Debye model share one
-closed form, :func:`nu2_displacement_integral`.
+The low-frequency part :math:`A\\nu^2(1+b\\nu^2+c\\nu^4)` of a DOS and the Debye
+model share one closed form, :func:`nu2_displacement_integral`; the fitted
+form's taper is added by :func:`analytic_displacement_integral`.
 
 References
 ----------
@@ -24,7 +25,8 @@ from scipy import constants as sc
 from scipy import special
 
 from ..errors import OptionError
-from ..kernels.planck import H_OVER_K_THZ
+from ..kernels.nu2 import bose_integral
+from ..kernels.planck import H_OVER_K_THZ, occupation, reduced_frequency
 
 #: Below this X the series of I(X) is used (no cancellation), above it the dilogarithm form.
 _SERIES_SPLIT = 0.5
@@ -74,8 +76,8 @@ def bose_first_moment(upper):
     return out
 
 
-def nu2_displacement_integral(coefficient, cutoff_thz, temperatures):
-    """:math:`\\int_0^{\\nu_c} A\\nu^2\\,\\coth(h\\nu/2k_BT)/\\nu\\,d\\nu` in closed form.
+def nu2_displacement_integral(coefficient, cutoff_thz, temperatures, curvature=0.0, quartic=0.0):
+    """:math:`\\int_0^{\\nu_c} A\\nu^2(1+b\\nu^2+c\\nu^4)\\,\\coth(h\\nu/2k_BT)/\\nu\\,d\\nu` in closed form.
 
     Parameters
     ----------
@@ -83,6 +85,61 @@ def nu2_displacement_integral(coefficient, cutoff_thz, temperatures):
         :math:`A` [modes / THz³].
     cutoff_thz : float
         :math:`\\nu_c` [THz].
+    temperatures : array_like
+        Temperatures [K], >= 0.
+    curvature, quartic : float
+        :math:`b` [1/THz²] and :math:`c` [1/THz⁴] of the fitted form.
+
+    Returns
+    -------
+    numpy.ndarray
+        The integral [modes / THz].
+
+    Notes
+    -----
+    With :math:`\\coth(x/2) = 1 + 2/(e^x-1)`, :math:`\\tau = k_BT/h` and
+    :math:`X = \\nu_c/\\tau`, each power :math:`\\nu^{m}` of the integrand
+    (m = 1, 3, 5) gives
+
+    .. math:: \\int_0^{\\nu_c}\\nu^m\\coth\\frac{h\\nu}{2k_BT}\\,d\\nu
+              = \\frac{\\nu_c^{m+1}}{m+1} + 2\\tau^{m+1} J_m(X),
+              \\qquad J_m(X) = \\int_0^X \\frac{y^m}{e^y-1}\\,dy,
+
+    with :math:`J_1 = I` from :func:`bose_first_moment` and :math:`J_3, J_5`
+    from :func:`thermo.kernels.nu2.bose_integral` (Bose moments, to rounding).
+    For m = 1 this is Willis and Pryor's :math:`A[\\nu_c^2/2 + 2\\tau^2 I(X)]`.
+
+    References
+    ----------
+    Willis and Pryor (1975), eq. 4.64.
+
+    Examples
+    --------
+    >>> float(nu2_displacement_integral(3.0, 2.0, [0.0])[0])   # A νc²/2 at T = 0
+    6.0
+    >>> float(nu2_displacement_integral(3.0, 2.0, [0.0], curvature=0.5)[0])   # + A b νc⁴/4
+    12.0
+    """
+    t = np.atleast_1d(np.asarray(temperatures, dtype=float))
+    kt_h = t / H_OVER_K_THZ                 # k_B T / h [THz]
+    with np.errstate(divide="ignore"):
+        x = np.where(t > 0, cutoff_thz / np.where(t > 0, kt_h, 1.0), np.inf)
+    out = 0.5 * cutoff_thz ** 2 + 2.0 * kt_h ** 2 * bose_first_moment(x)
+    for power, factor in ((3, curvature), (5, quartic)):
+        if factor != 0.0:
+            out = out + factor * (cutoff_thz ** (power + 1) / (power + 1)
+                                  + 2.0 * kt_h ** (power + 1) * bose_integral(power, x))
+    return coefficient * out
+
+
+def analytic_displacement_integral(fit, temperatures):
+    """:math:`\\int W M \\coth(h\\nu/2k_BT)/\\nu\\,d\\nu` of the whole analytic low-frequency part.
+
+    Parameters
+    ----------
+    fit : LowFrequencyFit
+        The fitted form :math:`M = A\\nu^2(1+b\\nu^2+c\\nu^4)`, its cut-off
+        and its taper :math:`W` (1 below the cut-off).
     temperatures : array_like
         Temperatures [K], >= 0.
 
@@ -93,27 +150,31 @@ def nu2_displacement_integral(coefficient, cutoff_thz, temperatures):
 
     Notes
     -----
-    With :math:`\\coth(x/2) = 1 + 2/(e^x-1)`:
-
-    .. math:: A\\left[\\frac{\\nu_c^2}{2} + 2\\left(\\frac{k_BT}{h}\\right)^2
-              I\\!\\left(\\frac{h\\nu_c}{k_BT}\\right)\\right]
-
-    with :math:`I` from :func:`bose_first_moment`.
+    The same split as the thermodynamic sums
+    (:func:`thermo.kernels.nu2.analytic_part_sums`): :math:`[0, \\nu_c]` in
+    closed form (:func:`nu2_displacement_integral`), the tapered zone
+    :math:`[\\nu_c, \\nu_m]` on the 48 Gauss–Legendre nodes of
+    :meth:`~thermo.spectrum.LowFrequencyFit.taper_nodes` (smooth integrand).
 
     References
     ----------
-    Willis and Pryor (1975), eq. 4.64.
+    Willis and Pryor (1975), eq. 4.64; Abramowitz and Stegun (1964), 25.4.29.
 
     Examples
     --------
-    >>> float(nu2_displacement_integral(3.0, 2.0, [0.0])[0])   # A νc²/2 at T = 0
-    6.0
+    >>> from thermo.spectrum import LowFrequencyFit
+    >>> f = LowFrequencyFit(9.0, 1.0, (1.0, 4.0), blend_top_thz=2.0)
+    >>> round(float(analytic_displacement_integral(f, [0.0])[0]), 10)   # 9/2 + ∫_1^2 9ν W dν = 4.5 + 9·0.65
+    10.35
     """
     t = np.atleast_1d(np.asarray(temperatures, dtype=float))
-    kt_h = t / H_OVER_K_THZ                 # k_B T / h [THz]
-    with np.errstate(divide="ignore"):
-        x = np.where(t > 0, cutoff_thz / np.where(t > 0, kt_h, 1.0), np.inf)
-    return coefficient * (0.5 * cutoff_thz ** 2 + 2.0 * kt_h ** 2 * bose_first_moment(x))
+    out = nu2_displacement_integral(fit.coefficient, fit.cutoff_thz, t, fit.curvature, fit.quartic)
+    nodes, modes = fit.taper_nodes()
+    if nodes.size:
+        with np.errstate(divide="ignore"):
+            coth = 1.0 + 2.0 * occupation(reduced_frequency(nodes, t))
+        out = out + (modes / nodes) @ coth
+    return out
 
 
 def _check_positive(value, what):

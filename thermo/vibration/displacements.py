@@ -28,98 +28,17 @@ from scipy import constants as sc
 
 from ..columns import column_name
 from ..errors import OptionError
-from ..formula import formula_unit
-from ..kernels.planck import H_OVER_K_THZ, occupation, reduced_frequency
-from ..kernels.quadrature import trapezoid_weights
-from ..partials import _window_shares
+from ..preparation.imaginary import split_at_zero
+from ..preparation.loading import treat_spectrum
+from ..preparation.lowfreq import WINDOW_MODES, WINDOW_SPREAD
+from ..spectrum import PhononDOS
 from ..tables import check_temperatures
-from .debye_waller import _amplitude, debye_waller_temperature, nu2_displacement_integral
+from .debye_waller import _amplitude, debye_waller_temperature
 from .lindemann import lindemann_ratio, lindemann_warnings
+from .species import ALL_ATOMS, _integrals, _parts  # noqa: F401  (ALL_ATOMS: public label, kept here)
 
-#: Label of the mass-weighted mean over all atoms (no partial DOS).
-ALL_ATOMS = "all atoms (mass-weighted mean)"
 ROOM_K = 298.15
 _OMEGA_PER_THZ = 2.0 * np.pi * 1e12
-
-
-def _element_mass(name):
-    try:
-        mass, count = formula_unit(name)
-    except OptionError:
-        mass, count = None, 0
-    if count != 1:
-        raise OptionError(f"species {name!r} is not a chemical element; give its mass, e.g. {name}=12.0 (u)")
-    return mass
-
-
-def _counts_from_formula(formula):
-    import periodictable
-    parsed = periodictable.formula(str(formula))
-    return {str(el): float(n) for el, n in parsed.atoms.items()}
-
-
-def _integrals(dos, column, share, t):
-    """∫ g coth(x/2)/ν dν [modes/THz] on T, ∫ g/ν² dν [modes/THz²] and modes of one column."""
-    nu = np.asarray(dos.frequency_thz, float)
-    column = np.asarray(column, float)
-    w = column * trapezoid_weights(nu, dos.dos)
-    pos = nu > 0
-    with np.errstate(divide="ignore"):
-        coth = 1.0 + 2.0 * occupation(reduced_frequency(nu[pos], t))
-    main = (w[pos] / nu[pos]) @ coth
-    inverse_square = float(np.sum(w[pos] / nu[pos] ** 2))
-    modes = float(np.sum(w))
-    zero = np.flatnonzero(~pos)
-    if zero.size and pos.any() and column[zero[0]] == 0:
-        # Node at ν = 0 with g(0) = 0: the integrand's limit for g ≈ Aν² (A from the next node),
-        # g coth(x/2)/ν → 2A k_BT/h and g/ν² → A.
-        first = np.flatnonzero(pos)[0]
-        reduced = column[first] / nu[first] ** 2
-        half = trapezoid_weights(nu, dos.dos)[zero[0]]
-        main = main + half * reduced * 2.0 * t / H_OVER_K_THZ
-        inverse_square += half * reduced
-    fit = dos.low_frequency
-    if fit is not None:
-        main = main + share * nu2_displacement_integral(fit.coefficient, fit.cutoff_thz, t)
-        inverse_square += share * fit.coefficient * fit.cutoff_thz
-        modes += share * fit.coefficient * fit.cutoff_thz ** 3 / 3.0
-    return main, inverse_square, modes
-
-
-def _parts(dos, formula, masses, species=None):
-    """(label, column, share of the ν² part, mass [u], atoms per formula unit) per species."""
-    masses = dict(masses or {})
-    if species is not None:
-        missing = [s for s in species if s not in dos.partials]
-        if missing:
-            raise OptionError(f"no partial-DOS column {', '.join(missing)}; the file has: "
-                              + (", ".join(dos.partials) or "no partial columns"))
-    if dos.partials:
-        unknown = [k for k in masses if k not in dos.partials]
-        if unknown:
-            raise OptionError(f"mass given for {', '.join(unknown)}, which is not a partial-DOS column "
-                              f"(columns: {', '.join(dos.partials)})")
-        shares = _window_shares(dos)
-        counts = _counts_from_formula(formula) if formula else {}
-        parts = []
-        for name, col in dos.partials.items():
-            if species is not None and name not in species:
-                continue
-            mass = float(masses[name]) if name in masses else _element_mass(name)
-            parts.append((name, col, shares[name], mass, counts.get(name)))
-        return parts
-    if formula:
-        molar_mass, atoms = formula_unit(formula)
-        counts = _counts_from_formula(formula)
-        label = next(iter(counts)) if len(counts) == 1 else ALL_ATOMS
-        return [(label, dos.dos, 1.0, molar_mass / atoms, float(atoms))]
-    if len(masses) == 1:                      # one species, however many atoms per formula unit
-        (name, mass), = masses.items()
-        return [(name, dos.dos, 1.0, float(mass), float(dos.atoms))]
-    if masses:
-        raise OptionError(f"{len(masses)} masses given but the DOS has no partial columns; give the chemical "
-                          "formula for the mass-weighted mean, or one mass for a one-species crystal")
-    raise OptionError("atomic masses are needed: give the chemical formula, or the mass of each species")
 
 
 def mean_square_displacement(dos, temperatures, formula=None, masses=None, species=None):
@@ -156,9 +75,14 @@ def mean_square_displacement(dos, temperatures, formula=None, masses=None, speci
               \\langle u_s^2\\rangle_{cl} = \\frac{k_BT}{m_s n_s}\\int
               \\frac{g_s(\\omega)}{\\omega^2}\\,d\\omega
 
-    The ν² part below the low-frequency cut-off enters in closed form
-    (:func:`.debye_waller.nu2_displacement_integral`), shared among species
-    as their weight in the fitted window.  Without a formula, n_s is the
+    The analytic part of the prepared DOS (the fitted
+    :math:`A\\nu^2(1+b\\nu^2+c\\nu^4)` below the cut-off in closed form,
+    its taper above on Gauss–Legendre nodes,
+    :func:`.debye_waller.analytic_displacement_integral`) is added to the
+    sum over the tabulated, blended part, as in the thermodynamic sums; it
+    is shared among species by ``low_frequency.species_shares``.  The
+    classical limit and the mode count take the same part's moments
+    (:meth:`~thermo.spectrum.LowFrequencyFit.analytic_moment`).  Without a formula, n_s is the
     partial's mode count / 3.
 
     References
@@ -243,49 +167,68 @@ def displacement_table(dos, temperatures, formula=None, masses=None, distance_a=
     return pd.concat(frames, ignore_index=True)
 
 
-def _refitted(dos, move):
-    """The DOS prepared again with the low-frequency window's ends scaled by ``move``."""
-    from ..kernels.quadrature import mode_weights
-    from ..preparation.imaginary import split_at_zero
-    from ..preparation.lowfreq import apply_low_frequency, fit_low_frequency
-    from ..spectrum import LowFrequencyFit, PhononDOS
+def _refitted(dos, window, window_modes=WINDOW_MODES):
+    """The DOS prepared again from its input rows by :func:`~thermo.preparation.loading.treat_spectrum`.
+
+    ``window`` is ``"auto"`` (with ``window_modes``) or a (low, high) window
+    [THz]; returns None when no ν² form results.
+    """
     names = list(dos.partials)
     cols = [dos.input_dos] + [dos.input_partials[k] for k in names]
     _, nu, cols = split_at_zero(dos.input_frequency_thz, cols)
-    lo, hi = dos.low_frequency.window_thz
-    fit, _ = fit_low_frequency(nu, cols[0], (lo * move[0], hi * move[1]))
-    grid, cut = apply_low_frequency(nu, cols, fit.cutoff_thz)
-    treated = float(mode_weights(grid, cut[0]).sum()) + fit.coefficient * fit.cutoff_thz ** 3 / 3.0
-    scale = dos.mode_count / treated
-    low = LowFrequencyFit(fit.coefficient * scale, fit.cutoff_thz, fit.window_thz, fit.offset * scale,
-                          fit.rms_relative_residual, automatic=False)
+    share = float(dos.source.get("negative_mode_fraction") or 0.0)
+    policy = dos.source.get("negative_policy") or "drop"
+    grid, cut, fit, scale, _notes = treat_spectrum(nu, cols, names, dos.atoms, share, policy, window,
+                                                   window_modes=window_modes)
+    if fit is None:
+        return None
     return PhononDOS(grid, cut[0] * scale, dos.atoms, {k: c * scale for k, c in zip(names, cut[1:])},
-                     low, dos.source, dos.warnings)
+                     fit, dos.source, dos.warnings)
 
 
-#: Factors applied to the (start, stop) of the fitted window when measuring the sensitivity.
+#: Factors applied to the (start, stop) of a window given by hand when measuring the sensitivity.
 WINDOW_MOVES = ((0.7, 1.0), (1.4, 1.0), (1.0, 0.7), (1.0, 1.4), (0.7, 0.7), (1.4, 1.4))
 
 
+def _alternatives(dos, moves):
+    """(description, prepared DOS or None) of the other plausible low-frequency treatments."""
+    fit = dos.low_frequency
+    if fit.automatic:
+        how = "the automatic window's mode count is varied ×" + " and ×".join(f"{f:g}" for f in WINDOW_SPREAD)
+        return how, [_refitted(dos, "auto", WINDOW_MODES * f) for f in WINDOW_SPREAD]
+    lo, hi = fit.window_thz
+    found = []
+    for move in moves:
+        try:
+            found.append(_refitted(dos, (lo * move[0], hi * move[1])))
+        except OptionError:
+            found.append(None)
+    how = "the window's ends are moved by " + ", ".join(f"×{a:g}/×{b:g}" for a, b in moves)
+    return how, found
+
+
 def window_sensitivity(dos, temperatures, formula=None, masses=None, moves=WINDOW_MOVES, species=None):
-    """Largest relative change of ⟨u²⟩ when the low-frequency window moves.
+    """Largest relative change of ⟨u²⟩ under the other plausible low-frequency treatments.
 
     Parameters
     ----------
     dos, temperatures, formula, masses, species
         As :func:`mean_square_displacement`; ``dos`` keeps its input arrays.
     moves : sequence of (float, float)
-        Factors on the start and the stop of the fitted window; for each,
-        the DOS is prepared again (public functions of
-        :mod:`thermo.preparation.lowfreq`).  Windows where no ν² form fits
-        (or start >= stop) are skipped.
+        For a window given by hand: factors on its start and stop.  An
+        automatic window is instead refitted with its mode count
+        :data:`~thermo.preparation.lowfreq.WINDOW_MODES` times each factor of
+        :data:`~thermo.preparation.lowfreq.WINDOW_SPREAD`.  Each alternative
+        is prepared again by :func:`~thermo.preparation.loading.treat_spectrum`
+        (fit, blend, species shares, normalisation); those where no ν² form
+        fits are skipped.
 
     Returns
     -------
     dict
-        ``per_species``: {species: max |Δ⟨u²⟩|/⟨u²⟩ over factors and T} [1],
-        ``windows_THz``: the windows tried, ``note``: why none was tried,
-        or None.
+        ``per_species``: {species: max |Δ⟨u²⟩|/⟨u²⟩ over alternatives and T} [1],
+        ``windows_THz``: the windows tried, ``varied``: what was varied,
+        ``note``: why none was tried, or None.
 
     Notes
     -----
@@ -300,22 +243,21 @@ def window_sensitivity(dos, temperatures, formula=None, masses=None, moves=WINDO
     """
     t = check_temperatures(temperatures)
     if dos.low_frequency is None:
-        return {"per_species": {}, "windows_THz": [], "note": "low-frequency treatment is off"}
+        return {"per_species": {}, "windows_THz": [], "varied": None, "note": "low-frequency treatment is off"}
     if dos.input_frequency_thz is None or dos.input_dos is None:
-        return {"per_species": {}, "windows_THz": [], "note": "the DOS has no input table to refit"}
+        return {"per_species": {}, "windows_THz": [], "varied": None, "note": "the DOS has no input table to refit"}
     base = mean_square_displacement(dos, t, formula, masses, species)
     worst = {name: 0.0 for name in base}
     windows = []
-    for move in moves:
-        try:
-            other = _refitted(dos, move)
-        except OptionError:
+    how, others = _alternatives(dos, moves)
+    for other in others:
+        if other is None:
             continue
         windows.append(list(other.low_frequency.window_thz))
         for name, r in mean_square_displacement(other, t, formula, masses, species).items():
             worst[name] = max(worst[name], float(np.max(np.abs(r["msd"] / base[name]["msd"] - 1.0))))
-    note = None if windows else "no ν² form fits the moved windows"
-    return {"per_species": worst, "windows_THz": windows, "note": note}
+    note = None if windows else "no ν² form fits the other windows"
+    return {"per_species": worst, "windows_THz": windows, "varied": how, "note": note}
 
 
 def displacement_summary(dos, formula=None, masses=None, distance_a=None, temperatures=None, species=None):
@@ -363,8 +305,8 @@ def displacement_summary(dos, formula=None, masses=None, distance_a=None, temper
     sens = window_sensitivity(dos, key, formula, masses, species=species)
     worst = max(sens["per_species"].values(), default=0.0)
     if worst > 0.02:
-        notes.append(f"⟨u²⟩ changes by up to {100 * worst:.1f} % when the low-frequency window is moved "
-                     "(ends ×0.7 and ×1.4); the acoustic part of the DOS limits its accuracy")
+        notes.append(f"⟨u²⟩ changes by up to {100 * worst:.1f} % under other plausible low-frequency "
+                     f"windows ({sens['varied']}); the acoustic part of the DOS limits its accuracy")
     if sens["note"]:
         notes.append(f"window sensitivity of ⟨u²⟩ not measured: {sens['note']}")
     return {"convention": CONVENTION, "species": per_species, "window_sensitivity": sens, "warnings": notes,

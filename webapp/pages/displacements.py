@@ -102,7 +102,7 @@ def key_numbers(summary):
                   (f"{name}: B at 298.15 K", f"{s['b_298K_A2']:.4g} Å²"),
                   (f"{name}: θ_M at 298.15 K", f"{s['theta_m_298K_K']:.4g} K")]
         if name in sens:
-            pairs.append((f"{name}: change when the ν² window moves", f"{100 * sens[name]:.2g} %"))
+            pairs.append((f"{name}: change under other ν² windows", f"{100 * sens[name]:.2g} %"))
     return c.key_numbers(pairs)
 
 

@@ -1,0 +1,122 @@
+"""Species of a displacement calculation: masses, atom counts, shares and the per-species integrals.
+
+The integrals combine the tabulated (blended) part of a prepared
+:class:`~thermo.spectrum.PhononDOS` with its analytic low-frequency part,
+as the thermodynamic sums do (:func:`thermo.kernels.sums.thermal_sums`).
+
+References
+----------
+.. [1] B. T. M. Willis, A. W. Pryor, *Thermal Vibrations in
+   Crystallography* (Cambridge University Press, 1975), ch. 4.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from ..errors import OptionError
+from ..formula import formula_unit
+from ..kernels.planck import H_OVER_K_THZ, occupation, reduced_frequency
+from ..kernels.quadrature import trapezoid_weights
+from ..preparation.lowfreq import window_shares
+from .debye_waller import analytic_displacement_integral
+
+#: Label of the mass-weighted mean over all atoms (no partial DOS).
+ALL_ATOMS = "all atoms (mass-weighted mean)"
+
+
+def _element_mass(name):
+    try:
+        mass, count = formula_unit(name)
+    except OptionError:
+        mass, count = None, 0
+    if count != 1:
+        raise OptionError(f"species {name!r} is not a chemical element; give its mass, e.g. {name}=12.0 (u)")
+    return mass
+
+
+def _counts_from_formula(formula):
+    import periodictable
+    parsed = periodictable.formula(str(formula))
+    return {str(el): float(n) for el, n in parsed.atoms.items()}
+
+
+def _integrals(dos, column, share, t):
+    """∫ g coth(x/2)/ν dν [modes/THz] on T, ∫ g/ν² dν [modes/THz²] and modes of one column."""
+    nu = np.asarray(dos.frequency_thz, float)
+    column = np.asarray(column, float)
+    w = column * trapezoid_weights(nu, dos.dos)
+    pos = nu > 0
+    with np.errstate(divide="ignore"):
+        coth = 1.0 + 2.0 * occupation(reduced_frequency(nu[pos], t))
+    main = (w[pos] / nu[pos]) @ coth
+    inverse_square = float(np.sum(w[pos] / nu[pos] ** 2))
+    modes = float(np.sum(w))
+    zero = np.flatnonzero(~pos)
+    if zero.size and pos.any() and column[zero[0]] == 0:
+        # Node at ν = 0 with g(0) = 0: the integrand's limit for g ≈ Aν² (A from the next node),
+        # g coth(x/2)/ν → 2A k_BT/h and g/ν² → A.
+        first = np.flatnonzero(pos)[0]
+        reduced = column[first] / nu[first] ** 2
+        half = trapezoid_weights(nu, dos.dos)[zero[0]]
+        main = main + half * reduced * 2.0 * t / H_OVER_K_THZ
+        inverse_square += half * reduced
+    fit = dos.low_frequency
+    if fit is not None:
+        # the analytic part W·A ν²(1+bν²+cν⁴) below (and tapered above) the cut-off, as in the sums
+        main = main + share * analytic_displacement_integral(fit, t)
+        inverse_square += share * fit.analytic_moment(-2)
+        modes += share * fit.analytic_moment(0)
+    return main, inverse_square, modes
+
+
+def _species_shares(dos):
+    """Each partial's share of the analytic part, as fixed when the DOS was loaded (``species_shares``)."""
+    fit = dos.low_frequency
+    if fit is None:
+        return {name: 0.0 for name in dos.partials}
+    if fit.species_shares:
+        return {name: float(fit.species_shares.get(name, 0.0)) for name in dos.partials}
+    # a DOS built without loading: the shares in the fit window, from the input columns when kept
+    names = list(dos.partials)
+    if dos.input_frequency_thz is not None and all(k in dos.input_partials for k in names):
+        nu, cols = dos.input_frequency_thz, [dos.input_partials[k] for k in names]
+    else:
+        nu, cols = dos.frequency_thz, [dos.partials[k] for k in names]
+    return dict(zip(names, window_shares(nu, cols, fit.window_thz)))
+
+
+def _parts(dos, formula, masses, species=None):
+    """(label, column, share of the ν² part, mass [u], atoms per formula unit) per species."""
+    masses = dict(masses or {})
+    if species is not None:
+        missing = [s for s in species if s not in dos.partials]
+        if missing:
+            raise OptionError(f"no partial-DOS column {', '.join(missing)}; the file has: "
+                              + (", ".join(dos.partials) or "no partial columns"))
+    if dos.partials:
+        unknown = [k for k in masses if k not in dos.partials]
+        if unknown:
+            raise OptionError(f"mass given for {', '.join(unknown)}, which is not a partial-DOS column "
+                              f"(columns: {', '.join(dos.partials)})")
+        shares = _species_shares(dos)
+        counts = _counts_from_formula(formula) if formula else {}
+        parts = []
+        for name, col in dos.partials.items():
+            if species is not None and name not in species:
+                continue
+            mass = float(masses[name]) if name in masses else _element_mass(name)
+            parts.append((name, col, shares[name], mass, counts.get(name)))
+        return parts
+    if formula:
+        molar_mass, atoms = formula_unit(formula)
+        counts = _counts_from_formula(formula)
+        label = next(iter(counts)) if len(counts) == 1 else ALL_ATOMS
+        return [(label, dos.dos, 1.0, molar_mass / atoms, float(atoms))]
+    if len(masses) == 1:                      # one species, however many atoms per formula unit
+        (name, mass), = masses.items()
+        return [(name, dos.dos, 1.0, float(mass), float(dos.atoms))]
+    if masses:
+        raise OptionError(f"{len(masses)} masses given but the DOS has no partial columns; give the chemical "
+                          "formula for the mass-weighted mean, or one mass for a one-species crystal")
+    raise OptionError("atomic masses are needed: give the chemical formula, or the mass of each species")
