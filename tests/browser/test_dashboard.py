@@ -15,7 +15,7 @@ from scipy import constants as sc
 from selenium.webdriver.common.by import By
 
 from thermo import load_dos, tabulate
-from thermo.io.writers import read_exported_csv
+from thermo.io.readback import read_exported_csv
 from webapp import demo, session
 from webapp.app import create_app
 from webapp.pages import PAGES

@@ -18,7 +18,7 @@ from scipy import constants as sc
 from thermo import load_dos, tabulate
 from thermo.batch import INDEX_COLUMNS, INDEX_NAME, BatchOptions, output_names, run_batch
 from thermo.cli.main import main
-from thermo.io.writers import read_exported_csv
+from thermo.io.readback import read_exported_csv
 
 REPO = Path(__file__).resolve().parents[2]
 TEMPS = (0.0, 10.0, 100.0, 300.0, 3000.0)

@@ -15,7 +15,7 @@ from scipy import constants as sc
 
 from thermo.batch import INDEX_NAME, BatchOptions, run_batch
 from thermo.cli.main import main
-from thermo.io.writers import read_exported_csv
+from thermo.io.readback import read_exported_csv
 
 
 def _debye_text(cutoff_thz=5.0, points=200):

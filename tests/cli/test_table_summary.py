@@ -12,7 +12,7 @@ import pytest
 
 from tests.spectra import debye_table, dos_text
 from thermo import load_dos, tabulate
-from thermo.io.writers import read_exported_csv, read_exported_json
+from thermo.io.readback import read_exported_csv, read_exported_json
 
 ROOT = __import__("pathlib").Path(__file__).resolve().parents[2]
 
@@ -143,9 +143,17 @@ def test_serve_has_real_options():
 
 
 def test_wrong_unit_is_warned_on_the_command_line(debye_file):
-    out = run_cli("table", str(debye_file), "--freq-unit", "rad/s", "--temperatures", "298.15")
+    # THz numbers read as cm-1 (ν_max ~0.2 THz): loaded, with the unit caution on stderr
+    out = run_cli("table", str(debye_file), "--freq-unit", "cm-1", "--temperatures", "298.15")
     assert out.returncode == 0
     assert "check the frequency unit" in out.stderr and "entropy at 298.15 K" in out.stderr
+
+
+def test_impossible_unit_is_refused_on_the_command_line(debye_file):
+    # THz numbers read as rad/s (ν_max ~1e-12 THz): refused in one line, exit 2
+    out = run_cli("table", str(debye_file), "--freq-unit", "rad/s", "--temperatures", "298.15")
+    assert out.returncode == 2 and "check the frequency unit" in out.stderr
+    assert len(out.stderr.strip().splitlines()) == 1 and "Traceback" not in out.stderr
 
 
 def test_summary_says_what_temperatures_do():

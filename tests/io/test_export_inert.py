@@ -19,7 +19,8 @@ import openpyxl
 import pandas as pd
 import pytest
 
-from thermo.io.writers import FORMULA_PREFIXES, export_table, read_exported_csv, read_exported_json
+from thermo.io.writers import FORMULA_PREFIXES, export_table
+from thermo.io.readback import read_exported_csv, read_exported_json
 
 PREFIXES = ["=", "+", "-", "@", "\t", "\r"]
 PAYLOAD = "HYPERLINK(\"http://example.invalid\",\"x\")"

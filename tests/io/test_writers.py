@@ -13,7 +13,8 @@ import pandas as pd
 import pytest
 
 from thermo.errors import OptionError
-from thermo.io.writers import EXPORT_FORMATS, export_table, read_exported_csv, read_exported_json, write_table
+from thermo.io.writers import EXPORT_FORMATS, export_table, write_table
+from thermo.io.readback import read_exported_csv, read_exported_json
 
 PROVENANCE = {
     "tool_version": "0.1.0",

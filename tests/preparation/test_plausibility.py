@@ -19,7 +19,7 @@ from scipy import constants as sc
 from tests.spectra import debye_table, dos_text
 from thermo import DosInputError, load_dos, tabulate
 from thermo.columns import column_name
-from thermo.preparation.plausibility import max_frequency_readings, partial_sum_warnings
+from thermo.preparation.plausibility import max_frequency_readings, partial_sum_warnings, unit_warnings
 
 THETA = 350.0
 # Factors computed from CODATA here, independent of thermo.units.
@@ -74,14 +74,20 @@ def test_new_units_from_header_and_option(unit, header):
         assert _unit_warnings(dos) == []
 
 
-def test_wrong_unit_rad_per_second_is_warned_with_the_plausible_units():
-    nu, g = debye_table(THETA, points=801)   # THz data read as rad/s
-    dos = load_dos(dos_text(nu, g, header="f g"), freq_unit="rad/s")
-    notes = _unit_warnings(dos)
-    assert len(notes) == 2
-    assert "highest frequency is 1.16e-12 THz" in notes[0]   # 7.29 / (2π·10¹²)
-    assert "THz (ν_max 7.29 THz" in notes[0]
-    assert "per atom, outside the 1–100" in notes[1]
+def test_wrong_unit_rad_per_second_is_refused_naming_the_range():
+    # THz data read as rad/s: ν_max = 7.29 / (2π·10¹²) THz, far below any solid; the magnitude guard
+    # refuses it (a warning would still let a nonsense table through)
+    nu, g = debye_table(THETA, points=801)
+    with pytest.raises(DosInputError, match=r"highest frequency is 1\.16e-12 THz, below the accepted .*frequency unit"):
+        load_dos(dos_text(nu, g, header="f g"), freq_unit="rad/s")
+
+
+def test_unit_readings_name_the_plausible_units():
+    # the readings the warning quotes: 7.29 in each unit, in THz (CODATA factors via scipy.constants)
+    readings = max_frequency_readings(7.29)
+    assert readings["THz"][0] == pytest.approx(7.29)
+    notes = unit_warnings(7.29, "rad/s", 772.0)   # the file value 7.29 read as rad/s
+    assert len(notes) == 2 and "THz (ν_max 7.29 THz" in notes[0] and "per atom, outside the 1–100" in notes[1]
 
 
 def test_thz_file_read_as_wavenumbers_is_warned_by_its_entropy():

@@ -10,7 +10,7 @@ import pytest
 
 from tests.quasiharmonic.test_volume_set import write_set
 from thermo.cli.main import main
-from thermo.io.writers import read_exported_csv
+from thermo.io.readback import read_exported_csv
 
 DEMO = Path(__file__).resolve().parents[2] / "sample_dos" / "volumes" / "springium_volumes.csv"
 REQUIRED = ["temperature_K", "volume_A3", "thermal_expansion_per_K", "bulk_modulus_T_GPa",

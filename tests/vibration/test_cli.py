@@ -13,7 +13,7 @@ import pytest
 from tests.spectra import debye_table, dos_text
 from tests.vibration.test_displacements import MASS, THETA, willis_pryor_msd
 from thermo.cli.main import main
-from thermo.io.writers import read_exported_csv
+from thermo.io.readback import read_exported_csv
 
 REPO = Path(__file__).resolve().parents[2]
 

@@ -76,7 +76,7 @@ def test_elastic_comparison():
 def test_download_carries_table_and_cautions():
     # The downloaded CSV reads back to the same ⟨u²⟩ (Willis–Pryor reference) with the caution.
     import base64
-    from thermo.io.writers import read_exported_csv
+    from thermo.io.readback import read_exported_csv
     import periodictable
     data, note = page.download(1, _workspace(), 0, 960, 320, "", 1.0, "csv")
     assert data["filename"] == "debye_test_displacements.csv" and "prepared" in note[0].children

@@ -15,7 +15,7 @@ from tests.quasiharmonic import debye_solid as ds
 from tests.quasiharmonic.test_volume_set import write_set
 from thermo.cli.main import main
 from thermo.errors import DosInputError
-from thermo.io.writers import read_exported_csv
+from thermo.io.readback import read_exported_csv
 from thermo.quasiharmonic import quasiharmonic_table
 from webapp import intake, session
 from webapp.pages import quasiharmonic as qh

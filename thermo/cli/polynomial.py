@@ -40,7 +40,7 @@ def load_source(args, t_range):
     from .options import load_from_args
 
     if args.cp_table:
-        from ..io.writers import read_exported_csv, read_exported_json
+        from ..io.readback import read_exported_csv, read_exported_json
         reader = read_exported_json if str(args.file).lower().endswith(".json") else read_exported_csv
         table, _ = reader(args.file)
         return source_from_table(table, entropy_298=args.entropy_298, label=f"C_p table {Path(args.file).name}")

@@ -23,7 +23,7 @@ becomes a spreadsheet formula, following OWASP's CSV-injection guidance [3]:
 * XLSX: every text is written as a text cell (never a formula cell);
 * CSV table cells and headers that are text and start with ``=``, ``+``,
   ``-``, ``@``, tab or carriage return get a leading ``'``
-  (:func:`neutralised_cell`); :func:`read_exported_csv` removes it again;
+  (:func:`neutralised_cell`); :func:`thermo.io.readback.read_exported_csv` removes it again;
 * CSV provenance lines: a ``,`` or ``;`` followed by a formula character
   is written as a JSON escape (``\\u002c``, ``\\u003b``; the value is then
   JSON), so no cell a spreadsheet splits off a ``# key: value`` line starts
@@ -48,11 +48,11 @@ from pathlib import Path
 import numpy as np
 import pandas as pd
 
-from ..errors import DosInputError, OptionError
+from ..errors import OptionError
 from .inert import FORMULA_PREFIXES, _RISKY_SPLIT, append_inert, inert_json, neutralised_cell, restored_cell, write_file
 
-__all__ = ["EXPORT_FORMATS", "FORMULA_PREFIXES", "export_table", "neutralised_cell", "read_exported_csv",
-           "read_exported_json", "restored_cell", "write_file", "write_table"]
+__all__ = ["EXPORT_FORMATS", "FORMULA_PREFIXES", "export_table", "neutralised_cell", "restored_cell", "write_file",
+           "write_table"]
 
 #: Significant digits the command line and the dashboard write by default: the
 #: quadrature and low-frequency treatment support about 1e-5 relative at worst,
@@ -61,8 +61,9 @@ DEFAULT_DIGITS = 8
 #: Export formats accepted by :func:`export_table` and :func:`write_table`.
 EXPORT_FORMATS = ("csv", "json", "xlsx")
 
-_JSON_FORMAT_TAG = "modeheat-table"
-_PROVENANCE_PREFIX = "# "
+from .readback import JSON_FORMAT_TAG as _JSON_FORMAT_TAG
+from .readback import PROVENANCE_PREFIX as _PROVENANCE_PREFIX
+from .readback import decode_value as _decode_value
 
 
 def _rounded(df, digits):
@@ -186,6 +187,7 @@ def write_table(df: pd.DataFrame, provenance: dict, fmt: str | None, path,
     Examples
     --------
     >>> import tempfile
+    >>> from thermo.io.readback import read_exported_json
     >>> df = pd.DataFrame({"temperature_K": [300.0]})
     >>> with tempfile.TemporaryDirectory() as tmp:
     ...     out = write_table(df, {}, None, Path(tmp) / "t.json")
@@ -196,130 +198,6 @@ def write_table(df: pd.DataFrame, provenance: dict, fmt: str | None, path,
     content = export_table(df, provenance, fmt if fmt is not None else format_from_suffix(target),
                            digits=digits)
     return write_file(target, content, overwrite)
-
-
-def read_exported_csv(source) -> tuple[pd.DataFrame, dict]:
-    """Read back a CSV written by :func:`export_table`.
-
-    Parameters
-    ----------
-    source : str, pathlib.Path or bytes
-        Path, file content, or file text (a ``str`` with a line break).
-
-    Returns
-    -------
-    df : pandas.DataFrame
-        The table, floats exactly as written.
-    provenance : dict
-        The ``# key: value`` lines, values decoded from JSON where possible.
-
-    Raises
-    ------
-    DosInputError
-        Unreadable file or a malformed provenance line.
-
-    Notes
-    -----
-    Values are parsed with round-trip float precision.
-
-    References
-    ----------
-    .. [1] Y. Shafranovich, "Common Format and MIME Type for Comma-Separated
-       Values (CSV) Files", RFC 4180 (IETF, 2005).
-
-    Examples
-    --------
-    >>> df, meta = read_exported_csv("# unit: THz\\n# atoms: 2\\nT,S\\n1.0,0.5\\n")
-    >>> meta, df["S"].tolist()
-    ({'unit': 'THz', 'atoms': 2}, [0.5])
-    """
-    text, name = _exported_text(source)
-    lines = text.splitlines(keepends=True)
-    provenance = {}
-    start = 0
-    for start, line in enumerate(lines):
-        if not line.startswith(_PROVENANCE_PREFIX):
-            break
-        key, sep, value = line[len(_PROVENANCE_PREFIX):].rstrip("\r\n").partition(": ")
-        if not sep:
-            raise DosInputError("provenance line without 'key: value'", name, start + 1)
-        provenance[key] = _decode_value(value)
-    else:
-        start = len(lines)
-    body = "".join(lines[start:])
-    if not body.strip():
-        return pd.DataFrame(), provenance
-    try:
-        df = pd.read_csv(io.StringIO(body))
-    except Exception as exc:  # pandas parser errors come in many types
-        raise DosInputError(f"not a readable CSV table ({type(exc).__name__})",
-                            name, start + 1) from None
-    df = df.rename(columns=restored_cell)
-    for c in df.columns:
-        if df[c].dtype == object or pd.api.types.is_string_dtype(df[c]):
-            df[c] = df[c].map(restored_cell)
-    return df, provenance
-
-
-def read_exported_json(source) -> tuple[pd.DataFrame, dict]:
-    """Read back a JSON file written by :func:`export_table`.
-
-    Parameters
-    ----------
-    source : str, pathlib.Path or bytes
-        JSON export as a path, raw bytes or text (text must span lines).
-
-    Returns
-    -------
-    df : pandas.DataFrame
-        The table; ``null`` cells become NaN.
-    provenance : dict
-        Provenance entries.
-
-    Raises
-    ------
-    DosInputError
-        Not JSON or not the layout described in this module.
-
-    Notes
-    -----
-    Layout: ``{"provenance": {...}, "columns": [...], "data": [[...], ...]}``.
-
-    References
-    ----------
-    .. [1] T. Bray (ed.), "The JavaScript Object Notation (JSON) Data
-       Interchange Format", RFC 8259 (IETF, 2017).
-
-    Examples
-    --------
-    >>> text = '{"provenance": {"unit": "THz"},\\n "columns": ["T"], "data": [[1.5], [null]]}'
-    >>> df, meta = read_exported_json(text)
-    >>> meta, df["T"].tolist()[0]
-    ({'unit': 'THz'}, 1.5)
-    """
-    text, name = _exported_text(source)
-    try:
-        obj = json.loads(text)
-        columns = [str(c) for c in obj["columns"]]
-        rows = [list(r) for r in obj["data"]]
-        provenance = dict(obj.get("provenance", {}))
-        if any(len(r) != len(columns) for r in rows):
-            raise ValueError("row length")
-    except Exception as exc:  # JSON and layout errors alike
-        raise DosInputError(f"not a table export in JSON ({type(exc).__name__})",
-                            name) from None
-    df = pd.DataFrame(rows, columns=columns)
-    for col in df.columns:
-        if df[col].dtype == object:
-            try:
-                df[col] = df[col].astype(float)
-            except (TypeError, ValueError):
-                pass
-    return df, provenance
-
-
-# ----------------------------------------------------------------------------
-# helpers
 
 
 def format_from_suffix(path, fmt=None) -> str:
@@ -392,13 +270,6 @@ def _encode_value(value) -> str:
     return inert_json(value)
 
 
-def _decode_value(text: str):
-    try:
-        return json.loads(text)
-    except ValueError:
-        return text
-
-
 def _csv_bytes(df, meta) -> bytes:
     head = "".join(f"{_PROVENANCE_PREFIX}{_inert_key(k)}: {_encode_value(v)}\n" for k, v in meta.items())
     safe = df.rename(columns=lambda c: neutralised_cell(str(c)))
@@ -450,21 +321,3 @@ def _xlsx_bytes(df, meta) -> bytes:
     out = io.BytesIO()
     book.save(out)
     return out.getvalue()
-
-
-def _exported_text(source):
-    if isinstance(source, (bytes, bytearray)):
-        raw, name = bytes(source), "<bytes>"
-    elif isinstance(source, str) and ("\n" in source or "\r" in source):
-        return source, "<text>"
-    else:
-        path = Path(source)
-        name = path.name
-        try:
-            raw = path.read_bytes()
-        except OSError as exc:
-            raise DosInputError(f"cannot read file: {exc.strerror or exc}", name) from None
-    try:
-        return raw.decode("utf-8-sig"), name
-    except UnicodeDecodeError:
-        raise DosInputError("not UTF-8 text", name) from None

@@ -208,7 +208,6 @@ def entropy_298_per_atom(dos):
     >>> 20 < s < 40
     True
     """
-    from ..columns import column_name
-    from ..tables import tabulate
-    table = tabulate(dos, [298.15])
-    return float(table[column_name("entropy")].iloc[0]) / dos.atoms
+    from ..kernels.sums import molar_values, thermal_sums   # kernels only: no cycle through the tables
+    t = np.array([298.15])
+    return float(molar_values(thermal_sums(dos, t), t)[1][0]) / dos.atoms
