@@ -296,7 +296,7 @@ def _run_pool(jobs, options, workers, bar):
 
 
 def run_batch(inputs, outdir, options, workers=None, progress=True, pattern=None):
-    """Write a table for every input file and an index of the outcomes.
+    r"""Write a table for every input file and an index of the outcomes.
 
     Parameters
     ----------
@@ -331,8 +331,8 @@ def run_batch(inputs, outdir, options, workers=None, progress=True, pattern=None
     >>> import tempfile
     >>> with tempfile.TemporaryDirectory() as tmp:
     ...     good = Path(tmp) / "good.dat"
-    ...     _ = good.write_text("# frequency unit: THz\\n" + "\\n".join(f"{v/10} {0.072 * (v/10)**2}" for v in range(51)))
-    ...     _ = (Path(tmp) / "bad.dat").write_text("not a spectrum\\n")
+    ...     _ = good.write_text("# frequency unit: THz\n" + "\n".join(f"{v/10} {0.072 * (v/10)**2}" for v in range(51)))
+    ...     _ = (Path(tmp) / "bad.dat").write_text("not a spectrum\n")
     ...     rows = run_batch([tmp], Path(tmp) / "out", BatchOptions(temperatures=(300.0,)), workers=1)
     ...     [(Path(r["input"]).name, r["status"]) for r in rows]
     [('bad.dat', 'failed'), ('good.dat', 'ok')]

@@ -6,7 +6,7 @@ from .errors import OptionError
 
 
 def formula_unit(formula: str):
-    """Molar mass and number of atoms of a chemical formula unit.
+    r"""Molar mass and number of atoms of a chemical formula unit.
 
     Parameters
     ----------
@@ -27,7 +27,7 @@ def formula_unit(formula: str):
 
     Notes
     -----
-    :math:`M = \\sum_i n_i A_r(i)` in g/mol.
+    :math:`M = \sum_i n_i A_r(i)` in g/mol.
 
     References
     ----------

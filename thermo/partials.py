@@ -30,7 +30,7 @@ def _window_shares(dos):
 
 
 def species_contributions(dos, temperatures):
-    """Heat capacity and entropy carried by each species-projected DOS.
+    r"""Heat capacity and entropy carried by each species-projected DOS.
 
     Parameters
     ----------
@@ -49,10 +49,10 @@ def species_contributions(dos, temperatures):
 
     Notes
     -----
-    .. math:: C_{v,X} = R\\int g_X(\\nu)\\,c(x)\\,d\\nu, \\qquad
-              S_X = R\\int g_X(\\nu)\\,s(x)\\,d\\nu
+    .. math:: C_{v,X} = R\int g_X(\nu)\,c(x)\,d\nu, \qquad
+              S_X = R\int g_X(\nu)\,s(x)\,d\nu
 
-    The analytic :math:`A\\nu^2` part below the cut-off is shared among
+    The analytic :math:`A\nu^2` part below the cut-off is shared among
     species in proportion to their weight in the fitted window.
 
     References

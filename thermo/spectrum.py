@@ -11,27 +11,27 @@ from .kernels.planck import H_OVER_K_THZ
 
 @dataclass(frozen=True)
 class LowFrequencyFit:
-    """Debye (ν²) form that replaces the DOS below ``cutoff_thz``.
+    r"""Debye (ν²) form that replaces the DOS below ``cutoff_thz``.
 
     Attributes
     ----------
     coefficient : float
-        :math:`A` in :math:`g(\\nu) = A\\nu^2` [states / THz³ per formula unit],
+        :math:`A` in :math:`g(\nu) = A\nu^2` [states / THz³ per formula unit],
         after normalisation.
     cutoff_thz : float
-        Below this frequency the DOS is :math:`A\\nu^2` [THz].
+        Below this frequency the DOS is :math:`A\nu^2` [THz].
     window_thz : tuple of float
         Frequency window the coefficient was fitted over [THz].
     offset : float
-        Constant fitted beside :math:`A\\nu^2` (smearing/binning) [states / THz].
+        Constant fitted beside :math:`A\nu^2` (smearing/binning) [states / THz].
     rms_relative_residual : float
         Relative rms misfit of the fit in the window [1].
     automatic : bool
         True when the window was chosen automatically.
     curvature : float
-        :math:`b` in :math:`A\\nu^2(1 + b\\nu^2 + c\\nu^4)` [1 / THz²].
+        :math:`b` in :math:`A\nu^2(1 + b\nu^2 + c\nu^4)` [1 / THz²].
     quartic : float
-        :math:`c` in :math:`A\\nu^2(1 + b\\nu^2 + c\\nu^4)` [1 / THz⁴].
+        :math:`c` in :math:`A\nu^2(1 + b\nu^2 + c\nu^4)` [1 / THz⁴].
     coefficient_uncertainty : float
         Standard error of :math:`A` from the fit [same unit as ``coefficient``].
     blend_top_thz : float or None
@@ -55,7 +55,7 @@ class LowFrequencyFit:
     species_shares: dict = field(default_factory=dict)
 
     def form(self, frequency_thz):
-        """The fitted form :math:`A\\nu^2(1+b\\nu^2+c\\nu^4)` [states / THz]."""
+        r"""The fitted form :math:`A\nu^2(1+b\nu^2+c\nu^4)` [states / THz]."""
         nu = np.asarray(frequency_thz, dtype=float)
         return self.coefficient * nu ** 2 * (1.0 + nu ** 2 * (self.curvature + self.quartic * nu ** 2))
 
@@ -69,7 +69,7 @@ class LowFrequencyFit:
         return 1.0 - s * s * (3.0 - 2.0 * s)
 
     def taper_nodes(self):
-        """Gauss–Legendre nodes [THz] and modes [1] of :math:`W\\,A\\nu^2(\\dots)` above the cut-off.
+        r"""Gauss–Legendre nodes [THz] and modes [1] of :math:`W\,A\nu^2(\dots)` above the cut-off.
 
         Examples
         --------
@@ -87,7 +87,7 @@ class LowFrequencyFit:
         return nodes, half * w * self.form(nodes) * self.taper(nodes)
 
     def analytic_moment(self, power=0) -> float:
-        """:math:`\\int_0^{\\nu_c} \\nu^p A\\nu^2(1+b\\nu^2+c\\nu^4)\\,d\\nu` [modes · THz^p].
+        r""":math:`\int_0^{\nu_c} \nu^p A\nu^2(1+b\nu^2+c\nu^4)\,d\nu` [modes · THz^p].
 
         Examples
         --------
@@ -163,14 +163,14 @@ class PhononDOS:
         return total
 
     def low_frequency_debye_temperature_k(self) -> float | None:
-        """Debye temperature from the fitted ν² coefficient (elastic limit) [K].
+        r"""Debye temperature from the fitted ν² coefficient (elastic limit) [K].
 
         Notes
         -----
-        For 3 acoustic branches, :math:`g(\\nu) \\to 9 N \\nu^2/\\nu_D^3` with
+        For 3 acoustic branches, :math:`g(\nu) \to 9 N \nu^2/\nu_D^3` with
         :math:`N` the atoms per formula unit when every one of the :math:`3N`
         modes is counted in a single Debye spectrum, hence
-        :math:`\\theta_D = (h/k_B)(9N/A)^{1/3}`.
+        :math:`\theta_D = (h/k_B)(9N/A)^{1/3}`.
 
         References
         ----------

@@ -66,7 +66,7 @@ TEMPERATURE_RANGE_K = (1.0e-6, 1.0e10)
 
 
 def zero_point_energy(dos):
-    """Zero-point energy of the lattice per mole of formula units.
+    r"""Zero-point energy of the lattice per mole of formula units.
 
     Parameters
     ----------
@@ -80,7 +80,7 @@ def zero_point_energy(dos):
 
     Notes
     -----
-    .. math:: E_0 = N_A \\int g(\\nu)\\,\\frac{h\\nu}{2}\\,d\\nu
+    .. math:: E_0 = N_A \int g(\nu)\,\frac{h\nu}{2}\,d\nu
 
     References
     ----------
@@ -146,7 +146,7 @@ def classical_heat_capacity(atoms, per="formula", formula=None):
 
 
 def tabulate(dos, temperatures, per="formula", formula=None, method="auto"):
-    """Harmonic C_v, S, U and F of a phonon DOS at the given temperatures.
+    r"""Harmonic C_v, S, U and F of a phonon DOS at the given temperatures.
 
     Parameters
     ----------
@@ -176,15 +176,15 @@ def tabulate(dos, temperatures, per="formula", formula=None, method="auto"):
 
     Notes
     -----
-    With :math:`x = h\\nu/k_BT` and :math:`g` normalised to :math:`3n`:
+    With :math:`x = h\nu/k_BT` and :math:`g` normalised to :math:`3n`:
 
     .. math::
-        C_v = R\\int g\\,\\frac{x^2e^x}{(e^x-1)^2}d\\nu,\\quad
-        S = R\\int g\\left[\\frac{x}{e^x-1} - \\ln(1-e^{-x})\\right]d\\nu,
+        C_v = R\int g\,\frac{x^2e^x}{(e^x-1)^2}d\nu,\quad
+        S = R\int g\left[\frac{x}{e^x-1} - \ln(1-e^{-x})\right]d\nu,
 
-        U = E_0 + RT\\int g\\,\\frac{x}{e^x-1}d\\nu,\\quad
-        F = E_0 + RT\\int g\\,\\ln(1-e^{-x})\\,d\\nu,\\quad
-        E_0 = N_A\\int g\\,\\frac{h\\nu}{2}d\\nu.
+        U = E_0 + RT\int g\,\frac{x}{e^x-1}d\nu,\quad
+        F = E_0 + RT\int g\,\ln(1-e^{-x})\,d\nu,\quad
+        E_0 = N_A\int g\,\frac{h\nu}{2}d\nu.
 
     These are harmonic values at fixed volume: no thermal expansion
     (:math:`C_p - C_v`), anharmonicity, electrons or defects.
@@ -211,7 +211,7 @@ def tabulate(dos, temperatures, per="formula", formula=None, method="auto"):
 
 
 def table_from_sums(sums, temperatures, per="formula", atoms=1, formula=None):
-    """Thermodynamic table from mode-weighted kernel sums.
+    r"""Thermodynamic table from mode-weighted kernel sums.
 
     Parameters
     ----------
@@ -235,9 +235,9 @@ def table_from_sums(sums, temperatures, per="formula", atoms=1, formula=None):
 
     Notes
     -----
-    :math:`C_v = R\\Sigma_c`, :math:`S = R\\Sigma_s`,
-    :math:`U = E_0 + RT\\Sigma_u`, :math:`F = E_0 - RT\\Sigma_\\ell`,
-    :math:`E_0 = N_A h \\Sigma_{\\nu/2}`.
+    :math:`C_v = R\Sigma_c`, :math:`S = R\Sigma_s`,
+    :math:`U = E_0 + RT\Sigma_u`, :math:`F = E_0 - RT\Sigma_\ell`,
+    :math:`E_0 = N_A h \Sigma_{\nu/2}`.
 
     References
     ----------

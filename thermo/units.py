@@ -78,7 +78,7 @@ def canonical_unit(name: str) -> str:
 
 
 def thz_to_unit(unit: str) -> float:
-    """Number of ``unit`` in one THz of ordinary frequency.
+    r"""Number of ``unit`` in one THz of ordinary frequency.
 
     Parameters
     ----------
@@ -93,9 +93,9 @@ def thz_to_unit(unit: str) -> float:
     Notes
     -----
     With CODATA constants from :mod:`scipy.constants`:
-    :math:`\\tilde\\nu = \\nu/c`, :math:`E = h\\nu` (meV, eV), :math:`\\omega = 2\\pi\\nu`
+    :math:`\tilde\nu = \nu/c`, :math:`E = h\nu` (meV, eV), :math:`\omega = 2\pi\nu`
     (rad/s, rad/ps),
-    :math:`T = h\\nu/k_B`.
+    :math:`T = h\nu/k_B`.
 
     References
     ----------

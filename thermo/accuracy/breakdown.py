@@ -96,7 +96,7 @@ def _fit_part(dos, t):
 
 
 def error_breakdown(dos, temperatures):
-    """Numerical and low-frequency error of C_v, S, U and F at each temperature.
+    r"""Numerical and low-frequency error of C_v, S, U and F at each temperature.
 
     Parameters
     ----------
@@ -117,9 +117,9 @@ def error_breakdown(dos, temperatures):
 
     Notes
     -----
-    :math:`\\delta_{num} = |Q_h - Q_{h/2}|` (re-prepared on the halved grid);
-    :math:`\\delta_{lf} = \\max_w |Q_w - Q| + |\\partial Q/\\partial A|\\,\\sigma_A`
-    over the alternative treatments w; relative: :math:`\\delta/|Q|` (0 where
+    :math:`\delta_{num} = |Q_h - Q_{h/2}|` (re-prepared on the halved grid);
+    :math:`\delta_{lf} = \max_w |Q_w - Q| + |\partial Q/\partial A|\,\sigma_A`
+    over the alternative treatments w; relative: :math:`\delta/|Q|` (0 where
     Q = 0, at T = 0).
 
     References
@@ -130,7 +130,7 @@ def error_breakdown(dos, temperatures):
     --------
     >>> from thermo import load_dos
     >>> nu = np.linspace(0.0, 8.0, 401)
-    >>> dos = load_dos("# THz\\n" + "\\n".join(f"{a} {9 * a * a / 512}" for a in nu))
+    >>> dos = load_dos("# THz\n" + "\n".join(f"{a} {9 * a * a / 512}" for a in nu))
     >>> b = error_breakdown(dos, [5.0, 300.0])
     >>> bool(b[error_column("heat_capacity_v", "numerical", relative=True)].max() < 1e-3)
     True
@@ -180,7 +180,7 @@ def error_column(key, part, relative=False):
 
 
 def estimated_relative_error(dos, temperatures, breakdown=None):
-    """Largest relative error estimate (numerical + low-frequency) over the table.
+    r"""Largest relative error estimate (numerical + low-frequency) over the table.
 
     Parameters
     ----------
@@ -194,7 +194,7 @@ def estimated_relative_error(dos, temperatures, breakdown=None):
     Returns
     -------
     float
-        :math:`\\max (\\delta_{num} + \\delta_{lf})/|Q|` over C_v, S and U at
+        :math:`\max (\delta_{num} + \delta_{lf})/|Q|` over C_v, S and U at
         every T > 0, and over F relative to :math:`|U|` (F crosses zero) [1].
 
     Examples

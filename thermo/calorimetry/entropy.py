@@ -34,7 +34,7 @@ _NODES, _WEIGHTS = np.polynomial.legendre.leggauss(24)
 
 
 def third_law_from_data(temperatures, heat_capacity, temperature, sigma=None, gamma=0.0):
-    """S°(T) and H°(T) − H°(0) from measured C_p with the T³ extrapolation.
+    r"""S°(T) and H°(T) − H°(0) from measured C_p with the T³ extrapolation.
 
     Parameters
     ----------
@@ -57,12 +57,12 @@ def third_law_from_data(temperatures, heat_capacity, temperature, sigma=None, ga
 
     Notes
     -----
-    Below T₁, :math:`b = (C_1 - \\gamma T_1)/T_1^3`,
-    :math:`S(T) = \\gamma T + bT^3/3`, :math:`H(T) = \\gamma T^2/2 + bT^4/4`;
-    above, :math:`S(T) = S(T_1) + \\int_{T_1}^T s(C/T)` and
-    :math:`H(T) = H(T_1) + \\int_{T_1}^T s(C)` with s the not-a-knot cubic
-    spline.  With weights :math:`w_j = \\partial S/\\partial C_j`,
-    :math:`u(S)^2 = \\sum_j w_j^2\\sigma_j^2`.
+    Below T₁, :math:`b = (C_1 - \gamma T_1)/T_1^3`,
+    :math:`S(T) = \gamma T + bT^3/3`, :math:`H(T) = \gamma T^2/2 + bT^4/4`;
+    above, :math:`S(T) = S(T_1) + \int_{T_1}^T s(C/T)` and
+    :math:`H(T) = H(T_1) + \int_{T_1}^T s(C)` with s the not-a-knot cubic
+    spline.  With weights :math:`w_j = \partial S/\partial C_j`,
+    :math:`u(S)^2 = \sum_j w_j^2\sigma_j^2`.
 
     References
     ----------
@@ -143,7 +143,7 @@ def _integrals(function, where):
 
 
 def third_law_from_model(fit, temperature):
-    """S°(T), H°(T) − H°(0) of a fitted model, integrated from 0 K, with uncertainties.
+    r"""S°(T), H°(T) − H°(0) of a fitted model, integrated from 0 K, with uncertainties.
 
     Parameters
     ----------
@@ -160,9 +160,9 @@ def third_law_from_model(fit, temperature):
 
     Notes
     -----
-    :math:`S = \\int_0^T C_p^{model}/T'\\,dT'` by 24-point Gauss–Legendre
-    on 12 geometric sub-intervals of [0, T]; :math:`u(S)^2 = g^T\\Sigma g`
-    with :math:`g = \\partial S/\\partial p` by central differences and Σ the
+    :math:`S = \int_0^T C_p^{model}/T'\,dT'` by 24-point Gauss–Legendre
+    on 12 geometric sub-intervals of [0, T]; :math:`u(S)^2 = g^T\Sigma g`
+    with :math:`g = \partial S/\partial p` by central differences and Σ the
     parameter covariance.  The model is used outside the fit range down to
     0 K: its low-temperature form (Debye T³ + γT, or the DOS) stands in for
     data there.

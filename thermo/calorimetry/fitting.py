@@ -105,7 +105,7 @@ def _start_theta(model, t, y, s, fixed):
 
 
 def fit_measured_heat_capacity(measured: MeasuredHeatCapacity, model, fixed=None, fit_range=None, initial=None):
-    """Fit the free parameters of ``model`` to measured C_p(T).
+    r"""Fit the free parameters of ``model`` to measured C_p(T).
 
     Parameters
     ----------
@@ -124,13 +124,13 @@ def fit_measured_heat_capacity(measured: MeasuredHeatCapacity, model, fixed=None
 
     Notes
     -----
-    Minimises :math:`\\chi^2 = \\sum_j [(C_p^{model}(T_j) - C_j)/\\sigma_j]^2`
+    Minimises :math:`\chi^2 = \sum_j [(C_p^{model}(T_j) - C_j)/\sigma_j]^2`
     with the given standard uncertainties σ_j, else σ_j = C_j (relative
     weights).  Covariance :math:`(J^TJ)^{-1}` times the Birge factor
-    :math:`\\max(1, \\chi^2_\\nu)` with given σ (a model that misses the
+    :math:`\max(1, \chi^2_\nu)` with given σ (a model that misses the
     data beyond their uncertainties widens the parameter uncertainties),
-    times :math:`\\chi^2_\\nu` with relative weights.  Correlation
-    :math:`r_{ij} = \\Sigma_{ij}/\\sqrt{\\Sigma_{ii}\\Sigma_{jj}}`.
+    times :math:`\chi^2_\nu` with relative weights.  Correlation
+    :math:`r_{ij} = \Sigma_{ij}/\sqrt{\Sigma_{ii}\Sigma_{jj}}`.
 
     References
     ----------

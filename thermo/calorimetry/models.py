@@ -1,16 +1,16 @@
-"""Model of the measured heat capacity: lattice + electronic + dilation terms.
+r"""Model of the measured heat capacity: lattice + electronic + dilation terms.
 
 .. math::
-    C_v = C_{lat}(T) + \\gamma T,\\qquad C_p = C_v + \\Delta_{dil}(T)
+    C_v = C_{lat}(T) + \gamma T,\qquad C_p = C_v + \Delta_{dil}(T)
 
 with the lattice part from a DOS whose frequencies are scaled by s
 (:math:`C_{lat}(T) = C_v^{DOS}(T/s)`, exact since C_v depends on hν/k_BT
 only) or from a Debye model with θ_D; the dilation term
-:math:`C_p - C_v` either given (user values, or :math:`\\alpha^2B_TVT` from a
+:math:`C_p - C_v` either given (user values, or :math:`\alpha^2B_TVT` from a
 quasi-harmonic result, :func:`dilation_from_expansion`) or of the
 Nernst–Lindemann form :math:`C_p - C_v = A C_p^2 T`, solved for C_p:
 
-.. math:: C_p = \\frac{2C_v}{1 + \\sqrt{1 - 4ATC_v}}.
+.. math:: C_p = \frac{2C_v}{1 + \sqrt{1 - 4ATC_v}}.
 
 References
 ----------
@@ -60,7 +60,7 @@ def parameter_name(text):
 
 
 def dilation_from_expansion(alpha_per_K, bulk_modulus_Pa, molar_volume_m3_per_mol, temperatures):
-    """Dilation term :math:`C_p - C_v = \\alpha^2 B_T V T` [J/(mol K)].
+    r"""Dilation term :math:`C_p - C_v = \alpha^2 B_T V T` [J/(mol K)].
 
     The hook for a quasi-harmonic result: arrays of the volumetric thermal
     expansion, isothermal bulk modulus and molar volume at each temperature.
@@ -79,7 +79,7 @@ def dilation_from_expansion(alpha_per_K, bulk_modulus_Pa, molar_volume_m3_per_mo
     Returns
     -------
     numpy.ndarray
-        :math:`\\alpha^2 B_T V T` [J/(mol K)].
+        :math:`\alpha^2 B_T V T` [J/(mol K)].
 
     References
     ----------
@@ -96,7 +96,7 @@ def dilation_from_expansion(alpha_per_K, bulk_modulus_Pa, molar_volume_m3_per_mo
 
 
 def nernst_lindemann_cp(cv, temperatures, a_mol_per_J):
-    """C_p from C_v with :math:`C_p - C_v = A C_p^2 T` [J/(mol K)].
+    r"""C_p from C_v with :math:`C_p - C_v = A C_p^2 T` [J/(mol K)].
 
     Parameters
     ----------
@@ -110,7 +110,7 @@ def nernst_lindemann_cp(cv, temperatures, a_mol_per_J):
     Returns
     -------
     numpy.ndarray
-        :math:`C_p = 2C_v/(1+\\sqrt{1-4ATC_v})`; where :math:`4ATC_v > 1`
+        :math:`C_p = 2C_v/(1+\sqrt{1-4ATC_v})`; where :math:`4ATC_v > 1`
         (no real root, far outside the form's use) the root is clipped to 2C_v.
 
     References
@@ -239,7 +239,7 @@ class HeatCapacityModel:
 
 
 def low_temperature_analysis(temperatures, heat_capacity, atoms, sigma=None, t_max=None):
-    """γ, β and θ_D from a straight line C/T = γ + βT² at low temperature.
+    r"""γ, β and θ_D from a straight line C/T = γ + βT² at low temperature.
 
     Parameters
     ----------
@@ -260,8 +260,8 @@ def low_temperature_analysis(temperatures, heat_capacity, atoms, sigma=None, t_m
 
     Notes
     -----
-    :math:`\\theta_D = (12\\pi^4 nR/(5\\beta))^{1/3}`,
-    :math:`u(\\theta_D) = \\theta_D\\,u(\\beta)/(3\\beta)`.  Valid only well
+    :math:`\theta_D = (12\pi^4 nR/(5\beta))^{1/3}`,
+    :math:`u(\theta_D) = \theta_D\,u(\beta)/(3\beta)`.  Valid only well
     below θ_D/50 (common practice); above that the T⁵ terms bend the line.
 
     References

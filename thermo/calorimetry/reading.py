@@ -130,7 +130,7 @@ def _temperature_check(name, source):
 
 
 def read_heat_capacity(source, cp_unit=None, formula=None, name=None):
-    """Read measured C_p(T) [J/(mol K)] from a path, bytes or text.
+    r"""Read measured C_p(T) [J/(mol K)] from a path, bytes or text.
 
     Parameters
     ----------
@@ -157,7 +157,7 @@ def read_heat_capacity(source, cp_unit=None, formula=None, name=None):
 
     Notes
     -----
-    :math:`C_p[\\mathrm{J/(mol\\,K)}] = f\\,C_p[\\mathrm{file}]` with
+    :math:`C_p[\mathrm{J/(mol\,K)}] = f\,C_p[\mathrm{file}]` with
     f = 1, M [g/mol], 4.184, 10⁻³.  Rows are sorted by temperature.
 
     References
@@ -166,7 +166,7 @@ def read_heat_capacity(source, cp_unit=None, formula=None, name=None):
 
     Examples
     --------
-    >>> m = read_heat_capacity("T,Cp (cal/(mol K))\\n10,0.1\\n20,0.8\\n")
+    >>> m = read_heat_capacity("T,Cp (cal/(mol K))\n10,0.1\n20,0.8\n")
     >>> m.unit, round(float(m.heat_capacity_J_per_mol_K[1]), 4)
     ('cal/(mol K)', 3.3472)
     """

@@ -26,7 +26,7 @@ def _utf16_guess(raw: bytes):
 
 
 def decode_text(raw: bytes, display: str) -> str:
-    """Text of a table file; a NUL left after decoding means binary content.
+    r"""Text of a table file; a NUL left after decoding means binary content.
 
     Raises
     ------
@@ -36,8 +36,8 @@ def decode_text(raw: bytes, display: str) -> str:
 
     Examples
     --------
-    >>> decode_text("0.5 1\\n".encode("utf-16"), "t.dat")
-    '0.5 1\\n'
+    >>> decode_text("0.5 1\n".encode("utf-16"), "t.dat")
+    '0.5 1\n'
     """
     encoding = "utf-16" if raw.startswith(_UTF16_BOMS) else _utf16_guess(raw)
     if encoding:

@@ -22,7 +22,7 @@ PROVENANCE_PREFIX = "# "
 
 
 def read_exported_csv(source) -> tuple[pd.DataFrame, dict]:
-    """Read back a CSV written by :func:`export_table`.
+    r"""Read back a CSV written by :func:`export_table`.
 
     Parameters
     ----------
@@ -52,7 +52,7 @@ def read_exported_csv(source) -> tuple[pd.DataFrame, dict]:
 
     Examples
     --------
-    >>> df, meta = read_exported_csv("# unit: THz\\n# atoms: 2\\nT,S\\n1.0,0.5\\n")
+    >>> df, meta = read_exported_csv("# unit: THz\n# atoms: 2\nT,S\n1.0,0.5\n")
     >>> meta, df["S"].tolist()
     ({'unit': 'THz', 'atoms': 2}, [0.5])
     """
@@ -86,7 +86,7 @@ def read_exported_csv(source) -> tuple[pd.DataFrame, dict]:
 
 
 def read_exported_json(source) -> tuple[pd.DataFrame, dict]:
-    """Read back a JSON file written by :func:`export_table`.
+    r"""Read back a JSON file written by :func:`export_table`.
 
     Parameters
     ----------
@@ -116,7 +116,7 @@ def read_exported_json(source) -> tuple[pd.DataFrame, dict]:
 
     Examples
     --------
-    >>> text = '{"provenance": {"unit": "THz"},\\n "columns": ["T"], "data": [[1.5], [null]]}'
+    >>> text = '{"provenance": {"unit": "THz"},\n "columns": ["T"], "data": [[1.5], [null]]}'
     >>> df, meta = read_exported_json(text)
     >>> meta, df["T"].tolist()[0]
     ({'unit': 'THz'}, 1.5)

@@ -103,7 +103,7 @@ class RawTable:
 
 
 def read_table(source, name: str | None = None, sheet=None) -> RawTable:
-    """Read a DOS table from a path, raw bytes or text.
+    r"""Read a DOS table from a path, raw bytes or text.
 
     Parameters
     ----------
@@ -146,7 +146,7 @@ def read_table(source, name: str | None = None, sheet=None) -> RawTable:
 
     Examples
     --------
-    >>> table = read_table("# nu in THz\\nfreq total Si\\n0.5 0.1 0.05\\n1.0 0.4 0.2\\n")
+    >>> table = read_table("# nu in THz\nfreq total Si\n0.5 0.1 0.05\n1.0 0.4 0.2\n")
     >>> table.names, table.header_unit, table.line_numbers
     (['freq', 'total', 'Si'], 'THz', [3, 4])
     >>> table.data[:, 1]

@@ -1,4 +1,4 @@
-"""Export a thermodynamic table with its provenance (CSV, JSON, .xlsx).
+r"""Export a thermodynamic table with its provenance (CSV, JSON, .xlsx).
 
 Layouts
 -------
@@ -25,7 +25,7 @@ becomes a spreadsheet formula, following OWASP's CSV-injection guidance [3]:
   ``-``, ``@``, tab or carriage return get a leading ``'``
   (:func:`neutralised_cell`); :func:`thermo.io.readback.read_exported_csv` removes it again;
 * CSV provenance lines: a ``,`` or ``;`` followed by a formula character
-  is written as a JSON escape (``\\u002c``, ``\\u003b``; the value is then
+  is written as a JSON escape (``\u002c``, ``\u003b``; the value is then
   JSON), so no cell a spreadsheet splits off a ``# key: value`` line starts
   like a formula.
 

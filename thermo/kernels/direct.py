@@ -25,9 +25,9 @@ KERNELS = {"heat_capacity": heat_capacity_kernel,
 
 
 def _zero_node_log_partition(first_step_thz, temperatures):
-    """Mean of ℓ(x) over the half interval [0, ν₁/2] next to a ν = 0 node.
+    r"""Mean of ℓ(x) over the half interval [0, ν₁/2] next to a ν = 0 node.
 
-    Uses :math:`\\int_0^X \\ell(t)\\,dt = \\pi^2/6 - \\mathrm{Li}_2(e^{-X})`.
+    Uses :math:`\int_0^X \ell(t)\,dt = \pi^2/6 - \mathrm{Li}_2(e^{-X})`.
     """
     with np.errstate(divide="ignore"):
         big_x = H_OVER_K_THZ * 0.5 * first_step_thz / temperatures
@@ -36,7 +36,7 @@ def _zero_node_log_partition(first_step_thz, temperatures):
 
 
 def direct_grid_sums(nodes_thz, weights, temperatures):
-    """Sums :math:`\\sum_i w_i K(h\\nu_i/k_BT_j)` over every pair ν × T.
+    r"""Sums :math:`\sum_i w_i K(h\nu_i/k_BT_j)` over every pair ν × T.
 
     Parameters
     ----------
@@ -55,9 +55,9 @@ def direct_grid_sums(nodes_thz, weights, temperatures):
 
     Notes
     -----
-    With :math:`x = h\\nu/(k_BT)`:
+    With :math:`x = h\nu/(k_BT)`:
     :math:`c = x^2e^x/(e^x-1)^2`, :math:`u = x/(e^x-1)`,
-    :math:`\\ell = -\\ln(1-e^{-x})`.  A node at :math:`\\nu = 0` carries the
+    :math:`\ell = -\ln(1-e^{-x})`.  A node at :math:`\nu = 0` carries the
     mean of ℓ over its half interval (ℓ diverges logarithmically there).
 
     References

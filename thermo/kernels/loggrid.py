@@ -1,27 +1,27 @@
-"""Mode sums over many temperatures as one correlation on logarithmic grids.
+r"""Mode sums over many temperatures as one correlation on logarithmic grids.
 
-Every kernel depends on :math:`x = h\\nu/(k_BT)` only.  With :math:`s = \\ln\\nu`
-and :math:`\\tau = \\ln T`, :math:`K(x) = k(s - \\tau)`, so on uniform grids of
-:math:`s` and :math:`\\tau` with the same step the sum over modes
-:math:`\\sum_i w_i K(h\\nu_i/k_BT)` is a discrete correlation, evaluated with
-FFTs in :math:`O((N+M)\\log(N+M))` instead of :math:`O(NM)` kernel calls.
+Every kernel depends on :math:`x = h\nu/(k_BT)` only.  With :math:`s = \ln\nu`
+and :math:`\tau = \ln T`, :math:`K(x) = k(s - \tau)`, so on uniform grids of
+:math:`s` and :math:`\tau` with the same step the sum over modes
+:math:`\sum_i w_i K(h\nu_i/k_BT)` is a discrete correlation, evaluated with
+FFTs in :math:`O((N+M)\log(N+M))` instead of :math:`O(NM)` kernel calls.
 
 Steps of :func:`loggrid_sums`:
 
 1. deposit the mode weights on the :math:`s` grid with the transpose of
    8-point Lagrange interpolation (exact for polynomials of degree 7 in s);
-2. sample the three kernels on the grid of differences :math:`s - \\tau`;
+2. sample the three kernels on the grid of differences :math:`s - \tau`;
 3. correlate (real FFTs of a fast length);
 4. interpolate back to the requested temperatures with 8-point Lagrange
-   interpolation in :math:`\\ln T`;
-5. temperatures where a sum is below 1e-6 of :math:`\\sum|W|\\max K` — the
+   interpolation in :math:`\ln T`;
+5. temperatures where a sum is below 1e-6 of :math:`\sum|W|\max K` — the
    scale of the FFT's rounding error, about 1e-16 of it — are summed
    directly: the frozen, exponentially small end, summed over the nodes
-   whose terms are not negligible.  So is a node at :math:`\\nu = 0` (with
+   whose terms are not negligible.  So is a node at :math:`\nu = 0` (with
    its neighbour, see :func:`thermo.kernels.direct.direct_grid_sums`).
 
-The step :math:`\\Delta s = 0.002` keeps the interpolation error below 1e-9
-of each sum while the kernel is resolved up to :math:`x \\approx 30`; the
+The step :math:`\Delta s = 0.002` keeps the interpolation error below 1e-9
+of each sum while the kernel is resolved up to :math:`x \approx 30`; the
 sums at colder temperatures are the ones step 5 sends to the direct path.
 
 References
@@ -87,7 +87,7 @@ _DENOM = np.array([np.prod([k - j for j in range(ORDER) if j != k]) for k in ran
 
 
 def lagrange_weights(offset):
-    """Weights of equispaced Lagrange interpolation on the stencil 0..ORDER-1.
+    r"""Weights of equispaced Lagrange interpolation on the stencil 0..ORDER-1.
 
     Parameters
     ----------
@@ -97,13 +97,13 @@ def lagrange_weights(offset):
     Returns
     -------
     numpy.ndarray, shape (N, ORDER)
-        :math:`L_k(t) = \\prod_{j \\ne k} (t-j)/(k-j)`; each row sums to 1.
+        :math:`L_k(t) = \prod_{j \ne k} (t-j)/(k-j)`; each row sums to 1.
 
     Notes
     -----
-    .. math:: f(t) \\approx \\sum_{k=0}^{p-1} L_k(t) f(k)
+    .. math:: f(t) \approx \sum_{k=0}^{p-1} L_k(t) f(k)
 
-    with error :math:`f^{(p)}(\\xi) \\prod_j (t-j) / p!`.
+    with error :math:`f^{(p)}(\xi) \prod_j (t-j) / p!`.
 
     References
     ----------
@@ -251,7 +251,7 @@ def _relevant_nodes(nu, w, temperature):
 
 
 def frozen_sums(nodes_thz, weights, temperatures):
-    """Direct sums over every pair with the three kernels from one exponential.
+    r"""Direct sums over every pair with the three kernels from one exponential.
 
     Parameters
     ----------
@@ -271,7 +271,7 @@ def frozen_sums(nodes_thz, weights, temperatures):
     Notes
     -----
     With :math:`E = e^{-x}` and :math:`D = 1 - e^{-x}` (``-expm1(-x)``):
-    :math:`c = x^2E/D^2`, :math:`u = xE/D`, :math:`\\ell = -\\ln(1-E)`,
+    :math:`c = x^2E/D^2`, :math:`u = xE/D`, :math:`\ell = -\ln(1-E)`,
     three transcendental passes instead of five.
 
     References
@@ -318,7 +318,7 @@ def _fill_cold(out, nu, w, t, cold, groups=4):
 
 
 def loggrid_sums(nodes_thz, weights, temperatures):
-    """Sums :math:`\\sum_i w_i K(h\\nu_i/k_BT_j)` by log-grid correlation.
+    r"""Sums :math:`\sum_i w_i K(h\nu_i/k_BT_j)` by log-grid correlation.
 
     Parameters
     ----------
@@ -334,11 +334,11 @@ def loggrid_sums(nodes_thz, weights, temperatures):
 
     Notes
     -----
-    With :math:`s_m = s_0 + m\\,\\Delta`, :math:`\\tau_n = \\tau_0 + n\\,\\Delta`
+    With :math:`s_m = s_0 + m\,\Delta`, :math:`\tau_n = \tau_0 + n\,\Delta`
     and deposited weights :math:`W_m`,
 
-    .. math:: \\Sigma_K(\\tau_n) = \\sum_m W_m\\, K\\!\\left(\\frac{h}{k_B}
-              e^{s_0 - \\tau_0 + (m-n)\\Delta}\\right),
+    .. math:: \Sigma_K(\tau_n) = \sum_m W_m\, K\!\left(\frac{h}{k_B}
+              e^{s_0 - \tau_0 + (m-n)\Delta}\right),
 
     a correlation of :math:`W` with the sampled kernel.
 

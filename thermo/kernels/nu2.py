@@ -1,9 +1,9 @@
-"""The one integral of the analytic low-frequency part :math:`A\\nu^2`, in closed form.
+r"""The one integral of the analytic low-frequency part :math:`A\nu^2`, in closed form.
 
-Below the low-frequency cut-off :math:`\\nu_c` the DOS is :math:`A\\nu^2`
-(a Debye spectrum is the special case :math:`\\nu_c = \\nu_D`).  Its sums
+Below the low-frequency cut-off :math:`\nu_c` the DOS is :math:`A\nu^2`
+(a Debye spectrum is the special case :math:`\nu_c = \nu_D`).  Its sums
 against the Planck kernels reduce to the Debye integral
-:math:`J(X) = \\int_0^X x^3/(e^x-1)\\,dx`, evaluated to rounding, so the
+:math:`J(X) = \int_0^X x^3/(e^x-1)\,dx`, evaluated to rounding, so the
 :math:`T^3` law holds however coarse the table above the cut-off is.
 
 References
@@ -31,7 +31,7 @@ _BERNOULLI = special.bernoulli(40) / special.factorial(np.arange(41))
 
 
 def bose_integral(order, upper):
-    """:math:`J_m(X) = \\int_0^X x^m/(e^x-1)\\,dx` for a whole order m >= 1, to rounding.
+    r""":math:`J_m(X) = \int_0^X x^m/(e^x-1)\,dx` for a whole order m >= 1, to rounding.
 
     Parameters
     ----------
@@ -43,14 +43,14 @@ def bose_integral(order, upper):
     Returns
     -------
     numpy.ndarray
-        :math:`J_m(X)` [1]; :math:`m!\\,\\zeta(m+1)` as :math:`X \\to \\infty`.
+        :math:`J_m(X)` [1]; :math:`m!\,\zeta(m+1)` as :math:`X \to \infty`.
 
     Notes
     -----
     For :math:`X < 1`, the Bernoulli series
-    :math:`J_m = \\sum_n B_n X^{n+m} / (n!\\,(n+m))` (radius :math:`2\\pi`);
-    above, :math:`J_m = m!\\zeta(m+1) - \\sum_{k=1}^{40} e^{-kX}
-    \\sum_{j=0}^{m} \\frac{m!}{(m-j)!} \\frac{X^{m-j}}{k^{j+1}}`.
+    :math:`J_m = \sum_n B_n X^{n+m} / (n!\,(n+m))` (radius :math:`2\pi`);
+    above, :math:`J_m = m!\zeta(m+1) - \sum_{k=1}^{40} e^{-kX}
+    \sum_{j=0}^{m} \frac{m!}{(m-j)!} \frac{X^{m-j}}{k^{j+1}}`.
 
     References
     ----------
@@ -75,7 +75,7 @@ def bose_integral(order, upper):
 
 
 def debye_integral(upper):
-    """:math:`J(X) = \\int_0^X x^3/(e^x-1)\\,dx`, to rounding.
+    r""":math:`J(X) = \int_0^X x^3/(e^x-1)\,dx`, to rounding.
 
     Parameters
     ----------
@@ -85,7 +85,7 @@ def debye_integral(upper):
     Returns
     -------
     numpy.ndarray
-        :math:`J(X)` [1]; :math:`\\pi^4/15` as :math:`X \\to \\infty`.
+        :math:`J(X)` [1]; :math:`\pi^4/15` as :math:`X \to \infty`.
 
     Notes
     -----
@@ -106,43 +106,43 @@ def debye_integral(upper):
 
 
 def nu2_part_sums(coefficient, cutoff_thz, temperatures, curvature=0.0, quartic=0.0):
-    """Sums of the analytic part :math:`A\\nu^2` on :math:`[0, \\nu_c]`, in closed form.
+    r"""Sums of the analytic part :math:`A\nu^2` on :math:`[0, \nu_c]`, in closed form.
 
     Parameters
     ----------
     coefficient : float
         :math:`A` [modes / THz³].
     cutoff_thz : float
-        :math:`\\nu_c` [THz].
+        :math:`\nu_c` [THz].
     temperatures : array_like, shape (M,)
         Temperatures [K], > 0.
     curvature, quartic : float
         :math:`b` [1/THz²] and :math:`c` [1/THz⁴] of the form
-        :math:`A\\nu^2(1 + b\\nu^2 + c\\nu^4)`.
+        :math:`A\nu^2(1 + b\nu^2 + c\nu^4)`.
 
     Returns
     -------
     dict of str to numpy.ndarray, shape (M,)
         ``heat_capacity``, ``thermal_energy`` and ``log_partition``, the
-        integrals of :math:`A\\nu^2 K(h\\nu/k_BT)` over :math:`[0, \\nu_c]` [1].
+        integrals of :math:`A\nu^2 K(h\nu/k_BT)` over :math:`[0, \nu_c]` [1].
 
     Notes
     -----
-    With :math:`X = h\\nu_c/k_BT`, :math:`s = A(k_BT/h)^3` and
-    :math:`J(X) = \\int_0^X x^3/(e^x-1)dx` (:func:`debye_integral`),
+    With :math:`X = h\nu_c/k_BT`, :math:`s = A(k_BT/h)^3` and
+    :math:`J(X) = \int_0^X x^3/(e^x-1)dx` (:func:`debye_integral`),
     integrating by parts:
 
     .. math::
-        \\int_0^X x^2 u\\,dx = J,\\quad
-        \\int_0^X x^2 c\\,dx = 4J - X^3 u(X),\\quad
-        \\int_0^X x^2 \\ell\\,dx = \\frac{X^3 \\ell(X) + J}{3}.
+        \int_0^X x^2 u\,dx = J,\quad
+        \int_0^X x^2 c\,dx = 4J - X^3 u(X),\quad
+        \int_0^X x^2 \ell\,dx = \frac{X^3 \ell(X) + J}{3}.
 
-    The :math:`Ab\\nu^4` and :math:`Ac\\nu^6` terms add the same with
+    The :math:`Ab\nu^4` and :math:`Ac\nu^6` terms add the same with
     :math:`s_{m+1} = A b (k_BT/h)^{m+1}` (resp. :math:`Ac`) and
     :math:`J_{m+1}` of :func:`bose_integral`; in general
-    :math:`\\int_0^X x^m c = (m+2)J_{m+1} - X^{m+1}u(X)`,
-    :math:`\\int_0^X x^m u = J_{m+1}`,
-    :math:`\\int_0^X x^m \\ell = (X^{m+1}\\ell(X) + J_{m+1})/(m+1)` at m = 4, 6.
+    :math:`\int_0^X x^m c = (m+2)J_{m+1} - X^{m+1}u(X)`,
+    :math:`\int_0^X x^m u = J_{m+1}`,
+    :math:`\int_0^X x^m \ell = (X^{m+1}\ell(X) + J_{m+1})/(m+1)` at m = 4, 6.
 
     References
     ----------
@@ -176,7 +176,7 @@ def nu2_part_sums(coefficient, cutoff_thz, temperatures, curvature=0.0, quartic=
 
 
 def analytic_part_sums(fit, temperatures):
-    """Sums of the whole analytic part of a :class:`~thermo.spectrum.LowFrequencyFit`.
+    r"""Sums of the whole analytic part of a :class:`~thermo.spectrum.LowFrequencyFit`.
 
     Parameters
     ----------
@@ -192,8 +192,8 @@ def analytic_part_sums(fit, temperatures):
 
     Notes
     -----
-    :math:`\\int_0^{\\nu_a} M K\\,d\\nu` in closed form (:func:`nu2_part_sums`)
-    plus :math:`\\int_{\\nu_a}^{\\nu_m} W M K\\,d\\nu` by 48-point
+    :math:`\int_0^{\nu_a} M K\,d\nu` in closed form (:func:`nu2_part_sums`)
+    plus :math:`\int_{\nu_a}^{\nu_m} W M K\,d\nu` by 48-point
     Gauss–Legendre quadrature (smooth integrand, error far below rounding of
     the table).
 

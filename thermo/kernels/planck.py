@@ -1,10 +1,10 @@
-"""Planck-occupation kernels of one harmonic mode, overflow-safe.
+r"""Planck-occupation kernels of one harmonic mode, overflow-safe.
 
 Every thermodynamic function of a harmonic crystal is an integral of the DOS
-against a kernel of the reduced frequency :math:`x = h\\nu / (k_B T)` only.
+against a kernel of the reduced frequency :math:`x = h\nu / (k_B T)` only.
 The functions here evaluate those kernels for arrays of any shape, with
-``expm1``/``log1p`` forms so that neither :math:`x \\to 0` nor
-:math:`x \\to \\infty` produces a warning, an overflow or a NaN.
+``expm1``/``log1p`` forms so that neither :math:`x \to 0` nor
+:math:`x \to \infty` produces a warning, an overflow or a NaN.
 
 References
 ----------
@@ -29,7 +29,7 @@ _LN2 = float(np.log(2.0))
 
 
 def reduced_frequency(frequency_thz, temperature_k):
-    """Reduced frequency :math:`x = h\\nu/(k_B T)` on the outer grid ν × T.
+    r"""Reduced frequency :math:`x = h\nu/(k_B T)` on the outer grid ν × T.
 
     Parameters
     ----------
@@ -45,7 +45,7 @@ def reduced_frequency(frequency_thz, temperature_k):
 
     Notes
     -----
-    :math:`x = h\\nu / (k_B T)` with CODATA h and k_B.
+    :math:`x = h\nu / (k_B T)` with CODATA h and k_B.
 
     References
     ----------
@@ -68,12 +68,12 @@ def _clip(x):
 
 
 def occupation(x):
-    """Bose–Einstein (Planck) occupation number of a mode.
+    r"""Bose–Einstein (Planck) occupation number of a mode.
 
     Parameters
     ----------
     x : array_like
-        Reduced frequency :math:`h\\nu/(k_B T)` [1], ``x > 0``.
+        Reduced frequency :math:`h\nu/(k_B T)` [1], ``x > 0``.
 
     Returns
     -------
@@ -82,7 +82,7 @@ def occupation(x):
 
     Notes
     -----
-    .. math:: n(x) = \\frac{1}{e^{x} - 1}
+    .. math:: n(x) = \frac{1}{e^{x} - 1}
 
     References
     ----------
@@ -99,7 +99,7 @@ def occupation(x):
 
 
 def heat_capacity_kernel(x):
-    """Heat capacity of one mode in units of k_B (the Einstein function).
+    r"""Heat capacity of one mode in units of k_B (the Einstein function).
 
     Parameters
     ----------
@@ -113,8 +113,8 @@ def heat_capacity_kernel(x):
 
     Notes
     -----
-    .. math:: c(x) = \\frac{x^2 e^{x}}{(e^{x}-1)^2}
-              = \\frac{x^2 e^{-x}}{(1-e^{-x})^2},\\qquad c(0) = 1.
+    .. math:: c(x) = \frac{x^2 e^{x}}{(e^{x}-1)^2}
+              = \frac{x^2 e^{-x}}{(1-e^{-x})^2},\qquad c(0) = 1.
 
     References
     ----------
@@ -135,7 +135,7 @@ def heat_capacity_kernel(x):
 
 
 def thermal_energy_kernel(x):
-    """Thermal energy of one mode above its zero point, in units of k_B T.
+    r"""Thermal energy of one mode above its zero point, in units of k_B T.
 
     Parameters
     ----------
@@ -145,13 +145,13 @@ def thermal_energy_kernel(x):
     Returns
     -------
     numpy.ndarray
-        :math:`u(x) = x\\,n(x)` [1]; 1 at ``x = 0``.
+        :math:`u(x) = x\,n(x)` [1]; 1 at ``x = 0``.
 
     Notes
     -----
-    .. math:: u(x) = \\frac{x}{e^{x}-1}
+    .. math:: u(x) = \frac{x}{e^{x}-1}
 
-    The zero-point energy :math:`h\\nu/2` is added separately.
+    The zero-point energy :math:`h\nu/2` is added separately.
 
     References
     ----------
@@ -169,7 +169,7 @@ def thermal_energy_kernel(x):
 
 
 def log_partition_kernel(x):
-    """:math:`-\\ln(1-e^{-x})`, the thermal part of :math:`-F/(k_B T)` per mode.
+    r""":math:`-\ln(1-e^{-x})`, the thermal part of :math:`-F/(k_B T)` per mode.
 
     Parameters
     ----------
@@ -179,14 +179,14 @@ def log_partition_kernel(x):
     Returns
     -------
     numpy.ndarray
-        :math:`-\\ln(1-e^{-x})` [1], positive.
+        :math:`-\ln(1-e^{-x})` [1], positive.
 
     Notes
     -----
-    .. math:: \\ell(x) = -\\ln\\left(1-e^{-x}\\right)
+    .. math:: \ell(x) = -\ln\left(1-e^{-x}\right)
 
-    evaluated as :math:`-\\ln(-\\operatorname{expm1}(-x))` below
-    :math:`\\ln 2` and :math:`-\\operatorname{log1p}(-e^{-x})` above, so that the
+    evaluated as :math:`-\ln(-\operatorname{expm1}(-x))` below
+    :math:`\ln 2` and :math:`-\operatorname{log1p}(-e^{-x})` above, so that the
     relative error stays at machine precision for every x.
 
     References
@@ -208,7 +208,7 @@ def log_partition_kernel(x):
 
 
 def entropy_kernel(x):
-    """Entropy of one mode in units of k_B.
+    r"""Entropy of one mode in units of k_B.
 
     Parameters
     ----------
@@ -222,7 +222,7 @@ def entropy_kernel(x):
 
     Notes
     -----
-    .. math:: s(x) = \\frac{x}{e^{x}-1} - \\ln\\left(1-e^{-x}\\right)
+    .. math:: s(x) = \frac{x}{e^{x}-1} - \ln\left(1-e^{-x}\right)
 
     References
     ----------

@@ -1,6 +1,6 @@
-"""Quadrature of a tabulated DOS: trapezoid mode weights with sharp band edges.
+r"""Quadrature of a tabulated DOS: trapezoid mode weights with sharp band edges.
 
-A DOS is the analytic form :math:`A\\nu^2` below the low-frequency cut-off
+A DOS is the analytic form :math:`A\nu^2` below the low-frequency cut-off
 plus a piecewise-linear table above it.  The functions here turn the table
 into mode weights (one number of modes per grid node) and the whole DOS into
 nodes and weights of one discrete sum.
@@ -77,7 +77,7 @@ def band_edge_segments(frequency_thz, dos):
 
 
 def trapezoid_weights(frequency_thz, dos=None):
-    """Trapezoid-rule weights of a non-uniform grid.
+    r"""Trapezoid-rule weights of a non-uniform grid.
 
     Parameters
     ----------
@@ -94,7 +94,7 @@ def trapezoid_weights(frequency_thz, dos=None):
 
     Notes
     -----
-    :math:`w_i = (\\nu_{i+1} - \\nu_{i-1})/2`, with half intervals at the ends.
+    :math:`w_i = (\nu_{i+1} - \nu_{i-1})/2`, with half intervals at the ends.
 
     References
     ----------
@@ -141,7 +141,7 @@ def mode_weights(frequency_thz, dos):
 
 
 def mode_quadrature(dos):
-    """Nodes and mode weights representing the whole DOS as a discrete sum.
+    r"""Nodes and mode weights representing the whole DOS as a discrete sum.
 
     Parameters
     ----------
@@ -158,7 +158,7 @@ def mode_quadrature(dos):
 
     Notes
     -----
-    :math:`\\int g(\\nu) f(\\nu)\\,d\\nu \\approx \\sum_k w_k f(\\nu_k)`, exact
+    :math:`\int g(\nu) f(\nu)\,d\nu \approx \sum_k w_k f(\nu_k)`, exact
     for the ν² part when :math:`f` is a polynomial of degree below 126.
 
     References

@@ -24,12 +24,12 @@ ZPE_J_PER_MOL_PER_THZ = sc.N_A * sc.h * 1e12
 
 
 def molar_values(sums, t):
-    """C_v, S [J/(mol·K)] and U, F [J/mol] per mole of formula units from the sums.
+    r"""C_v, S [J/(mol·K)] and U, F [J/mol] per mole of formula units from the sums.
 
     Notes
     -----
-    :math:`C_v = R\\Sigma_c`, :math:`S = R\\Sigma_s`,
-    :math:`U = E_0 + RT\\Sigma_u`, :math:`F = E_0 - RT\\Sigma_\\ell`.
+    :math:`C_v = R\Sigma_c`, :math:`S = R\Sigma_s`,
+    :math:`U = E_0 + RT\Sigma_u`, :math:`F = E_0 - RT\Sigma_\ell`.
 
     Examples
     --------
@@ -77,7 +77,7 @@ def grid_sums(nodes_thz, weights, temperatures, method="auto"):
 
 
 def thermal_sums(dos, temperatures, method="auto"):
-    """Mode-weighted kernel sums of a whole DOS at each temperature.
+    r"""Mode-weighted kernel sums of a whole DOS at each temperature.
 
     Parameters
     ----------
@@ -93,12 +93,12 @@ def thermal_sums(dos, temperatures, method="auto"):
     dict
         ``heat_capacity``, ``thermal_energy``, ``log_partition`` and
         ``entropy`` (= thermal_energy + log_partition), arrays (M,) [1];
-        ``zero_point_thz``, :math:`\\sum \\text{modes}\\cdot\\nu/2` [THz].
+        ``zero_point_thz``, :math:`\sum \text{modes}\cdot\nu/2` [THz].
 
     Notes
     -----
-    .. math:: \\Sigma_K(T) = \\int_0^{\\nu_c} A\\nu^2 K\\,d\\nu
-              + \\sum_i w_i g_i K\\!\\left(\\frac{h\\nu_i}{k_BT}\\right)
+    .. math:: \Sigma_K(T) = \int_0^{\nu_c} A\nu^2 K\,d\nu
+              + \sum_i w_i g_i K\!\left(\frac{h\nu_i}{k_BT}\right)
 
     References
     ----------

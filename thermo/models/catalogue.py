@@ -78,7 +78,7 @@ def _entry(key, value, definition, reference, uncertainty=None, fit_range=None):
 
 
 def theta_definitions(dos, fit_range=None):
-    """All characteristic temperatures of a DOS with their definitions.
+    r"""All characteristic temperatures of a DOS with their definitions.
 
     Parameters
     ----------
@@ -98,12 +98,12 @@ def theta_definitions(dos, fit_range=None):
 
     Notes
     -----
-    - Einstein, entropy: :math:`\\theta_E = (h/k_B)e^{\\langle\\ln\\nu\\rangle}`.
+    - Einstein, entropy: :math:`\theta_E = (h/k_B)e^{\langle\ln\nu\rangle}`.
     - Einstein, fit: least squares on :math:`C_v(T)`.
-    - Einstein, mean: :math:`\\theta_E = (h/k_B)\\langle\\nu\\rangle`.
-    - Debye, low frequency: :math:`(h/k_B)(9n/A)^{1/3}`, :math:`g\\to A\\nu^2`.
-    - Debye, moments: :math:`\\theta_D(n) = (h/k_B)[(n+3)\\langle\\nu^n\\rangle/3]^{1/n}`,
-      :math:`\\theta_D(0) = (h/k_B)e^{1/3+\\langle\\ln\\nu\\rangle}`.
+    - Einstein, mean: :math:`\theta_E = (h/k_B)\langle\nu\rangle`.
+    - Debye, low frequency: :math:`(h/k_B)(9n/A)^{1/3}`, :math:`g\to A\nu^2`.
+    - Debye, moments: :math:`\theta_D(n) = (h/k_B)[(n+3)\langle\nu^n\rangle/3]^{1/n}`,
+      :math:`\theta_D(0) = (h/k_B)e^{1/3+\langle\ln\nu\rangle}`.
     - Debye, fit: least squares on :math:`C_v(T)`.
 
     All coincide for a Debye spectrum (Barron et al. 1957); their spread

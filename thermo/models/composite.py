@@ -100,7 +100,7 @@ class CompositeModel:
 
 
 def composite_sums(model, temperatures):
-    """Kernel sums of a composite model (Debye term + Einstein terms).
+    r"""Kernel sums of a composite model (Debye term + Einstein terms).
 
     Parameters
     ----------
@@ -116,7 +116,7 @@ def composite_sums(model, temperatures):
 
     Notes
     -----
-    :math:`\\Sigma_K = \\Sigma_K^{D}(\\theta_D, 3) + \\sum_k \\Sigma_K^{E}(\\theta_k, m_k)`.
+    :math:`\Sigma_K = \Sigma_K^{D}(\theta_D, 3) + \sum_k \Sigma_K^{E}(\theta_k, m_k)`.
 
     Examples
     --------
@@ -130,7 +130,7 @@ def composite_sums(model, temperatures):
 
 
 def composite_table(model, temperatures, per="formula", atoms=None, formula=None):
-    """C_v, S, U, F of a composite model, columns as ``tabulate``.
+    r"""C_v, S, U, F of a composite model, columns as ``tabulate``.
 
     Parameters
     ----------
@@ -150,7 +150,7 @@ def composite_table(model, temperatures, per="formula", atoms=None, formula=None
     Notes
     -----
     Sum of the Debye table (3 modes, θ_D) and Einstein tables
-    (:math:`m_k` modes, :math:`\\theta_k`); see :func:`debye_table`,
+    (:math:`m_k` modes, :math:`\theta_k`); see :func:`debye_table`,
     :func:`einstein_table`.
 
     References
@@ -193,23 +193,23 @@ def _split_equal(weights, terms):
 
 
 def optical_weights(dos, acoustic_coefficient, acoustic_cutoff_thz):
-    """Mode weights of the DOS left after removing the acoustic Debye band.
+    r"""Mode weights of the DOS left after removing the acoustic Debye band.
 
     Parameters
     ----------
     dos : PhononDOS
         Normalised DOS.
     acoustic_coefficient : float
-        :math:`A_{ac} = 9/\\nu_{D,ac}^3` [1/THz³].
+        :math:`A_{ac} = 9/\nu_{D,ac}^3` [1/THz³].
     acoustic_cutoff_thz : float
-        :math:`\\nu_{D,ac}` [THz].
+        :math:`\nu_{D,ac}` [THz].
 
     Returns
     -------
     nodes : numpy.ndarray
         Tabulated frequencies > 0 [THz].
     weights : numpy.ndarray
-        :math:`\\max(g - A_{ac}\\nu^2\\,[\\nu<\\nu_{D,ac}], 0)\\,\\Delta\\nu` [modes].
+        :math:`\max(g - A_{ac}\nu^2\,[\nu<\nu_{D,ac}], 0)\,\Delta\nu` [modes].
 
     Notes
     -----
@@ -231,7 +231,7 @@ def optical_weights(dos, acoustic_coefficient, acoustic_cutoff_thz):
 
 
 def composite_initial(dos, optical_terms=1):
-    """Composite parameters taken directly from the DOS (no fit).
+    r"""Composite parameters taken directly from the DOS (no fit).
 
     Parameters
     ----------
@@ -247,13 +247,13 @@ def composite_initial(dos, optical_terms=1):
 
     Notes
     -----
-    Acoustic term: :math:`\\theta_{D,ac} = (h/k_B)(9/A)^{1/3}` from the
-    DOS's ν² coefficient A (3 modes in :math:`A\\nu^2` up to
-    :math:`\\nu_{D,ac}`); without a ν² fit, :math:`\\nu_{D,ac}` is the
+    Acoustic term: :math:`\theta_{D,ac} = (h/k_B)(9/A)^{1/3}` from the
+    DOS's ν² coefficient A (3 modes in :math:`A\nu^2` up to
+    :math:`\nu_{D,ac}`); without a ν² fit, :math:`\nu_{D,ac}` is the
     frequency below which 3 modes lie.  Optical part:
-    :math:`g_{opt} = \\max(g - A\\nu^2\\Theta(\\nu_{D,ac}-\\nu), 0)`, cut
+    :math:`g_{opt} = \max(g - A\nu^2\Theta(\nu_{D,ac}-\nu), 0)`, cut
     into K slices of equal modes (ascending ν); each slice's
-    :math:`\\theta_k = (h/k_B)\\exp\\langle\\ln\\nu\\rangle_k` (entropy
+    :math:`\theta_k = (h/k_B)\exp\langle\ln\nu\rangle_k` (entropy
     matching) and :math:`m_k = (3n-3)/K`.
 
     References
@@ -293,7 +293,7 @@ def composite_initial(dos, optical_terms=1):
 
 
 def composite_model(dos, optical_terms=1, fit_range=None, refine=True):
-    """Composite model of a DOS, refined by least squares on C_v(T).
+    r"""Composite model of a DOS, refined by least squares on C_v(T).
 
     Parameters
     ----------
@@ -315,8 +315,8 @@ def composite_model(dos, optical_terms=1, fit_range=None, refine=True):
 
     Notes
     -----
-    Minimises :math:`\\sum_j [C_v^{D}(T_j;\\theta_D,3) + \\sum_k C_v^{E}(T_j;\\theta_k,m_k) - C_v^{DOS}(T_j)]^2`
-    over :math:`\\theta_D, \\theta_1..\\theta_K` with the mode counts fixed.
+    Minimises :math:`\sum_j [C_v^{D}(T_j;\theta_D,3) + \sum_k C_v^{E}(T_j;\theta_k,m_k) - C_v^{DOS}(T_j)]^2`
+    over :math:`\theta_D, \theta_1..\theta_K` with the mode counts fixed.
 
     References
     ----------

@@ -1,4 +1,4 @@
-"""Debye model: :math:`g(\\nu) = 3m\\nu^2/\\nu_D^3` up to ν_D = k_B θ_D / h.
+r"""Debye model: :math:`g(\nu) = 3m\nu^2/\nu_D^3` up to ν_D = k_B θ_D / h.
 
 The Debye spectrum is exactly the analytic ν² form the core already integrates
 (:func:`thermo.kernels.nu2.nu2_part_sums`), so the model reuses it.
@@ -23,7 +23,7 @@ from .tabulation import check_theta, model_table, sums_on_hot
 
 
 def debye_coefficient(theta_k, modes):
-    """Coefficient A of the Debye spectrum :math:`g = A\\nu^2` [modes/THz³].
+    r"""Coefficient A of the Debye spectrum :math:`g = A\nu^2` [modes/THz³].
 
     Parameters
     ----------
@@ -35,12 +35,12 @@ def debye_coefficient(theta_k, modes):
     Returns
     -------
     float
-        :math:`A = 3m/\\nu_D^3` with :math:`\\nu_D = \\theta_D k_B/h` [1/THz³].
+        :math:`A = 3m/\nu_D^3` with :math:`\nu_D = \theta_D k_B/h` [1/THz³].
 
     Notes
     -----
-    :math:`\\int_0^{\\nu_D} A\\nu^2 d\\nu = m`; for :math:`m = 3n`,
-    :math:`A = 9n/\\nu_D^3`.
+    :math:`\int_0^{\nu_D} A\nu^2 d\nu = m`; for :math:`m = 3n`,
+    :math:`A = 9n/\nu_D^3`.
 
     References
     ----------
@@ -57,7 +57,7 @@ def debye_coefficient(theta_k, modes):
 
 
 def debye_sums(theta_k, modes, temperatures):
-    """Mode-weighted kernel sums of a Debye spectrum carrying ``modes`` modes.
+    r"""Mode-weighted kernel sums of a Debye spectrum carrying ``modes`` modes.
 
     Parameters
     ----------
@@ -75,8 +75,8 @@ def debye_sums(theta_k, modes, temperatures):
 
     Notes
     -----
-    :math:`\\Sigma_K = 3m\\,(T/\\theta_D)^3\\int_0^{\\theta_D/T} x^2K(x)\\,dx`;
-    zero point :math:`\\int A\\nu^2\\,\\nu/2 = 3m\\nu_D/8`.
+    :math:`\Sigma_K = 3m\,(T/\theta_D)^3\int_0^{\theta_D/T} x^2K(x)\,dx`;
+    zero point :math:`\int A\nu^2\,\nu/2 = 3m\nu_D/8`.
 
     References
     ----------
@@ -97,7 +97,7 @@ def debye_sums(theta_k, modes, temperatures):
 
 
 def debye_table(theta_k, modes, temperatures, per="formula", atoms=None, formula=None):
-    """C_v, S, U (with ZPE), F of a Debye solid, columns as ``tabulate``.
+    r"""C_v, S, U (with ZPE), F of a Debye solid, columns as ``tabulate``.
 
     Parameters
     ----------
@@ -118,17 +118,17 @@ def debye_table(theta_k, modes, temperatures, per="formula", atoms=None, formula
 
     Notes
     -----
-    With :math:`y = \\theta_D/T` and :math:`m` modes:
+    With :math:`y = \theta_D/T` and :math:`m` modes:
 
     .. math::
-        C_v = 3mR\\,y^{-3}\\int_0^{y}\\frac{x^4e^x}{(e^x-1)^2}dx,\\quad
-        U = \\tfrac{3}{8}mR\\theta_D + 3mRT\\,y^{-3}\\int_0^y\\frac{x^3}{e^x-1}dx,
+        C_v = 3mR\,y^{-3}\int_0^{y}\frac{x^4e^x}{(e^x-1)^2}dx,\quad
+        U = \tfrac{3}{8}mR\theta_D + 3mRT\,y^{-3}\int_0^y\frac{x^3}{e^x-1}dx,
 
-        F = \\tfrac{3}{8}mR\\theta_D + 3mRT\\,y^{-3}\\int_0^y x^2\\ln(1-e^{-x})dx,
-        \\quad S = (U-F)/T.
+        F = \tfrac{3}{8}mR\theta_D + 3mRT\,y^{-3}\int_0^y x^2\ln(1-e^{-x})dx,
+        \quad S = (U-F)/T.
 
-    Low-T limit: :math:`C_v \\to \\frac{4\\pi^4}{5} mR (T/\\theta_D)^3`
-    (:math:`12\\pi^4R/5\\,(T/\\theta_D)^3` per 3 modes).
+    Low-T limit: :math:`C_v \to \frac{4\pi^4}{5} mR (T/\theta_D)^3`
+    (:math:`12\pi^4R/5\,(T/\theta_D)^3` per 3 modes).
 
     References
     ----------
@@ -147,7 +147,7 @@ def debye_table(theta_k, modes, temperatures, per="formula", atoms=None, formula
 
 
 def debye_heat_capacity(temperatures, theta_k, modes):
-    """Debye C_v per mole of formula units [J/(mol K)].
+    r"""Debye C_v per mole of formula units [J/(mol K)].
 
     Parameters
     ----------
@@ -161,7 +161,7 @@ def debye_heat_capacity(temperatures, theta_k, modes):
     Returns
     -------
     numpy.ndarray
-        :math:`C_v = 3mR\\,y^{-3}\\int_0^y x^4e^x/(e^x-1)^2dx`, y = θ_D/T [J/(mol K)].
+        :math:`C_v = 3mR\,y^{-3}\int_0^y x^4e^x/(e^x-1)^2dx`, y = θ_D/T [J/(mol K)].
 
     References
     ----------
@@ -177,18 +177,18 @@ def debye_heat_capacity(temperatures, theta_k, modes):
 
 
 def debye_heat_capacity_fraction(y):
-    """Debye heat capacity as a fraction of its classical limit, at y = θ_D/T.
+    r"""Debye heat capacity as a fraction of its classical limit, at y = θ_D/T.
 
     Parameters
     ----------
     y : array_like
-        :math:`\\theta_D/T` [1], > 0.
+        :math:`\theta_D/T` [1], > 0.
 
     Returns
     -------
     numpy.ndarray
-        :math:`D_c(y) = 3y^{-3}\\int_0^y x^4e^x/(e^x-1)^2dx` [1], decreasing
-        from 1 (y → 0) to :math:`4\\pi^4/(5y^3)` (y → ∞).
+        :math:`D_c(y) = 3y^{-3}\int_0^y x^4e^x/(e^x-1)^2dx` [1], decreasing
+        from 1 (y → 0) to :math:`4\pi^4/(5y^3)` (y → ∞).
 
     References
     ----------
@@ -207,7 +207,7 @@ def debye_heat_capacity_fraction(y):
 
 
 def debye_spectrum(theta_k, atoms=1):
-    """The Debye spectrum itself as a :class:`~thermo.spectrum.PhononDOS`.
+    r"""The Debye spectrum itself as a :class:`~thermo.spectrum.PhononDOS`.
 
     Parameters
     ----------
@@ -219,7 +219,7 @@ def debye_spectrum(theta_k, atoms=1):
     Returns
     -------
     PhononDOS
-        :math:`g = 9n\\nu^2/\\nu_D^3` on :math:`[0,\\nu_D]` held as the
+        :math:`g = 9n\nu^2/\nu_D^3` on :math:`[0,\nu_D]` held as the
         analytic low-frequency part (exact in every core integral), zero
         above; for overlays and tests of the core against the model.
 

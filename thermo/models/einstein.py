@@ -18,7 +18,7 @@ from .tabulation import check_theta, model_table, sums_on_hot
 
 
 def einstein_sums(theta_k, modes, temperatures):
-    """Mode-weighted kernel sums of an Einstein solid.
+    r"""Mode-weighted kernel sums of an Einstein solid.
 
     Parameters
     ----------
@@ -37,8 +37,8 @@ def einstein_sums(theta_k, modes, temperatures):
 
     Notes
     -----
-    With :math:`x_E = \\theta_E/T`, each sum is
-    :math:`\\Sigma_K = m\\,K(x_E)`; :math:`\\Sigma(\\text{modes}\\,\\nu/2) = m\\nu_E/2`.
+    With :math:`x_E = \theta_E/T`, each sum is
+    :math:`\Sigma_K = m\,K(x_E)`; :math:`\Sigma(\text{modes}\,\nu/2) = m\nu_E/2`.
 
     References
     ----------
@@ -64,7 +64,7 @@ def einstein_sums(theta_k, modes, temperatures):
 
 
 def einstein_table(theta_k, modes, temperatures, per="formula", atoms=None, formula=None):
-    """C_v, S, U (with ZPE), F of an Einstein solid, columns as ``tabulate``.
+    r"""C_v, S, U (with ZPE), F of an Einstein solid, columns as ``tabulate``.
 
     Parameters
     ----------
@@ -85,17 +85,17 @@ def einstein_table(theta_k, modes, temperatures, per="formula", atoms=None, form
 
     Notes
     -----
-    With :math:`x = \\theta_E/T` and :math:`m` modes:
+    With :math:`x = \theta_E/T` and :math:`m` modes:
 
     .. math::
-        C_v = mR\\frac{x^2e^x}{(e^x-1)^2},\\quad
-        S = mR\\left[\\frac{x}{e^x-1} - \\ln(1-e^{-x})\\right],
+        C_v = mR\frac{x^2e^x}{(e^x-1)^2},\quad
+        S = mR\left[\frac{x}{e^x-1} - \ln(1-e^{-x})\right],
 
-        U = E_0 + mR\\frac{\\theta_E}{e^x-1},\\quad
-        F = E_0 + mRT\\ln(1-e^{-x}),\\quad E_0 = mR\\theta_E/2.
+        U = E_0 + mR\frac{\theta_E}{e^x-1},\quad
+        F = E_0 + mRT\ln(1-e^{-x}),\quad E_0 = mR\theta_E/2.
 
-    Low-T limit: :math:`C_v \\to mR\\,x^2e^{-x}` (exponential, not
-    :math:`T^3`); at :math:`T=\\theta_E`, :math:`C_v = mR\\,e/(e-1)^2`.
+    Low-T limit: :math:`C_v \to mR\,x^2e^{-x}` (exponential, not
+    :math:`T^3`); at :math:`T=\theta_E`, :math:`C_v = mR\,e/(e-1)^2`.
 
     References
     ----------
@@ -115,7 +115,7 @@ def einstein_table(theta_k, modes, temperatures, per="formula", atoms=None, form
 
 
 def einstein_heat_capacity(temperatures, theta_k, modes):
-    """Einstein C_v per mole of formula units [J/(mol K)].
+    r"""Einstein C_v per mole of formula units [J/(mol K)].
 
     Parameters
     ----------
@@ -129,7 +129,7 @@ def einstein_heat_capacity(temperatures, theta_k, modes):
     Returns
     -------
     numpy.ndarray
-        :math:`C_v = mR\\,x^2e^x/(e^x-1)^2`, :math:`x=\\theta_E/T` [J/(mol K)].
+        :math:`C_v = mR\,x^2e^x/(e^x-1)^2`, :math:`x=\theta_E/T` [J/(mol K)].
 
     References
     ----------

@@ -41,7 +41,7 @@ _BRACKET = None
 
 
 def debye_y_from_fraction(fraction):
-    """Invert the Debye heat-capacity fraction: y = θ_D/T with D_c(y) = f.
+    r"""Invert the Debye heat-capacity fraction: y = θ_D/T with D_c(y) = f.
 
     Parameters
     ----------
@@ -55,11 +55,11 @@ def debye_y_from_fraction(fraction):
 
     Notes
     -----
-    :math:`D_c(y) = 3y^{-3}\\int_0^y x^4e^x(e^x-1)^{-2}dx` falls monotonically
-    from 1 to 0.  For :math:`f \\le D_c(60)`, :math:`y = (4\\pi^4/5f)^{1/3}`
+    :math:`D_c(y) = 3y^{-3}\int_0^y x^4e^x(e^x-1)^{-2}dx` falls monotonically
+    from 1 to 0.  For :math:`f \le D_c(60)`, :math:`y = (4\pi^4/5f)^{1/3}`
     (the T³ law, exact to 1e-20); otherwise Brent's method inside the
-    bracket of a 400-point table of :math:`D_c` on :math:`[10^{-9}, 60]`.  Near f = 1, :math:`1 - f \\approx y^2/20`, so a
-    relative error ε in C_v moves y by :math:`\\approx \\varepsilon/(2(1-f))`:
+    bracket of a 400-point table of :math:`D_c` on :math:`[10^{-9}, 60]`.  Near f = 1, :math:`1 - f \approx y^2/20`, so a
+    relative error ε in C_v moves y by :math:`\approx \varepsilon/(2(1-f))`:
     θ_D(T) far above θ_D is ill-conditioned.
 
     References
@@ -87,7 +87,7 @@ def debye_y_from_fraction(fraction):
 
 
 def invert_debye_heat_capacity(temperatures, heat_capacity, modes):
-    """θ_D at each T such that the Debye C_v of ``modes`` modes equals the data.
+    r"""θ_D at each T such that the Debye C_v of ``modes`` modes equals the data.
 
     Parameters
     ----------
@@ -106,7 +106,7 @@ def invert_debye_heat_capacity(temperatures, heat_capacity, modes):
 
     Notes
     -----
-    Solves :math:`mR\\,D_c(\\theta_D/T) = C_v(T)` with
+    Solves :math:`mR\,D_c(\theta_D/T) = C_v(T)` with
     :func:`debye_y_from_fraction`.
 
     References
@@ -127,7 +127,7 @@ def invert_debye_heat_capacity(temperatures, heat_capacity, modes):
 
 
 def equivalent_debye_temperature(dos, temperatures):
-    """Equivalent Debye temperature θ_D(T) of a DOS [K].
+    r"""Equivalent Debye temperature θ_D(T) of a DOS [K].
 
     Parameters
     ----------
@@ -144,8 +144,8 @@ def equivalent_debye_temperature(dos, temperatures):
 
     Notes
     -----
-    .. math:: 9nR\\left(\\frac{T}{\\theta_D(T)}\\right)^3
-              \\int_0^{\\theta_D(T)/T}\\frac{x^4e^x}{(e^x-1)^2}dx = C_v^{DOS}(T)
+    .. math:: 9nR\left(\frac{T}{\theta_D(T)}\right)^3
+              \int_0^{\theta_D(T)/T}\frac{x^4e^x}{(e^x-1)^2}dx = C_v^{DOS}(T)
 
     with all 3n modes in the Debye spectrum.  As T → 0 it tends to the
     elastic (ν²) θ_D; as T → ∞ to θ_D(2) of the moments.

@@ -60,7 +60,7 @@ class FitResult:
 
 
 def least_squares_fit(model, temperatures, values, initial, sigma=None, absolute_sigma=False):
-    """Fit positive parameters p of ``model(T, p)`` to values at T.
+    r"""Fit positive parameters p of ``model(T, p)`` to values at T.
 
     Parameters
     ----------
@@ -87,9 +87,9 @@ def least_squares_fit(model, temperatures, values, initial, sigma=None, absolute
 
     Notes
     -----
-    Minimises :math:`\\chi^2 = \\sum_j r_j^2`, :math:`r_j = (f(T_j;p) - y_j)/\\sigma_j`
+    Minimises :math:`\chi^2 = \sum_j r_j^2`, :math:`r_j = (f(T_j;p) - y_j)/\sigma_j`
     (trust-region reflective, bounds :math:`p > 0`).  Covariance
-    :math:`\\mathrm{cov}(p) = (J^TJ)^{-1} s^2` with :math:`s^2 = \\chi^2/(M-P)`
+    :math:`\mathrm{cov}(p) = (J^TJ)^{-1} s^2` with :math:`s^2 = \chi^2/(M-P)`
     (or 1 with ``absolute_sigma``); a parameter the data do not determine
     (rank-deficient J) gets an infinite uncertainty.
 
@@ -149,7 +149,7 @@ def _initial_theta(model, t, y, s, modes):
 
 
 def fit_heat_capacity_data(kind, temperatures, heat_capacity, modes, sigma=None, absolute_sigma=False):
-    """Fit θ of an Einstein or Debye model to C_v(T) data.
+    r"""Fit θ of an Einstein or Debye model to C_v(T) data.
 
     Parameters
     ----------
@@ -173,7 +173,7 @@ def fit_heat_capacity_data(kind, temperatures, heat_capacity, modes, sigma=None,
 
     Notes
     -----
-    Model :math:`C_v(T;\\theta)` from :func:`einstein_heat_capacity` or
+    Model :math:`C_v(T;\theta)` from :func:`einstein_heat_capacity` or
     :func:`debye_heat_capacity`, minimised in the least-squares sense (see
     :func:`least_squares_fit`), starting from the best θ of a log scan.
 
@@ -284,7 +284,7 @@ def fit_temperatures(dos, fit_range=None, points=FIT_POINTS):
 
 
 def fit_dos_theta(dos, kind, fit_range=None):
-    """θ_E or θ_D by least squares on the DOS's C_v(T) over a temperature range.
+    r"""θ_E or θ_D by least squares on the DOS's C_v(T) over a temperature range.
 
     Parameters
     ----------
@@ -302,7 +302,7 @@ def fit_dos_theta(dos, kind, fit_range=None):
 
     Notes
     -----
-    Minimises :math:`\\sum_j [C_v^{model}(T_j;\\theta) - C_v^{DOS}(T_j)]^2`
+    Minimises :math:`\sum_j [C_v^{model}(T_j;\theta) - C_v^{DOS}(T_j)]^2`
     on 60 evenly spaced temperatures.  The uncertainty reflects how badly
     one parameter describes the spectrum, not noise.
 

@@ -31,7 +31,7 @@ def _share(binned, hot):
 
 
 def mode_share_map(dos, temperatures, bins=DEFAULT_BINS):
-    """Share of C_v and of S carried by each frequency bin at each temperature.
+    r"""Share of C_v and of S carried by each frequency bin at each temperature.
 
     Parameters
     ----------
@@ -56,9 +56,9 @@ def mode_share_map(dos, temperatures, bins=DEFAULT_BINS):
     Every node pair is evaluated directly, with the quadrature of
     :func:`thermo.kernels.quadrature.mode_quadrature` (weights :math:`w_i`):
 
-    .. math:: s^{C}_{ij} = \\frac{w_i c(x_{ij})}{\\sum_i w_i c(x_{ij})},\\qquad
-              s^{S}_{ij} = \\frac{w_i s(x_{ij})}{\\sum_i w_i s(x_{ij})},\\qquad
-              x_{ij} = \\frac{h\\nu_i}{k_BT_j},
+    .. math:: s^{C}_{ij} = \frac{w_i c(x_{ij})}{\sum_i w_i c(x_{ij})},\qquad
+              s^{S}_{ij} = \frac{w_i s(x_{ij})}{\sum_i w_i s(x_{ij})},\qquad
+              x_{ij} = \frac{h\nu_i}{k_BT_j},
 
     then summed over the nodes in each bin.  Nodes at ν = 0 (whose entropy
     kernel diverges) are left out.

@@ -1,9 +1,9 @@
-"""Frequency moments of a DOS and the characteristic temperatures built on them.
+r"""Frequency moments of a DOS and the characteristic temperatures built on them.
 
 Moments are averages over the normalised DOS,
-:math:`\\langle f\\rangle = \\int g f\\,d\\nu / \\int g\\,d\\nu`, evaluated with
+:math:`\langle f\rangle = \int g f\,d\nu / \int g\,d\nu`, evaluated with
 :func:`thermo.kernels.quadrature.mode_quadrature` (Gauss nodes on the analytic
-:math:`A\\nu^2` part, trapezoid on the table), so :math:`\\langle\\nu^{-2}\\rangle`
+:math:`A\nu^2` part, trapezoid on the table), so :math:`\langle\nu^{-2}\rangle`
 is finite whenever the low-frequency ν² form is in place.
 
 References
@@ -37,7 +37,7 @@ def _positive_nodes(dos):
 
 
 def frequency_moment(dos, n):
-    """Normalised frequency moment :math:`\\langle\\nu^n\\rangle` [THzⁿ].
+    r"""Normalised frequency moment :math:`\langle\nu^n\rangle` [THzⁿ].
 
     Parameters
     ----------
@@ -49,14 +49,14 @@ def frequency_moment(dos, n):
     Returns
     -------
     float
-        :math:`\\langle\\nu^n\\rangle = \\int g\\nu^n d\\nu/\\int g\\,d\\nu` [THzⁿ];
+        :math:`\langle\nu^n\rangle = \int g\nu^n d\nu/\int g\,d\nu` [THzⁿ];
         ``inf`` for n < 0 when modes sit at ν = 0 (a node at ν = 0 with
         less than :data:`ZERO_NODE_SHARE` of the modes counts as empty).
 
     Notes
     -----
-    A Debye spectrum :math:`g\\propto\\nu^2` on :math:`[0,\\nu_D]` has
-    :math:`\\langle\\nu^n\\rangle = 3\\nu_D^n/(n+3)`.
+    A Debye spectrum :math:`g\propto\nu^2` on :math:`[0,\nu_D]` has
+    :math:`\langle\nu^n\rangle = 3\nu_D^n/(n+3)`.
 
     References
     ----------
@@ -79,7 +79,7 @@ def frequency_moment(dos, n):
 
 
 def log_frequency_moment(dos):
-    """Logarithmic moment :math:`\\langle\\ln(\\nu/\\mathrm{THz})\\rangle` [1].
+    r"""Logarithmic moment :math:`\langle\ln(\nu/\mathrm{THz})\rangle` [1].
 
     Parameters
     ----------
@@ -89,14 +89,14 @@ def log_frequency_moment(dos):
     Returns
     -------
     float
-        :math:`\\int g\\ln\\nu\\,d\\nu/\\int g\\,d\\nu`, ν in THz [1].
+        :math:`\int g\ln\nu\,d\nu/\int g\,d\nu`, ν in THz [1].
 
     Notes
     -----
-    Debye spectrum: :math:`\\langle\\ln\\nu\\rangle = \\ln\\nu_D - 1/3`.
+    Debye spectrum: :math:`\langle\ln\nu\rangle = \ln\nu_D - 1/3`.
     A node at ν = 0 (a DOS that does not vanish there, e.g. smeared, with
-    the ν² treatment off) stands for its half interval :math:`[0, \\nu_1/2]`
-    and carries the mean of ln ν over it, :math:`\\ln(\\nu_1/2) - 1` — the
+    the ν² treatment off) stands for its half interval :math:`[0, \nu_1/2]`
+    and carries the mean of ln ν over it, :math:`\ln(\nu_1/2) - 1` — the
     integral converges although ln ν does not.
 
     References
@@ -124,7 +124,7 @@ def log_frequency_moment(dos):
 
 
 def debye_moment_temperature(dos, n):
-    """Moment Debye temperature θ_D(n) [K].
+    r"""Moment Debye temperature θ_D(n) [K].
 
     Parameters
     ----------
@@ -137,14 +137,14 @@ def debye_moment_temperature(dos, n):
     -------
     float
         θ_D(n) [K]; ``nan`` for n < 0 when modes sit at ν = 0 (the DOS
-        does not vanish there and :math:`\\langle\\nu^n\\rangle` diverges).
+        does not vanish there and :math:`\langle\nu^n\rangle` diverges).
 
     Notes
     -----
     .. math::
-        \\theta_D(n) = \\frac{h}{k_B}\\left[\\frac{n+3}{3}\\langle\\nu^n\\rangle\\right]^{1/n},
-        \\qquad
-        \\theta_D(0) = \\frac{h}{k_B}\\exp\\left(\\tfrac13 + \\langle\\ln\\nu\\rangle\\right).
+        \theta_D(n) = \frac{h}{k_B}\left[\frac{n+3}{3}\langle\nu^n\rangle\right]^{1/n},
+        \qquad
+        \theta_D(0) = \frac{h}{k_B}\exp\left(\tfrac13 + \langle\ln\nu\rangle\right).
 
     Each equals θ_D for a Debye spectrum.  θ_D(−3) is the elastic limit,
     θ_D(2) governs the leading high-T correction of C_v,
@@ -175,7 +175,7 @@ def debye_moment_temperature(dos, n):
 
 
 def einstein_entropy_temperature(dos):
-    """Einstein temperature with the DOS's high-T entropy [K].
+    r"""Einstein temperature with the DOS's high-T entropy [K].
 
     Parameters
     ----------
@@ -185,14 +185,14 @@ def einstein_entropy_temperature(dos):
     Returns
     -------
     float
-        :math:`\\theta_E = (h/k_B)\\exp\\langle\\ln\\nu\\rangle` [K].
+        :math:`\theta_E = (h/k_B)\exp\langle\ln\nu\rangle` [K].
 
     Notes
     -----
-    At high T, :math:`S \\to 3nR[1 + \\ln(k_BT/h) - \\langle\\ln\\nu\\rangle]`;
+    At high T, :math:`S \to 3nR[1 + \ln(k_BT/h) - \langle\ln\nu\rangle]`;
     an Einstein solid has the same limit when
-    :math:`\\ln\\nu_E = \\langle\\ln\\nu\\rangle`.  Equals
-    :math:`e^{-1/3}\\theta_D(0)`.
+    :math:`\ln\nu_E = \langle\ln\nu\rangle`.  Equals
+    :math:`e^{-1/3}\theta_D(0)`.
 
     References
     ----------
@@ -212,7 +212,7 @@ def einstein_entropy_temperature(dos):
 
 
 def einstein_mean_temperature(dos):
-    """Einstein temperature of the mean frequency (same zero-point energy) [K].
+    r"""Einstein temperature of the mean frequency (same zero-point energy) [K].
 
     Parameters
     ----------
@@ -222,12 +222,12 @@ def einstein_mean_temperature(dos):
     Returns
     -------
     float
-        :math:`\\theta_E = (h/k_B)\\langle\\nu\\rangle` [K].
+        :math:`\theta_E = (h/k_B)\langle\nu\rangle` [K].
 
     Notes
     -----
     The Einstein solid with this θ_E has the DOS's zero-point energy
-    :math:`\\tfrac12 h\\int g\\nu\\,d\\nu`, and its high-T energy
+    :math:`\tfrac12 h\int g\nu\,d\nu`, and its high-T energy
     :math:`U - 3nRT` agrees with the DOS to first order in 1/T.
 
     References

@@ -19,7 +19,7 @@ _H_MEV_PER_THZ = sc.h * 1e12 / sc.electron_volt * 1e3
 
 
 def occupation_explorer(frequency_thz, temperatures):
-    """Occupation n(ν, T) and mean energy per mode on the grid ν × T.
+    r"""Occupation n(ν, T) and mean energy per mode on the grid ν × T.
 
     Parameters
     ----------
@@ -33,18 +33,18 @@ def occupation_explorer(frequency_thz, temperatures):
     dict
         ``frequency_thz`` (N,) [THz], ``temperature_K`` (M,) [K],
         ``occupation`` (N, M) [1] (``inf`` at ν = 0, 0 at T = 0),
-        ``mean_energy_meV`` (N, M): :math:`h\\nu(n+\\tfrac12)` [meV],
-        ``zero_point_meV`` (N,): :math:`h\\nu/2` [meV],
+        ``mean_energy_meV`` (N, M): :math:`h\nu(n+\tfrac12)` [meV],
+        ``zero_point_meV`` (N,): :math:`h\nu/2` [meV],
         ``classical_energy_meV`` (M,): :math:`k_BT` [meV].
 
     Notes
     -----
-    .. math:: n = \\frac{1}{e^{x}-1},\\qquad
-              \\langle\\varepsilon\\rangle = h\\nu\\left(n + \\tfrac12\\right)
-              = \\frac{h\\nu}{2} + k_BT\\,\\frac{x}{e^x-1},\\qquad x = \\frac{h\\nu}{k_BT}.
+    .. math:: n = \frac{1}{e^{x}-1},\qquad
+              \langle\varepsilon\rangle = h\nu\left(n + \tfrac12\right)
+              = \frac{h\nu}{2} + k_BT\,\frac{x}{e^x-1},\qquad x = \frac{h\nu}{k_BT}.
 
-    :math:`\\langle\\varepsilon\\rangle \\to k_BT` for :math:`x \\ll 1`
-    (equipartition) and :math:`\\to h\\nu/2` for :math:`x \\gg 1` (frozen mode).
+    :math:`\langle\varepsilon\rangle \to k_BT` for :math:`x \ll 1`
+    (equipartition) and :math:`\to h\nu/2` for :math:`x \gg 1` (frozen mode).
 
     References
     ----------

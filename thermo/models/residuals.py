@@ -16,7 +16,7 @@ from ..errors import OptionError
 
 
 def residual_table(reference, model):
-    """Model minus reference, column by column, at the same temperatures.
+    r"""Model minus reference, column by column, at the same temperatures.
 
     Parameters
     ----------
@@ -38,7 +38,7 @@ def residual_table(reference, model):
 
     Notes
     -----
-    :math:`\\Delta X(T) = X_{model}(T) - X_{DOS}(T)` for C_v, S, U, F.
+    :math:`\Delta X(T) = X_{model}(T) - X_{DOS}(T)` for C_v, S, U, F.
 
     Examples
     --------
@@ -94,7 +94,7 @@ def largest_deviations(residuals):
 
 
 def cv_over_t3(tables):
-    """C_v/T³ of several tables (DOS and models) for the low-T diagnostic.
+    r"""C_v/T³ of several tables (DOS and models) for the low-T diagnostic.
 
     Parameters
     ----------
@@ -110,8 +110,8 @@ def cv_over_t3(tables):
 
     Notes
     -----
-    A Debye solid tends to the constant :math:`\\frac{12\\pi^4}{5}nR/\\theta_D^3`;
-    an Einstein solid falls to 0 (:math:`C_v \\propto x^2e^{-x}`); a real DOS
+    A Debye solid tends to the constant :math:`\frac{12\pi^4}{5}nR/\theta_D^3`;
+    an Einstein solid falls to 0 (:math:`C_v \propto x^2e^{-x}`); a real DOS
     shows a plateau at the elastic limit and a peak from low-lying
     transverse modes (the boson-peak-like bump).
 

@@ -14,7 +14,7 @@ from ..kernels.direct import SUM_KEYS
 from ..tables import table_from_sums
 
 def sums_on_hot(evaluate, temperatures):
-    """Evaluate kernel sums for T > 0 only; exact zeros at T = 0.
+    r"""Evaluate kernel sums for T > 0 only; exact zeros at T = 0.
 
     Parameters
     ----------
@@ -31,7 +31,7 @@ def sums_on_hot(evaluate, temperatures):
 
     Notes
     -----
-    Every thermal kernel vanishes as :math:`T \\to 0` (:math:`x\\to\\infty`).
+    Every thermal kernel vanishes as :math:`T \to 0` (:math:`x\to\infty`).
 
     Examples
     --------
@@ -51,7 +51,7 @@ def sums_on_hot(evaluate, temperatures):
 
 
 def model_table(sums, temperatures, per="formula", atoms=None, formula=None, modes=None):
-    """Table of C_v, S, U, F from kernel sums, columns as :func:`~thermo.tables.tabulate`.
+    r"""Table of C_v, S, U, F from kernel sums, columns as :func:`~thermo.tables.tabulate`.
 
     Parameters
     ----------
@@ -78,9 +78,9 @@ def model_table(sums, temperatures, per="formula", atoms=None, formula=None, mod
 
     Notes
     -----
-    :math:`C_v = R\\Sigma_c`, :math:`S = R\\Sigma_s`,
-    :math:`U = E_0 + RT\\Sigma_u`, :math:`F = E_0 - RT\\Sigma_\\ell`,
-    :math:`E_0 = N_A h \\Sigma(\\text{modes}\\,\\nu/2)`.
+    :math:`C_v = R\Sigma_c`, :math:`S = R\Sigma_s`,
+    :math:`U = E_0 + RT\Sigma_u`, :math:`F = E_0 - RT\Sigma_\ell`,
+    :math:`E_0 = N_A h \Sigma(\text{modes}\,\nu/2)`.
 
     References
     ----------

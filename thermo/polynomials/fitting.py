@@ -57,11 +57,11 @@ def check_range(t_range, form):
 
 
 def default_midpoint(t_min, t_max):
-    """Default NASA 7-term midpoint [K]: the geometric mean of the range ends, to the nearest 10 K.
+    r"""Default NASA 7-term midpoint [K]: the geometric mean of the range ends, to the nearest 10 K.
 
     Notes
     -----
-    :math:`T_m = \\sqrt{T_{min}T_{max}}` puts the two ranges at equal ratios
+    :math:`T_m = \sqrt{T_{min}T_{max}}` puts the two ranges at equal ratios
     of temperature; for the NASA gas range 200–6000 K it gives 1095 K, near the
     1000 K of NASA common practice [1]_.  It depends only on the range, so a
     resampled input never moves it.
@@ -143,7 +143,7 @@ def _constants(form, cp_coefficients, t_ref, h_ref, s_ref, formation_kj):
 
 def fit_polynomial(source, form="shomate", t_range=DEFAULT_RANGE, t_mid=None, formation_enthalpy=0.0,
                    phase="cr", name=None):
-    """Fit one published polynomial form to a heat-capacity source.
+    r"""Fit one published polynomial form to a heat-capacity source.
 
     Parameters
     ----------
@@ -176,11 +176,11 @@ def fit_polynomial(source, form="shomate", t_range=DEFAULT_RANGE, t_mid=None, fo
 
     Notes
     -----
-    C_p minimises :math:`\\sum_i [(C_p^{fit}(T_i) - C_p(T_i))/C_p(T_i)]^2`
+    C_p minimises :math:`\sum_i [(C_p^{fit}(T_i) - C_p(T_i))/C_p(T_i)]^2`
     over the range (with :math:`C_p^{lo}(T_m) = C_p^{hi}(T_m)` for two
     ranges [4]_); then with the reference temperature :math:`T_r`
     (298.15 K if inside the range, else the first source point in it)
-    :math:`H(T_r) = \\Delta_fH^\\circ + [H(T_r) - H(298.15)]_{source}` and
+    :math:`H(T_r) = \Delta_fH^\circ + [H(T_r) - H(298.15)]_{source}` and
     :math:`S(T_r) = S_{source}(T_r)` fix the constants (Shomate F, G [2]_;
     NASA a6, a7 [1]_; SGTE a, b [3]_).  Enthalpies are on the scale where
     H(298.15 K) = Δ_fH°; for SGTE this is G − H^SER with H^SER the enthalpy

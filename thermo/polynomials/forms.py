@@ -36,7 +36,7 @@ def _t(temperature):
 
 
 def shomate_properties(coefficients, temperature):
-    """Shomate C_p, H, S, G in the NIST Chemistry WebBook convention.
+    r"""Shomate C_p, H, S, G in the NIST Chemistry WebBook convention.
 
     Parameters
     ----------
@@ -55,13 +55,13 @@ def shomate_properties(coefficients, temperature):
 
     Notes
     -----
-    With :math:`t = T/(1000\\,\\mathrm{K})` [1]_:
+    With :math:`t = T/(1000\,\mathrm{K})` [1]_:
 
     .. math::
-        C_p = A + Bt + Ct^2 + Dt^3 + E/t^2,\\quad
-        H^\\circ - H^\\circ_{298.15} = At + Bt^2/2 + Ct^3/3 + Dt^4/4 - E/t + F - H,
+        C_p = A + Bt + Ct^2 + Dt^3 + E/t^2,\quad
+        H^\circ - H^\circ_{298.15} = At + Bt^2/2 + Ct^3/3 + Dt^4/4 - E/t + F - H,
 
-        S^\\circ = A\\ln t + Bt + Ct^2/2 + Dt^3/3 - E/(2t^2) + G.
+        S^\circ = A\ln t + Bt + Ct^2/2 + Dt^3/3 - E/(2t^2) + G.
 
     Examples
     --------
@@ -92,7 +92,7 @@ def shomate_basis(temperature):
 
 
 def nasa7_properties(coefficients, temperature):
-    """NASA 7-term C_p, H, S, G of one temperature range.
+    r"""NASA 7-term C_p, H, S, G of one temperature range.
 
     Parameters
     ----------
@@ -116,7 +116,7 @@ def nasa7_properties(coefficients, temperature):
 
         H/(RT) = a_1 + a_2T/2 + a_3T^2/3 + a_4T^3/4 + a_5T^4/5 + a_6/T,
 
-        S/R = a_1\\ln T + a_2T + a_3T^2/2 + a_4T^3/3 + a_5T^4/4 + a_7.
+        S/R = a_1\ln T + a_2T + a_3T^2/2 + a_4T^3/3 + a_5T^4/4 + a_7.
 
     Examples
     --------
@@ -146,7 +146,7 @@ def nasa7_basis(temperature):
 
 
 def sgte_properties(coefficients, temperature):
-    """SGTE-form Gibbs energy and the C_p, H, S that follow from it.
+    r"""SGTE-form Gibbs energy and the C_p, H, S that follow from it.
 
     Parameters
     ----------
@@ -168,9 +168,9 @@ def sgte_properties(coefficients, temperature):
     From [3]_:
 
     .. math::
-        G - H^{SER} = a + bT + cT\\ln T + dT^2 + eT^3 + f/T,
+        G - H^{SER} = a + bT + cT\ln T + dT^2 + eT^3 + f/T,
 
-        S = -b - c - c\\ln T - 2dT - 3eT^2 + f/T^2,\\quad
+        S = -b - c - c\ln T - 2dT - 3eT^2 + f/T^2,\quad
         H - H^{SER} = a - cT - dT^2 - 2eT^3 + 2f/T,
 
         C_p = -c - 2dT - 6eT^2 - 2f/T^2.

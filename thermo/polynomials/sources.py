@@ -77,7 +77,7 @@ def fit_grid(t_min, t_max, points=400):
 
 
 def harmonic_source(dos, t_min, t_max, points=400):
-    """Heat-capacity source of a phonon DOS in the harmonic approximation.
+    r"""Heat-capacity source of a phonon DOS in the harmonic approximation.
 
     Parameters
     ----------
@@ -97,7 +97,7 @@ def harmonic_source(dos, t_min, t_max, points=400):
     -----
     In the harmonic crystal at zero pressure :math:`C_p = C_v` and
     :math:`H = U` (no thermal expansion, :math:`PV` negligible for a solid
-    at 1 bar) [1]_, so :math:`H - H_{298.15} = U(T) - U(298.15\\,\\mathrm{K})`.
+    at 1 bar) [1]_, so :math:`H - H_{298.15} = U(T) - U(298.15\,\mathrm{K})`.
 
     Examples
     --------
@@ -123,7 +123,7 @@ def harmonic_source(dos, t_min, t_max, points=400):
 
 def heat_capacity_source(temperature, heat_capacity, entropy=None, entropy_298=None,
                          label="C_p table", notes=()):
-    """Heat-capacity source from any (T, C_p) table.
+    r"""Heat-capacity source from any (T, C_p) table.
 
     Parameters
     ----------
@@ -154,8 +154,8 @@ def heat_capacity_source(temperature, heat_capacity, entropy=None, entropy_298=N
     Notes
     -----
     A cubic spline of C_p is integrated exactly:
-    :math:`H - H_{298.15} = \\int_{298.15}^{T} C_p\\,dT'` and, without a given
-    entropy, :math:`S = S_{298.15} + \\int_{298.15}^{T} (C_p/T')\\,dT'`.
+    :math:`H - H_{298.15} = \int_{298.15}^{T} C_p\,dT'` and, without a given
+    entropy, :math:`S = S_{298.15} + \int_{298.15}^{T} (C_p/T')\,dT'`.
 
     Examples
     --------

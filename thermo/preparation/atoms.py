@@ -26,7 +26,7 @@ def modes_text(count: float) -> str:
 
 
 def resolve_atoms(raw_integral: float, atoms=None, source: str | None = None):
-    """Atoms per formula unit, given or inferred from the DOS integral.
+    r"""Atoms per formula unit, given or inferred from the DOS integral.
 
     Parameters
     ----------
@@ -56,7 +56,7 @@ def resolve_atoms(raw_integral: float, atoms=None, source: str | None = None):
     -----
     A DOS normalised per formula unit integrates to :math:`3n` (3 branches
     per atom); :math:`n` is inferred when
-    :math:`|I - 3n| \\le 0.02 \\cdot 3n` for a whole :math:`n \\ge 1`.
+    :math:`|I - 3n| \le 0.02 \cdot 3n` for a whole :math:`n \ge 1`.
 
     References
     ----------

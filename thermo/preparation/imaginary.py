@@ -1,6 +1,6 @@
-"""Imaginary (negative-frequency) modes of a phonon DOS.
+r"""Imaginary (negative-frequency) modes of a phonon DOS.
 
-Codes that compute phonons report an imaginary frequency :math:`i|\\nu|` as
+Codes that compute phonons report an imaginary frequency :math:`i|\nu|` as
 a negative one.  Such modes have no harmonic thermodynamics: they are either
 numerical noise (tiny fractions near Γ) or a sign of dynamical instability.
 """

@@ -73,7 +73,7 @@ def _window(lo, hi, given):
 
 def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency="auto", name=None,
              sheet=None):
-    """Read a phonon DOS file and prepare it for thermodynamic integration.
+    r"""Read a phonon DOS file and prepare it for thermodynamic integration.
 
     Parameters
     ----------
@@ -113,10 +113,10 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
     Notes
     -----
     The DOS per unit ``u`` becomes a DOS per THz by
-    :math:`g_{\\mathrm{THz}} = g_u\\, d\\nu_u/d\\nu_{\\mathrm{THz}}`.  The
-    imaginary share is :math:`\\int_{\\nu<0} g / \\int g`.  The final scale is
-    :math:`3n / \\int g_{\\mathrm{treated}}` (``drop``) or
-    :math:`3n(1-f_{\\mathrm{imag}}) / \\int g_{\\mathrm{treated}}` (``drop-unscaled``),
+    :math:`g_{\mathrm{THz}} = g_u\, d\nu_u/d\nu_{\mathrm{THz}}`.  The
+    imaginary share is :math:`\int_{\nu<0} g / \int g`.  The final scale is
+    :math:`3n / \int g_{\mathrm{treated}}` (``drop``) or
+    :math:`3n(1-f_{\mathrm{imag}}) / \int g_{\mathrm{treated}}` (``drop-unscaled``),
     where "treated" is the real part after the low-frequency treatment.
     Every load runs the plausibility checks of
     :mod:`thermo.preparation.plausibility` (maximum frequency and entropy at
@@ -134,7 +134,7 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
 
 import numpy as np
     >>> nu = np.linspace(0.0, 5.0, 101)
-    >>> text = "# frequency (THz) dos\\n" + "\\n".join(f"{a} {9*a*a/125}" for a in nu)
+    >>> text = "# frequency (THz) dos\n" + "\n".join(f"{a} {9*a*a/125}" for a in nu)
     >>> dos = load_dos(text)
     >>> dos.atoms, round(dos.mode_count, 9)
     (1, 3.0)
@@ -224,7 +224,7 @@ def _start_note(first, fit, modes_below, total):
 
 def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="auto",
                    raw_integral=None, inferred=False, window_modes=WINDOW_MODES):
-    """Low-frequency treatment and normalisation of the real (ν >= 0) part.
+    r"""Low-frequency treatment and normalisation of the real (ν >= 0) part.
 
     Parameters
     ----------
@@ -257,8 +257,8 @@ def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="aut
 
     Notes
     -----
-    :math:`\\text{scale} = 3n(1 - f_{\\text{imag}}^{[\\text{keep-count}]}) /
-    (\\int g_{\\text{treated}} + \\int_0^{\\nu_c} A\\nu^2(1+b\\nu^2+c\\nu^4)d\\nu)`.
+    :math:`\text{scale} = 3n(1 - f_{\text{imag}}^{[\text{keep-count}]}) /
+    (\int g_{\text{treated}} + \int_0^{\nu_c} A\nu^2(1+b\nu^2+c\nu^4)d\nu)`.
 
     Examples
     --------

@@ -1,31 +1,31 @@
-"""Low-frequency (acoustic, ν²) treatment of a tabulated phonon DOS.
+r"""Low-frequency (acoustic, ν²) treatment of a tabulated phonon DOS.
 
 Near ν = 0 every crystal's DOS is Debye-like: the long-wave expansion of the
-acoustic dispersion gives the series :math:`g = A\\nu^2(1 + b\\nu^2 + c\\nu^4 + \\dots)`,
+acoustic dispersion gives the series :math:`g = A\nu^2(1 + b\nu^2 + c\nu^4 + \dots)`,
 and that region alone sets the low-temperature :math:`T^3` law.  A smeared or
-binned DOS carries spurious weight there (smearing by σ turns :math:`A\\nu^2`
-into :math:`A(\\nu^2+\\sigma^2)`; bins of width Δ into :math:`A(\\nu^2+\\Delta^2/12)`),
+binned DOS carries spurious weight there (smearing by σ turns :math:`A\nu^2`
+into :math:`A(\nu^2+\sigma^2)`; bins of width Δ into :math:`A(\nu^2+\Delta^2/12)`),
 which makes :math:`C_v` nearly linear in T.
 
 The treatment is a smooth function of the data, not of row counts:
 
-1. the fit window :math:`[\\nu_a, \\nu_b]` is set by the DOS itself — its top
-   :math:`\\nu_b` is the frequency below which :data:`WINDOW_MODES` modes lie
+1. the fit window :math:`[\nu_a, \nu_b]` is set by the DOS itself — its top
+   :math:`\nu_b` is the frequency below which :data:`WINDOW_MODES` modes lie
    (a mode count, the same for any sampling of one spectrum), its bottom
-   :math:`\\nu_a = \\max(\\nu_b/4,\\ 3\\sqrt{C/A},\\ \\nu_{first})` clears the
+   :math:`\nu_a = \max(\nu_b/4,\ 3\sqrt{C/A},\ \nu_{first})` clears the
    smearing width and the first tabulated row;
-2. :math:`g = A\\nu^2 + Ab\\nu^4 + Ac\\nu^6 + C` is fitted by least squares weighted with
+2. :math:`g = A\nu^2 + Ab\nu^4 + Ac\nu^6 + C` is fitted by least squares weighted with
    the trapezoid widths (an approximation of a frequency integral, hence
-   sampling independent) and relative to :math:`\\nu^2`;
-3. below :math:`\\nu_a` the DOS is the analytic :math:`A\\nu^2(1+b\\nu^2)`
-   :math:`(1+c\\nu^4)` (the offset :math:`C` is the artefact); on :math:`[\\nu_a, 2\\nu_a]` the
+   sampling independent) and relative to :math:`\nu^2`;
+3. below :math:`\nu_a` the DOS is the analytic :math:`A\nu^2(1+b\nu^2)`
+   :math:`(1+c\nu^4)` (the offset :math:`C` is the artefact); on :math:`[\nu_a, 2\nu_a]` the
    tabulated DOS is blended into the data with a smooth step, so no jump is
    left at the seam.
 
 The treatment is refused (off, with a caution) only when the DOS is not
-ν²-like at all: :math:`A \\le 0`, an offset outside
-:math:`-0.02 - 3\\sigma_C/(A\\nu_a^2) \\le C/(A\\nu_a^2) \\le 0.5` (σ_C the
-standard error of C), a curvature :math:`|b|\\nu_b^2 + |c|\\nu_b^4 > 1`
+ν²-like at all: :math:`A \le 0`, an offset outside
+:math:`-0.02 - 3\sigma_C/(A\nu_a^2) \le C/(A\nu_a^2) \le 0.5` (σ_C the
+standard error of C), a curvature :math:`|b|\nu_b^2 + |c|\nu_b^4 > 1`
 (the higher terms would dominate) or a misfit above :data:`NOISY_TOLERANCE`.  These
 are properties of the spectrum, converged integrals that do not move when the
 same DOS is resampled.
@@ -68,7 +68,7 @@ _OFF = ("no ν²-like (acoustic) region found at low frequency; "
 
 
 def reduced_dos(frequency_thz, dos):
-    """Reduced DOS :math:`g(\\nu)/\\nu^2`, flat for a Debye-like spectrum.
+    r"""Reduced DOS :math:`g(\nu)/\nu^2`, flat for a Debye-like spectrum.
 
     Parameters
     ----------
@@ -82,12 +82,12 @@ def reduced_dos(frequency_thz, dos):
     frequency : numpy.ndarray
         The frequencies > 0 [THz].
     reduced : numpy.ndarray
-        :math:`g/\\nu^2` at those frequencies [states / THz³].
+        :math:`g/\nu^2` at those frequencies [states / THz³].
 
     Notes
     -----
-    A Debye spectrum :math:`g = 9N\\nu^2/\\nu_D^3` gives the constant
-    :math:`9N/\\nu_D^3`.
+    A Debye spectrum :math:`g = 9N\nu^2/\nu_D^3` gives the constant
+    :math:`9N/\nu_D^3`.
 
     References
     ----------
@@ -185,7 +185,7 @@ def _auto_window(nu, g, widths, total_modes, window_modes):
 
 
 def fit_low_frequency(frequency_thz, dos, window=None, total_modes=None, window_modes=WINDOW_MODES):
-    """Fit :math:`g = A\\nu^2(1 + b\\nu^2 + c\\nu^4) + C` at low frequency.
+    r"""Fit :math:`g = A\nu^2(1 + b\nu^2 + c\nu^4) + C` at low frequency.
 
     Parameters
     ----------
@@ -206,7 +206,7 @@ def fit_low_frequency(frequency_thz, dos, window=None, total_modes=None, window_
     fit : LowFrequencyFit or None
         The fit (coefficient in the units of ``dos`` per THz²); below
         ``cutoff_thz`` (the window's bottom) the DOS becomes
-        :math:`A\\nu^2(1+b\\nu^2)`, blended into the data up to
+        :math:`A\nu^2(1+b\nu^2)`, blended into the data up to
         ``blend_top_thz``; None when the DOS is not ν²-like.
     note : str or None
         A one-line caution about the fit (noisy data, no ν² region).
@@ -219,10 +219,10 @@ def fit_low_frequency(frequency_thz, dos, window=None, total_modes=None, window_
 
     Notes
     -----
-    Weighted least squares of :math:`g` on :math:`\\{\\nu^2, \\nu^4, \\nu^6, 1\\}`
-    with weights :math:`\\Delta_i/\\nu_i^4` (trapezoid widths
-    :math:`\\Delta_i`), i.e. a discretised
-    :math:`\\int (g - M)^2/\\nu^4\\,d\\nu`; the ν⁶ term is dropped when the
+    Weighted least squares of :math:`g` on :math:`\{\nu^2, \nu^4, \nu^6, 1\}`
+    with weights :math:`\Delta_i/\nu_i^4` (trapezoid widths
+    :math:`\Delta_i`), i.e. a discretised
+    :math:`\int (g - M)^2/\nu^4\,d\nu`; the ν⁶ term is dropped when the
     window holds fewer than 8 rows, the ν⁴ term below 5 rows.  The window and the refusal criteria
     are those of the module docstring.
 
@@ -275,7 +275,7 @@ def _caution(fit, lo, hi):
 
 
 def blend_low_frequency(frequency_thz, arrays, fit):
-    """Tabulated part above the cut-off: the data's share :math:`1 - W` of the blend.
+    r"""Tabulated part above the cut-off: the data's share :math:`1 - W` of the blend.
 
     Parameters
     ----------
@@ -295,7 +295,7 @@ def blend_low_frequency(frequency_thz, arrays, fit):
 
     Notes
     -----
-    With :math:`M = A\\nu^2(1+b\\nu^2+c\\nu^4)`, :math:`s = (\\nu-\\nu_a)/(\\nu_m-\\nu_a)`
+    With :math:`M = A\nu^2(1+b\nu^2+c\nu^4)`, :math:`s = (\nu-\nu_a)/(\nu_m-\nu_a)`
     clipped to [0, 1] and the smooth step :math:`W = 1 - s^2(3-2s)`, the
     treated DOS is :math:`g' = WM + (1-W)g`.  The part :math:`WM` is analytic
     (:meth:`~thermo.spectrum.LowFrequencyFit.taper_nodes`); the tabulated
@@ -322,7 +322,7 @@ def blend_low_frequency(frequency_thz, arrays, fit):
 
 
 def window_shares(frequency_thz, partials, window_thz):
-    """Each partial column's share of the DOS inside the fit window.
+    r"""Each partial column's share of the DOS inside the fit window.
 
     Parameters
     ----------
@@ -340,7 +340,7 @@ def window_shares(frequency_thz, partials, window_thz):
 
     Notes
     -----
-    :math:`\\phi_X = \\int_W g_X\\,d\\nu / \\sum_Y \\int_W g_Y\\,d\\nu`: at low
+    :math:`\phi_X = \int_W g_X\,d\nu / \sum_Y \int_W g_Y\,d\nu`: at low
     frequency every species moves with the acoustic wave, so its share of the
     ν² modes is its share where the DOS is still ν²-like.
 

@@ -41,7 +41,7 @@ PARTIAL_SUM_TOLERANCE = 0.02
 
 
 def max_frequency_readings(max_value, units=FREQUENCY_UNITS):
-    """Highest frequency and its temperature hν/k_B if the file were in each unit.
+    r"""Highest frequency and its temperature hν/k_B if the file were in each unit.
 
     Parameters
     ----------
@@ -57,8 +57,8 @@ def max_frequency_readings(max_value, units=FREQUENCY_UNITS):
 
     Notes
     -----
-    :math:`\\nu_{\\max} = x / f_u` with :math:`f_u` the number of units in one
-    THz (:func:`thermo.units.thz_to_unit`) and :math:`\\theta = h\\nu_{\\max}/k_B`,
+    :math:`\nu_{\max} = x / f_u` with :math:`f_u` the number of units in one
+    THz (:func:`thermo.units.thz_to_unit`) and :math:`\theta = h\nu_{\max}/k_B`,
     the Debye temperature of a Debye spectrum with that cut-off.
 
     Examples
@@ -126,7 +126,7 @@ def unit_warnings(max_value, unit, entropy_298_per_atom=None):
 
 
 def partial_sum_warnings(frequency, total, partials, tolerance=PARTIAL_SUM_TOLERANCE):
-    """Warnings when the partial (projected) columns do not add up to the total DOS.
+    r"""Warnings when the partial (projected) columns do not add up to the total DOS.
 
     Parameters
     ----------
@@ -143,7 +143,7 @@ def partial_sum_warnings(frequency, total, partials, tolerance=PARTIAL_SUM_TOLER
     -------
     list of str
         One warning naming the columns when
-        :math:`\\int |\\sum_k g_k - g| \\,d\\nu > \\epsilon \\int g \\,d\\nu`,
+        :math:`\int |\sum_k g_k - g| \,d\nu > \epsilon \int g \,d\nu`,
         plus, in that case, a note on each column that equals (within 5 %
         of its end value) the running integral of another column: a
         cumulative count rather than a density.
@@ -151,7 +151,7 @@ def partial_sum_warnings(frequency, total, partials, tolerance=PARTIAL_SUM_TOLER
     Notes
     -----
     Projected densities of states partition the modes, so
-    :math:`\\sum_k g_k(\\nu) = g(\\nu)` at every frequency (common practice;
+    :math:`\sum_k g_k(\nu) = g(\nu)` at every frequency (common practice;
     a column of another kind, e.g. an integrated count, breaks it).
 
     Examples

@@ -61,14 +61,14 @@ class CleanSpectrum:
 
 
 def check_spectrum(raw: RawTable, negative_noise: float = 1e-3) -> CleanSpectrum:
-    """Check a raw DOS table and clip negative noise.
+    r"""Check a raw DOS table and clip negative noise.
 
     Parameters
     ----------
     raw : RawTable
         Output of :func:`thermo.io.readers.read_table`.
     negative_noise : float, optional
-        Negative DOS values with :math:`|g| \\le` ``negative_noise`` ×
+        Negative DOS values with :math:`|g| \le` ``negative_noise`` ×
         max(total DOS) are set to 0 with one warning; larger negative values
         are an error [1].
 
@@ -88,10 +88,10 @@ def check_spectrum(raw: RawTable, negative_noise: float = 1e-3) -> CleanSpectrum
 
     Notes
     -----
-    A DOS is a density of mode counts, :math:`g(\\nu) \\ge 0`; small negative
+    A DOS is a density of mode counts, :math:`g(\nu) \ge 0`; small negative
     values come from smearing or interpolation and are clipped when
-    :math:`g_i \\ge -\\epsilon \\max_j g_{\\mathrm{total}}(\\nu_j)` with
-    :math:`\\epsilon` = ``negative_noise``.  The same threshold, relative to
+    :math:`g_i \ge -\epsilon \max_j g_{\mathrm{total}}(\nu_j)` with
+    :math:`\epsilon` = ``negative_noise``.  The same threshold, relative to
     the total DOS, is used for partial columns.
 
     References
@@ -105,7 +105,7 @@ def check_spectrum(raw: RawTable, negative_noise: float = 1e-3) -> CleanSpectrum
     >>> from thermo.io.readers import read_table
     >>> rows = [f"{0.5 * k} {k * k * 0.01}" for k in range(12)]
     >>> rows[3] = "1.5 -0.0001"
-    >>> spec = check_spectrum(read_table("\\n".join(rows) + "\\n"))
+    >>> spec = check_spectrum(read_table("\n".join(rows) + "\n"))
     >>> float(spec.total[3]), spec.warnings
     (0.0, ('clipped 1 small negative DOS value to 0 (|value| <= 0.001 x max total DOS)',))
     """
@@ -169,7 +169,7 @@ def _clip_negative(dos, threshold, lines, source) -> int:
 
 
 def check_magnitudes(frequency_thz, dos_columns, source, lines=()):
-    """Refuse frequencies and DOS values outside the ranges a phonon spectrum can have.
+    r"""Refuse frequencies and DOS values outside the ranges a phonon spectrum can have.
 
     Parameters
     ----------
@@ -191,8 +191,8 @@ def check_magnitudes(frequency_thz, dos_columns, source, lines=()):
 
     Notes
     -----
-    With :math:`|\\nu| \\le 10^3` THz and finite :math:`g`, every power
-    :math:`\\nu^k` (k ≤ 4) and the Planck kernels stay finite in double
+    With :math:`|\nu| \le 10^3` THz and finite :math:`g`, every power
+    :math:`\nu^k` (k ≤ 4) and the Planck kernels stay finite in double
     precision; the integral range is checked by :func:`check_mode_count`.
 
     Examples

@@ -46,7 +46,7 @@ def check_eos(kind):
 
 
 def birch_murnaghan_energy(volume, e0, v0, b0, b0_prime):
-    """Third-order Birch–Murnaghan energy.
+    r"""Third-order Birch–Murnaghan energy.
 
     Parameters
     ----------
@@ -65,7 +65,7 @@ def birch_murnaghan_energy(volume, e0, v0, b0, b0_prime):
     -----
     With :math:`u = (V_0/V)^{2/3}`:
 
-    .. math:: E = E_0 + \\frac{9V_0B_0}{16}\\left[(u-1)^3B_0' + (u-1)^2(6-4u)\\right]
+    .. math:: E = E_0 + \frac{9V_0B_0}{16}\left[(u-1)^3B_0' + (u-1)^2(6-4u)\right]
 
     Examples
     --------
@@ -77,7 +77,7 @@ def birch_murnaghan_energy(volume, e0, v0, b0, b0_prime):
 
 
 def vinet_energy(volume, e0, v0, b0, b0_prime):
-    """Vinet (universal) energy.
+    r"""Vinet (universal) energy.
 
     Parameters
     ----------
@@ -91,10 +91,10 @@ def vinet_energy(volume, e0, v0, b0, b0_prime):
 
     Notes
     -----
-    With :math:`\\eta = (V/V_0)^{1/3}` and :math:`\\xi = \\tfrac32(B_0'-1)`:
+    With :math:`\eta = (V/V_0)^{1/3}` and :math:`\xi = \tfrac32(B_0'-1)`:
 
-    .. math:: E = E_0 + \\frac{4B_0V_0}{(B_0'-1)^2}\\left[1-(1+\\xi(\\eta-1))e^{\\xi(1-\\eta)}\\right],
-              \\qquad P = 3B_0\\frac{1-\\eta}{\\eta^2}e^{\\xi(1-\\eta)}
+    .. math:: E = E_0 + \frac{4B_0V_0}{(B_0'-1)^2}\left[1-(1+\xi(\eta-1))e^{\xi(1-\eta)}\right],
+              \qquad P = 3B_0\frac{1-\eta}{\eta^2}e^{\xi(1-\eta)}
 
     Examples
     --------
@@ -207,12 +207,12 @@ class EosFit:
         return -self.polynomial.derivative(volume)
 
     def bulk_modulus(self, volume):
-        """B = -V dP/dV = V d²F/dV² [eV/Å³].
+        r"""B = -V dP/dV = V d²F/dV² [eV/Å³].
 
         Notes
         -----
         For the cubic in :math:`x = (V_{ref}/V)^{2/3}`:
-        :math:`B = \\frac{2x}{9V}\\left(5F_x + 2xF_{xx}\\right)`.
+        :math:`B = \frac{2x}{9V}\left(5F_x + 2xF_{xx}\right)`.
         """
         if self.kind == "vinet":
             _, v0, b0, bp = self._vinet(volume)

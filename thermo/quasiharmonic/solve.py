@@ -59,7 +59,7 @@ class FreeEnergySurface:
 
 
 def free_energy_surface(volume_set, temperatures, eos="birch-murnaghan", method="auto"):
-    """F(V,T) on the sampled volumes and its equation-of-state fit.
+    r"""F(V,T) on the sampled volumes and its equation-of-state fit.
 
     Parameters
     ----------
@@ -78,7 +78,7 @@ def free_energy_surface(volume_set, temperatures, eos="birch-murnaghan", method=
 
     Notes
     -----
-    .. math:: F(V,T) = E(V) + E_0(V) + k_BT\\int g_V(\\nu)\\ln\\left(1-e^{-h\\nu/k_BT}\\right)d\\nu
+    .. math:: F(V,T) = E(V) + E_0(V) + k_BT\int g_V(\nu)\ln\left(1-e^{-h\nu/k_BT}\right)d\nu
 
     Examples
     --------
@@ -152,7 +152,7 @@ def equilibrium_volume(fit, pressure_ev_a3, v_low, v_high):
 
 def quasiharmonic_table(volume_set, temperatures, pressure_gpa=0.0, eos="birch-murnaghan", per="formula",
                         formula=None, imaginary_tolerance=UNSTABLE_SHARE, method="auto"):
-    """Quasi-harmonic V, α, B_T, C_p, C_v, S, H, G and γ versus temperature.
+    r"""Quasi-harmonic V, α, B_T, C_p, C_v, S, H, G and γ versus temperature.
 
     Parameters
     ----------
@@ -193,15 +193,15 @@ def quasiharmonic_table(volume_set, temperatures, pressure_gpa=0.0, eos="birch-m
     Notes
     -----
     At each T the fitted :math:`F(V)` gives :math:`V(T)` from
-    :math:`-\\partial F/\\partial V = p` and :math:`B_T = V\\,\\partial^2F/\\partial V^2`.
+    :math:`-\partial F/\partial V = p` and :math:`B_T = V\,\partial^2F/\partial V^2`.
     S and C_v at the sampled volumes are carried to V(T) in the same
     strain basis as the Birch–Murnaghan fit, and
 
     .. math::
-        \\alpha = \\frac{1}{B_T}\\left(\\frac{\\partial S}{\\partial V}\\right)_T,\\quad
-        C_p = C_v + \\alpha^2 B_T V T,\\quad
-        \\gamma = \\frac{\\alpha B_T V}{C_v},\\quad
-        G = F + pV,\\ H = G + TS.
+        \alpha = \frac{1}{B_T}\left(\frac{\partial S}{\partial V}\right)_T,\quad
+        C_p = C_v + \alpha^2 B_T V T,\quad
+        \gamma = \frac{\alpha B_T V}{C_v},\quad
+        G = F + pV,\ H = G + TS.
 
     The first follows from :math:`dV/dT = -F_{VT}/F_{VV}` along the minimum
     path; with the Birch–Murnaghan fit it is the exact derivative of the

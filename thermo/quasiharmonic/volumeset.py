@@ -110,7 +110,7 @@ def _split(row, delimiter):
 
 
 def parse_manifest(text, name="<manifest>"):
-    """Rows of a manifest as (line, volume [Å³], energy [eV], dos_file).
+    r"""Rows of a manifest as (line, volume [Å³], energy [eV], dos_file).
 
     Raises
     ------
@@ -120,7 +120,7 @@ def parse_manifest(text, name="<manifest>"):
 
     Examples
     --------
-    >>> parse_manifest("volume_A3,energy_Ry,dos_file\\n20.0,-1.0,v20.dat\\n")[0][1:3]
+    >>> parse_manifest("volume_A3,energy_Ry,dos_file\n20.0,-1.0,v20.dat\n")[0][1:3]
     (20.0, -13.60569312299)
     """
     lines = [(i + 1, raw) for i, raw in enumerate(str(text).splitlines())
@@ -156,7 +156,7 @@ def parse_manifest(text, name="<manifest>"):
 
 def read_manifest(source, files=None, freq_unit=None, atoms=None, negative="drop",
                   low_frequency="auto", name=None, resolve=None):
-    """Read a manifest and every DOS it lists.
+    r"""Read a manifest and every DOS it lists.
 
     Parameters
     ----------
@@ -187,9 +187,9 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative="drop
     Examples
     --------
     >>> nu = np.linspace(0.0, 6.0, 301)
-    >>> dos = "frequency_THz total\\n" + "\\n".join(f"{a} {9 * a * a / 216}" for a in nu)
-    >>> rows = "\\n".join(f"{19 + k},{0.01 * (k - 2) ** 2},v{k}.dat" for k in range(5))
-    >>> vs = read_manifest("volume_A3,energy_eV,dos_file\\n" + rows + "\\n",
+    >>> dos = "frequency_THz total\n" + "\n".join(f"{a} {9 * a * a / 216}" for a in nu)
+    >>> rows = "\n".join(f"{19 + k},{0.01 * (k - 2) ** 2},v{k}.dat" for k in range(5))
+    >>> vs = read_manifest("volume_A3,energy_eV,dos_file\n" + rows + "\n",
     ...                    files={f"v{k}.dat": dos.encode() for k in range(5)})
     >>> vs.volumes_a3.tolist(), vs.atoms
     ([19.0, 20.0, 21.0, 22.0, 23.0], 1)

@@ -1,12 +1,12 @@
-"""Mean-square displacement of the Debye model and the Debye–Waller temperature θ_M.
+r"""Mean-square displacement of the Debye model and the Debye–Waller temperature θ_M.
 
 Conventions used throughout :mod:`thermo.vibration`: ⟨u²⟩ is the *total*
 mean-square displacement of an atom (the sum over the three Cartesian
 directions); the isotropic displacement parameter is
-:math:`U_{iso} = \\langle u^2\\rangle/3` (per direction) and the Debye–Waller
-factor :math:`B = 8\\pi^2 U_{iso}`.
+:math:`U_{iso} = \langle u^2\rangle/3` (per direction) and the Debye–Waller
+factor :math:`B = 8\pi^2 U_{iso}`.
 
-The low-frequency part :math:`A\\nu^2(1+b\\nu^2+c\\nu^4)` of a DOS and the Debye
+The low-frequency part :math:`A\nu^2(1+b\nu^2+c\nu^4)` of a DOS and the Debye
 model share one closed form, :func:`nu2_displacement_integral`; the fitted
 form's taper is added by :func:`analytic_displacement_integral`.
 
@@ -35,7 +35,7 @@ _SERIES = _B / (special.factorial(np.arange(31)) * (np.arange(31) + 1.0))
 
 
 def bose_first_moment(upper):
-    """:math:`I(X) = \\int_0^X y/(e^y-1)\\,dy` [1], to rounding.
+    r""":math:`I(X) = \int_0^X y/(e^y-1)\,dy` [1], to rounding.
 
     Parameters
     ----------
@@ -45,14 +45,14 @@ def bose_first_moment(upper):
     Returns
     -------
     numpy.ndarray
-        :math:`I(X)` [1]; :math:`\\pi^2/6` as :math:`X\\to\\infty`.
+        :math:`I(X)` [1]; :math:`\pi^2/6` as :math:`X\to\infty`.
 
     Notes
     -----
-    .. math:: I(X) = \\frac{\\pi^2}{6} + X\\ln(1-e^{-X}) - \\mathrm{Li}_2(e^{-X})
+    .. math:: I(X) = \frac{\pi^2}{6} + X\ln(1-e^{-X}) - \mathrm{Li}_2(e^{-X})
 
-    and, for :math:`X < 0.5`, :math:`I = \\sum_n B_n X^{n+1}/(n!\\,(n+1))`.
-    The Debye function of Willis and Pryor is :math:`\\varphi(X) = I(X)/X`.
+    and, for :math:`X < 0.5`, :math:`I = \sum_n B_n X^{n+1}/(n!\,(n+1))`.
+    The Debye function of Willis and Pryor is :math:`\varphi(X) = I(X)/X`.
 
     References
     ----------
@@ -77,14 +77,14 @@ def bose_first_moment(upper):
 
 
 def nu2_displacement_integral(coefficient, cutoff_thz, temperatures, curvature=0.0, quartic=0.0):
-    """:math:`\\int_0^{\\nu_c} A\\nu^2(1+b\\nu^2+c\\nu^4)\\,\\coth(h\\nu/2k_BT)/\\nu\\,d\\nu` in closed form.
+    r""":math:`\int_0^{\nu_c} A\nu^2(1+b\nu^2+c\nu^4)\,\coth(h\nu/2k_BT)/\nu\,d\nu` in closed form.
 
     Parameters
     ----------
     coefficient : float
         :math:`A` [modes / THz³].
     cutoff_thz : float
-        :math:`\\nu_c` [THz].
+        :math:`\nu_c` [THz].
     temperatures : array_like
         Temperatures [K], >= 0.
     curvature, quartic : float
@@ -97,17 +97,17 @@ def nu2_displacement_integral(coefficient, cutoff_thz, temperatures, curvature=0
 
     Notes
     -----
-    With :math:`\\coth(x/2) = 1 + 2/(e^x-1)`, :math:`\\tau = k_BT/h` and
-    :math:`X = \\nu_c/\\tau`, each power :math:`\\nu^{m}` of the integrand
+    With :math:`\coth(x/2) = 1 + 2/(e^x-1)`, :math:`\tau = k_BT/h` and
+    :math:`X = \nu_c/\tau`, each power :math:`\nu^{m}` of the integrand
     (m = 1, 3, 5) gives
 
-    .. math:: \\int_0^{\\nu_c}\\nu^m\\coth\\frac{h\\nu}{2k_BT}\\,d\\nu
-              = \\frac{\\nu_c^{m+1}}{m+1} + 2\\tau^{m+1} J_m(X),
-              \\qquad J_m(X) = \\int_0^X \\frac{y^m}{e^y-1}\\,dy,
+    .. math:: \int_0^{\nu_c}\nu^m\coth\frac{h\nu}{2k_BT}\,d\nu
+              = \frac{\nu_c^{m+1}}{m+1} + 2\tau^{m+1} J_m(X),
+              \qquad J_m(X) = \int_0^X \frac{y^m}{e^y-1}\,dy,
 
     with :math:`J_1 = I` from :func:`bose_first_moment` and :math:`J_3, J_5`
     from :func:`thermo.kernels.nu2.bose_integral` (Bose moments, to rounding).
-    For m = 1 this is Willis and Pryor's :math:`A[\\nu_c^2/2 + 2\\tau^2 I(X)]`.
+    For m = 1 this is Willis and Pryor's :math:`A[\nu_c^2/2 + 2\tau^2 I(X)]`.
 
     References
     ----------
@@ -133,12 +133,12 @@ def nu2_displacement_integral(coefficient, cutoff_thz, temperatures, curvature=0
 
 
 def analytic_displacement_integral(fit, temperatures):
-    """:math:`\\int W M \\coth(h\\nu/2k_BT)/\\nu\\,d\\nu` of the whole analytic low-frequency part.
+    r""":math:`\int W M \coth(h\nu/2k_BT)/\nu\,d\nu` of the whole analytic low-frequency part.
 
     Parameters
     ----------
     fit : LowFrequencyFit
-        The fitted form :math:`M = A\\nu^2(1+b\\nu^2+c\\nu^4)`, its cut-off
+        The fitted form :math:`M = A\nu^2(1+b\nu^2+c\nu^4)`, its cut-off
         and its taper :math:`W` (1 below the cut-off).
     temperatures : array_like
         Temperatures [K], >= 0.
@@ -151,9 +151,9 @@ def analytic_displacement_integral(fit, temperatures):
     Notes
     -----
     The same split as the thermodynamic sums
-    (:func:`thermo.kernels.nu2.analytic_part_sums`): :math:`[0, \\nu_c]` in
+    (:func:`thermo.kernels.nu2.analytic_part_sums`): :math:`[0, \nu_c]` in
     closed form (:func:`nu2_displacement_integral`), the tapered zone
-    :math:`[\\nu_c, \\nu_m]` on the 48 Gauss–Legendre nodes of
+    :math:`[\nu_c, \nu_m]` on the 48 Gauss–Legendre nodes of
     :meth:`~thermo.spectrum.LowFrequencyFit.taper_nodes` (smooth integrand).
 
     References
@@ -185,7 +185,7 @@ def _check_positive(value, what):
 
 
 def debye_mean_square_displacement(temperatures, theta_k, mass_amu):
-    """Total ⟨u²⟩ of an atom in a Debye crystal [Å²].
+    r"""Total ⟨u²⟩ of an atom in a Debye crystal [Å²].
 
     Parameters
     ----------
@@ -199,15 +199,15 @@ def debye_mean_square_displacement(temperatures, theta_k, mass_amu):
     Returns
     -------
     numpy.ndarray
-        :math:`\\langle u^2\\rangle` [Å²], the sum over three directions.
+        :math:`\langle u^2\rangle` [Å²], the sum over three directions.
 
     Notes
     -----
-    Three modes per atom with :math:`g(\\nu) = 9\\nu^2/\\nu_D^3`:
+    Three modes per atom with :math:`g(\nu) = 9\nu^2/\nu_D^3`:
 
-    .. math:: \\langle u^2\\rangle = \\frac{9\\hbar^2 T}{m k_B \\theta^2}
-              \\left[\\varphi(\\theta/T) + \\frac{\\theta}{4T}\\right],
-              \\qquad \\langle u^2\\rangle_{T=0} = \\frac{9\\hbar^2}{4 m k_B\\theta}
+    .. math:: \langle u^2\rangle = \frac{9\hbar^2 T}{m k_B \theta^2}
+              \left[\varphi(\theta/T) + \frac{\theta}{4T}\right],
+              \qquad \langle u^2\rangle_{T=0} = \frac{9\hbar^2}{4 m k_B\theta}
 
     (Willis and Pryor's per-direction :math:`U` is one third of this).
 
@@ -236,7 +236,7 @@ def _amplitude(integral_per_thz, mass_kg):
 
 
 def debye_waller_temperature(msd_a2, temperatures, mass_amu):
-    """θ_M: the Debye θ that gives the mean-square displacement ⟨u²⟩ at T [K].
+    r"""θ_M: the Debye θ that gives the mean-square displacement ⟨u²⟩ at T [K].
 
     Parameters
     ----------
@@ -250,13 +250,13 @@ def debye_waller_temperature(msd_a2, temperatures, mass_amu):
     Returns
     -------
     numpy.ndarray
-        :math:`\\theta_M` [K] solving
+        :math:`\theta_M` [K] solving
         ``debye_mean_square_displacement(T, θ_M, m) = ⟨u²⟩``.
 
     Notes
     -----
     The Debye ⟨u²⟩ falls strictly with θ, so the root is unique; it is found
-    by bisection in :math:`\\ln\\theta` over :math:`[10^{-3}, 10^{6}]` K to
+    by bisection in :math:`\ln\theta` over :math:`[10^{-3}, 10^{6}]` K to
     relative precision :math:`10^{-12}`.
 
     References

@@ -42,7 +42,7 @@ _OMEGA_PER_THZ = 2.0 * np.pi * 1e12
 
 
 def mean_square_displacement(dos, temperatures, formula=None, masses=None, species=None):
-    """Total ⟨u²⟩(T) of each species, and its classical high-T limit [Å²].
+    r"""Total ⟨u²⟩(T) of each species, and its classical high-T limit [Å²].
 
     Parameters
     ----------
@@ -64,19 +64,19 @@ def mean_square_displacement(dos, temperatures, formula=None, masses=None, speci
     dict of str to dict
         Per species: ``mass_amu``, ``atoms`` (per formula unit),
         ``msd`` (⟨u²⟩ on the temperatures) and ``classical``
-        (:math:`k_BT\\langle\\omega^{-2}\\rangle`-limit) [Å²], and
+        (:math:`k_BT\langle\omega^{-2}\rangle`-limit) [Å²], and
         ``modes_found`` (modes carried by the partial DOS).
 
     Notes
     -----
-    .. math:: \\langle u_s^2\\rangle = \\frac{\\hbar}{2 m_s n_s}\\int
-              \\frac{g_s(\\omega)}{\\omega}\\coth\\frac{\\hbar\\omega}{2k_BT}\\,d\\omega,
-              \\qquad
-              \\langle u_s^2\\rangle_{cl} = \\frac{k_BT}{m_s n_s}\\int
-              \\frac{g_s(\\omega)}{\\omega^2}\\,d\\omega
+    .. math:: \langle u_s^2\rangle = \frac{\hbar}{2 m_s n_s}\int
+              \frac{g_s(\omega)}{\omega}\coth\frac{\hbar\omega}{2k_BT}\,d\omega,
+              \qquad
+              \langle u_s^2\rangle_{cl} = \frac{k_BT}{m_s n_s}\int
+              \frac{g_s(\omega)}{\omega^2}\,d\omega
 
     The analytic part of the prepared DOS (the fitted
-    :math:`A\\nu^2(1+b\\nu^2+c\\nu^4)` below the cut-off in closed form,
+    :math:`A\nu^2(1+b\nu^2+c\nu^4)` below the cut-off in closed form,
     its taper above on Gauss–Legendre nodes,
     :func:`.debye_waller.analytic_displacement_integral`) is added to the
     sum over the tabulated, blended part, as in the thermodynamic sums; it
@@ -113,7 +113,7 @@ def mean_square_displacement(dos, temperatures, formula=None, masses=None, speci
 
 
 def displacement_table(dos, temperatures, formula=None, masses=None, distance_a=None, species=None):
-    """⟨u²⟩, U_iso, B, classical ⟨u²⟩, θ_M (and Lindemann ratio) per species and T.
+    r"""⟨u²⟩, U_iso, B, classical ⟨u²⟩, θ_M (and Lindemann ratio) per species and T.
 
     Parameters
     ----------
@@ -121,7 +121,7 @@ def displacement_table(dos, temperatures, formula=None, masses=None, distance_a=
         As :func:`mean_square_displacement`.
     distance_a : float, optional
         Nearest-neighbour distance d [Å]; adds the Lindemann ratio
-        :math:`\\sqrt{\\langle u^2\\rangle}/d`.
+        :math:`\sqrt{\langle u^2\rangle}/d`.
 
     Returns
     -------
@@ -134,8 +134,8 @@ def displacement_table(dos, temperatures, formula=None, masses=None, distance_a=
 
     Notes
     -----
-    :math:`U_{iso} = \\langle u^2\\rangle/3`, :math:`B = 8\\pi^2 U_{iso}`;
-    :math:`\\theta_M` from :func:`.debye_waller.debye_waller_temperature`.
+    :math:`U_{iso} = \langle u^2\rangle/3`, :math:`B = 8\pi^2 U_{iso}`;
+    :math:`\theta_M` from :func:`.debye_waller.debye_waller_temperature`.
 
     References
     ----------
@@ -208,7 +208,7 @@ def _alternatives(dos, moves):
 
 
 def window_sensitivity(dos, temperatures, formula=None, masses=None, moves=WINDOW_MOVES, species=None):
-    """Largest relative change of ⟨u²⟩ under the other plausible low-frequency treatments.
+    r"""Largest relative change of ⟨u²⟩ under the other plausible low-frequency treatments.
 
     Parameters
     ----------
@@ -232,7 +232,7 @@ def window_sensitivity(dos, temperatures, formula=None, masses=None, moves=WINDO
 
     Notes
     -----
-    The :math:`1/\\omega` weighting makes ⟨u²⟩ far more sensitive to the
+    The :math:`1/\omega` weighting makes ⟨u²⟩ far more sensitive to the
     lowest frequencies than :math:`C_v` or :math:`S`; this measures it.
 
     Examples

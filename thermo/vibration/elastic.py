@@ -33,7 +33,7 @@ def _positive(value, what):
 
 
 def cubic_vrh_moduli(c11, c12, c44):
-    """Bulk and shear moduli of a cubic crystal, Voigt, Reuss and Hill [GPa].
+    r"""Bulk and shear moduli of a cubic crystal, Voigt, Reuss and Hill [GPa].
 
     Parameters
     ----------
@@ -54,10 +54,10 @@ def cubic_vrh_moduli(c11, c12, c44):
 
     Notes
     -----
-    .. math:: K = \\frac{C_{11} + 2C_{12}}{3},\\quad
-              G_V = \\frac{C_{11} - C_{12} + 3C_{44}}{5},\\quad
-              G_R = \\frac{5(C_{11} - C_{12})C_{44}}{4C_{44} + 3(C_{11} - C_{12})},\\quad
-              G_H = \\frac{G_V + G_R}{2}
+    .. math:: K = \frac{C_{11} + 2C_{12}}{3},\quad
+              G_V = \frac{C_{11} - C_{12} + 3C_{44}}{5},\quad
+              G_R = \frac{5(C_{11} - C_{12})C_{44}}{4C_{44} + 3(C_{11} - C_{12})},\quad
+              G_H = \frac{G_V + G_R}{2}
 
     References
     ----------
@@ -79,7 +79,7 @@ def cubic_vrh_moduli(c11, c12, c44):
 
 
 def sound_velocities(bulk_gpa, shear_gpa, density_g_cm3):
-    """Longitudinal and transverse sound velocities of an isotropic solid [m/s].
+    r"""Longitudinal and transverse sound velocities of an isotropic solid [m/s].
 
     Parameters
     ----------
@@ -91,7 +91,7 @@ def sound_velocities(bulk_gpa, shear_gpa, density_g_cm3):
     Returns
     -------
     v_l, v_t : float
-        :math:`v_l = \\sqrt{(K + 4G/3)/\\rho}`, :math:`v_t = \\sqrt{G/\\rho}` [m/s].
+        :math:`v_l = \sqrt{(K + 4G/3)/\rho}`, :math:`v_t = \sqrt{G/\rho}` [m/s].
 
     References
     ----------
@@ -108,7 +108,7 @@ def sound_velocities(bulk_gpa, shear_gpa, density_g_cm3):
 
 
 def mean_sound_velocity(v_l, v_t):
-    """Debye mean sound velocity :math:`v_m` [m/s].
+    r"""Debye mean sound velocity :math:`v_m` [m/s].
 
     Parameters
     ----------
@@ -118,7 +118,7 @@ def mean_sound_velocity(v_l, v_t):
     Returns
     -------
     float
-        :math:`v_m = [\\tfrac13(2/v_t^3 + 1/v_l^3)]^{-1/3}` [m/s].
+        :math:`v_m = [\tfrac13(2/v_t^3 + 1/v_l^3)]^{-1/3}` [m/s].
 
     References
     ----------
@@ -138,7 +138,7 @@ def mean_sound_velocity(v_l, v_t):
 
 def elastic_debye_temperature(density_g_cm3, molar_mass_g_mol, atoms, c11=None, c12=None, c44=None,
                               v_l=None, v_t=None):
-    """θ_D from cubic elastic constants (VRH) or from sound velocities [K].
+    r"""θ_D from cubic elastic constants (VRH) or from sound velocities [K].
 
     Parameters
     ----------
@@ -161,7 +161,7 @@ def elastic_debye_temperature(density_g_cm3, molar_mass_g_mol, atoms, c11=None, 
 
     Notes
     -----
-    .. math:: \\theta_D = \\frac{h}{k_B}\\left(\\frac{3 n N_A \\rho}{4\\pi M}\\right)^{1/3} v_m
+    .. math:: \theta_D = \frac{h}{k_B}\left(\frac{3 n N_A \rho}{4\pi M}\right)^{1/3} v_m
 
     References
     ----------

@@ -30,7 +30,7 @@ NEIGHBOUR_FACTORS = {
 
 
 def nearest_neighbour_distance(lattice, a_angstrom):
-    """Nearest-neighbour distance d of a lattice with parameter a [Å].
+    r"""Nearest-neighbour distance d of a lattice with parameter a [Å].
 
     Parameters
     ----------
@@ -47,8 +47,8 @@ def nearest_neighbour_distance(lattice, a_angstrom):
 
     Notes
     -----
-    fcc :math:`a/\\sqrt2`, bcc :math:`a\\sqrt3/2`, rock salt :math:`a/2`,
-    diamond :math:`a\\sqrt3/4` (elementary solid geometry).
+    fcc :math:`a/\sqrt2`, bcc :math:`a\sqrt3/2`, rock salt :math:`a/2`,
+    diamond :math:`a\sqrt3/4` (elementary solid geometry).
 
     References
     ----------
@@ -70,7 +70,7 @@ def nearest_neighbour_distance(lattice, a_angstrom):
 
 
 def lindemann_ratio(msd_a2, distance_a):
-    """:math:`\\sqrt{\\langle u^2\\rangle}/d` [1].
+    r""":math:`\sqrt{\langle u^2\rangle}/d` [1].
 
     Parameters
     ----------

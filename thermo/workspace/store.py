@@ -91,7 +91,7 @@ class Dataset:
 
 
 class Workspace:
-    """A workspace file (created and migrated on first use).
+    r"""A workspace file (created and migrated on first use).
 
     Parameters
     ----------
@@ -103,7 +103,7 @@ class Workspace:
     >>> import tempfile, os
     >>> ws = Workspace(os.path.join(tempfile.mkdtemp(), "w.sqlite"))
     >>> space = ws.local()
-    >>> d, new = space.add(b"# frequency (THz) dos\\n0 0\\n1 1\\n", "a.dat")
+    >>> d, new = space.add(b"# frequency (THz) dos\n0 0\n1 1\n", "a.dat")
     >>> new, [x.name for x in space.datasets()]
     (True, ['a.dat'])
     """
