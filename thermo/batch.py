@@ -24,7 +24,7 @@ from .errors import ModeheatError, OptionError
 #: Name of the index file written in the output directory.
 INDEX_NAME = "index.csv"
 #: Columns of the index file, in order.
-INDEX_COLUMNS = ("input", "status", "output", "atoms", "imaginary_fraction", "warnings", "error")
+INDEX_COLUMNS = ("input", "status", "output", "atoms", "negative_mode_fraction", "warnings", "error")
 #: File name patterns taken from a directory by default (known DOS file kinds).
 KNOWN_PATTERNS = ("*.dat", "*.txt", "*.csv", "*.tsv", "*.dos", "*.xlsx")
 #: Most files handed to one worker process at a time.
@@ -165,7 +165,7 @@ def output_names(inputs, fmt, outdir):
 
 def _blank_row(source):
     return {"input": source, "status": "failed", "output": "", "atoms": "",
-            "imaginary_fraction": "", "warnings": "", "error": ""}
+            "negative_mode_fraction": "", "warnings": "", "error": ""}
 
 
 def _one_line(text):
@@ -198,7 +198,7 @@ def process_file(source, target, options):
     try:
         dos = load_dos(Path(source), name=Path(source).name, freq_unit=options.freq_unit, atoms=options.atoms,
                        negative=options.negative, low_frequency=options.low_frequency)
-        row.update(atoms=dos.atoms, imaginary_fraction=dos.source.get("negative_mode_fraction", ""),
+        row.update(atoms=dos.atoms, negative_mode_fraction=dos.source.get("negative_mode_fraction", ""),
                    warnings=" | ".join(_one_line(w) for w in dos.warnings))
         table = tabulate(dos, options.temperatures, per=options.per, formula=options.formula)
         info = provenance(dos, options.temperatures, per=options.per, formula=options.formula)
@@ -247,7 +247,7 @@ def write_index(rows, path, force=False):
     >>> with tempfile.TemporaryDirectory() as tmp:
     ...     p = write_index([_blank_row("a.dat")], Path(tmp) / INDEX_NAME)
     ...     p.read_text().splitlines()[0]
-    'input,status,output,atoms,imaginary_fraction,warnings,error'
+    'input,status,output,atoms,negative_mode_fraction,warnings,error'
     """
     from .io.writers import neutralised_cell, write_file
 

@@ -62,7 +62,7 @@ def test_tables_and_index_with_a_bad_file_in_the_middle(inputs, tmp_path, worker
     for row in index:
         if row["status"] != "ok":
             continue
-        assert row["atoms"] == "1" and float(row["imaginary_fraction"]) == 0.0
+        assert row["atoms"] == "1" and float(row["negative_mode_fraction"]) == 0.0
         table, info = read_exported_csv(out / row["output"])
         expected = tabulate(load_dos(row["input"]), TEMPS)
         np.testing.assert_allclose(table.to_numpy(float), expected.to_numpy(float), rtol=1e-12, atol=0)

@@ -24,7 +24,7 @@ PROVENANCE = {
     "atoms": 2,
     "raw_integral": 5.999999999987,
     "scale_factor": np.float64(1.0000000000021),
-    "imaginary_fraction": 0.0,
+    "negative_mode_fraction": 0.0,
     "imaginary_policy": "drop",
     "low_frequency": {"mode": "auto", "cutoff_thz": 0.4},
     "error_estimate": None,
