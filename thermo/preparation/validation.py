@@ -132,12 +132,70 @@ def check_spectrum(raw: RawTable, negative_noise: float = 1e-3) -> CleanSpectrum
         plural = "s" if clipped > 1 else ""
         warnings = (f"clipped {clipped} small negative DOS value{plural} to 0 "
                     f"(|value| <= {negative_noise:g} x max total DOS)",)
+    warnings += hole_warnings(data[:, 0], dos[:, 0], lines)
     names = list(raw.names)
     partials = {names[k + 1]: dos[:, k].copy() for k in range(1, dos.shape[1])}
     return CleanSpectrum(frequency=data[:, 0].copy(), total=dos[:, 0].copy(),
                          partials=partials, warnings=warnings, source=raw.source,
                          sha256=raw.sha256, names=names, header_unit=raw.header_unit,
                          line_numbers=tuple(lines))
+
+
+#: A step this many times longer than both neighbouring steps, with DOS > 0 on both sides, is a hole.
+HOLE_STEP_RATIO = 10.0
+
+
+def hole_warnings(frequency, total, lines=None):
+    r"""Warnings for rows missing inside the spectrum (a hole in the tabulated grid).
+
+    Parameters
+    ----------
+    frequency : numpy.ndarray
+        Ascending frequencies [file unit].
+    total : numpy.ndarray
+        Total DOS [states / file unit].
+    lines : sequence of int, optional
+        File line of each row (for the message).
+
+    Returns
+    -------
+    tuple of str
+        One warning per hole: where it is, how much longer the step is than
+        its neighbours, and the share of the modes the straight line across
+        it carries (what was done: the DOS is integrated linearly across it).
+
+    Notes
+    -----
+    A step :math:`h_i = \nu_{i+1} - \nu_i` is a hole when
+    :math:`h_i > r\,\max(h_{i-1}, h_{i+1})` with :math:`r` =
+    :data:`HOLE_STEP_RATIO` and the DOS is positive at both ends.  A band gap
+    (DOS 0 at its edges) and a smoothly varying (e.g. logarithmic) grid are
+    not holes.  The test is local, so it does not change when the rest of the
+    grid is resampled.
+
+    Examples
+    --------
+    >>> nu = np.r_[np.arange(0.0, 2.0, 0.1), np.arange(3.0, 5.0, 0.1)]
+    >>> hole_warnings(nu, 1.0 + 0 * nu)[0].split(":")[0]
+    'rows missing between 1.9 and 3 (file unit)'
+    """
+    nu, g = np.asarray(frequency, float), np.asarray(total, float)
+    if nu.size < 4:
+        return ()
+    h = np.diff(nu)
+    neighbours = np.maximum(np.r_[h[1:2], h[:-1]], np.r_[h[1:], h[-2:-1]])
+    holes = np.flatnonzero((h > HOLE_STEP_RATIO * neighbours) & (g[:-1] > 0) & (g[1:] > 0))
+    if holes.size == 0:
+        return ()
+    area = float(np.sum(0.5 * (g[1:] + g[:-1]) * h))
+    out = []
+    for i in holes:
+        where = f" (lines {lines[i]}-{lines[i + 1]})" if lines is not None and len(lines) > i + 1 else ""
+        share = 100.0 * 0.5 * (g[i] + g[i + 1]) * h[i] / area if area > 0 else float("nan")
+        out.append(f"rows missing between {nu[i]:.6g} and {nu[i + 1]:.6g} (file unit){where}: the step is "
+                   f"{h[i] / neighbours[i]:.3g}x its neighbours; the DOS is taken as a straight line across it, "
+                   f"which holds {share:.3g} % of the modes")
+    return tuple(out)
 
 
 def _check_frequencies(freq, lines, source):
