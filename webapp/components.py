@@ -13,6 +13,11 @@ CAUTION = ("Results use the harmonic approximation at fixed volume (C_v): no the
            "and local practice.")
 
 
+#: Choices of an imaginary-mode policy control (the values of ``load_dos(negative=...)``).
+NEGATIVE_CHOICES = [{"label": "leave out, rescale rest to 3n", "value": "drop"},
+                    {"label": "leave out, do not rescale", "value": "drop-unscaled"},
+                    {"label": "refuse the file", "value": "refuse"}]
+
 def graph(graph_id, label):
     """A graph with a loading indicator and an accessible label."""
     return html.Figure(

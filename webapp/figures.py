@@ -17,7 +17,7 @@ FONT = "system-ui, -apple-system, 'Segoe UI', Roboto, 'Helvetica Neue', Arial, s
 def _axis(title):
     return {"title": {"text": title, "font": {"size": 13}}, "showgrid": True, "gridcolor": GRID,
             "zeroline": False, "ticks": "outside", "showline": True, "mirror": True, "linecolor": "#9aa7b0",
-            "automargin": True}
+            "automargin": True, "exponentformat": "e"}   # scientific notation, never SI prefixes (µ, m)
 
 
 def figure(x_title, y_title, title=None, height=360):

@@ -156,7 +156,7 @@ def layout(**_query):
         c.controls(*c.temperature_fields("qh", 0, 1000, 10),
                    c.number("qh-pressure", 0, "pressure p [GPa]"),
                    c.radio("qh-eos", EOS_CHOICES, "birch-murnaghan", "Equation of state"),
-                   c.radio("qh-negative", [{"label": v, "value": v} for v in ("drop", "keep-count", "refuse")],
+                   c.radio("qh-negative", c.NEGATIVE_CHOICES,
                            "drop", "Imaginary modes"),
                    c.number("qh-tolerance", 1, "imaginary tolerance [%]", min_value=0, max_value=100,
                             hint="volumes above it are listed"),

@@ -18,9 +18,7 @@ from ..reporting import attempt, reported
 
 PATH, NAME, ORDER = "/spectrum", "Spectrum", 1
 
-NEGATIVE_CHOICES = [{"label": "leave out, rescale rest to 3n", "value": "drop"},
-                    {"label": "leave out, do not rescale", "value": "drop-unscaled"},
-                    {"label": "refuse the file", "value": "refuse"}]
+NEGATIVE_CHOICES = c.NEGATIVE_CHOICES
 LOW_CHOICES = [{"label": "automatic", "value": "auto"}, {"label": "window", "value": "manual"},
                {"label": "off", "value": "off"}]
 _CONTROL_IDS = ("sp-unit", "sp-atoms", "sp-formula", "sp-negative", "sp-lowmode", "sp-low-lo", "sp-low-hi",
