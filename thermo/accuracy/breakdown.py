@@ -43,12 +43,20 @@ FLAG_SPREAD = 0.01
 _ENERGY = (False, False, True, True)
 
 
-def _rebuild(dos, every=1, window="same", window_modes=WINDOW_MODES):
-    """The DOS prepared again from its input rows (every ``every``-th), or None."""
+def _rebuild(dos, every=1, window="same", window_modes=WINDOW_MODES, offset=0):
+    """The DOS prepared again from its input rows (every ``every``-th from ``offset``), or None.
+
+    The first and last rows are always kept, so both coarse grids span the
+    same frequencies.
+    """
     if dos.input_frequency_thz is None or dos.input_dos is None:
-        return _halved_table(dos) if every == 2 else None
+        return _halved_table(dos) if every == 2 and offset == 0 else None
     nu_all, g_all = np.asarray(dos.input_frequency_thz), np.asarray(dos.input_dos)
-    keep = np.arange(0, nu_all.size, every)
+    keep = np.arange(offset, nu_all.size, every)
+    if keep.size == 0:
+        return None
+    if keep[0] != 0:
+        keep = np.insert(keep, 0, 0)
     if keep[-1] != nu_all.size - 1:
         keep = np.append(keep, nu_all.size - 1)
     _neg, nu, cols = split_at_zero(nu_all[keep], [g_all[keep]])
@@ -117,7 +125,8 @@ def error_breakdown(dos, temperatures):
 
     Notes
     -----
-    :math:`\delta_{num} = |Q_h - Q_{h/2}|` (re-prepared on the halved grid);
+    :math:`\delta_{num} = \max_{k=0,1} |Q_h - Q_{2h}^{(k)}|` over the two interleaved
+    half grids (rows 0, 2, 4, … and 1, 3, 5, …, each re-prepared with its own fit);
     :math:`\delta_{lf} = \max_w |Q_w - Q| + |\partial Q/\partial A|\,\sigma_A`
     over the alternative treatments w; relative: :math:`\delta/|Q|` (0 where
     Q = 0, at T = 0).
@@ -137,8 +146,11 @@ def error_breakdown(dos, temperatures):
     """
     t = np.atleast_1d(np.asarray(temperatures, dtype=float)).ravel()
     base = _values(dos, t)
-    halved = _rebuild(dos, every=2)
-    numerical = np.abs(base - _values(halved, t)) if halved is not None else np.zeros_like(base)
+    numerical = np.zeros_like(base)
+    for offset in (0, 1):      # both interleaved half grids: one difference alone can cancel by chance
+        halved = _rebuild(dos, every=2, offset=offset)
+        if halved is not None:
+            numerical = np.maximum(numerical, np.abs(base - _values(halved, t)))
     alternatives = []
     fit = dos.low_frequency
     if fit is not None and fit.automatic:

@@ -182,12 +182,15 @@ def hole_warnings(frequency, total, lines=None):
     nu, g = np.asarray(frequency, float), np.asarray(total, float)
     if nu.size < 4:
         return ()
-    h = np.diff(nu)
-    neighbours = np.maximum(np.r_[h[1:2], h[:-1]], np.r_[h[1:], h[-2:-1]])
-    holes = np.flatnonzero((h > HOLE_STEP_RATIO * neighbours) & (g[:-1] > 0) & (g[1:] > 0))
-    if holes.size == 0:
-        return ()
-    area = float(np.sum(0.5 * (g[1:] + g[:-1]) * h))
+    with np.errstate(over="ignore", invalid="ignore"):   # out-of-range magnitudes are refused later
+        h = np.diff(nu)
+        neighbours = np.maximum(np.r_[h[1:2], h[:-1]], np.r_[h[1:], h[-2:-1]])
+        holes = np.flatnonzero((h > HOLE_STEP_RATIO * neighbours) & (g[:-1] > 0) & (g[1:] > 0))
+        if holes.size == 0:
+            return ()
+        area = float(np.sum(0.5 * (g[1:] + g[:-1]) * h))
+        if not (np.isfinite(area) and np.isfinite(h).all()):
+            return ()
     out = []
     for i in holes:
         where = f" (lines {lines[i]}-{lines[i + 1]})" if lines is not None and len(lines) > i + 1 else ""
