@@ -24,7 +24,7 @@ run: $(VENV)/.installed
 test: $(VENV)/.test-installed
 	$(PY) -m pytest -q --headless
 
-bench: $(VENV)/.test-installed        ## the seven performance figures, readable (about 2 minutes)
+bench: $(VENV)/.test-installed        ## every performance figure (p1-p13), readable (several minutes)
 	$(PY) -m bench
 
 bench-json: $(VENV)/.test-installed   ## the same as one JSON object
