@@ -87,4 +87,5 @@ def test_sorted_tables_with_negative_values(steps, noise):
         return
     assert np.all(spec.total >= 0)
     clipped = int(np.sum(g < 0))
-    assert (clipped == 0) == (spec.warnings == ())
+    clip_notes = [w for w in spec.warnings if w.startswith("clipped")]   # other notes (holes) may appear too
+    assert (clipped == 0) == (clip_notes == [])
