@@ -102,3 +102,17 @@ def test_index_cells_are_inert(tmp_path):
         cells = [c for row in csv.reader(handle) for c in row]
     assert not [c for c in cells if c.startswith(("=", "+", "-", "@", "\t", "\r"))]
     assert any(c.startswith("'=") for c in cells) and any(c.startswith("'@") for c in cells)
+
+
+def test_text_outputs_never_write_through_a_symlink(tmp_path):
+    # polynomial and calorimetry write their text through the same guarded writer as tables
+    outside = tmp_path / "precious.txt"
+    outside.write_text("keep me")
+    link = tmp_path / "fit.json"
+    link.symlink_to(outside)
+    sample = Path(__file__).resolve().parents[2] / "sample_dos"
+    assert main(["polynomial", str(sample / "springium_fcc.dat"), "--form", "shomate",
+                 "--output", str(link), "--force"]) == 2
+    assert main(["calorimetry", str(sample / "measured" / "springium_cp.csv"),
+                 "--output", str(link), "--force"]) == 2
+    assert outside.read_text() == "keep me"

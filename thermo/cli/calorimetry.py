@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import json
 import sys
-from pathlib import Path
 
 from ..unit_names import FREQUENCY_UNITS
+from .options import check_output_target, write_text_output
 
 
 def register(sub):
@@ -72,8 +72,7 @@ def run(args) -> int:
     from ..io.writers import export_table, write_table
     from .models import parse_fit_range
 
-    if args.output and not args.force and Path(args.output).exists():
-        raise OptionError(f"refusing to overwrite existing file {args.output}; use --force to replace it")
+    check_output_target(args)
     if args.format == "xlsx" and not args.output:
         raise OptionError("xlsx output needs --output PATH")
     measured = read_heat_capacity(args.measured, cp_unit=args.cp_unit, formula=args.formula)
@@ -92,8 +91,7 @@ def run(args) -> int:
         report["residuals"] = {k: [_number(v) for v in fit.residuals[k]] for k in fit.residuals.columns}
         text = json.dumps(report, indent=2, allow_nan=False) + "\n"
         if args.output:
-            Path(args.output).write_text(text, encoding="utf-8")
-            print(f"wrote {args.output}", file=sys.stderr)
+            write_text_output(args, text)
         else:
             sys.stdout.write(text)
         return 0

@@ -105,14 +105,11 @@ def output_plan(args):
     The format comes from ``--format``, else from the ``--output`` suffix, else
     csv; an existing output file is refused unless ``--force``.
     """
-    from pathlib import Path
-
     from ..errors import OptionError
     from ..io.writers import format_from_suffix
     digits = check_digits(args.digits)
     fmt = format_from_suffix(args.output, args.format) if args.output else (args.format or "csv")
-    if args.output and not args.force and Path(args.output).exists():
-        raise OptionError(f"refusing to overwrite existing file {args.output}; use --force to replace it")
+    check_output_target(args)
     if fmt == "xlsx" and not args.output:
         raise OptionError("xlsx output needs --output PATH")
     return fmt, digits
@@ -130,3 +127,19 @@ def emit_table(table, info, args, plan):
     else:
         sys.stdout.write(export_table(table, info, fmt, digits=digits).decode("utf-8"))
     return 0
+
+
+def check_output_target(args):
+    """Refuse an existing ``--output`` file unless ``--force`` (before any work is done)."""
+    from pathlib import Path
+
+    from ..errors import OptionError
+    if args.output and not args.force and Path(args.output).exists():
+        raise OptionError(f"refusing to overwrite existing file {args.output}; use --force to replace it")
+
+
+def write_text_output(args, text):
+    """Write ``text`` to ``--output`` (never through a symbolic link) and say so on stderr."""
+    from ..io.inert import write_file
+    write_file(args.output, text.encode("utf-8"), overwrite=args.force)
+    print(f"wrote {args.output}", file=sys.stderr)

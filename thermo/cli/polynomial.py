@@ -5,7 +5,7 @@ from __future__ import annotations
 import sys
 from pathlib import Path
 
-from .options import add_input_options
+from .options import add_input_options, check_output_target, write_text_output
 
 
 def register(sub):
@@ -59,8 +59,7 @@ def run(args) -> int:
         raise OptionError("Cantera's YAML schema has no sgte model; use --format json or csv for sgte")
     if args.format == "yaml" and not args.formula:
         raise OptionError("yaml output needs --formula (the species composition, e.g. MgO)")
-    if args.output and not args.force and Path(args.output).exists():
-        raise OptionError(f"refusing to overwrite existing file {args.output}; use --force to replace it")
+    check_output_target(args)
     source = load_source(args, t_range)
     name = species_name(args.formula, args.phase) if args.formula else None
     fit = fit_polynomial(source, args.form, t_range, t_mid=args.mid, formation_enthalpy=args.formation_enthalpy,
@@ -69,8 +68,7 @@ def run(args) -> int:
     for note in fit.warnings:
         print(f"warning: {note}", file=sys.stderr)
     if args.output:
-        Path(args.output).write_text(text, encoding="utf-8")
-        print(f"wrote {args.output}", file=sys.stderr)
+        write_text_output(args, text)
     else:
         sys.stdout.write(text)
     return 0
