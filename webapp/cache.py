@@ -104,7 +104,8 @@ def held_total() -> int:
     return sum(c.held for c in CACHES)
 
 
-def _load_key(dataset):
+def load_key(dataset):
+    """The key of a dataset's loaded DOS: content hash, name and load options."""
     opts = options_of(dataset)
     return (dataset["sha256"], dataset["name"], opts["freq_unit"], opts["atoms"],
             opts["negative"], str(opts["low_frequency"]), opts.get("sheet") or None)
@@ -115,7 +116,7 @@ def load(dataset):
 
     Raises the :mod:`thermo` errors of :func:`thermo.load_dos`.
     """
-    key = _load_key(dataset)
+    key = load_key(dataset)
 
     def compute():
         return load_dos(content_bytes(dataset), freq_unit=key[2], atoms=key[3],
@@ -142,7 +143,7 @@ def table(dataset, temperatures, per="formula"):
     """:func:`thermo.tabulate` of a dataset, cached; ``formula`` from its options."""
     t = np.asarray(temperatures, dtype=float)
     formula = formula_for(dataset, per)
-    key = (_load_key(dataset), hashlib.sha1(t.tobytes()).hexdigest(), per, formula)
+    key = (load_key(dataset), hashlib.sha1(t.tobytes()).hexdigest(), per, formula)
     return _TABLE_CACHE.get(key, lambda: tabulate(load(dataset), t, per=per, formula=formula))
 
 
@@ -152,7 +153,7 @@ def derived(kind, dataset, compute, *params):
     ``params`` must be hashable and, with the dataset's content hash and
     options, fully determine the result (pure functions of :mod:`thermo` only).
     """
-    key = (kind, _load_key(dataset), params)
+    key = (kind, load_key(dataset), params)
     return _DERIVED_CACHE.get(key, lambda: compute(load(dataset)))
 
 

@@ -96,6 +96,7 @@ def no_console_errors(duo):
 
 
 def test_every_page_renders_plots_with_demo(duo):
+    registered = set(duo.driver.execute_script("return Object.keys(Plotly.PlotSchema.get().traces);"))
     for module in PAGES:
         duo.driver.find_element(By.CSS_SELECTOR, f"a[href='{module.PATH}'].mh-nav-link").click()
         until(lambda: heading(duo.driver) == module.NAME, 10)
@@ -105,7 +106,14 @@ def test_every_page_renders_plots_with_demo(duo):
         for graph_id in ids:   # titled axes everywhere
             assert js_graph(duo.driver, graph_id, "gd.layout.xaxis.title.text") or \
                 js_graph(duo.driver, graph_id, "gd.layout.xaxis.visible === false"), graph_id
+            # every trace type the page sends is one the served plot bundle knows
+            types = js_graph(duo.driver, graph_id, "gd.data.map(t => t.type || 'scatter')")
+            assert set(types) <= registered, (graph_id, set(types) - registered)
         assert "harmonic approximation" in duo.find_element("#mh-caution").text
+    # the cartesian bundle drew every page: plotly's full 4.8 MB bundle was never fetched
+    fetched = duo.driver.execute_script("return performance.getEntriesByType('resource').map(e => e.name);")
+    assert any("vendor/plotly-cartesian.min.js" in name for name in fetched)
+    assert not any("package_data/plotly.min.js" in name for name in fetched)
     no_console_errors(duo)
 
 

@@ -17,7 +17,7 @@ from scipy import constants as sc
 
 from tests.spectra import band_plus_peaks, debye_spectrum, peak_dos, theta_of, write_text
 from thermo import load_dos
-from thermo.models import (THETA_KEYS, debye_moment_temperature, einstein_entropy_temperature,
+from thermo.models import (THETA_KEYS, debye_moment_temperature, debye_y_from_fraction, einstein_entropy_temperature,
                            equivalent_debye_temperature, fit_einstein_theta, frequency_moment,
                            invert_debye_heat_capacity, theta_definitions)
 from thermo.models.debye import debye_heat_capacity
@@ -116,6 +116,18 @@ def test_inversion_against_mpmath_and_undefined_points():
     # deep T^3 region (y > 60) via the closed-form inversion, Debye 1912
     t3 = np.array([0.5])
     assert invert_debye_heat_capacity(t3, debye_heat_capacity(t3, 300.0, 3), 3)[0] == pytest.approx(300.0, rel=1e-12)
+
+
+def test_inversion_of_many_fractions_at_once_against_mpmath():
+    # Debye D_c(y) = 3y^-3 ∫0^y x^4 e^x/(e^x-1)^2 dx by mpmath quadrature (Debye 1912), from y = 0.05
+    # (C_v within 1e-4 of 3R) to the T³ region; all inverted in one vectorised call.
+    mp.mp.dps = 30
+    ys = ["0.05", "0.5", "2.5", "10", "40", "59.9", "80"]
+    frac = [float(3 / mp.mpf(y) ** 3 * mp.quad(lambda x: x ** 4 * mp.exp(x) / mp.expm1(x) ** 2, [0, mp.mpf(y)]))
+            for y in ys]
+    got = debye_y_from_fraction(np.array(frac + [0.0, np.nan, 1.0]))
+    assert got[:len(ys)] == pytest.approx([float(y) for y in ys], rel=1e-11)
+    assert np.isnan(got[len(ys):]).all()
 
 
 def test_low_frequency_theta_is_undefined_without_a_nu2_fit():

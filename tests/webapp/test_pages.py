@@ -239,3 +239,20 @@ def test_models_page_works_in_every_basis(demo, per):
     np.testing.assert_array_equal(np.asarray(values.data[0].y), expected.to_numpy())
     # the axis names the schema's quantity and unit (thermo.columns)
     assert values.layout.yaxis.title.text == label(column_name("heat_capacity_v", per))
+
+
+def test_calorimetry_revisit_reuses_the_fit_and_a_new_setting_refits(demo, monkeypatch):
+    # the fit is memoised on the file's content and the settings: the same page state twice fits once
+    from thermo.calorimetry import report as calreport
+    from webapp.pages import calorimetry
+    calls = []
+    real = calreport.analyse
+    monkeypatch.setattr(calorimetry, "analyse", lambda *a, **k: calls.append(1) or real(*a, **k))
+    settings = dict(stored=None, workspace=demo, lattice="dos", terms=["electronic"], fix="", fit_range="2:250",
+                    atoms=1, unit="header", formula="")
+    first = calorimetry.draw(**settings)
+    second = calorimetry.draw(**settings)
+    assert len(calls) == 1
+    assert repr(first[3:5]) == repr(second[3:5])      # key numbers and parameter table
+    calorimetry.draw(**{**settings, "terms": []})
+    assert len(calls) == 2

@@ -33,7 +33,10 @@ def cli(*args, **kwargs):
                           env=env, cwd=str(ROOT), **kwargs)
 
 
-def popen(*args):
+def popen(*args, quiet=False):
+    """Start ``python -m thermo ARGS``; ``quiet`` sends its output nowhere (a pipe nobody reads fills
+    at 64 KB and then blocks the program)."""
     env = {**os.environ, "PYTHONPATH": str(ROOT)}
-    return subprocess.Popen([sys.executable, "-m", "thermo", *map(str, args)], stdout=subprocess.PIPE,
-                            stderr=subprocess.PIPE, text=True, env=env, cwd=str(ROOT))
+    out = subprocess.DEVNULL if quiet else subprocess.PIPE
+    return subprocess.Popen([sys.executable, "-m", "thermo", *map(str, args)], stdout=out,
+                            stderr=out, text=True, env=env, cwd=str(ROOT))

@@ -51,22 +51,22 @@ def _rows(path):
 
 
 def test_sigkill_during_add_leaves_a_consistent_workspace(tmp_path):
-    files = write_files(tmp_path / "in", 300)
+    files = write_files(tmp_path / "in", 1000)    # about 0.35 s of adding on a fast machine: kills land mid-add
     expected = {p.name: hashlib.sha256(p.read_bytes()).hexdigest() for p in files}
     w = tmp_path / "w.sqlite"
     rng = random.Random(20261203)            # fixed seed: the kill moments are reproducible
     kills = 0
     for _ in range(6):
-        proc = popen("workspace", "add", tmp_path / "in", "--unchecked", "--workspace", w)
+        proc = popen("workspace", "add", tmp_path / "in", "--unchecked", "--workspace", w, quiet=True)
         start = _rows(w)
         deadline = time.monotonic() + 30
         while _rows(w) == start and proc.poll() is None and time.monotonic() < deadline:
             time.sleep(0.005)
-        time.sleep(rng.uniform(0.0, 0.15))
+        time.sleep(rng.uniform(0.0, 0.1))
         if proc.poll() is None:
             proc.send_signal(signal.SIGKILL)
             kills += 1
-        proc.communicate(timeout=30)
+        proc.wait(timeout=30)
         stored = _stored(w)
         assert set(stored) <= set(expected)
         assert all(expected[n] == s for n, s in stored.items())

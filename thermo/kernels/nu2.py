@@ -17,6 +17,8 @@ References
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 from scipy import special
 
@@ -68,10 +70,10 @@ def bose_integral(order, upper):
     series = xs ** m * np.polynomial.polynomial.polyval(xs, _BERNOULLI / (np.arange(41) + m))
     # beyond X = 800 every e^{-kX} underflows: clip so that X^m stays finite
     big = np.clip(x, _J_SPLIT, 800.0)[..., None]
-    poly = sum(special.factorial(m) / special.factorial(m - j) * big ** (m - j) / _J_TERMS ** (j + 1)
+    poly = sum(math.factorial(m) / math.factorial(m - j) * big ** (m - j) / _J_TERMS ** (j + 1)
                for j in range(m + 1))
     tail = np.sum(np.exp(-big * _J_TERMS) * poly, axis=-1)
-    return np.where(small, series, special.factorial(m) * special.zeta(m + 1) - tail)
+    return np.where(small, series, math.factorial(m) * special.zeta(m + 1) - tail)
 
 
 def debye_integral(upper):

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import base64
+import hashlib
 from pathlib import Path
 
 import dash
@@ -142,11 +143,8 @@ def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula
     if dos is not None and dos.atoms != n:
         demo_note.append(("warn", f"the DOS {current['name']} has {dos.atoms} atoms per formula unit, the "
                                   f"measurement is analysed for {n}: its C_v curve is per its own formula unit"))
-    terms = terms or []
-    model = HeatCapacityModel(atoms=n, lattice=lattice, electronic="electronic" in terms,
-                              dilation="nernst-lindemann" if "nernst-lindemann" in terms else "none",
-                              dos=dos if lattice == "dos" else None)
-    report, fit, _third = analyse(measured, model, _fixed(fix), parse_fit_range(fit_range) if fit_range else None)
+    report, fit = _analysis(stored, measured, (unit, formula), current, dos, n, lattice, terms or [], fix,
+                            fit_range)
     if dos is not None and "entropy_298_15_from_dos_J_per_mol_K" not in report:
         report["entropy_298_15_from_dos_J_per_mol_K"] = float(
             cache.table(current, [ROOM_K])[column_name("entropy")].iloc[0])
@@ -159,6 +157,24 @@ def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula
                 f"model {report['model']}, weights: {report['weighting']}"
     return (*figs, _keys(report), _parameter_table(report), c.active_note(current), file_note,
             c.message_items(demo_note + notes))
+
+
+def _analysis(stored, measured, reading, current, dos, atoms, lattice, terms, fix, fit_range):
+    """(report, fit) of :func:`thermo.calorimetry.report.analyse`, memoised on the measured file's content,
+    the DOS and the settings (a revisit of the page does not refit)."""
+    digest = hashlib.sha256(stored["contents"].encode()).hexdigest()
+    dos_key = cache.load_key(current) if (current is not None and lattice == "dos") else None
+    key = ("calorimetry", digest, tuple(reading), dos_key, atoms, lattice, tuple(terms),
+           str(fix or ""), str(fit_range or ""))
+
+    def compute():
+        model = HeatCapacityModel(atoms=atoms, lattice=lattice, electronic="electronic" in terms,
+                                  dilation="nernst-lindemann" if "nernst-lindemann" in terms else "none",
+                                  dos=dos if lattice == "dos" else None)
+        report, fit, _third = analyse(measured, model, _fixed(fix), parse_fit_range(fit_range) if fit_range else None)
+        return report, fit
+    report, fit = cache.result(key, compute)
+    return dict(report), fit
 
 
 def _dos_dataset(workspace, stored):
