@@ -144,14 +144,20 @@ def electronic_summary(edos, errors=None):
     }
 
 
-def electronic_provenance(edos, table):
+def electronic_provenance(edos, attrs):
     """Provenance written beside an electronic table (input, options, key numbers, warnings, cautions).
+
+    Parameters
+    ----------
+    edos : ElectronicDOS
+    attrs : dict
+        ``attrs`` of :func:`electronic_table` (basis, formula, summary, warnings).
 
     Examples
     --------
     >>> from thermo.electronic.dos import make_electronic_dos
     >>> d = make_electronic_dos([-5.0, 5.0], [1.0, 1.0], source={"name": "flat.dat"})
-    >>> electronic_provenance(d, electronic_table(d, [300.0]))["electronic_input"]
+    >>> electronic_provenance(d, electronic_table(d, [300.0]).attrs)["electronic_input"]
     'flat.dat'
     """
     src = edos.source
@@ -161,9 +167,9 @@ def electronic_provenance(edos, table):
             "energy_unit": src.get("energy_unit"), "spin": src.get("spin"),
             "formula_units_per_cell": src.get("formula_units"), "fermi_energy_from": src.get("fermi_energy_from"),
             "energy_range_eV": [float(e[0]), float(e[-1])], "points": int(e.size),
-            "basis": table.attrs.get("per"), "formula": table.attrs.get("formula")}
-    info.update(table.attrs.get("summary") or electronic_summary(edos))
-    info.update(notes=list(edos.notes), warnings=list(table.attrs.get("warnings", [])), cautions=list(CAUTIONS),
+            "basis": attrs.get("per"), "formula": attrs.get("formula")}
+    info.update(attrs.get("summary") or electronic_summary(edos))
+    info.update(notes=list(edos.notes), warnings=list(attrs.get("warnings", [])), cautions=list(CAUTIONS),
                 model="Fermi–Dirac occupation of a fixed electronic DOS at fixed electron count; piecewise-linear "
                       "DOS integrated exactly",
                 created_utc=datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="seconds"))
