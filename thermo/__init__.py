@@ -22,6 +22,7 @@ _EXPORTS = {
     "zero_point_energy": "tables",
     "estimated_relative_error": "tables",
     "provenance": "tables",
+    "provenance_record": "provenance",
     "PhononDOS": "spectrum",
     "LowFrequencyFit": "spectrum",
     "DosInputError": "errors",
