@@ -14,7 +14,7 @@ from __future__ import annotations
 
 import importlib
 
-__version__ = "0.1.0"
+__version__ = "0.3.0"
 
 _EXPORTS = {
     "load_dos": "preparation.loading",
