@@ -10,6 +10,7 @@ import numpy as np
 import pytest
 from scipy import constants as sc
 
+from tests.test_provenance import check_record
 from thermo.cli.main import main
 from thermo.columns import column_name, lookup
 from thermo.io.readback import read_exported_csv
@@ -38,6 +39,7 @@ def test_json_carries_the_columns_and_the_key_numbers(flat, capsys):
     for name in out["columns"]:
         lookup(name)                                       # every column is in the schema
     meta = out["provenance"]
+    check_record(meta, [flat], ["basis", "formula", "temperatures_K"])
     assert meta["sommerfeld_gamma_mJ_per_mol_K2"]["value"] == pytest.approx(1.5 * GAMMA_FLAT * 1e3, rel=1e-12)
     assert meta["sommerfeld_gamma_mJ_per_mol_K2"]["uncertainty"] == 0.0        # a flat band is exact
     assert meta["dos_at_fermi_level_per_eV"] == {"value": 1.5, "uncertainty": 0.0}
@@ -59,7 +61,9 @@ def test_table_with_electronic_adds_columns_and_totals(tmp_path, capsys):
                            ("helmholtz_energy", "helmholtz_energy_electronic", "helmholtz_energy_total")):
         np.testing.assert_allclose(df[column_name(total)], df[column_name(vib)] + df[column_name(el)], rtol=1e-7)
     assert df[column_name("heat_capacity_electronic")].iloc[-1] > 0
-    assert meta["electronic"]["electronic_input"] == DEMO.name
+    check_record(meta, [PHONONS, DEMO], ["basis", "temperatures_K"])       # one record, both inputs hashed
+    assert meta["inputs"][1]["role"] == "electronic DOS" and meta["inputs"][1]["options"]["energy_unit"] == "eV"
+    assert meta["electronic"]["sommerfeld_gamma_mJ_per_mol_K2"]["value"] > 0
     assert "electronic" in meta["model"]
     # the same electronic numbers as the electronic command alone
     capsys.readouterr()

@@ -73,4 +73,4 @@ def run(args) -> int:
     edos = load_electronic_from_args(args, args.file, sheet=args.sheet)
     table = electronic_table(edos, temperatures, per=args.per, atoms=args.atoms, formula=args.formula)
     report_electronic(table.attrs)
-    return emit_table(table, electronic_provenance(edos, table.attrs), args, plan)
+    return emit_table(table, electronic_provenance(edos, table.attrs, temperatures), args, plan)

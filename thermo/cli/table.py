@@ -32,10 +32,12 @@ def run(args) -> int:
     report_warnings(dos)
     info = provenance(dos, temperatures, per=args.per, formula=args.formula)
     if edos is not None:
-        from ..electronic import electronic_provenance, with_electronic
+        from ..electronic import electronic_details, electronic_input, with_electronic
         table = with_electronic(table, edos, atoms=dos.atoms)
         report_electronic(table.attrs["electronic"])
-        info["electronic"] = electronic_provenance(edos, table.attrs["electronic"])
+        info["inputs"].append(electronic_input(edos, role="electronic DOS"))
+        info["warnings"] += table.attrs["electronic"]["warnings"]
+        info["electronic"] = electronic_details(edos, table.attrs["electronic"])
         info["model"] = ("harmonic lattice at fixed volume plus the electronic term of a fixed electronic DOS "
                          "(C_v); no anharmonic or C_p - C_v terms")
     return emit_table(table, info, args, plan)

@@ -17,14 +17,12 @@ Examples
 
 from __future__ import annotations
 
-import datetime
-
 import numpy as np
 import pandas as pd
 
-from .. import __version__
 from ..columns import ELECTRONIC, column_name
 from ..errors import OptionError
+from ..provenance import input_record, provenance_record, temperature_settings
 from ..tables import check_temperatures, to_basis
 from .thermodynamics import GAMMA_PER_STATE, J_PER_MOL_PER_EV, edge_warnings, fermi_dirac_state, numerical_errors
 
@@ -144,36 +142,57 @@ def electronic_summary(edos, errors=None):
     }
 
 
-def electronic_provenance(edos, attrs):
-    """Provenance written beside an electronic table (input, options, key numbers, warnings, cautions).
+def electronic_input(edos, role=None):
+    """The ``inputs`` entry of an :class:`ElectronicDOS` (name, SHA-256, the reading options used).
+
+    Examples
+    --------
+    >>> from thermo.electronic.dos import make_electronic_dos
+    >>> electronic_input(make_electronic_dos([-1.0, 1.0], [1.0, 1.0], source={"name": "e.dat"}))["name"]
+    'e.dat'
+    """
+    src = edos.source
+    options = {"energy_unit": src.get("energy_unit"), "fermi_energy_eV": edos.fermi_energy_ev,
+               "fermi_energy_from": src.get("fermi_energy_from"), "spin": src.get("spin"),
+               "formula_units": src.get("formula_units")}
+    if src.get("sheet") is not None:
+        options["sheet"] = src["sheet"]
+    return input_record(src.get("name"), src.get("sha256"), options, role=role)
+
+
+def electronic_details(edos, attrs):
+    """Capability details of an electronic result: key numbers, grid, notes, cautions, model statement."""
+    e = edos.energies_ev
+    details = dict(attrs.get("summary") or electronic_summary(edos))
+    details.update(energy_range_eV=[float(e[0]), float(e[-1])], points=int(e.size), notes=list(edos.notes),
+                   cautions=list(CAUTIONS),
+                   model="Fermi–Dirac occupation of a fixed electronic DOS at fixed electron count; "
+                         "piecewise-linear DOS integrated exactly")
+    return details
+
+
+def electronic_provenance(edos, attrs, temperatures):
+    """Provenance of an electronic table (:func:`thermo.provenance.provenance_record`).
 
     Parameters
     ----------
     edos : ElectronicDOS
     attrs : dict
         ``attrs`` of :func:`electronic_table` (basis, formula, summary, warnings).
+    temperatures : array_like
+        Temperatures of the table [K].
 
     Examples
     --------
     >>> from thermo.electronic.dos import make_electronic_dos
     >>> d = make_electronic_dos([-5.0, 5.0], [1.0, 1.0], source={"name": "flat.dat"})
-    >>> electronic_provenance(d, electronic_table(d, [300.0]).attrs)["electronic_input"]
+    >>> electronic_provenance(d, electronic_table(d, [300.0]).attrs, [300.0])["inputs"][0]["name"]
     'flat.dat'
     """
-    src = edos.source
-    e = edos.energies_ev
-    info = {"tool": "modeheat", "version": __version__,
-            "electronic_input": src.get("name"), "electronic_input_sha256": src.get("sha256"),
-            "energy_unit": src.get("energy_unit"), "spin": src.get("spin"),
-            "formula_units_per_cell": src.get("formula_units"), "fermi_energy_from": src.get("fermi_energy_from"),
-            "energy_range_eV": [float(e[0]), float(e[-1])], "points": int(e.size),
-            "basis": attrs.get("per"), "formula": attrs.get("formula")}
-    info.update(attrs.get("summary") or electronic_summary(edos))
-    info.update(notes=list(edos.notes), warnings=list(attrs.get("warnings", [])), cautions=list(CAUTIONS),
-                model="Fermi–Dirac occupation of a fixed electronic DOS at fixed electron count; piecewise-linear "
-                      "DOS integrated exactly",
-                created_utc=datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="seconds"))
-    return info
+    settings = {"basis": attrs.get("per"), "formula": attrs.get("formula"),
+                "temperatures_K": temperature_settings(temperatures)}
+    return provenance_record([electronic_input(edos)], settings, attrs.get("warnings", []),
+                             **electronic_details(edos, attrs))
 
 
 _TOTALS = (("heat_capacity_v", "heat_capacity_electronic", "heat_capacity_v_total"),

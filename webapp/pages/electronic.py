@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import base64
 import hashlib
-from pathlib import Path
 
 import dash
 import numpy as np
@@ -20,13 +19,14 @@ from thermo.unit_names import ELECTRON_ENERGY_UNITS
 from .. import cache
 from .. import components as c
 from .. import figures as fg
+from ..demo import demo_file
 from ..intake import decode_upload
 from ..reporting import reported
 
 PATH, NAME, ORDER = "/electronic", "Electronic", 7.5
 
 #: The invented demo electronic DOS (see ``sample_dos/electronic/generate_electronic.py``).
-DEMO_FILE = Path(__file__).resolve().parents[2] / "sample_dos" / "electronic" / "springium_edos.dat"
+DEMO_FILE = demo_file("electronic", "springium_edos.dat")
 _GRAPHS = ("el-dos-graph", "el-ct-graph", "el-s-graph")
 _UNITS = [{"label": "as the file states", "value": "file"}] + [{"label": u, "value": u} for u in ELECTRON_ENERGY_UNITS]
 _SPIN = [{"label": " as the column names say", "value": "auto"}, {"label": " already summed", "value": "summed"},
