@@ -25,15 +25,20 @@ def add_electronic_reading_options(parser):
                              "default 1)")
 
 
+def electronic_options(args):
+    """Keyword arguments of :func:`thermo.electronic.load_electronic_dos` from the parsed options."""
+    return {"energy_unit": args.energy_unit, "fermi_energy_ev": args.fermi_energy, "spin": args.spin,
+            "formula_units": args.formula_units}
+
+
 def load_electronic_from_args(args, path, sheet=None):
     """The :class:`~thermo.electronic.ElectronicDOS` at ``path`` read with the parsed options (notes on stderr)."""
     import os
     from pathlib import Path
 
     from ..electronic import load_electronic_dos
-    edos = load_electronic_dos(Path(path), energy_unit=args.energy_unit, fermi_energy_ev=args.fermi_energy,
-                               spin=args.spin, formula_units=args.formula_units, sheet=sheet,
-                               name=os.path.basename(str(path)) or None)
+    edos = load_electronic_dos(Path(path), sheet=sheet, name=os.path.basename(str(path)) or None,
+                               **electronic_options(args))
     for note in edos.notes:
         print(f"note: {note}", file=sys.stderr)
     return edos

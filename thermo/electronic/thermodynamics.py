@@ -329,3 +329,53 @@ def edge_warnings(edos, state):
                          f"{EDGE_KT:g} k_BT of μ: states beyond it are missing, so C_el and S_el are too low "
                          "there; extend the DOS table")
     return notes
+
+
+def volume_rows(edoses, temperatures, errors=False):
+    r"""F_el, S_el, C_el of the electronic DOS at each sampled volume (quasi-harmonic step, phases).
+
+    Parameters
+    ----------
+    edoses : sequence of ElectronicDOS
+        One per volume, each per formula unit.
+    temperatures : array_like, shape (M,)
+        T [K], ≥ 0.
+    errors : bool
+        Also return each value's numerical error (:func:`numerical_errors`).
+
+    Returns
+    -------
+    dict
+        ``helmholtz`` [eV], ``entropy``, ``heat_capacity`` [eV/K], each shape
+        (K, M), per formula unit, F_el from each volume's own electronic
+        ground state; ``errors``: None, or the same keys with the estimated
+        absolute errors.
+
+    Notes
+    -----
+    The static energy E(V) of a volume set is a 0 K total energy, which holds
+    the electronic ground state; F_el(V,T) adds the thermal part only:
+    :math:`F(V,T) = E(V) + F_{vib}(V,T) + F_{el}(V,T)`.
+
+    Examples
+    --------
+    >>> from thermo.electronic.dos import make_electronic_dos
+    >>> rows = volume_rows([make_electronic_dos([-5.0, 5.0], [g, g]) for g in (1.0, 2.0)], [0.0, 300.0])
+    >>> rows["helmholtz"].shape, bool(rows["helmholtz"][1, 1] < rows["helmholtz"][0, 1] < 0)
+    ((2, 2), True)
+    """
+    t = _temperatures(temperatures)
+    rows = {"helmholtz": [], "entropy": [], "heat_capacity": []}
+    errs = {k: [] for k in rows}
+    for edos in edoses:
+        state = fermi_dirac_state(edos, t)
+        for key, value in zip(rows, (state.helmholtz_energy_ev, state.entropy_ev_per_k,
+                                     state.heat_capacity_ev_per_k)):
+            rows[key].append(value)
+        if errors:
+            e = numerical_errors(edos, t, state)
+            for key, source in zip(errs, ("helmholtz_energy", "entropy", "heat_capacity")):
+                errs[key].append(e[source])
+    out = {k: np.array(v) for k, v in rows.items()}
+    out["errors"] = {k: np.array(v) for k, v in errs.items()} if errors else None
+    return out
