@@ -6,6 +6,9 @@ band g = a·√(E − E_b) starting 8.5 eV below the Fermi level, a broad made-u
 "d-like" band 1.6 eV below E_F, and a narrow made-up peak 0.12 eV above E_F
 (so that C_el/T visibly departs from γ at a few hundred kelvin).  Both spins
 summed, per formula unit (one atom), energies relative to E_F on a 5 meV grid.
+Its band γ, about 0.8 mJ/(mol K²), lies below the γ = 1.1 mJ/(mol K²) made up for
+the measured demo (``generate_calorimetry.py``), as a made-up electron–phonon
+enhancement λ ≈ 0.4 would make it.
 The two made-up parts are written as projected columns.  Nothing describes a
 real material.  Run ``python sample_dos/electronic/generate_electronic.py``
 to rewrite ``springium_edos.dat`` (deterministic; a folder of its own so that
@@ -21,9 +24,9 @@ import numpy as np
 
 HERE = pathlib.Path(__file__).resolve().parent
 
-BAND_A, BAND_BOTTOM = 0.11, -8.5                     # states/eV^(3/2), eV
+BAND_A, BAND_BOTTOM = 0.065, -8.5                    # states/eV^(3/2), eV
 D_STATES, D_CENTRE, D_WIDTH = 6.0, -1.6, 0.55        # the made-up broad band: states, eV, eV (Gaussian σ)
-PEAK_STATES, PEAK_CENTRE, PEAK_WIDTH = 0.35, 0.12, 0.06
+PEAK_STATES, PEAK_CENTRE, PEAK_WIDTH = 0.1, 0.12, 0.06
 
 
 def _gauss(e, states, centre, width):

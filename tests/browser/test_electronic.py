@@ -40,4 +40,13 @@ def test_demo_draws_and_an_upload_replaces_it(duo, tmp_path):
     expected = math.pi ** 2 / 3 * (sc.k / sc.electron_volt) ** 2 * 3.0 * sc.N_A * sc.electron_volt * 1e3
     y = np.array(js_graph(duo.driver, "el-ct-graph", "Array.from(gd._fullData[0].y)"), dtype=float)
     np.testing.assert_allclose(y, expected, rtol=1e-6)
+    # the Calorimetry page compares its fitted γ with the band γ of the chosen electronic DOS
+    duo.driver.find_element(By.CSS_SELECTOR, "a[href='/calorimetry'].mh-nav-link").click()
+    until(lambda: "flat_meV.dat" in _text(duo.driver, "cal-band-gamma"), 40)
+    assert f"{expected * 1e-3:.6g}" in _text(duo.driver, "cal-band-gamma")
     no_console_errors(duo)
+
+
+def _text(driver, element_id):
+    found = driver.find_elements(By.ID, element_id)
+    return found[0].text if found else ""

@@ -9,10 +9,10 @@ provenance, totals with a phonon table).
 
 from .dos import ElectronicDOS, load_electronic_dos, make_electronic_dos
 from .report import (CAUTIONS, electronic_details, electronic_input, electronic_provenance, electronic_summary,
-                     electronic_table, with_electronic)
+                     electronic_table, gamma_comparison, with_electronic)
 from .thermodynamics import ElectronicState, fermi_dirac_state, numerical_errors, sommerfeld_gamma
 
 __all__ = ["CAUTIONS", "ElectronicDOS", "ElectronicState", "electronic_details", "electronic_input",
            "electronic_provenance", "electronic_summary",
-           "electronic_table", "fermi_dirac_state", "load_electronic_dos", "make_electronic_dos",
+           "electronic_table", "fermi_dirac_state", "gamma_comparison", "load_electronic_dos", "make_electronic_dos",
            "numerical_errors", "sommerfeld_gamma", "with_electronic"]

@@ -195,6 +195,64 @@ def electronic_provenance(edos, attrs, temperatures):
                              **electronic_details(edos, attrs))
 
 
+def gamma_comparison(edos, measured_gammas):
+    r"""The band γ of an electronic DOS beside γ values fitted to a measured heat capacity.
+
+    Parameters
+    ----------
+    edos : ElectronicDOS
+        Electronic DOS per formula unit (the same formula unit as the measurement).
+    measured_gammas : dict of str to dict
+        ``{"label": {"value": γ, "uncertainty": u}}`` [J/(mol K²)]; entries whose value is None are skipped.
+
+    Returns
+    -------
+    dict
+        ``gamma_from_electronic_dos_J_per_mol_K2`` (value, uncertainty), ``electronic_input``, and
+        ``ratios``: for each label the ratio measured/band with its uncertainty (the enhancement 1 + λ
+        when the rest of the model is right), and ``notes``.
+
+    Notes
+    -----
+    :math:`\gamma_{meas} = (1+\lambda)\,\gamma_{band}`, :math:`\gamma_{band} = (\pi^2/3)k_B^2 g(E_F)`;
+    :math:`u(r)/r = \sqrt{(u_m/\gamma_m)^2 + (u_b/\gamma_b)^2}`.
+
+    References
+    ----------
+    G. Grimvall (1981), ch. 6 (see the module references).
+
+    Examples
+    --------
+    >>> from thermo.electronic.dos import make_electronic_dos
+    >>> band = make_electronic_dos([-2.0, -1.0, 0.0, 1.0, 2.0], [0.5] * 5)        # γ_band = 1.1785 mJ/(mol K²)
+    >>> c = gamma_comparison(band, {"fit": {"value": 1.65e-3, "uncertainty": 0.05e-3}})
+    >>> round(c["ratios"]["fit"]["value"], 3), round(c["ratios"]["fit"]["uncertainty"], 3)
+    (1.4, 0.042)
+    """
+    summary = electronic_summary(edos)
+    band = {k: v * 1e-3 for k, v in summary["sommerfeld_gamma_mJ_per_mol_K2"].items()}
+    out = {"gamma_from_electronic_dos_J_per_mol_K2": band, "electronic_input": edos.source.get("name"),
+           "ratios": {}, "notes": []}
+    for label, pair in measured_gammas.items():
+        value, u = pair.get("value"), pair.get("uncertainty") or 0.0
+        if value is None or not band["value"] > 0:
+            continue
+        ratio = value / band["value"]
+        spread = ratio * float(np.hypot(u / value if value else 0.0, band["uncertainty"] / band["value"]))
+        out["ratios"][label] = {"value": ratio, "uncertainty": spread}
+        if ratio + 2 * spread < 1.0:
+            out["notes"].append(f"the {label} γ is {ratio:.3g} ± {spread:.2g} times the band γ of "
+                                f"{out['electronic_input']}: below 1, which no electron–phonon coupling gives; check "
+                                "that both are per the same formula unit, the DOS at E_F and the low-temperature data")
+        else:
+            out["notes"].append(f"the {label} γ is {ratio:.3g} ± {spread:.2g} times the band γ of "
+                                f"{out['electronic_input']}: an enhancement 1 + λ with λ ≈ {ratio - 1:.2g} if the "
+                                "rest of the model is right")
+    if not band["value"] > 0:
+        out["notes"].append(f"{out['electronic_input']} has no states at E_F (γ_band = 0): no ratio")
+    return out
+
+
 _TOTALS = (("heat_capacity_v", "heat_capacity_electronic", "heat_capacity_v_total"),
            ("entropy", "entropy_electronic", "entropy_total"),
            ("internal_energy", "internal_energy_electronic", "internal_energy_total"),

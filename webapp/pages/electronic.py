@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import base64
 import hashlib
 
 import dash
@@ -11,22 +10,18 @@ import plotly.graph_objects as go
 from dash import Input, Output, State, callback, dcc, html
 
 from thermo.columns import column_name
-from thermo.electronic import CAUTIONS, electronic_table, load_electronic_dos
-from thermo.errors import OptionError
+from thermo.electronic import CAUTIONS, electronic_table
 from thermo.temperatures import temperature_range
 from thermo.unit_names import ELECTRON_ENERGY_UNITS
 
-from .. import cache
+from .. import cache, intake
 from .. import components as c
 from .. import figures as fg
-from ..demo import demo_file
-from ..intake import decode_upload
+from ..demo import electronic_demo_entry
 from ..reporting import reported
 
 PATH, NAME, ORDER = "/electronic", "Electronic", 7.5
 
-#: The invented demo electronic DOS (see ``sample_dos/electronic/generate_electronic.py``).
-DEMO_FILE = demo_file("electronic", "springium_edos.dat")
 _GRAPHS = ("el-dos-graph", "el-ct-graph", "el-s-graph")
 _UNITS = [{"label": "as the file states", "value": "file"}] + [{"label": u, "value": u} for u in ELECTRON_ENERGY_UNITS]
 _SPIN = [{"label": " as the column names say", "value": "auto"}, {"label": " already summed", "value": "summed"},
@@ -44,14 +39,12 @@ def layout(**_query):
                                                            "energy: … eV'), total DOS per formula unit, optional "
                                                            "projected columns; text or .xlsx")])),
                   html.Button("Use the demo electronic DOS", id="el-demo", n_clicks=0, className="mh-button")]),
-        dcc.Store(id="el-file-store", storage_type="session"),
         html.P(id="el-file", className="mh-active-note"),
         c.controls(
-            c.dropdown("el-unit", _UNITS, "file", "Energy unit"),
-            c.text("el-fermi", "", "Fermi energy [eV]", "as the file states",
-                   hint="only for absolute energies"),
-            c.radio("el-spin", _SPIN, "auto", "Spin columns"),
-            c.number("el-fu", 1, "Formula units per cell", min_value=0),
+            _kept(c.dropdown("el-unit", _UNITS, "file", "Energy unit")),
+            _kept(c.text("el-fermi", "", "Fermi energy [eV]", "as the file states", hint="only for absolute energies")),
+            c.radio("el-spin", _SPIN, "auto", "Spin columns", persist=True),
+            _kept(c.number("el-fu", 1, "Formula units per cell", min_value=0)),
             *c.temperature_fields("el", 0, 1500, 10)),
         c.messages_panel("el-messages"),
         html.Div(id="el-keys"),
@@ -63,19 +56,24 @@ def layout(**_query):
     )
 
 
-@callback(Output("el-file-store", "data"), Input("el-upload", "contents"), Input("el-demo", "n_clicks"),
-          State("el-upload", "filename"), prevent_initial_call=True)
-def keep_file(contents, _clicks, name):
-    """The chosen file as a data URL in the browser's session store."""
-    if dash.ctx.triggered_id == "el-demo" or not contents:
-        return demo_entry()
-    return {"name": name or "upload", "contents": contents}
+def _kept(field):
+    """The field with its value kept for the browser tab (the stored options follow the fields)."""
+    field.children[1].persistence, field.children[1].persistence_type = True, "session"
+    return field
 
 
-def demo_entry():
-    """Store entry of the invented demo electronic DOS."""
-    return {"name": DEMO_FILE.name, "contents": "data:text/plain;base64,"
-            + base64.b64encode(DEMO_FILE.read_bytes()).decode("ascii")}
+@callback(Output("mh-electronic", "data"), Input("el-upload", "contents"), Input("el-demo", "n_clicks"),
+          Input("el-unit", "value"), Input("el-fermi", "value"), Input("el-spin", "value"), Input("el-fu", "value"),
+          State("el-upload", "filename"), State("mh-electronic", "data"), prevent_initial_call=True)
+def keep_file(contents, _clicks, unit, fermi, spin, formula_units, name, stored):
+    """The chosen file (data URL) and the reading fields as typed in the shell's session store
+    ``mh-electronic``, which the Calorimetry page reads too (:func:`webapp.cache.electronic_dos`)."""
+    trigger = dash.ctx.triggered_id
+    if trigger == "el-demo" or not (stored or {}).get("contents"):
+        stored = electronic_demo_entry()
+    if trigger == "el-upload" and contents:
+        stored = {"name": name or "upload", "contents": contents}
+    return dict(stored, fields={"unit": unit, "fermi": fermi, "spin": spin, "formula_units": formula_units})
 
 
 def _failed(message):
@@ -83,47 +81,29 @@ def _failed(message):
     return (blank,) * 3 + ([], dash.no_update, c.message_items([("error", message)]))
 
 
-def _options(unit, fermi, spin, formula_units):
-    """Keyword arguments of :func:`load_electronic_dos` from the page's fields ('' and defaults: not given)."""
-    text = str(fermi or "").strip()
-    try:
-        fermi_ev = float(text) if text else None
-    except ValueError:
-        raise OptionError(f"the Fermi energy {text!r} is not a number of eV") from None
-    return {"energy_unit": None if unit in (None, "file") else unit,
-            "fermi_energy_ev": fermi_ev,
-            "spin": None if spin in (None, "auto") else spin,
-            "formula_units": None if formula_units in (None, "") else float(formula_units)}
-
-
-def computed(stored, options, temperatures, max_bytes=None):
-    """(ElectronicDOS, table) of the stored file, memoised on its content, the options and the temperatures."""
-    raw = decode_upload(stored["contents"], stored["name"], max_bytes)
+def computed(stored, temperatures, max_bytes=None):
+    """(ElectronicDOS, table) of the stored file and fields, memoised on content, options and temperatures."""
+    edos = intake.electronic_dos(stored, max_bytes)
     t = np.asarray(temperatures, dtype=float)
-    key = ("electronic", hashlib.sha256(raw).hexdigest(), tuple(sorted(options.items())),
-           hashlib.sha1(t.tobytes()).hexdigest())
-
-    def compute():
-        edos = load_electronic_dos(raw, name=stored["name"], **options)
-        return edos, electronic_table(edos, t)
-    return cache.result(key, compute)
+    options = tuple(sorted(intake.electronic_options(stored.get("fields")).items()))
+    key = ("electronic table", edos.source.get("sha256"), stored["name"], options, hashlib.sha1(t.tobytes()).hexdigest())
+    return edos, cache.result(key, lambda: electronic_table(edos, t))
 
 
 @callback(*[Output(g, "figure") for g in _GRAPHS], Output("el-keys", "children"), Output("el-file", "children"),
           Output("el-messages", "children"),
-          Input("el-file-store", "data"), Input("el-unit", "value"), Input("el-fermi", "value"),
-          Input("el-spin", "value"), Input("el-fu", "value"), Input("el-tmin", "value"), Input("el-tmax", "value"),
+          Input("mh-electronic", "data"), Input("el-tmin", "value"), Input("el-tmax", "value"),
           Input("el-step", "value"), State("mh-config", "data"))
 @reported(_failed)
-def draw(stored, unit, fermi, spin, formula_units, t_min, t_max, step, config):
-    """Read, compute and draw for the page's settings."""
+def draw(stored, t_min, t_max, step, config):
+    """Read, compute and draw for the stored file, its options and the temperature fields."""
     notes = []
     if not stored:
-        stored = demo_entry()
+        stored = electronic_demo_entry()
         notes.append(("info", "Showing the invented demo electronic DOS (imaginary metal 'springium'); "
                               "upload your own file above."))
     temperatures = temperature_range(t_min, t_max, step)
-    edos, table = computed(stored, _options(unit, fermi, spin, formula_units), temperatures, (config or {}).get("max_upload_bytes"))
+    edos, table = computed(stored, temperatures, (config or {}).get("max_upload_bytes"))
     summary = table.attrs["summary"]
     notes += [("info", n) for n in edos.notes] + [("warn", w) for w in table.attrs["warnings"]]
     e = edos.energies_ev
