@@ -48,6 +48,8 @@ from scipy.special import bernoulli, expit, spence, zeta
 #: Below this reduced energy L3 uses its Taylor series in x (radius π), above it the series in e^{-x}.
 _SPLIT = math.log(2.0)
 _TAYLOR_TERMS = 30
+#: Above this reduced energy L2 and L3 come from their series in e^{-x} (at most 13 terms), below from spence.
+_SERIES = 3.0
 
 
 def _eta_coefficients(terms=_TAYLOR_TERMS):
@@ -92,9 +94,10 @@ def occupation_tails(x, orders=3):
     Notes
     -----
     :math:`f = \mathrm{expit}(-x)`, :math:`\mathcal{L}_1 = \mathrm{log1p}(e^{-x})`,
-    :math:`\mathcal{L}_n = \sum_k (-1)^{k+1} y^k/k^n` with :math:`y = e^{-x} \le 1/2`
-    for :math:`x > \ln 2` (n = 2, 3); below, :math:`\mathcal{L}_2 = -\mathrm{spence}(1+y)`
-    (scipy's spence is :math:`\mathrm{Li}_2(1-z)`) and :math:`\mathcal{L}_3` from its
+    :math:`\mathcal{L}_n = \sum_k (-1)^{k+1} y^k/k^n` with :math:`y = e^{-x}`
+    for :math:`x > 3` (n = 2, 3) and for :math:`\mathcal{L}_3` down to :math:`x = \ln 2`;
+    :math:`\mathcal{L}_2 = -\mathrm{spence}(1+y)` for :math:`x \le 3` (scipy's spence is
+    :math:`\mathrm{Li}_2(1-z)`); :math:`\mathcal{L}_3` below :math:`\ln 2` from its
     Taylor series :math:`\sum_k \eta(3-k)(-x)^k/k!` (radius π, DLMF 25.12).
 
     Examples
@@ -112,6 +115,7 @@ def occupation_tails(x, orders=3):
     l2 = np.empty_like(x)
     l3 = np.empty_like(x) if orders >= 3 else None
     near = x <= _SPLIT
+    mid = ~near & (x <= _SERIES)
     if near.any():
         l2[near] = -spence(1.0 + y[near])
         if l3 is not None:
@@ -120,11 +124,15 @@ def occupation_tails(x, orders=3):
             for c in _ETA[-2::-1]:                 # Horner in t = −x
                 acc = acc * t + c
             l3[near] = acc
+    if mid.any():
+        l2[mid] = -spence(1.0 + y[mid])            # y ≥ e^-3: spence's absolute error is far below y
+        if l3 is not None:
+            l3[mid] = _alternating_series(y[mid], 3)[-1]
     tiny = y < 1e-17                               # every series term after y itself is below 1e-17 y
     for out in (l2, l3):
         if out is not None:
             out[tiny] = y[tiny]
-    far = ~near & ~tiny
+    far = ~near & ~mid & ~tiny
     if far.any():
         for out, series in zip((l2, l3), _alternating_series(y[far], 3 if l3 is not None else 2)):
             out[far] = series

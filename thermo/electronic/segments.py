@@ -40,61 +40,53 @@ BLOCK = 200_000
 
 
 def _primitives(y, f, l1, l2, l3, full):
-    """Antiderivatives at y ≥ 0 of y^n f (n ≤ 2), y^n h (n ≤ 3), L1 and y L1 (see module notes)."""
-    y2 = y * y
-    p = {"f0": -l1, "f1": -y * l1 - l2, "h0": -f}
+    """Antiderivatives at y ≥ 0 of y^n f (n ≤ 2), y^n h (n ≤ 3), and of the entropy kernel σ = L1 + y f and
+    y σ (keys ``s0``, ``s1``); see the module notes."""
+    p = {"f0": -l1, "f1": -y * l1 - l2, "h0": -f, "h1": -y * f - l1}
     if full:
+        y2 = y * y
         p["f2"] = -y2 * l1 - 2 * y * l2 - 2 * l3
-        p["h1"] = -y * f - l1
         p["h2"] = -y2 * f - 2 * y * l1 - 2 * l2
         p["h3"] = -y2 * y * f - 3 * y2 * l1 - 6 * y * l2 - 6 * l3
-        p["L0"] = -l2
-        p["L1"] = -y * l2 - l3
-    else:
-        p["h1"] = -y * f - l1
+        p["s0"] = p["f1"] - l2                     # ∫ L1 = −L2
+        p["s1"] = p["f2"] - y * l2 - l3            # ∫ y L1 = −y L2 − L3
     return p
 
 
-def _piece(lo, hi, slope_p, slope_q, full):
-    """∫ (P + Q y) K(y) dy over [a, b] ⊂ [0, ∞) for the kernels K, from primitives at both ends."""
-    j = {k: hi[k] - lo[k] for k in hi}
-    out = {"n": slope_p * j["f0"] + slope_q * j["f1"], "b0": slope_p * j["h0"] + slope_q * j["h1"]}
-    if full:
-        out["u"] = slope_p * j["f1"] + slope_q * j["f2"]
-        out["b1"] = slope_p * j["h1"] + slope_q * j["h2"]
-        out["b2"] = slope_p * j["h2"] + slope_q * j["h3"]
-        out["s"] = slope_p * (j["L0"] + j["f1"]) + slope_q * (j["L1"] + j["f2"])
-    return out
+#: The primitives at y = 0 (f, L1, L2, L3 at 0; powers of y vanish).
+_AT_ZERO = {"f1": -AT_ZERO[2], "h0": -AT_ZERO[0], "h2": -2 * AT_ZERO[2], "s0": -2 * AT_ZERO[2]}
 
 
 def _block_sums(e, g, mu, kt, full):
-    """Sums for one block: e, g (K,) nodes; mu, kt (M,)."""
+    """Sums for one block: e, g (K,) nodes; mu, kt (M,).
+
+    The primitives P are evaluated once per node at y = |x|.  The part of segment [k, k+1] above μ is
+    A_{k+1} − A_k with A = P (node above μ) or P(0) (below), the mirrored part below is B_k − B_{k+1} with
+    B = P (below) or P(0) (above); since A + B = P + P(0) at every node, the sum of the two parts is the
+    difference of D = sign(x)(P − P(0)) and their difference that of P itself.  With g = p + q x on the
+    segment, every sum is p·ΔD + q·ΔP or p·ΔP + q·ΔD, by the parity of the kernel.
+    """
     x = (e[:, None] - mu[None, :]) / kt[None, :]
-    ax = np.abs(x)
-    tails = occupation_tails(ax, 3 if full else 2)
-    if not full:
-        tails = tails + (np.zeros_like(ax),)
-    zero = [np.full_like(ax[:-1], v) for v in AT_ZERO]
-    xa, xb = x[:-1], x[1:]
+    y = np.abs(x)
+    tails = occupation_tails(y, 3 if full else 2)
+    prim = _primitives(y, *tails, full) if full else _primitives(y, *tails, None, full)
+    sign = np.sign(x)
     slope = ((g[1:] - g[:-1]) / (e[1:] - e[:-1]))[:, None]
     p = g[:-1, None] + slope * (mu[None, :] - e[:-1, None])      # g at μ, extrapolated along the segment
     q = slope * kt[None, :]
 
-    def ends(node, use_node, y):
-        values = [np.where(use_node, t[node], z) for t, z in zip(tails, zero)]
-        return _primitives(np.where(use_node, y, 0.0), *values, full)
-
-    first, second = slice(None, -1), slice(1, None)
-    above = _piece(ends(first, xa > 0, ax[:-1]), ends(second, xb > 0, ax[1:]), p, q, full)
-    below = _piece(ends(second, xb < 0, ax[1:]), ends(first, xa < 0, ax[:-1]), p, -q, full)
+    def total(first, first_signed, second, second_signed):
+        a = prim[first] if not first_signed else sign * (prim[first] - _AT_ZERO[first])
+        b = prim[second] if not second_signed else sign * (prim[second] - _AT_ZERO[second])
+        return (p * (a[1:] - a[:-1]) + q * (b[1:] - b[:-1])).sum(0)
     t = kt
-    sums = {"count": t * (above["n"] - below["n"]).sum(0), "dcount": (above["b0"] + below["b0"]).sum(0)}
+    sums = {"count": t * total("f0", False, "f1", True), "dcount": total("h0", True, "h1", False)}
     if full:
-        sums["energy"] = t * t * (above["u"] + below["u"]).sum(0)
-        sums["entropy"] = t * (above["s"] + below["s"]).sum(0)
+        sums["energy"] = t * t * total("f1", True, "f2", False)
+        sums["entropy"] = t * total("s0", True, "s1", False)
         sums["b0"] = t * sums["dcount"]
-        sums["b1"] = t * (above["b1"] - below["b1"]).sum(0)
-        sums["b2"] = t * (above["b2"] + below["b2"]).sum(0)
+        sums["b1"] = t * total("h1", False, "h2", True)
+        sums["b2"] = t * total("h2", True, "h3", False)
     return sums
 
 
