@@ -199,7 +199,7 @@ def _spin_mode(names, width, spin, named):
     return "summed"
 
 
-def _columns(table, spin_mode, source):
+def _columns(table, spin_mode):
     """(total, partials, notes) with spin pairs summed; down columns written as negative numbers flipped."""
     cols = table.columns
     names = table.names[1:]
@@ -322,7 +322,7 @@ def load_electronic_dos(source, energy_unit=None, fermi_energy_ev=None, spin=Non
     if not (np.isfinite(count) and count > 0):
         raise OptionError(f"formula units per cell must be a positive number, not {formula_units!r}")
     mode = _spin_mode(table.names[1:], table.columns.shape[1], spin, table.named)
-    total, parts, spin_notes = _columns(table, mode, src)
+    total, parts, spin_notes = _columns(table, mode)
     notes += spin_notes
     warnings = _clip_negative(table, total, parts, src)
     fermi, origin = None, "relative energies"
