@@ -138,3 +138,36 @@ def test_unknown_format_lists_choices():
 def test_unwritable_path_is_option_error(tmp_path):
     with pytest.raises(OptionError, match="cannot write"):
         write_table(_frame(), {}, "csv", tmp_path / "missing_dir" / "t.csv")
+
+
+def _awkward_floats(seed, rows=40):
+    rng = np.random.default_rng(seed)
+    values = rng.standard_normal((rows, 4)) * 10.0 ** rng.integers(-300, 300, (rows, 4))
+    values[::7, 1] = np.nan
+    values[3, 2], values[5, 3], values[9, 0] = np.inf, -0.0, -np.inf
+    values[11] = np.nan
+    return pd.DataFrame(values, columns=["temperature_K", "=risky name", "a,b", "c"])
+
+
+@pytest.mark.parametrize("seed", range(5))
+def test_all_float_csv_writes_what_pandas_writes(seed):
+    # Reference: pandas' own DataFrame.to_csv (an independent CSV writer) on the same table.
+    df = _awkward_floats(seed)
+    text = export_table(df, {}, "csv").decode()
+    reference = df.rename(columns=lambda c: "'" + c if c.startswith("=") else c).to_csv(index=False,
+                                                                                        lineterminator="\n")
+    assert text == reference
+
+
+@pytest.mark.parametrize("digits", [1, 3, 8, 17])
+def test_rounded_floats_are_the_decimal_rounding_of_each_value(digits):
+    # Reference: Python's correctly rounded '%.{digits}g' formatting of each value (Gay 1990).
+    df = _awkward_floats(digits)
+    back, _ = read_exported_csv(export_table(df, {}, "csv", digits=digits))
+    expected = [[float(f"{v:.{digits}g}") for v in row] for row in df.to_numpy().tolist()]
+    np.testing.assert_array_equal(back.to_numpy(float), np.array(expected))
+
+
+def test_single_float_column_with_nan_writes_what_pandas_writes():
+    df = pd.DataFrame({"a": [1.0, np.nan, 2.5]})
+    assert export_table(df, {}, "csv").decode() == df.to_csv(index=False, lineterminator="\n")
