@@ -1,11 +1,13 @@
-"""Thermodynamic tables for many DOS files at once, on several processes.
+"""Thermodynamic tables for many DOS files at once, on several processes or any executor.
 
 :func:`run_batch` writes one table per input file (the same content as the
 ``table`` command: :func:`thermo.tables.tabulate` with its provenance) and an
 index ``index.csv`` with one row per input: status, atoms, imaginary share,
 cautions and the one-line error of a file that failed.  A bad file never stops
 the others.  Existing outputs are never replaced unless ``force`` is set, and
-an output is never written onto one of the inputs.
+an output is never written onto one of the inputs.  The files run on a local
+process pool or on any :class:`concurrent.futures.Executor`, e.g. a Dask
+cluster's (:mod:`thermo.parallel`).
 """
 
 from __future__ import annotations
@@ -20,6 +22,7 @@ import sys
 from pathlib import Path
 
 from .errors import ModeheatError, OptionError
+from .parallel import run_jobs
 
 #: Name of the index file written in the output directory.
 INDEX_NAME = "index.csv"
@@ -27,8 +30,6 @@ INDEX_NAME = "index.csv"
 INDEX_COLUMNS = ("input", "status", "output", "atoms", "negative_mode_fraction", "warnings", "error")
 #: File name patterns taken from a directory by default (known DOS file kinds).
 KNOWN_PATTERNS = ("*.dat", "*.txt", "*.csv", "*.tsv", "*.dos", "*.xlsx")
-#: Most files handed to one worker process at a time.
-_MAX_CHUNK = 16
 
 
 @dataclasses.dataclass(frozen=True)
@@ -213,10 +214,6 @@ def process_file(source, target, options):
     return row
 
 
-def _process_chunk(jobs, options):
-    return [process_file(source, target, options) for source, target in jobs]
-
-
 def check_targets(targets, index_path, force):
     """Refuse to start when an output exists and ``force`` is not set.
 
@@ -268,34 +265,12 @@ def _progress_bar(total, enabled):
     return tqdm(total=total, file=sys.stderr, unit="file", desc="tables")
 
 
-def _chunks(jobs, workers):
-    size = max(1, min(_MAX_CHUNK, len(jobs) // (4 * workers)))
-    return [jobs[i:i + size] for i in range(0, len(jobs), size)]
+def _lost(job, reason):
+    source, _target = job
+    return dict(_blank_row(source), error=f"{source}: the worker stopped before finishing ({reason})")
 
 
-def _run_pool(jobs, options, workers, bar):
-    from concurrent.futures import ProcessPoolExecutor, as_completed
-    from concurrent.futures.process import BrokenProcessPool
-
-    rows = {}
-    chunks = _chunks(jobs, workers)
-    with ProcessPoolExecutor(max_workers=workers) as pool:
-        futures = {pool.submit(_process_chunk, chunk, options): chunk for chunk in chunks}
-        for future in as_completed(futures):
-            chunk = futures[future]
-            try:
-                done = future.result()
-            except BrokenProcessPool:
-                done = [dict(_blank_row(source), error=f"{source}: the worker process stopped abruptly")
-                        for source, _ in chunk]
-            for (source, _), row in zip(chunk, done):
-                rows[source] = row
-            if bar is not None:
-                bar.update(len(chunk))
-    return [rows[source] for source, _ in jobs]
-
-
-def run_batch(inputs, outdir, options, workers=None, progress=True, pattern=None):
+def run_batch(inputs, outdir, options, workers=None, progress=True, pattern=None, executor=None):
     r"""Write a table for every input file and an index of the outcomes.
 
     Parameters
@@ -307,11 +282,17 @@ def run_batch(inputs, outdir, options, workers=None, progress=True, pattern=None
     options : BatchOptions
         Reading and table options.
     workers : int, optional
-        Worker processes (default: ``os.cpu_count()``); 1 runs in this process.
+        Worker processes of the local pool (default: ``os.cpu_count()``); 1
+        runs in this process.  With ``executor``, only sizes the chunks.
     progress : bool
         Show a progress bar on stderr when it is a terminal.
     pattern : str or sequence of str, optional
         File name patterns taken from directories (default :data:`KNOWN_PATTERNS`).
+    executor : concurrent.futures.Executor, optional
+        Where the files are processed instead of a local process pool: any
+        executor, e.g. a Dask distributed client's ``Client.get_executor()``
+        (its workers must reach the input and output paths).  The caller
+        keeps it open and closes it.  The tables do not depend on it.
 
     Returns
     -------
@@ -356,17 +337,10 @@ def run_batch(inputs, outdir, options, workers=None, progress=True, pattern=None
     out.mkdir(parents=True, exist_ok=True)
 
     jobs = list(zip(sources, targets))
-    workers = max(1, int(workers or os.cpu_count() or 1))
     bar = _progress_bar(len(jobs), progress)
     try:
-        if workers == 1 or len(jobs) == 1:
-            rows = []
-            for job in jobs:
-                rows.append(process_file(*job, options))
-                if bar is not None:
-                    bar.update(1)
-        else:
-            rows = _run_pool(jobs, options, min(workers, len(jobs)), bar)
+        rows = run_jobs(process_file, jobs, (options,), executor=executor, workers=workers, lost=_lost,
+                        done=None if bar is None else bar.update)
     finally:
         if bar is not None:
             bar.close()

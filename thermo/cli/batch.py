@@ -23,6 +23,10 @@ def register(sub):
                         "DOS kinds .dat .txt .csv .tsv .dos .xlsx); other files are reported as skipped")
     p.add_argument("--workers", type=int, metavar="N",
                    help="worker processes (default: the number of cores)")
+    p.add_argument("--scheduler", metavar="ADDRESS",
+                   help="run on a running Dask cluster instead of local processes, e.g. tcp://10.0.0.5:8786 "
+                        "(needs pip install 'modeheat[cluster]'; the workers must reach the input and "
+                        "output paths)")
     p.set_defaults(func=run)
 
 
@@ -39,8 +43,9 @@ def run(args) -> int:
         freq_unit=args.freq_unit, atoms=args.atoms, negative=args.negative,
         low_frequency=args.low_frequency, per=args.per, formula=args.formula,
         fmt=args.format or "csv", force=args.force, digits=check_digits(args.digits))
-    rows = run_batch(args.file, args.output, options, workers=args.workers, progress=True,
-                     pattern=args.pattern)
+    with _executor(args.scheduler) as executor:
+        rows = run_batch(args.file, args.output, options, workers=args.workers, progress=True,
+                         pattern=args.pattern, executor=executor)
     failed = [row for row in rows if row["status"] == "failed"]
     skipped = [row for row in rows if row["status"] == "skipped"]
     done = [row for row in rows if row["status"] == "ok"]
@@ -54,6 +59,14 @@ def run(args) -> int:
     print(f"{len(done)} of {_count(tried, 'table')} written to {args.output}; "
           f"see {INDEX_NAME} there", file=sys.stderr)
     return 1 if failed else 0
+
+
+def _executor(address):
+    """The Dask scheduler's executor for ``--scheduler``, else no executor (the local pool)."""
+    import contextlib
+
+    from ..parallel import scheduler_executor
+    return scheduler_executor(address) if address else contextlib.nullcontext(None)
 
 
 def _count(n, noun):
