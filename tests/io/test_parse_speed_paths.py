@@ -1,16 +1,19 @@
 """The fast conversion paths of the text reader give exactly what the per-cell parser gives.
 
 Reference: the per-cell parser (`_to_array`, Python ``float`` after d->e, correctly rounded
-per Gay 1990) — the fast paths are numpy's; the timing itself is bench figure P12, not here.
+per Gay 1990) — the fast paths are numpy's and pandas' readers; the timing is bench figure P12, not here.
 """
+
+from unittest import mock
 
 import numpy as np
 import pytest
-from hypothesis import given, settings
+from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+from tests.io.test_readers import _careful_outcome, _outcome, table_texts
 from thermo.errors import DosInputError
-from thermo.io import readers
+from thermo.io import fastpath, readers
 from thermo.io.readers import read_table
 
 
@@ -49,3 +52,41 @@ def test_blockwise_reading_mixes_plain_and_quoted_blocks():
     table = read_table("\n".join(rows) + "\n")
     assert table.data.shape == (50_000, 2)
     assert table.data[30_000].tolist() == [30.0, 60.0] and table.data[-1, 1] == pytest.approx(99.998)
+
+
+# --- the whole-body path (every row after the header plain) ------------------
+# Reference: the per-cell parser (``_fast_array`` switched off), as in test_readers.py.
+
+
+@settings(max_examples=200, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(table_texts())
+def test_pandas_conversion_matches_per_cell_parser(content):
+    with mock.patch.object(fastpath, "LARGE_BODY_LINES", 1):       # every body through pandas' reader
+        fast = _outcome(content)
+    assert fast == _careful_outcome(content)
+
+
+def _big_text(rows=20_000, end="\n", extra=None):
+    head = ["# invented spectrum (demo)", "", "! frequency unit: THz", "freq total"]
+    body = [f"{k * 1e-3!r} {k * k * 1.23456789e-7!r}" for k in range(rows)]
+    if extra is not None:
+        body.insert(*extra)
+    return end.join(head + body) + end
+
+
+@pytest.mark.parametrize("end", ["\n", "\r\n"])
+def test_large_clean_body_reads_with_line_numbers(end):
+    text = _big_text(end=end)
+    table = read_table(text.encode())
+    assert table.names == ["freq", "total"] and table.header_unit == "THz"
+    assert table.line_numbers[0] == 5 and table.line_numbers[-1] == 20_004
+    expected = [[float(c) for c in line.split()] for line in text.split(end)[4:-1]]   # Python float()
+    np.testing.assert_array_equal(table.data, expected)
+    assert _outcome(text.encode()) == _careful_outcome(text.encode())
+
+
+@pytest.mark.parametrize("extra", [(10_000, ""), (10_000, "  "), (15_000, "# note"), (19_999, "1 2 3"),
+                                   (5, "1,5 2"), (12_345, "3 -")])
+def test_large_body_with_something_inside_reads_like_the_general_path(extra):
+    content = _big_text(extra=extra).encode()
+    assert _outcome(content) == _careful_outcome(content)

@@ -306,14 +306,14 @@ def test_clean_tables_take_the_one_pass_conversion(content):
     outcome = _outcome(content)
     assert outcome == _careful_outcome(content)
     if isinstance(outcome, tuple):
-        results = _fast_results(content)
-        assert len(results) == 1 and results[0] is not None
+        results = _fast_results(content)       # the whole-body try first, then the rows (if it declined)
+        assert 1 <= len(results) <= 2 and results[-1] is not None
         rows = [line.strip() for line in content.decode().replace("\r\n", "\n").replace("\r", "\n")
                 .split("\n")]
         body = [rows[n - 1] for n in outcome[8]]
         sep = ";" if ";" in body[0] else "," if "," in body[0] else None
         written = [[float(cell) for cell in row.split(sep)] for row in body]
-        np.testing.assert_array_equal(results[0], written)
+        np.testing.assert_array_equal(results[-1], written)
 
 
 @pytest.mark.parametrize("rows, delimiter", [

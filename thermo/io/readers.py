@@ -47,7 +47,7 @@ from .unit_statements import HEADER_CELL, frequency_unit
 from .workbook import xlsx_rows, xlsx_titles
 from .fastpath import chunked_array
 from .fastpath import fast_array as _fast_array
-from .limits import check_column_count, check_row_count, check_xlsx_size
+from .limits import MAX_ROWS, check_column_count, check_row_count, check_xlsx_size
 
 #: Characters that start a comment line.
 COMMENT_CHARS = ("#", "!", "%")
@@ -162,7 +162,11 @@ def read_table(source, name: str | None = None, sheet=None) -> RawTable:
         check_xlsx_size(raw, display)
         rows, sheet_name = xlsx_rows(raw, display, sheet)
     else:
-        rows = _text_rows(decode_text(raw, display))
+        text = decode_text(raw, display)
+        plain = _plain_body(text)
+        if plain is not None:     # a clean numeric body: converted at once, no Python step per line
+            return _raw_table(*plain, display, digest, None)
+        rows = _text_rows(text)
     check_row_count(len(rows), display)
     comments, candidates = _split_comments(rows)
     if is_xlsx:
@@ -185,6 +189,10 @@ def read_table(source, name: str | None = None, sheet=None) -> RawTable:
         data, lines = _to_array(cells, display)
     else:
         lines = list(map(itemgetter(0), candidates))
+    return _raw_table(data, lines, header, split, comments, display, digest, sheet_name)
+
+
+def _raw_table(data, lines, header, split, comments, display, digest, sheet_name):
     check_column_count(data.shape[1], display)
     names = _column_names(header, data.shape[1], split)
     unit, mentions = frequency_unit(names[0] if header else None, comments, data.shape[1],
@@ -193,6 +201,56 @@ def read_table(source, name: str | None = None, sheet=None) -> RawTable:
                     sha256=digest, line_numbers=lines,
                     comments=[text for _, text in comments], unit_mentions=mentions,
                     sheet=sheet_name)
+
+
+#: Lines looked at for comments and a header before the data start (one-pass path only).
+_HEAD_SCAN_LINES = 1000
+_PLAIN_ROW = re.compile(r"[0-9.eEdD+\- \t,;]+")
+
+
+def _plain_body(text):
+    """``(data, lines, header, split, comments)`` when every row from the first data row on is plain, else None.
+
+    Plain: decimal cells only (no comment, blank line, quote, other line break
+    than ``\n`` or ``\r\n``) after at most one header row and any comments.
+    Then the body is converted in one pass without a Python step per line.
+    Anything else returns None and the general path reads the file, which
+    gives the same table (or error) on any input.
+    """
+    start, number, head_rows = 0, 1, 0
+    for match in _LINE_BREAK.finditer(text):
+        row = text[start:match.start()].strip()
+        if row and not row.startswith(COMMENT_CHARS):
+            if _PLAIN_ROW.fullmatch(row) and _NUMBER.match(row):
+                break
+            head_rows += 1
+            if head_rows > 1:
+                return None
+        start, number = match.end(), number + 1
+        if number > _HEAD_SCAN_LINES:
+            return None
+    else:
+        return None          # no data row followed by a line break: small, the general path reads it
+    head, body = text[:start], text[start:].rstrip()
+    if "\r" in body:
+        if body.count("\r") != body.count("\r\n"):
+            return None
+        body = body.replace("\r\n", "\n")
+    count = body.count("\n") + 1
+    rows = _text_rows(head)
+    if len(rows) + count > MAX_ROWS:
+        return None
+    comments, candidates = _split_comments(rows)
+    first = body[:body.find("\n")] if count > 1 else body
+    delimiter = _choose_delimiter(candidates + [(number, first.strip())])
+    split = _splitter(delimiter)
+    header = candidates[0] if candidates else None
+    if header is not None and all(_looks_numeric(c) or c == "" for c in split(header[1])):
+        return None          # a numeric-looking row that is not plain: the per-cell parser names it
+    data = _fast_array([body], delimiter)
+    if data is None or len(data) != count:   # a cell to name, or blank lines inside (line numbers)
+        return None
+    return data, list(range(number, number + count)), header, split, comments
 
 
 # ----------------------------------------------------------------------------

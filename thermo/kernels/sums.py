@@ -114,15 +114,16 @@ def thermal_sums(dos, temperatures, method="auto"):
     t = np.atleast_1d(np.asarray(temperatures, dtype=float))
     hot = t > 0
     out = {key: np.zeros_like(t) for key in SUM_KEYS}
+    weights = mode_weights(dos.frequency_thz, dos.dos)
     if hot.any():
-        parts = [grid_sums(dos.frequency_thz, mode_weights(dos.frequency_thz, dos.dos), t[hot], method)]
+        parts = [grid_sums(dos.frequency_thz, weights, t[hot], method)]
         if dos.low_frequency is not None:
             fit = dos.low_frequency
             parts.append(analytic_part_sums(fit, t[hot]))
         for key in SUM_KEYS:
             out[key][hot] = sum(p[key] for p in parts)
     out["entropy"] = out["thermal_energy"] + out["log_partition"]
-    zp = float(np.sum(mode_weights(dos.frequency_thz, dos.dos) * dos.frequency_thz)) / 2
+    zp = float(np.sum(weights * dos.frequency_thz)) / 2
     if dos.low_frequency is not None:
         zp += dos.low_frequency.analytic_moment(1) / 2
     out["zero_point_thz"] = zp
