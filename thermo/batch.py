@@ -138,12 +138,12 @@ def expand_inputs(patterns, exclude_dir=None, pattern=None, skipped=None):
     return found
 
 
-def output_names(inputs, fmt, outdir):
+def output_names(inputs, fmt, outdir, reserved=()):
     """A distinct output file name for each input: ``<stem>.<fmt>``.
 
     A stem met before, a name that would land on an input file, or the name
-    of the index (:data:`INDEX_NAME`, any letter case) gets ``-2``, ``-3``,
-    ... appended.
+    of the index (:data:`INDEX_NAME`, any letter case) or of another file of
+    the run (``reserved``) gets ``-2``, ``-3``, ... appended.
 
     Examples
     --------
@@ -152,7 +152,7 @@ def output_names(inputs, fmt, outdir):
     """
     out = Path(outdir).resolve()
     inputs_resolved = {Path(p).resolve() for p in inputs}
-    taken, names = {INDEX_NAME.lower()}, []   # a table never takes the index's name
+    taken, names = {INDEX_NAME.lower(), *(r.lower() for r in reserved)}, []   # never the index's name
     for source in inputs:
         stem = Path(source).stem or "table"
         name, count = f"{stem}.{fmt}", 1
@@ -231,8 +231,8 @@ def check_targets(targets, index_path, force):
                           "(choose another output directory, or --force to replace them)")
 
 
-def write_index(rows, path, force=False):
-    """Write the index rows as CSV (columns :data:`INDEX_COLUMNS`).
+def write_index(rows, path, force=False, columns=INDEX_COLUMNS):
+    """Write the index rows as CSV (columns :data:`INDEX_COLUMNS` unless ``columns`` says otherwise).
 
     Text cells that a spreadsheet would read as a formula get a leading
     ``'`` (:func:`thermo.io.writers.neutralised_cell`); a symbolic link in
@@ -249,16 +249,17 @@ def write_index(rows, path, force=False):
     from .io.writers import neutralised_cell, write_file
 
     buffer = io.StringIO()
-    writer = csv.DictWriter(buffer, fieldnames=INDEX_COLUMNS, lineterminator="\n")
+    writer = csv.DictWriter(buffer, fieldnames=columns, lineterminator="\n")
     writer.writeheader()
     for row in rows:   # file names and messages may start like a formula: neutralised (OWASP)
-        writer.writerow({k: neutralised_cell(row.get(k, "")) for k in INDEX_COLUMNS})
+        writer.writerow({k: neutralised_cell(row.get(k, "")) for k in columns})
     target = Path(path)
     write_file(target, buffer.getvalue().encode("utf-8"), overwrite=force)
     return target
 
 
-def _progress_bar(total, enabled):
+def progress_bar(total, enabled):
+    """A tqdm bar on stderr when it is a terminal and ``enabled``, else None."""
     if not (enabled and sys.stderr.isatty()):
         return None
     from tqdm import tqdm     # a runtime requirement: a missing install fails loudly
@@ -337,7 +338,7 @@ def run_batch(inputs, outdir, options, workers=None, progress=True, pattern=None
     out.mkdir(parents=True, exist_ok=True)
 
     jobs = list(zip(sources, targets))
-    bar = _progress_bar(len(jobs), progress)
+    bar = progress_bar(len(jobs), progress)
     try:
         rows = run_jobs(process_file, jobs, (options,), executor=executor, workers=workers, lost=_lost,
                         done=None if bar is None else bar.update)

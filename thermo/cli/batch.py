@@ -1,6 +1,11 @@
-"""``modeheat batch``: a table for every DOS file of directories or glob patterns.
+"""``modeheat batch``: a table for every DOS file of directories or glob patterns, or a campaign.
 
-Exit status: 0 when every file gave a table, 1 when some failed (each one is
+``--kind table`` (default): one harmonic table per DOS file.  ``--kind
+quasiharmonic``: one quasi-harmonic table per manifest, and with ``--form``
+the polynomial of each in one merged coefficient file.  ``--kind polynomial``:
+the polynomial of each DOS's harmonic C_p, in one merged coefficient file.
+
+Exit status: 0 when every file gave its result, 1 when some failed (each one is
 reported on stderr and in ``index.csv``), 2 for bad options (nothing written).
 """
 
@@ -11,6 +16,8 @@ from pathlib import Path
 
 from ..temperatures import parse_temperatures
 from .options import add_input_options, add_table_options, add_temperature_option, check_digits
+from .polynomial import add_fit_options
+from .quasiharmonic import add_step_options
 
 
 def register(sub):
@@ -23,6 +30,19 @@ def register(sub):
                         "DOS kinds .dat .txt .csv .tsv .dos .xlsx); other files are reported as skipped")
     p.add_argument("--workers", type=int, metavar="N",
                    help="worker processes (default: the number of cores)")
+    p.add_argument("--kind", default="table", choices=["table", "quasiharmonic", "polynomial"],
+                   help="table: a harmonic table per DOS file (default); quasiharmonic: the inputs are "
+                        "manifests (directories give their *.csv), a quasi-harmonic table each, and with --form "
+                        "their polynomials in one merged file; polynomial: a polynomial of each DOS's harmonic "
+                        "C_p, all in one merged file")
+    campaign = p.add_argument_group("campaigns (--kind quasiharmonic or polynomial)")
+    add_step_options(campaign)
+    add_fit_options(campaign, form_default=None,
+                    form_help="polynomial form fitted to each result (polynomial: default shomate; "
+                              "quasiharmonic: no fit unless given)")
+    campaign.add_argument("--coefficients", default="json", choices=["json", "csv"],
+                          help="format of the merged coefficient file coefficients.json|csv (default json), "
+                               "with the provenance of every input")
     p.add_argument("--scheduler", metavar="ADDRESS",
                    help="run on a running Dask cluster instead of local processes, e.g. tcp://10.0.0.5:8786 "
                         "(needs pip install 'modeheat[cluster]'; the workers must reach the input and "
@@ -38,6 +58,8 @@ def run(args) -> int:
         raise OptionError("batch needs --output OUTDIR")
     if args.workers is not None and args.workers < 1:
         raise OptionError("--workers must be at least 1")
+    if args.kind != "table":
+        return _campaign(args)
     options = BatchOptions(
         temperatures=tuple(parse_temperatures(args.temperatures).tolist()),
         freq_unit=args.freq_unit, atoms=args.atoms, negative=args.negative,
@@ -58,6 +80,36 @@ def run(args) -> int:
     tried = len(done) + len(failed)
     print(f"{len(done)} of {_count(tried, 'table')} written to {args.output}; "
           f"see {INDEX_NAME} there", file=sys.stderr)
+    return 1 if failed else 0
+
+
+def _campaign(args) -> int:
+    from ..batch import INDEX_NAME
+    from ..campaign import CampaignOptions, run_campaign
+    from ..errors import OptionError
+    from .models import parse_fit_range
+
+    if args.per != "formula" or args.formula:
+        raise OptionError(f"--per and --formula apply to --kind table; {args.kind} results are per mole of "
+                          "formula units")
+    form = args.form or ("shomate" if args.kind == "polynomial" else None)
+    options = CampaignOptions(
+        kind=args.kind, temperatures=tuple(parse_temperatures(args.temperatures).tolist()),
+        freq_unit=args.freq_unit, atoms=args.atoms, negative=args.negative, low_frequency=args.low_frequency,
+        pressure_gpa=args.pressure, eos=args.eos, form=form, fit_range=parse_fit_range(args.range), mid=args.mid,
+        formation_enthalpy=args.formation_enthalpy, phase=args.phase, fmt=args.format or "csv",
+        digits=check_digits(args.digits), force=args.force)
+    with _executor(args.scheduler) as executor:
+        results = run_campaign(args.file, args.output, options, workers=args.workers, progress=True,
+                               pattern=args.pattern, executor=executor, coefficients=args.coefficients)
+    rows = [r["row"] for r in results]
+    failed = [row for row in rows if row["status"] == "failed"]
+    for row in failed:
+        print(f"failed: {row['error']}", file=sys.stderr)
+    fits = sum(r["entry"] is not None for r in results)
+    merged = f"; {_count(fits, 'fit')} in coefficients.{args.coefficients}" if form else ""
+    print(f"{len(rows) - len(failed)} of {_count(len(rows), 'input')} done{merged}; see {INDEX_NAME} in "
+          f"{args.output}", file=sys.stderr)
     return 1 if failed else 0
 
 

@@ -17,21 +17,27 @@ def register(sub):
                         "optional entropy_J_per_mol_K; CSV or a modeheat JSON export) instead of a DOS")
     p.add_argument("--entropy-298", type=float, metavar="S",
                    help="S(298.15 K) in J/(mol K) for a --cp-table without an entropy column")
-    p.add_argument("--form", default="shomate", choices=["shomate", "nasa7", "sgte"],
-                   help="polynomial form (default shomate)")
-    p.add_argument("--range", default="298.15:1500", metavar="LO:HI", help="fit range in K (default 298.15:1500)")
-    p.add_argument("--mid", type=float, metavar="T",
-                   help="common midpoint of two ranges in K: nasa7 always has two (default: geometric mean "
-                        "of the range, to 10 K); shomate and sgte get two ranges only with --mid")
-    p.add_argument("--formation-enthalpy", type=float, default=0.0, metavar="KJ_PER_MOL",
-                   help="enthalpy of formation at 298.15 K in kJ/mol (default 0: an element in its reference state)")
-    p.add_argument("--phase", default="cr", metavar="LABEL", help="phase label, e.g. cr, alpha (default cr)")
+    add_fit_options(p)
     p.add_argument("--formula", help="chemical formula of the formula unit (needed for yaml: the composition)")
     p.add_argument("--format", default="json", choices=["json", "csv", "yaml"],
                    help="json (default), csv (one row per coefficient) or yaml (Cantera species block)")
     p.add_argument("--output", metavar="PATH", help="write here (default: stdout)")
     p.add_argument("--force", action="store_true", help="replace an existing output file")
     p.set_defaults(func=run)
+
+
+def add_fit_options(parser, form_default="shomate", form_help="polynomial form (default shomate)"):
+    """Add ``--form``, ``--range``, ``--mid``, ``--formation-enthalpy`` and ``--phase`` (also used by ``batch``)."""
+    parser.add_argument("--form", default=form_default, choices=["shomate", "nasa7", "sgte"], help=form_help)
+    parser.add_argument("--range", default="298.15:1500", metavar="LO:HI",
+                        help="fit range in K (default 298.15:1500)")
+    parser.add_argument("--mid", type=float, metavar="T",
+                        help="common midpoint of two ranges in K: nasa7 always has two (default: geometric mean "
+                             "of the range, to 10 K); shomate and sgte get two ranges only with --mid")
+    parser.add_argument("--formation-enthalpy", type=float, default=0.0, metavar="KJ_PER_MOL",
+                        help="enthalpy of formation at 298.15 K in kJ/mol (default 0: an element in its "
+                             "reference state)")
+    parser.add_argument("--phase", default="cr", metavar="LABEL", help="phase label, e.g. cr, alpha (default cr)")
 
 
 def load_source(args, t_range):

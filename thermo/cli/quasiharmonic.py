@@ -21,14 +21,19 @@ def register(sub):
                            "energy_kJ_per_mol) and dos_file (relative to the manifest, or ws:NAME for a dataset of the workspace), one row per volume; "
                            "optional electronic_dos_file (metals: the electronic DOS at that volume adds F_el(V,T))")
     add_temperature_option(p, default=_DEFAULT_TEMPERATURES)
-    p.add_argument("--pressure", type=float, default=0.0, metavar="GPa", help="pressure p in GPa (default 0)")
-    p.add_argument("--eos", default="birch-murnaghan", choices=["birch-murnaghan", "vinet"],
-                   help="equation of state fitted to F(V) at each temperature (default birch-murnaghan)")
+    add_step_options(p)
     p.add_argument("--imaginary-tolerance", type=float, default=None, metavar="SHARE",
                    help="list volumes whose imaginary-mode share exceeds this fraction (default 0.01)")
     add_table_options(p, "write here (default: stdout for csv/json)")
     add_electronic_reading_options(p)
     p.set_defaults(func=run)
+
+
+def add_step_options(parser):
+    """Add ``--pressure`` and ``--eos`` (the quasi-harmonic step; also ``batch --kind quasiharmonic``)."""
+    parser.add_argument("--pressure", type=float, default=0.0, metavar="GPa", help="pressure p in GPa (default 0)")
+    parser.add_argument("--eos", default="birch-murnaghan", choices=["birch-murnaghan", "vinet"],
+                        help="equation of state fitted to F(V) at each temperature (default birch-murnaghan)")
 
 
 def run(args) -> int:
