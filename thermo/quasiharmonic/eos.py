@@ -24,7 +24,7 @@ from scipy import constants as sc
 
 from ..errors import OptionError
 from .splines import CardinalSpline
-from .vinet import fit_vinet, vinet_bulk_modulus, vinet_energy, vinet_pressure
+from .vinet import fit_vinet, vinet_bulk_modulus, vinet_energy, vinet_pressure, vinet_weights
 
 #: GPa per eV/Å³.
 GPA_PER_EV_A3 = sc.electron_volt / sc.angstrom ** 3 / sc.giga
@@ -144,7 +144,8 @@ class EosFit:
     Notes
     -----
     Birch–Murnaghan and spline are curves in :math:`x = (V_{ref}/V)^{2/3}`:
-    :math:`P = rac{2x}{3V}F_x` and :math:`B = rac{2x}{9V}\left(5F_x + 2xF_{xx}ight)`.
+    :math:`P = rac{2x}{3V}F_x` and :math:`B = rac{2x}{9V}\left(5F_x + 2xF_{xx}
+ight)`.
     """
 
     kind: str
@@ -189,7 +190,8 @@ class EosFit:
     def weights(self, volume):
         r"""Weights of the K sampled F values in F, dF/dV and d²F/dV² at ``volume`` (M,), each (M, K).
 
-        Only for the forms linear in the data (Birch–Murnaghan, spline).
+        Exact for the forms linear in the data (Birch–Murnaghan, spline); to
+        first order for Vinet (:func:`~thermo.quasiharmonic.vinet.vinet_weights`).
 
         Notes
         -----
@@ -197,17 +199,17 @@ class EosFit:
         :math:`w_V = w_x x_V`, :math:`w_{VV} = w_{xx}x_V^2 + w_x x_{VV}`.
         """
         v = np.asarray(volume, dtype=float)
+        if self.kind == "vinet":
+            return vinet_weights(self.volumes, self.parameters, v)
         x = (self.polynomial.reference / v) ** (2.0 / 3.0)
         if self.kind == "birch-murnaghan":
             inverse = np.linalg.pinv(strain_basis(self.volumes, self.polynomial.reference))      # (4, K)
             ones, zeros = np.ones_like(x), np.zeros_like(x)
             w = [np.stack(b, axis=-1) @ inverse for b in ((ones, x, x * x, x ** 3), (zeros, ones, 2 * x, 3 * x * x),
                                                            (zeros, zeros, 2 * ones, 6 * x))]
-        elif self.kind == "spline":
+        else:
             spline = self._spline()
             w = [spline.weights(x, order) for order in (0, 1, 2)]
-        else:
-            raise ValueError("weights exist only for the linear forms (birch-murnaghan, spline)")
         xv, xvv = (-2.0 * x / (3.0 * v))[:, None], (10.0 * x / (9.0 * v * v))[:, None]
         return w[0], w[1] * xv, w[2] * xv * xv + w[1] * xvv
 

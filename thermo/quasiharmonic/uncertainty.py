@@ -8,8 +8,9 @@ smaller than the real error):
 (:func:`thermo.accuracy.rows.harmonic_row_errors`) carried through the
 minimisation to first order, each volume and each of F, S, C_v with the
 sign that hurts most: :math:`\delta q = \sum_k\sum_y |\partial q/\partial y_k|\,\delta y_k`.
-The fit's weights come from the two forms linear in the data
-(Birch–Murnaghan and spline; the larger result is kept).
+The weights are those of the chosen form (exact for Birch–Murnaghan and
+spline, which are linear in the data; to first order for Vinet) and of the
+splines that carry S and C_v.
 
 *equation of state* — the largest change when the other forms
 (Birch–Murnaghan, Vinet, spline) replace the chosen one.
@@ -47,7 +48,6 @@ QUANTITY = {"volume": "volume", "alpha": "thermal_expansion", "bulk_modulus": "b
             "enthalpy": "enthalpy", "gamma": "gruneisen_parameter"}
 #: Parts of the estimate.
 PARTS = ("harmonic", "equation_of_state", "volume_sampling", "edge")
-_LINEAR = ("birch-murnaghan", "spline")
 
 
 def derived(path, temperatures):
@@ -111,7 +111,7 @@ def path_uncertainty(surface, path, pressure_ev_a3):
         harmonic = zero
         warnings.append("the harmonic error of each volume was not estimated; the uncertainty leaves it out")
     else:
-        harmonic = _largest([_harmonic(surface, path, main, pressure_ev_a3, kind) for kind in _LINEAR])
+        harmonic = _harmonic(surface, path, main)
     forms = [derived(path_values(surface.refit(kind), pressure_ev_a3), t)
              for kind in EOS_KINDS if kind != surface.fit.kind]
     eos = _spread(forms, main)
@@ -127,10 +127,6 @@ def path_uncertainty(surface, path, pressure_ev_a3):
     total = {k: sum(parts[p][k] for p in PARTS) for k in KEYS}
     total = {k: np.where(np.isfinite(main[k]), v, np.nan) for k, v in total.items()}
     return {**total, "parts": parts, "summary": _summary(parts, main, total), "warnings": warnings}
-
-
-def _largest(estimates):
-    return {k: np.maximum.reduce([e[k] for e in estimates]) for k in KEYS}
 
 
 def _spread(variants, main):
@@ -159,12 +155,12 @@ def _edge(volumes, main, left_out):
     return out
 
 
-def _harmonic(surface, path, main, p, kind):
-    """First-order worst case of the per-volume F, S, C_v errors through the ``kind`` fit (linear form)."""
+def _harmonic(surface, path, main):
+    """First-order worst case of the per-volume F, S, C_v errors through the chosen fit and the carriers."""
     t = surface.temperatures_k
     ok = np.isfinite(main["volume"])
     v = np.where(ok, main["volume"], np.median(surface.volumes_a3))
-    fit = surface.fit if surface.fit.kind == kind else surface.refit(kind).fit
+    fit = surface.fit
     errors = surface.errors
     b = np.where(ok, main["bulk_modulus"], 1.0)
     step = 1e-4 * v
@@ -175,7 +171,8 @@ def _harmonic(surface, path, main, p, kind):
     dc0, _ = c_carrier.sensitivities(v)
     s2 = s_carrier.second_derivative(v)[:, None]
     c1 = c_carrier.derivative(v)[:, None]
-    alpha, cv = np.where(ok, main["alpha"], 0.0)[:, None], np.where(ok, main["cv"], 1.0)[:, None]
+    alpha = np.where(ok, main["alpha"], 0.0)[:, None]
+    cv = np.where(ok & (main["cv"] > 0), main["cv"], np.inf)[:, None]       # γ is not defined at C_v = 0
     vv, bb = v[:, None], b[:, None]
     d_f, d_s, d_c = (np.nan_to_num(errors[k]).T for k in ("helmholtz", "entropy", "heat_capacity"))   # (M, K)
     dv = -w1 * d_f * vv / bb

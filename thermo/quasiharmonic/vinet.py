@@ -67,6 +67,60 @@ def vinet_bulk_modulus(volume, v0, b0, b0_prime):
     return b0 / eta ** 2 * np.exp(xi * (1.0 - eta)) * (2.0 - eta + xi * eta * (1.0 - eta))
 
 
+def vinet_weights(volumes, params, volume):
+    r"""First-order weights of the K fitted F values in F, dF/dV, d²F/dV² of the Vinet fit at ``volume``.
+
+    Parameters
+    ----------
+    volumes : numpy.ndarray, shape (K,)
+        Sampled volumes [Å³].
+    params : numpy.ndarray, shape (4, M)
+        Fitted E_0, V_0, B_0, B_0'.
+    volume : numpy.ndarray, shape (M,)
+        Where the weights are wanted [Å³].
+
+    Returns
+    -------
+    tuple of numpy.ndarray, each (M, K)
+
+    Notes
+    -----
+    The least-squares parameters move by :math:`\delta p = (J^TJ)^{-1}J^T\delta F`
+    (J: derivatives of the K fitted energies by the parameters, at the
+    solution); each derivative of F at V moves by its own derivative by p
+    times :math:`\delta p` [2]_.  Parameter derivatives by central differences.
+
+    Examples
+    --------
+    >>> v = np.linspace(17.0, 23.0, 9)
+    >>> p = np.array([[-2.0], [20.0], [0.55], [4.7]])
+    >>> w0, w1, w2 = vinet_weights(v, p, np.array([20.0]))
+    >>> round(float(w0.sum()), 9)      # adding a constant to every F moves E_0 by that constant
+    1.0
+    """
+    p = np.asarray(params, dtype=float)
+    step = 1e-6 * (np.abs(p) + np.array([1.0, 0.0, 0.0, 0.0])[:, None])
+    vol = np.asarray(volume, dtype=float)
+
+    def local(q):
+        e0, v0, b0, bp = q
+        return np.stack([vinet_energy(vol, e0, v0, b0, bp), -vinet_pressure(vol, v0, b0, bp),
+                         vinet_bulk_modulus(vol, v0, b0, bp) / vol])           # (3, M)
+
+    jac, dlocal = [], []
+    for i in range(4):
+        delta = np.zeros_like(p)
+        delta[i] = step[i]
+        jac.append((vinet_energy(volumes[:, None], *(p + delta)) - vinet_energy(volumes[:, None], *(p - delta)))
+                   / (2 * step[i]))                                                 # (K, M)
+        dlocal.append((local(p + delta) - local(p - delta)) / (2 * step[i]))        # (3, M)
+    j = np.moveaxis(np.array(jac), (0, 1, 2), (2, 1, 0))                            # (M, K, 4)
+    with np.errstate(all="ignore"):
+        gain = np.linalg.pinv(j)                                                    # (M, 4, K)
+    d = np.moveaxis(np.array(dlocal), (0, 1, 2), (2, 0, 1))                         # (3, M, 4)
+    return tuple(np.einsum("mi,mik->mk", d[n], gain) for n in range(3))
+
+
 def fit_vinet(v, f, start):
     """Vinet parameters (4, M) fitted to F (K, M) at volumes ``v`` (K,), from ``start`` (4, M).
 
