@@ -109,8 +109,8 @@ def harmonic_source(dos, t_min, t_max, points=400, errors=True):
     -----
     In the harmonic crystal at zero pressure :math:`C_p = C_v` and
     :math:`H = U` (no thermal expansion, :math:`PV` negligible for a solid
-    at 1 bar) [1]_, so :math:`H - H_{298.15} = U(T) - U(298.15\,\mathrm{K})`,
-    with error :math:`\delta U(T) + \delta U(298.15\,\mathrm{K})`.
+    at 1 bar) [1]_, so :math:`H - H_{298.15} = U(T) - U(298.15\,\mathrm{K}) = \int_{298.15}^T C_v\,dT'`,
+    with error :math:`|\int_{298.15}^T \delta C_v\,dT'|` (0 at 298.15 K, where the increment is 0 by definition).
 
     Examples
     --------
@@ -133,9 +133,9 @@ def harmonic_source(dos, t_min, t_max, points=400, errors=True):
     if errors:
         from ..accuracy.rows import harmonic_row_errors
         e = harmonic_row_errors(dos, temps)
-        du = e["internal_energy"]
+        increment = CubicSpline(temps, e["heat_capacity_v"]).antiderivative()
         uncertainty = {"heat_capacity": e["heat_capacity_v"][keep], "entropy": e["entropy"][keep],
-                       "enthalpy_increment": (du + float(np.interp(T_STANDARD, temps, du)))[keep]}
+                       "enthalpy_increment": np.abs(increment(temps) - increment(T_STANDARD))[keep]}
     return HeatCapacityData(temps[keep], table[find(table, "heat_capacity_v", "formula")].to_numpy()[keep],
                             table[find(table, "entropy", "formula")].to_numpy()[keep],
                             (u - u_ref)[keep], f"harmonic table of {dos.source.get('name') or 'the DOS'}", notes,
