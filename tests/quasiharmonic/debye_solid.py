@@ -32,6 +32,7 @@ R_PER_KB_EV = sc.N_A * sc.electron_volt                   # J/(mol K) per eV/K (
 VOLUMES = np.linspace(0.96 * V0, 1.06 * V0, 11)
 
 mp.mp.dps = 30
+_KB = mp.mpf(KB_EV)
 
 
 def debye_d3(x):
@@ -80,8 +81,14 @@ class Solid:
     @lru_cache(maxsize=None)
     def reference(self, t):
         """V [Å³], α [1/K], B_T [GPa], C_p, C_v [eV/K] from minimising F(V,T) at p = 0 (T > 0)."""
+        return self.reference_with(t)
+
+    def reference_with(self, t, extra=None):
+        """As :meth:`reference`, with ``extra(v, t)`` [eV] (mpmath) added to F, e.g. an electronic free energy."""
         t = mp.mpf(t)
-        f = self.helmholtz
+
+        def f(w, s):
+            return self.helmholtz(w, s) + (extra(w, s) if extra is not None else 0)
         v = mp.findroot(lambda w: mp.diff(lambda u: f(u, t), w), mp.mpf(V0) * 1.01)
         f_vv = mp.diff(lambda w: f(w, t), v, 2)
         f_vt = mp.diff(lambda w, s: f(w, s), (v, t), (1, 1))
@@ -121,9 +128,11 @@ def helmholtz(v, t):
     return DEFAULT.helmholtz(v, t)
 
 
-def reference(t):
-    """V [Å³], α [1/K], B_T [GPa], C_p, C_v [eV/K] of the default solid at p = 0."""
-    return DEFAULT.reference(float(t))
+def reference(t, extra=None):
+    """V [Å³], α [1/K], B_T [GPa], C_p, C_v [eV/K] of the default solid at p = 0.
+
+    ``extra(v, t)`` [eV] (mpmath) is added to F, e.g. an electronic free energy."""
+    return DEFAULT.reference(float(t)) if extra is None else DEFAULT.reference_with(float(t), extra)
 
 
 def volume_entries(points=2001):

@@ -124,3 +124,26 @@ def test_error_columns_follow_the_basis(entries):
     assert atom.gibbs_energy_error_meV_per_atom[0] == pytest.approx(
         mol.gibbs_energy_error_kJ_per_mol[0] * 1e6 / (sc.N_A * sc.electron_volt))
     assert "volume_error_A3" not in quasiharmonic_table(entries["five_volumes_edge"], [300.0]).columns
+
+
+def test_uncertainty_covers_a_metal_with_the_electronic_part():
+    # The free-electron gas of tests/electronic/test_quasiharmonic.py (Sommerfeld F_el, Ashcroft &
+    # Mermin 1976, ch. 2) on the default Debye solid: the electronic part joins the surface with its
+    # own numerical error, and the ± still covers the directly minimised reference for V, α, B_T.
+    # C_v and C_p are not compared: the Sommerfeld reference drops the (k_BT/E_F)² order, 9e-4 of
+    # C_el at 600 K, which is the reference's error, not the tool's.
+    from tests.electronic.test_quasiharmonic import electronic_table, sommerfeld_free_energy
+    from tests.quasiharmonic import debye_solid as ds
+    from thermo.electronic import make_electronic_dos
+    from thermo.quasiharmonic import make_volume_set
+    from thermo.quasiharmonic.surface import free_energy_surface
+    temperatures = [100.0, 600.0]
+    entries = [(v, e, dos, dos.source.get("name"), make_electronic_dos(*electronic_table(v)))
+               for v, e, dos in ds.volume_entries(points=801)]
+    volume_set = make_volume_set(entries)
+    assert free_energy_surface(volume_set, temperatures, errors=True).parts["electronic"].errors is not None
+    table = quasiharmonic_table(volume_set, temperatures, errors=True)
+    rows = [ds.reference(t, extra=sommerfeld_free_energy) for t in temperatures]
+    for key, column, error in CHECKED[:3]:
+        miss = np.abs(table[column].to_numpy() - np.array([r[key] for r in rows]))
+        assert np.all(miss <= table[error].to_numpy()), (column, miss, table[error].to_numpy())

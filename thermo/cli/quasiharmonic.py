@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import sys
 
+from .electronic import add_electronic_reading_options, electronic_options
 from .options import add_input_options, add_table_options, add_temperature_option, emit_table, output_plan
 
 #: 0 to 1000 K every 10 K plus the standard 298.15 K (common practice in thermochemical tables).
@@ -19,7 +20,8 @@ def register(sub):
         if action.dest == "file":
             action.metavar = "MANIFEST"
             action.help = ("volume set: CSV with volume_A3, energy_eV (or energy_Ry/energy_Ha/"
-                           "energy_kJ_per_mol) and dos_file (relative to the manifest, or ws:NAME for a dataset of the workspace), one row per volume")
+                           "energy_kJ_per_mol) and dos_file (relative to the manifest, or ws:NAME for a dataset of the workspace), one row per volume; "
+                           "optional electronic_dos_file (metals: the electronic DOS at that volume adds F_el(V,T))")
         if action.dest == "temperatures":
             action.help = ("START:STOP:STEP in K (STOP included), a comma list, or both mixed "
                            f"(default {_DEFAULT_TEMPERATURES}: 0 to 1000 K every 10 K plus the standard 298.15 K)")
@@ -34,6 +36,7 @@ def register(sub):
     p.add_argument("--imaginary-tolerance", type=float, default=None, metavar="SHARE",
                    help="list volumes whose imaginary-mode share exceeds this fraction (default 0.01)")
     add_table_options(p, "write here (default: stdout for csv/json)")
+    add_electronic_reading_options(p)
     p.set_defaults(func=run)
 
 
@@ -51,7 +54,8 @@ def run(args) -> int:
     plan = output_plan(args)
     volume_set = read_manifest(args.file, freq_unit=args.freq_unit, atoms=args.atoms,
                                negative=args.negative, low_frequency=args.low_frequency,
-                               resolve=_workspace_resolver(args))
+                               resolve=_workspace_resolver(args),
+                               electronic_options=electronic_options(args))
     table = quasiharmonic_table(volume_set, temperatures, pressure_gpa=args.pressure, eos=args.eos,
                                 per=args.per, formula=args.formula, imaginary_tolerance=tolerance,
                                 errors=args.errors)

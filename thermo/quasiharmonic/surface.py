@@ -178,7 +178,11 @@ def free_energy_surface(volume_set, temperatures, eos="birch-murnaghan", method=
 
     Notes
     -----
-    .. math:: F(V,T) = E(V) + F_{vib}(V,T) + \sum F_{other}(V,T)
+    .. math:: F(V,T) = E(V) + F_{vib}(V,T)\;[+\,F_{el}(V,T)] + \sum F_{other}(V,T)
+
+    with the electronic free energy of :func:`thermo.electronic.thermodynamics.volume_rows`
+    when the volume set carries an electronic DOS at each volume (its numerical errors join the
+    harmonic ones with ``errors``).
 
     Examples
     --------
@@ -194,6 +198,10 @@ def free_energy_surface(volume_set, temperatures, eos="birch-murnaghan", method=
     eos = check_eos(eos)
     all_parts = {"static": SurfacePart(np.asarray(volume_set.energies_ev, dtype=float)[:, None]),
                  "vibrational": vibrational_part(volume_set.doses, t, method, errors)}
+    if getattr(volume_set, "electronic", ()):     # metals: + F_el(V,T) from the electronic DOS at each volume
+        from ..electronic.thermodynamics import volume_rows
+        el = volume_rows(volume_set.electronic, t, errors=errors)
+        all_parts["electronic"] = SurfacePart(el["helmholtz"], el["entropy"], el["heat_capacity"], el["errors"])
     all_parts.update(parts or {})
     surface = FreeEnergySurface(np.asarray(volume_set.volumes_a3, dtype=float), t, all_parts)
     return surface.refit(eos)
