@@ -84,7 +84,7 @@ class Solid:
         return self.reference_with(t)
 
     def reference_with(self, t, extra=None):
-        """As :meth:`reference`, with ``extra(v, t)`` [eV] (mpmath) added to F, e.g. an electronic free energy."""
+        """As :meth:`reference` (plus G = F(V,T) [eV] at p = 0), with ``extra(v, t)`` [eV] (mpmath) added to F, e.g. an electronic free energy."""
         t = mp.mpf(t)
 
         def f(w, s):
@@ -96,13 +96,14 @@ class Solid:
         cv = -t * f_tt
         cp = cv + t * f_vt ** 2 / f_vv          # -T d²G/dT² along V(T)
         return {"V": float(v), "alpha": float(-f_vt / f_vv / v), "B": float(v * f_vv * GPA),
-                "cp": float(cp), "cv": float(cv)}
+                "cp": float(cp), "cv": float(cv), "G": float(f(v, t))}
 
     def references(self, temperatures):
-        """Reference arrays (J/(mol K) for the heat capacities) at ``temperatures``."""
+        """Reference arrays at ``temperatures``: V [Å³], α [1/K], B [GPa], C_p, C_v [J/(mol K)], G [kJ/mol]."""
         rows = [self.reference(float(t)) for t in temperatures]
         out = {k: np.array([r[k] for r in rows]) for k in ("V", "alpha", "B")}
-        out.update(cp=np.array([r["cp"] for r in rows]) * R_PER_KB_EV, cv=np.array([r["cv"] for r in rows]) * R_PER_KB_EV)
+        out.update(cp=np.array([r["cp"] for r in rows]) * R_PER_KB_EV, cv=np.array([r["cv"] for r in rows]) * R_PER_KB_EV,
+                   G=np.array([r["G"] for r in rows]) * R_PER_KB_EV / 1e3, gamma=np.full(len(rows), self.gamma))
         return out
 
     def entries(self, volumes=VOLUMES, points=2001):

@@ -1,8 +1,9 @@
 """The quasi-harmonic ± against a directly minimised Debye solid (truth known; see debye_solid.py).
 
 The solid has γ = 3 and a Morse static energy, so none of the three equations of state is exact
-and S(V) ∝ V^{3γ} at low T is strongly curved.  The reference V, α, B_T, C_p, C_v come from
-mpmath (root of ∂F/∂V, derivatives by mpmath.diff), never from modeheat.  Cases of known truth:
+and S(V) ∝ V^{3γ} at low T is strongly curved.  The reference V, α, B_T, C_p, C_v and G = F(V, T)
+come from mpmath (root of ∂F/∂V, derivatives by mpmath.diff), never from modeheat; the mean
+Grüneisen parameter α B_T V / C_v equals the constant γ of the construction (Grüneisen relation).  Cases of known truth:
 11 volumes spanning ±10 % (the clean case), 5 volumes with the minimum near and beyond the
 upper edge, 5 compressed volumes with every minimum extrapolated, a coarse 101-point DOS, and
 DOS grids of 41-200 points drawn per volume (discretisation errors that differ from volume to
@@ -25,7 +26,9 @@ CHECKED = (("V", "volume_A3", "volume_error_A3"),
            ("alpha", "thermal_expansion_per_K", "thermal_expansion_error_per_K"),
            ("B", "bulk_modulus_T_GPa", "bulk_modulus_T_error_GPa"),
            ("cp", "heat_capacity_p_J_per_mol_K", "heat_capacity_p_error_J_per_mol_K"),
-           ("cv", "heat_capacity_v_J_per_mol_K", "heat_capacity_v_error_J_per_mol_K"))
+           ("cv", "heat_capacity_v_J_per_mol_K", "heat_capacity_v_error_J_per_mol_K"),
+           ("G", "gibbs_energy_kJ_per_mol", "gibbs_energy_error_kJ_per_mol"),
+           ("gamma", "gruneisen_parameter", "gruneisen_parameter_error"))
 CASES = {  # name: (volumes as multiples of V0, points per DOS)
     "eleven_volumes_10_percent": (np.linspace(0.9, 1.1, 11), 2001),
     "five_volumes_edge": (np.linspace(0.97, 1.03, 5), 2001),
