@@ -56,7 +56,7 @@ def _dos_file(rng, volume):
 
 def _manifest(rng):
     """(manifest bytes, files) of one fuzzed volume set."""
-    rows = 40 if rng.random() < 0.01 else rng.choice([5, 5, 5, 6, 7, 9, 11, 3, 4, 0, 1])
+    rows = 40 if rng.random() < 0.01 else rng.choice([5, 5, 5, 5, 6, 7, 11, 3, 4, 0, 1])
     energy = rng.choice(ENERGY_COLUMNS)
     header = ["volume_A3", energy, "dos_file"]
     if rng.random() < 0.15:

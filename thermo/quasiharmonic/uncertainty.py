@@ -144,14 +144,11 @@ def _edge(volumes, main, left_out):
     v = main["volume"]
     h = float(np.mean(np.diff(volumes)))
     below, above = volumes[0] - v, v - volumes[-1]
-    out = {}
-    for k in KEYS:
-        term = np.zeros(v.size)
-        for distance, variant in ((below, left_out[0]), (above, left_out[-1])):
-            change = np.abs(variant[k] - main[k])
-            beyond = np.isfinite(distance) & (distance > 0) & np.isfinite(change)
-            term = np.where(beyond, term + np.where(beyond, distance, 0.0) / h * np.where(beyond, change, 0.0), term)
-        out[k] = term
+    out = {k: np.zeros(v.size) for k in KEYS}
+    for distance, variant in ((below, left_out[0]), (above, left_out[-1])):
+        spacings = np.where(np.isfinite(distance) & (distance > 0), distance, 0.0) / h
+        for k in KEYS:
+            out[k] = out[k] + spacings * np.nan_to_num(np.abs(variant[k] - main[k]))
     return out
 
 
