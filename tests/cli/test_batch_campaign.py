@@ -138,3 +138,19 @@ def test_campaign_options_are_checked_before_any_work(debye_files, tmp_path, cap
     errors = capsys.readouterr().err.strip().splitlines()
     assert len(errors) == 2 and "--per" in errors[0] and "must cover the fit range" in errors[1]
     assert not out.exists()
+
+
+def test_merged_csv_carries_the_coefficient_uncertainties(debye_files, tmp_path):
+    # The harmonic source carries its error estimate; each coefficient's propagated uncertainty is
+    # written beside it, as the single-file polynomial CSV does (same numbers, same fit).
+    folder, _ = debye_files
+    out = tmp_path / "out"
+    run_campaign([folder / "soft.dat"], out, CampaignOptions("polynomial", fit_range=(298.15, 1000.0)),
+                 workers=1, progress=False, coefficients="csv")
+    merged, _ = read_exported_csv(out / "coefficients.csv")
+    assert main(["polynomial", str(folder / "soft.dat"), "--range", "298.15:1000", "--format", "csv",
+                 "--output", str(tmp_path / "single.csv")]) == 0
+    single, _ = read_exported_csv(tmp_path / "single.csv")
+    assert list(merged["coefficient"]) == list(single["coefficient"])
+    np.testing.assert_array_equal(merged["value"], single["value"])
+    np.testing.assert_array_equal(merged["uncertainty"], single["uncertainty"])

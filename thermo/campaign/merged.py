@@ -10,7 +10,8 @@ JSON (default)
 CSV
     The provenance as ``# key: value`` lines, then one row per coefficient:
     ``name, input, form, range, T_min_K, T_max_K, coefficient, value,
-    cp_fit_max_relative_error``.
+    uncertainty, cp_fit_max_relative_error`` (``uncertainty``: the source's
+    uncertainty carried to the coefficient, empty when the source has none).
 
 The top-level provenance lists every input of every entry; its settings are
 the campaign options.
@@ -70,17 +71,17 @@ def merged_text(record, fmt):
     ...        "entries": [{"name": "a", "input": "a.dat", "form": "sgte", "errors": {},
     ...                     "ranges": [{"T_min_K": 298.15, "T_max_K": 1000.0, "coefficients": {"a": 1.5}}]}]}
     >>> merged_text(rec, "csv").splitlines()[-1]
-    'a,a.dat,sgte,0,298.15,1000.0,a,1.5,'
+    'a,a.dat,sgte,0,298.15,1000.0,a,1.5,,'
     """
     if fmt == "json":
         return json.dumps(record, indent=1, allow_nan=False, ensure_ascii=False) + "\n"
     import pandas as pd
 
     from ..io.writers import export_table
-    columns = ["name", "input", "form", "range", "T_min_K", "T_max_K", "coefficient", "value",
+    columns = ["name", "input", "form", "range", "T_min_K", "T_max_K", "coefficient", "value", "uncertainty",
                "cp_fit_max_relative_error"]
     rows = [(e["name"], e["input"], e["form"], k, r["T_min_K"], r["T_max_K"], key, value,
-             e["errors"].get("heat_capacity_p", {}).get("max_relative"))
+             r.get("coefficient_uncertainties", {}).get(key), e["errors"].get("heat_capacity_p", {}).get("max_relative"))
             for e in record["entries"] for k, r in enumerate(e["ranges"]) for key, value in r["coefficients"].items()]
     meta = {**record["provenance"], "failed": record["failed"]}
     return export_table(pd.DataFrame(rows, columns=columns), meta, "csv").decode("utf-8")
