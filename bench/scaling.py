@@ -1,0 +1,142 @@
+"""Issue-30 figures: cost as the work grows, and what a table's provenance and a calorimetry run cost.
+
+p14  provenance of one table (error breakdown recomputed) ÷ the table itself (P1 case), interleaved.
+p15  a 10⁶-row DOS: load (read, validate, prepare) and a 10⁴-temperature table [s].
+p16  a 10³-row DOS at 10⁴ temperatures [s].
+p17  the ``calorimetry`` command on the demo measurement with its DOS, in this process [s].
+scaling  ``tabulate`` time over rows 10³…10⁶ × temperatures 10…10⁴ (and ``load_dos`` per row count),
+         with the fitted exponent (log-log slope) of each axis: the least-squares slope along the
+         axis at the largest value of the other (1 = linear; n·log n reads a little above 1).
+
+The spectra are the invented spring crystal of :mod:`bench.cases`.
+"""
+
+from __future__ import annotations
+
+import tempfile
+import time
+from pathlib import Path
+
+import numpy as np
+
+from . import cases
+from .timing import median_ratio, median_seconds
+
+ROWS = (1_000, 10_000, 100_000, 1_000_000)
+TEMPERATURE_COUNTS = (10, 100, 1_000, 10_000)
+ROOT = Path(__file__).resolve().parents[1]
+
+
+def _text(points):
+    nu, g = cases.spring_crystal(points)
+    return "# frequency (THz) dos (states/THz)\n" + "\n".join(
+        np.char.add(np.char.add(np.char.mod("%.9g", nu), " "), np.char.mod("%.9g", g)).tolist()) + "\n"
+
+
+def _temperatures(count):
+    return np.linspace(1.0, 1500.0, count)
+
+
+def _best(fn, repeat):
+    """Least wall time of ``repeat`` calls after a warm-up [s] (the floor of a shared machine's noise)."""
+    fn()
+    times = []
+    for _ in range(repeat):
+        start = time.perf_counter()
+        fn()
+        times.append(time.perf_counter() - start)
+    return min(times)
+
+
+def p14(repeat=7):
+    """Provenance of a 5,000-point × 1,000-temperature table ÷ the table (median of interleaved ratios)."""
+    from thermo import load_dos, tabulate
+    from thermo.tables import provenance
+    dos = load_dos(_text(5000))
+    t = np.linspace(1.0, 1000.0, 1000)
+    ratio, prov_s, table_s = median_ratio(lambda: provenance(dos, t), lambda: tabulate(dos, t), repeat)
+    return {"p14_provenance_ratio": ratio,
+            "contrast": {"p14_provenance_s": prov_s, "p14_table_s": table_s},
+            "p14_case": "spring crystal, 5,000 points, 1-1000 K in 1,000 steps; provenance includes the error "
+                        "breakdown (two half grids, two alternative windows, fit error)"}
+
+
+def p15_p16(repeat=3):
+    """10⁶-row load, 10⁶ rows × 10⁴ temperatures, 10³ rows × 10⁴ temperatures [s]."""
+    from thermo import load_dos, tabulate
+    from thermo.io.readers import read_table
+    text = _text(1_000_000)
+    load_s = median_seconds(lambda: load_dos(text), repeat)
+    read_s = median_seconds(lambda: read_table(text), repeat)
+    big = load_dos(text)
+    t = _temperatures(10_000)
+    big_s = median_seconds(lambda: tabulate(big, t), repeat)
+    small = load_dos(_text(1_000))
+    small_s = median_seconds(lambda: tabulate(small, t), max(repeat, 5))
+    return {"p15_load_1e6_rows_s": load_s, "p15_table_1e6_rows_1e4_T_s": big_s, "p16_table_1e3_rows_1e4_T_s": small_s,
+            "contrast": {"p15_read_table_1e6_rows_s": read_s, "p15_prepare_1e6_rows_s": load_s - read_s},
+            "p15_case": f"spring crystal text, 10⁶ rows (read + validate + prepare); tables 1-1500 K, median of "
+                        f"{repeat}"}
+
+
+def p17(repeat=3):
+    """``modeheat calorimetry`` of the demo measurement with the demo DOS, in this process [s]."""
+    import contextlib
+    import io
+
+    from thermo.cli.main import main
+    measured = ROOT / "sample_dos" / "measured" / "springium_cp.csv"
+    dos = ROOT / "sample_dos" / "springium_fcc.dat"
+    points = sum(1 for line in measured.read_text().splitlines() if line[:1].isdigit())
+    with tempfile.TemporaryDirectory(prefix="modeheat-bench-") as tmp:
+        def run():
+            with contextlib.redirect_stderr(io.StringIO()):
+                code = main(["calorimetry", str(measured), "--dos", str(dos), "--output", str(Path(tmp) / "c.json"),
+                             "--force"])
+            if code != 0:
+                raise RuntimeError(f"calorimetry exited with {code}")
+        start = time.process_time()
+        seconds = median_seconds(run, repeat)
+        cpu = (time.process_time() - start) / (repeat + 1)
+    return {"p17_calorimetry_run_s": seconds, "contrast": {"p17_calorimetry_run_cpu_s": cpu},
+            "p17_case": f"calorimetry {measured.name} ({points} points) --dos {dos.name}, JSON report, median of "
+                        f"{repeat}"}
+
+
+def slope(x, y):
+    """Least-squares slope of ln y over ln x [1].
+
+    Examples
+    --------
+    >>> round(slope([1, 10, 100], [2, 20, 200]), 6)
+    1.0
+    """
+    return float(np.polyfit(np.log(x), np.log(y), 1)[0])
+
+
+def scaling(quick=False):
+    """``tabulate`` [s] on a grid of row counts × temperature counts, ``load_dos`` [s] per row count, slopes."""
+    from thermo import load_dos, tabulate
+    rows = ROWS[:3] if quick else ROWS
+    counts = TEMPERATURE_COUNTS[:3] if quick else TEMPERATURE_COUNTS
+    repeat = 2 if quick else 5
+    table, loads = {}, {}
+    for n in rows:
+        text = _text(n)
+        loads[n] = _best(lambda: load_dos(text), repeat)
+        dos = load_dos(text)
+        for m in counts:
+            t = _temperatures(m)
+            table[(n, m)] = _best(lambda: tabulate(dos, t), repeat if n * m < 10 ** 9 else 1)
+    along_rows = slope(rows, [table[(n, counts[-1])] for n in rows])
+    along_t = slope(counts, [table[(rows[-1], m)] for m in counts])
+    lines = ["rows \\ T " + "".join(f"{m:>10d}" for m in counts) + f"{'load':>10s}"]
+    lines += [f"{n:>9d} " + "".join(f"{1e3 * table[(n, m)]:>9.2f} " for m in counts) + f"{1e3 * loads[n]:>9.1f}"
+              for n in rows]
+    lines.append(f"(ms, least of {repeat}; exponent along rows at {counts[-1]} T: {along_rows:.2f}, along T at "
+                 f"{rows[-1]} rows: {along_t:.2f}, load along rows: {slope(rows, list(loads.values())):.2f})")
+    return {"scaling_exponent_rows": along_rows, "scaling_exponent_temperatures": along_t,
+            "scaling_exponent_load_rows": slope(rows, list(loads.values())),
+            "scaling_table": "\n".join(lines),
+            "contrast": {"scaling_ms": {f"{n}x{m}": round(1e3 * v, 3) for (n, m), v in table.items()},
+                         "scaling_load_ms": {str(n): round(1e3 * v, 2) for n, v in loads.items()}}}
