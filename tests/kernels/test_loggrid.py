@@ -171,3 +171,23 @@ def test_spectrum_mostly_frozen_over_the_whole_range():
     w = rng.uniform(0.0, 1.0, nu.size) ** 3
     t = np.linspace(0.5, 4.0, 1100)
     assert _worst(loggrid.loggrid_sums(nu, w, t), direct_grid_sums(nu, w, t)) < 1e-9
+
+
+def test_a_subset_of_sums_is_the_same_numbers():
+    # Reference: the full direct pair sums (every kernel); a subset skips kernels, never changes one.
+    from thermo.kernels.direct import direct_grid_sums
+    from thermo.kernels.sums import thermal_sums
+    from thermo.spectrum import PhononDOS
+    nu = np.linspace(0.0, 6.0, 301)                       # starts at ν = 0: the zero node's terms too
+    g = 9 * nu ** 2 / 6.0 ** 3 + 0.01
+    t = np.array([3.0, 298.15, 2000.0])
+    w = np.gradient(nu) * g
+    full = direct_grid_sums(nu, w, t)
+    part = direct_grid_sums(nu, w, t, keys=("thermal_energy", "log_partition"))
+    assert set(part) == {"thermal_energy", "log_partition"}
+    for key in part:
+        np.testing.assert_array_equal(part[key], full[key])
+    dos = PhononDOS(nu, g, atoms=1)
+    s = thermal_sums(dos, t, keys=("thermal_energy", "log_partition"))
+    np.testing.assert_array_equal(s["entropy"], thermal_sums(dos, t)["entropy"])
+    assert "heat_capacity" not in s

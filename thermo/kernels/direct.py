@@ -35,7 +35,7 @@ def _zero_node_log_partition(first_step_thz, temperatures):
     return (np.pi ** 2 / 6.0 - li2) / big_x
 
 
-def direct_grid_sums(nodes_thz, weights, temperatures):
+def direct_grid_sums(nodes_thz, weights, temperatures, keys=SUM_KEYS):
     r"""Sums :math:`\sum_i w_i K(h\nu_i/k_BT_j)` over every pair ν × T.
 
     Parameters
@@ -46,12 +46,14 @@ def direct_grid_sums(nodes_thz, weights, temperatures):
         Number of modes carried by each node [1].
     temperatures : array_like, shape (M,)
         Temperatures [K], > 0.
+    keys : sequence of str
+        The sums wanted (a subset of :data:`SUM_KEYS`; the others are not computed).
 
     Returns
     -------
     dict of str to numpy.ndarray, shape (M,)
         ``heat_capacity`` (Σ w c), ``thermal_energy`` (Σ w u) and
-        ``log_partition`` (Σ w ℓ) [1].
+        ``log_partition`` (Σ w ℓ) [1], those of ``keys``.
 
     Notes
     -----
@@ -78,11 +80,12 @@ def direct_grid_sums(nodes_thz, weights, temperatures):
     zero = nu == 0.0
     x = H_OVER_K_THZ * nu[~zero, None] / t[None, :]
     wp = w[~zero]
-    out = {key: wp @ KERNELS[key](x) for key in SUM_KEYS}
+    out = {key: wp @ KERNELS[key](x) for key in keys}
     if zero.any():
         w0 = float(w[zero].sum())
-        out["heat_capacity"] = out["heat_capacity"] + w0
-        out["thermal_energy"] = out["thermal_energy"] + w0
-        step = float(nu[~zero].min()) if (~zero).any() else 1.0
-        out["log_partition"] = out["log_partition"] + w0 * _zero_node_log_partition(step, t)
+        for key in {"heat_capacity", "thermal_energy"}.intersection(keys):
+            out[key] = out[key] + w0
+        if "log_partition" in out:
+            step = float(nu[~zero].min()) if (~zero).any() else 1.0
+            out["log_partition"] = out["log_partition"] + w0 * _zero_node_log_partition(step, t)
     return out

@@ -44,7 +44,7 @@ def molar_values(sums, t):
             zpe + r * t * sums["thermal_energy"], zpe - r * t * sums["log_partition"])
 
 
-def grid_sums(nodes_thz, weights, temperatures, method="auto"):
+def grid_sums(nodes_thz, weights, temperatures, method="auto", keys=SUM_KEYS):
     """Dispatch the table-part sums to the direct or the fast evaluation.
 
     Parameters
@@ -57,6 +57,8 @@ def grid_sums(nodes_thz, weights, temperatures, method="auto"):
         ``direct`` sums every pair; ``fast`` uses the log-grid correlation
         of :mod:`thermo.kernels.loggrid`; ``auto`` picks ``fast`` where it is
         accurate and cheaper.
+    keys : sequence of str
+        Sums wanted (the direct path computes only these; the fast path all).
 
     Returns
     -------
@@ -73,10 +75,10 @@ def grid_sums(nodes_thz, weights, temperatures, method="auto"):
         raise OptionError(f"unknown method {method!r}; choose auto, direct or fast")
     if method == "fast" or (method == "auto" and loggrid.suitable(nodes_thz, weights, temperatures)):
         return loggrid.loggrid_sums(nodes_thz, weights, temperatures)
-    return direct_grid_sums(nodes_thz, weights, temperatures)
+    return direct_grid_sums(nodes_thz, weights, temperatures, keys)
 
 
-def thermal_sums(dos, temperatures, method="auto"):
+def thermal_sums(dos, temperatures, method="auto", keys=SUM_KEYS):
     r"""Mode-weighted kernel sums of a whole DOS at each temperature.
 
     Parameters
@@ -87,13 +89,17 @@ def thermal_sums(dos, temperatures, method="auto"):
         Temperatures [K], >= 0 (T = 0 gives exact zeros).
     method : {'auto', 'direct', 'fast'}
         Evaluation of the tabulated part (see :func:`grid_sums`).
+    keys : sequence of str
+        Sums wanted, a subset of ``heat_capacity``, ``thermal_energy``,
+        ``log_partition`` (default all; a check that needs S alone skips C_v).
 
     Returns
     -------
     dict
-        ``heat_capacity``, ``thermal_energy``, ``log_partition`` and
-        ``entropy`` (= thermal_energy + log_partition), arrays (M,) [1];
-        ``zero_point_thz``, :math:`\sum \text{modes}\cdot\nu/2` [THz].
+        ``heat_capacity``, ``thermal_energy``, ``log_partition`` (those of
+        ``keys``) and ``entropy`` (= thermal_energy + log_partition, when
+        both are), arrays (M,) [1]; ``zero_point_thz``,
+        :math:`\sum \text{modes}\cdot\nu/2` [THz].
 
     Notes
     -----
@@ -113,16 +119,17 @@ def thermal_sums(dos, temperatures, method="auto"):
     """
     t = np.atleast_1d(np.asarray(temperatures, dtype=float))
     hot = t > 0
-    out = {key: np.zeros_like(t) for key in SUM_KEYS}
+    out = {key: np.zeros_like(t) for key in keys}
     weights = mode_weights(dos.frequency_thz, dos.dos)
     if hot.any():
-        parts = [grid_sums(dos.frequency_thz, weights, t[hot], method)]
+        parts = [grid_sums(dos.frequency_thz, weights, t[hot], method, keys)]
         if dos.low_frequency is not None:
             fit = dos.low_frequency
             parts.append(analytic_part_sums(fit, t[hot]))
-        for key in SUM_KEYS:
+        for key in keys:
             out[key][hot] = sum(p[key] for p in parts)
-    out["entropy"] = out["thermal_energy"] + out["log_partition"]
+    if "thermal_energy" in out and "log_partition" in out:
+        out["entropy"] = out["thermal_energy"] + out["log_partition"]
     zp = float(np.sum(weights * dos.frequency_thz)) / 2
     if dos.low_frequency is not None:
         zp += dos.low_frequency.analytic_moment(1) / 2
