@@ -54,7 +54,7 @@ def test_held_parameter_and_unknown_names():
         parse_fixed(["zeta=1"])
     with pytest.raises(OptionError, match="NAME=VALUE"):
         parse_fixed(["gamma"])
-    with pytest.raises(OptionError, match="> 0"):
+    with pytest.raises(OptionError, match="outside its physical range"):
         parse_fixed(["scale=0"])
     t = np.linspace(20.0, 300.0, 12)
     data = MeasuredHeatCapacity(t, 1e-3 * t + 1.0, None, "J/(mol K)", "x")

@@ -42,6 +42,13 @@ LATTICES = ("debye", "dos")
 DILATIONS = ("none", "nernst-lindemann", "values")
 #: Starting values of the fitted parameters.
 STARTS = {"theta_D_K": 300.0, "scale": 1.0, "gamma_J_per_mol_K2": 1e-3, "dilation_A_mol_per_J": 3e-6}
+#: Physical range of each parameter, (low, high): a held or fitted value outside is refused.  θ_D from
+#: 0.1 K to 10⁵ K, the frequency scale 10⁻³-10³, γ up to 10 J/(mol K²) per formula unit (heavy-fermion
+#: compounds reach ~1), A up to 10⁻² mol/J (common practice: 10⁻⁶-10⁻⁵ for elements).
+LIMITS = {"theta_D_K": (0.1, 1e5), "scale": (1e-3, 1e3), "gamma_J_per_mol_K2": (0.0, 10.0),
+          "dilation_A_mol_per_J": (0.0, 1e-2)}
+#: Parameters that enter linearly or nearly so and may be 0 (fitted on a linear scale, held at 0 if < 0).
+MAY_BE_ZERO = ("gamma_J_per_mol_K2", "dilation_A_mol_per_J")
 
 
 def parameter_name(text):
