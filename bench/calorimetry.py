@@ -15,7 +15,7 @@ def p9(repeat=7):
     covariance, not reading the file.
     """
     from thermo.calorimetry import HeatCapacityModel, MeasuredHeatCapacity, fit_measured_heat_capacity
-    model = HeatCapacityModel(atoms=1)
+    model = HeatCapacityModel(atoms=1, electronic=True)
     t = np.linspace(5.0, 600.0, 200)
     cp = model.heat_capacity_p(t, {"theta_D_K": 380.0, "gamma_J_per_mol_K2": 1.2e-3, "dilation_A_mol_per_J": 5e-6})
     sigma = 0.003 * cp

@@ -42,7 +42,7 @@ def test_a_fit_that_runs_out_of_evaluations_is_an_error(monkeypatch):
     monkeypatch.setattr(fitting, "EVALUATIONS_PER_PARAMETER", 2, raising=False)
     measured = read_heat_capacity(DEMO)
     with pytest.raises(FitError, match="did not converge after .* evaluations"):
-        fit_measured_heat_capacity(measured, HeatCapacityModel(atoms=1), fit_range=(20.0, 350.0))
+        fit_measured_heat_capacity(measured, HeatCapacityModel(atoms=1, electronic=True), fit_range=(20.0, 350.0))
 
 
 def test_cli_reports_non_convergence_in_one_line(monkeypatch, capsys):

@@ -8,12 +8,18 @@ data by a smooth curve, and every quantity integrated from the model
 (S°, H° − H°(0)) carries that miss.  This module measures it:
 
 * noise level of the relative residuals: the stated uncertainties σ/C when
-  given, else the point-to-point (von Neumann) scatter
-  :math:`\hat\sigma^2 = \sum_j (r_{j+1}-r_j)^2 / (2(M-1))`, which a smooth
-  misfit hardly changes;
+  given, else the point-to-point scatter about the straight line through
+  each point's neighbours (a second difference, generalised von Neumann
+  estimator), which a smooth misfit hardly changes:
+  :math:`\hat\sigma^2 = \overline{e_j^2/(1+a_j^2+b_j^2)}`,
+  :math:`e_j = r_j - a_jr_{j-1} - b_jr_{j+1}` with the linear-interpolation
+  weights a_j, b_j;
 * structure: the Wald–Wolfowitz runs test on the signs of the residuals
-  (too few runs, one-sided p < 0.05) or, with σ given, a χ² beyond its
-  99th percentile (Birge ratio :math:`R_B = \sqrt{\chi^2_\nu}` well above 1);
+  (too few runs, one-sided p < 0.05); with σ given, a χ² beyond its 99th
+  percentile (Birge ratio :math:`R_B = \sqrt{\chi^2_\nu}` well above 1);
+  without σ, a mean square residual beyond :math:`(1 + 3\sqrt{2/M})` times
+  the point-to-point noise (three standard deviations of the ratio for
+  pure noise);
 * discrepancy :math:`\delta = \sqrt{\max(0, \overline{r^2} - \hat\sigma^2)}`
   (relative), used when the residuals are structured; the model route then
   adds :math:`\delta\,S` and :math:`\delta\,(H-H_0)` to its uncertainty
@@ -89,7 +95,45 @@ def runs_test(residuals):
     return {"runs": runs, "expected": float(mu), "z": float(z), "p": float(stats.norm.cdf(z))}
 
 
-def residual_structure(relative_residuals, relative_sigma=None, free_parameters=0):
+def point_to_point_noise(temperatures, residuals):
+    r"""rms noise of ``residuals`` about the line through each point's two neighbours.
+
+    Parameters
+    ----------
+    temperatures : array_like, shape (M,)
+        Increasing abscissae [K].
+    residuals : array_like, shape (M,)
+
+    Returns
+    -------
+    float
+        :math:`\sqrt{\overline{e_j^2/(1+a_j^2+b_j^2)}}` over the inner points
+        (see the module notes); the rms of ``residuals`` when M < 3.
+
+    References
+    ----------
+    .. [1] J. von Neumann et al., Ann. Math. Statist. 12, 153 (1941).
+
+    Examples
+    --------
+    >>> t = np.linspace(0.0, 1.0, 201)
+    >>> point_to_point_noise(t, 0.01 * np.cos(3 * t)) < 1e-5      # a smooth miss: almost no noise
+    True
+    >>> noise = 0.003 * np.random.default_rng(1).standard_normal(201)
+    >>> bool(abs(point_to_point_noise(t, noise) / 0.003 - 1) < 0.15)
+    True
+    """
+    t = np.asarray(temperatures, dtype=float)
+    r = np.asarray(residuals, dtype=float)
+    if r.size < 3:
+        return float(np.sqrt(np.mean(r * r))) if r.size else 0.0
+    left, right = t[1:-1] - t[:-2], t[2:] - t[1:-1]
+    a, b = right / (left + right), left / (left + right)
+    e = r[1:-1] - a * r[:-2] - b * r[2:]
+    return float(np.sqrt(np.mean(e * e / (1.0 + a * a + b * b))))
+
+
+def residual_structure(relative_residuals, relative_sigma=None, free_parameters=0, temperatures=None):
     r"""Noise level, structure tests and the relative model discrepancy of a fit.
 
     Parameters
@@ -100,12 +144,16 @@ def residual_structure(relative_residuals, relative_sigma=None, free_parameters=
         Stated standard uncertainties over the measured values [1].
     free_parameters : int
         Number of fitted parameters (for χ²_ν).
+    temperatures : array_like, optional
+        The temperatures of the residuals [K] (for the point-to-point noise;
+        default evenly spaced).
 
     Returns
     -------
     dict
         ``noise`` (relative rms noise), ``noise_from`` (``'stated
         uncertainties'`` or ``'point-to-point scatter'``), ``rms``,
+        ``noise_ratio`` (mean square residual over noise², without σ),
         ``runs`` (:func:`runs_test`), ``birge_ratio`` and ``chi2_p`` (with σ),
         ``structured`` (bool), ``reasons`` (list of str) and
         ``discrepancy`` δ (relative, 0 when not structured).
@@ -113,7 +161,8 @@ def residual_structure(relative_residuals, relative_sigma=None, free_parameters=
     Notes
     -----
     :math:`\delta = \sqrt{\max(0, \overline{r^2} - \hat\sigma^2)}` when the
-    runs test or (with σ) the χ² test finds structure; else 0.
+    runs test, the χ² test (with σ) or the noise ratio (without σ) finds
+    structure; else 0.
 
     References
     ----------
@@ -130,7 +179,8 @@ def residual_structure(relative_residuals, relative_sigma=None, free_parameters=
     r = np.asarray(relative_residuals, dtype=float)
     m = r.size
     rms = float(np.sqrt(np.mean(r * r))) if m else 0.0
-    out = {"rms": rms, "runs": runs_test(r), "birge_ratio": None, "chi2_p": None, "reasons": []}
+    out = {"rms": rms, "runs": runs_test(r), "birge_ratio": None, "chi2_p": None, "noise_ratio": None,
+           "reasons": []}
     dof = m - int(free_parameters)
     if relative_sigma is not None:
         rel = np.asarray(relative_sigma, dtype=float)
@@ -143,8 +193,13 @@ def residual_structure(relative_residuals, relative_sigma=None, free_parameters=
             if out["chi2_p"] < CHI2_P:
                 out["reasons"].append(f"Birge ratio {out['birge_ratio']:.3g} (χ² p = {out['chi2_p']:.2g})")
     else:
-        noise = float(np.sqrt(np.sum(np.diff(r) ** 2) / (2.0 * (m - 1)))) if m > 1 else rms
+        noise = point_to_point_noise(np.arange(m) if temperatures is None else temperatures, r)
         out["noise_from"] = "point-to-point scatter"
+        if m >= MIN_POINTS:
+            ratio = rms * rms / max(noise * noise, 1e-300)
+            out["noise_ratio"] = float(min(ratio, 1e300))
+            if ratio > 1.0 + 3.0 * np.sqrt(2.0 / m):
+                out["reasons"].append(f"residuals {min(ratio, 1e9) ** 0.5:.3g}× their point-to-point scatter")
     runs = out["runs"]
     if m >= MIN_POINTS and runs["p"] < RUNS_P:
         out["reasons"].append(f"{runs['runs']} runs of one sign where {runs['expected']:.3g} are expected "

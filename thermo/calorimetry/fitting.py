@@ -16,9 +16,11 @@ from dataclasses import dataclass, field
 
 import numpy as np
 import pandas as pd
+from scipy import constants as sc
 
 from ..columns import column_name
 from ..errors import FitError, OptionError
+from ..models.debye import debye_heat_capacity_fraction
 from ..models.fitting import checked_least_squares
 from .discrepancy import residual_structure
 from .models import LIMITS, MAY_BE_ZERO, STARTS, parameter_name
@@ -144,9 +146,13 @@ def _held(fixed, where=""):
 
 
 def _start_theta(model, t, y, s, fixed):
+    """Best θ_D of a log grid 20-3000 K with the other parameters at their starts (one vectorised pass)."""
     grid = np.geomspace(20.0, 3000.0, 48)
     base = {**STARTS, **fixed}
-    cost = [np.sum(((model.heat_capacity_p(t, {**base, "theta_D_K": th}) - y) / s) ** 2) for th in grid]
+    y_of_grid = (grid[:, None] / t[None, :]).ravel()
+    lattice = 3 * int(model.atoms) * sc.R * debye_heat_capacity_fraction(y_of_grid).reshape(grid.size, t.size)
+    cp = model.completed(np.broadcast_to(t, lattice.shape), lattice, base)["heat_capacity_p"]
+    cost = np.sum(((cp - y) / s) ** 2, axis=1)
     return float(grid[int(np.argmin(cost))])
 
 
@@ -265,7 +271,7 @@ def fit_measured_heat_capacity(measured: MeasuredHeatCapacity, model, fixed=None
     uncertainties.update({k: float(np.sqrt(max(full[i, i], 0.0))) for i, k in enumerate(free)})
     residuals = residual_table(model, values, data)
     rel = residuals[column_name("relative_residual")].to_numpy()
-    structure = residual_structure(rel, None if not given else s / y, p)
+    structure = residual_structure(rel, None if not given else s / y, p, t)
     return CalorimetryFit(model, values, uncertainties, free, corr, cov, chi2_nu, residuals,
                           float(np.max(np.abs(rel))), "given uncertainties" if given else
                           "relative (no uncertainties given)", (float(t.min()), float(t.max())), warnings,
