@@ -14,9 +14,9 @@ p = θ_E, the DOS with p = s).  That gives every derivative in closed form:
 so the fit (Levenberg–Marquardt in ln p, status checked) costs one kernel
 evaluation per step and the uncertainty of S(T₁), H(T₁) none more.
 
-A form is *admissible* when it describes the points it was fitted to: rms
+A form is *admissible* when it describes the points it was fitted to (rms
 relative misfit at most :data:`ADMISSIBLE_MISFIT`, or χ² consistent with
-stated uncertainties (99th percentile).
+stated uncertainties, 99th percentile) and they fix it (u of S(T₁) below S(T₁)).
 
 References
 ----------
@@ -201,6 +201,7 @@ def fit_form(name, parts, data, start, labels, gamma=0.0, gamma_uncertainty=0.0,
         dgamma = by_gamma[key] + float(g @ shift)
         u[key] = float(np.sqrt(max(part, 0.0) + (dgamma * gamma_uncertainty) ** 2))
     rms, admissible = _admissible((model - lattice) / c, chi2, k, p.size, absolute)
+    admissible = admissible and u["entropy"] < abs(values["entropy"])      # a form its points do not fix: out
     shown = ", ".join(f"{label} = {v:.4g}" for label, v in zip(labels, p))
     return LowTemperatureForm(name, values["entropy"], u["entropy"], values["enthalpy"], u["enthalpy"],
                               f"{shown} over {t[0]:g}-{t[-1]:g} K", float(p[0]), rms, admissible)

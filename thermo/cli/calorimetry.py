@@ -122,7 +122,8 @@ def calorimetry_provenance(args, measured, dos, notes):
         inputs.append(dos_input(dos, role="lattice DOS"))
     if args.dilation_values:
         inputs.append(input_record(args.dilation_values, data=args.dilation_values, role="dilation values"))
-    settings = {"model": args.model, "fixed": list(args.fix), "fit_range_K": args.range,
+    settings = {"model": args.model, "metal": bool(getattr(args, "metal", False)), "fixed": list(args.fix),
+                "fit_range_K": args.range,
                 "low_t_max_K": args.low_t_max, "atoms": args.atoms}
     dos_notes = [] if dos is None else [f"{args.dos}: {w}" for w in dos.warnings]
     return provenance_record(inputs, settings, dos_notes + list(notes))
