@@ -161,6 +161,7 @@ def third_law_from_data(temperatures, heat_capacity, temperature, sigma=None, ga
     where = np.atleast_1d(np.asarray(temperature, dtype=float))
     if t.size < 2:
         raise OptionError("the third-law integral needs at least 2 measured points")
+    _check_data(t, c, sigma)
     if np.any(where < t[0] * (1 - 1e-12)) or np.any(where > t[-1] * (1 + 1e-12)):
         raise OptionError(f"S° from data is given between the first and last measured points, "
                           f"{t[0]:g}-{t[-1]:g} K; asked for {where.min():g}-{where.max():g} K")
@@ -329,6 +330,20 @@ def third_law_from_model(fit, temperature, below_first_point=None):
              "enthalpy_below_first_point": np.full(h.shape, below_h)}
     return {"entropy": s, "entropy_uncertainty": _combined(parts, "entropy"), "enthalpy": h,
             "enthalpy_uncertainty": _combined(parts, "enthalpy"), "parts": parts}
+
+
+#: Largest |C_p| and σ the integrals take [J/(mol K)] (the reader's own bound is lower, per atoms).
+MAX_HEAT_CAPACITY = 1e9
+
+
+def _check_data(t, c, sigma):
+    """One-line errors for data no integral should see (the reader refuses them first)."""
+    values = [c] if sigma is None else [c, np.asarray(sigma, dtype=float)]
+    if t.shape != c.shape or not np.all(np.isfinite(t)) or np.any(t <= 0) or np.any(np.diff(t) <= 0):
+        raise OptionError("temperatures must be finite, > 0 K and increasing, one per heat capacity")
+    if not all(np.all(np.isfinite(v)) and np.all(v >= 0) and np.all(v <= MAX_HEAT_CAPACITY) for v in values):
+        raise OptionError(f"heat capacities and uncertainties must be finite, >= 0 and <= {MAX_HEAT_CAPACITY:g} "
+                          "J/(mol K)")
 
 
 def _debye_interpolation(t, c, where, atoms, non_lattice, s_int, h_int):

@@ -17,8 +17,9 @@ raises :class:`thermo.errors.DosInputError` with one line naming the file, line
 and column.
 
 Magnitudes are checked as for a DOS: temperatures from 0.1 K to 10⁵ K, C_p
-finite and > 0, at most :data:`thermo.io.limits.MAX_HEAT_CAPACITY_ROWS`
-points; once the atoms per formula unit are known,
+finite, above the Debye T³ law of θ_D = 10⁵ K and below twice Dulong–Petit for
+the largest formula unit accepted, uncertainties above 10⁻⁹ of the value, at
+most :data:`thermo.io.limits.MAX_HEAT_CAPACITY_ROWS` points; once the atoms per formula unit are known,
 :func:`check_heat_capacity_scale` refuses C_p above twice the Dulong–Petit
 value plus electronic room, naming the unit the numbers were likely written in.
 
@@ -41,6 +42,7 @@ from ..errors import DosInputError, OptionError
 from ..io.limits import check_heat_capacity_rows
 from ..io.readers import read_table
 from ..io.unit_statements import commented_header
+from ..preparation.atoms import MAX_ATOMS
 
 #: C_p units accepted and their factor to J/(mol K) (J/(g K) also needs M).
 CP_UNITS = {"J/(mol K)": 1.0, "J/(g K)": None, "cal/(mol K)": sc.calorie, "mJ/(mol K)": sc.milli}
@@ -49,6 +51,8 @@ _CELSIUS = re.compile(r"°c|degc|celsius|\(c\)|\[c\]|_c$")
 #: Lowest and highest temperature accepted [K] (as for DOS tables: below 0.1 K no calorimeter
 #: measures a solid's lattice term, above 10⁵ K no solid exists).
 TEMPERATURE_RANGE_K = (0.1, 1e5)
+#: Stiffest lattice considered [K]: no measured C_p lies below its Debye T³ law (diamond's θ_D is 2,230 K).
+STIFFEST_K = 1e5
 #: Room above 2 × 3nR for the electronic and anharmonic terms, per atom [J/(mol K²)]: C_p may reach
 #: 2·3nR + n·ELECTRONIC_ROOM·T (γ of ordinary metals is 0.5-10 mJ/(mol K²), common practice).
 ELECTRONIC_ROOM_J_PER_MOL_K2 = 0.05
@@ -228,8 +232,9 @@ def read_heat_capacity(source, cp_unit=None, formula=None, name=None):
         from ..formula import formula_unit
         factor = formula_unit(formula)[0]
     t = raw.data[:, 0].astype(float)
-    cp = raw.data[:, 1] * factor
-    sigma = raw.data[:, 2] * factor if width >= 3 else None
+    with np.errstate(over="ignore"):            # a unit factor times 1e308: not finite, refused below
+        cp = raw.data[:, 1] * factor
+        sigma = raw.data[:, 2] * factor if width >= 3 else None
     lines = raw.line_numbers or list(range(1, len(t) + 1))
     _check_values(t, cp, sigma, lines, where)
     order = np.argsort(t, kind="stable")
@@ -249,15 +254,23 @@ def read_heat_capacity(source, cp_unit=None, formula=None, name=None):
 
 def _check_values(t, cp, sigma, lines, where):
     low, high = TEMPERATURE_RANGE_K
-    with np.errstate(invalid="ignore"):
+    with np.errstate(invalid="ignore", over="ignore"):
+        most = heat_capacity_limit(np.clip(t, 0.0, high), MAX_ATOMS)
+        least = 12 * np.pi ** 4 / 5 * sc.R * (np.clip(t, 0.0, high) / STIFFEST_K) ** 3
         checks = [(t <= 0, 1, "temperature must be > 0 K"),
                   (t < low, 1, f"temperature below {low:g} K; give temperatures in K from {low:g} K"),
                   (t > high, 1, f"temperature above {high:g} K; give temperatures in K"),
                   (~np.isfinite(cp), 2, "heat capacity is not a finite number"),
-                  (cp <= 0, 2, "heat capacity must be > 0")]
+                  (cp <= 0, 2, "heat capacity must be > 0"),
+                  (cp > most, 2, f"heat capacity above the largest possible for {MAX_ATOMS:,} atoms per formula "
+                                 "unit; check the C_p unit"),
+                  (cp < least, 2, f"heat capacity below the Debye T³ law of a solid with θ_D = {STIFFEST_K:g} K; "
+                                  "check the C_p unit")]
         if sigma is not None:
             checks += [(~np.isfinite(sigma), 3, "uncertainty is not a finite number"),
-                       (sigma <= 0, 3, "uncertainty must be > 0 (leave the column out if unknown)")]
+                       (sigma <= 0, 3, "uncertainty must be > 0 (leave the column out if unknown)"),
+                       (sigma > most, 3, "uncertainty above the largest possible heat capacity; check the unit"),
+                       (sigma < 1e-9 * cp, 3, "uncertainty below 1e-9 of the value; leave the column out if unknown")]
     for bad, column, message in checks:
         if np.any(bad):
             k = int(np.flatnonzero(bad)[0])
