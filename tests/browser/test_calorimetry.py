@@ -28,7 +28,7 @@ def test_upload_fit_and_error_message(duo, tmp_path):
     # A Debye-like solid with γT, written in mJ/(mol K): the page must read the unit from the header.
     t = np.linspace(5.0, 320.0, 64)
     theta = 280.0
-    cv = 3 * 8.314462618 * (t / theta) ** 3 * 77.927 / (1 + 15.6 * (t / theta) ** 3)   # smooth stand-in
+    cv = 3 * 8.314462618 * (t / theta) ** 3 * 77.927 / (1 + 77.927 * (t / theta) ** 3)   # smooth, -> 3R
     good = tmp_path / "measured_mJ.csv"
     good.write_text("T (K),Cp (mJ/(mol K))\n" + "".join(f"{a},{1e3 * (b + 1e-3 * a)}\n" for a, b in zip(t, cv)))
     bad = tmp_path / "broken.csv"

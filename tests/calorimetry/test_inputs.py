@@ -1,5 +1,6 @@
 """Measured C_p inputs: units from a commented header, magnitudes, row limit, cost linear in rows (issues 25, 26)."""
 
+import functools
 import json
 import tracemalloc
 
@@ -18,9 +19,16 @@ from thermo.io.limits import MAX_HEAT_CAPACITY_ROWS
 from .test_external import _debye_cv_mpmath
 
 
-def _debye_rows(theta=300.0, t=None):
-    t = np.arange(5.0, 301.0, 5.0) if t is None else t
+@functools.lru_cache(maxsize=None)
+def _debye_cv(theta):
+    # mpmath Debye C_v (test_external) every 5 K from 5 to 300 K
+    t = np.arange(5.0, 301.0, 5.0)
     return t, np.array([_debye_cv_mpmath(x, theta) for x in t])
+
+
+def _debye_rows(theta=300.0):
+    t, c = _debye_cv(theta)
+    return t.copy(), c.copy()
 
 
 def test_commented_header_states_the_units():
