@@ -6,6 +6,7 @@ import json
 import sys
 
 from ..unit_names import FREQUENCY_UNITS
+from .electronic import add_electronic_reading_options, load_electronic_from_args
 from .options import check_output_target, write_text_output
 
 
@@ -26,7 +27,8 @@ def register(sub):
                    help="terms joined by '+': debye or dos; electronic; nernst-lindemann or dilation-values "
                         "(default debye+nernst-lindemann, dos+nernst-lindemann with --dos; γT only for a metal)")
     p.add_argument("--metal", action="store_true",
-                   help="the sample is a metal: fit the electronic term γT (default: an insulator, γ = 0)")
+                   help="the sample is a metal: fit the electronic term γT (default: an insulator, γ = 0; "
+                        "--electronic EDOS declares a metal too)")
     p.add_argument("--fix", action="append", default=[], metavar="NAME=VALUE[±U]",
                    help="hold a parameter, optionally with its standard uncertainty (propagated): theta_D [K], "
                         "scale, gamma [J/(mol K²)] (adds γT), A [mol/J]; repeatable")
@@ -35,6 +37,10 @@ def register(sub):
                    help="table of T [K] and C_p - C_v [J/(mol K)] for the dilation-values term")
     p.add_argument("--low-t-max", type=float, metavar="K",
                    help="upper temperature of the C/T = γ + βT² analysis (default θ_D/30)")
+    p.add_argument("--electronic", metavar="EDOS",
+                   help="electronic DOS of the same formula unit (metals): its band γ = (π²/3)k_B²g(E_F) is reported "
+                        "beside the fitted γ, with their ratio 1 + λ (see 'modeheat electronic' for the format)")
+    add_electronic_reading_options(p)
     p.add_argument("--format", default="json", choices=["json", "csv", "xlsx"],
                    help="json: fit, entropies, notes (default); csv/xlsx: residual and third-law table")
     p.add_argument("--output", metavar="PATH", help="write here (default stdout; needed for xlsx)")
@@ -43,11 +49,12 @@ def register(sub):
 
 
 def build_model(args, dos, fixed=None):
-    """The :class:`HeatCapacityModel` the options describe (γT with ``--metal`` or a held γ)."""
+    """The :class:`HeatCapacityModel` the options describe (γT with ``--metal``, ``--electronic`` or a held γ)."""
     from ..calorimetry.models import HeatCapacityModel
     from ..calorimetry.report import parse_model
     from ..errors import OptionError
-    metal = bool(getattr(args, "metal", False)) or "gamma_J_per_mol_K2" in (fixed or {})
+    metal = (bool(getattr(args, "metal", False)) or bool(getattr(args, "electronic", None))
+             or "gamma_J_per_mol_K2" in (fixed or {}))
     terms = parse_model(args.model, dos is not None, metal)
     atoms = args.atoms or (dos.atoms if dos is not None else None)
     if atoms is None and args.formula:
@@ -71,7 +78,7 @@ def build_model(args, dos, fixed=None):
 
 def run(args) -> int:
     from ..calorimetry import parse_fixed, read_heat_capacity
-    from ..calorimetry.report import analyse
+    from ..calorimetry.report import analyse, electronic_comparison
     from ..errors import OptionError
     from ..io.writers import export_table, write_table
     from .models import parse_fit_range
@@ -90,9 +97,14 @@ def run(args) -> int:
     model = build_model(args, dos, fixed)
     fit_range = parse_fit_range(args.range) if args.range else None
     report, fit, third = analyse(measured, model, fixed, fit_range, args.low_t_max)
+    edos = load_electronic_from_args(args, args.electronic) if args.electronic else None
+    if edos is not None:
+        report["electronic_dos_comparison"] = electronic_comparison(report, edos)
+        report["notes"] += report["electronic_dos_comparison"]["notes"] + [f"{args.electronic}: {w}"
+                                                                           for w in edos.warnings]
     for note in report["notes"]:
         print(f"note: {note}", file=sys.stderr)
-    record = calorimetry_provenance(args, measured, dos, report["notes"])
+    record = calorimetry_provenance(args, measured, dos, report["notes"], edos)
     if args.format == "json":
         report["residuals"] = {k: [_number(v) for v in fit.residuals[k]] for k in fit.residuals.columns}
         text = json.dumps({"provenance": record, **report}, indent=2, allow_nan=False) + "\n"
@@ -112,8 +124,9 @@ def run(args) -> int:
     return 0
 
 
-def calorimetry_provenance(args, measured, dos, notes):
-    """The provenance record of a calorimetry result: the measured file, ``--dos`` and ``--dilation-values``."""
+def calorimetry_provenance(args, measured, dos, notes, edos=None):
+    """The provenance record of a calorimetry result: the measured file, ``--dos``, ``--dilation-values``
+    and ``--electronic``."""
     from ..provenance import dos_input, input_record, provenance_record
     inputs = [input_record(measured.source, measured.sha256,
                            {"cp_unit": args.cp_unit, "unit_read": measured.unit, "formula": args.formula},
@@ -122,6 +135,9 @@ def calorimetry_provenance(args, measured, dos, notes):
         inputs.append(dos_input(dos, role="lattice DOS"))
     if args.dilation_values:
         inputs.append(input_record(args.dilation_values, data=args.dilation_values, role="dilation values"))
+    if edos is not None:
+        from ..electronic import electronic_input
+        inputs.append(electronic_input(edos, role="electronic DOS"))
     settings = {"model": args.model, "metal": bool(getattr(args, "metal", False)), "fixed": list(args.fix),
                 "fit_range_K": args.range,
                 "low_t_max_K": args.low_t_max, "atoms": args.atoms}
