@@ -109,3 +109,10 @@ def test_every_quoted_value_carries_its_uncertainty(page, workspace):
     keys, params = _text(out[3]), _text(out[4])
     assert keys.count("±") >= 5 and "H°(298.15 K) − H°(0)" in keys and "below the first point" in keys
     assert params.count("±") >= 3
+
+
+def test_the_demo_metal_ticks_gamma_an_upload_keeps_the_choice(page):
+    import dash
+    assert page.metal_for_the_demo(None, ["nernst-lindemann"]) == ["electronic", "nernst-lindemann"]
+    assert page.metal_for_the_demo(page.demo_measurement(), ["electronic"]) is dash.no_update
+    assert page.metal_for_the_demo({"name": "mine.csv", "contents": ""}, ["nernst-lindemann"]) is dash.no_update

@@ -86,6 +86,15 @@ def keep_measured(contents, _clicks, name):
     return uploaded_measurement(contents, name, upload_limit())
 
 
+@callback(Output("cal-terms", "value"), Input("cal-measured", "data"), State("cal-terms", "value"))
+def metal_for_the_demo(stored, terms):
+    """The invented demo measurement is of a metal: γT is ticked when it is shown; an upload keeps the choice."""
+    terms = list(terms or [])
+    if (stored or {}).get("name", DEMO_FILE.name) == DEMO_FILE.name and "electronic" not in terms:
+        return ["electronic"] + terms
+    return dash.no_update
+
+
 def upload_limit():
     """Per-file upload limit [bytes] from the server's settings (never from the browser)."""
     return int(dash.get_app().server.config["MODEHEAT_MAX_UPLOAD_BYTES"])
