@@ -3,6 +3,7 @@
 import numpy as np
 import pytest
 from dash.testing.wait import until
+from selenium.common.exceptions import NoSuchElementException, StaleElementReferenceException
 from selenium.webdriver.common.by import By
 
 from webapp.app import create_app
@@ -24,11 +25,19 @@ def _messages(driver):
     return driver.find_element(By.ID, "cal-messages").text
 
 
+def _text(driver, selector):
+    """Text of an element, or "" while the page replaces it (a stale reference is not a failure)."""
+    try:
+        return driver.find_element(By.CSS_SELECTOR, selector).text
+    except (StaleElementReferenceException, NoSuchElementException):
+        return ""
+
+
 def test_upload_fit_and_error_message(duo, tmp_path):
     # A Debye-like solid with γT, written in mJ/(mol K): the page must read the unit from the header.
     t = np.linspace(5.0, 320.0, 64)
     theta = 280.0
-    cv = 3 * 8.314462618 * (t / theta) ** 3 * 77.927 / (1 + 15.6 * (t / theta) ** 3)   # smooth stand-in
+    cv = 3 * 8.314462618 * (t / theta) ** 3 * 77.927 / (1 + 77.927 * (t / theta) ** 3)   # smooth, -> 3R
     good = tmp_path / "measured_mJ.csv"
     good.write_text("T (K),Cp (mJ/(mol K))\n" + "".join(f"{a},{1e3 * (b + 1e-3 * a)}\n" for a, b in zip(t, cv)))
     bad = tmp_path / "broken.csv"
@@ -43,9 +52,9 @@ def test_upload_fit_and_error_message(duo, tmp_path):
     y = np.array(js_graph(duo.driver, "cal-overlay-graph", "Array.from(gd._fullData[0].y)"), dtype=float)
     assert y[-1] == pytest.approx(cv[-1] + 1e-3 * t[-1], rel=1e-6)    # converted to J/(mol K)
     # An upload is compared with the active DOS (scale s); switching to Debye refits with θ_D.
-    until(lambda: "frequency scale s" in duo.driver.find_element(By.ID, "cal-param-table").text, 20)
+    until(lambda: "frequency scale s" in _text(duo.driver, "#cal-param-table"), 20)
     duo.driver.find_element(By.CSS_SELECTOR, "#cal-lattice input[value=debye]").click()
-    until(lambda: duo.driver.find_element(By.CSS_SELECTOR, "#cal-param-table tbody td").text == "θ_D", 20)
+    until(lambda: _text(duo.driver, "#cal-param-table tbody td") == "θ_D", 20)
     duo.driver.find_element(By.CSS_SELECTOR, "#cal-upload input[type=file]").send_keys(str(bad))
     until(lambda: "'banana' is not a number" in _messages(duo.driver), 20)
     assert "Traceback" not in _messages(duo.driver)
