@@ -1,9 +1,10 @@
-"""Issue-30 figures: cost as the work grows, and what a table's provenance and a calorimetry run cost.
+"""Issue-30 figures: cost as the work grows, and what a table's provenance costs.
+
+(The calorimetry run of issue 30 is figure P9's ``p9_run_41_points_s``, :mod:`bench.calorimetry`.)
 
 p14  provenance of one table (error breakdown recomputed) ÷ the table itself (P1 case), interleaved.
 p15  a 10⁶-row DOS: load (read, validate, prepare) and a 10⁴-temperature table [s].
 p16  a 10³-row DOS at 10⁴ temperatures [s].
-p17  the ``calorimetry`` command on the demo measurement with its DOS, in this process [s].
 scaling  ``tabulate`` time over rows 10³…10⁶ × temperatures 10…10⁴ (and ``load_dos`` per row count),
          with the fitted exponent (log-log slope) of each axis: the least-squares slope along the
          axis at the largest value of the other (1 = linear; n·log n reads a little above 1).
@@ -13,9 +14,7 @@ The spectra are the invented spring crystal of :mod:`bench.cases`.
 
 from __future__ import annotations
 
-import tempfile
 import time
-from pathlib import Path
 
 import numpy as np
 
@@ -24,7 +23,6 @@ from .timing import median_ratio, median_seconds
 
 ROWS = (1_000, 10_000, 100_000, 1_000_000)
 TEMPERATURE_COUNTS = (10, 100, 1_000, 10_000)
-ROOT = Path(__file__).resolve().parents[1]
 
 
 def _text(points):
@@ -76,30 +74,6 @@ def p15_p16(repeat=3):
     return {"p15_load_1e6_rows_s": load_s, "p15_table_1e6_rows_1e4_T_s": big_s, "p16_table_1e3_rows_1e4_T_s": small_s,
             "contrast": {"p15_read_table_1e6_rows_s": read_s, "p15_prepare_1e6_rows_s": load_s - read_s},
             "p15_case": f"spring crystal text, 10⁶ rows (read + validate + prepare); tables 1-1500 K, median of "
-                        f"{repeat}"}
-
-
-def p17(repeat=3):
-    """``modeheat calorimetry`` of the demo measurement with the demo DOS, in this process [s]."""
-    import contextlib
-    import io
-
-    from thermo.cli.main import main
-    measured = ROOT / "sample_dos" / "measured" / "springium_cp.csv"
-    dos = ROOT / "sample_dos" / "springium_fcc.dat"
-    points = sum(1 for line in measured.read_text().splitlines() if line[:1].isdigit())
-    with tempfile.TemporaryDirectory(prefix="modeheat-bench-") as tmp:
-        def run():
-            with contextlib.redirect_stderr(io.StringIO()):
-                code = main(["calorimetry", str(measured), "--dos", str(dos), "--output", str(Path(tmp) / "c.json"),
-                             "--force"])
-            if code != 0:
-                raise RuntimeError(f"calorimetry exited with {code}")
-        start = time.process_time()
-        seconds = median_seconds(run, repeat)
-        cpu = (time.process_time() - start) / (repeat + 1)
-    return {"p17_calorimetry_run_s": seconds, "contrast": {"p17_calorimetry_run_cpu_s": cpu},
-            "p17_case": f"calorimetry {measured.name} ({points} points) --dos {dos.name}, JSON report, median of "
                         f"{repeat}"}
 
 
