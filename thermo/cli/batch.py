@@ -11,6 +11,7 @@ from pathlib import Path
 
 from ..temperatures import parse_temperatures
 from .options import add_input_options, add_table_options, add_temperature_option, check_digits
+from .reading import reading_from_args
 
 
 def register(sub):
@@ -35,10 +36,8 @@ def run(args) -> int:
     if args.workers is not None and args.workers < 1:
         raise OptionError("--workers must be at least 1")
     options = BatchOptions(
-        temperatures=tuple(parse_temperatures(args.temperatures).tolist()),
-        freq_unit=args.freq_unit, atoms=args.atoms, negative=args.negative,
-        low_frequency=args.low_frequency, per=args.per, formula=args.formula,
-        fmt=args.format or "csv", force=args.force, digits=check_digits(args.digits))
+        temperatures=tuple(parse_temperatures(args.temperatures).tolist()), reading=reading_from_args(args),
+        per=args.per, fmt=args.format or "csv", force=args.force, digits=check_digits(args.digits))
     rows = run_batch(args.file, args.output, options, workers=args.workers, progress=True,
                      pattern=args.pattern)
     failed = [row for row in rows if row["status"] == "failed"]

@@ -11,7 +11,7 @@ from .options import add_input_options, check_output_target, write_text_output
 def register(sub):
     p = sub.add_parser("polynomial", help="Shomate, NASA 7-term or SGTE polynomial coefficients fitted to the "
                                           "harmonic C_p of a DOS (or to a (T, C_p) table), with fit errors")
-    add_input_options(p)
+    add_input_options(p, formula_help="needed for yaml: the species composition")
     p.add_argument("--cp-table", action="store_true",
                    help="the file is a (T, C_p) table (columns temperature_K, heat_capacity_p_J_per_mol_K, "
                         "optional entropy_J_per_mol_K; CSV or a modeheat JSON export) instead of a DOS")
@@ -26,7 +26,6 @@ def register(sub):
     p.add_argument("--formation-enthalpy", type=float, default=0.0, metavar="KJ_PER_MOL",
                    help="enthalpy of formation at 298.15 K in kJ/mol (default 0: an element in its reference state)")
     p.add_argument("--phase", default="cr", metavar="LABEL", help="phase label, e.g. cr, alpha (default cr)")
-    p.add_argument("--formula", help="chemical formula of the formula unit (needed for yaml: the composition)")
     p.add_argument("--format", default="json", choices=["json", "csv", "yaml"],
                    help="json (default), csv (one row per coefficient) or yaml (Cantera species block)")
     p.add_argument("--output", metavar="PATH", help="write here (default: stdout)")

@@ -4,8 +4,8 @@ from __future__ import annotations
 
 
 from ..temperatures import parse_temperatures
-from .options import (add_input_options, add_table_options, add_temperature_option, emit_table, load_from_args,
-                      output_plan, report_warnings)
+from .options import (add_input_options, add_table_options, add_temperature_option, emit_table, formula_of,
+                      load_from_args, output_plan, report_warnings)
 
 
 def register(sub):
@@ -22,7 +22,8 @@ def run(args) -> int:
     temperatures = parse_temperatures(args.temperatures)
     plan = output_plan(args)
     dos = load_from_args(args)
-    table = tabulate(dos, temperatures, per=args.per, formula=args.formula)
+    formula = formula_of(args, dos)
+    table = tabulate(dos, temperatures, per=args.per, formula=formula)
     report_warnings(dos)
-    info = provenance(dos, temperatures, per=args.per, formula=args.formula)
+    info = provenance(dos, temperatures, per=args.per, formula=formula)
     return emit_table(table, info, args, plan)

@@ -154,8 +154,8 @@ def parse_manifest(text, name="<manifest>"):
     return rows
 
 
-def read_manifest(source, files=None, freq_unit=None, atoms=None, negative="drop",
-                  low_frequency="auto", name=None, resolve=None):
+def read_manifest(source, files=None, freq_unit=None, atoms=None, negative=None,
+                  low_frequency=None, name=None, resolve=None, options=None):
     r"""Read a manifest and every DOS it lists.
 
     Parameters
@@ -165,8 +165,9 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative="drop
     files : dict of str to bytes, optional
         DOS files by name (uploads); ``dos_file`` is matched by its file
         name.  Without it, paths are relative to the manifest's folder.
-    freq_unit, atoms, negative, low_frequency
-        As :func:`thermo.preparation.load_dos`, applied to every DOS.
+    freq_unit, atoms, negative, low_frequency, options
+        As :func:`thermo.preparation.load_dos`, applied to every DOS
+        (``options``: the reading-options record; the keywords win over it).
     name : str, optional
         Display name of the manifest.
     resolve : callable, optional
@@ -225,6 +226,6 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative="drop
                 raise DosInputError(f"dos_file {dos_file!r} not found (looked in {target.parent})", shown, line)
             content, label = target, dos_file
         dos = load_dos(content, freq_unit=freq_unit, atoms=atoms, negative=negative,
-                       low_frequency=low_frequency, name=label)
+                       low_frequency=low_frequency, name=label, options=options)
         entries.append((volume, energy, dos, label))
     return make_volume_set(entries, {"name": shown, "sha256": hashlib.sha256(raw).hexdigest()})
