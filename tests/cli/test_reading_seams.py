@@ -2,6 +2,7 @@
 
 - ``batch --sheet`` reads the sheet asked for;
 - a ``ws:`` input can be set back to a default (``--negative drop``, ``--low-frequency auto``);
+- a commented header row names the partial columns as a plain header row does.
 
 External references: the Debye entropy by mpmath quadrature of
 S/R = (9/y³)∫₀^y x²[x/(eˣ−1) − ln(1−e⁻ˣ)] dx, y = θ/T (P. Debye, Ann. Phys. 39, 789 (1912));
@@ -99,3 +100,19 @@ def test_a_workspace_input_can_be_set_back_to_the_default(unstable_file, tmp_pat
     assert meta["negative_policy"] == "drop" and meta["low_frequency"] == "auto"
     # drop renormalises the real part to 3 modes: the θ = 300 K Debye entropy
     assert _entropy_298(table) == pytest.approx(debye_entropy(300.0, 298.15), rel=2e-3)
+
+
+def test_a_commented_header_row_names_the_partial_columns(tmp_path, capsys):
+    # each species' partial is a θ = 320 K Debye spectrum of 3 modes (one atom of each)
+    nu, g = debye_table(320.0, points=1601)
+    path = tmp_path / "mgo.dat"
+    path.write_text("# invented two-species test spectrum\n" + dos_text(nu, 2 * g, g, g,
+                                                                        header="# frequency(THz) total Mg O"))
+    out = tmp_path / "u.csv"
+    code = main(["displacements", str(path), "--formula", "MgO", "--temperatures", "0,320", "--output", str(out)])
+    assert code == 0, capsys.readouterr().err
+    table, _ = read_exported_csv(out.read_bytes())
+    for species, mass in (("Mg", 24.305), ("O", 15.999)):
+        rows = table[table["species"] == species]
+        want = [willis_pryor_msd(r, 320.0, mass) for r in (0.0, 1.0)]
+        np.testing.assert_allclose(rows["mean_square_displacement_A2"], want, rtol=2e-3)
