@@ -14,7 +14,7 @@ from __future__ import annotations
 
 import importlib
 
-__version__ = "0.1.0"
+__version__ = "0.3.0"
 
 _EXPORTS = {
     "load_dos": "preparation.loading",
@@ -22,6 +22,7 @@ _EXPORTS = {
     "zero_point_energy": "tables",
     "estimated_relative_error": "tables",
     "provenance": "tables",
+    "provenance_record": "provenance",
     "PhononDOS": "spectrum",
     "LowFrequencyFit": "spectrum",
     "DosInputError": "errors",

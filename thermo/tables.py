@@ -2,13 +2,10 @@
 
 from __future__ import annotations
 
-import datetime
-
 import numpy as np
 import pandas as pd
 from scipy import constants as sc
 
-from . import __version__
 from .columns import BASES, table_columns
 from .errors import OptionError
 from .formula import formula_unit
@@ -16,6 +13,7 @@ from .accuracy.breakdown import error_breakdown, estimated_relative_error, break
 from .kernels.sums import ZPE_J_PER_MOL_PER_THZ as _ZPE_J_PER_MOL_PER_THZ
 from .kernels.sums import molar_values as _molar_values
 from .kernels.sums import thermal_sums
+from .provenance import dos_input, provenance_record, temperature_settings
 
 #: Column names of :func:`tabulate` for each ``per`` choice (from :mod:`thermo.columns`).
 COLUMNS = {basis: table_columns(basis) for basis in BASES}
@@ -261,7 +259,7 @@ def table_from_sums(sums, temperatures, per="formula", atoms=1, formula=None):
 
 
 def provenance(dos, temperatures, per="formula", formula=None):
-    """Provenance record written beside every exported table.
+    """Provenance record written beside every exported harmonic table.
 
     Parameters
     ----------
@@ -277,44 +275,40 @@ def provenance(dos, temperatures, per="formula", formula=None):
     Returns
     -------
     dict
-        JSON-able values: tool, version, input name and SHA-256, unit, atoms,
-        raw integral, scale factor, imaginary share and policy, low-frequency
-        settings and fit, error estimate and its breakdown
-        (:func:`thermo.accuracy.breakdown.breakdown_summary`), warnings,
-        timestamp (UTC, ISO 8601).
+        :func:`thermo.provenance.provenance_record`: the input with its
+        SHA-256 and reading options, the settings (basis, formula,
+        temperature grid) and the DOS warnings; as details the raw integral,
+        scale factor, imaginary share, low-frequency settings and fit, error
+        estimate and its breakdown
+        (:func:`thermo.accuracy.breakdown.breakdown_summary`), zero-point
+        energy and the model statement.
 
     Examples
     --------
     >>> from thermo.spectrum import PhononDOS
     >>> d = PhononDOS(np.linspace(0, 5, 51), np.linspace(0, 5, 51) ** 2 * 0.072, atoms=1)
-    >>> provenance(d, [300.0])["atoms"]
+    >>> provenance(d, [300.0])["inputs"][0]["options"]["atoms"]
     1
     """
     fit = dos.low_frequency
     src = dos.source
     breakdown = error_breakdown(dos, temperatures)
-    return {
-        "tool": "modeheat", "version": __version__,
-        "input": src.get("name"), "input_sha256": src.get("sha256"),
-        "frequency_unit": src.get("freq_unit"), "atoms": dos.atoms,
-        "atoms_inferred": src.get("atoms_inferred"),
-        "raw_integral": src.get("raw_integral"), "scale_factor": src.get("scale_factor"),
-        "negative_mode_fraction": src.get("negative_mode_fraction"),
-        "negative_policy": src.get("negative_policy"),
-        "low_frequency": "off" if fit is None else ("auto" if fit.automatic else "manual"),
-        "low_frequency_window_THz": None if fit is None else list(fit.window_thz),
-        "low_frequency_cutoff_THz": None if fit is None else fit.cutoff_thz,
-        "low_frequency_fit": None if fit is None else {
+    return provenance_record(
+        [dos_input(dos)], {"basis": per, "formula": formula, "temperatures_K": temperature_settings(temperatures)},
+        dos.warnings,
+        raw_integral=src.get("raw_integral"), scale_factor=src.get("scale_factor"),
+        negative_mode_fraction=src.get("negative_mode_fraction"),
+        low_frequency="off" if fit is None else ("auto" if fit.automatic else "manual"),
+        low_frequency_window_THz=None if fit is None else list(fit.window_thz),
+        low_frequency_cutoff_THz=None if fit is None else fit.cutoff_thz,
+        low_frequency_fit=None if fit is None else {
             "coefficient_per_THz3": fit.coefficient, "coefficient_std_error": fit.coefficient_uncertainty,
             "curvature_per_THz2": fit.curvature, "offset": fit.offset,
             "rms_relative_misfit": fit.rms_relative_residual, "blend_top_THz": fit.blend_top_thz,
             "species_shares": dict(fit.species_shares)},
-        "low_frequency_debye_temperature_K": dos.low_frequency_debye_temperature_k(),
-        "estimated_relative_error": estimated_relative_error(dos, temperatures, breakdown),
-        "error_breakdown": breakdown_summary(breakdown),
-        "basis": per, "formula": formula,
-        "zero_point_energy_kJ_per_mol": zero_point_energy(dos) / 1e3,
-        "warnings": list(dos.warnings),
-        "model": "harmonic, fixed volume (C_v); no anharmonic, electronic or C_p - C_v terms",
-        "created_utc": datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="seconds"),
-    }
+        low_frequency_debye_temperature_K=dos.low_frequency_debye_temperature_k(),
+        estimated_relative_error=estimated_relative_error(dos, temperatures, breakdown),
+        error_breakdown=breakdown_summary(breakdown),
+        zero_point_energy_kJ_per_mol=zero_point_energy(dos) / 1e3,
+        model="harmonic, fixed volume (C_v); no anharmonic, electronic or C_p - C_v terms",
+    )

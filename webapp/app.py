@@ -38,7 +38,7 @@ def create_app(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, worksp
     max_upload_mb : float, optional
         Per-file upload limit [MB]; default from ``MODEHEAT_MAX_UPLOAD_MB`` or 20.
     demo_dir : path, optional
-        Folder of demo DOS files loaded on a first visit (default ``sample_dos/``).
+        Folder of demo DOS files loaded on a first visit (default: the installed ``sample_dos`` data package).
     saved_limit_chars : int, optional
         Largest workspace kept in the tab's session storage (see
         :func:`webapp.session.persistable`).

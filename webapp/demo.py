@@ -1,8 +1,9 @@
-"""The invented demo datasets loaded on a first visit (files of ``sample_dos/``)."""
+"""The invented demo datasets loaded on a first visit (files of the ``sample_dos`` data package)."""
 
 from __future__ import annotations
 
 import logging
+from importlib.resources import files
 from pathlib import Path
 
 from . import cache, session
@@ -10,8 +11,14 @@ from .reporting import attempt
 
 log = logging.getLogger(__name__)
 
-#: Demo files shipped in ``sample_dos/`` beside the package.
-DEMO_DIR = Path(__file__).resolve().parent.parent / "sample_dos"
+#: The invented demo files: ``sample_dos/`` of the repository, installed with the package as the
+#: data package ``sample_dos`` (found with :mod:`importlib.resources`, so a wheel install has them too).
+DEMO_DIR = Path(str(files("sample_dos")))
+
+
+def demo_file(*parts) -> Path:
+    """Path of one demo file, e.g. ``demo_file("volumes", "springium_volumes.csv")``."""
+    return DEMO_DIR.joinpath(*parts)
 DEMO_SUFFIXES = (".dat", ".tsv", ".csv", ".txt", ".xlsx")
 
 

@@ -178,19 +178,18 @@ def test_export_download_equals_tabulate(duo, files):
     box.send_keys("0:900:15\n")
     duo.wait_for_contains_text("#ex-preview", "temperature_K", timeout=20)
     duo.driver.find_element(By.CSS_SELECTOR, "#ex-per input[value='atom']").click()
-    duo.wait_for_contains_text("#ex-preview", "basis: atom", timeout=20)
+    duo.wait_for_contains_text("#ex-preview", '"basis": "atom"', timeout=20)
     duo.find_element("#ex-download-btn").click()
     target = Path(duo.download_path) / "uploaded_debye-atom.csv"
-    until(lambda: target.exists() and target.stat().st_size > 0, 20)
-    time.sleep(0.3)
-    df, meta = read_exported_csv(target)
     temperatures = np.arange(0.0, 901.0, 15.0)
+    until(lambda: target.exists() and target.read_text(encoding="utf-8").count("\n") > temperatures.size, 20)
+    df, meta = read_exported_csv(target)
     ref = tabulate(load_dos(good), temperatures, per="atom")
     assert list(df.columns) == list(ref.columns)
     # the page writes 8 significant digits (provenance says so): rounding moves a value by <= 5e-8 relative
     np.testing.assert_allclose(df.to_numpy(), ref.to_numpy(), rtol=5e-8, atol=0)
     assert int(meta["significant_digits"]) == 8
-    assert meta["input"] == good.name and meta["basis"] == "atom"
+    assert [i["name"] for i in meta["inputs"]] == [good.name] and meta["settings"]["basis"] == "atom"
     no_console_errors(duo)
 
 

@@ -1,21 +1,33 @@
 """Every CLI output on ``sample_dos/`` equals the pinned reference (see reference_cases).
 
-Text must be identical; numbers must agree to 1e-8 relative.  Exact byte
-equality of 17-digit floats does not survive a change of machine: the last
-binary digits of a sum depend on the CPU's vector width and the BLAS build, and
-fitted model parameters (root finding, least squares) converge only to their
-solver tolerance, where such differences show at ~1e-10.  Numbers are compared
-as numbers, everything else character by character.
+Text must be identical; numbers must agree to one unit in their eighth
+significant digit.  That is the precision every export carries
+(:data:`thermo.io.writers.DEFAULT_DIGITS` = 8): a value a hair from a rounding
+boundary flips its last printed digit when the machine changes (the last binary
+digits of a sum depend on the CPU's vector width and the BLAS build; a fitted θ
+converges only to its solver tolerance and moved by 4e-9 relative between two
+machines, flipping the last digit of 20 numbers of one table).  A unit in the
+eighth digit is 1e-8 to 1e-7 relative: inside the solver tolerance of the
+full-precision fitted values in the JSON reports, and far below any change of
+behaviour, which must fail (see ``test_comparison_can_fail``).
 """
 
+import math
 import re
 
 import pytest
 
+from thermo.io.writers import DEFAULT_DIGITS
+
 from .reference_cases import CASES, SAMPLES, reference_path, run_case
 
 _NUMBER = re.compile(r"[-+]?(?:\d+\.\d*|\.\d+|\d+)(?:[eE][-+]?\d+)?")
-RTOL = 1e-8
+
+
+def last_digit_unit(x: float, y: float) -> float:
+    """One unit in the :data:`DEFAULT_DIGITS`-th significant digit of the larger magnitude."""
+    top = max(abs(x), abs(y))
+    return 0.0 if top == 0 else 10.0 ** (math.floor(math.log10(top)) - (DEFAULT_DIGITS - 1))
 
 
 def assert_same_output(got: str, expected: str) -> None:
@@ -24,15 +36,18 @@ def assert_same_output(got: str, expected: str) -> None:
     b = [float(x) for x in _NUMBER.findall(expected)]
     assert len(a) == len(b)
     for i, (x, y) in enumerate(zip(a, b)):
-        assert abs(x - y) <= RTOL * max(abs(x), abs(y)) + 1e-300, f"number {i}: {x!r} != {y!r}"
+        assert abs(x - y) <= last_digit_unit(x, y) * (1 + 1e-6), f"number {i}: {x!r} != {y!r}"
 
 
 def test_comparison_can_fail():
-    with pytest.raises(AssertionError):
-        assert_same_output("C 1.0000001", "C 1.0")
-    with pytest.raises(AssertionError):
-        assert_same_output("Cv 1.0", "S 1.0")
-    assert_same_output("C 1.00000000000000001", "C 1.0")
+    # the case seen on another machine: the last of 8 digits flips -> same output
+    assert_same_output("C 5.2782687", "C 5.2782688")
+    assert_same_output("theta 412.34567891234567", "theta 412.34567892901234")   # 4e-11 relative
+    for got, expected in [("C 5.2782687", "C 5.2782690"),     # three units in the last digit
+                          ("C 1.000001", "C 1.0"), ("atoms 2", "atoms 3"), ("x 0", "x 1e-20"),
+                          ("Cv 1.0", "S 1.0")]:
+        with pytest.raises(AssertionError):
+            assert_same_output(got, expected)
 
 
 def test_every_sample_has_references():

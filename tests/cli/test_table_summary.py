@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import hashlib
 import json
 import subprocess
 import sys
@@ -35,7 +36,9 @@ def test_table_csv_to_stdout_equals_tabulate(debye_file):
     expected = tabulate(load_dos(debye_file), np.arange(0, 301, 50.0))
     assert list(df.columns) == list(expected.columns)
     assert np.allclose(df.to_numpy(), expected.to_numpy(), rtol=1e-15, atol=0)
-    assert info["input_sha256"] and info["atoms"] == 1 and info["frequency_unit"] == "THz"
+    (source,) = info["inputs"]
+    assert source["sha256"] == hashlib.sha256(debye_file.read_bytes()).hexdigest()
+    assert source["options"]["atoms"] == 1 and source["options"]["frequency_unit"] == "THz"
     assert "inferred" in out.stderr  # warnings go to stderr
 
 
@@ -48,7 +51,7 @@ def test_table_files_round_trip(debye_file, tmp_path, fmt):
     expected = tabulate(load_dos(debye_file), [10, 100, 298.15], per="atom")
     if fmt == "json":
         df, info = read_exported_json(target)
-        assert info["basis"] == "atom"
+        assert info["settings"]["basis"] == "atom"
     else:
         df = pd.read_excel(target, sheet_name="table")
     # default 8 significant digits: rounding error at most half a unit in the 8th digit

@@ -14,7 +14,7 @@ import pytest
 
 from tests.spectra import band_plus_peaks
 from thermo.errors import OptionError
-from thermo.io.cantera_yaml import cantera_yaml
+from thermo.polynomials.cantera_yaml import cantera_yaml
 from thermo.polynomials import fit_polynomial, harmonic_source
 
 ct = pytest.importorskip("cantera")

@@ -23,8 +23,10 @@ def test_csv_has_named_columns_and_provenance(tmp_path, capsys):
     assert main(["quasiharmonic", str(DEMO), "--temperatures", "0:600:50", "--output", str(out)]) == 0
     table, info = read_exported_csv(out.read_bytes())
     assert set(REQUIRED) <= set(table.columns) and table.columns[0] == "temperature_K"
-    assert info["tool"] == "modeheat" and info["input"] == "springium_volumes.csv"
-    assert len(info["volumes"]) == 11 and info["equation_of_state"] == "birch-murnaghan"
+    assert info["tool"] == "modeheat" and info["inputs"][0]["name"] == "springium_volumes.csv"
+    # the manifest, then every DOS file with its own SHA-256
+    assert len(info["inputs"]) == 12 and len({i["sha256"] for i in info["inputs"]}) == 12
+    assert len(info["volumes"]) == 11 and info["settings"]["equation_of_state"] == "birch-murnaghan"
     assert any("melting" in c for c in info["cautions"])
     # Common practice: C_p >= C_v, and both approach 3R = 24.94 J/(mol K) per atom from either side.
     assert np.all(table.heat_capacity_p_J_per_mol_K >= table.heat_capacity_v_J_per_mol_K - 1e-12)
@@ -34,7 +36,7 @@ def test_csv_has_named_columns_and_provenance(tmp_path, capsys):
 
 def test_json_and_vinet_and_pressure(capsys):
     assert main(["quasiharmonic", str(DEMO), "--temperatures", "300", "--eos", "vinet", "--format", "json"]) == 0
-    assert json.loads(capsys.readouterr().out)["provenance"]["equation_of_state"] == "vinet"
+    assert json.loads(capsys.readouterr().out)["provenance"]["settings"]["equation_of_state"] == "vinet"
     assert main(["quasiharmonic", str(DEMO), "--temperatures", "300", "--format", "json"]) == 0
     at_zero = json.loads(capsys.readouterr().out)
     assert main(["quasiharmonic", str(DEMO), "--temperatures", "300", "--pressure", "2", "--format", "json"]) == 0

@@ -162,7 +162,7 @@ def test_export_xlsx_and_json_hold_the_tabulated_values(ws):
     # 8 significant digits (the default of exports): within half a unit of the 8th digit
     np.testing.assert_allclose(np.array(obj["data"]), ref[[column_name(k) for k in ("temperature", "heat_capacity_v", "helmholtz_energy")]].to_numpy(), rtol=5e-8, atol=0)
     assert obj["provenance"]["significant_digits"] == 8
-    assert obj["provenance"]["input"] == "debye.dat"
+    assert [i["name"] for i in obj["provenance"]["inputs"]] == ["debye.dat"]
     _, xl = export.export_bytes(session.active(ws), "0:300:50", "formula", ALL, "xlsx")
     sheet = openpyxl.load_workbook(io.BytesIO(xl))["table"]
     rows = list(sheet.values)

@@ -83,22 +83,40 @@ def run(args) -> int:
     report, fit, third = analyse(measured, model, parse_fixed(args.fix), fit_range, args.low_t_max)
     for note in report["notes"]:
         print(f"note: {note}", file=sys.stderr)
+    record = calorimetry_provenance(args, measured, dos, report["notes"])
     if args.format == "json":
         report["residuals"] = {k: [_number(v) for v in fit.residuals[k]] for k in fit.residuals.columns}
-        text = json.dumps(report, indent=2, allow_nan=False) + "\n"
+        text = json.dumps({"provenance": record, **report}, indent=2, allow_nan=False) + "\n"
         if args.output:
             write_text_output(args, text)
         else:
             sys.stdout.write(text)
         return 0
     table = third.merge(fit.residuals.drop(columns=[third.columns[1]]), on=third.columns[0], how="left")
-    info = {k: v for k, v in report.items() if k not in ("correlation", "low_temperature_analysis")}
+    record.update((k, v) for k, v in report.items()
+                  if k not in ("input", "sha256", "notes", "correlation", "low_temperature_analysis"))
     if args.output:
-        write_table(table, info, args.format, args.output, overwrite=args.force)
+        write_table(table, record, args.format, args.output, overwrite=args.force)
         print(f"wrote {args.output}", file=sys.stderr)
         return 0
-    sys.stdout.write(export_table(table, info, args.format).decode("utf-8"))
+    sys.stdout.write(export_table(table, record, args.format).decode("utf-8"))
     return 0
+
+
+def calorimetry_provenance(args, measured, dos, notes):
+    """The provenance record of a calorimetry result: the measured file, ``--dos`` and ``--dilation-values``."""
+    from ..provenance import dos_input, input_record, provenance_record
+    inputs = [input_record(measured.source, measured.sha256,
+                           {"cp_unit": args.cp_unit, "unit_read": measured.unit, "formula": args.formula},
+                           role="measured heat capacity")]
+    if dos is not None:
+        inputs.append(dos_input(dos, role="lattice DOS"))
+    if args.dilation_values:
+        inputs.append(input_record(args.dilation_values, data=args.dilation_values, role="dilation values"))
+    settings = {"model": args.model, "fixed": list(args.fix), "fit_range_K": args.range,
+                "low_t_max_K": args.low_t_max, "atoms": args.atoms}
+    dos_notes = [] if dos is None else [f"{args.dos}: {w}" for w in dos.warnings]
+    return provenance_record(inputs, settings, dos_notes + list(notes))
 
 
 def _number(value):

@@ -51,6 +51,7 @@ def run(args) -> int:
     from ..errors import OptionError
     from ..models import CompositeModel, model_tables, models_report, side_by_side
     from ..io.writers import export_table
+    from ..provenance import dos_input, provenance_record, temperature_settings
 
     if args.optical_terms < 1:
         raise OptionError(f"--optical-terms must be >= 1, got {args.optical_terms}")
@@ -61,17 +62,21 @@ def run(args) -> int:
     dos = load_from_args(args)
     report_warnings(dos)
     report = models_report(dos, temperatures if args.format == "json" else None, fit_range, args.optical_terms)
+    settings = {"fit_range_K": None if fit_range is None else list(fit_range), "optical_terms": args.optical_terms,
+                "temperatures_K": None if temperatures is None else temperature_settings(temperatures)}
     if args.format == "json":
-        print(json.dumps(report, indent=2, allow_nan=False))
+        record = provenance_record([dos_input(dos)], settings, dos.warnings)
+        print(json.dumps({"provenance": record, **report}, indent=2, allow_nan=False))
         return 0
     composite = CompositeModel.from_dict(report["composite"])
     tables = model_tables(dos, temperatures, report["einstein_theta_fit_K"], report["debye_theta_fit_K"], composite)
-    info = {"input": dos.source.get("name"), "atoms": dos.atoms,
-            "einstein_theta_K": report["einstein_theta_fit_K"], "debye_theta_K": report["debye_theta_fit_K"],
-            "composite_debye_theta_K": report["composite_debye_theta_K"],
-            "composite_einstein_theta_K": report["composite_einstein_theta_K"],
-            "fit_range_K": report["fit_range_K"],
-            "note": "einstein/debye columns use the θ fitted to C_v over fit_range_K; U and F include the ZPE"}
+    info = provenance_record(
+        [dos_input(dos)], settings, dos.warnings,
+        einstein_theta_K=report["einstein_theta_fit_K"], debye_theta_K=report["debye_theta_fit_K"],
+        composite_debye_theta_K=report["composite_debye_theta_K"],
+        composite_einstein_theta_K=report["composite_einstein_theta_K"],
+        fit_range_K=report["fit_range_K"],
+        note="einstein/debye columns use the θ fitted to C_v over fit_range_K; U and F include the ZPE")
     sys.stdout.write(export_table(side_by_side(tables), info, "csv", digits=check_digits(args.digits))
                      .decode("utf-8"))
     return 0

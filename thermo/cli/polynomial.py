@@ -34,21 +34,26 @@ def register(sub):
 
 
 def load_source(args, t_range):
-    """The heat-capacity source named by the parsed options."""
+    """The heat-capacity source named by the parsed options and its ``inputs`` entry for the provenance."""
     from ..polynomials import harmonic_source, source_from_table
+    from ..provenance import dos_input, input_record
     from .options import load_from_args
 
     if args.cp_table:
         from ..io.readback import read_exported_csv, read_exported_json
         reader = read_exported_json if str(args.file).lower().endswith(".json") else read_exported_csv
         table, _ = reader(args.file)
-        return source_from_table(table, entropy_298=args.entropy_298, label=f"C_p table {Path(args.file).name}")
-    return harmonic_source(load_from_args(args), *t_range)
+        entry = input_record(args.file, data=args.file, options={"entropy_298_J_per_mol_K": args.entropy_298},
+                             role="heat-capacity table")
+        return source_from_table(table, entropy_298=args.entropy_298,
+                                 label=f"C_p table {Path(args.file).name}"), entry
+    dos = load_from_args(args)
+    return harmonic_source(dos, *t_range), dos_input(dos)
 
 
 def run(args) -> int:
     from ..errors import OptionError
-    from ..io.cantera_yaml import polynomial_export, species_name
+    from ..polynomials.cantera_yaml import polynomial_export, species_name
     from ..polynomials import fit_polynomial
     from ..polynomials.fitting import check_range
     from .models import parse_fit_range
@@ -59,11 +64,11 @@ def run(args) -> int:
     if args.format == "yaml" and not args.formula:
         raise OptionError("yaml output needs --formula (the species composition, e.g. MgO)")
     check_output_target(args)
-    source = load_source(args, t_range)
+    source, entry = load_source(args, t_range)
     name = species_name(args.formula, args.phase) if args.formula else None
     fit = fit_polynomial(source, args.form, t_range, t_mid=args.mid, formation_enthalpy=args.formation_enthalpy,
                          phase=args.phase, name=name)
-    text = polynomial_export(fit, args.format, args.formula)
+    text = polynomial_export(fit, args.format, args.formula, fit.provenance([entry], args.formula))
     for note in fit.warnings:
         print(f"warning: {note}", file=sys.stderr)
     if args.output:

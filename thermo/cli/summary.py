@@ -23,13 +23,14 @@ def summarize(dos, temperatures):
     from ..columns import column_name
     from ..tables import provenance, tabulate
     info = provenance(dos, temperatures)
+    source = info["inputs"][0]
     at_room = tabulate(dos, [298.15]).iloc[0]
     return {
-        "input": info["input"], "frequency_unit": info["frequency_unit"],
-        "atoms": dos.atoms, "atoms_inferred": info["atoms_inferred"],
+        "input": source["name"], "frequency_unit": source["options"]["frequency_unit"],
+        "atoms": dos.atoms, "atoms_inferred": source["options"]["atoms_inferred"],
         "raw_integral": info["raw_integral"], "scale_factor": info["scale_factor"],
         "negative_mode_fraction": info["negative_mode_fraction"],
-        "negative_policy": info["negative_policy"],
+        "negative_policy": source["options"]["negative"],
         "zero_point_energy_kJ_per_mol": info["zero_point_energy_kJ_per_mol"],
         "low_frequency": info["low_frequency"],
         "low_frequency_window_THz": info["low_frequency_window_THz"],

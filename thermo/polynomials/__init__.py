@@ -3,7 +3,7 @@
 :mod:`.forms` (the published equations), :mod:`.sources` (harmonic table or
 any (T, C_p) table -> C_p, S, H − H(298.15)), :mod:`.fitting`
 (:func:`fit_polynomial`), :mod:`.result` (:class:`PolynomialFit`:
-coefficients, ``evaluate(T)``, errors).  Files: :mod:`thermo.io.cantera_yaml`.
+coefficients, ``evaluate(T)``, errors).  Files: :mod:`.cantera_yaml`.
 """
 
 from .fitting import DEFAULT_RANGE, fit_polynomial

@@ -146,6 +146,29 @@ class PolynomialFit:
                 "reference_temperature_K": self.reference_temperature_K,
                 "units": units, "source": self.source, "method": self.method}
 
+    def provenance(self, inputs, formula=None):
+        """The provenance record of an export of this fit (:func:`thermo.provenance.provenance_record`).
+
+        Parameters
+        ----------
+        inputs : iterable of dict
+            The source's file entries (:func:`thermo.provenance.dos_input` or ``input_record``).
+        formula : str, optional
+            Chemical formula recorded with the settings.
+
+        Returns
+        -------
+        dict
+            Settings: form, range, midpoint (two ranges), formation enthalpy,
+            phase, formula; warnings: the fit's.
+        """
+        from ..provenance import provenance_record
+        settings = {"form": self.form, "range_K": [self.ranges[0].T_min_K, self.ranges[-1].T_max_K],
+                    "mid_K": self.ranges[0].T_max_K if len(self.ranges) > 1 else None,
+                    "formation_enthalpy_kJ_per_mol": self.formation_enthalpy_kJ_per_mol,
+                    "phase": self.phase, "formula": formula}
+        return provenance_record(inputs, settings, self.warnings)
+
 
 def _relative(fit_values, source_values, floor_share=0.0):
     scale = np.abs(source_values)

@@ -2,10 +2,9 @@
 
 from __future__ import annotations
 
-import datetime
 import re
 
-from .. import __version__
+from ..provenance import dos_input, input_record, provenance_record, temperature_settings
 from ..tables import estimated_relative_error
 
 
@@ -39,37 +38,36 @@ def quasiharmonic_provenance(volume_set, table, temperatures):
     Returns
     -------
     dict
-        JSON-able: the keys of a harmonic table's provenance (tool, version,
-        input and SHA-256, unit, atoms, policies, low-frequency settings, the
-        largest discretisation error estimate, basis, warnings, model,
-        timestamp) plus the EOS, pressure, per-volume records and cautions.
+        :func:`thermo.provenance.provenance_record`: inputs (the manifest,
+        then every DOS with its SHA-256 and reading options), settings (basis,
+        formula, EOS, pressure, temperature grid), warnings; as details the
+        atoms, low-frequency mode, the largest error estimate, the fit
+        diagnostics, per-volume records, cautions and the model statement.
     """
     doses = volume_set.doses
     first = doses[0]
     diag = table.attrs.get("diagnostics", {})
     fits = [d.low_frequency for d in doses]
-    warnings = _grouped_warnings(volume_set)
-    return {
-        "tool": "modeheat", "version": __version__,
-        "input": volume_set.source.get("name"), "input_sha256": volume_set.source.get("sha256"),
-        "frequency_unit": sorted({str(d.source.get("freq_unit")) for d in doses}),
-        "atoms": volume_set.atoms, "atoms_inferred": bool(first.source.get("atoms_inferred")),
-        "negative_policy": first.source.get("negative_policy"),
-        "low_frequency": "off" if fits[0] is None else ("auto" if fits[0].automatic else "manual"),
-        "estimated_relative_error": max(estimated_relative_error(d, temperatures) for d in doses),
-        "basis": table.attrs.get("per"), "formula": table.attrs.get("formula"),
-        "equation_of_state": table.attrs.get("eos"), "pressure_GPa": table.attrs.get("pressure_GPa"),
-        "volume_range_A3": diag.get("volume_range_A3"),
-        "max_fit_residual_meV": diag.get("max_fit_residual_meV"),
-        "outside_range_K": diag.get("outside_range_K"),
-        "imaginary_volumes_A3": diag.get("imaginary_volumes"),
-        "volumes": [{"volume_A3": r["volume_A3"], "energy_eV": r["energy_eV"], "dos_file": r["dos_file"],
-                     "dos_sha256": d.source.get("sha256"), "imaginary_share": r["imaginary_share"],
-                     "raw_integral": d.source.get("raw_integral")}
-                    for r, d in zip(diag.get("volumes", []), doses)],
-        "warnings": list(diag.get("warnings", [])) + warnings,
-        "cautions": list(diag.get("cautions", [])),
-        "model": "quasi-harmonic: F(V,T) = E(V) + F_vib(V,T) (zero-point included), EOS fit at each T, "
-                 "G = min_V (F + pV); no explicit anharmonic, electronic or defect terms",
-        "created_utc": datetime.datetime.now(datetime.timezone.utc).isoformat(timespec="seconds"),
-    }
+    records = diag.get("volumes", [])
+    inputs = [input_record(volume_set.source.get("name"), volume_set.source.get("sha256"), role="manifest")] \
+        if volume_set.source.get("name") else []
+    inputs += [dos_input(d, role=f"DOS at {v:.6g} Å³") for v, d in zip(volume_set.volumes_a3, doses)]
+    settings = {"basis": table.attrs.get("per"), "formula": table.attrs.get("formula"),
+                "equation_of_state": table.attrs.get("eos"), "pressure_GPa": table.attrs.get("pressure_GPa"),
+                "temperatures_K": temperature_settings(temperatures)}
+    return provenance_record(
+        inputs, settings, list(diag.get("warnings", [])) + _grouped_warnings(volume_set),
+        atoms=volume_set.atoms, atoms_inferred=bool(first.source.get("atoms_inferred")),
+        low_frequency="off" if fits[0] is None else ("auto" if fits[0].automatic else "manual"),
+        estimated_relative_error=max(estimated_relative_error(d, temperatures) for d in doses),
+        volume_range_A3=diag.get("volume_range_A3"),
+        max_fit_residual_meV=diag.get("max_fit_residual_meV"),
+        outside_range_K=diag.get("outside_range_K"),
+        imaginary_volumes_A3=diag.get("imaginary_volumes"),
+        volumes=[{"volume_A3": r["volume_A3"], "energy_eV": r["energy_eV"], "dos_file": r["dos_file"],
+                  "imaginary_share": r["imaginary_share"], "raw_integral": d.source.get("raw_integral")}
+                 for r, d in zip(records, doses)],
+        cautions=list(diag.get("cautions", [])),
+        model="quasi-harmonic: F(V,T) = E(V) + F_vib(V,T) (zero-point included), EOS fit at each T, "
+              "G = min_V (F + pV); no explicit anharmonic, electronic or defect terms",
+    )

@@ -349,18 +349,21 @@ def displacement_provenance(dos, temperatures, formula=None, masses=None, distan
     Returns
     -------
     dict
-        :func:`thermo.tables.provenance` with the displacement settings,
-        convention, per-species key numbers, window sensitivity and warnings.
+        :func:`thermo.tables.provenance` with the displacement settings
+        (basis, masses, distance), convention, per-species key numbers,
+        window sensitivity and warnings.
     """
     from ..tables import provenance
     info = provenance(dos, temperatures, formula=formula)
     summary = summary or displacement_summary(dos, formula, masses, distance_a, temperatures, species)
-    info.update({
+    info["settings"].update({
         "basis": "per atom of each species", "masses_amu": {k: v["mass_amu"] for k, v in summary["species"].items()},
-        "nearest_neighbour_distance_A": distance_a, "convention": CONVENTION,
+        "nearest_neighbour_distance_A": distance_a})
+    info["warnings"] = list(dos.warnings) + summary["warnings"]
+    info.update({
+        "convention": CONVENTION,
         "model": "harmonic: ⟨u²⟩ = ħ/(2 m n) ∫ g(ω)/ω coth(ħω/2k_BT) dω per species; no anharmonic terms",
         "displacement_key_numbers": summary["species"],
         "window_sensitivity": summary["window_sensitivity"],
-        "warnings": list(dos.warnings) + summary["warnings"],
     })
     return info

@@ -4,7 +4,6 @@ from __future__ import annotations
 
 import base64
 import hashlib
-from pathlib import Path
 
 import dash
 import numpy as np
@@ -18,6 +17,7 @@ from thermo.columns import column_name, find
 from thermo.errors import OptionError
 
 from .. import cache, session
+from ..demo import demo_file
 from .. import components as c
 from .. import figures as fg
 from ..intake import decode_upload
@@ -26,7 +26,7 @@ from ..reporting import reported
 PATH, NAME, ORDER = "/calorimetry", "Calorimetry", 7
 
 #: The invented measured demo file (see ``sample_dos/generate_calorimetry.py``).
-DEMO_FILE = Path(__file__).resolve().parents[2] / "sample_dos" / "measured" / "springium_cp.csv"
+DEMO_FILE = demo_file("measured", "springium_cp.csv")
 #: The demo DOS the demo measurement was generated from.
 DEMO_DOS = "springium_fcc.dat"
 ROOM_K = 298.15

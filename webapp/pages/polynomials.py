@@ -7,7 +7,8 @@ import numpy as np
 from dash import Input, Output, State, callback, dcc, html, no_update
 
 from thermo.errors import ModeheatError
-from thermo.io.cantera_yaml import polynomial_export, species_name
+from thermo.polynomials.cantera_yaml import polynomial_export, species_name
+from thermo.provenance import dos_input
 from thermo.polynomials import fit_polynomial, harmonic_source
 
 from .. import cache, session
@@ -42,6 +43,11 @@ def fitted(dataset, form, t_min, t_max, t_mid, formation, phase, formula):
                                       phase=phase or "cr", name=name)
     return cache.derived("polynomial", dataset, compute, form, lo, hi, mid, _number(formation, 0.0),
                          phase or "cr", name)
+
+
+def export_text(dataset, fit, fmt, formula):
+    """The coefficient file with its provenance, as ``modeheat polynomial`` writes it."""
+    return polynomial_export(fit, fmt, formula, fit.provenance([dos_input(cache.load(dataset))], formula))
 
 
 def figures(source, fit):
@@ -134,7 +140,7 @@ def draw(workspace, form, t_min, t_max, t_mid, formation, phase, formula, output
     over, err = figures(source, fit)
     messages = [("warning", w) for w in fit.warnings]
     try:
-        block = polynomial_export(fit, output or "json", settings[-1] or None)
+        block = export_text(current, fit, output or "json", settings[-1] or None)
     except ModeheatError as exc:  # a format this fit cannot take (SGTE or no formula for YAML): say so
         block, messages = "", messages + [("error", one_line(exc))]
     return over, err, error_numbers(fit), block, c.active_note(current), c.message_items(messages)
@@ -153,7 +159,7 @@ def download(_clicks, workspace, form, t_min, t_max, t_mid, formation, phase, fo
     settings = _settings(form, t_min, t_max, t_mid, formation, phase, formula)
     _, fit = fitted(current, *settings)
     fmt = output or "json"
-    text = polynomial_export(fit, fmt, settings[-1] or None)
+    text = export_text(current, fit, fmt, settings[-1] or None)
     stem = current["name"].rsplit(".", 1)[0] or "polynomial"
     name = f"{stem}-{fit.form}.{fmt}"
     return dcc.send_string(text, name), no_update

@@ -19,6 +19,7 @@ from thermo.quasiharmonic.report import quasiharmonic_provenance
 from thermo.temperatures import temperature_range
 
 from .. import cache, session
+from ..demo import demo_file
 from .. import components as c
 from .. import figures as fg
 from ..labels import PER_CHOICES, axis_title
@@ -26,7 +27,7 @@ from ..reporting import reported
 
 PATH, NAME, ORDER = "/quasiharmonic", "Quasi-harmonic", 6
 
-DEMO_MANIFEST = Path(__file__).resolve().parents[2] / "sample_dos" / "volumes" / "springium_volumes.csv"
+DEMO_MANIFEST = demo_file("volumes", "springium_volumes.csv")
 EOS_CHOICES = [{"label": "Birch–Murnaghan (3rd order)", "value": "birch-murnaghan"},
                {"label": "Vinet", "value": "vinet"}]
 SOURCE_CHOICES = [{"label": "manifest + DOS files", "value": "manifest"},

@@ -17,7 +17,7 @@ from __future__ import annotations
 
 from ..errors import OptionError
 from ..formula import formula_unit
-from ..polynomials.forms import KEYS
+from .forms import KEYS
 
 #: Cantera model name of each form that has one.
 MODELS = {"nasa7": "NASA7", "shomate": "Shomate"}
@@ -106,9 +106,10 @@ def cantera_yaml(fit, formula):
     return "\n".join(lines) + "\n"
 
 
-def polynomial_export(fit, fmt, formula=None):
-    """A fit as file text: ``json`` (the record of :meth:`PolynomialFit.to_dict`),
-    ``csv`` (one row per coefficient, provenance lines first) or ``yaml`` (Cantera).
+def polynomial_export(fit, fmt, formula=None, provenance=None):
+    """A fit as file text: ``json`` (the provenance and the record of
+    :meth:`PolynomialFit.to_dict`), ``csv`` (one row per coefficient, provenance
+    lines first) or ``yaml`` (Cantera; the provenance as one comment line).
 
     Parameters
     ----------
@@ -116,6 +117,9 @@ def polynomial_export(fit, fmt, formula=None):
     fmt : {'json', 'csv', 'yaml'}
     formula : str, optional
         Chemical formula (needed for ``yaml``; recorded otherwise).
+    provenance : dict, optional
+        :func:`thermo.provenance.provenance_record` of the fit (its input and
+        settings); when None, a record without inputs carrying the fit's warnings.
 
     Returns
     -------
@@ -137,18 +141,22 @@ def polynomial_export(fit, fmt, formula=None):
 
     import pandas as pd
 
-    from .writers import export_table
+    from ..io.writers import export_table
 
+    from ..provenance import COMMON_KEYS, provenance_record
+
+    info = provenance if provenance is not None else provenance_record(warnings=fit.warnings)
     kind = str(fmt).lower()
     if kind == "yaml":
-        return cantera_yaml(fit, formula)
+        return f"# provenance: {json.dumps(info, allow_nan=False, ensure_ascii=False)}\n" + cantera_yaml(fit, formula)
     record = fit.to_dict()
     record["formula"] = formula
     if kind == "json":
-        return json.dumps(record, indent=2, allow_nan=False, ensure_ascii=False) + "\n"
+        return json.dumps({"provenance": info, **record}, indent=2, allow_nan=False, ensure_ascii=False) + "\n"
     if kind != "csv":
         raise OptionError(f"unknown polynomial format {fmt!r}; choose json, csv or yaml")
     rows = [(i, r["T_min_K"], r["T_max_K"], key, value) for i, r in enumerate(record.pop("ranges"))
             for key, value in r["coefficients"].items()]
     table = pd.DataFrame(rows, columns=["range", "T_min_K", "T_max_K", "coefficient", "value"])
-    return export_table(table, record, "csv").decode("utf-8")
+    meta = {**info, **{k: v for k, v in record.items() if k not in COMMON_KEYS}}
+    return export_table(table, meta, "csv").decode("utf-8")
