@@ -97,7 +97,8 @@ def test_a_workspace_input_can_be_set_back_to_the_default(unstable_file, tmp_pat
     assert main(["table", "ws:unstable.dat", "--workspace", store, "--negative", "drop", "--low-frequency", "auto",
                  "--temperatures", "298.15", "--output", str(out)]) == 0
     table, meta = read_exported_json(out.read_bytes())
-    assert meta["negative_policy"] == "drop" and meta["low_frequency"] == "auto"
+    used = meta["inputs"][0]["options"]
+    assert used["negative"] == "drop" and used["low_frequency"] == "auto"
     # drop renormalises the real part to 3 modes: the θ = 300 K Debye entropy
     assert _entropy_298(table) == pytest.approx(debye_entropy(300.0, 298.15), rel=2e-3)
 

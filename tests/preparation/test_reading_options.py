@@ -114,3 +114,13 @@ def test_the_options_used_travel_with_the_spectrum():
 
 def test_parsed_namespace_without_reading_flags_is_all_unset():
     assert ReadingOptions.from_args(argparse.Namespace(file="x")) == ReadingOptions()
+
+
+def test_the_provenance_lists_each_inputs_reading_options():
+    from thermo.provenance import dos_input
+    nu, g = debye_table(300.0, points=401)
+    dos = load_dos(dos_text(nu, g, header="x y"), freq_unit="THz", low_frequency="off",
+                   options=ReadingOptions(formula="Cu"))
+    options = dos_input(dos)["options"]
+    assert options == {"frequency_unit": "THz", "atoms": 1, "atoms_inferred": True, "negative": "drop",
+                       "low_frequency": "off", "formula": "Cu"}
