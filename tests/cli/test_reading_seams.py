@@ -117,3 +117,20 @@ def test_a_commented_header_row_names_the_partial_columns(tmp_path, capsys):
         rows = table[table["species"] == species]
         want = [willis_pryor_msd(r, 320.0, mass) for r in (0.0, 1.0)]
         np.testing.assert_allclose(rows["mean_square_displacement_A2"], want, rtol=2e-3)
+
+
+@pytest.mark.parametrize("command", ["table", "batch", "displacements", "quasiharmonic"])
+def test_the_temperature_help_describes_the_default_it_states(command, capsys):
+    # issue 25 item 7: displacements --help said "default 0:1000:10: 0 to 1500 K every 5 K ..."
+    import re
+
+    from thermo.temperatures import parse_temperatures
+    with pytest.raises(SystemExit):
+        main([command, "--help"])
+    text = " ".join(capsys.readouterr().out.split())
+    spec, words = re.search(r"\(default ([0-9.:,]+): ([^)]*)\)", text).groups()
+    grid = parse_temperatures(spec)
+    assert f"{grid[0]:g} to {grid[-1]:g} K" in words
+    step = spec.split(",")[0].split(":")[2]
+    assert f"every {float(step):g} K" in words
+    assert ("298.15" in words) == ("298.15" in spec)

@@ -5,7 +5,7 @@ from __future__ import annotations
 import os
 import sys
 
-from ..temperatures import DEFAULT_TEMPERATURES
+from ..temperatures import DEFAULT_TEMPERATURES, describe_temperatures
 from .reading import add_reading_options
 
 
@@ -55,7 +55,7 @@ def add_temperature_option(parser, default=DEFAULT_TEMPERATURES):
     """Add ``--temperatures SPEC``."""
     parser.add_argument("--temperatures", default=default, metavar="SPEC",
                         help="START:STOP:STEP in K (STOP included), a comma list, or both mixed "
-                             f"(default {default}: 0 to 1500 K every 5 K plus the standard 298.15 K)")
+                             f"(default {default}: {describe_temperatures(default)})")
 
 
 def load_from_args(args, source=None):
