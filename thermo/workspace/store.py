@@ -332,7 +332,8 @@ class Space:
             else:
                 con.execute("DELETE FROM datasets WHERE id = ?", (d.id,))
                 con.execute("DELETE FROM blobs WHERE sha256 = ? AND NOT EXISTS "
-                            "(SELECT 1 FROM datasets WHERE sha256 = ?)", (d.sha256, d.sha256))
+                            "(SELECT 1 FROM datasets WHERE sha256 = ?) AND NOT EXISTS "
+                            "(SELECT 1 FROM set_files WHERE sha256 = ?)", (d.sha256, d.sha256, d.sha256))
         return d
 
     def restore(self, dataset_id):
