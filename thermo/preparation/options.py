@@ -116,7 +116,7 @@ def low_frequency_window(setting):
 
 
 def _atoms(value):
-    if value is None:
+    if value is None or (isinstance(value, str) and not value.strip()):
         return None
     from .atoms import MAX_ATOMS
     try:
