@@ -237,7 +237,8 @@ register_quantity("heat_capacity_p_measured", "C_p,meas", "entropy", description
 register_quantity("heat_capacity_p_uncertainty", "u(C_p)", "entropy", description="standard uncertainty of the measured C_p")
 register_quantity("heat_capacity_p_model", "C_p,model", "entropy", description="fitted model heat capacity at constant pressure")
 register_quantity("heat_capacity_lattice", "C_lat", "entropy", description="lattice (phonon) part of the model heat capacity")
-register_quantity("heat_capacity_electronic", "γT", "entropy", description="electronic part γT of the model heat capacity")
+register_quantity("heat_capacity_electronic", "C_el", "entropy",
+                  description="electronic heat capacity (from an electronic DOS; γT in a calorimetry model)")
 register_quantity("heat_capacity_dilation", "C_p−C_v", "entropy", description="dilation term C_p − C_v of the model")
 register_quantity("heat_capacity_p_residual", "ΔC_p", "entropy", description="model minus measured C_p")
 register_quantity("relative_residual", "ΔC_p/C_p", "fixed", description="(model − measured)/measured C_p")
@@ -255,3 +256,26 @@ for _key, _symbol, _kind in (("heat_capacity_v", "C_v", "entropy"), ("entropy", 
                           description=f"{_what} of {_symbol}, relative to |{_symbol}|")
 register_quantity("low_frequency_flag", "flag", "fixed", "",
                   description="low-frequency spread of C_v or S over 1 %")
+# --- electronic term of metals (thermo.electronic) ---
+register_quantity("entropy_electronic", "S_el", "entropy", description="electronic entropy from an electronic DOS")
+register_quantity("internal_energy_electronic", "U_el", "energy",
+                  description="electronic internal energy relative to the electronic ground state (0 K)")
+register_quantity("helmholtz_energy_electronic", "F_el", "energy",
+                  description="electronic Helmholtz energy U_el − T S_el, relative to the electronic ground state (0 K)")
+register_quantity("chemical_potential_shift", "μ − E_F", "fixed", "eV", "eV",
+                  description="electron chemical potential relative to the Fermi level at fixed electron count")
+for _key, _symbol, _kind in (("heat_capacity_electronic", "C_el", "entropy"), ("entropy_electronic", "S_el", "entropy"),
+                             ("internal_energy_electronic", "U_el", "energy"),
+                             ("helmholtz_energy_electronic", "F_el", "energy")):
+    register_quantity(f"{_key}_error", f"δ{_symbol}", _kind,
+                      description=f"numerical error estimate of {_symbol} (interleaved half grids of the DOS)")
+register_quantity("heat_capacity_v_total", "C_v,vib+el", "entropy",
+                  description="heat capacity at constant volume, vibrational plus electronic")
+register_quantity("entropy_total", "S_vib+el", "entropy", description="entropy, vibrational plus electronic")
+register_quantity("internal_energy_total", "U_vib+el", "energy",
+                  description="internal energy, vibrational (zero-point included) plus electronic (from 0 K)")
+register_quantity("helmholtz_energy_total", "F_vib+el", "energy",
+                  description="Helmholtz energy, vibrational (zero-point included) plus electronic (from 0 K)")
+#: Quantities of the electronic table, in column order.
+ELECTRONIC = ("temperature", "heat_capacity_electronic", "entropy_electronic", "internal_energy_electronic",
+              "helmholtz_energy_electronic", "chemical_potential_shift")

@@ -109,6 +109,33 @@ def _convert(values, per, atoms, formula):
     return cv / mass, s / mass, u / mass, f / mass
 
 
+def to_basis(values, per, atoms, formula=None):
+    """(C, S, U, F) per mole of formula units [J/(mol K), J/(mol K), J/mol, J/mol] on the basis ``per``.
+
+    Parameters
+    ----------
+    values : tuple of array_like
+        Heat capacity, entropy [J/(mol·K)], two energies [J/mol], per mole of formula units.
+    per : {'formula', 'atom', 'gram'}
+        Basis, as in :func:`tabulate`.
+    atoms : int
+        Atoms per formula unit (for 'atom' and 'gram').
+    formula : str, optional
+        Chemical formula (for 'gram').
+
+    Returns
+    -------
+    tuple
+        In J/(mol·K) and kJ/mol, k_B and meV per atom, or J/(g·K) and J/g.
+
+    Examples
+    --------
+    >>> [round(float(v), 6) for v in to_basis((8.314462618, 0.0, 1000.0, 0.0), "atom", 1)]
+    [1.0, 0.0, 10.36427, 0.0]
+    """
+    return _convert(values, per, atoms, formula)
+
+
 def classical_heat_capacity(atoms, per="formula", formula=None):
     r"""Classical (Dulong–Petit) limit of C_v in the units of the ``per`` basis.
 

@@ -182,3 +182,33 @@ def guess_unit_from_text(text: str) -> str | None:
     """
     found = units_in_text(text)
     return found[0] if len(found) == 1 else None
+
+
+#: eV in one unit of the energy axis of an electronic DOS (CODATA via scipy.constants).
+ELECTRON_ENERGY_EV = {
+    "eV": 1.0,
+    "meV": sc.milli,
+    "Ry": sc.physical_constants["Rydberg constant times hc in eV"][0],
+    "Ha": sc.physical_constants["Hartree energy in eV"][0],
+}
+_ENERGY_ALIASES = {"ev": "eV", "electronvolt": "eV", "electronvolts": "eV", "mev": "meV", "ry": "Ry",
+                   "rydberg": "Ry", "ha": "Ha", "hartree": "Ha", "eh": "Ha"}
+
+
+def canonical_energy_unit(name: str) -> str:
+    """Canonical name of an electron-energy unit (eV, meV, Ry, Ha).
+
+    Raises
+    ------
+    OptionError
+        If the name is not one of them; the message lists the choices.
+
+    Examples
+    --------
+    >>> canonical_energy_unit("rydberg"), canonical_energy_unit("MEV")
+    ('Ry', 'meV')
+    """
+    key = str(name).strip().lower().replace(" ", "")
+    if key in _ENERGY_ALIASES:
+        return _ENERGY_ALIASES[key]
+    raise OptionError(f"unknown energy unit {name!r}; choose one of eV, meV, Ry, Ha")

@@ -164,3 +164,4 @@ def derived(kind, dataset, compute, *params):
 def result(key, compute):
     """Memoise ``compute()`` under ``key`` (content hashes and settings only; a pure result of :mod:`thermo`)."""
     return _RESULT_CACHE.get(key, compute)
+

@@ -19,6 +19,15 @@ DEMO_DIR = Path(str(files("sample_dos")))
 def demo_file(*parts) -> Path:
     """Path of one demo file, e.g. ``demo_file("volumes", "springium_volumes.csv")``."""
     return DEMO_DIR.joinpath(*parts)
+
+
+def electronic_demo_entry():
+    """The ``mh-electronic`` store entry of the invented demo electronic DOS (read as the file states)."""
+    import base64
+    return {"name": "springium_edos.dat", "fields": {}, "contents": "data:text/plain;base64,"
+            + base64.b64encode(demo_file("electronic", "springium_edos.dat").read_bytes()).decode("ascii")}
+
+
 DEMO_SUFFIXES = (".dat", ".tsv", ".csv", ".txt", ".xlsx")
 
 

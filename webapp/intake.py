@@ -6,7 +6,7 @@ import base64
 import binascii
 import hashlib
 
-from thermo.errors import ModeheatError
+from thermo.errors import ModeheatError, OptionError
 from thermo.formula import formula_unit
 from thermo.preparation.loading import load_dos
 from thermo.preparation.options import FIELDS, ReadingOptions
@@ -163,3 +163,38 @@ def with_options(workspace, dataset_id, options):
     except ModeheatError as exc:  # keep the previous options
         return workspace, one_line(exc)
     return session.replaced(workspace, candidate), None
+
+
+def electronic_options(fields):
+    """Keyword arguments of :func:`thermo.electronic.load_electronic_dos` from the Electronic page's fields
+    as typed (``unit``, ``fermi``, ``spin``, ``formula_units``; blanks and defaults: not given).
+
+    Examples
+    --------
+    >>> electronic_options({"unit": "file", "fermi": " 5.2 ", "spin": "auto", "formula_units": 2})
+    {'energy_unit': None, 'fermi_energy_ev': 5.2, 'spin': None, 'formula_units': 2.0}
+    """
+    fields = fields or {}
+    text = str(fields.get("fermi") or "").strip()
+    try:
+        fermi = float(text) if text else None
+    except ValueError:
+        raise OptionError(f"the Fermi energy {text!r} is not a number of eV") from None
+    unit, spin, count = fields.get("unit"), fields.get("spin"), fields.get("formula_units")
+    return {"energy_unit": None if unit in (None, "file") else unit, "fermi_energy_ev": fermi,
+            "spin": None if spin in (None, "auto") else spin,
+            "formula_units": None if count in (None, "") else float(count)}
+
+
+def electronic_dos(stored, max_bytes=None):
+    """The :class:`thermo.electronic.ElectronicDOS` of the ``mh-electronic`` store entry (name, data URL,
+    the reading fields), cached by content and options; the Electronic and Calorimetry pages share it.
+
+    Raises the :mod:`thermo` errors of :func:`thermo.electronic.load_electronic_dos` (and a refused upload).
+    """
+    from thermo.electronic import load_electronic_dos
+
+    options = electronic_options(stored.get("fields"))
+    raw = decode_upload(stored["contents"], stored["name"], max_bytes)
+    key = ("electronic", hashlib.sha256(raw).hexdigest(), stored["name"], tuple(sorted(options.items())))
+    return cache.result(key, lambda: load_electronic_dos(raw, name=stored["name"], **options))

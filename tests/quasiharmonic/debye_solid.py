@@ -49,14 +49,19 @@ def helmholtz(v, t):
     return static_energy(v) + _KB * (9 * th / 8 + t * (3 * mp.log(-mp.expm1(-x)) - debye_d3(x)))
 
 
-def reference(t):
-    """V [Å³], α [1/K], B_T [GPa], C_p, C_v [eV/K] from minimising F(V,T) at p = 0."""
+def reference(t, extra=None):
+    """V [Å³], α [1/K], B_T [GPa], C_p, C_v [eV/K] from minimising F(V,T) at p = 0.
+
+    ``extra(v, t)`` [eV] (mpmath) is added to F, e.g. an electronic free energy."""
     t = mp.mpf(t)
-    fv = lambda v: mp.diff(lambda w: helmholtz(w, t), v)
+
+    def free(w, s):
+        return helmholtz(w, s) + (extra(w, s) if extra is not None else 0)
+    fv = lambda v: mp.diff(lambda w: free(w, t), v)
     v = mp.findroot(fv, mp.mpf(V0) * 1.01)
-    f_vv = mp.diff(lambda w: helmholtz(w, t), v, 2)
-    f_vt = mp.diff(lambda w, s: helmholtz(w, s), (v, t), (1, 1))
-    f_tt = mp.diff(lambda s: helmholtz(v, s), t, 2)
+    f_vv = mp.diff(lambda w: free(w, t), v, 2)
+    f_vt = mp.diff(lambda w, s: free(w, s), (v, t), (1, 1))
+    f_tt = mp.diff(lambda s: free(v, s), t, 2)
     dv_dt = -f_vt / f_vv
     cv = -t * f_tt
     cp = cv + t * f_vt ** 2 / f_vv          # -T d²G/dT² along V(T)

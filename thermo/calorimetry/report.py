@@ -169,3 +169,28 @@ def analyse(measured, model: HeatCapacityModel, fixed=None, fit_range=None, low_
         report["note_dos_entropy"] = "harmonic vibrational S of the unscaled DOS: no electronic or dilation part"
         third[column_name("entropy")] = s_dos[:-1]
     return report, fit, third
+
+
+def electronic_comparison(report, edos):
+    """The band γ of an electronic DOS beside the fitted and the low-temperature γ of a report.
+
+    Parameters
+    ----------
+    report : dict
+        From :func:`analyse`.
+    edos : ElectronicDOS
+        Electronic DOS of the same formula unit.
+
+    Returns
+    -------
+    dict
+        :func:`thermo.electronic.gamma_comparison` (band γ with its uncertainty, ratios 1 + λ, notes).
+    """
+    from ..electronic import gamma_comparison
+    gammas = {}
+    if "gamma_J_per_mol_K2" in report["fit"]:
+        gammas["fitted"] = report["fit"]["gamma_J_per_mol_K2"]
+    low = report.get("low_temperature_analysis")
+    if low:
+        gammas["low-temperature (C/T = γ + βT²)"] = low["gamma_J_per_mol_K2"]
+    return gamma_comparison(edos, gammas)

@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 import sys
 
+from .electronic import add_electronic_reading_options, load_electronic_from_args
 from .options import add_dos_option, check_output_target, load_from_args, write_text_output
 
 
@@ -29,6 +30,10 @@ def register(sub):
                    help="table of T [K] and C_p - C_v [J/(mol K)] for the dilation-values term")
     p.add_argument("--low-t-max", type=float, metavar="K",
                    help="upper temperature of the C/T = γ + βT² analysis (default θ_D/30)")
+    p.add_argument("--electronic", metavar="EDOS",
+                   help="electronic DOS of the same formula unit (metals): its band γ = (π²/3)k_B²g(E_F) is reported "
+                        "beside the fitted γ, with their ratio 1 + λ (see 'modeheat electronic' for the format)")
+    add_electronic_reading_options(p)
     p.add_argument("--format", default="json", choices=["json", "csv", "xlsx"],
                    help="json: fit, entropies, notes (default); csv/xlsx: residual and third-law table")
     p.add_argument("--output", metavar="PATH", help="write here (default stdout; needed for xlsx)")
@@ -64,7 +69,7 @@ def build_model(args, dos):
 
 def run(args) -> int:
     from ..calorimetry import parse_fixed, read_heat_capacity
-    from ..calorimetry.report import analyse
+    from ..calorimetry.report import analyse, electronic_comparison
     from ..errors import OptionError
     from ..io.writers import export_table, write_table
     from .models import parse_fit_range
@@ -81,9 +86,14 @@ def run(args) -> int:
     model = build_model(args, dos)
     fit_range = parse_fit_range(args.range) if args.range else None
     report, fit, third = analyse(measured, model, parse_fixed(args.fix), fit_range, args.low_t_max)
+    edos = load_electronic_from_args(args, args.electronic) if args.electronic else None
+    if edos is not None:
+        report["electronic_dos_comparison"] = electronic_comparison(report, edos)
+        report["notes"] += report["electronic_dos_comparison"]["notes"] + [f"{args.electronic}: {w}"
+                                                                           for w in edos.warnings]
     for note in report["notes"]:
         print(f"note: {note}", file=sys.stderr)
-    record = calorimetry_provenance(args, measured, dos, report["notes"])
+    record = calorimetry_provenance(args, measured, dos, report["notes"], edos)
     if args.format == "json":
         report["residuals"] = {k: [_number(v) for v in fit.residuals[k]] for k in fit.residuals.columns}
         text = json.dumps({"provenance": record, **report}, indent=2, allow_nan=False) + "\n"
@@ -103,8 +113,9 @@ def run(args) -> int:
     return 0
 
 
-def calorimetry_provenance(args, measured, dos, notes):
-    """The provenance record of a calorimetry result: the measured file, ``--dos`` and ``--dilation-values``."""
+def calorimetry_provenance(args, measured, dos, notes, edos=None):
+    """The provenance record of a calorimetry result: the measured file, ``--dos``, ``--dilation-values``
+    and ``--electronic``."""
     from ..provenance import dos_input, input_record, provenance_record
     inputs = [input_record(measured.source, measured.sha256,
                            {"cp_unit": args.cp_unit, "unit_read": measured.unit, "formula": args.formula},
@@ -113,6 +124,9 @@ def calorimetry_provenance(args, measured, dos, notes):
         inputs.append(dos_input(dos, role="lattice DOS"))
     if args.dilation_values:
         inputs.append(input_record(args.dilation_values, data=args.dilation_values, role="dilation values"))
+    if edos is not None:
+        from ..electronic import electronic_input
+        inputs.append(electronic_input(edos, role="electronic DOS"))
     settings = {"model": args.model, "fixed": list(args.fix), "fit_range_K": args.range,
                 "low_t_max_K": args.low_t_max, "atoms": args.atoms}
     dos_notes = [] if dos is None else [f"{args.dos}: {w}" for w in dos.warnings]

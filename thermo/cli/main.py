@@ -15,7 +15,7 @@ from ..errors import ModeheatError
 
 #: Subcommand modules, in the order shown by --help.
 SUBCOMMANDS = ("table", "summary", "models", "batch", "serve", "workspace", "quasiharmonic", "calorimetry",
-               "displacements", "elastic", "polynomial")
+               "displacements", "elastic", "polynomial", "electronic")
 
 
 def build_parser():

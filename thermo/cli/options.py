@@ -6,7 +6,7 @@ import os
 import sys
 
 from ..temperatures import DEFAULT_TEMPERATURES, describe_temperatures
-from .reading import add_reading_options
+from .reading import add_formula_option, add_reading_options
 
 
 def add_input_options(parser, many=False, formula_help="for --per gram"):
@@ -34,9 +34,10 @@ def add_dos_option(parser, help_text, formula_help=None, atoms_default=None):
 
 
 def add_table_options(parser, output_help):
-    """Add ``--per``, ``--format``, ``--output`` and ``--force`` (``--formula`` is a reading option)."""
+    """Add ``--per``, ``--formula`` (when no reading option added it), ``--format``, ``--output``, ``--force``."""
     parser.add_argument("--per", default="formula", choices=["formula", "atom", "gram"],
                         help="basis: per mole of formula units (default), per atom, per gram (needs --formula)")
+    add_formula_option(parser, "for --per gram")
     add_output_options(parser, output_help)
 
 

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import sys
 
+from .electronic import add_electronic_reading_options, electronic_options
 from .options import add_input_options, add_table_options, add_temperature_option, emit_table, output_plan
 from .reading import reading_from_args
 
@@ -18,7 +19,8 @@ def register(sub):
         if action.dest == "file":
             action.metavar = "MANIFEST"
             action.help = ("volume set: CSV with volume_A3, energy_eV (or energy_Ry/energy_Ha/"
-                           "energy_kJ_per_mol) and dos_file (relative to the manifest, or ws:NAME for a dataset of the workspace), one row per volume")
+                           "energy_kJ_per_mol) and dos_file (relative to the manifest, or ws:NAME for a dataset of the workspace), one row per volume; "
+                           "optional electronic_dos_file (metals: the electronic DOS at that volume adds F_el(V,T))")
     add_temperature_option(p, default=_DEFAULT_TEMPERATURES)
     p.add_argument("--pressure", type=float, default=0.0, metavar="GPa", help="pressure p in GPa (default 0)")
     p.add_argument("--eos", default="birch-murnaghan", choices=["birch-murnaghan", "vinet"],
@@ -26,6 +28,7 @@ def register(sub):
     p.add_argument("--imaginary-tolerance", type=float, default=None, metavar="SHARE",
                    help="list volumes whose imaginary-mode share exceeds this fraction (default 0.01)")
     add_table_options(p, "write here (default: stdout for csv/json)")
+    add_electronic_reading_options(p)
     p.set_defaults(func=run)
 
 
@@ -41,7 +44,8 @@ def run(args) -> int:
     if not 0 <= tolerance < 1:
         raise OptionError(f"--imaginary-tolerance must be a fraction in [0, 1), got {tolerance:g}")
     plan = output_plan(args)
-    volume_set = read_manifest(args.file, options=reading_from_args(args), resolve=_workspace_resolver(args))
+    volume_set = read_manifest(args.file, options=reading_from_args(args), resolve=_workspace_resolver(args),
+                               electronic_options=electronic_options(args))
     table = quasiharmonic_table(volume_set, temperatures, pressure_gpa=args.pressure, eos=args.eos,
                                 per=args.per, formula=args.formula, imaginary_tolerance=tolerance)
     info = quasiharmonic_provenance(volume_set, table, temperatures)

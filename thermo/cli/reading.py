@@ -40,6 +40,13 @@ def add_reading_options(parser, formula_help=None, for_option=None, many=False, 
     parser.add_argument("--low-frequency", default=None, metavar="auto|off|LOW:HIGH",
                         help="ν² treatment below a cut-off: automatic window, off, or a window in THz "
                              f"(default {DEFAULT_TEXT['low_frequency']})" + stored)
+    add_formula_option(parser, formula_help)
+
+
+def add_formula_option(parser, formula_help=None):
+    """Add ``--formula`` (the reading option) unless the parser has it already."""
+    if "--formula" in parser._option_string_actions:
+        return
     parser.add_argument("--formula", default=None,
                         help="chemical formula of the formula unit, e.g. MgO"
                              + (f" ({formula_help})" if formula_help else ""))

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 
 from ..temperatures import parse_temperatures
+from .electronic import add_electronic_reading_options, load_electronic_from_args, report_electronic
 from .options import (add_input_options, add_table_options, add_temperature_option, emit_table, formula_of,
                       load_from_args, output_plan, report_warnings)
 
@@ -13,6 +14,10 @@ def register(sub):
     add_input_options(p)
     add_temperature_option(p)
     add_table_options(p, "write here (default: stdout for csv/json)")
+    p.add_argument("--electronic", metavar="EDOS",
+                   help="electronic DOS of the same solid (metals): adds C_el, S_el, U_el, F_el, μ − E_F and the "
+                        "vibrational + electronic totals (see 'modeheat electronic' for its format)")
+    add_electronic_reading_options(p)
     p.set_defaults(func=run)
 
 
@@ -22,8 +27,18 @@ def run(args) -> int:
     temperatures = parse_temperatures(args.temperatures)
     plan = output_plan(args)
     dos = load_from_args(args)
+    edos = load_electronic_from_args(args, args.electronic) if args.electronic else None
     formula = formula_of(args, dos)
     table = tabulate(dos, temperatures, per=args.per, formula=formula)
     report_warnings(dos)
     info = provenance(dos, temperatures, per=args.per, formula=formula)
+    if edos is not None:
+        from ..electronic import electronic_details, electronic_input, with_electronic
+        table = with_electronic(table, edos, atoms=dos.atoms)
+        report_electronic(table.attrs["electronic"])
+        info["inputs"].append(electronic_input(edos, role="electronic DOS"))
+        info["warnings"] += table.attrs["electronic"]["warnings"]
+        info["electronic"] = electronic_details(edos, table.attrs["electronic"])
+        info["model"] = ("harmonic lattice at fixed volume plus the electronic term of a fixed electronic DOS "
+                         "(C_v); no anharmonic or C_p - C_v terms")
     return emit_table(table, info, args, plan)

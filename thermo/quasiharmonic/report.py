@@ -52,6 +52,13 @@ def quasiharmonic_provenance(volume_set, table, temperatures):
     inputs = [input_record(volume_set.source.get("name"), volume_set.source.get("sha256"), role="manifest")] \
         if volume_set.source.get("name") else []
     inputs += [dos_input(d, role=f"DOS at {v:.6g} Å³") for v, d in zip(volume_set.volumes_a3, doses)]
+    electronic = {}
+    if volume_set.electronic:
+        from ..electronic import electronic_input, electronic_summary
+        inputs += [electronic_input(e, role=f"electronic DOS at {v:.6g} Å³")
+                   for v, e in zip(volume_set.volumes_a3, volume_set.electronic)]
+        electronic["electronic"] = [dict(electronic_summary(e), volume_A3=float(v))
+                                    for v, e in zip(volume_set.volumes_a3, volume_set.electronic)]
     settings = {"basis": table.attrs.get("per"), "formula": table.attrs.get("formula"),
                 "equation_of_state": table.attrs.get("eos"), "pressure_GPa": table.attrs.get("pressure_GPa"),
                 "temperatures_K": temperature_settings(temperatures)}
@@ -68,6 +75,10 @@ def quasiharmonic_provenance(volume_set, table, temperatures):
                   "imaginary_share": r["imaginary_share"], "raw_integral": d.source.get("raw_integral")}
                  for r, d in zip(records, doses)],
         cautions=list(diag.get("cautions", [])),
-        model="quasi-harmonic: F(V,T) = E(V) + F_vib(V,T) (zero-point included), EOS fit at each T, "
-              "G = min_V (F + pV); no explicit anharmonic, electronic or defect terms",
+        model=("quasi-harmonic: F(V,T) = E(V) + F_vib(V,T) (zero-point included) + F_el(V,T) (electronic DOS at "
+               "each volume, fixed electron count), EOS fit at each T, G = min_V (F + pV); no explicit anharmonic or "
+               "defect terms, no electron–phonon renormalisation") if volume_set.electronic else
+              ("quasi-harmonic: F(V,T) = E(V) + F_vib(V,T) (zero-point included), EOS fit at each T, "
+               "G = min_V (F + pV); no explicit anharmonic, electronic or defect terms"),
+        **electronic,
     )

@@ -79,6 +79,10 @@ def free_energy_surface(volume_set, temperatures, eos="birch-murnaghan", method=
     Notes
     -----
     .. math:: F(V,T) = E(V) + E_0(V) + k_BT\int g_V(\nu)\ln\left(1-e^{-h\nu/k_BT}\right)d\nu
+              \;[+\,F_{el}(V,T)]
+
+    with the electronic free energy of :func:`thermo.electronic.thermodynamics.volume_rows`
+    when the volume set carries an electronic DOS at each volume.
 
     Examples
     --------
@@ -99,7 +103,12 @@ def free_energy_surface(volume_set, temperatures, eos="birch-murnaghan", method=
         rows_s.append(table[column_name("entropy")].to_numpy() / J_PER_MOL_PER_EV)
         rows_c.append(table[column_name("heat_capacity_v")].to_numpy() / J_PER_MOL_PER_EV)
     f = np.asarray(volume_set.energies_ev)[:, None] + np.array(rows_f)
-    return FreeEnergySurface(np.asarray(volume_set.volumes_a3), t, f, np.array(rows_s), np.array(rows_c),
+    rows_s, rows_c = np.array(rows_s), np.array(rows_c)
+    if volume_set.electronic:     # metals: + F_el(V,T) from the electronic DOS at each volume
+        from ..electronic.thermodynamics import volume_rows
+        el = volume_rows(volume_set.electronic, t)
+        f, rows_s, rows_c = f + el["helmholtz"], rows_s + el["entropy"], rows_c + el["heat_capacity"]
+    return FreeEnergySurface(np.asarray(volume_set.volumes_a3), t, f, rows_s, rows_c,
                              fit_eos(volume_set.volumes_a3, f, eos))
 
 

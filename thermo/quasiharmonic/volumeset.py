@@ -49,6 +49,8 @@ class VolumeSet:
         DOS file names (for messages and provenance).
     source : dict
         ``name`` and ``sha256`` of the manifest (empty for a list input).
+    electronic : tuple of ElectronicDOS
+        The electronic DOS at each volume (metals), or empty: no electronic term.
     """
 
     volumes_a3: np.ndarray
@@ -56,6 +58,7 @@ class VolumeSet:
     doses: tuple
     names: tuple
     source: dict = field(default_factory=dict)
+    electronic: tuple = ()
 
     @property
     def atoms(self) -> int:
@@ -64,7 +67,10 @@ class VolumeSet:
 
 
 def make_volume_set(entries, source=None):
-    """A checked :class:`VolumeSet` from (volume [Å³], energy [eV], PhononDOS) triples.
+    """A checked :class:`VolumeSet` from (volume [Å³], energy [eV], PhononDOS[, name[, ElectronicDOS]]) tuples.
+
+    An electronic DOS (per formula unit) adds the electronic free energy F_el(V,T) to the surface; it is
+    given for every volume or for none.
 
     Raises
     ------
@@ -100,7 +106,13 @@ def make_volume_set(entries, source=None):
     if len(atoms) != 1:
         raise OptionError("the DOS files disagree on the atoms per formula unit: "
                           + ", ".join(f"{n}: {d.atoms}" for n, d in zip(names, doses)))
-    return VolumeSet(v, e, doses, names, dict(source or {}))
+    electronic = tuple(r[4] if len(r) > 4 else None for r in rows)
+    given = [x is not None for x in electronic]
+    if any(given) and not all(given):
+        missing = next(n for n, g in zip(names, given) if not g)
+        raise OptionError(f"an electronic DOS is given for some volumes but not for {missing}; give one for "
+                          "every volume or for none")
+    return VolumeSet(v, e, doses, names, dict(source or {}), electronic if all(given) else ())
 
 
 def _split(row, delimiter):
@@ -110,7 +122,9 @@ def _split(row, delimiter):
 
 
 def parse_manifest(text, name="<manifest>"):
-    r"""Rows of a manifest as (line, volume [Å³], energy [eV], dos_file).
+    r"""Rows of a manifest as (line, volume [Å³], energy [eV], dos_file, electronic_dos_file or None).
+
+    The column ``electronic_dos_file`` is optional (metals: the electronic DOS at that volume).
 
     Raises
     ------
@@ -136,6 +150,7 @@ def parse_manifest(text, name="<manifest>"):
         need = ", ".join(missing + ([] if len(energy) == 1 else ["one of " + "/".join(ENERGY_COLUMNS)]))
         raise DosInputError(f"the manifest header needs the columns {need}", name, head_line)
     iv, ie, idos = header.index("volume_A3"), header.index(energy[0]), header.index("dos_file")
+    iel = header.index("electronic_dos_file") if "electronic_dos_file" in header else None
     rows = []
     for number, raw in lines[1:]:
         cells = _split(raw, delimiter)
@@ -148,14 +163,15 @@ def parse_manifest(text, name="<manifest>"):
             except ValueError:
                 raise DosInputError(f"{header[index]} is {cells[index]!r}, expected a number",
                                     name, number, index + 1) from None
-        rows.append((number, values[0], values[1] * ENERGY_COLUMNS[energy[0]], cells[idos]))
+        electronic = cells[iel] if iel is not None and cells[iel] else None
+        rows.append((number, values[0], values[1] * ENERGY_COLUMNS[energy[0]], cells[idos], electronic))
     if not rows:
         raise DosInputError("the manifest lists no volumes", name)
     return rows
 
 
 def read_manifest(source, files=None, freq_unit=None, atoms=None, negative=None,
-                  low_frequency=None, name=None, resolve=None, options=None):
+                  low_frequency=None, name=None, resolve=None, electronic_options=None, options=None):
     r"""Read a manifest and every DOS it lists.
 
     Parameters
@@ -173,6 +189,10 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative=None,
     resolve : callable, optional
         ``resolve(reference) -> bytes`` for ``dos_file`` entries of the form
         ``ws:NAME`` (datasets of a workspace; the command line passes one).
+    electronic_options : dict, optional
+        Keyword arguments of :func:`thermo.electronic.load_electronic_dos` for the
+        files of the optional ``electronic_dos_file`` column (energy unit, Fermi
+        energy, spin, formula units).
 
     Returns
     -------
@@ -210,22 +230,33 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative=None,
         raise DosInputError("the manifest is not UTF-8 text", shown) from None
     uploads = {Path(k).name: v for k, v in (files or {}).items()}
     entries = []
-    for line, volume, energy, dos_file in parse_manifest(text, shown):
-        if str(dos_file).startswith("ws:"):
-            if resolve is None:
-                raise DosInputError(f"dos_file {dos_file!r} names a workspace dataset, but no workspace is open",
-                                    shown, line)
-            content, label = resolve(dos_file), dos_file
-        elif files is not None:
-            if Path(dos_file).name not in uploads:
-                raise DosInputError(f"dos_file {dos_file!r} was not uploaded with the manifest", shown, line)
-            content, label = uploads[Path(dos_file).name], Path(dos_file).name
-        else:
-            target = (folder or Path.cwd()) / dos_file
-            if not target.is_file():
-                raise DosInputError(f"dos_file {dos_file!r} not found (looked in {target.parent})", shown, line)
-            content, label = target, dos_file
+    for line, volume, energy, dos_file, electronic_file in parse_manifest(text, shown):
+        content, label = _content(dos_file, "dos_file", line, shown, folder, uploads if files is not None else None,
+                                  resolve)
         dos = load_dos(content, freq_unit=freq_unit, atoms=atoms, negative=negative,
                        low_frequency=low_frequency, name=label, options=options)
-        entries.append((volume, energy, dos, label))
+        entry = (volume, energy, dos, label)
+        if electronic_file is not None:
+            from ..electronic import load_electronic_dos
+            content, label = _content(electronic_file, "electronic_dos_file", line, shown, folder,
+                                      uploads if files is not None else None, resolve)
+            entry += (load_electronic_dos(content, name=label, **dict(electronic_options or {})),)
+        entries.append(entry)
     return make_volume_set(entries, {"name": shown, "sha256": hashlib.sha256(raw).hexdigest()})
+
+
+def _content(reference, column, line, shown, folder, uploads, resolve):
+    """(content or path, label) of a file named in the manifest: a workspace dataset, an upload or a path."""
+    if str(reference).startswith("ws:"):
+        if resolve is None:
+            raise DosInputError(f"{column} {reference!r} names a workspace dataset, but no workspace is open",
+                                shown, line)
+        return resolve(reference), reference
+    if uploads is not None:
+        if Path(reference).name not in uploads:
+            raise DosInputError(f"{column} {reference!r} was not uploaded with the manifest", shown, line)
+        return uploads[Path(reference).name], Path(reference).name
+    target = (folder or Path.cwd()) / reference
+    if not target.is_file():
+        raise DosInputError(f"{column} {reference!r} not found (looked in {target.parent})", shown, line)
+    return target, reference

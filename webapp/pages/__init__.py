@@ -9,6 +9,7 @@ from .. import shell  # noqa: F401  (the app must exist before register_page)
 from . import calorimetry
 from . import compare
 from . import displacements
+from . import electronic
 from . import export
 from . import home
 from . import modemap
@@ -23,6 +24,7 @@ PAGES = tuple(sorted((
     home, spectrum, thermodynamics, models, modemap, compare, export,
     quasiharmonic,
     calorimetry,
+    electronic,
     displacements,
     polynomials,
     workspace,

@@ -11,15 +11,16 @@ import plotly.graph_objects as go
 from dash import Input, Output, State, callback, dcc, html, no_update
 
 from thermo.calorimetry import HeatCapacityModel, parse_fixed, read_heat_capacity
-from thermo.calorimetry.report import CAUTIONS, analyse
+from thermo.calorimetry.report import CAUTIONS, analyse, electronic_comparison
 from thermo.cli.models import parse_fit_range
 from thermo.columns import column_name, find
-from thermo.errors import OptionError
+from thermo.errors import ModeheatError, OptionError
 
 from .. import cache, filesets, session
-from ..demo import demo_file
+from ..demo import demo_file, electronic_demo_entry
 from .. import components as c
 from .. import figures as fg
+from .. import intake
 from ..intake import decode_upload
 from ..reporting import attempt, reported
 
@@ -148,10 +149,12 @@ def _fixed(text):
           Output("cal-active", "children"), Output("cal-file", "children"), Output("cal-messages", "children"),
           Input("cal-measured", "data"), Input("mh-workspace", "data"), Input("cal-lattice", "value"),
           Input("cal-terms", "value"), Input("cal-fix", "value"), Input("cal-range", "value"),
-          Input("cal-atoms", "value"), Input("cal-unit", "value"), Input("cal-formula", "value"))
+          Input("cal-atoms", "value"), Input("cal-unit", "value"), Input("cal-formula", "value"),
+          Input("mh-electronic", "data"), State("mh-config", "data"))
 @reported(_failed)
-def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula):
-    """Fit and draw for the page's settings."""
+def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula, electronic=None, config=None):
+    """Fit and draw for the page's settings (and the band γ of the electronic DOS chosen on the Electronic
+    page, or of the demo electronic DOS beside the demo measurement)."""
     demo_note = []
     if not stored:   # first visit: the invented demo measurement, as the DOS demos
         stored = demo_measurement()
@@ -175,7 +178,7 @@ def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula
         report["entropy_298_15_from_dos_J_per_mol_K"] = float(
             cache.table(current, [ROOM_K])[column_name("entropy")].iloc[0])
     figs = [_overlay(measured, fit, current), _residuals(fit), _low_t(report, measured)]
-    notes = [("warn", n) for n in report["notes"]]
+    notes = [("warn", n) for n in report["notes"]] + _with_electronic(report, stored, electronic, config)
     if dos is not None:
         notes += [("warn", f"{current['name']}: {w}") for w in dos.warnings]
     file_note = f"Measured: {measured.source} — {measured.temperature_K.size} points, " \
@@ -201,6 +204,21 @@ def _analysis(stored, measured, reading, current, dos, atoms, lattice, terms, fi
         return report, fit
     report, fit = cache.result(key, compute)
     return dict(report), fit
+
+
+def _with_electronic(report, stored, electronic, config):
+    """Add the band γ of the chosen electronic DOS (the demo one beside the demo measurement) to the report;
+    the notes to show.  A file that cannot be read gives a note, never a lost fit."""
+    if not electronic and stored.get("name") == DEMO_FILE.name:
+        electronic = electronic_demo_entry()
+    if not electronic:
+        return []
+    try:
+        edos = intake.electronic_dos(electronic, (config or {}).get("max_upload_bytes"))
+    except ModeheatError as exc:
+        return [("warn", f"the electronic DOS is not compared: {exc}")]
+    report["electronic_dos_comparison"] = electronic_comparison(report, edos)
+    return [("info", n) for n in report["electronic_dos_comparison"]["notes"]]
 
 
 def _dos_dataset(workspace, stored):
@@ -292,6 +310,15 @@ def _parameter_table(report):
                                  ("theta_D_K", "θ_D from β", "K")):
             rows.append(html.Tr([html.Td(label), html.Td(f"{low[key]['value']:.6g}"),
                                  html.Td(f"{low[key]['uncertainty']:.3g}"), html.Td(unit)]))
+    compared = report.get("electronic_dos_comparison")
+    if compared:
+        band = compared["gamma_from_electronic_dos_J_per_mol_K2"]
+        rows.append(html.Tr([html.Td(f"γ of the electronic DOS {compared['electronic_input']} (band value)"),
+                             html.Td(f"{band['value']:.6g}"), html.Td(f"{band['uncertainty']:.3g}"),
+                             html.Td("J/(mol K²)")], id="cal-band-gamma"))
+        for label, ratio in compared["ratios"].items():
+            rows.append(html.Tr([html.Td(f"{label} γ / band γ (1 + λ)"), html.Td(f"{ratio['value']:.4g}"),
+                                 html.Td(f"{ratio['uncertainty']:.2g}"), html.Td("1")]))
     head = html.Thead(html.Tr([html.Th(h) for h in ("parameter", "value", "standard uncertainty", "unit")]))
     names = report["correlation"]["parameters"]
     shown = [_PARAM_TEXT[n][0] for n in names]

@@ -21,6 +21,7 @@ GUIDE = [("/spectrum", "Spectrum", "load DOS files, set units and atoms, check i
          ("/export", "Export", "tables as CSV, XLSX or JSON with provenance; figure image format"),
          ("/quasiharmonic", "Quasi-harmonic", "DOS at several volumes: V(T), thermal expansion, B_T, C_p, G, γ"),
          ("/calorimetry", "Calorimetry", "measured C_p against the DOS: fitted γT and dilation terms, residuals, S°(298.15 K)"),
+         ("/electronic", "Electronic", "metals: C_el, S_el, F_el from an electronic DOS at fixed electron count; γ from g(E_F)"),
          ("/displacements", "Displacements", "⟨u²⟩, Debye–Waller B and θ_M per species, Lindemann caution, elastic θ_D"),
          ("/polynomials", "Polynomials", "Shomate, NASA 7-term or SGTE coefficients with fit errors, JSON/CSV/Cantera YAML"),
          ("/workspace", "Workspace", "rename, group, annotate and delete datasets; named workspaces"),
