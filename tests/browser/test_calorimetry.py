@@ -3,6 +3,7 @@
 import numpy as np
 import pytest
 from dash.testing.wait import until
+from selenium.common.exceptions import StaleElementReferenceException
 from selenium.webdriver.common.by import By
 
 from webapp.app import create_app
@@ -21,7 +22,15 @@ def duo(dash_duo):
 
 
 def _messages(driver):
-    return driver.find_element(By.ID, "cal-messages").text
+    return _text(driver, "#cal-messages")
+
+
+def _text(driver, css):
+    """Text of the first element matching ``css``; "" while it is being redrawn (a stale reference)."""
+    try:
+        return driver.find_element(By.CSS_SELECTOR, css).text
+    except StaleElementReferenceException:
+        return ""
 
 
 def test_upload_fit_and_error_message(duo, tmp_path):
@@ -37,15 +46,15 @@ def test_upload_fit_and_error_message(duo, tmp_path):
     wait_drawn(duo.driver, ["cal-overlay-graph", "cal-residual-graph", "cal-lowt-graph"])
     until(lambda: "springium_cp.csv" in duo.driver.find_element(By.ID, "cal-file").text, 20)
     duo.driver.find_element(By.CSS_SELECTOR, "#cal-upload input[type=file]").send_keys(str(good))
-    until(lambda: "measured_mJ.csv" in duo.driver.find_element(By.ID, "cal-file").text, 30)
+    until(lambda: "measured_mJ.csv" in _text(duo.driver, "#cal-file"), 30)
     assert "read in mJ/(mol K)" in duo.driver.find_element(By.ID, "cal-file").text
     until(lambda: js_graph(duo.driver, "cal-overlay-graph", "gd._fullData[0].x.length") == 64, 20)
     y = np.array(js_graph(duo.driver, "cal-overlay-graph", "Array.from(gd._fullData[0].y)"), dtype=float)
     assert y[-1] == pytest.approx(cv[-1] + 1e-3 * t[-1], rel=1e-6)    # converted to J/(mol K)
     # An upload is compared with the active DOS (scale s); switching to Debye refits with θ_D.
-    until(lambda: "frequency scale s" in duo.driver.find_element(By.ID, "cal-param-table").text, 20)
+    until(lambda: "frequency scale s" in _text(duo.driver, "#cal-param-table"), 20)
     duo.driver.find_element(By.CSS_SELECTOR, "#cal-lattice input[value=debye]").click()
-    until(lambda: duo.driver.find_element(By.CSS_SELECTOR, "#cal-param-table tbody td").text == "θ_D", 20)
+    until(lambda: _text(duo.driver, "#cal-param-table tbody td") == "θ_D", 20)
     duo.driver.find_element(By.CSS_SELECTOR, "#cal-upload input[type=file]").send_keys(str(bad))
     until(lambda: "'banana' is not a number" in _messages(duo.driver), 20)
     assert "Traceback" not in _messages(duo.driver)

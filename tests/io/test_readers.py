@@ -343,3 +343,13 @@ def test_a_commented_header_row_names_the_columns_as_a_plain_one_does():
     # a comment of four words that states no unit in its first cell is not a header
     plain = read_table("# made up by hand\n# frequency unit: THz\n" + body)
     assert plain.names == ["frequency", "total", "column 3", "column 4"] and plain.header_unit == "THz"
+
+
+def test_a_commented_header_row_of_a_workbook_names_the_columns(tmp_path):
+    book = openpyxl.Workbook()
+    book.active.append(["# frequency (THz)", "total", "Mg", "O"])
+    for row in ([0, 0, 0, 0], [1, 0.2, 0.1, 0.1], [2, 0.8, 0.4, 0.4]):
+        book.active.append(row)
+    path = tmp_path / "c.xlsx"
+    book.save(path)
+    assert read_table(path).names == ["frequency (THz)", "total", "Mg", "O"]

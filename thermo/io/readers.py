@@ -351,7 +351,7 @@ def _commented_header(comments, first_data_line, width, split):
         body = text.lstrip("".join(COMMENT_CHARS)).strip()
         cells = _header_cells(body, split or str.split, width)
         if len(cells) == width and not any(_looks_numeric(c) for c in cells) and guess_unit_from_text(cells[0]):
-            return line, body
+            return line, cells
     return None
 
 
