@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 
 from . import cases
-from .timing import median_seconds
+from .timing import median_ratio, median_seconds
 
 P8_VOLUMES, P8_TEMPERATURES = 11, np.linspace(1.0, 1000.0, 1000)
 
@@ -29,7 +29,13 @@ def p8(repeat=7):
     vs = make_volume_set(volume_set())
     seconds = median_seconds(lambda: quasiharmonic_table(vs, P8_TEMPERATURES), repeat)
     vinet = median_seconds(lambda: quasiharmonic_table(vs, P8_TEMPERATURES, eos="vinet"), max(1, repeat // 3))
+    ratio, with_errors, _ = median_ratio(lambda: quasiharmonic_table(vs, P8_TEMPERATURES, errors=True),
+                                         lambda: quasiharmonic_table(vs, P8_TEMPERATURES), max(3, repeat // 2))
     return {"p8_quasiharmonic_s": seconds,
             "p8_case": f"{P8_VOLUMES} volumes x {P8_TEMPERATURES.size} temperatures, 2000-point spring-crystal "
                        "DOS, Birch-Murnaghan, loading excluded",
-            "contrast": {"p8_vinet_s": vinet}}
+            "contrast": {"p8_vinet_s": vinet, "p8_errors_s": with_errors,
+                         "p8_errors_cost_ratio": ratio,
+                         "p8_errors_note": "errors=True over errors=False, one run, interleaved: the harmonic error "
+                                           "estimate of every volume, the three equations of state and 11 "
+                                           "leave-one-out refits"}}

@@ -28,10 +28,10 @@ def debye_table(theta_k, atoms=1, points=2001):
 def debye_entropy(theta_k, t_k):
     """Debye entropy [J/(mol K) per mole of atoms] by mpmath quadrature (P. Debye, Ann. Phys. 39, 789 (1912)):
     S/R = (9/y³)∫₀^y x²[x/(eˣ−1) − ln(1−e⁻ˣ)] dx, y = θ/T; R from CODATA via scipy.constants."""
-    mp.mp.dps = 25
-    y = mp.mpf(theta_k) / t_k
-    integral = mp.quad(lambda x: x ** 2 * (x / mp.expm1(x) - mp.log(-mp.expm1(-x))), [0, y])
-    return float(sc.R * 9 / y ** 3 * integral)
+    with mp.workdps(25):       # local precision: the global mpmath setting of other tests is left alone
+        y = mp.mpf(theta_k) / t_k
+        integral = mp.quad(lambda x: x ** 2 * (x / mp.expm1(x) - mp.log(-mp.expm1(-x))), [0, y])
+        return float(sc.R * 9 / y ** 3 * integral)
 
 
 def debye_spectrum(nu_d_thz, atoms=1):

@@ -189,6 +189,62 @@ def find(table, key, basis=None) -> str:
     raise OptionError(f"the table has no {key} column")
 
 
+def error_key(key) -> str:
+    """Quantity key of the estimated error of quantity ``key``.
+
+    Its column is ``<key>_error_<unit>`` in the unit of the quantity itself
+    (registered by :func:`register_error`); a value a user may quote travels
+    in tables as the value column beside this one, in JSON as
+    ``{"value": x, "uncertainty": u}`` (:func:`quoted`).
+
+    Examples
+    --------
+    >>> column_name(error_key("heat_capacity_p"))
+    'heat_capacity_p_error_J_per_mol_K'
+    >>> column_name(error_key("volume"))
+    'volume_error_A3'
+    """
+    return f"{key}_error"
+
+
+def register_error(key):
+    """Register the error quantity of ``key`` (same kind and unit, symbol δ…); returns it."""
+    q = QUANTITIES[key]
+    return register_quantity(error_key(key), f"δ{q.symbol}", q.kind, q.unit, q.slug,
+                             f"estimated error of the {q.description or key}")
+
+
+def error_column_for(table, name):
+    """Name of the error column that accompanies value column ``name`` in ``table``, or None.
+
+    Examples
+    --------
+    >>> import pandas as pd
+    >>> error_column_for(pd.DataFrame(columns=["volume_A3", "volume_error_A3"]), "volume_A3")
+    'volume_error_A3'
+    """
+    try:
+        c = lookup(name)
+    except OptionError:
+        return None
+    key = error_key(c.quantity.key)
+    if key not in QUANTITIES:
+        return None
+    wanted = column_name(key, c.basis or "formula")
+    return wanted if wanted in table.columns else None
+
+
+def quoted(value, uncertainty):
+    """A value a user may quote, with its uncertainty, as JSON-able ``{"value", "uncertainty"}``.
+
+    Examples
+    --------
+    >>> quoted(28.2, 0.3)
+    {'value': 28.2, 'uncertainty': 0.3}
+    """
+    return {"value": float(value), "uncertainty": float(uncertainty)}
+
+
 #: Quantities of the harmonic table, in column order.
 HARMONIC = ("temperature", "heat_capacity_v", "entropy", "internal_energy", "helmholtz_energy")
 
@@ -232,6 +288,9 @@ register_quantity("eos_fit_residual", "ΔF_rms", "fixed", "meV", "meV",
                   "rms misfit of the equation of state to F(V), per formula unit")
 register_quantity("outside_volume_range", "outside", "fixed",
                   description="True where the minimum lies outside the sampled volumes (extrapolated)")
+for _key in ("volume", "thermal_expansion", "bulk_modulus_T", "heat_capacity_p", "heat_capacity_v", "entropy",
+             "enthalpy", "gibbs_energy", "gruneisen_parameter"):
+    register_error(_key)
 # --- calorimetry (measured heat capacity, thermo/calorimetry) ---
 register_quantity("heat_capacity_p_measured", "C_p,meas", "entropy", description="measured heat capacity at constant pressure")
 register_quantity("heat_capacity_p_uncertainty", "u(C_p)", "entropy", description="standard uncertainty of the measured C_p")

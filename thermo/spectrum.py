@@ -8,6 +8,9 @@ import numpy as np
 
 from .kernels.planck import H_OVER_K_THZ
 
+#: 48-point Gauss–Legendre rule of the taper integrals (computed once: building it costs more than using it).
+_TAPER_RULE = np.polynomial.legendre.leggauss(48)
+
 
 @dataclass(frozen=True)
 class LowFrequencyFit:
@@ -81,7 +84,7 @@ class LowFrequencyFit:
         top = self.blend_top_thz if self.blend_top_thz is not None else self.cutoff_thz
         if top <= self.cutoff_thz:
             return np.zeros(0), np.zeros(0)
-        x, w = np.polynomial.legendre.leggauss(48)
+        x, w = _TAPER_RULE
         half = 0.5 * (top - self.cutoff_thz)
         nodes = self.cutoff_thz + half * (x + 1.0)
         return nodes, half * w * self.form(nodes) * self.taper(nodes)

@@ -95,6 +95,22 @@ def parse_temperatures(spec: str):
     return check_temperatures(values)
 
 
+def with_standard_temperature(temperatures):
+    """The grid [K] with the standard 298.15 K put in its place when it lies inside the range.
+
+    Examples
+    --------
+    >>> with_standard_temperature(np.array([0.0, 100.0, 200.0, 300.0])).tolist()
+    [0.0, 100.0, 200.0, 298.15, 300.0]
+    >>> with_standard_temperature(np.array([0.0, 100.0])).tolist()
+    [0.0, 100.0]
+    """
+    t = np.asarray(temperatures, dtype=float)
+    if t.size and t.min() <= STANDARD_TEMPERATURE <= t.max():
+        return np.union1d(t, [STANDARD_TEMPERATURE])
+    return t
+
+
 def temperature_range(t_min, t_max, step):
     """Temperatures [K] from ``t_min`` to ``t_max`` (included) every ``step``.
 

@@ -125,6 +125,20 @@ def reduced_figure(dos):
     return fig
 
 
+def band(x, low, high, name, k=0, opacity=0.22):
+    """A filled band between ``low`` and ``high`` (value ± uncertainty) in palette colour ``k``.
+
+    Rows where either edge is not finite are left out (the band has gaps there, never a made-up edge).
+    """
+    x, low, high = (np.asarray(a, dtype=float) for a in (x, low, high))
+    keep = np.isfinite(x) & np.isfinite(low) & np.isfinite(high)
+    x, low, high = x[keep], low[keep], high[keep]
+    colour = PALETTE[k % len(PALETTE)]
+    return go.Scatter(x=np.concatenate([x, x[::-1]]), y=np.concatenate([high, low[::-1]]), fill="toself",
+                      mode="lines", line={"width": 0, "color": colour}, opacity=opacity, name=name,
+                      hoverinfo="skip")
+
+
 def line(x, y, name, k=0, width=2.2, dash=None, hover="%{y:.5g}", **extra):
     """A line trace in palette colour ``k``."""
     return go.Scatter(x=x, y=y, mode="lines", name=name, hovertemplate=hover,

@@ -66,10 +66,12 @@ def test_csv_rows_are_the_coefficients(capsys):
     code, out, _ = run(capsys, DOS, "--form", "shomate", "--format", "csv")
     assert code == 0
     rows = [line.split(",") for line in out.splitlines() if not line.startswith("#")]
-    assert rows[0] == ["range", "T_min_K", "T_max_K", "coefficient", "value"]
+    # the harmonic table carries its error estimate, so each coefficient has its propagated uncertainty
+    assert rows[0] == ["range", "T_min_K", "T_max_K", "coefficient", "value", "uncertainty"]
     assert [r[3] for r in rows[1:]] == list("ABCDEFGH")
     record = json.loads(run(capsys, DOS, "--form", "shomate")[1])
     assert [float(r[4]) for r in rows[1:]] == list(record["ranges"][0]["coefficients"].values())
+    assert [float(r[5]) for r in rows[1:]] == list(record["ranges"][0]["coefficient_uncertainties"].values())
 
 
 def test_cp_table_input_gives_the_same_fit(capsys, tmp_path):

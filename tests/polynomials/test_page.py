@@ -40,8 +40,10 @@ def test_block_is_json_with_shomate_keys_and_plots_have_fit_and_errors(demo):
     assert np.allclose(fit.y, cp, rtol=1e-12)
     assert np.max(np.abs(np.asarray(fit.y) / np.asarray(table.y) - 1)) == pytest.approx(
         record["errors"]["heat_capacity_p"]["max_relative"], rel=1e-9)
-    assert len(err.data) == 3
+    # three error curves and the band of the table's own estimated error (± in per cent of C_p)
+    assert len(err.data) == 4 and err.data[3].fill == "toself"
     assert max(np.max(np.abs(tr.y)) for tr in err.data) < 100 * 0.05  # per cent
+    assert "± from the table's error" in str(keys) and "S at 298.15 K" in str(keys)
     assert any("harmonic" in str(m.children) for m in messages)
 
 

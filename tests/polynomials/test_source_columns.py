@@ -30,9 +30,9 @@ DEMO = Path(__file__).resolve().parents[2] / "sample_dos"
 
 
 def _debye_heat_capacity(theta, t):
-    mp.mp.dps = 20
-    y = mp.mpf(theta) / t
-    return float(3 * sc.R * 3 / y ** 3 * mp.quad(lambda x: x ** 4 * mp.exp(x) / mp.expm1(x) ** 2, [0, y]))
+    with mp.workdps(20):
+        y = mp.mpf(theta) / t
+        return float(3 * sc.R * 3 / y ** 3 * mp.quad(lambda x: x ** 4 * mp.exp(x) / mp.expm1(x) ** 2, [0, y]))
 
 
 def _calorimetry_like(theta_measured=320.0, theta_dos=360.0):

@@ -63,3 +63,24 @@ def test_outside_range_warned_on_stderr(capsys):
     captured = capsys.readouterr()
     assert "leaves the sampled range" in captured.err
     assert captured.out.strip().splitlines()[-1].endswith("True")
+
+
+def test_default_grid_has_the_standard_temperature(capsys):
+    # Common practice in thermochemical tables: a row at 298.15 K (issue 29).
+    assert main(["quasiharmonic", str(DEMO), "--format", "json"]) == 0
+    record = json.loads(capsys.readouterr().out)
+    temperatures = [row[0] for row in record["data"]]
+    assert 298.15 in temperatures and temperatures[-1] == 1000.0 and temperatures == sorted(temperatures)
+
+
+def test_errors_option_adds_error_columns_and_their_record(tmp_path, capsys):
+    out = tmp_path / "qh.csv"
+    assert main(["quasiharmonic", str(DEMO), "--temperatures", "100,298.15,600", "--errors", "--output", str(out)]) == 0
+    table, info = read_exported_csv(out.read_bytes())
+    for column in ("volume_error_A3", "thermal_expansion_error_per_K", "bulk_modulus_T_error_GPa",
+                   "heat_capacity_p_error_J_per_mol_K", "gibbs_energy_error_kJ_per_mol", "gruneisen_parameter_error"):
+        assert column in table.columns and (table[column] > 0).all(), column
+    assert set(info["uncertainty"]["parts"]) == {"harmonic", "equation_of_state", "volume_sampling", "edge"}
+    assert info["uncertainty"]["largest_relative"]["thermal_expansion"]["total"] > 0
+    assert main(["quasiharmonic", str(DEMO), "--temperatures", "300"]) == 0
+    assert "volume_error_A3" not in capsys.readouterr().out

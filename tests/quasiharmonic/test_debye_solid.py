@@ -62,3 +62,12 @@ def test_cv_at_volume_matches_debye(entries, references):
     df = quasiharmonic_table(entries, TEMPERATURES)
     for cv, ref in zip(df.heat_capacity_v_J_per_mol_K, references):
         assert abs(cv / (ref["cv"] * R_PER_KB_EV) - 1) < 2e-3
+
+
+@pytest.mark.parametrize("x", [0.05, 0.7, 3.0, 25.0, 80.0])
+def test_debye_function_closed_form_matches_quadrature(x):
+    # The reference solid uses D₃ in closed form (polylogarithms, Abramowitz & Stegun 27.1);
+    # it must equal the defining integral, evaluated by mpmath quadrature, to 1e-20.
+    import mpmath as mp
+    exact = ds.debye_d3(mp.mpf(x))
+    assert abs(ds.debye_d3_closed(mp.mpf(x)) / exact - 1) < 1e-20

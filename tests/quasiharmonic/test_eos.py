@@ -66,5 +66,5 @@ def test_energy_is_minus_integral_of_pressure():
 
 
 def test_unknown_eos_refused():
-    with pytest.raises(OptionError, match="birch-murnaghan or vinet"):
+    with pytest.raises(OptionError, match="birch-murnaghan, vinet or spline"):
         check_eos("murnaghan")

@@ -118,3 +118,24 @@ def test_per_atom_and_per_gram(tmp_path):
     gram = quasiharmonic_table(vs, [300.0], per="gram", formula="Al")
     # Al standard atomic weight 26.9815385 g/mol (IUPAC 2013, from memory)
     assert gram.entropy_J_per_g_K[0] * 26.98 == pytest.approx(mol.entropy_J_per_mol_K[0], rel=1e-3)
+
+
+def test_volumes_and_energies_out_of_range_are_refused_before_any_dos_is_read(tmp_path):
+    # Found by the manifest fuzz: 1e-300..1e300 Å³ or a 1e308 eV energy overflowed inside the fit.
+    path = write_set(tmp_path)
+    lines = path.read_text().splitlines()
+    tiny = [1e-300, 19.0, 20.0, 21.0, 22.0]
+    huge = lines[:2] + [",".join([repr(v)] + row.split(",")[1:]) for v, row in zip(tiny, lines[2:7])]
+    path.write_text("\n".join(huge) + "\n")
+    for name in (f"d{k}.dat" for k in range(11)):
+        (tmp_path / name).write_text("not a DOS")      # never read: the volumes are refused first
+    with pytest.raises(OptionError, match=r"volume 1e-300 Å³ \(line 3\) is outside 0.01-1e\+06 Å³"):
+        read_manifest(path)
+    wide = lines[:2] + [",".join([repr(float(v))] + row.split(",")[1:]) for v, row in zip([1, 2, 3, 4, 50], lines[2:7])]
+    path.write_text("\n".join(wide) + "\n")
+    with pytest.raises(OptionError, match="span a factor 50"):
+        read_manifest(path)
+    big = lines[:2] + [",".join([row.split(",")[0], "1e308", row.split(",")[2]]) for row in lines[2:7]]
+    path.write_text("\n".join(big) + "\n")
+    with pytest.raises(OptionError, match=r"static energy 1e\+308 eV .* within ±1e\+08 eV"):
+        read_manifest(path)

@@ -21,13 +21,15 @@ from webapp import intake, session
 from webapp.pages import quasiharmonic as qh
 
 SETTINGS = dict(t_min=0, t_max=600, step=50, pressure=0, eos="birch-murnaghan", per="formula", negative="drop",
-                formula=None, tolerance=1)
+                formula=None, tolerance=1, errors="on")
+#: The page's grid for 0-600 K every 50 K: 298.15 K is put in its place (issue 29).
+GRID = np.union1d(np.arange(0.0, 601.0, 50.0), [298.15])
 
 
 def draw(record, source="manifest", rows=None, workspace=None, **change):
     s = {**SETTINGS, **change}
     return qh.draw(record, source, rows or [], workspace, s["t_min"], s["t_max"], s["step"], s["pressure"],
-                   s["eos"], s["per"], s["negative"], s["formula"], s["tolerance"])
+                   s["eos"], s["per"], s["negative"], s["formula"], s["tolerance"], s["errors"])
 
 
 def as_urls(paths):
@@ -37,10 +39,20 @@ def as_urls(paths):
 
 def test_demo_figures_follow_the_library():
     out = draw(qh.demo_set())
-    expected = quasiharmonic_table(str(qh.DEMO_MANIFEST), np.arange(0.0, 601.0, 50.0))
+    expected = quasiharmonic_table(str(qh.DEMO_MANIFEST), GRID, errors=True)
     np.testing.assert_allclose(np.asarray(out[1].data[0].y, float), expected.volume_A3, rtol=1e-12)
     assert out[0].layout.xaxis.title.text.startswith("volume V")
     assert len(out) == len(qh._GRAPHS) + 2
+    # the band under V(T) is V ± its estimated error, row by row (upper edge forward, lower edge back)
+    band = out[1].data[1]
+    n = GRID.size
+    np.testing.assert_allclose(np.asarray(band.y[:n], float), expected.volume_A3 + expected.volume_error_A3, rtol=1e-12)
+    np.testing.assert_allclose(np.asarray(band.y[n:], float)[::-1], expected.volume_A3 - expected.volume_error_A3,
+                               rtol=1e-12)
+    keys = str(out[-2])
+    assert "V at 298.15 K" in keys and "±" in keys
+    off = draw(qh.demo_set(), errors="off")
+    assert len(off[1].data) == 1 and "±" not in str(off[-2])
 
 
 def test_upload_needs_a_manifest_and_five_volumes(tmp_path):
@@ -65,17 +77,17 @@ def test_loaded_datasets_with_typed_volumes(tmp_path):
     for row, v in zip(rows, ds.VOLUMES):
         row.update(volume_A3=float(v), energy_eV=float(ds.static_energy(v)))
     out = draw(None, "datasets", rows, ws)
-    expected = quasiharmonic_table(str(manifest), np.arange(0.0, 601.0, 50.0))
+    expected = quasiharmonic_table(str(manifest), GRID)
     np.testing.assert_allclose(np.asarray(out[1].data[0].y, float), expected.volume_A3, rtol=1e-10)
 
 
 def test_download_equals_command_line(tmp_path, capsys):
     record = qh.demo_set()
     sent, _ = qh.download(1, record, "manifest", [], None, 0, 600, 50, 1.5, "vinet", "atom", "drop", None, 0.5,
-                          "csv")
+                          "csv", "on")
     page_table, page_info = read_exported_csv(base64.b64decode(sent["content"]))
-    assert main(["quasiharmonic", str(qh.DEMO_MANIFEST), "--temperatures", "0:600:50", "--pressure", "1.5",
-                 "--eos", "vinet", "--per", "atom", "--imaginary-tolerance", "0.005"]) == 0
+    assert main(["quasiharmonic", str(qh.DEMO_MANIFEST), "--temperatures", "0:600:50,298.15", "--pressure", "1.5",
+                 "--eos", "vinet", "--per", "atom", "--imaginary-tolerance", "0.005", "--errors"]) == 0
     cli_table, cli_info = read_exported_csv(capsys.readouterr().out.encode())
     assert sent["filename"] == "springium_volumes-quasiharmonic-atom.csv"
     assert list(page_table.columns) == list(cli_table.columns)

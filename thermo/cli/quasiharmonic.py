@@ -8,23 +8,32 @@ from .electronic import add_electronic_reading_options, electronic_options
 from .options import add_input_options, add_table_options, add_temperature_option, emit_table, output_plan
 from .reading import reading_from_args
 
-_DEFAULT_TEMPERATURES = "0:1000:10"
+#: 0 to 1000 K every 10 K plus the standard 298.15 K (common practice in thermochemical tables).
+_DEFAULT_TEMPERATURES = "0:1000:10,298.15"
 
 
 def register(sub):
     p = sub.add_parser("quasiharmonic",
                        help="quasi-harmonic V(T), thermal expansion, B_T, C_p, G from DOS at several volumes")
     add_input_options(p)
+    add_temperature_option(p, default=_DEFAULT_TEMPERATURES)
     for action in p._actions:   # the positional is the manifest here; same reading options for every DOS
         if action.dest == "file":
             action.metavar = "MANIFEST"
             action.help = ("volume set: CSV with volume_A3, energy_eV (or energy_Ry/energy_Ha/"
                            "energy_kJ_per_mol) and dos_file (relative to the manifest, or ws:NAME for a dataset of the workspace), one row per volume; "
                            "optional electronic_dos_file (metals: the electronic DOS at that volume adds F_el(V,T))")
-    add_temperature_option(p, default=_DEFAULT_TEMPERATURES)
+        if action.dest == "temperatures":
+            action.help = ("START:STOP:STEP in K (STOP included), a comma list, or both mixed "
+                           f"(default {_DEFAULT_TEMPERATURES}: 0 to 1000 K every 10 K plus the standard 298.15 K)")
     p.add_argument("--pressure", type=float, default=0.0, metavar="GPa", help="pressure p in GPa (default 0)")
-    p.add_argument("--eos", default="birch-murnaghan", choices=["birch-murnaghan", "vinet"],
-                   help="equation of state fitted to F(V) at each temperature (default birch-murnaghan)")
+    p.add_argument("--eos", default="birch-murnaghan", choices=["birch-murnaghan", "vinet", "spline"],
+                   help="equation of state fitted to F(V) at each temperature: birch-murnaghan (default), vinet, "
+                        "or spline (a cubic spline through every volume, no assumed form)")
+    p.add_argument("--errors", action="store_true",
+                   help="add the estimated error of V, alpha, B_T, C_p, C_v, S, H, G and gamma as "
+                        "<quantity>_error_<unit> columns (harmonic error of every volume, spread of the three "
+                        "equations of state, leave-one-volume-out, distance beyond the sampled volumes)")
     p.add_argument("--imaginary-tolerance", type=float, default=None, metavar="SHARE",
                    help="list volumes whose imaginary-mode share exceeds this fraction (default 0.01)")
     add_table_options(p, "write here (default: stdout for csv/json)")
@@ -47,7 +56,8 @@ def run(args) -> int:
     volume_set = read_manifest(args.file, options=reading_from_args(args), resolve=_workspace_resolver(args),
                                electronic_options=electronic_options(args))
     table = quasiharmonic_table(volume_set, temperatures, pressure_gpa=args.pressure, eos=args.eos,
-                                per=args.per, formula=args.formula, imaginary_tolerance=tolerance)
+                                per=args.per, formula=args.formula, imaginary_tolerance=tolerance,
+                                errors=args.errors)
     info = quasiharmonic_provenance(volume_set, table, temperatures)
     for note in info["warnings"]:
         print(f"warning: {note}", file=sys.stderr)

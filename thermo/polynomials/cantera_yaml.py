@@ -155,8 +155,11 @@ def polynomial_export(fit, fmt, formula=None, provenance=None):
         return json.dumps({"provenance": info, **record}, indent=2, allow_nan=False, ensure_ascii=False) + "\n"
     if kind != "csv":
         raise OptionError(f"unknown polynomial format {fmt!r}; choose json, csv or yaml")
-    rows = [(i, r["T_min_K"], r["T_max_K"], key, value) for i, r in enumerate(record.pop("ranges"))
-            for key, value in r["coefficients"].items()]
-    table = pd.DataFrame(rows, columns=["range", "T_min_K", "T_max_K", "coefficient", "value"])
+    ranges = record.pop("ranges")
+    rows = [(i, r["T_min_K"], r["T_max_K"], key, value, r.get("coefficient_uncertainties", {}).get(key))
+            for i, r in enumerate(ranges) for key, value in r["coefficients"].items()]
+    table = pd.DataFrame(rows, columns=["range", "T_min_K", "T_max_K", "coefficient", "value", "uncertainty"])
+    if "coefficient_uncertainties" not in ranges[0]:
+        table = table.drop(columns="uncertainty")
     meta = {**info, **{k: v for k, v in record.items() if k not in COMMON_KEYS}}
     return export_table(table, meta, "csv").decode("utf-8")

@@ -20,11 +20,14 @@ References
 
 from __future__ import annotations
 
+import dataclasses
+
 import numpy as np
 from scipy import constants as sc
 
 from ..errors import OptionError
 from .forms import BASES, KEYS, PROPERTIES, T_STANDARD
+from .propagation import propagated_uncertainty
 from .result import FitRange, PolynomialFit, fit_errors
 
 #: Lowest temperature [K] each form is meant for (common practice: WebBook Shomate and NASA
@@ -84,13 +87,18 @@ def _scaled_basis(form, t):
     return BASES[form](t * s), np.array([1.0, s, s ** 2, s ** -2])
 
 
-def _cp_fit(form, t, cp, t_mid=None):
-    """C_p coefficients in the published powers: one array per range."""
+def _cp_fit(form, t, cp, t_mid=None, weights=None):
+    """C_p coefficients in the published powers: one array per range.
+
+    ``cp`` may be (n,) or (n, r) (r right-hand sides sharing ``weights``, default 1/|cp|).
+    """
     a, back = _scaled_basis(form, t)
     target = cp / sc.R if form == "nasa7" else -cp if form == "sgte" else cp
-    w = 1.0 / np.abs(cp)
+    w = 1.0 / np.abs(cp) if weights is None else weights
+    wt = w.reshape((-1,) + (1,) * (np.ndim(cp) - 1))
+    back = back.reshape((-1,) + (1,) * (np.ndim(cp) - 1))
     if t_mid is None:
-        p = np.linalg.lstsq(a * w[:, None], target * w, rcond=None)[0]
+        p = np.linalg.lstsq(a * w[:, None], target * wt, rcond=None)[0]
         return [p * back]
     low = t <= t_mid
     n = a.shape[1]
@@ -101,7 +109,7 @@ def _cp_fit(form, t, cp, t_mid=None):
     constraint = np.concatenate([row[0], -row[0]])[None, :]
     dw = design * w[:, None]
     kkt = np.block([[2 * dw.T @ dw, constraint.T], [constraint, np.zeros((1, 1))]])
-    rhs = np.concatenate([2 * dw.T @ (target * w), [0.0]])
+    rhs = np.concatenate([2 * dw.T @ (target * wt), np.zeros((1,) + np.shape(cp)[1:])])
     p = np.linalg.solve(kkt, rhs)
     return [p[:n] * back, p[n:2 * n] * back]
 
@@ -141,6 +149,16 @@ def _constants(form, cp_coefficients, t_ref, h_ref, s_ref, formation_kj):
     return _sgte(cp_coefficients, t_ref, h_ref, s_ref)
 
 
+def _assemble(form, cps, t_ref, h_ref, s_ref, formation, mid):
+    """Coefficient dicts of every range from the C_p parts and H, S at ``t_ref`` (the upper range continues
+    H and S of the lower one at ``mid``)."""
+    low = _constants(form, cps[0], t_ref, h_ref, s_ref, formation)
+    if mid is None:
+        return [low]
+    at_mid = PROPERTIES[form](low, mid)
+    return [low, _constants(form, cps[1], mid, float(at_mid["enthalpy"]), float(at_mid["entropy"]), formation)]
+
+
 def fit_polynomial(source, form="shomate", t_range=DEFAULT_RANGE, t_mid=None, formation_enthalpy=0.0,
                    phase="cr", name=None):
     r"""Fit one published polynomial form to a heat-capacity source.
@@ -167,7 +185,11 @@ def fit_polynomial(source, form="shomate", t_range=DEFAULT_RANGE, t_mid=None, fo
     Returns
     -------
     PolynomialFit
-        Coefficients per range, ``evaluate(T)``, errors, warnings.
+        Coefficients per range, ``evaluate(T)``, errors, warnings; when the
+        source carries an uncertainty, ``uncertainty`` holds what it does to
+        the coefficients and to the fitted C_p, S, H − H(298.15)
+        (:func:`~thermo.polynomials.propagation.propagated_uncertainty`), next
+        to the fit's own error in ``errors``.
 
     Raises
     ------
@@ -217,23 +239,25 @@ def fit_polynomial(source, form="shomate", t_range=DEFAULT_RANGE, t_mid=None, fo
     if mid is not None and mid <= t_ref:
         raise OptionError(f"midpoint {mid:g} K must lie above the reference temperature {t_ref:g} K")
     cps = _cp_fit(form, data.temperature, data.heat_capacity, mid)
-    low = _constants(form, cps[0], t_ref, h_ref, s_ref, formation)
-    if mid is None:
-        ranges = [FitRange(lo, hi, low)]
-    else:
-        at_mid = PROPERTIES[form](low, mid)
-        high = _constants(form, cps[1], mid, float(at_mid["enthalpy"]), float(at_mid["entropy"]), formation)
-        ranges = [FitRange(lo, mid, low), FitRange(mid, hi, high)]
+    bounds = [(lo, hi)] if mid is None else [(lo, mid), (mid, hi)]
+    ranges = [FitRange(a, b, c) for (a, b), c in zip(bounds, _assemble(form, cps, t_ref, h_ref, s_ref, formation, mid))]
     method = ("C_p least squares in relative error; H and S constants from the source at "
               f"{t_ref:g} K" + ("; C_p equal at the midpoint, H and S continuous" if mid else ""))
     fit = PolynomialFit(form=form, ranges=tuple(ranges), formation_enthalpy_kJ_per_mol=formation,
                         phase=str(phase or "cr"), name=name or "", reference_temperature_K=t_ref,
                         source=source.label, method=method, errors={}, warnings=())
     errors = fit_errors(fit, data)
-    return fit.with_report(errors, _warnings(form, lo, errors, source.notes, t_ref))
+    if data.uncertainty is not None:
+        weights = 1.0 / np.abs(data.heat_capacity)
+        fit = dataclasses.replace(fit, uncertainty=propagated_uncertainty(
+            fit, data, lambda cp: _cp_fit(form, data.temperature, cp, mid, weights),
+            lambda cps, h, s: _assemble(form, cps, t_ref, h, s, formation, mid), i_ref, errors))
+    step = 2.0 * float(np.median(np.diff(data.temperature)))     # a grid that just misses an end is no gap
+    covered = (float(data.temperature[0]), float(data.temperature[-1]), step)
+    return fit.with_report(errors, _warnings(form, lo, errors, source.notes, t_ref, hi, covered))
 
 
-def _warnings(form, lo, errors, notes, t_ref):
+def _warnings(form, lo, errors, notes, t_ref, hi=None, covered=None):
     out = []
     if lo < LOWEST_INTENDED_K[form] - 1e-9:
         out.append(f"the range starts at {lo:g} K, below the {LOWEST_INTENDED_K[form]:g} K where the "
@@ -242,6 +266,9 @@ def _warnings(form, lo, errors, notes, t_ref):
         if value["max_relative"] > ERROR_LIMIT:
             out.append(f"{key} deviates from the source by up to {100 * value['max_relative']:.3g} % "
                        f"(limit {100 * ERROR_LIMIT:g} %); narrow the range or split it")
+    if covered is not None and (covered[0] > lo + covered[2] or covered[1] < hi - covered[2]):
+        out.append(f"the source covers {covered[0]:g}-{covered[1]:g} K of the range {lo:g}-{hi:g} K; outside it "
+                   "the polynomial extrapolates and neither the fit error nor the uncertainty speaks for it")
     if t_ref != T_STANDARD:
         out.append(f"298.15 K is outside the range; H and S are anchored at {t_ref:g} K and values "
                    "at 298.15 K are extrapolated")

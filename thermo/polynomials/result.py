@@ -54,6 +54,10 @@ class PolynomialFit:
         ``{quantity: {"max_relative": …, "rms_relative": …}}`` over the range.
     warnings : tuple of str
         Range, error and source cautions.
+    uncertainty : dict
+        What the source's uncertainty does to the fit
+        (:func:`~thermo.polynomials.propagation.propagated_uncertainty`); empty
+        when the source has none.
     """
 
     form: str
@@ -66,6 +70,7 @@ class PolynomialFit:
     method: str = ""
     errors: dict = field(default_factory=dict)
     warnings: tuple = ()
+    uncertainty: dict = field(default_factory=dict)
 
     @property
     def t_min(self):
@@ -136,10 +141,13 @@ class PolynomialFit:
         units = {"shomate": "C_p [J/(mol K)] with t = T/1000 K; A-E, G in J/(mol K) units; F, H in kJ/mol",
                  "nasa7": "C_p/R, H/(RT), S/R with T in K (dimensionless a1-a5, a6 in K, a7 dimensionless)",
                  "sgte": "G - H_SER [J/mol] with T in K"}[self.form]
-        return {"form": self.form, "name": self.name, "phase": self.phase,
-                "ranges": [{"T_min_K": r.T_min_K, "T_max_K": r.T_max_K, "coefficients": dict(r.coefficients)}
-                           for r in self.ranges],
-                "errors": self.errors, "warnings": list(self.warnings),
+        spread = self.uncertainty.get("coefficients") or [None] * len(self.ranges)
+        ranges = [{"T_min_K": r.T_min_K, "T_max_K": r.T_max_K, "coefficients": dict(r.coefficients),
+                   **({} if u is None else {"coefficient_uncertainties": dict(u)})}
+                  for r, u in zip(self.ranges, spread)]
+        data = {k: v for k, v in self.uncertainty.items() if k != "coefficients"}
+        return {"form": self.form, "name": self.name, "phase": self.phase, "ranges": ranges,
+                "errors": self.errors, **({"uncertainty": data} if data else {}), "warnings": list(self.warnings),
                 "formation_enthalpy_kJ_per_mol": self.formation_enthalpy_kJ_per_mol,
                 "reference_state": "H(298.15 K) = formation enthalpy (0 for an element in its stable "
                                    "state at 298.15 K, 1 bar; SGTE: G - H_SER); standard pressure 1 bar",

@@ -1,7 +1,10 @@
 """Heat-capacity sources for the polynomial fits: a harmonic table or any (T, C_p) table.
 
 A source is a :class:`HeatCapacityData`: C_p, S and H − H(298.15 K) on one
-temperature grid, per mole of formula units.  Any result that gives C_p
+temperature grid, per mole of formula units, with their estimated errors
+when the source has them (a table's ``_error_`` columns, or the error
+estimate of a harmonic table); :func:`~thermo.polynomials.fitting.fit_polynomial`
+carries those into the coefficients.  Any result that gives C_p
 versus T (harmonic table, quasi-harmonic C_p, a calorimetry fit) becomes a
 source through :func:`heat_capacity_source` or :func:`source_from_table`.
 
@@ -17,7 +20,7 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.interpolate import CubicSpline
 
-from ..columns import find
+from ..columns import error_column_for, find
 from ..errors import OptionError
 from .forms import T_STANDARD
 
@@ -45,6 +48,10 @@ class HeatCapacityData:
         What the values are (shown in reports).
     notes : tuple of str
         Cautions that travel with every fit of this source.
+    uncertainty : dict or None
+        Estimated errors (>= 0) of ``heat_capacity``, ``entropy`` and
+        ``enthalpy_increment`` at every temperature [J/(mol·K), J/mol];
+        None when the source has none.
     """
 
     temperature: np.ndarray
@@ -53,12 +60,14 @@ class HeatCapacityData:
     enthalpy_increment: np.ndarray
     label: str = "heat-capacity table"
     notes: tuple = ()
+    uncertainty: dict | None = None
 
     def within(self, t_min, t_max):
         """The points with t_min <= T <= t_max (a new :class:`HeatCapacityData`)."""
         keep = (self.temperature >= t_min - 1e-9) & (self.temperature <= t_max + 1e-9)
+        u = None if self.uncertainty is None else {k: v[keep] for k, v in self.uncertainty.items()}
         return HeatCapacityData(self.temperature[keep], self.heat_capacity[keep], self.entropy[keep],
-                                self.enthalpy_increment[keep], self.label, self.notes)
+                                self.enthalpy_increment[keep], self.label, self.notes, u)
 
 
 def fit_grid(t_min, t_max, points=400):
@@ -76,7 +85,7 @@ def fit_grid(t_min, t_max, points=400):
     return t
 
 
-def harmonic_source(dos, t_min, t_max, points=400):
+def harmonic_source(dos, t_min, t_max, points=400, errors=True):
     r"""Heat-capacity source of a phonon DOS in the harmonic approximation.
 
     Parameters
@@ -87,6 +96,9 @@ def harmonic_source(dos, t_min, t_max, points=400):
         Temperature range [K].
     points : int
         Grid points over the range.
+    errors : bool
+        Carry the table's error estimate
+        (:func:`thermo.accuracy.rows.harmonic_row_errors`) as the source's uncertainty.
 
     Returns
     -------
@@ -97,7 +109,8 @@ def harmonic_source(dos, t_min, t_max, points=400):
     -----
     In the harmonic crystal at zero pressure :math:`C_p = C_v` and
     :math:`H = U` (no thermal expansion, :math:`PV` negligible for a solid
-    at 1 bar) [1]_, so :math:`H - H_{298.15} = U(T) - U(298.15\,\mathrm{K})`.
+    at 1 bar) [1]_, so :math:`H - H_{298.15} = U(T) - U(298.15\,\mathrm{K}) = \int_{298.15}^T C_v\,dT'`,
+    with error :math:`|\int_{298.15}^T \delta C_v\,dT'|` (0 at 298.15 K, where the increment is 0 by definition).
 
     Examples
     --------
@@ -116,13 +129,21 @@ def harmonic_source(dos, t_min, t_max, points=400):
     u_ref = float(np.interp(T_STANDARD, temps, u))
     keep = np.isin(temps, t)
     notes = (HARMONIC_CAUTION,) + tuple(dos.warnings)
+    uncertainty = None
+    if errors:
+        from ..accuracy.rows import harmonic_row_errors
+        e = harmonic_row_errors(dos, temps)
+        increment = CubicSpline(temps, e["heat_capacity_v"]).antiderivative()
+        uncertainty = {"heat_capacity": e["heat_capacity_v"][keep], "entropy": e["entropy"][keep],
+                       "enthalpy_increment": np.abs(increment(temps) - increment(T_STANDARD))[keep]}
     return HeatCapacityData(temps[keep], table[find(table, "heat_capacity_v", "formula")].to_numpy()[keep],
                             table[find(table, "entropy", "formula")].to_numpy()[keep],
-                            (u - u_ref)[keep], f"harmonic table of {dos.source.get('name') or 'the DOS'}", notes)
+                            (u - u_ref)[keep], f"harmonic table of {dos.source.get('name') or 'the DOS'}", notes,
+                            uncertainty)
 
 
 def heat_capacity_source(temperature, heat_capacity, entropy=None, entropy_298=None,
-                         label="C_p table", notes=()):
+                         label="C_p table", notes=(), heat_capacity_uncertainty=None, entropy_uncertainty=None):
     r"""Heat-capacity source from any (T, C_p) table.
 
     Parameters
@@ -140,6 +161,9 @@ def heat_capacity_source(temperature, heat_capacity, entropy=None, entropy_298=N
         Description for reports.
     notes : sequence of str
         Cautions to carry.
+    heat_capacity_uncertainty, entropy_uncertainty : array_like, optional
+        Estimated errors of C_p and S at the same temperatures [J/(mol·K)];
+        with the first the source carries an uncertainty (see Notes).
 
     Returns
     -------
@@ -156,6 +180,10 @@ def heat_capacity_source(temperature, heat_capacity, entropy=None, entropy_298=N
     A cubic spline of C_p is integrated exactly:
     :math:`H - H_{298.15} = \int_{298.15}^{T} C_p\,dT'` and, without a given
     entropy, :math:`S = S_{298.15} + \int_{298.15}^{T} (C_p/T')\,dT'`.
+    The errors integrate the same way with one sign throughout (the worst
+    case): :math:`\delta H = |\int_{298.15}^{T}\delta C_p\,dT'|`, and without a
+    given entropy error :math:`\delta S = |\int_{298.15}^{T}(\delta C_p/T')\,dT'|`
+    (S(298.15 K) itself is then taken as exact).
 
     Examples
     --------
@@ -175,24 +203,35 @@ def heat_capacity_source(temperature, heat_capacity, entropy=None, entropy_298=N
     if not t[0] <= T_STANDARD <= t[-1]:
         raise OptionError(f"the C_p table ({t[0]:g}–{t[-1]:g} K) must include 298.15 K, where H and S are referenced")
     spline = CubicSpline(t, cp)
+    extra = {k: None if v is None else np.asarray(v, dtype=float).ravel()
+             for k, v in (("entropy", entropy), ("heat_capacity", heat_capacity_uncertainty),
+                          ("entropy_error", entropy_uncertainty))}
+    shown = {"entropy": "entropy", "heat_capacity": "C_p error", "entropy_error": "entropy error"}
+    for key, values in extra.items():
+        if values is not None and (values.size != t.size or not np.all(np.isfinite(values))):
+            raise OptionError(f"the {shown[key]} column must be finite numbers beside every temperature")
     if not np.any(t == T_STANDARD):     # hold the reference point itself (H and S are anchored there)
         at = int(np.searchsorted(t, T_STANDARD))
-        if entropy is not None:
-            entropy = np.insert(np.asarray(entropy, dtype=float).ravel(), at,
-                                CubicSpline(t, np.asarray(entropy, dtype=float).ravel())(T_STANDARD))
+        extra = {k: None if v is None else np.insert(v, at, CubicSpline(t, v)(T_STANDARD)) for k, v in extra.items()}
         t, cp = np.insert(t, at, T_STANDARD), np.insert(cp, at, spline(T_STANDARD))
+    entropy = extra["entropy"]
     dh = spline.antiderivative()
     h = dh(t) - dh(T_STANDARD)
     if entropy is not None:
-        s = np.asarray(entropy, dtype=float).ravel()
-        if s.size != t.size or not np.all(np.isfinite(s)):
-            raise OptionError("the entropy column must be finite numbers beside every temperature")
+        s = entropy
     else:
         if entropy_298 is None:
             raise OptionError("a C_p table without entropy needs S(298.15 K): give entropy_298 in J/(mol·K)")
         ds = CubicSpline(t, cp / t).antiderivative()
         s = float(entropy_298) + ds(t) - ds(T_STANDARD)
-    return HeatCapacityData(t, cp, s, h, label, tuple(notes))
+    u_cp = extra["heat_capacity"]
+    if u_cp is None:
+        return HeatCapacityData(t, cp, s, h, label, tuple(notes))
+    u_cp = np.abs(u_cp)
+    dh, du_s = CubicSpline(t, u_cp).antiderivative(), CubicSpline(t, u_cp / t).antiderivative()
+    u_s = np.abs(extra["entropy_error"]) if extra["entropy_error"] is not None else np.abs(du_s(t) - du_s(T_STANDARD))
+    uncertainty = {"heat_capacity": u_cp, "entropy": u_s, "enthalpy_increment": np.abs(dh(t) - dh(T_STANDARD))}
+    return HeatCapacityData(t, cp, s, h, label, tuple(notes), uncertainty)
 
 
 def source_from_table(table, entropy_298=None, label="C_p table"):
@@ -207,7 +246,9 @@ def source_from_table(table, entropy_298=None, label="C_p table"):
         ``entropy_third_law_J_per_mol_K`` (S° from measured data) is taken
         before ``entropy_J_per_mol_K``, with a note naming both.  Columns are
         found by quantity through :mod:`thermo.columns`; the label says which
-        ones were used.
+        ones were used.  The ``_error_`` column beside each
+        (``heat_capacity_p_error_J_per_mol_K``, ``entropy_error_J_per_mol_K``)
+        is optional, and then carried as the source's uncertainty.
     entropy_298 : float, optional
         S(298.15 K) [J/(mol·K)] when the table has no entropy.
     label : str
@@ -245,7 +286,19 @@ def source_from_table(table, entropy_298=None, label="C_p table"):
                      + "; ".join(f"column {name} ({_ENTROPY_CHOICES[key]}) not used" for name, key in passed))
     label = f"{label} (C_p: {cp}; S: " + (entropy_column or "S(298.15 K) given, C_p/T integrated") + ")"
     temperature, heat = table[t].to_numpy(dtype=float), table[cp].to_numpy(dtype=float)
+    errors = {key: None if column is None else table[column].to_numpy(dtype=float)
+              for key, column in (("cp", error_column_for(table, cp)),
+                                  ("s", None if entropy_column is None else error_column_for(table, entropy_column)))}
+    if errors["cp"] is not None and s is not None and errors["s"] is None:
+        notes.append(f"column {entropy_column} has no error column: S(298.15 K) is taken as exact, its "
+                     "uncertainty elsewhere integrated from that of C_p")
+        s_known = None
+    else:
+        s_known = errors["s"]
     keep = (temperature > 0) & np.isfinite(heat) & (np.isfinite(s) if s is not None else True)
+    for values in errors.values():
+        if values is not None:
+            keep &= np.isfinite(values)
     if (temperature <= 0).any():
         notes.append(f"{int((temperature <= 0).sum())} row(s) at T <= 0 K left out (C_p/T is not defined there)")
     empty = int((~keep & (temperature > 0)).sum())
@@ -258,7 +311,9 @@ def source_from_table(table, entropy_298=None, label="C_p table"):
             notes.append(f"{int((marked & keep).sum())} quasi-harmonic row(s) outside the sampled volumes left out")
         keep &= ~marked
     return heat_capacity_source(temperature[keep], heat[keep], entropy=None if s is None else s[keep],
-                                entropy_298=entropy_298, label=label, notes=notes)
+                                entropy_298=entropy_298, label=label, notes=notes,
+                                heat_capacity_uncertainty=None if errors["cp"] is None else errors["cp"][keep],
+                                entropy_uncertainty=None if s_known is None else s_known[keep])
 
 
 #: C_p columns a table may carry, in the order they are taken (quantity key -> what it is).

@@ -26,7 +26,11 @@ def _ranges(t, mask):
     return out
 
 
-def diagnose(volume_set, surface, outside, tolerance):
+def _shown(ranges):
+    return ", ".join(f"{a:g}-{b:g} K" if a != b else f"{a:g} K" for a, b in ranges)
+
+
+def diagnose(volume_set, surface, outside, tolerance, unconverged=None):
     """The diagnostics record of a quasi-harmonic table (JSON-able).
 
     Parameters
@@ -37,6 +41,8 @@ def diagnose(volume_set, surface, outside, tolerance):
         Rows whose minimum is outside the sampled volumes (or missing).
     tolerance : float
         Imaginary-mode share above which a volume is listed [1].
+    unconverged : numpy.ndarray of bool, shape (M,), optional
+        Rows whose minimum search did not converge (left empty).
 
     Returns
     -------
@@ -65,7 +71,7 @@ def diagnose(volume_set, surface, outside, tolerance):
     missing = ~np.isfinite(surface.fit.residual_rms)
     outside_ranges = _ranges(t, np.asarray(outside))
     if outside_ranges:
-        shown = ", ".join(f"{a:g}-{b:g} K" if a != b else f"{a:g} K" for a, b in outside_ranges)
+        shown = _shown(outside_ranges)
         warnings.append(f"the equilibrium volume leaves the sampled range {v.min():g}-{v.max():g} Å³ at {shown}: "
                         f"{int(np.sum(outside))} rows are extrapolated or empty (marked outside_volume_range); "
                         "add volumes there")
@@ -75,7 +81,11 @@ def diagnose(volume_set, surface, outside, tolerance):
         warnings.append(f"the equation of state misses F(V) by up to {worst:.3g} meV rms "
                         f"({100 * worst / spread:.2g} % of the F spread); check the volume set or try the other EOS")
     if np.any(missing):
-        warnings.append(f"the equation-of-state fit failed at {int(np.sum(missing))} temperatures")
+        warnings.append(f"the {surface.fit.kind} fit did not converge at {int(np.sum(missing))} temperatures "
+                        f"({_shown(_ranges(t, missing))}); those rows are left empty")
+    if unconverged is not None and np.any(unconverged):
+        warnings.append(f"the minimum of F + pV did not converge at {int(np.sum(unconverged))} temperatures "
+                        f"({_shown(_ranges(t, np.asarray(unconverged)))}); those rows are left empty")
     return {
         "eos": surface.fit.kind, "volume_count": int(v.size),
         "volume_range_A3": [float(v.min()), float(v.max())],

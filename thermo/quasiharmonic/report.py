@@ -23,6 +23,26 @@ def _grouped_warnings(volume_set):
     return out
 
 
+def _uncertainty(table):
+    """The record of the ``_error_`` columns, when the table has them."""
+    summary = table.attrs.get("uncertainty")
+    if summary is None:
+        return {}
+    return {"uncertainty": {
+        "columns": "<quantity>_error_<unit>: an estimate of the largest error of the value beside it (not a "
+                   "standard deviation), the sum of the parts below",
+        "parts": {"harmonic": "per-volume harmonic error (numerical + low-frequency) carried through the "
+                              "minimisation, worst sign at every volume",
+                  "equation_of_state": "largest change when Birch-Murnaghan, Vinet or spline replaces the "
+                                       "chosen form",
+                  "volume_sampling": "largest change when one sampled volume is left out",
+                  "edge": "minimum beyond the outermost volume: that volume's leave-out change times the "
+                          "distance in volume spacings"},
+        "largest_relative": summary,
+        "not_included": "static energies are taken as exact; explicit anharmonicity, electrons and defects "
+                        "are outside the model (see cautions)"}}
+
+
 def quasiharmonic_provenance(volume_set, table, temperatures):
     """Provenance of :func:`thermo.quasiharmonic.quasiharmonic_table` output.
 
@@ -80,5 +100,7 @@ def quasiharmonic_provenance(volume_set, table, temperatures):
                "defect terms, no electron–phonon renormalisation") if volume_set.electronic else
               ("quasi-harmonic: F(V,T) = E(V) + F_vib(V,T) (zero-point included), EOS fit at each T, "
                "G = min_V (F + pV); no explicit anharmonic, electronic or defect terms"),
+        carrier="S and C_v carried between volumes as splines of ln S, ln C_v in ln V",
         **electronic,
+        **_uncertainty(table),
     )

@@ -31,6 +31,10 @@ ENERGY_COLUMNS = {
 }
 #: Fewest volumes an equation-of-state fit is attempted with.
 MIN_VOLUMES = 5
+#: Accepted volume per formula unit [Å³] and largest ratio of the largest to the smallest volume.
+VOLUME_LIMITS_A3, MAX_VOLUME_RATIO = (1e-2, 1e6), 10.0
+#: Largest magnitude of a static energy per formula unit [eV] (all-electron totals of heavy atoms stay far below).
+MAX_ENERGY_EV = 1e8
 
 
 @dataclass(frozen=True)
@@ -66,6 +70,52 @@ class VolumeSet:
         return self.doses[0].atoms
 
 
+def check_volumes(volumes, energies, names):
+    """Refuse a volume set whose volumes or static energies cannot be fitted (before any DOS is read).
+
+    Parameters
+    ----------
+    volumes, energies : numpy.ndarray, shape (K,)
+        Volumes [Å³] in increasing order and static energies [eV].
+    names : sequence of str
+        Names of the rows, for messages.
+
+    Raises
+    ------
+    OptionError
+        One line: too few volumes, a non-positive, repeated or out-of-range
+        volume, too wide a span, an energy not finite or too large.
+
+    Examples
+    --------
+    >>> check_volumes(np.array([1.0, 2, 3, 4, 50]), np.zeros(5), list("abcde"))
+    Traceback (most recent call last):
+    ...
+    thermo.errors.OptionError: the volumes span a factor 50 (1-50 Å³); a quasi-harmonic volume set spans per cent to tens of per cent (at most a factor 10)
+    """
+    v, e = np.asarray(volumes, dtype=float), np.asarray(energies, dtype=float)
+    if v.size < MIN_VOLUMES:
+        raise OptionError(f"the volume set has {v.size} volumes; an equation-of-state fit needs "
+                          f"at least {MIN_VOLUMES}")
+    if not np.all(np.isfinite(v)) or np.any(v <= 0):
+        raise OptionError("volumes must be positive numbers in Å³")
+    if np.any(np.diff(v) <= 1e-9 * v[1:]):
+        k = int(np.argmax(np.diff(v) <= 1e-9 * v[1:]))
+        raise OptionError(f"volume {v[k]:g} Å³ appears twice ({names[k]}, {names[k + 1]})")
+    lo, hi = VOLUME_LIMITS_A3
+    outside = np.flatnonzero((v < lo) | (v > hi))
+    if outside.size:
+        k = int(outside[0])
+        raise OptionError(f"volume {v[k]:g} Å³ ({names[k]}) is outside {lo:g}-{hi:g} Å³ per formula unit")
+    if v[-1] / v[0] > MAX_VOLUME_RATIO:
+        raise OptionError(f"the volumes span a factor {v[-1] / v[0]:.3g} ({v[0]:g}-{v[-1]:g} Å³); a quasi-harmonic "
+                          f"volume set spans per cent to tens of per cent (at most a factor {MAX_VOLUME_RATIO:g})")
+    if not np.all(np.isfinite(e)) or np.any(np.abs(e) > MAX_ENERGY_EV):
+        k = int(np.flatnonzero(~(np.abs(e) <= MAX_ENERGY_EV))[0])
+        raise OptionError(f"static energy {e[k]:g} eV ({names[k]}) must be a finite number within "
+                          f"±{MAX_ENERGY_EV:g} eV per formula unit")
+
+
 def make_volume_set(entries, source=None):
     """A checked :class:`VolumeSet` from (volume [Å³], energy [eV], PhononDOS[, name[, ElectronicDOS]]) tuples.
 
@@ -76,7 +126,9 @@ def make_volume_set(entries, source=None):
     ------
     OptionError
         Fewer than :data:`MIN_VOLUMES` volumes, repeated or non-positive
-        volumes, non-finite energies, or DOS with different atom counts.
+        volumes, volumes outside :data:`VOLUME_LIMITS_A3` or spanning more than
+        :data:`MAX_VOLUME_RATIO`, energies not finite or beyond
+        :data:`MAX_ENERGY_EV`, or DOS with different atom counts.
 
     Examples
     --------
@@ -85,23 +137,13 @@ def make_volume_set(entries, source=None):
     ...
     thermo.errors.OptionError: the volume set has 0 volumes; an equation-of-state fit needs at least 5
     """
-    rows = list(entries)
-    if len(rows) < MIN_VOLUMES:
-        raise OptionError(f"the volume set has {len(rows)} volumes; an equation-of-state fit needs "
-                          f"at least {MIN_VOLUMES}")
-    rows.sort(key=lambda r: float(r[0]))
+    rows = sorted(entries, key=lambda r: float(r[0]))
     v = np.array([float(r[0]) for r in rows])
     e = np.array([float(r[1]) for r in rows])
     doses = tuple(r[2] for r in rows)
     names = tuple(str(r[3]) if len(r) > 3 else str(d.source.get("name") or f"volume {x:g}")
                   for r, d, x in zip(rows, doses, v))
-    if not np.all(np.isfinite(v)) or np.any(v <= 0):
-        raise OptionError("volumes must be positive numbers in Å³")
-    if np.any(np.diff(v) <= 1e-9 * v[1:]):
-        k = int(np.argmax(np.diff(v) <= 1e-9 * v[1:]))
-        raise OptionError(f"volume {v[k]:g} Å³ appears twice ({names[k]}, {names[k + 1]})")
-    if not np.all(np.isfinite(e)):
-        raise OptionError("static energies must be finite numbers")
+    check_volumes(v, e, names)
     atoms = {d.atoms for d in doses}
     if len(atoms) != 1:
         raise OptionError("the DOS files disagree on the atoms per formula unit: "
@@ -229,8 +271,11 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative=None,
     except UnicodeDecodeError:
         raise DosInputError("the manifest is not UTF-8 text", shown) from None
     uploads = {Path(k).name: v for k, v in (files or {}).items()}
+    rows = sorted(parse_manifest(text, shown), key=lambda r: r[1])
+    check_volumes(np.array([r[1] for r in rows]), np.array([r[2] for r in rows]),
+                  [f"line {r[0]}" for r in rows])        # refuse before reading any DOS
     entries = []
-    for line, volume, energy, dos_file, electronic_file in parse_manifest(text, shown):
+    for line, volume, energy, dos_file, electronic_file in rows:
         content, label = _content(dos_file, "dos_file", line, shown, folder, uploads if files is not None else None,
                                   resolve)
         dos = load_dos(content, freq_unit=freq_unit, atoms=atoms, negative=negative,

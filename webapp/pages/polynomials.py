@@ -58,6 +58,9 @@ def figures(source, fit):
     over = fg.figure("temperature T [K]", "C_p [J/(mol·K)]")
     over.add_trace(fg.line(t, data.heat_capacity, "harmonic table (C_p = C_v)", 0, width=5))
     over.add_trace(fg.line(t, p["heat_capacity_p"], f"{fit.form} fit", 1, dash="dash"))
+    if data.uncertainty is not None:
+        u = data.uncertainty["heat_capacity"]
+        over.add_trace(fg.band(t, data.heat_capacity - u, data.heat_capacity + u, "± estimated error of the table", 0))
     for r in fit.ranges[1:]:
         over.add_vline(x=r.T_min_K, line_dash="dot", line_color=fg.INK, annotation_text="midpoint")
     err = fg.figure("temperature T [K]", "fit − table [% of table]")
@@ -69,14 +72,25 @@ def figures(source, fit):
         err.add_trace(fg.line(t, 100.0 * (p[key] - ref) / scale, text, k, hover="%{y:.3g} %"))
     err.add_hrect(y0=-0.1, y1=0.1, fillcolor=fg.PALETTE[3], opacity=0.08, line_width=0,
                   annotation_text="±0.1 %", annotation_position="top left")
+    if data.uncertainty is not None:
+        share = 100.0 * data.uncertainty["heat_capacity"] / np.abs(data.heat_capacity)
+        err.add_trace(fg.band(t, -share, share, "± estimated error of the table's C_p", 0))
     return over, err
 
 
 def error_numbers(fit):
-    """Key numbers: maximum and RMS relative error of each compared quantity."""
-    return c.key_numbers([(f"{text}: max / rms error",
-                           f"{100 * fit.errors[key]['max_relative']:.3g} % / {100 * fit.errors[key]['rms_relative']:.2g} %")
-                          for key, text in ERROR_CURVES])
+    """Key numbers: maximum and RMS relative error of each compared quantity, and beside it the
+    uncertainty the source's own error estimate carries into the fit (when it has one)."""
+    pairs = [(f"{text}: max / rms error",
+              f"{100 * fit.errors[key]['max_relative']:.3g} % / {100 * fit.errors[key]['rms_relative']:.2g} %")
+             for key, text in ERROR_CURVES]
+    if fit.uncertainty:
+        pairs += [(f"{text}: ± from the table's error", f"{100 * fit.uncertainty[key]['max_relative']:.2g} %")
+                  for key, text in ERROR_CURVES]
+        at = fit.uncertainty.get("at_298_15_K", {})
+        pairs += [(f"{symbol} at 298.15 K", f"{at[key]['value']:.5g} ± {at[key]['uncertainty']:.2g} J/(mol·K)")
+                  for key, symbol in (("heat_capacity_p", "C_p"), ("entropy", "S")) if key in at]
+    return c.key_numbers(pairs)
 
 
 def layout(**_query):

@@ -8,15 +8,16 @@ import json
 from pathlib import Path
 
 import dash
+import numpy as np
 from dash import Input, Output, State, callback, dash_table, dcc, html, no_update
 
-from thermo.columns import find
+from thermo.columns import error_column_for, find, lookup
 from thermo.errors import DosInputError, OptionError
 from thermo.io.writers import DEFAULT_DIGITS, export_table
 from thermo.quasiharmonic import (CAUTIONS, free_energy_curves, free_energy_surface, make_volume_set,
                                   quasiharmonic_table, read_manifest)
 from thermo.quasiharmonic.report import quasiharmonic_provenance
-from thermo.temperatures import temperature_range
+from thermo.temperatures import STANDARD_TEMPERATURE, temperature_range, with_standard_temperature
 
 from .. import cache, filesets, session
 from ..demo import demo_file
@@ -29,7 +30,9 @@ PATH, NAME, ORDER = "/quasiharmonic", "Quasi-harmonic", 6
 
 DEMO_MANIFEST = demo_file("volumes", "springium_volumes.csv")
 EOS_CHOICES = [{"label": "Birch–Murnaghan (3rd order)", "value": "birch-murnaghan"},
-               {"label": "Vinet", "value": "vinet"}]
+               {"label": "Vinet", "value": "vinet"},
+               {"label": "cubic spline through every volume", "value": "spline"}]
+ERROR_CHOICES = [{"label": "estimate, shown as bands", "value": "on"}, {"label": "off", "value": "off"}]
 SOURCE_CHOICES = [{"label": "manifest + DOS files", "value": "manifest"},
                   {"label": "loaded datasets (type volumes and energies)", "value": "datasets"}]
 FORMAT_CHOICES = [{"label": "CSV", "value": "csv"}, {"label": "Excel (XLSX)", "value": "xlsx"},
@@ -112,18 +115,19 @@ def _volume_set(record, source, rows, workspace, negative):
 
 
 def results(record, source, rows, workspace, temperatures, pressure, eos, per, negative, formula=None,
-            tolerance_percent=1.0):
-    """(volume set, table, F(V) curves), memoised on content and settings."""
+            tolerance_percent=1.0, errors=True):
+    """(volume set, table, F(V) curves), memoised on content and settings; ``errors`` adds the ``_error_`` columns."""
     digest = hashlib.sha256(json.dumps([record if source == "manifest" else None, rows if source == "datasets"
                                         else None, [d["sha256"] for d in (workspace or {}).get("datasets", [])]
                                         if source == "datasets" else None], sort_keys=True).encode()).hexdigest()
     tolerance = _tolerance(tolerance_percent)
-    key = (digest, source, tuple(temperatures.tolist()), float(pressure), eos, per, negative, formula, tolerance)
+    key = (digest, source, tuple(temperatures.tolist()), float(pressure), eos, per, negative, formula, tolerance,
+           bool(errors))
 
     def compute():
         vs = _volume_set(record, source, rows, workspace, negative)
         table = quasiharmonic_table(vs, temperatures, pressure_gpa=pressure, eos=eos, per=per,
-                                    formula=formula, imaginary_tolerance=tolerance)
+                                    formula=formula, imaginary_tolerance=tolerance, errors=errors)
         shown = [t for t in CURVE_TEMPERATURES if t <= temperatures.max()] or [float(temperatures.max())]
         curves = free_energy_curves(free_energy_surface(vs, shown, eos), pressure)
         return vs, table, (shown, curves)
@@ -131,7 +135,10 @@ def results(record, source, rows, workspace, temperatures, pressure, eos, per, n
 
 
 def figures(table, curves):
-    """The figures: F(V) with the minimum path; V, α, B_T, C_p and C_v, γ and the EOS misfit against T."""
+    """The figures: F(V) with the minimum path; V, α, B_T, C_p and C_v, γ and the EOS misfit against T.
+
+    A quantity with an ``_error_`` column in ``table`` gets a band value ± estimated error under its line.
+    """
     shown, cv = curves
     fv = fg.figure("volume V [Å³ per formula unit]", "G = F + pV [eV per formula unit]")
     for k, t in enumerate(shown):
@@ -153,6 +160,11 @@ def figures(table, curves):
         for j, key in enumerate(keys):
             col = find(table, key)
             fig.add_trace(fg.line(t, table[col], axis_title(col), k + j, dash="dash" if j else None))
+        for j, key in enumerate(keys):
+            col, err = find(table, key), error_column_for(table, find(table, key))
+            if err is not None:
+                fig.add_trace(fg.band(t, table[col] - table[err], table[col] + table[err],
+                                      f"± estimated error of {lookup(col).quantity.symbol}", k + j))
         if outside.any():
             fig.add_trace(fg.go.Scatter(x=t[outside], y=table[first][outside], mode="markers",
                                         name="outside the sampled volumes (extrapolated)",
@@ -187,6 +199,7 @@ def layout(**_query):
         c.controls(*c.temperature_fields("qh", 0, 1000, 10),
                    c.number("qh-pressure", 0, "pressure p [GPa]"),
                    c.radio("qh-eos", EOS_CHOICES, "birch-murnaghan", "Equation of state"),
+                   c.radio("qh-errors", ERROR_CHOICES, "on", "Uncertainty"),
                    c.radio("qh-negative", c.NEGATIVE_CHOICES,
                            "drop", "Imaginary modes"),
                    c.number("qh-tolerance", 1, "imaginary tolerance [%]", min_value=0, max_value=100,
@@ -257,25 +270,39 @@ def _tolerance(percent):
 
 
 def _settings(t_min, t_max, step, pressure):
-    return temperature_range(t_min, t_max, step), float(pressure or 0.0)
+    """The temperature grid (with 298.15 K when inside it) and the pressure [GPa]."""
+    return with_standard_temperature(temperature_range(t_min, t_max, step)), float(pressure or 0.0)
+
+
+def _quoted(table, key):
+    """``value ± error`` of ``key`` at 298.15 K (or the first row), for the key numbers."""
+    t = table[find(table, "temperature")].to_numpy()
+    i = int(np.argmin(np.abs(t - STANDARD_TEMPERATURE)))
+    col = find(table, key)
+    err = error_column_for(table, col)
+    text = f"{table[col].iloc[i]:.5g}" + ("" if err is None else f" ± {table[err].iloc[i]:.2g}")
+    column = lookup(col)
+    return f"{column.quantity.symbol} at {t[i]:g} K", f"{text} {column.unit}".strip()
 
 
 @callback(*[Output(g, "figure") for g in _GRAPHS], Output("qh-keys", "children"), Output("qh-messages", "children"),
           Input("qh-set", "data"), Input("qh-source", "value"), Input("qh-rows", "data"), Input("mh-workspace", "data"),
           Input("qh-tmin", "value"), Input("qh-tmax", "value"), Input("qh-step", "value"), Input("qh-pressure", "value"),
           Input("qh-eos", "value"), Input("qh-per", "value"), Input("qh-negative", "value"),
-          Input("qh-formula", "value"), Input("qh-tolerance", "value"))
+          Input("qh-formula", "value"), Input("qh-tolerance", "value"), Input("qh-errors", "value"))
 @reported(_failed)
-def draw(record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula, tolerance):
+def draw(record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula, tolerance,
+         errors="on"):
     """Plots, key numbers and diagnostics for the page's settings."""
     temperatures, p = _settings(t_min, t_max, step, pressure)
     vs, table, curves = results(record, source, rows, workspace, temperatures, p, eos, per, negative,
-                                formula or None, tolerance)
+                                formula or None, tolerance, errors != "off")
     diag = table.attrs["diagnostics"]
     keys = c.key_numbers([("volumes", f"{diag['volume_count']} ({diag['volume_range_A3'][0]:g}–"
                                       f"{diag['volume_range_A3'][1]:g} Å³)"),
                           ("largest EOS rms residual", f"{diag['max_fit_residual_meV']:.3g} meV"),
-                          ("rows outside the sampled volumes", str(int(table[find(table, 'outside_volume_range')].sum())))])
+                          ("rows outside the sampled volumes", str(int(table[find(table, 'outside_volume_range')].sum()))),
+                          *[_quoted(table, key) for key in ("volume", "thermal_expansion", "bulk_modulus_T")]])
     notes = [("warn", w) for w in diag["warnings"]] + [("warn", f"{n}: {w}") for n, d in zip(vs.names, vs.doses)
                                                        for w in d.warnings if "inferred" not in w]
     return (*figures(table, curves), keys, c.message_items(notes[:12]))
@@ -286,15 +313,15 @@ def draw(record, source, rows, workspace, t_min, t_max, step, pressure, eos, per
           State("qh-rows", "data"), State("mh-workspace", "data"), State("qh-tmin", "value"), State("qh-tmax", "value"),
           State("qh-step", "value"), State("qh-pressure", "value"), State("qh-eos", "value"), State("qh-per", "value"),
           State("qh-negative", "value"), State("qh-formula", "value"), State("qh-tolerance", "value"),
-          State("qh-format", "value"),
+          State("qh-format", "value"), State("qh-errors", "value"),
           prevent_initial_call=True)
 @reported(lambda message: (no_update, c.message_items([("error", message)])))
 def download(_clicks, record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula,
-             tolerance, fmt):
-    """The quasi-harmonic table with its provenance, as the command line writes it."""
+             tolerance, fmt, errors="on"):
+    """The quasi-harmonic table with its provenance, as the command line writes it (``--errors`` when shown)."""
     temperatures, p = _settings(t_min, t_max, step, pressure)
     vs, table, _ = results(record, source, rows, workspace, temperatures, p, eos, per, negative, formula or None,
-                           tolerance)
+                           tolerance, errors != "off")
     content = export_table(table, quasiharmonic_provenance(vs, table, temperatures), fmt, digits=DEFAULT_DIGITS)
     name = f"{Path(str(vs.source.get('name') or 'volumes')).stem}-quasiharmonic-{per}.{fmt}"
     return dcc.send_bytes(content, name), c.message_items([("info", f"prepared {name}")])
