@@ -302,8 +302,11 @@ register_quantity("heat_capacity_dilation", "C_p−C_v", "entropy", description=
 register_quantity("heat_capacity_p_residual", "ΔC_p", "entropy", description="model minus measured C_p")
 register_quantity("relative_residual", "ΔC_p/C_p", "fixed", description="(model − measured)/measured C_p")
 register_quantity("entropy_third_law", "S°", "entropy", description="third-law entropy ∫₀ᵀ C_p/T dT")
-register_quantity("entropy_third_law_uncertainty", "u(S°)", "entropy", description="standard uncertainty of the third-law entropy")
+register_quantity("entropy_third_law_error", "u(S°)", "entropy",
+                  description="standard uncertainty of the third-law entropy (points, interpolation, below the first point)")
 register_quantity("enthalpy_from_zero", "H°−H°(0)", "energy", description="enthalpy increment from 0 K, ∫₀ᵀ C_p dT")
+register_quantity("enthalpy_from_zero_error", "u(H°−H°(0))", "energy",
+                  description="standard uncertainty of the enthalpy increment from 0 K")
 # ---- error breakdown (thermo.accuracy.breakdown): numerical and low-frequency parts
 for _key, _symbol, _kind in (("heat_capacity_v", "C_v", "entropy"), ("entropy", "S", "entropy"),
                              ("internal_energy", "U", "energy"), ("helmholtz_energy", "F", "energy")):

@@ -48,6 +48,10 @@ class OptionError(ModeheatError, ValueError):
     """An option value (unit name, temperature list, policy, ...) is invalid."""
 
 
+class FitError(ModeheatError):
+    """A least-squares fit, root search or minimiser that did not converge (one line: what and why)."""
+
+
 class ModeheatWarning(UserWarning):
     """A result is computed but deserves attention (imaginary modes, clipping...)."""
 

@@ -3,7 +3,7 @@
 import numpy as np
 import pytest
 from dash.testing.wait import until
-from selenium.common.exceptions import StaleElementReferenceException
+from selenium.common.exceptions import NoSuchElementException, StaleElementReferenceException
 from selenium.webdriver.common.by import By
 
 from webapp.app import create_app
@@ -22,14 +22,14 @@ def duo(dash_duo):
 
 
 def _messages(driver):
-    return _text(driver, "#cal-messages")
+    return driver.find_element(By.ID, "cal-messages").text
 
 
-def _text(driver, css):
-    """Text of the first element matching ``css``; "" while it is being redrawn (a stale reference)."""
+def _text(driver, selector):
+    """Text of an element, or "" while the page replaces it (a stale reference is not a failure)."""
     try:
-        return driver.find_element(By.CSS_SELECTOR, css).text
-    except StaleElementReferenceException:
+        return driver.find_element(By.CSS_SELECTOR, selector).text
+    except (StaleElementReferenceException, NoSuchElementException):
         return ""
 
 
@@ -37,7 +37,7 @@ def test_upload_fit_and_error_message(duo, tmp_path):
     # A Debye-like solid with γT, written in mJ/(mol K): the page must read the unit from the header.
     t = np.linspace(5.0, 320.0, 64)
     theta = 280.0
-    cv = 3 * 8.314462618 * (t / theta) ** 3 * 77.927 / (1 + 15.6 * (t / theta) ** 3)   # smooth stand-in
+    cv = 3 * 8.314462618 * (t / theta) ** 3 * 77.927 / (1 + 77.927 * (t / theta) ** 3)   # smooth, -> 3R
     good = tmp_path / "measured_mJ.csv"
     good.write_text("T (K),Cp (mJ/(mol K))\n" + "".join(f"{a},{1e3 * (b + 1e-3 * a)}\n" for a, b in zip(t, cv)))
     bad = tmp_path / "broken.csv"
@@ -46,7 +46,7 @@ def test_upload_fit_and_error_message(duo, tmp_path):
     wait_drawn(duo.driver, ["cal-overlay-graph", "cal-residual-graph", "cal-lowt-graph"])
     until(lambda: "springium_cp.csv" in duo.driver.find_element(By.ID, "cal-file").text, 20)
     duo.driver.find_element(By.CSS_SELECTOR, "#cal-upload input[type=file]").send_keys(str(good))
-    until(lambda: "measured_mJ.csv" in _text(duo.driver, "#cal-file"), 30)
+    until(lambda: "measured_mJ.csv" in duo.driver.find_element(By.ID, "cal-file").text, 30)
     assert "read in mJ/(mol K)" in duo.driver.find_element(By.ID, "cal-file").text
     until(lambda: js_graph(duo.driver, "cal-overlay-graph", "gd._fullData[0].x.length") == 64, 20)
     y = np.array(js_graph(duo.driver, "cal-overlay-graph", "Array.from(gd._fullData[0].y)"), dtype=float)

@@ -33,7 +33,7 @@ def test_janaf_fit_debye_electronic_nernst_lindemann(element, s_janaf):
     t = table["T(K)"]
     keep = (t >= 100) & (t <= 700)
     data = MeasuredHeatCapacity(t[keep], table["Cp"][keep], None, "J/(mol K)", element)
-    fit = fit_measured_heat_capacity(data, HeatCapacityModel(atoms=1), {"gamma": GAMMA_FROM_MEMORY[element]})
+    fit = fit_measured_heat_capacity(data, HeatCapacityModel(atoms=1, electronic=True), {"gamma": GAMMA_FROM_MEMORY[element]})
     assert fit.max_relative_residual <= 0.015
     assert s_janaf == pytest.approx(float(table["S"][t == 298.15][0]))   # the table value cited above
     s = third_law_from_model(fit, 298.15)
@@ -66,7 +66,7 @@ def test_synthetic_noisy_data_recovers_parameters_within_3_sigma():
     sigma = 0.003 * cp
     noisy = cp + np.random.default_rng(20261203).normal(0.0, sigma)
     fit = fit_measured_heat_capacity(MeasuredHeatCapacity(t, noisy, sigma, "J/(mol K)", "synthetic"),
-                                     HeatCapacityModel(atoms=1))
+                                     HeatCapacityModel(atoms=1, electronic=True))
     for name, true in (("theta_D_K", theta), ("gamma_J_per_mol_K2", gamma), ("dilation_A_mol_per_J", a)):
         u = fit.uncertainties[name]
         assert 0 < u < 0.5 * true
@@ -102,9 +102,9 @@ def test_data_integral_with_t3_extrapolation_matches_analytic_debye_solid():
     r = third_law_from_data(t, c, [6.0, 101.0, 296.0])
     exact = [_debye_entropy_mpmath(x, theta) for x in (6.0, 101.0, 296.0)]
     assert r["entropy"] == pytest.approx(exact, rel=1e-6)       # observed ~2e-8
-    # The extrapolated part alone is C(T₁)/3; a Debye solid at θ_D/T = 50 follows the T³ law
-    # up to terms of order e^(-50), so it is exact here.
-    assert r["extrapolated_entropy"][0] == pytest.approx(exact[0], rel=1e-9)
+    # The extrapolated part alone is C(T₁)/3 (no atoms given: the T³ form only); a Debye solid at
+    # θ_D/T = 50 follows the T³ law up to terms of order e^(-50), so it is exact here.
+    assert r["extrapolated_entropy"] == pytest.approx(exact[0], rel=1e-9)
     # A 10 K spacing must still integrate to 1e-4 (the spline, not the point density, carries it).
     coarse = third_law_from_data(t[::2], c[::2], 296.0)
     assert coarse["entropy"][0] == pytest.approx(exact[2], rel=1e-4)

@@ -54,7 +54,7 @@ def test_held_parameter_and_unknown_names():
         parse_fixed(["zeta=1"])
     with pytest.raises(OptionError, match="NAME=VALUE"):
         parse_fixed(["gamma"])
-    with pytest.raises(OptionError, match="> 0"):
+    with pytest.raises(OptionError, match="outside its physical range"):
         parse_fixed(["scale=0"])
     t = np.linspace(20.0, 300.0, 12)
     data = MeasuredHeatCapacity(t, 1e-3 * t + 1.0, None, "J/(mol K)", "x")
@@ -66,7 +66,7 @@ def test_strong_correlation_is_reported_by_name():
     # Over 400-700 K alone γT and the Nernst–Lindemann term are both nearly linear in T:
     # the fit cannot separate them (common practice: fix γ from low-temperature data).
     t = np.linspace(400.0, 700.0, 30)
-    model = HeatCapacityModel(atoms=1)
+    model = HeatCapacityModel(atoms=1, electronic=True)
     truth = {"theta_D_K": 400.0, "gamma_J_per_mol_K2": 1.3e-3, "dilation_A_mol_per_J": 5e-6}
     cp = model.heat_capacity_p(t, truth)
     noisy = cp * (1 + 0.002 * np.random.default_rng(1).standard_normal(t.size))
@@ -83,7 +83,7 @@ def test_report_keys_and_data_versus_model_entropy():
     t = np.concatenate([np.linspace(3.0, 30.0, 10), np.linspace(40.0, 320.0, 29)])
     c = np.array([_debye_cv_mpmath(x, 350.0) for x in t]) + 1e-3 * t
     data = MeasuredHeatCapacity(t, c, 0.001 * c, "J/(mol K)", "synthetic")
-    report, fit, third = analyse(data, HeatCapacityModel(atoms=1, dilation="none"))
+    report, fit, third = analyse(data, HeatCapacityModel(atoms=1, electronic=True, dilation="none"))
     exact = _debye_entropy_mpmath(298.15, 350.0) + 1e-3 * 298.15
     assert report["entropy_298_15_J_per_mol_K"]["value"] == pytest.approx(exact, rel=1e-5)
     assert report["entropy_298_15_from_data_J_per_mol_K"]["value"] == pytest.approx(exact, rel=5e-4)
@@ -96,7 +96,9 @@ def test_report_keys_and_data_versus_model_entropy():
 
 
 def test_model_text():
-    assert parse_model(None, False) == {"lattice": "debye", "electronic": True, "dilation": "nernst-lindemann"}
+    # γT only for a declared metal (issue 24): an insulator's default model has no electronic term.
+    assert parse_model(None, False) == {"lattice": "debye", "electronic": False, "dilation": "nernst-lindemann"}
+    assert parse_model(None, True, metal=True) == {"lattice": "dos", "electronic": True, "dilation": "nernst-lindemann"}
     with pytest.raises(OptionError, match="one lattice term"):
         parse_model("debye+dos", True)
     with pytest.raises(OptionError, match="unknown model term"):
@@ -107,7 +109,7 @@ def test_model_text():
 def test_results_do_not_jump_when_the_data_are_merely_resampled():
     # The same smooth Debye + γT + Nernst–Lindemann curve sampled on 40 and on 131 points
     # (noise-free): the start-value scan is a heuristic, the fitted values must not depend on it.
-    model = HeatCapacityModel(atoms=2)
+    model = HeatCapacityModel(atoms=2, electronic=True)
     truth = {"theta_D_K": 512.0, "gamma_J_per_mol_K2": 0.8e-3, "dilation_A_mol_per_J": 2e-6}
     results = []
     for t in (np.linspace(12.0, 800.0, 40), np.geomspace(12.0, 800.0, 131)):

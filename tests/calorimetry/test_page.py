@@ -61,3 +61,58 @@ def test_upload_over_the_limit_is_refused_with_a_message(page, workspace):
     out = page.draw(stored, workspace, "debye", [], "", "", 1, "header", "")
     assert "big.csv: the file is 0.012 MB; the upload limit is 0.001 MB" in _text(out[-1])
     assert page.uploaded_measurement(contents, "ok.csv", max_bytes=10 ** 6)["contents"] == contents
+
+
+def test_upload_limit_comes_from_the_server_not_the_browser(page, workspace, monkeypatch):
+    # Issue 26: the page read its limit from the browser's mh-config store.  The limit is the server's,
+    # and a stored upload (browser state, forgeable) is checked again before it is decoded.
+    import base64
+
+    import dash
+    from dash._callback import GLOBAL_CALLBACK_MAP
+    states = [s["id"] for k, cb in GLOBAL_CALLBACK_MAP.items() if "cal-measured.data" in k for s in cb["state"]]
+    assert "mh-config" not in states
+    server = dash.get_app().server
+    monkeypatch.setitem(server.config, "MODEHEAT_MAX_UPLOAD_BYTES", 1000)
+    contents = "data:text/csv;base64," + base64.b64encode(b"T,Cp\n" + b"1,2\n" * 3000).decode()
+    assert "refused" in page.uploaded_measurement(contents, "big.csv", page.upload_limit())
+    forged = {"name": "big.csv", "contents": contents}          # not marked refused by the browser
+    out = page.draw(forged, workspace, "debye", [], "", "", 1, "header", "")
+    assert "the upload limit is 0.001 MB" in _text(out[-1])
+
+
+def test_label_names_the_dataset_actually_used(page):
+    # Issue 25 item 7: the demo measurement is paired with the demo DOS while another dataset is active;
+    # the label said "Dataset: springium_fcc.dat" as if it were the active one.
+    import base64
+
+    from webapp import demo, session
+    ws = demo.demo_workspace()
+    active = next(d for d in ws["datasets"] if d["name"] == "lightheavy_rocksalt.tsv")
+    ws = session.activated(ws, active["id"])
+    out = page.draw(page.demo_measurement(), ws, "dos", ["electronic", "nernst-lindemann"], "", "", 1, "header", "")
+    label = _text(out[5])
+    assert "springium_fcc.dat" in label and "lightheavy_rocksalt.tsv is not used" in label
+    # An uploaded measurement uses the active dataset, and the label says so.
+    text = "T (K),Cp (J/(mol K))\n" + "".join(f"{t},{49.0 * (t / 300) ** 3 / (1 + (t / 300) ** 3)}\n"
+                                               for t in range(10, 310, 10))
+    stored = {"name": "mine.csv", "contents": "data:text/csv;base64," + base64.b64encode(text.encode()).decode()}
+    mine = page.draw(stored, ws, "debye", [], "", "", 2, "header", "")
+    label = _text(mine[5])
+    assert "lightheavy_rocksalt.tsv" in label and "not used" not in label and "the active dataset" in label
+    assert any("lightheavy_rocksalt.tsv" in t.name for t in mine[0].data)
+
+
+def test_every_quoted_value_carries_its_uncertainty(page, workspace):
+    out = page.draw(page.demo_measurement(), workspace, "dos", ["electronic", "nernst-lindemann"],
+                    "", "", 1, "header", "")
+    keys, params = _text(out[3]), _text(out[4])
+    assert keys.count("±") >= 5 and "H°(298.15 K) − H°(0)" in keys and "below the first point" in keys
+    assert params.count("±") >= 3
+
+
+def test_the_demo_metal_ticks_gamma_an_upload_keeps_the_choice(page):
+    import dash
+    assert page.metal_for_the_demo(None, ["nernst-lindemann"]) == ["electronic", "nernst-lindemann"]
+    assert page.metal_for_the_demo(page.demo_measurement(), ["electronic"]) is dash.no_update
+    assert page.metal_for_the_demo({"name": "mine.csv", "contents": ""}, ["nernst-lindemann"]) is dash.no_update

@@ -16,15 +16,20 @@ from dataclasses import dataclass, field
 
 import numpy as np
 import pandas as pd
-from scipy import optimize
+from scipy import constants as sc
 
 from ..columns import column_name
-from ..errors import OptionError
-from .models import STARTS, parameter_name
+from ..errors import FitError, OptionError
+from ..models.debye import debye_heat_capacity_fraction
+from ..models.fitting import checked_least_squares
+from .discrepancy import residual_structure
+from .models import LIMITS, MAY_BE_ZERO, STARTS, parameter_name
 from .reading import MeasuredHeatCapacity
 
 #: |r| above which two fitted parameters are reported as strongly correlated.
 STRONG_CORRELATION = 0.95
+#: Evaluation budget of the least-squares solver, per free parameter.
+EVALUATIONS_PER_PARAMETER = 400
 
 
 @dataclass(frozen=True)
@@ -35,7 +40,8 @@ class CalorimetryFit:
     ----------
     model : HeatCapacityModel
     values, uncertainties : dict
-        Every model parameter (fixed ones with uncertainty 0) [their units].
+        Every model parameter [their units]; held ones carry the uncertainty
+        they were given (0 when none).
     free : tuple of str
         Names of the fitted parameters, order of ``correlation``.
     correlation : numpy.ndarray, shape (P, P)
@@ -51,7 +57,18 @@ class CalorimetryFit:
         max |C_p^model − C_p| / C_p over the fit range [1].
     weighting : str
         ``'given uncertainties'`` or ``'relative (no uncertainties given)'``.
+    fit_range_K : tuple of float
     warnings : list of str
+    propagated : tuple of str
+        Free parameters, then held parameters given with an uncertainty: the
+        order of ``propagated_covariance``.
+    propagated_covariance : numpy.ndarray
+        Covariance of ``propagated``: a held parameter's uncertainty moves the
+        fitted ones through the fit (first-order sensitivity).
+    structure : dict
+        :func:`thermo.calorimetry.discrepancy.residual_structure` of the residuals.
+    evaluations : int
+        Model evaluations the least-squares solver spent.
     """
 
     model: object
@@ -66,6 +83,10 @@ class CalorimetryFit:
     weighting: str
     fit_range_K: tuple
     warnings: list = field(default_factory=list)
+    propagated: tuple = ()
+    propagated_covariance: np.ndarray = field(default_factory=lambda: np.zeros((0, 0)))
+    structure: dict = field(default_factory=dict)
+    evaluations: int = 0
 
     def heat_capacity_p(self, temperatures):
         """Fitted C_p(T) [J/(mol K)]."""
@@ -73,34 +94,68 @@ class CalorimetryFit:
 
 
 def parse_fixed(items):
-    """``["gamma=1.35e-3", ...]`` → ``{"gamma_J_per_mol_K2": 0.00135}``.
+    """``["gamma=1.35e-3", "A=4e-6±1e-6", ...]`` → ``{"gamma_J_per_mol_K2": 0.00135, ...}``.
+
+    A value may carry its standard uncertainty after ``±`` or ``+-``; it is
+    then returned as ``(value, uncertainty)`` and propagated into the fitted
+    parameters and S°, H°.  Values outside the parameter's physical range
+    (:data:`thermo.calorimetry.models.LIMITS`) are refused.
 
     Examples
     --------
     >>> parse_fixed(["gamma=1.35e-3", "theta_D=400"])
     {'gamma_J_per_mol_K2': 0.00135, 'theta_D_K': 400.0}
+    >>> parse_fixed(["gamma=1.35e-3+-0.05e-3"])
+    {'gamma_J_per_mol_K2': (0.00135, 5e-05)}
     """
     out = {}
     for item in items or ():
         name, sep, text = str(item).partition("=")
         if not sep:
             raise OptionError(f"--fix {item!r} must be NAME=VALUE, e.g. gamma=1.35e-3")
+        parts = text.replace("+-", "±").split("±")
         try:
-            value = float(text)
+            numbers = [float(p) for p in parts]
         except ValueError:
-            raise OptionError(f"--fix {item!r}: {text!r} is not a number") from None
+            raise OptionError(f"--fix {item!r}: {text!r} is not a number (or VALUE±UNCERTAINTY)") from None
+        if len(numbers) > 2:
+            raise OptionError(f"--fix {item!r}: give VALUE or VALUE±UNCERTAINTY")
         key = parameter_name(name.strip())
-        positive = key in ("theta_D_K", "scale")
-        if not (np.isfinite(value) and (value > 0 if positive else value >= 0)):
-            raise OptionError(f"--fix {item!r}: the value must be finite and {'> 0' if positive else '>= 0'}")
-        out[key] = value
+        out[key] = numbers[0] if len(numbers) == 1 else (numbers[0], numbers[1])
+        _held({key: out[key]}, f"--fix {item!r}: ")
     return out
 
 
+def _held(fixed, where=""):
+    """Held parameters as ``{name: (value, uncertainty)}``, checked against :data:`LIMITS`."""
+    held = {}
+    for name, given in (fixed or {}).items():
+        key = parameter_name(name)
+        value, u = (given if isinstance(given, (tuple, list)) else (given, 0.0))
+        try:
+            value, u = float(value), float(u)
+        except (TypeError, ValueError):
+            raise OptionError(f"{where}{key} must be a number") from None
+        low, high = LIMITS[key]
+        if not (np.isfinite(value) and low <= value <= high and (value > 0 or key in MAY_BE_ZERO)):
+            raise OptionError(f"{where}{key} = {value:g} lies outside its physical range {low:g} to {high:g}")
+        if not (np.isfinite(u) and u >= 0 and u <= high):
+            raise OptionError(f"{where}the uncertainty of {key} must be finite and >= 0, got {u:g}")
+        held[key] = (value, u)
+    return held
+
+
 def _start_theta(model, t, y, s, fixed):
+    """Best θ_D of a log grid 20-3000 K with the other parameters at their starts (one vectorised pass
+    over at most 200 of the points: a start needs no more, and memory stays bounded)."""
     grid = np.geomspace(20.0, 3000.0, 48)
     base = {**STARTS, **fixed}
-    cost = [np.sum(((model.heat_capacity_p(t, {**base, "theta_D_K": th}) - y) / s) ** 2) for th in grid]
+    pick = np.unique(np.linspace(0, t.size - 1, min(t.size, 200)).astype(int))
+    t, y, s = t[pick], y[pick], s[pick]
+    y_of_grid = (grid[:, None] / t[None, :]).ravel()
+    lattice = 3 * int(model.atoms) * sc.R * debye_heat_capacity_fraction(y_of_grid).reshape(grid.size, t.size)
+    cp = model.completed(np.broadcast_to(t, lattice.shape), lattice, base)["heat_capacity_p"]
+    cost = np.sum(((cp - y) / s) ** 2, axis=1)
     return float(grid[int(np.argmin(cost))])
 
 
@@ -112,7 +167,10 @@ def fit_measured_heat_capacity(measured: MeasuredHeatCapacity, model, fixed=None
     measured : MeasuredHeatCapacity
     model : HeatCapacityModel
     fixed : dict, optional
-        Parameters held at a value, by name or alias.
+        Parameters held at a value, by name or alias; a value may be
+        ``(value, standard uncertainty)`` — e.g. γ known from an electronic
+        DOS — whose uncertainty is propagated into the fitted parameters and
+        into S°, H° of the model.
     fit_range : tuple of float, optional
         (T_min, T_max) [K]; default all points.
     initial : dict, optional
@@ -122,20 +180,30 @@ def fit_measured_heat_capacity(measured: MeasuredHeatCapacity, model, fixed=None
     -------
     CalorimetryFit
 
+    Raises
+    ------
+    FitError
+        The least-squares solver did not converge, or a parameter ran out of
+        its physical range (:data:`thermo.calorimetry.models.LIMITS`).
+
     Notes
     -----
     Minimises :math:`\chi^2 = \sum_j [(C_p^{model}(T_j) - C_j)/\sigma_j]^2`
     with the given standard uncertainties σ_j, else σ_j = C_j (relative
-    weights).  Covariance :math:`(J^TJ)^{-1}` times the Birge factor
-    :math:`\max(1, \chi^2_\nu)` with given σ (a model that misses the
-    data beyond their uncertainties widens the parameter uncertainties),
-    times :math:`\chi^2_\nu` with relative weights.  Correlation
-    :math:`r_{ij} = \Sigma_{ij}/\sqrt{\Sigma_{ii}\Sigma_{jj}}`.
+    weights), by Levenberg–Marquardt in ln θ_D (ln s) and in γ, A on a
+    linear scale; a γ or A that comes out below 0 is held at 0 (stated in
+    ``warnings``).  Covariance :math:`(J^TJ)^{-1}` (J by central
+    differences) times the Birge factor :math:`\max(1, \chi^2_\nu)` with
+    given σ, times :math:`\chi^2_\nu` with relative weights.  A held
+    parameter h with uncertainty u_h moves the free ones by
+    :math:`G = -(J_f^TJ_f)^{-1}J_f^TJ_h`, adding :math:`G u_h^2 G^T`.
+    Correlation :math:`r_{ij} = \Sigma_{ij}/\sqrt{\Sigma_{ii}\Sigma_{jj}}`.
 
     References
     ----------
-    .. [1] W. H. Press et al., *Numerical Recipes*, 3rd ed. (2007), §15.4.
+    .. [1] W. H. Press et al., *Numerical Recipes*, 3rd ed. (2007), §15.4-15.5.
     .. [2] R. T. Birge, Phys. Rev. 40, 207 (1932).
+    .. [3] JCGM 100:2008 (GUM), §5.1-5.2.
 
     Examples
     --------
@@ -146,8 +214,8 @@ def fit_measured_heat_capacity(measured: MeasuredHeatCapacity, model, fixed=None
     >>> round(fit_measured_heat_capacity(data, m).values["theta_D_K"], 6)
     350.0
     """
-    fixed = {parameter_name(k): float(v) for k, v in (fixed or {}).items()}
-    unknown = [k for k in fixed if k not in model.parameters]
+    held = _held(fixed)
+    unknown = [k for k in held if k not in model.parameters]
     if unknown:
         raise OptionError(f"cannot fix {', '.join(unknown)}: not a parameter of {model.description} "
                           f"(parameters: {', '.join(model.parameters)})")
@@ -155,31 +223,42 @@ def fit_measured_heat_capacity(measured: MeasuredHeatCapacity, model, fixed=None
     t, y = data.temperature_K, data.heat_capacity_J_per_mol_K
     given = data.uncertainty_J_per_mol_K is not None
     s = data.uncertainty_J_per_mol_K if given else y
-    free = tuple(p for p in model.parameters if p not in fixed)
     warnings = []
-    start = {**STARTS, **fixed}
+    fixed_values = {k: v for k, (v, _) in held.items()}
+    free = tuple(p for p in model.parameters if p not in held)
+    start = {**STARTS, **fixed_values}
     if "theta_D_K" in free:
-        start["theta_D_K"] = _start_theta(model, t, y, s, fixed)
+        start["theta_D_K"] = _start_theta(model, t, y, s, fixed_values)
     start.update({parameter_name(k): float(v) for k, v in (initial or {}).items()})
+    if len(free) and t.size <= len(free):
+        raise OptionError(f"{t.size} points in the fit range cannot determine {len(free)} parameters")
     values = {k: start[k] for k in model.parameters}
-    p = len(free)
-    if p:
-        if t.size <= p:
-            raise OptionError(f"{t.size} points in the fit range cannot determine {p} parameters")
-
-        def evaluate(tt, vector):
-            return model.heat_capacity_p(tt, {**values, **dict(zip(free, vector))})
-
-        best = _minimise(evaluate, t, y, s, np.array([start[k] for k in free]))
-        values.update(dict(zip(free, (float(v) for v in best))))
-        cov = _covariance(evaluate, t, s, np.array([values[k] for k in free]))
-    else:
-        cov = np.zeros((0, 0))
+    evaluations = 0
+    while free:
+        best, spent = _minimise(model, values, free, t, y, s)
+        evaluations += spent
+        negative = [k for k in free if k in MAY_BE_ZERO and best[k] < 0]
+        if not negative:
+            values.update(best)
+            break
+        for k in negative:
+            warnings.append(f"{k} came out below 0 ({best[k]:.3g}); held at 0")
+            held[k] = (0.0, 0.0)
+            values[k] = 0.0
+        free = tuple(p for p in free if p not in negative)
+    for k in free:
+        low, high = LIMITS[k]
+        if not low <= values[k] <= high:
+            raise FitError(f"the fit drove {k} to {values[k]:.3g}, outside its physical range {low:g} to "
+                           f"{high:g}: the data do not determine it; hold it with --fix or change the model")
+    uncertain = tuple(k for k, (_, u) in held.items() if u > 0)
     cp = model.heat_capacity_p(t, values)
+    p = len(free)
     chi2 = float(np.sum(((cp - y) / s) ** 2))
     chi2_nu = chi2 / (t.size - p) if t.size > p else float("nan")
     factor = max(1.0, chi2_nu) if given else chi2_nu
-    cov = cov * factor
+    full = _covariance(model, values, free, uncertain, held, t, s, factor)
+    cov = full[:p, :p]
     if given and chi2_nu > 4.0:
         warnings.append(f"the model misses the data beyond their uncertainties (reduced χ² = {chi2_nu:.3g}); "
                         f"parameter uncertainties widened by √χ²_ν = {np.sqrt(chi2_nu):.3g}")
@@ -191,48 +270,75 @@ def fit_measured_heat_capacity(measured: MeasuredHeatCapacity, model, fixed=None
             if np.isfinite(corr[i, j]) and abs(corr[i, j]) > STRONG_CORRELATION:
                 warnings.append(f"{free[i]} and {free[j]} are strongly correlated (r = {corr[i, j]:+.3f}); "
                                 "fix one of them or widen the fit range")
-    uncertainties = {k: 0.0 for k in model.parameters}
-    uncertainties.update(dict(zip(free, (float(e) for e in errors))))
+    uncertainties = {k: held[k][1] if k in held else 0.0 for k in model.parameters}
+    uncertainties.update({k: float(np.sqrt(max(full[i, i], 0.0))) for i, k in enumerate(free)})
     residuals = residual_table(model, values, data)
     rel = residuals[column_name("relative_residual")].to_numpy()
+    structure = residual_structure(rel, None if not given else s / y, p, t)
     return CalorimetryFit(model, values, uncertainties, free, corr, cov, chi2_nu, residuals,
                           float(np.max(np.abs(rel))), "given uncertainties" if given else
-                          "relative (no uncertainties given)", (float(t.min()), float(t.max())), warnings)
+                          "relative (no uncertainties given)", (float(t.min()), float(t.max())), warnings,
+                          free + uncertain, full, structure, evaluations)
 
 
-def _minimise(evaluate, t, y, s, start):
-    """Parameters minimising χ², found in units of the start values.
+def _minimise(model, values, free, t, y, s):
+    """Free parameters minimising χ² (dict) and the evaluations spent.
 
-    Positivity is kept by evaluating the model at |x|·start (smooth at any
-    solution away from 0).  Unbounded trust region with central-difference
-    Jacobian: with correlated parameters (γ and A) a bounded solver stopped
-    short of the minimum in our tests.
+    θ_D and s are fitted as ln(p/start) (positive, any scale), γ and A as
+    p/start (linear, may pass 0); Levenberg–Marquardt with forward-difference
+    Jacobian, status checked by :func:`thermo.models.fitting.checked_least_squares`.
     """
+    start = np.array([values[k] if values[k] > 0 else STARTS[k] for k in free])
+    linear = np.array([k in MAY_BE_ZERO for k in free])
+
+    def parameters(x):
+        return np.where(linear, x, np.exp(np.clip(x, -30.0, 30.0))) * start
+
     def residual(x):
-        return (evaluate(t, np.abs(x) * start) - y) / s
+        return (model.heat_capacity_p(t, {**values, **dict(zip(free, parameters(x)))}) - y) / s
 
-    result = optimize.least_squares(residual, np.ones_like(start), method="trf", jac="3-point",
-                                    x_scale="jac", xtol=1e-13, ftol=1e-13, gtol=1e-13, max_nfev=2000)
-    return np.abs(result.x) * start
+    x0 = np.where(linear, np.array([values[k] for k in free]) / start, 0.0)
+    what = f"{', '.join(free)} of {model.description}"
+    result = checked_least_squares(residual, x0, what, method="lm", xtol=1e-12, ftol=1e-12, gtol=1e-12,
+                                   max_nfev=EVALUATIONS_PER_PARAMETER * len(free))
+    return dict(zip(free, (float(v) for v in parameters(result.x)))), int(result.nfev)
 
 
-def _covariance(evaluate, t, s, best):
-    """(JᵀJ)⁻¹ of the weighted residuals, J by central differences at ``best``.
+def _jacobian(model, values, names, t, s):
+    """∂r/∂p of the weighted residuals by central differences, columns in ``names`` order."""
+    jac = np.empty((t.size, len(names)))
+    for k, name in enumerate(names):
+        step = 1e-6 * max(abs(values[name]), 1e-3 * STARTS[name])
+        up = model.heat_capacity_p(t, {**values, name: values[name] + step})
+        down = model.heat_capacity_p(t, {**values, name: values[name] - step})
+        jac[:, k] = (up - down) / (2 * step) / s
+    return jac
 
-    (The Jacobian returned by a bounded trust-region solver is rescaled for
-    its own use, so it is not taken from there.)  ``inf`` everywhere when the
-    data do not determine the parameters.
+
+def _covariance(model, values, free, uncertain, held, t, s, factor):
+    """Covariance of the free + uncertain held parameters (see Notes of the fit).
+
+    ``inf`` where the data do not determine the free parameters (rank-deficient J).
     """
-    jac = np.empty((t.size, best.size))
-    for k in range(best.size):
-        step = 1e-6 * max(abs(best[k]), 1e-300)
-        up, down = best.copy(), best.copy()
-        up[k] += step
-        down[k] -= step
-        jac[:, k] = (evaluate(t, up) - evaluate(t, down)) / (2 * step) / s
-    if np.linalg.matrix_rank(jac) < best.size:
-        return np.full((best.size, best.size), np.inf)
-    return np.linalg.inv(jac.T @ jac)
+    p, q = len(free), len(uncertain)
+    full = np.zeros((p + q, p + q))
+    u2 = np.diag([held[k][1] ** 2 for k in uncertain])
+    full[p:, p:] = u2
+    if not p:
+        return full
+    jac = _jacobian(model, values, free, t, s)
+    if np.linalg.matrix_rank(jac) < p:
+        full[:p, :] = np.inf
+        full[:, :p] = np.inf
+        return full
+    inverse = np.linalg.inv(jac.T @ jac)
+    full[:p, :p] = inverse * factor
+    if q:
+        g = -inverse @ jac.T @ _jacobian(model, values, uncertain, t, s)
+        full[:p, :p] += g @ u2 @ g.T
+        full[:p, p:] = g @ u2
+        full[p:, :p] = (g @ u2).T
+    return full
 
 
 def residual_table(model, values, measured):

@@ -33,7 +33,7 @@ from scipy import constants as sc
 
 from ..errors import OptionError
 from ..kernels.sums import thermal_sums
-from ..models.debye import debye_heat_capacity
+from ..models.debye import debye_heat_capacity, debye_heat_capacity_fraction
 
 #: Parameter names (JSON keys) and their short aliases for ``--fix``.
 PARAMETERS = {"theta_D_K": ("theta_D", "theta", "theta_d"), "scale": ("s",),
@@ -42,6 +42,40 @@ LATTICES = ("debye", "dos")
 DILATIONS = ("none", "nernst-lindemann", "values")
 #: Starting values of the fitted parameters.
 STARTS = {"theta_D_K": 300.0, "scale": 1.0, "gamma_J_per_mol_K2": 1e-3, "dilation_A_mol_per_J": 3e-6}
+#: Physical range of each parameter, (low, high): a held or fitted value outside is refused.  θ_D from
+#: 0.1 K to 10⁵ K, the frequency scale 10⁻³-10³, γ up to 10 J/(mol K²) per formula unit (heavy-fermion
+#: compounds reach ~1), A up to 10⁻² mol/J (common practice: 10⁻⁶-10⁻⁵ for elements).
+LIMITS = {"theta_D_K": (0.1, 1e5), "scale": (1e-3, 1e3), "gamma_J_per_mol_K2": (0.0, 10.0),
+          "dilation_A_mol_per_J": (0.0, 1e-2)}
+#: Parameters that enter linearly or nearly so and may be 0 (fitted on a linear scale, held at 0 if < 0).
+MAY_BE_ZERO = ("gamma_J_per_mol_K2", "dilation_A_mol_per_J")
+
+
+def debye_scan(temperatures, lattice_heat_capacity, modes, weights, thetas=None):
+    """θ_D [K] of a log-spaced grid that best matches a lattice C_v (one vectorised pass, a fit's start).
+
+    Parameters
+    ----------
+    temperatures, lattice_heat_capacity : array_like, shape (N,)
+        T [K] and the lattice C [J/(mol K)].
+    modes : int
+        3n.
+    weights : array_like, shape (N,)
+        1/σ of each point.
+    thetas : array_like, optional
+        The grid [K]; default 400 values from 1 K to 10⁵ K.
+
+    Examples
+    --------
+    >>> t = np.array([20.0, 50.0, 100.0])
+    >>> abs(debye_scan(t, debye_heat_capacity(t, 300.0, 3), 3, np.ones(3)) / 300.0 - 1) < 0.015   # grid step 2.9 %
+    True
+    """
+    grid = np.geomspace(1.0, 1e5, 400) if thetas is None else np.asarray(thetas, dtype=float)
+    t = np.asarray(temperatures, dtype=float)
+    model = modes * sc.R * debye_heat_capacity_fraction((grid[:, None] / t[None, :]).ravel()).reshape(grid.size, -1)
+    cost = np.sum(((model - np.asarray(lattice_heat_capacity)) * np.asarray(weights)) ** 2, axis=1)
+    return float(grid[int(np.argmin(cost))])
 
 
 def parameter_name(text):
@@ -139,7 +173,9 @@ class HeatCapacityModel:
     lattice : {'debye', 'dos'} or None
         Lattice part: Debye(θ_D) or the DOS scaled by s; None leaves it out.
     electronic : bool
-        Include γT.
+        Include γT (a metal); default False: an insulator's data carry no γ,
+        and a fitted one would leak into the extrapolation below the first
+        point.
     dilation : {'none', 'nernst-lindemann', 'values'}
         Dilation term; ``'values'`` interpolates ``dilation_table``.
     dos : PhononDOS, optional
@@ -152,7 +188,7 @@ class HeatCapacityModel:
 
     atoms: int = 1
     lattice: str | None = "debye"
-    electronic: bool = True
+    electronic: bool = False
     dilation: str = "nernst-lindemann"
     dos: object = None
     dilation_table: tuple | None = field(default=None, repr=False)
@@ -200,17 +236,26 @@ class HeatCapacityModel:
 
         Examples
         --------
-        >>> m = HeatCapacityModel(atoms=1, dilation="none")
+        >>> m = HeatCapacityModel(atoms=1, electronic=True, dilation="none")
         >>> p = m.parts([1e6], {"theta_D_K": 300.0, "gamma_J_per_mol_K2": 1e-3})
         >>> round(float(p["heat_capacity_p"][0] - 1e3) / (3 * 8.314462618), 6)
         1.0
         """
         t = np.atleast_1d(np.asarray(temperatures, dtype=float))
-        lattice = np.zeros_like(t)
+        return self.completed(t, self.lattice_part(t, values), values)
+
+    def lattice_part(self, temperatures, values):
+        """The lattice term alone at T [J/(mol K)] (Debye(θ_D) or the scaled DOS; 0 without one)."""
+        t = np.atleast_1d(np.asarray(temperatures, dtype=float))
         if self.lattice == "debye":
-            lattice = debye_heat_capacity(t, values["theta_D_K"], 3 * int(self.atoms))
-        elif self.lattice == "dos":
-            lattice = sc.R * thermal_sums(self.dos, t / values["scale"])["heat_capacity"]
+            return debye_heat_capacity(t, values["theta_D_K"], 3 * int(self.atoms))
+        if self.lattice == "dos":
+            return sc.R * thermal_sums(self.dos, t / values["scale"])["heat_capacity"]
+        return np.zeros_like(t)
+
+    def completed(self, temperatures, lattice, values):
+        """All terms given the lattice term; arrays of any shape (broadcast) [J/(mol K)], as :meth:`parts`."""
+        t = np.asarray(temperatures, dtype=float)
         electronic = values["gamma_J_per_mol_K2"] * t if self.electronic else np.zeros_like(t)
         cv = lattice + electronic
         if self.dilation == "nernst-lindemann":

@@ -22,9 +22,13 @@ def register(sub):
                    help="C_p unit: J/(mol K), J/(g K), cal/(mol K), mJ/(mol K) (default: from the header)")
     p.add_argument("--model", metavar="TERMS",
                    help="terms joined by '+': debye or dos; electronic; nernst-lindemann or dilation-values "
-                        "(default debye+electronic+nernst-lindemann, dos+... with --dos)")
-    p.add_argument("--fix", action="append", default=[], metavar="NAME=VALUE",
-                   help="hold a parameter: theta_D [K], scale, gamma [J/(mol K²)], A [mol/J]; repeatable")
+                        "(default debye+nernst-lindemann, dos+nernst-lindemann with --dos; γT only for a metal)")
+    p.add_argument("--metal", action="store_true",
+                   help="the sample is a metal: fit the electronic term γT (default: an insulator, γ = 0; "
+                        "--electronic EDOS declares a metal too)")
+    p.add_argument("--fix", action="append", default=[], metavar="NAME=VALUE[±U]",
+                   help="hold a parameter, optionally with its standard uncertainty (propagated): theta_D [K], "
+                        "scale, gamma [J/(mol K²)] (adds γT), A [mol/J]; repeatable")
     p.add_argument("--range", metavar="LO:HI", help="fit range in K (default all points)")
     p.add_argument("--dilation-values", metavar="PATH",
                    help="table of T [K] and C_p - C_v [J/(mol K)] for the dilation-values term")
@@ -41,12 +45,14 @@ def register(sub):
     p.set_defaults(func=run)
 
 
-def build_model(args, dos):
-    """The :class:`HeatCapacityModel` the options describe."""
+def build_model(args, dos, fixed=None):
+    """The :class:`HeatCapacityModel` the options describe (γT with ``--metal``, ``--electronic`` or a held γ)."""
     from ..calorimetry.models import HeatCapacityModel
     from ..calorimetry.report import parse_model
     from ..errors import OptionError
-    terms = parse_model(args.model, dos is not None)
+    metal = (bool(getattr(args, "metal", False)) or bool(getattr(args, "electronic", None))
+             or "gamma_J_per_mol_K2" in (fixed or {}))
+    terms = parse_model(args.model, dos is not None, metal)
     atoms = args.atoms or (dos.atoms if dos is not None else None)
     if atoms is None and args.formula:
         from ..formula import formula_unit
@@ -83,9 +89,10 @@ def run(args) -> int:
         dos = load_from_args(args, args.dos)
         for note in dos.warnings:
             print(f"warning: {args.dos}: {note}", file=sys.stderr)
-    model = build_model(args, dos)
+    fixed = parse_fixed(args.fix)
+    model = build_model(args, dos, fixed)
     fit_range = parse_fit_range(args.range) if args.range else None
-    report, fit, third = analyse(measured, model, parse_fixed(args.fix), fit_range, args.low_t_max)
+    report, fit, third = analyse(measured, model, fixed, fit_range, args.low_t_max)
     edos = load_electronic_from_args(args, args.electronic) if args.electronic else None
     if edos is not None:
         report["electronic_dos_comparison"] = electronic_comparison(report, edos)
@@ -127,7 +134,8 @@ def calorimetry_provenance(args, measured, dos, notes, edos=None):
     if edos is not None:
         from ..electronic import electronic_input
         inputs.append(electronic_input(edos, role="electronic DOS"))
-    settings = {"model": args.model, "fixed": list(args.fix), "fit_range_K": args.range,
+    settings = {"model": args.model, "metal": bool(getattr(args, "metal", False)), "fixed": list(args.fix),
+                "fit_range_K": args.range,
                 "low_t_max_K": args.low_t_max, "atoms": args.atoms}
     dos_notes = [] if dos is None else [f"{args.dos}: {w}" for w in dos.warnings]
     return provenance_record(inputs, settings, dos_notes + list(notes))

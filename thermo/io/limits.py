@@ -67,3 +67,22 @@ def check_xlsx_size(raw: bytes, display: str) -> None:
     if unpacked > MAX_XLSX_UNPACKED_BYTES:
         raise DosInputError(f"the workbook would unpack to {unpacked / 1e6:,.0f} MB; at most "
                             f"{MAX_XLSX_UNPACKED_BYTES / 1e6:g} MB are unpacked", display)
+
+
+#: Most measured points a heat-capacity (calorimetry) file may have: the fit evaluates the model at every
+#: point on each step, so this bounds its time; measured sets rarely exceed a few thousand points.
+MAX_HEAT_CAPACITY_ROWS = 20_000
+
+
+def check_heat_capacity_rows(rows: int, display: str) -> None:
+    """Refuse a measured C_p table of more than :data:`MAX_HEAT_CAPACITY_ROWS` points.
+
+    Examples
+    --------
+    >>> check_heat_capacity_rows(30_000, "cp.csv")
+    Traceback (most recent call last):
+    ...
+    thermo.errors.DosInputError: cp.csv: 30,000 measured points; at most 20,000 are read
+    """
+    if rows > MAX_HEAT_CAPACITY_ROWS:
+        raise DosInputError(f"{rows:,} measured points; at most {MAX_HEAT_CAPACITY_ROWS:,} are read", display)

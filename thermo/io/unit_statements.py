@@ -28,6 +28,65 @@ _UNIT_STATEMENT = re.compile(
     r"\s*(?P<unit>[^\s,;)\]]+(?:\s*(?:\^|\*\*)?\s*-\s*1)?)", re.IGNORECASE)
 
 
+def header_cells(row):
+    """Cells of a header row; a unit in brackets stays with its name, nested brackets allowed.
+
+    Cells are separated by blanks, tabs, commas or semicolons outside brackets;
+    a cell that is only a bracket joins the name before it.
+
+    Examples
+    --------
+    >>> header_cells("T[K]  C[mJ/(mol K)]")
+    ['T[K]', 'C[mJ/(mol K)]']
+    >>> header_cells("T (K), Cp (J/(mol K)), u")
+    ['T (K)', 'Cp (J/(mol K))', 'u']
+    """
+    cells, current, depth = [], "", 0
+    for ch in str(row):
+        depth += ch in "([{"
+        depth = max(0, depth - (ch in ")]}"))
+        if depth == 0 and (ch.isspace() or ch in ",;"):
+            if current:
+                cells.append(current)
+            current = ""
+            continue
+        current += ch
+    if current:
+        cells.append(current)
+    merged = []
+    for cell in cells:
+        if merged and cell[0] in "([":
+            merged[-1] += " " + cell
+        else:
+            merged.append(cell)
+    return merged
+
+
+def commented_header(comments, width, comment_chars="#!%"):
+    """Cells of the last comment line that reads as a header row of ``width`` columns, or None.
+
+    Parameters
+    ----------
+    comments : iterable of str
+        Comment lines (with their comment character).
+    width : int
+        Columns of the data.
+
+    Examples
+    --------
+    >>> commented_header(["# made by hand", "# T[K]  C[mJ/(mol K)]"], 2)
+    ['T[K]', 'C[mJ/(mol K)]']
+    >>> commented_header(["# 1.0 2.0"], 2) is None
+    True
+    """
+    found = None
+    for text in comments:
+        cells = header_cells(str(text).lstrip("".join(comment_chars)).strip())
+        if len(cells) == width and not _NUMERIC.fullmatch(cells[0]):
+            found = cells
+    return found
+
+
 def _stated_in_comment(body, width):
     """Unit a comment states for column 1 (commented header or explicit statement)."""
     cells = HEADER_CELL.findall(body)

@@ -17,7 +17,7 @@ from dataclasses import dataclass, field
 import numpy as np
 from scipy import optimize
 
-from ..errors import OptionError
+from ..errors import FitError, OptionError
 from ..columns import column_name
 from ..tables import tabulate
 from .debye import debye_heat_capacity
@@ -57,6 +57,75 @@ class FitResult:
     uncertainties: tuple = field(default=())
     rms_residual_J_per_mol_K: float = 0.0
     points: int = 0
+
+
+#: Most residual evaluations a least-squares call may spend (per call, all parameters).
+MAX_EVALUATIONS = 2000
+
+
+def checked_least_squares(residual, start, what, **options):
+    r""":func:`scipy.optimize.least_squares` whose outcome is checked.
+
+    Parameters
+    ----------
+    residual : callable
+        ``residual(x) -> array`` of weighted residuals [1].
+    start : array_like
+        Starting point.
+    what : str
+        The fit in words, for the message (``"θ_D, γ, A of Debye + γT"``).
+    **options
+        Passed on (method, bounds, tolerances, ``max_nfev`` — default
+        :data:`MAX_EVALUATIONS`).
+
+    Returns
+    -------
+    scipy.optimize.OptimizeResult
+
+    Raises
+    ------
+    FitError
+        The solver stopped without meeting a convergence criterion
+        (``status <= 0``: evaluation budget spent, or improper input) or
+        returned non-finite parameters or residuals; one line saying which fit,
+        after how many evaluations and the solver's reason.
+
+    Notes
+    -----
+    Statuses 1-4 of MINPACK/trust-region (gradient, cost, step or both small)
+    count as converged; 0 (maximum number of evaluations) and -1 do not.
+
+    References
+    ----------
+    .. [1] J. J. Moré, "The Levenberg-Marquardt algorithm: implementation and
+       theory", in *Numerical Analysis*, Lecture Notes in Mathematics 630
+       (Springer, 1978), pp. 105-116.
+
+    Examples
+    --------
+    >>> r = checked_least_squares(lambda x: x - 2.0, [1.0], "a test")
+    >>> round(float(r.x[0]), 9)
+    2.0
+    >>> checked_least_squares(lambda x: (x - 2.0) ** 2 + 1.0, [1e6], "a test", max_nfev=2)
+    Traceback (most recent call last):
+    ...
+    thermo.errors.FitError: the fit of a test did not converge after 2 evaluations (The maximum number of function evaluations is exceeded.); fix a parameter, narrow the range or simplify the model
+    """
+    options.setdefault("max_nfev", MAX_EVALUATIONS)
+    try:
+        with np.errstate(over="ignore", invalid="ignore", divide="ignore"):
+            result = optimize.least_squares(residual, np.asarray(start, dtype=float), **options)
+    except ValueError as exc:
+        if "finite" not in str(exc):
+            raise
+        raise FitError(f"the fit of {what} cannot start: the model is not finite at the start values") from None
+    if result.status <= 0:
+        raise FitError(f"the fit of {what} did not converge after {result.nfev} evaluations "
+                       f"({' '.join(str(result.message).split())}); fix a parameter, narrow the range or "
+                       "simplify the model")
+    if not (np.all(np.isfinite(result.x)) and np.all(np.isfinite(result.fun))):
+        raise FitError(f"the fit of {what} ended on non-finite values; check the data and the start values")
+    return result
 
 
 def least_squares_fit(model, temperatures, values, initial, sigma=None, absolute_sigma=False):
@@ -110,8 +179,9 @@ def least_squares_fit(model, temperatures, values, initial, sigma=None, absolute
     if t.size <= p0.size:
         raise OptionError(f"a fit of {p0.size} parameter(s) needs more than {p0.size} temperatures, got {t.size}")
     s = _weights(y, sigma)
-    result = optimize.least_squares(lambda p: (model(t, p) - y) / s, p0, bounds=(1e-9 * p0, np.inf),
-                                    x_scale=p0, method="trf", jac="3-point", xtol=1e-14, ftol=1e-14, gtol=1e-14)
+    result = checked_least_squares(lambda p: (model(t, p) - y) / s, p0, "the model parameters",
+                                   bounds=(1e-9 * p0, np.inf), x_scale=p0, method="trf", jac="3-point",
+                                   xtol=1e-14, ftol=1e-14, gtol=1e-14)
     chi2 = float(np.sum(result.fun ** 2))
     scale = 1.0 if absolute_sigma else chi2 / (t.size - p0.size)
     errors = _standard_errors(result.jac, scale)

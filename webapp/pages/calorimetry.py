@@ -63,12 +63,13 @@ def layout(**_query):
         c.controls(
             c.radio("cal-lattice", [{"label": " Debye θ_D", "value": "debye"},
                                     {"label": " active DOS × scale s", "value": "dos"}], "dos", "Lattice part"),
-            c.field("Further terms", dcc.Checklist(id="cal-terms", value=["electronic", "nernst-lindemann"],
-                                                   options=[{"label": " electronic γT", "value": "electronic"},
+            c.field("Further terms", dcc.Checklist(id="cal-terms", value=["nernst-lindemann"],
+                                                   options=[{"label": " a metal: electronic γT", "value": "electronic"},
                                                             {"label": " dilation A·C_p²·T (Nernst–Lindemann)",
-                                                             "value": "nernst-lindemann"}]), "cal-terms"),
-            c.text("cal-fix", "", "Hold parameters", "gamma=1.35e-3, A=4e-6",
-                   hint="NAME=VALUE, comma separated: theta_D, scale, gamma, A"),
+                                                             "value": "nernst-lindemann"}]), "cal-terms",
+                    hint="without γT an insulator is assumed (γ = 0); holding gamma=… adds it"),
+            c.text("cal-fix", "", "Hold parameters", "gamma=1.35e-3±0.05e-3, A=4e-6",
+                   hint="NAME=VALUE or NAME=VALUE±U, comma separated: theta_D, scale, gamma, A"),
             c.text("cal-range", "", "Fit range [K]", "LO:HI (default all points)"),
             c.number("cal-atoms", 1, "Atoms per formula unit", step=1, min_value=1),
             c.dropdown("cal-unit", _UNITS, "header", "C_p unit"),
@@ -87,9 +88,9 @@ def layout(**_query):
 
 @callback(Output("cal-measured", "data"), Output("cal-set-choice", "options"), Output("cal-set-choice", "value"),
           Input("cal-upload", "contents"), Input("cal-demo", "n_clicks"), Input("cal-set-choice", "value"),
-          State("cal-upload", "filename"), State("mh-config", "data"), prevent_initial_call=True)
+          State("cal-upload", "filename"), prevent_initial_call=True)
 @reported(lambda message: ({"name": "upload", "refused": message}, no_update, no_update))
-def keep_measured(contents, _clicks, choice, name, config):
+def keep_measured(contents, _clicks, choice, name):
     """The measured file for the page: an upload (kept in the workspace when there is one and it reads),
     a kept set, or the demo."""
     trigger = dash.ctx.triggered_id
@@ -97,7 +98,7 @@ def keep_measured(contents, _clicks, choice, name, config):
         return demo_measurement(), no_update, "demo"
     if trigger == "cal-set-choice":
         return _entry(*filesets.reopen("measured", choice)[0][1:]), no_update, no_update
-    entry = uploaded_measurement(contents, name, (config or {}).get("max_upload_bytes"))
+    entry = uploaded_measurement(contents, name, upload_limit())
     if entry.get("refused"):
         return entry, no_update, no_update
     raw = decode_upload(entry["contents"], entry["name"])
@@ -109,6 +110,20 @@ def keep_measured(contents, _clicks, choice, name, config):
 def _entry(name, raw):
     """Store entry of kept bytes."""
     return {"name": name, "contents": "data:application/octet-stream;base64," + base64.b64encode(raw).decode("ascii")}
+
+
+@callback(Output("cal-terms", "value"), Input("cal-measured", "data"), State("cal-terms", "value"))
+def metal_for_the_demo(stored, terms):
+    """The invented demo measurement is of a metal: γT is ticked when it is shown; an upload keeps the choice."""
+    terms = list(terms or [])
+    if (stored or {}).get("name", DEMO_FILE.name) == DEMO_FILE.name and "electronic" not in terms:
+        return ["electronic"] + terms
+    return dash.no_update
+
+
+def upload_limit():
+    """Per-file upload limit [bytes] from the server's settings (never from the browser)."""
+    return int(dash.get_app().server.config["MODEHEAT_MAX_UPLOAD_BYTES"])
 
 
 def uploaded_measurement(contents, name, max_bytes=None):
@@ -135,7 +150,8 @@ def _failed(message):
 def _measured(stored, unit, formula):
     if stored.get("refused"):
         raise OptionError(stored["refused"])
-    raw = decode_upload(stored["contents"], stored["name"])
+    # the store is the browser's: its size is checked against the server's limit again, before decoding
+    raw = decode_upload(stored["contents"], stored["name"], upload_limit())
     return read_heat_capacity(raw, cp_unit=None if unit == "header" else unit, formula=formula or None,
                               name=stored["name"])
 
@@ -166,8 +182,10 @@ def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula
     if lattice == "dos" and dos is None:
         raise OptionError("the DOS lattice part needs an active dataset (load one on the Spectrum page)")
     active = session.active(workspace)
-    if current is not None and (active is None or current["id"] != active["id"]):
-        demo_note.append(("info", f"The demo measurement is paired with the demo DOS {current['name']}."))
+    paired = current is not None and (active is None or current["id"] != active["id"])
+    if paired:
+        demo_note.append(("info", f"The demo measurement is paired with the demo DOS {current['name']}"
+                                  + (f"; the active dataset {active['name']} is not used" if active else "") + "."))
     n = int(dos.atoms if dos is not None and lattice == "dos" else (atoms or 1))
     if dos is not None and dos.atoms != n:
         demo_note.append(("warn", f"the DOS {current['name']} has {dos.atoms} atoms per formula unit, the "
@@ -184,8 +202,23 @@ def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula
     file_note = f"Measured: {measured.source} — {measured.temperature_K.size} points, " \
                 f"{measured.temperature_K[0]:g}–{measured.temperature_K[-1]:g} K, read in {measured.unit}; " \
                 f"model {report['model']}, weights: {report['weighting']}"
-    return (*figs, _keys(report), _parameter_table(report), c.active_note(current), file_note,
+    return (*figs, _keys(report), _parameter_table(report), _used_note(current, active, lattice, paired), file_note,
             c.message_items(demo_note + notes))
+
+
+def _used_note(dataset, active, lattice, paired):
+    """Names the DOS this page actually used, and how, beside the active dataset when they differ."""
+    if dataset is None:
+        return c.active_note(None)
+    role = "lattice part (DOS × scale s) and comparison" if lattice == "dos" else "comparison curve and S(298.15 K)"
+    words = ["DOS used for the ", role, ": ", html.Strong(dataset["name"], className="mh-dataset-name")]
+    if paired:
+        words += [" — paired with the demo measurement",
+                  f"; the active dataset {active['name']} is not used" if active else "",
+                  " (upload your own measurement to use the active dataset)"]
+    else:
+        words += [" (the active dataset; change it on the ", dcc.Link("Spectrum", href="/spectrum"), " page)"]
+    return html.P(words, className="mh-active-note", id="cal-dos-used")
 
 
 def _analysis(stored, measured, reading, current, dos, atoms, lattice, terms, fix, fit_range):
@@ -282,16 +315,26 @@ def _low_t(report, measured):
 
 
 def _pm(pair, digits=5):
+    """``value ± uncertainty`` (the uncertainty to 2 digits; ``± ?`` when it is not known)."""
     if pair["value"] is None:
         return "—"
     u = pair.get("uncertainty")
-    return f"{pair['value']:.{digits}g} ± {u:.2g}" if u else f"{pair['value']:.{digits}g}"
+    if u is None:
+        return f"{pair['value']:.{digits}g} ± ?"
+    return f"{pair['value']:.{digits}g} ± {u:.2g}"
 
 
 def _keys(report):
+    below = report["below_first_point"]
+    share = below.get("share_of_entropy_298_15")
     pairs = [("S°(298.15 K), model from 0 K", _pm(report["entropy_298_15_J_per_mol_K"]) + " J/(mol K)"),
-             ("S°(298.15 K), data + T³ below first point",
-              _pm(report["entropy_298_15_from_data_J_per_mol_K"]) + " J/(mol K)")]
+             ("S°(298.15 K), data + forms below the first point",
+              _pm(report["entropy_298_15_from_data_J_per_mol_K"]) + " J/(mol K)"),
+             ("H°(298.15 K) − H°(0), model", _pm(report["enthalpy_298_15_minus_0_kJ_per_mol"]) + " kJ/mol"),
+             ("H°(298.15 K) − H°(0), data", _pm(report["enthalpy_298_15_minus_0_from_data_kJ_per_mol"]) + " kJ/mol"),
+             (f"S below the first point ({below['temperature_K']:g} K)",
+              _pm(below["entropy_J_per_mol_K"], 4) + " J/(mol K)"
+              + (f", {100 * share:.2g} % of S°" if share is not None else ""))]
     if "entropy_298_15_from_dos_J_per_mol_K" in report:
         pairs.append(("S(298.15 K) of the DOS (harmonic)", f"{report['entropy_298_15_from_dos_J_per_mol_K']:.5g} J/(mol K)"))
     pairs.append(("max |relative residual|", f"{100 * report['max_relative_residual']:.3g} %"))
@@ -302,24 +345,26 @@ def _parameter_table(report):
     rows = []
     for key, pair in report["fit"].items():
         name, unit = _PARAM_TEXT[key]
-        rows.append(html.Tr([html.Td(name), html.Td(f"{pair['value']:.6g}"),
-                             html.Td("held" if pair["fixed"] else f"{pair['uncertainty']:.3g}"), html.Td(unit)]))
+        shown = _pm(pair, 6)
+        rows.append(html.Tr([html.Td(name), html.Td(shown),
+                             html.Td(("held" + (f" (± {pair['uncertainty']:.2g} given)" if pair["uncertainty"] else ""))
+                                     if pair["fixed"] else "fitted"), html.Td(unit)]))
     low = report["low_temperature_analysis"]
     if low:
         for key, label, unit in (("gamma_J_per_mol_K2", "γ from C/T = γ + βT²", "J/(mol K²)"),
                                  ("theta_D_K", "θ_D from β", "K")):
-            rows.append(html.Tr([html.Td(label), html.Td(f"{low[key]['value']:.6g}"),
-                                 html.Td(f"{low[key]['uncertainty']:.3g}"), html.Td(unit)]))
+            rows.append(html.Tr([html.Td(label), html.Td(_pm(low[key], 6)), html.Td("C/T = γ + βT²"),
+                                 html.Td(unit)]))
     compared = report.get("electronic_dos_comparison")
     if compared:
         band = compared["gamma_from_electronic_dos_J_per_mol_K2"]
         rows.append(html.Tr([html.Td(f"γ of the electronic DOS {compared['electronic_input']} (band value)"),
-                             html.Td(f"{band['value']:.6g}"), html.Td(f"{band['uncertainty']:.3g}"),
-                             html.Td("J/(mol K²)")], id="cal-band-gamma"))
+                             html.Td(_pm(band, 6)), html.Td("electronic DOS"), html.Td("J/(mol K²)")],
+                            id="cal-band-gamma"))
         for label, ratio in compared["ratios"].items():
-            rows.append(html.Tr([html.Td(f"{label} γ / band γ (1 + λ)"), html.Td(f"{ratio['value']:.4g}"),
-                                 html.Td(f"{ratio['uncertainty']:.2g}"), html.Td("1")]))
-    head = html.Thead(html.Tr([html.Th(h) for h in ("parameter", "value", "standard uncertainty", "unit")]))
+            rows.append(html.Tr([html.Td(f"{label} γ / band γ (1 + λ)"), html.Td(_pm(ratio, 4)),
+                                 html.Td("ratio"), html.Td("1")]))
+    head = html.Thead(html.Tr([html.Th(h) for h in ("parameter", "value ± standard uncertainty", "how", "unit")]))
     names = report["correlation"]["parameters"]
     shown = [_PARAM_TEXT[n][0] for n in names]
     corr = html.Table([html.Thead(html.Tr([html.Th("r")] + [html.Th(n) for n in shown])),
