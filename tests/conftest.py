@@ -18,3 +18,17 @@ def debye_text():
     def make(theta_k=400.0, atoms=1, points=2001):
         return dos_text(*debye_table(theta_k, atoms, points))
     return make
+
+
+@pytest.fixture(autouse=True)
+def _mpmath_precision_is_restored():
+    """A test that sets mpmath's working precision does so for itself only.
+
+    ``mp.mp.dps`` is process-wide: a reference helper that lowers it would otherwise
+    change the precision of every later test's reference (seen as an order-dependent failure).
+    """
+    import mpmath
+
+    saved = mpmath.mp.dps
+    yield
+    mpmath.mp.dps = saved

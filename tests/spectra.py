@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import mpmath as mp
 import numpy as np
 from scipy import constants as sc
 
@@ -23,6 +24,15 @@ def debye_table(theta_k, atoms=1, points=2001):
     nu_d = theta_k / K_PER_THZ
     nu = np.linspace(0.0, nu_d, points)
     return nu, 9 * atoms * nu ** 2 / nu_d ** 3
+
+def debye_entropy(theta_k, t_k):
+    """Debye entropy [J/(mol K) per mole of atoms] by mpmath quadrature (P. Debye, Ann. Phys. 39, 789 (1912)):
+    S/R = (9/y³)∫₀^y x²[x/(eˣ−1) − ln(1−e⁻ˣ)] dx, y = θ/T; R from CODATA via scipy.constants."""
+    with mp.workdps(25):       # local precision: the global mpmath setting of other tests is left alone
+        y = mp.mpf(theta_k) / t_k
+        integral = mp.quad(lambda x: x ** 2 * (x / mp.expm1(x) - mp.log(-mp.expm1(-x))), [0, y])
+        return float(sc.R * 9 / y ** 3 * integral)
+
 
 def debye_spectrum(nu_d_thz, atoms=1):
     """Exact Debye spectrum 9n ν²/ν_D³ on [0, ν_D] (analytic ν² part, empty table)."""

@@ -23,6 +23,7 @@ from pathlib import Path
 
 from .errors import ModeheatError, OptionError
 from .parallel import run_jobs
+from .preparation.options import ReadingOptions
 
 #: Name of the index file written in the output directory.
 INDEX_NAME = "index.csv"
@@ -40,12 +41,15 @@ class BatchOptions:
     ----------
     temperatures : tuple of float
         Temperatures [K] of every table.
-    freq_unit, atoms, negative, low_frequency :
-        As :func:`thermo.preparation.loading.load_dos`.
+    reading : ReadingOptions or dict, optional
+        Reading options for every file (:mod:`thermo.preparation.options`),
+        including the sheet of ``.xlsx`` files and the formula (for
+        ``per='gram'``).  They are carried to each file as the ``fallback``
+        of :func:`~thermo.preparation.loading.load_dos`: a unit a file states
+        itself, and an atom count its integral gives, win; a warning in the
+        index says so.
     per : {'formula', 'atom', 'gram'}
         Basis of the tables (see :func:`thermo.tables.tabulate`).
-    formula : str, optional
-        Chemical formula, for ``per='gram'``.
     fmt : {'csv', 'json', 'xlsx'}
         Table format.
     force : bool
@@ -55,15 +59,16 @@ class BatchOptions:
     """
 
     temperatures: tuple
-    freq_unit: str | None = None
-    atoms: int | None = None
-    negative: str = "drop"
-    low_frequency: object = "auto"
+    reading: ReadingOptions | None = None
     per: str = "formula"
-    formula: str | None = None
     fmt: str = "csv"
     force: bool = False
     digits: int | None = None
+
+    def __post_init__(self):
+        reading = self.reading
+        if not isinstance(reading, ReadingOptions):
+            object.__setattr__(self, "reading", ReadingOptions.from_mapping(reading))
 
 
 def _wanted(name, patterns):
@@ -197,12 +202,12 @@ def process_file(source, target, options):
 
     row = _blank_row(source)
     try:
-        dos = load_dos(Path(source), name=Path(source).name, freq_unit=options.freq_unit, atoms=options.atoms,
-                       negative=options.negative, low_frequency=options.low_frequency)
+        dos = load_dos(Path(source), name=Path(source).name, fallback=options.reading)
         row.update(atoms=dos.atoms, negative_mode_fraction=dos.source.get("negative_mode_fraction", ""),
-                   warnings=" | ".join(_one_line(w) for w in dos.warnings))
-        table = tabulate(dos, options.temperatures, per=options.per, formula=options.formula)
-        info = provenance(dos, options.temperatures, per=options.per, formula=options.formula)
+                   warnings=" | ".join(_one_line(w) for w in list(dos.warnings) + carried_notes(dos, options.reading)))
+        formula = ReadingOptions.of(dos).formula
+        table = tabulate(dos, options.temperatures, per=options.per, formula=formula)
+        info = provenance(dos, options.temperatures, per=options.per, formula=formula)
         write_table(table, info, options.fmt, target, overwrite=options.force, digits=options.digits)
         row.update(status="ok", output=Path(target).name)
     except ModeheatError as exc:
@@ -212,6 +217,29 @@ def process_file(source, target, options):
     except Exception as exc:  # noqa: BLE001 - one bad file must not stop the batch
         row["error"] = _one_line(f"{source}: unexpected {type(exc).__name__}: {exc}")
     return row
+
+
+def carried_notes(dos, carried):
+    """Warnings for options carried to many files that one file overrode with its own statement.
+
+    Examples
+    --------
+    >>> from types import SimpleNamespace
+    >>> dos = SimpleNamespace(atoms=2, source={"freq_unit": "cm-1", "stated_unit": "cm-1"})
+    >>> carried_notes(dos, ReadingOptions(freq_unit="meV", atoms=1))[0]
+    'read in cm-1 as the file states; --freq-unit meV applies to files that state no unit'
+    """
+    notes = []
+    if carried is None:
+        return notes
+    stated = dos.source.get("stated_unit")
+    if carried.freq_unit and stated and stated != carried.freq_unit:
+        notes.append(f"read in {stated} as the file states; --freq-unit {carried.freq_unit} applies to files "
+                     "that state no unit")
+    if carried.atoms and dos.atoms != carried.atoms:
+        notes.append(f"{dos.atoms} atoms per formula unit from the DOS integral; --atoms {carried.atoms} applies "
+                     "to files whose integral gives no whole number")
+    return notes
 
 
 def check_targets(targets, index_path, force):
@@ -327,7 +355,7 @@ def run_batch(inputs, outdir, options, workers=None, progress=True, pattern=None
     check_temperatures(options.temperatures)
     if options.per == "gram":
         from .formula import formula_unit
-        formula_unit(options.formula)
+        formula_unit(options.reading.formula)
     out = Path(outdir)
     if out.exists() and not out.is_dir():
         raise OptionError(f"output {out} exists and is not a directory")

@@ -131,10 +131,11 @@ def dos_input(dos, role=None):
     Returns
     -------
     dict
-        :func:`input_record` with the options actually used: ``frequency_unit``,
-        ``atoms`` (and whether they were ``atoms_inferred``), ``negative``
-        (imaginary-mode policy), ``low_frequency`` (the option given) and
-        ``sheet`` (workbooks only).
+        :func:`input_record` with the reading options actually used (the
+        record of :mod:`thermo.preparation.options`, ``dos.source["reading_options"]``):
+        ``frequency_unit``, ``atoms`` (and whether they were ``atoms_inferred``),
+        ``negative`` (imaginary-mode policy), ``low_frequency`` (``auto``,
+        ``off`` or ``LOW:HIGH``), and ``formula`` and ``sheet`` when given.
 
     Examples
     --------
@@ -143,12 +144,14 @@ def dos_input(dos, role=None):
     >>> dos_input(PhononDOS(np.linspace(0, 5, 6), np.ones(6), atoms=2))["options"]["atoms"]
     2
     """
+    from .preparation.options import ReadingOptions
     src = dict(getattr(dos, "source", None) or {})
-    options = {"frequency_unit": src.get("freq_unit"), "atoms": dos.atoms,
-               "atoms_inferred": src.get("atoms_inferred"), "negative": src.get("negative_policy"),
-               "low_frequency": src.get("low_frequency_option")}
-    if src.get("sheet") is not None:
-        options["sheet"] = src["sheet"]
+    used = ReadingOptions.of(dos) if "reading_options" in src else ReadingOptions(
+        freq_unit=src.get("freq_unit"), negative=src.get("negative_policy"))
+    options = {"frequency_unit": used.freq_unit, "atoms": dos.atoms,
+               "atoms_inferred": src.get("atoms_inferred"), "negative": used.negative,
+               "low_frequency": used.low_frequency}
+    options.update((k, v) for k, v in (("formula", used.formula), ("sheet", used.sheet)) if v is not None)
     return input_record(src.get("name"), src.get("sha256"), options, role=role)
 
 

@@ -17,6 +17,21 @@ STANDARD_TEMPERATURE = 298.15
 MAX_TEMPERATURES = 1_000_000
 
 
+def describe_temperatures(spec: str) -> str:
+    """A temperature spec in words, for help texts.
+
+    Examples
+    --------
+    >>> describe_temperatures("0:1500:5,298.15")
+    '0 to 1500 K every 5 K plus 298.15 K'
+    """
+    words = []
+    for item in str(spec).split(","):
+        parts = [p.strip() for p in item.split(":")]
+        words.append(f"{parts[0]} to {parts[1]} K every {parts[2]} K" if len(parts) == 3 else f"{parts[0]} K")
+    return " plus ".join(words)
+
+
 def _range(text):
     try:
         parts = [float(p) for p in text.split(":")]

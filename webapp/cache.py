@@ -24,7 +24,9 @@ from thermo import load_dos, tabulate
 from thermo.errors import ModeheatError
 from thermo.io.readers import read_table
 
-from .session import content_bytes, options_of
+from thermo.preparation.options import FIELDS
+
+from .session import content_bytes, options_of, reading_of
 
 
 def held_bytes(value, _depth=0) -> int:
@@ -105,22 +107,24 @@ def held_total() -> int:
 
 
 def load_key(dataset):
-    """The key of a dataset's loaded DOS: content hash, name and load options."""
-    opts = options_of(dataset)
-    return (dataset["sha256"], dataset["name"], opts["freq_unit"], opts["atoms"],
-            opts["negative"], str(opts["low_frequency"]), opts.get("sheet") or None)
+    """The key of a dataset's loaded DOS: content hash, name and its reading options (canonical record)."""
+    reading = reading_of(dataset).resolved()
+    return (dataset["sha256"], dataset["name"], *(getattr(reading, k) for k in FIELDS))
 
 
-def load(dataset):
+def load(dataset, loaded=None):
     """The :class:`thermo.PhononDOS` of a dataset (cached by content and options).
 
+    ``loaded`` is a DOS the caller has just read from these bytes with the
+    options of ``dataset`` (it is kept instead of reading them again).
     Raises the :mod:`thermo` errors of :func:`thermo.load_dos`.
     """
     key = load_key(dataset)
 
     def compute():
-        return load_dos(content_bytes(dataset), freq_unit=key[2], atoms=key[3],
-                        negative=key[4], low_frequency=key[5], name=key[1], sheet=key[6])
+        if loaded is not None:
+            return loaded
+        return load_dos(content_bytes(dataset), name=dataset["name"], options=reading_of(dataset))
     return _DOS_CACHE.get(key, compute)
 
 

@@ -129,8 +129,20 @@ def active_note(dataset):
 
 
 def active_slot(prefix):
-    """Where a page names its dataset (filled by the page's callback with :func:`active_note`)."""
-    return html.Div(id=f"{prefix}-active", children=no_data_note())
+    """Where a page names its dataset (filled from the workspace alone, see :func:`follow_active`)."""
+    return html.Div(id=f"{prefix}-active")
+
+
+def follow_active(prefix):
+    """Register the callback that names the page's dataset in its :func:`active_slot`.
+
+    It depends on the workspace only, so a computation that fails for the
+    dataset shows its error beside the dataset's name — never beside "No
+    dataset loaded" or the name of the dataset shown before.
+    """
+    from .session import active
+    callback(Output(f"{prefix}-active", "children"), Input("mh-workspace", "data"))(
+        lambda workspace: active_note(active(workspace)))
 
 
 def follow_image_format(*graph_ids):

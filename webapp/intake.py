@@ -8,6 +8,8 @@ import hashlib
 
 from thermo.errors import ModeheatError, OptionError
 from thermo.formula import formula_unit
+from thermo.preparation.loading import load_dos
+from thermo.preparation.options import FIELDS, ReadingOptions
 
 from . import cache, session
 from .reporting import attempt, one_line
@@ -75,25 +77,34 @@ def fix_hint(message: str) -> str:
 
 
 def _checked_dataset(workspace, contents, name, max_bytes, options=None):
+    """A new dataset of an upload, read with the page's options carried as a fallback.
+
+    What the file states itself (its unit, the atom count of its integral)
+    wins over the carried options, which may have been set for another file
+    (:func:`thermo.load_dos` ``fallback``); the dataset keeps only the options
+    that were used for it, so a re-read gives the same spectrum.
+    """
     raw = decode_upload(contents, name, max_bytes)
     if len(raw) > max_bytes:
         raise UploadRefused(f"{name}: the file is {len(raw) / 1e6:.1f} MB; "
                             f"the upload limit is {max_bytes / 1e6:g} MB")
+    sha = hashlib.sha256(raw).hexdigest()
+    same = next((d for d in workspace.get("datasets", []) if d.get("sha256") == sha), None)
+    if same is not None:      # the same bytes again: the dataset there is selected, never a copy "name (2)"
+        return same, [f"{name} is already loaded as {same['name']}; selected it"]
     name = session.unique_name(workspace, name)
-    options = {**session.DEFAULT_OPTIONS, **(options or {})}
-    # The unit and atom count a file states itself win over options carried on the page
-    # (they may have been set for another file); the options fill in what the file lacks.
-    own = {**options, "freq_unit": None, "atoms": None}
-    dataset = session.new_dataset(name, raw, own)
-    try:
-        cache.load(dataset)
-        return dataset
-    except ModeheatError:
-        if own == options:
-            raise
-    dataset = session.new_dataset(name, raw, options)
-    cache.load(dataset)
-    return dataset
+    carried = ReadingOptions.from_mapping(
+        {k: v for k, v in {**session.DEFAULT_OPTIONS, **(options or {})}.items() if k in FIELDS})
+    dos = load_dos(raw, name=name, fallback=carried)
+    own = carried.replaced(freq_unit=None if dos.source.get("stated_unit") else dos.source["freq_unit"],
+                           atoms=None if dos.source.get("atoms_inferred") else dos.atoms)
+    dataset = session.new_dataset(name, raw, own.as_dict())
+    cache.load(dataset, loaded=dos)
+    notes = []
+    if carried.freq_unit and dos.source.get("stated_unit") not in (None, carried.freq_unit):
+        notes.append(f"{name}: read in {dos.source['stated_unit']}, the unit its header states (the chosen "
+                     f"{carried.freq_unit} applies to files that state none)")
+    return dataset, notes
 
 
 def add_uploads(workspace, contents_list, names, max_bytes, options=None, refused=None):
@@ -118,7 +129,7 @@ def add_uploads(workspace, contents_list, names, max_bytes, options=None, refuse
           "active": (workspace or {}).get("active")}
     messages = []
     for contents, name in zip(contents_list or [], names or []):
-        dataset, error = attempt(_checked_dataset, ws, contents, name, max_bytes, options)
+        result, error = attempt(_checked_dataset, ws, contents, name, max_bytes, options)
         if error:
             hint = fix_hint(error)
             if refused is not None and not error.startswith(f"{name}: the upload") and "upload limit" not in error:
@@ -126,8 +137,13 @@ def add_uploads(workspace, contents_list, names, max_bytes, options=None, refuse
                 hint = (hint + ", then press Read again") if hint else ""
             messages.append(("error", error + (f" — {hint}" if hint else "")))
             continue
-        ws = session.with_dataset(ws, dataset)
-        messages.append(("info", f"loaded {dataset['name']}"))
+        dataset, notes = result
+        if session.find(ws, dataset["id"]) is not None:
+            ws = session.activated(ws, dataset["id"])
+        else:
+            ws = session.with_dataset(ws, dataset)
+            notes = [f"loaded {dataset['name']}"] + notes
+        messages += [("info", note) for note in notes]
     return ws, messages
 
 

@@ -18,10 +18,11 @@ import hashlib
 import json
 import uuid
 
-#: Load options of a new dataset (see :func:`thermo.load_dos`); ``formula``
-#: is only used for values per gram.
-DEFAULT_OPTIONS = {"freq_unit": None, "atoms": None, "negative": "drop",
-                   "low_frequency": "auto", "formula": "", "sheet": None}
+from thermo.preparation.options import FIELDS, ReadingOptions
+
+#: Load options of a new dataset: the reading-options record's defaults in stored form
+#: (:meth:`thermo.preparation.options.ReadingOptions.stored`); ``formula`` is used for values per gram.
+DEFAULT_OPTIONS = ReadingOptions().stored()
 #: Largest workspace [characters of JSON] kept in the tab's session storage
 #: (browsers allow about 5 million characters per site; common practice).
 SAVED_LIMIT_CHARS = 3_000_000
@@ -51,6 +52,11 @@ def options_of(dataset) -> dict:
     return {**DEFAULT_OPTIONS, **(dataset or {}).get("options", {})}
 
 
+def reading_of(dataset) -> ReadingOptions:
+    """The dataset's load options as the one record (checked; :class:`~thermo.errors.OptionError` if bad)."""
+    return ReadingOptions.from_mapping({k: v for k, v in options_of(dataset).items() if k in FIELDS})
+
+
 def new_dataset(name: str, raw: bytes, options=None) -> dict:
     """A workspace entry for file ``raw`` (text kept as text, binary as base64)."""
     try:
@@ -59,7 +65,7 @@ def new_dataset(name: str, raw: bytes, options=None) -> dict:
         content, encoding = base64.b64encode(raw).decode("ascii"), "base64"
     return {"id": uuid.uuid4().hex[:10], "name": str(name), "content": content,
             "encoding": encoding, "sha256": hashlib.sha256(raw).hexdigest(),
-            "options": {**DEFAULT_OPTIONS, **(options or {})}}
+            "options": ReadingOptions.from_mapping(options).stored()}
 
 
 def find(workspace, dataset_id):

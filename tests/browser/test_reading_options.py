@@ -7,6 +7,7 @@ Test spectra are invented (a Debye ν² spectrum, normalised to 1 mode or withou
 import numpy as np
 import pytest
 from dash.testing.wait import until
+from selenium.common.exceptions import StaleElementReferenceException
 from selenium.webdriver.common.by import By
 from selenium.webdriver.common.keys import Keys
 
@@ -30,10 +31,14 @@ def duo(dash_duo):
     return dash_duo
 
 
-def _listed_atoms(driver, name):
-    rows = driver.find_elements(By.CSS_SELECTOR, "#sp-list tr")
-    cells = [r.find_elements(By.TAG_NAME, "td") for r in rows]
-    return next((c[1].text for c in cells if c and c[0].text == name), None)
+def _listed(driver, name, column):
+    """Cell ``column`` (0 name, 1 atoms, 2 unit) of the datasets list row of ``name``."""
+    try:
+        rows = driver.find_elements(By.CSS_SELECTOR, "#sp-list tr")
+        cells = [r.find_elements(By.TAG_NAME, "td") for r in rows]
+        return next((c[column].text for c in cells if c and c[0].text == name), None)
+    except StaleElementReferenceException:       # the list was redrawn meanwhile: not there yet
+        return None
 
 
 def test_atoms_typed_before_the_upload_are_used(duo, tmp_path):
@@ -44,7 +49,7 @@ def test_atoms_typed_before_the_upload_are_used(duo, tmp_path):
     box.send_keys("2" + Keys.ENTER)
     upload(duo.driver, path)
     until(lambda: active_name(duo.driver) == path.name, 20)
-    until(lambda: _listed_atoms(duo.driver, path.name) == "2", 20)
+    until(lambda: _listed(duo.driver, path.name, 1) == "2", 20)
     assert "integrates to 1 mode" not in duo.find_element("#sp-messages").text
     no_console_errors(duo)
 
@@ -62,3 +67,35 @@ def test_refused_file_is_read_again_with_the_named_option(duo, tmp_path):
     duo.wait_for_contains_text("#sp-messages", "loaded bare.dat", timeout=20)
     until(lambda: not duo.find_element("#sp-retry-btn").is_displayed(), 10)
     no_console_errors(duo)
+
+
+def test_after_read_again_in_mev_the_next_file_keeps_the_unit_its_header_states(duo, tmp_path):
+    # issue 25 item 1: after "Read again" with meV for a bare file, the next upload (header
+    # "omega (cm^-1)", an integral that needs the typed atom count) was read as meV.
+    # Spectra: invented Debye ν² spectra; 1 THz = 4.135667696 meV = 33.35640952 cm-1 (CODATA 2018).
+    bare = tmp_path / "bare_mev.dat"
+    bare.write_text("\n".join(f"{4.135667696 * a:.10g} {9 * a * a / 125 / 4.135667696:.10g}" for a in NU) + "\n")
+    stated = tmp_path / "stated_cm.dat"
+    stated.write_text("omega (cm^-1) dos\n" + "\n".join(
+        f"{33.35640952 * a:.10g} {0.37 * 9 * a * a / 125 / 33.35640952:.10g}" for a in NU) + "\n")
+    upload(duo.driver, bare)
+    duo.wait_for_contains_text("#sp-messages", "choose the Frequency unit", timeout=20)
+    duo.select_dcc_dropdown("#sp-unit", value="meV")
+    duo.find_element("#sp-retry-btn").click()
+    until(lambda: active_name(duo.driver) == bare.name, 20)
+    until(lambda: _listed(duo.driver, bare.name, 2) == "meV", 20)
+    box = duo.find_element("#sp-atoms")
+    box.clear()
+    box.send_keys("1" + Keys.ENTER)
+    until(lambda: _listed(duo.driver, bare.name, 1) == "1", 20)
+    until(lambda: "meV" in duo.find_element("#sp-unit").text, 10)          # meV is still chosen on the page
+    upload(duo.driver, stated)
+    until(lambda: active_name(duo.driver) == stated.name, 20)
+    until(lambda: _listed(duo.driver, stated.name, 2) == "cm-1", 20)
+    until(lambda: _listed(duo.driver, stated.name, 1) == "1", 10)
+    duo.wait_for_contains_text("#sp-messages", "cm-1, the unit its header states", timeout=20)
+    until(lambda: "as stated in file (cm-1)" in duo.find_element("#sp-unit").text, 10)
+    until(lambda: "the file integrates to 1.11" in duo.find_element("#sp-warnings").text, 20)   # its checks
+    assert "meV was chosen" not in duo.find_element("#sp-warnings").text
+    no_console_errors(duo)
+

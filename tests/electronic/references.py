@@ -51,11 +51,11 @@ def _fd(j, eta):
     return mp.quad(lambda x: x ** j / (mp.exp(x - eta) + 1), pts)
 
 
+@mp.workdps(22)   # precision for this reference only (mp.dps is process-wide)
 def free_electron_exact(t, dt=0.5):
     """μ − E_F [eV], U − U(0) [eV], S [eV/K], C [eV/K] of the infinite √E band at fixed N (mpmath).
 
     C is the central difference of U over ±dt (relative error about (dt/T)², below 1e-6 here)."""
-    mp.mp.dps = 22
     ef = mp.mpf(E_F_ABOVE_BOTTOM)
     n0 = mp.mpf(2) / 3 * A * ef ** 1.5
 
@@ -111,9 +111,9 @@ def structured_mu(t):
     return brentq(count, -0.5, 0.5, xtol=1e-15, rtol=1e-14)
 
 
+@mp.workdps(20)   # precision for this reference only (mp.dps is process-wide)
 def structured_entropy_heat_capacity(t):
     """S_el and C_el [eV/K] at fixed N (mpmath quadrature at the brentq μ)."""
-    mp.mp.dps = 20
     mu = mp.mpf(structured_mu(t))
     kt = mp.mpf(KB) * t
 

@@ -333,3 +333,23 @@ def test_one_pass_conversion_declines_what_it_does_not_cover(rows, delimiter):
     assert readers._fast_array(rows, delimiter) is None
     content = "\n".join(rows).encode()
     assert _outcome(content) == _careful_outcome(content)
+
+
+def test_a_commented_header_row_names_the_columns_as_a_plain_one_does():
+    # issue 25 item 6: the commented row gave the unit but the partials stayed "column 3", "column 4"
+    body = "0 0 0 0\n1 0.2 0.1 0.1\n2 0.8 0.4 0.4\n"
+    table = read_table("# invented test data\n# frequency (THz)  total  Mg  O\n" + body)
+    assert table.names == ["frequency (THz)", "total", "Mg", "O"] and table.header_unit == "THz"
+    # a comment of four words that states no unit in its first cell is not a header
+    plain = read_table("# made up by hand\n# frequency unit: THz\n" + body)
+    assert plain.names == ["frequency", "total", "column 3", "column 4"] and plain.header_unit == "THz"
+
+
+def test_a_commented_header_row_of_a_workbook_names_the_columns(tmp_path):
+    book = openpyxl.Workbook()
+    book.active.append(["# frequency (THz)", "total", "Mg", "O"])
+    for row in ([0, 0, 0, 0], [1, 0.2, 0.1, 0.1], [2, 0.8, 0.4, 0.4]):
+        book.active.append(row)
+    path = tmp_path / "c.xlsx"
+    book.save(path)
+    assert read_table(path).names == ["frequency (THz)", "total", "Mg", "O"]

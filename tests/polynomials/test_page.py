@@ -28,7 +28,7 @@ def test_page_is_registered_and_lays_out():
 
 
 def test_block_is_json_with_shomate_keys_and_plots_have_fit_and_errors(demo):
-    over, err, keys, block, _, messages = polynomials.draw(demo, "shomate", 298.15, 1500, None, 0, "cr", "", "json")
+    over, err, keys, block, messages = polynomials.draw(demo, "shomate", 298.15, 1500, None, 0, "cr", "", "json")
     record = json.loads(block)
     coefficients = record["ranges"][0]["coefficients"]
     assert list(coefficients) == list("ABCDEFGH")
@@ -67,6 +67,6 @@ def test_page_block_equals_the_cli_output(demo, tmp_path, capsys):
 
 def test_sgte_yaml_is_refused_in_one_line_and_bad_range_reported(demo):
     out = polynomials.draw(demo, "sgte", 298.15, 1500, None, 0, "cr", "Cu", "yaml")
-    assert out[3] == "" and any("no sgte model" in str(m.children) for m in out[5])
+    assert out[3] == "" and any("no sgte model" in str(m.children) for m in out[4])
     bad = polynomials.draw(demo, "shomate", 900, 300, None, 0, "cr", "", "json")
-    assert "0 < LO < HI" in str(bad[5][0].children)
+    assert "0 < LO < HI" in str(bad[4][0].children)

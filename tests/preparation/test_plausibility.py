@@ -11,12 +11,11 @@ References outside the project:
 
 from __future__ import annotations
 
-import mpmath as mp
 import numpy as np
 import pytest
 from scipy import constants as sc
 
-from tests.spectra import debye_table, dos_text
+from tests.spectra import debye_entropy, debye_table, dos_text
 from thermo import DosInputError, load_dos, tabulate
 from thermo.columns import column_name
 from thermo.preparation.plausibility import max_frequency_readings, partial_sum_warnings, unit_warnings
@@ -27,11 +26,7 @@ PER_THZ = {"eV": sc.h * 1e12 / sc.e, "Hz": 1e12, "rad/ps": 2 * np.pi, "cm-1": 1e
            "THz": 1.0, "rad/s": 2 * np.pi * 1e12}
 
 
-def _debye_entropy(theta, t):
-    mp.mp.dps = 25
-    y = mp.mpf(theta) / t
-    integral = mp.quad(lambda x: x ** 2 * (x / mp.expm1(x) - mp.log(-mp.expm1(-x))), [0, y])
-    return float(sc.R * 9 / y ** 3 * integral)
+_debye_entropy = debye_entropy
 
 
 def _entropy_298(dos):

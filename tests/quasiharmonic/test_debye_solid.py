@@ -69,5 +69,6 @@ def test_debye_function_closed_form_matches_quadrature(x):
     # The reference solid uses D₃ in closed form (polylogarithms, Abramowitz & Stegun 27.1);
     # it must equal the defining integral, evaluated by mpmath quadrature, to 1e-20.
     import mpmath as mp
-    exact = ds.debye_d3(mp.mpf(x))
-    assert abs(ds.debye_d3_closed(mp.mpf(x)) / exact - 1) < 1e-20
+    with mp.workdps(30):   # set here: mpmath's precision is process-wide
+        exact = ds.debye_d3(mp.mpf(x))
+        assert abs(ds.debye_d3_closed(mp.mpf(x)) / exact - 1) < 1e-20

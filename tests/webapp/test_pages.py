@@ -171,10 +171,10 @@ def test_export_xlsx_and_json_hold_the_tabulated_values(ws):
 
 
 def test_export_preview_and_errors(ws):
-    text, fig, msgs, _ = export.preview(ws, "0:100:10", "formula", ["entropy", "helmholtz_energy"])
+    text, fig, msgs = export.preview(ws, "0:100:10", "formula", ["entropy", "helmholtz_energy"])
     assert text.startswith("# tool: modeheat") and msgs == []
     assert fig.layout.yaxis.title.text == "S [J/(mol·K)]" and len(fig.data[0].x) == 11
-    text, _, msgs, _ = export.preview(ws, "ten to twenty", "formula", ["heat_capacity_v"])
+    text, _, msgs = export.preview(ws, "ten to twenty", "formula", ["heat_capacity_v"])
     assert text == "" and "temperatures" in msgs[0].children
     assert export.image_format("svg", {"image_format": "png"}) == {"image_format": "svg"}
 
@@ -196,7 +196,7 @@ def test_models_and_mode_map_draw_with_demo(demo):
     assert options[1] and options[3]
     figs = models.draw(demo, options[1], options[3], 1, 0, 400, 10, "formula", "heat_capacity_v")
     assert figs[-1] == [] and len(figs[0].data) >= 3
-    heat, _, msgs = modemap.draw_map(demo, "heat_capacity_share", 10, 400)
+    heat, msgs = modemap.draw_map(demo, "heat_capacity_share", 10, 400)
     assert msgs == []
     z = np.asarray(heat.data[0].z)
     np.testing.assert_allclose(z.sum(axis=0), 100.0, rtol=1e-6)   # each column is a whole (100 %)
@@ -205,9 +205,9 @@ def test_models_and_mode_map_draw_with_demo(demo):
 
 
 def test_mode_map_bad_range_is_a_message(demo):
-    fig, _, msgs = modemap.draw_map(demo, "entropy_share", 400, 10)
+    fig, msgs = modemap.draw_map(demo, "entropy_share", 400, 10)
     assert "T from < T to" in msgs[0].children
-    fig, _, msgs = modemap.draw_map(demo, "entropy_share", None, 10)
+    fig, msgs = modemap.draw_map(demo, "entropy_share", None, 10)
     assert "two numbers" in msgs[0].children
 
 

@@ -105,3 +105,11 @@ def test_imaginary_tolerance_field(tmp_path):
     quiet = [m.children for m in draw(record, tolerance=10)[-1]]
     assert not any("tolerance" in t for t in quiet)
     assert "between 0 and 100" in draw(qh.demo_set(), tolerance=150)[-1][0].children
+
+
+def test_a_kept_volume_set_reads_back_as_the_record_it_came_from():
+    # the files kept in the workspace (manifest first, then the DOS files) give the same record back
+    record = qh.demo_set()
+    files = qh.set_files(record)
+    assert files[0][0] == "manifest" and [r for r, _, _ in files[1:]] == ["dos"] * len(record["files"])
+    assert qh.record_of(files) == record

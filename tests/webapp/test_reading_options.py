@@ -11,7 +11,8 @@ import base64
 import numpy as np
 import pytest
 
-from thermo import load_dos
+from tests.spectra import debye_entropy, debye_table
+from thermo import load_dos, tabulate
 from webapp import session
 from webapp.pages import spectrum
 
@@ -168,3 +169,32 @@ def test_refused_option_change_names_the_file_once():
     kind, message = notes[0]
     assert kind == "error" and "refuse" in message and message.count("f0.dat") == 1
     assert message.endswith("previous settings kept")
+
+
+def test_after_a_read_again_in_mev_a_file_stating_wavenumbers_is_read_in_wavenumbers():
+    # issue 25 item 1: a bare file read again in meV left meV (and the typed atom count) on the page;
+    # the next upload, whose header says omega (cm^-1) but whose integral needs the atom count, was
+    # read in meV: S(298 K) came out 0.83 instead of the Debye value.  The file's own unit must win.
+    # Reference: Debye entropy by mpmath (tests/spectra.py), θ = 300 K; c = 299 792 458 m/s (exact).
+    nu, g = debye_table(300.0, points=801)
+    per_thz = 1e12 / 2.99792458e10
+    mev_per_thz = 4.135667696            # h·1 THz in meV (CODATA 2018, h and e exact)
+    bare = "\n".join(f"{a:.10g} {b:.10g}" for a, b in zip(nu * mev_per_thz, g / mev_per_thz)) + "\n"
+    stated = "omega (cm^-1) dos\n" + "\n".join(f"{a:.10g} {b:.10g}" for a, b in zip(nu * per_thz, 0.37 * g / per_thz))
+    ws, notes, pending = _upload(session.empty_workspace(), _values(), bare)
+    assert pending and notes[0][0] == "error"
+    job = {"files": pending, "max_bytes": 10 ** 6, "pending": []}
+    ws, notes = spectrum.apply_edit(ws, "sp-retry-btn", _values(**{"sp-unit": "meV"}), job)
+    assert notes == [("info", "loaded f0.dat")]
+    page = {**spectrum.control_values(ws), "sp-atoms": 1}          # meV still shown, one atom typed
+    assert page["sp-unit"] == "meV"
+    ws, notes, _ = _upload(ws, page, stated + "\n")
+    dos = spectrum.cache.load(session.active(ws))
+    assert dos.source["freq_unit"] == "cm-1" and dos.atoms == 1
+    s298 = float(tabulate(dos, [298.15])["entropy_J_per_mol_K"].iloc[0])
+    assert s298 == pytest.approx(debye_entropy(300.0, 298.15), rel=1e-3)
+    assert not any("meV" in w for w in dos.warnings)
+    assert any("cm-1, the unit its header states" in text for _, text in notes)
+    # the dataset keeps what was used for it: its own unit (none chosen) and the typed atom count
+    assert session.options_of(session.active(ws))["freq_unit"] is None
+    assert session.options_of(session.active(ws))["atoms"] == 1

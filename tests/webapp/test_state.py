@@ -69,12 +69,24 @@ def test_binary_junk_and_oversize_uploads_are_refused_with_one_line():
 
 def test_several_files_at_once_and_unique_names():
     ws = workspace_with_plain()
-    new, notes = intake.add_uploads(ws, [data_url(PLAIN), data_url(GARBAGE), data_url(PLAIN)],
+    other = "# another run\n" + PLAIN            # other bytes under the same name
+    new, notes = intake.add_uploads(ws, [data_url(other), data_url(GARBAGE), data_url("#3\n" + PLAIN)],
                                    ["debye.dat", "bad.dat", "debye.dat"], 10 ** 6)
     names = [d["name"] for d in new["datasets"]]
     assert names == ["debye.dat", "debye.dat (2)", "debye.dat (3)"]
     assert new["active"] == new["datasets"][-1]["id"]
     assert [k for k, _ in notes] == ["info", "error", "info"]
+
+
+def test_identical_bytes_uploaded_again_select_the_existing_dataset():
+    # issue 25 item 7: a re-upload of the same file became "debye.dat (2)", which the workspace
+    # store (one dataset per bytes and settings) never kept, so it vanished after a reload
+    ws = workspace_with_plain()
+    ws = session.with_dataset(ws, session.new_dataset("other.dat", ("# x\n" + PLAIN).encode()))
+    new, notes = intake.add_uploads(ws, [data_url(PLAIN)], ["copy of debye.dat"], 10 ** 6)
+    assert [d["name"] for d in new["datasets"]] == ["debye.dat", "other.dat"]
+    assert new["active"] == ws["datasets"][0]["id"]
+    assert notes == [("info", "copy of debye.dat is already loaded as debye.dat; selected it")]
 
 
 def test_bad_option_keeps_previous_options():
@@ -94,7 +106,7 @@ def test_bad_option_keeps_previous_options():
 
 def test_rename_remove_activate():
     ws = workspace_with_plain()
-    ws, _ = intake.add_uploads(ws, [data_url(PLAIN)], ["second.dat"], 10 ** 6)
+    ws, _ = intake.add_uploads(ws, [data_url("# second\n" + PLAIN)], ["second.dat"], 10 ** 6)
     first, second = (d["id"] for d in ws["datasets"])
     assert session.renamed(ws, first, "  my   run ")["datasets"][0]["name"] == "my run"
     assert session.renamed(ws, first, "   ") is ws

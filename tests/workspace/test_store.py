@@ -149,3 +149,38 @@ def test_default_location_follows_xdg(tmp_path):
     home = default_path({"XDG_DATA_HOME": "relative/dir"})
     assert home.parts[-4:] == (".local", "share", "modeheat", "workspace.sqlite")
     assert default_path({"MODEHEAT_WORKSPACE": str(tmp_path / "x.sqlite")}) == tmp_path / "x.sqlite"
+
+
+def test_file_sets_are_kept_with_their_bytes_and_found_again(ws):
+    # issue 25 item 7: volume sets (a manifest and its DOS files) and measured sets are kept
+    from thermo.workspace.sets import file_set, file_sets, remove_file_set, save_file_set, set_contents
+    space = ws.local()
+    manifest = b"volume_A3,energy_eV,dos_file\n10,0,a.dat\n"
+    files = [("manifest", "m.csv", manifest), ("dos", "a.dat", debye_text(tag="a").encode())]
+    kept, new = save_file_set(space, "m.csv", "volume", files, {"negative": "drop"})
+    assert new and kept.kind == "volume" and [f.name for f in kept.files] == ["m.csv", "a.dat"]
+    # FIPS 180-4 SHA-256 of each file, computed here
+    assert [f.sha256 for f in kept.files] == [hashlib.sha256(b).hexdigest() for _, _, b in files]
+    again, new = save_file_set(space, "copy of m.csv", "volume", files)
+    assert not new and again.name == "m.csv"                 # identical bytes: the set already kept
+    other, new = save_file_set(space, "m.csv", "volume", files[:1])
+    assert new and other.name == "m.csv (2)"
+    measured, _ = save_file_set(space, "cp.csv", "measured", [("measured", "cp.csv", b"T Cp\n1 2\n")])
+    assert [s.name for s in file_sets(space, "volume")] == ["m.csv", "m.csv (2)"]
+    assert [s.name for s in file_sets(space)] == ["m.csv", "m.csv (2)", "cp.csv"]
+    assert set_contents(space, "m.csv") == files and file_set(space, "m.csv").settings == {"negative": "drop"}
+    # another space never reads them
+    assert file_sets(ws.local("other")) == []
+    with pytest.raises(WorkspaceError, match="no set"):
+        set_contents(ws.local("other"), "m.csv")
+    # bytes go with the last user: a dataset may share them
+    d, _ = space.add(files[1][2], "a.dat")
+    remove_file_set(space, "m.csv")
+    assert space.content(d) == files[1][2]
+    remove_file_set(space, "m.csv (2)")
+    with closing(ws.connect()) as con:
+        assert con.execute("SELECT COUNT(*) FROM blobs WHERE sha256 = ?",
+                           (hashlib.sha256(manifest).hexdigest(),)).fetchone()[0] == 0
+    space.remove(d.id)                                       # a blob still in a set stays
+    assert set_contents(space, "cp.csv") == [("measured", "cp.csv", b"T Cp\n1 2\n")]
+    assert ws.check() == []

@@ -15,6 +15,7 @@ from pathlib import Path
 import numpy as np
 
 from ..errors import ModeheatError
+from ..preparation.options import ReadingOptions
 
 #: Campaign kinds: a volume set per input, or a DOS per input.
 KINDS = ("quasiharmonic", "polynomial")
@@ -35,8 +36,11 @@ class CampaignOptions:
     temperatures : tuple of float
         Temperatures [K] of the quasi-harmonic tables (should include
         298.15 K and cover the fit range when ``form`` is set).
-    freq_unit, atoms, negative, low_frequency :
-        Reading options of every DOS, as :func:`thermo.preparation.loading.load_dos`.
+    reading : ReadingOptions or dict, optional
+        Reading options of every DOS (:mod:`thermo.preparation.options`):
+        for a manifest those of every DOS it lists, as the ``quasiharmonic``
+        command; for DOS files carried to each as the fallback of
+        :func:`~thermo.preparation.loading.load_dos`, as ``batch`` does.
     pressure_gpa : float
         Pressure [GPa] of the quasi-harmonic step.
     eos : {'birch-murnaghan', 'vinet'}
@@ -62,10 +66,7 @@ class CampaignOptions:
 
     kind: str
     temperatures: tuple = ()
-    freq_unit: str | None = None
-    atoms: int | None = None
-    negative: str = "drop"
-    low_frequency: object = "auto"
+    reading: ReadingOptions | None = None
     pressure_gpa: float = 0.0
     eos: str = "birch-murnaghan"
     form: str | None = "shomate"
@@ -76,6 +77,10 @@ class CampaignOptions:
     fmt: str = "csv"
     digits: int | None = None
     force: bool = False
+
+    def __post_init__(self):
+        if not isinstance(self.reading, ReadingOptions):
+            object.__setattr__(self, "reading", ReadingOptions.from_mapping(self.reading))
 
 
 def _one_line(text):
@@ -110,9 +115,7 @@ def _quasiharmonic(source, target, options):
     from ..quasiharmonic import quasiharmonic_table, read_manifest
     from ..quasiharmonic.report import quasiharmonic_provenance
 
-    volume_set = read_manifest(Path(source), freq_unit=options.freq_unit, atoms=options.atoms,
-                               negative=options.negative, low_frequency=options.low_frequency,
-                               name=Path(source).name)
+    volume_set = read_manifest(Path(source), options=options.reading, name=Path(source).name)
     t = np.asarray(options.temperatures, dtype=float)
     table = quasiharmonic_table(volume_set, t, pressure_gpa=options.pressure_gpa, eos=options.eos)
     info = quasiharmonic_provenance(volume_set, table, t)
@@ -142,11 +145,11 @@ def _polynomial(source, target, options):
     from ..preparation.loading import load_dos
     from ..provenance import dos_input
 
-    dos = load_dos(Path(source), name=Path(source).name, freq_unit=options.freq_unit, atoms=options.atoms,
-                   negative=options.negative, low_frequency=options.low_frequency)
+    dos = load_dos(Path(source), name=Path(source).name, fallback=options.reading)
     fit = _fit(harmonic_source(dos, *options.fit_range), options, Path(target).stem)
     inputs = [dos_input(dos)]
-    notes = [_one_line(w) for w in tuple(dos.warnings) + tuple(fit.warnings)]
+    from ..batch import carried_notes
+    notes = [_one_line(w) for w in list(dos.warnings) + carried_notes(dos, options.reading) + list(fit.warnings)]
     row = dict(blank_row(source), status="ok", atoms=dos.atoms, warnings=" | ".join(notes),
                cp_fit_max_relative_error=fit.errors["heat_capacity_p"]["max_relative"])
     return {"row": row, "entry": _entry(source, target, fit, inputs), "inputs": inputs}

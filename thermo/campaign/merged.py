@@ -42,8 +42,7 @@ def campaign_settings(options):
     from ..provenance import temperature_settings
     settings = {"kind": options.kind, "form": options.form, "range_K": list(options.fit_range),
                 "mid_K": options.mid, "formation_enthalpy_kJ_per_mol": options.formation_enthalpy,
-                "phase": options.phase, "frequency_unit": options.freq_unit, "atoms": options.atoms,
-                "negative": options.negative, "low_frequency": options.low_frequency}
+                "phase": options.phase, "reading_options": options.reading.given()}
     if options.kind == "quasiharmonic":
         settings.update(pressure_GPa=options.pressure_gpa, eos=options.eos,
                         temperatures_K=temperature_settings(options.temperatures))

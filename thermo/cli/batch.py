@@ -18,6 +18,7 @@ from ..temperatures import parse_temperatures
 from .options import add_input_options, add_table_options, add_temperature_option, check_digits
 from .polynomial import add_fit_options
 from .quasiharmonic import add_step_options
+from .reading import reading_from_args
 
 
 def register(sub):
@@ -61,10 +62,8 @@ def run(args) -> int:
     if args.kind != "table":
         return _campaign(args)
     options = BatchOptions(
-        temperatures=tuple(parse_temperatures(args.temperatures).tolist()),
-        freq_unit=args.freq_unit, atoms=args.atoms, negative=args.negative,
-        low_frequency=args.low_frequency, per=args.per, formula=args.formula,
-        fmt=args.format or "csv", force=args.force, digits=check_digits(args.digits))
+        temperatures=tuple(parse_temperatures(args.temperatures).tolist()), reading=reading_from_args(args),
+        per=args.per, fmt=args.format or "csv", force=args.force, digits=check_digits(args.digits))
     with _executor(args.scheduler) as executor:
         rows = run_batch(args.file, args.output, options, workers=args.workers, progress=True,
                          pattern=args.pattern, executor=executor)
@@ -89,14 +88,12 @@ def _campaign(args) -> int:
     from ..errors import OptionError
     from .models import parse_fit_range
 
-    if args.per != "formula" or args.formula:
-        raise OptionError(f"--per and --formula apply to --kind table; {args.kind} results are per mole of "
-                          "formula units")
+    if args.per != "formula":
+        raise OptionError(f"--per applies to --kind table; {args.kind} results are per mole of formula units")
     form = args.form or ("shomate" if args.kind == "polynomial" else None)
     options = CampaignOptions(
         kind=args.kind, temperatures=tuple(parse_temperatures(args.temperatures).tolist()),
-        freq_unit=args.freq_unit, atoms=args.atoms, negative=args.negative, low_frequency=args.low_frequency,
-        pressure_gpa=args.pressure, eos=args.eos, form=form, fit_range=parse_fit_range(args.range), mid=args.mid,
+        reading=reading_from_args(args), pressure_gpa=args.pressure, eos=args.eos, form=form, fit_range=parse_fit_range(args.range), mid=args.mid,
         formation_enthalpy=args.formation_enthalpy, phase=args.phase, fmt=args.format or "csv",
         digits=check_digits(args.digits), force=args.force)
     with _executor(args.scheduler) as executor:

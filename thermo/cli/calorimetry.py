@@ -5,9 +5,8 @@ from __future__ import annotations
 import json
 import sys
 
-from ..unit_names import FREQUENCY_UNITS
 from .electronic import add_electronic_reading_options, load_electronic_from_args
-from .options import check_output_target, write_text_output
+from .options import add_dos_option, check_output_target, load_from_args, write_text_output
 
 
 def register(sub):
@@ -16,11 +15,9 @@ def register(sub):
     p.add_argument("measured", metavar="MEASURED",
                    help="measured heat capacity: columns T [K], C_p, optional standard uncertainty "
                         "(text, CSV or .xlsx)")
-    p.add_argument("--dos", metavar="DOS", help="phonon DOS file for the lattice part and the S comparison")
-    p.add_argument("--freq-unit", metavar="U", help=f"frequency unit of --dos: {', '.join(FREQUENCY_UNITS)}")
-    p.add_argument("--atoms", type=int, metavar="N",
-                   help="atoms per formula unit (default: from --dos, else from --formula, else 1)")
-    p.add_argument("--formula", help="chemical formula of the formula unit (for C_p in J/(g K))")
+    add_dos_option(p, "phonon DOS for the lattice part and the S comparison",
+                   formula_help="for C_p in J/(g K) and the atom count", atoms_default="from --dos, else from "
+                                                                                 "--formula, else 1")
     p.add_argument("--cp-unit", metavar="UNIT",
                    help="C_p unit: J/(mol K), J/(g K), cal/(mol K), mJ/(mol K) (default: from the header)")
     p.add_argument("--model", metavar="TERMS",
@@ -89,8 +86,7 @@ def run(args) -> int:
     measured = read_heat_capacity(args.measured, cp_unit=args.cp_unit, formula=args.formula)
     dos = None
     if args.dos:
-        from ..preparation.loading import load_dos
-        dos = load_dos(args.dos, freq_unit=args.freq_unit, atoms=args.atoms)
+        dos = load_from_args(args, args.dos)
         for note in dos.warnings:
             print(f"warning: {args.dos}: {note}", file=sys.stderr)
     fixed = parse_fixed(args.fix)

@@ -4,16 +4,15 @@ from __future__ import annotations
 
 import sys
 
-from .options import (add_input_options, add_output_options, add_temperature_option, emit_table, load_from_args,
-                      output_plan, report_warnings)
+from .options import (add_input_options, add_output_options, add_temperature_option, emit_table, formula_of,
+                      load_from_args, output_plan, report_warnings)
 
 
 def register(sub):
     p = sub.add_parser("displacements",
                        help="mean-square displacements ⟨u²⟩, U_iso, Debye–Waller B and θ_M per species vs T")
-    add_input_options(p)
+    add_input_options(p, formula_help="masses and atom counts of the species")
     add_temperature_option(p, default="0:1000:10")
-    p.add_argument("--formula", help="chemical formula of the formula unit (masses and atom counts), e.g. MgO")
     p.add_argument("--masses", metavar="S=M,...",
                    help="mass of each species in u, e.g. Ly=12.4,Hv=88.6 (isotopes, invented species)")
     p.add_argument("--species-columns", metavar="S,...",
@@ -39,10 +38,11 @@ def run(args) -> int:
     distance = parse_distance(args.distance, args.lattice)
     species = parse_species(args.species_columns)
     dos = load_from_args(args)
-    table = displacement_table(dos, temperatures, args.formula, masses, distance, species)
-    summary = displacement_summary(dos, args.formula, masses, distance, temperatures, species)
+    formula = formula_of(args, dos)
+    table = displacement_table(dos, temperatures, formula, masses, distance, species)
+    summary = displacement_summary(dos, formula, masses, distance, temperatures, species)
     report_warnings(dos)
     for note in summary["warnings"]:
         print(f"warning: {note}", file=sys.stderr)
-    info = displacement_provenance(dos, temperatures, args.formula, masses, distance, summary, species)
+    info = displacement_provenance(dos, temperatures, formula, masses, distance, summary, species)
     return emit_table(table, info, args, plan)

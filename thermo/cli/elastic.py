@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import json
 
+from .options import add_dos_option, load_from_args
+
 
 def register(sub):
     p = sub.add_parser("elastic", help="θ_D from cubic elastic constants or sound velocities (Anderson, VRH)")
@@ -13,12 +15,10 @@ def register(sub):
     p.add_argument("--vl", type=float, metavar="M/S", help="longitudinal sound velocity in m/s (instead of C_ij)")
     p.add_argument("--vt", type=float, metavar="M/S", help="transverse sound velocity in m/s")
     p.add_argument("--density", type=float, required=True, metavar="G/CM3", help="density in g/cm³")
-    p.add_argument("--formula", help="chemical formula of the formula unit, e.g. Cu or MgO")
     p.add_argument("--molar-mass", type=float, metavar="G/MOL",
                    help="molar mass of the formula unit (instead of --formula; needs --atoms)")
-    p.add_argument("--atoms", type=int, metavar="N", help="atoms per formula unit (with --molar-mass)")
-    p.add_argument("--dos", metavar="FILE", help="DOS file whose low-frequency θ_D is compared")
-    p.add_argument("--freq-unit", metavar="U", help="frequency unit of --dos (default: from its header)")
+    add_dos_option(p, "DOS whose low-frequency θ_D is compared", formula_help="molar mass and atom count",
+                   atoms_default="from --formula; needed with --molar-mass")
     p.set_defaults(func=run)
 
 
@@ -41,8 +41,7 @@ def run(args) -> int:
     record.update({("elastic_theta_K" if k == "theta_K" else
                     k if k.endswith("_per_s") else f"{k}_GPa"): v for k, v in result.items()})
     if args.dos:
-        from ..preparation.loading import load_dos
-        dos = load_dos(args.dos, freq_unit=args.freq_unit)
+        dos = load_from_args(args, args.dos)
         record["comparison"] = compare_debye_temperatures(result["theta_K"],
                                                           dos.low_frequency_debye_temperature_k())
     record["caution"] = ("θ_D from elastic data tests the acoustic branches only; elastic constants "

@@ -5,11 +5,11 @@ from __future__ import annotations
 import os
 import sys
 
-from ..temperatures import DEFAULT_TEMPERATURES
-from .reading import add_reading_options
+from ..temperatures import DEFAULT_TEMPERATURES, describe_temperatures
+from .reading import add_formula_option, add_reading_options
 
 
-def add_input_options(parser, many=False):
+def add_input_options(parser, many=False, formula_help="for --per gram"):
     """Add the options that say how to read a DOS file (or, with ``many``, several)."""
     if many:
         parser.add_argument("file", nargs="+", metavar="DIR_OR_GLOB",
@@ -19,14 +19,25 @@ def add_input_options(parser, many=False):
                                          "or ws:NAME for a dataset of the workspace")
         from .workspace import add_location_options
         add_location_options(parser)
-    add_reading_options(parser)
+    add_reading_options(parser, formula_help, many=many)
+
+
+def add_dos_option(parser, help_text, formula_help=None, atoms_default=None):
+    """Add ``--dos FILE|ws:NAME`` with the reading options and workspace location that go with it.
+
+    Load it with ``load_from_args(args, args.dos)``.
+    """
+    parser.add_argument("--dos", metavar="DOS", help=help_text + " (a file, or ws:NAME for a dataset of the workspace)")
+    from .workspace import add_location_options
+    add_location_options(parser)
+    add_reading_options(parser, formula_help, for_option="--dos", atoms_default=atoms_default)
 
 
 def add_table_options(parser, output_help):
-    """Add ``--per``, ``--formula``, ``--format``, ``--output`` and ``--force``."""
+    """Add ``--per``, ``--formula`` (when no reading option added it), ``--format``, ``--output``, ``--force``."""
     parser.add_argument("--per", default="formula", choices=["formula", "atom", "gram"],
                         help="basis: per mole of formula units (default), per atom, per gram (needs --formula)")
-    parser.add_argument("--formula", help="chemical formula of the formula unit, e.g. MgO (for --per gram)")
+    add_formula_option(parser, "for --per gram")
     add_output_options(parser, output_help)
 
 
@@ -45,24 +56,38 @@ def add_temperature_option(parser, default=DEFAULT_TEMPERATURES):
     """Add ``--temperatures SPEC``."""
     parser.add_argument("--temperatures", default=default, metavar="SPEC",
                         help="START:STOP:STEP in K (STOP included), a comma list, or both mixed "
-                             f"(default {default}: 0 to 1500 K every 5 K plus the standard 298.15 K)")
+                             f"(default {default}: {describe_temperatures(default)})")
 
 
-def load_from_args(args):
-    """Load the DOS named by parsed input options (the argument is always a path, never file text)."""
+def load_from_args(args, source=None):
+    """Load the DOS named by ``source`` (default the positional input) with the reading options given.
+
+    The input is a path (never file text) or ``ws:NAME``; a workspace dataset
+    is read with its stored settings under the options given now (an option
+    given wins even when it equals the default).  The options used, the
+    formula included, are in ``dos.source["reading_options"]``
+    (:meth:`~thermo.preparation.options.ReadingOptions.of`).
+    """
     from pathlib import Path
 
     from ..preparation.loading import load_dos
+    from ..preparation.options import ReadingOptions
+    from .reading import reading_from_args
     from .workspace import is_reference, resolve_reference
-    if is_reference(args.file):   # stored settings, unless an option says otherwise
-        raw, name, kept = resolve_reference(args)
-        return load_dos(raw, freq_unit=args.freq_unit or kept["freq_unit"],
-                        atoms=args.atoms or kept["atoms"],
-                        negative=kept["negative"] if args.negative == "drop" else args.negative,
-                        low_frequency=kept["low_frequency"] if args.low_frequency == "auto" else args.low_frequency,
-                        name=name, sheet=args.sheet or kept.get("sheet"))
-    return load_dos(Path(args.file), name=os.path.basename(args.file) or None, freq_unit=args.freq_unit,
-                    atoms=args.atoms, negative=args.negative, low_frequency=args.low_frequency, sheet=args.sheet)
+    source = args.file if source is None else source
+    given = reading_from_args(args)
+    if is_reference(source):
+        raw, name, kept = resolve_reference(args, source)
+        return load_dos(raw, name=name, options=given.over(ReadingOptions.from_mapping(kept)))
+    return load_dos(Path(source), name=os.path.basename(source) or None, options=given)
+
+
+def formula_of(args, dos=None):
+    """The formula in use: ``--formula``, else the one a ``ws:`` input was stored with, else None."""
+    from ..preparation.options import ReadingOptions
+    if dos is not None:
+        return ReadingOptions.of(dos).formula
+    return ReadingOptions(formula=getattr(args, "formula", None)).formula
 
 
 def check_digits(digits):

@@ -11,14 +11,13 @@ from .options import add_input_options, check_output_target, write_text_output
 def register(sub):
     p = sub.add_parser("polynomial", help="Shomate, NASA 7-term or SGTE polynomial coefficients fitted to the "
                                           "harmonic C_p of a DOS (or to a (T, C_p) table), with fit errors")
-    add_input_options(p)
+    add_input_options(p, formula_help="needed for yaml: the species composition")
     p.add_argument("--cp-table", action="store_true",
                    help="the file is a (T, C_p) table (columns temperature_K, heat_capacity_p_J_per_mol_K, "
                         "optional entropy_J_per_mol_K; CSV or a modeheat JSON export) instead of a DOS")
     p.add_argument("--entropy-298", type=float, metavar="S",
                    help="S(298.15 K) in J/(mol K) for a --cp-table without an entropy column")
     add_fit_options(p)
-    p.add_argument("--formula", help="chemical formula of the formula unit (needed for yaml: the composition)")
     p.add_argument("--format", default="json", choices=["json", "csv", "yaml"],
                    help="json (default), csv (one row per coefficient) or yaml (Cantera species block)")
     p.add_argument("--output", metavar="PATH", help="write here (default: stdout)")

@@ -6,6 +6,7 @@ import sys
 
 from .electronic import add_electronic_reading_options, electronic_options
 from .options import add_input_options, add_table_options, add_temperature_option, emit_table, output_plan
+from .reading import reading_from_args
 
 #: 0 to 1000 K every 10 K plus the standard 298.15 K (common practice in thermochemical tables).
 _DEFAULT_TEMPERATURES = "0:1000:10,298.15"
@@ -57,9 +58,7 @@ def run(args) -> int:
     if not 0 <= tolerance < 1:
         raise OptionError(f"--imaginary-tolerance must be a fraction in [0, 1), got {tolerance:g}")
     plan = output_plan(args)
-    volume_set = read_manifest(args.file, freq_unit=args.freq_unit, atoms=args.atoms,
-                               negative=args.negative, low_frequency=args.low_frequency,
-                               resolve=_workspace_resolver(args),
+    volume_set = read_manifest(args.file, options=reading_from_args(args), resolve=_workspace_resolver(args),
                                electronic_options=electronic_options(args))
     table = quasiharmonic_table(volume_set, temperatures, pressure_gpa=args.pressure, eos=args.eos,
                                 per=args.per, formula=args.formula, imaginary_tolerance=tolerance,

@@ -5,8 +5,8 @@ from __future__ import annotations
 
 from ..temperatures import parse_temperatures
 from .electronic import add_electronic_reading_options, load_electronic_from_args, report_electronic
-from .options import (add_input_options, add_table_options, add_temperature_option, emit_table, load_from_args,
-                      output_plan, report_warnings)
+from .options import (add_input_options, add_table_options, add_temperature_option, emit_table, formula_of,
+                      load_from_args, output_plan, report_warnings)
 
 
 def register(sub):
@@ -28,9 +28,10 @@ def run(args) -> int:
     plan = output_plan(args)
     dos = load_from_args(args)
     edos = load_electronic_from_args(args, args.electronic) if args.electronic else None
-    table = tabulate(dos, temperatures, per=args.per, formula=args.formula)
+    formula = formula_of(args, dos)
+    table = tabulate(dos, temperatures, per=args.per, formula=formula)
     report_warnings(dos)
-    info = provenance(dos, temperatures, per=args.per, formula=args.formula)
+    info = provenance(dos, temperatures, per=args.per, formula=formula)
     if edos is not None:
         from ..electronic import electronic_details, electronic_input, with_electronic
         table = with_electronic(table, edos, atoms=dos.atoms)

@@ -38,8 +38,7 @@ def register(sub):
     add.add_argument("--group", default="", help="group label, e.g. 'convergence: mesh'")
     add.add_argument("--note", default="", help="free-text note")
     from .reading import add_reading_options
-    add_reading_options(add)
-    add.add_argument("--formula", default="", help="formula of the formula unit (for values per gram)")
+    add_reading_options(add, formula_help="for values per gram")
     add.add_argument("--unchecked", action="store_true",
                      help="store without loading each file first (default: a file that does not load is refused)")
     lst = verbs.add_parser("list", help="datasets with name, sha256, added_utc and settings")
@@ -101,20 +100,20 @@ def _files(items):
 def _add(args, space):
     from ..errors import ModeheatError, OptionError
     from ..preparation.loading import load_dos
+    from .reading import reading_from_args
     files = _files(args.file)
     if args.name and len(files) != 1:
         raise OptionError("--name needs exactly one file")
-    settings = {"freq_unit": args.freq_unit, "atoms": args.atoms, "negative": args.negative,
-                "low_frequency": args.low_frequency, "formula": args.formula, "sheet": args.sheet}
+    reading = reading_from_args(args)
+    settings = reading.as_dict()
     # the automatic ν² window never refuses a file (only an explicit window can), so the check skips its fit
-    check_window = "off" if str(args.low_frequency).lower() == "auto" else args.low_frequency
+    check = reading.replaced(low_frequency="off") if reading.resolved().low_frequency == "auto" else reading
     added = present = failed = 0
     for path, name in zip(files, dataset_names(files)):
         raw = path.read_bytes()
         if not args.unchecked:
             try:
-                load_dos(raw, freq_unit=args.freq_unit, atoms=args.atoms, negative=args.negative,
-                         low_frequency=check_window, name=path.name, sheet=args.sheet)
+                load_dos(raw, name=path.name, options=check)
             except ModeheatError as exc:
                 print(f"error: {exc}", file=sys.stderr)
                 failed += 1
@@ -189,8 +188,8 @@ def is_reference(text) -> bool:
     return str(text).startswith(REFERENCE_PREFIX)
 
 
-def resolve_reference(args):
-    """``(bytes, name, settings)`` of the ``ws:`` dataset named by ``args.file``."""
+def resolve_reference(args, reference=None):
+    """``(bytes, name, settings)`` of the ``ws:`` dataset named by ``reference`` (default ``args.file``)."""
     space = open_space(args)
-    d = space.get(str(args.file)[len(REFERENCE_PREFIX):])
+    d = space.get(str(args.file if reference is None else reference)[len(REFERENCE_PREFIX):])
     return space.content(d), d.name, d.settings

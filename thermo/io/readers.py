@@ -43,6 +43,7 @@ import numpy as np
 
 from ..errors import DosInputError
 from .decoding import decode_text
+from ..units import guess_unit_from_text
 from .unit_statements import HEADER_CELL, frequency_unit
 from .workbook import xlsx_rows, xlsx_titles
 from .fastpath import chunked_array
@@ -194,6 +195,8 @@ def read_table(source, name: str | None = None, sheet=None) -> RawTable:
 
 def _raw_table(data, lines, header, split, comments, display, digest, sheet_name):
     check_column_count(data.shape[1], display)
+    if header is None:     # a commented header row that states the unit names the columns too
+        header = _commented_header(comments, lines[0], data.shape[1], split)
     names = _column_names(header, data.shape[1], split)
     unit, mentions = frequency_unit(names[0] if header else None, comments, data.shape[1],
                                     "".join(COMMENT_CHARS))
@@ -398,6 +401,16 @@ def _header_cells(row, split, width):
         return split(row)
     tries = (HEADER_CELL.findall(row), row.split(), re.split(r"\s{2,}|\t", row))
     return next((t for t in tries if len(t) == width), tries[0])
+
+
+def _commented_header(comments, first_data_line, width, split):
+    """The last comment row before the data that is a header: ``width`` cells, the first stating a unit."""
+    for line, text in reversed([c for c in comments if c[0] < first_data_line]):
+        body = text.lstrip("".join(COMMENT_CHARS)).strip()
+        cells = _header_cells(body, split or str.split, width)
+        if len(cells) == width and not any(_looks_numeric(c) for c in cells) and guess_unit_from_text(cells[0]):
+            return line, cells
+    return None
 
 
 def _column_names(header, width, split):

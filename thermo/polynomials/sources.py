@@ -241,10 +241,14 @@ def source_from_table(table, entropy_298=None, label="C_p table"):
     ----------
     table : pandas.DataFrame
         Columns ``temperature_K`` and ``heat_capacity_p_J_per_mol_K`` (or
-        ``heat_capacity_v_J_per_mol_K``, then taken as C_p with a note);
-        ``entropy_J_per_mol_K`` optional; the ``_error_`` column beside each
+        ``heat_capacity_p_model_J_per_mol_K``, or ``heat_capacity_v_J_per_mol_K``,
+        then taken as C_p with a note); an entropy column is optional:
+        ``entropy_third_law_J_per_mol_K`` (S° from measured data) is taken
+        before ``entropy_J_per_mol_K``, with a note naming both.  Columns are
+        found by quantity through :mod:`thermo.columns`; the label says which
+        ones were used.  The ``_error_`` column beside each
         (``heat_capacity_p_error_J_per_mol_K``, ``entropy_error_J_per_mol_K``)
-        optional, and then carried as the source's uncertainty.
+        is optional, and then carried as the source's uncertainty.
     entropy_298 : float, optional
         S(298.15 K) [J/(mol·K)] when the table has no entropy.
     label : str
@@ -268,19 +272,19 @@ def source_from_table(table, entropy_298=None, label="C_p table"):
     """
     t = find(table, "temperature")
     notes = []
-    cp = _first_column(table, ("heat_capacity_p", "heat_capacity_p_model", "heat_capacity_v"))
+    cp, cp_key, _ = _first_column(table, _HEAT_CAPACITY_CHOICES)
     if cp is None:
         raise OptionError("the table has no heat_capacity_p_J_per_mol_K (or heat_capacity_p_model_J_per_mol_K of a "
                           "calorimetry fit, or heat_capacity_v_J_per_mol_K) column; values per mole of formula "
                           "units are needed")
-    if cp.startswith("heat_capacity_v"):
-        notes.append(f"column {cp} (C_v) taken as C_p")
-    elif cp.startswith("heat_capacity_p_model"):
-        notes.append(f"column {cp} (the fitted model of a calorimetry table) taken as C_p")
-    entropy_column = _first_column(table, ("entropy", "entropy_third_law"))
+    if cp_key != "heat_capacity_p":
+        notes.append(f"column {cp} ({_HEAT_CAPACITY_CHOICES[cp_key]}) taken as C_p")
+    entropy_column, entropy_key, passed = _first_column(table, _ENTROPY_CHOICES)
     s = None if entropy_column is None else table[entropy_column].to_numpy(dtype=float)
-    if entropy_column and entropy_column.startswith("entropy_third_law"):
-        notes.append(f"S from column {entropy_column} (third-law entropy integrated from the measured data)")
+    if passed:
+        notes.append(f"S from column {entropy_column} ({_ENTROPY_CHOICES[entropy_key]}); "
+                     + "; ".join(f"column {name} ({_ENTROPY_CHOICES[key]}) not used" for name, key in passed))
+    label = f"{label} (C_p: {cp}; S: " + (entropy_column or "S(298.15 K) given, C_p/T integrated") + ")"
     temperature, heat = table[t].to_numpy(dtype=float), table[cp].to_numpy(dtype=float)
     errors = {key: None if column is None else table[column].to_numpy(dtype=float)
               for key, column in (("cp", error_column_for(table, cp)),
@@ -312,11 +316,25 @@ def source_from_table(table, entropy_298=None, label="C_p table"):
                                 entropy_uncertainty=None if s_known is None else s_known[keep])
 
 
+#: C_p columns a table may carry, in the order they are taken (quantity key -> what it is).
+_HEAT_CAPACITY_CHOICES = {"heat_capacity_p": "C_p",
+                          "heat_capacity_p_model": "the fitted model of a calorimetry table",
+                          "heat_capacity_v": "C_v"}
+#: Entropy columns, in the order they are taken: the third-law S° from measured C_p before any other.
+_ENTROPY_CHOICES = {"entropy_third_law": "third-law entropy integrated from the measured data",
+                    "entropy": "entropy of the table's own model, e.g. the harmonic S of a DOS"}
+
+
 def _first_column(table, quantities):
-    """Name of the first of ``quantities`` (per mole of formula units) present in ``table``, else None."""
+    """``(name, quantity key, others)`` of the first of ``quantities`` (per mole of formula units) in
+    ``table`` — chosen by quantity through :mod:`thermo.columns`, never by a name match — with the
+    ``(name, key)`` of the later ones also present; ``(None, None, [])`` when there is none."""
+    present = []
     for quantity in quantities:
         try:
-            return find(table, quantity, "formula")
+            present.append((find(table, quantity, "formula"), quantity))
         except OptionError:
             continue
-    return None
+    if not present:
+        return None, None, []
+    return present[0][0], present[0][1], present[1:]

@@ -12,17 +12,18 @@ import dataclasses
 import numpy as np
 from dataclasses import replace
 
-from ..errors import DosInputError, OptionError
+from ..errors import DosInputError
 from ..kernels.quadrature import mode_weights
-from .imaginary import check_policy, imaginary_warnings, split_at_zero
+from .imaginary import imaginary_warnings, split_at_zero
 from .lowfreq import WINDOW_MODES, blend_low_frequency, fit_low_frequency, window_shares
 from .atoms import modes_text, resolve_atoms
 from ..io.readers import read_table
 from ..spectrum import PhononDOS
-from ..units import FREQUENCY_UNITS, canonical_unit, thz_to_unit
+from ..units import FREQUENCY_UNITS, thz_to_unit
 from .plausibility import entropy_298_per_atom, partial_sum_warnings, unit_warnings
 from .validation import check_spectrum
-from .validation import MAX_FREQUENCY_THZ, check_magnitudes, check_mode_count
+from .validation import check_magnitudes, check_mode_count
+from .options import ReadingOptions, low_frequency_window
 
 
 def _mention_note(mentions):
@@ -32,47 +33,23 @@ def _mention_note(mentions):
     return f" ({where}, but not as the frequency unit)"
 
 
-def _unit(explicit, stated, source, mentions=()):
+def _unit(explicit, stated, carried, source, mentions=()):
+    """The unit used and its note: an option for this file > the file's own statement > a carried option."""
     if explicit is not None:
-        unit = canonical_unit(explicit)
         note = None
-        if stated is not None and stated != unit:
-            note = f"the file states {stated} but {unit} was chosen; using {unit}"
-        return unit, note
+        if stated is not None and stated != explicit:
+            note = f"the file states {stated} but {explicit} was chosen; using {explicit}"
+        return explicit, note
     if stated is not None:
         return stated, None
+    if carried is not None:
+        return carried, None
     raise DosInputError("the frequency unit is not stated in the file" + _mention_note(mentions)
                         + "; set the frequency unit option to one of " + ", ".join(FREQUENCY_UNITS), source)
 
 
-def _low_frequency_option(value):
-    """Normalise the low_frequency option to 'auto', None (off) or a window."""
-    if value is None or value is False or (isinstance(value, str) and value.lower() in ("off", "none", "no")):
-        return None
-    if value is True or (isinstance(value, str) and value.lower() == "auto"):
-        return "auto"
-    if isinstance(value, str):
-        try:
-            lo, hi = (float(v) for v in value.split(":"))
-        except ValueError:
-            raise OptionError(f"low-frequency window {value!r} must be 'auto', 'off' or LOW:HIGH in THz") from None
-        return _window(lo, hi, value)
-    try:
-        lo, hi = value
-        return _window(float(lo), float(hi), value)
-    except (TypeError, ValueError):
-        raise OptionError(f"low-frequency window {value!r} must be 'auto', 'off' or (low, high) in THz") from None
-
-
-def _window(lo, hi, given):
-    if not (0.0 <= lo < hi <= MAX_FREQUENCY_THZ):
-        raise OptionError(f"low-frequency window {given!r} must have 0 <= low < high <= "
-                          f"{MAX_FREQUENCY_THZ:g} THz")
-    return (lo, hi)
-
-
-def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency="auto", name=None,
-             sheet=None):
+def load_dos(source, freq_unit=None, atoms=None, negative=None, low_frequency=None, name=None,
+             sheet=None, *, options=None, fallback=None):
     r"""Read a phonon DOS file and prepare it for thermodynamic integration.
 
     Parameters
@@ -84,19 +61,29 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
         ``Hz``, ``rad/s``, ``rad/ps`` or ``K``; taken from the frequency
         column's header or an explicit unit statement when None (refused
         when absent, never guessed from a comment that merely mentions a unit).
+        A unit given here overrides the file's, with a warning.
     atoms : int, optional
         Atoms per formula unit n; inferred when the DOS integrates to 3n.
-    negative : {'drop', 'drop-unscaled', 'refuse'}
-        Imaginary-mode policy: drop them and renormalise the rest to 3n,
-        drop them without renormalising (former name ``keep-count``, still
-        accepted), or refuse the file.
-    low_frequency : 'auto', 'off' or (low, high)
-        ν² treatment below the cut-off: automatic window, none, or a window
-        in THz.
+    negative : {'drop', 'drop-unscaled', 'refuse'}, optional
+        Imaginary-mode policy: drop them and renormalise the rest to 3n
+        (default), drop them without renormalising (former name
+        ``keep-count``, still accepted), or refuse the file.
+    low_frequency : 'auto', 'off', 'LOW:HIGH' or (low, high), optional
+        ν² treatment below the cut-off: automatic window (default), none, or
+        a window in THz.
     name : str, optional
         Display name of the input for messages and provenance.
     sheet : str or int, optional
         Worksheet of an ``.xlsx`` file (name or 1-based number; default the first).
+    options : ReadingOptions or dict, optional
+        The same options as one record (:mod:`thermo.preparation.options`);
+        the keywords above win over it.  Options for this one file.
+    fallback : ReadingOptions or dict, optional
+        Options carried from elsewhere (many files, another file): used only
+        where neither the keywords/``options`` nor the file say anything — a
+        unit only when the file states none (``dos.source["stated_unit"]``),
+        an atom count only when the integral does not give one.  The result
+        equals a load with the unit and count used given as keywords.
 
     Returns
     -------
@@ -112,6 +99,8 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
 
     Notes
     -----
+    The options used (after merging, see :mod:`thermo.preparation.options`)
+    are kept in ``dos.source["reading_options"]``.
     The DOS per unit ``u`` becomes a DOS per THz by
     :math:`g_{\mathrm{THz}} = g_u\, d\nu_u/d\nu_{\mathrm{THz}}`.  The
     imaginary share is :math:`\int_{\nu<0} g / \int g`.  The final scale is
@@ -130,32 +119,51 @@ def load_dos(source, freq_unit=None, atoms=None, negative="drop", low_frequency=
 
     Examples
     --------
-    >>> import dataclasses
-
-import numpy as np
     >>> nu = np.linspace(0.0, 5.0, 101)
     >>> text = "# frequency (THz) dos\n" + "\n".join(f"{a} {9*a*a/125}" for a in nu)
     >>> dos = load_dos(text)
     >>> dos.atoms, round(dos.mode_count, 9)
     (1, 3.0)
     """
-    policy = check_policy(negative)
-    window = _low_frequency_option(low_frequency)
-    raw = read_table(source, name=name, sheet=sheet)
+    explicit = ReadingOptions(freq_unit=freq_unit, atoms=atoms, negative=negative, low_frequency=low_frequency,
+                              sheet=sheet).over(_record(options))
+    carried = _record(fallback)
+    chosen = explicit.over(carried).resolved()
+    raw = read_table(source, name=name, sheet=chosen.sheet)
     clean = check_spectrum(raw)
     try:
         with np.errstate(over="raise", invalid="raise", divide="raise"):
-            return _prepared(raw, clean, freq_unit, atoms, policy, window)
+            return _prepared(raw, clean, explicit, carried, chosen)
     except (FloatingPointError, np.linalg.LinAlgError, OverflowError, ZeroDivisionError) as exc:
         # a safety net behind the magnitude checks: never a raw numpy error or warning
         raise DosInputError(f"numbers out of the range this DOS can be prepared in ({exc})",
                             clean.source) from None
 
 
-def _prepared(raw, clean, freq_unit, atoms, policy, window):
+def _record(options):
+    return options if isinstance(options, ReadingOptions) or options is None else ReadingOptions.from_mapping(options)
+
+
+def _atom_count(raw_integral, explicit, carried, src):
+    """(n, inferred): given for this file > the integral's own count > a carried count.
+
+    The result is the same as a load with the count used given for this file
+    (or none, when inferred), so a caller may keep those options for the file.
+    """
+    if explicit is not None or carried is None:
+        return resolve_atoms(raw_integral, explicit, src)
+    try:
+        return resolve_atoms(raw_integral, None, src)
+    except DosInputError:
+        return resolve_atoms(raw_integral, carried, src)
+
+
+def _prepared(raw, clean, explicit, carried, chosen):
     """The steps after reading: units, magnitudes, imaginary modes, atoms, low-frequency treatment, 3n."""
     src = clean.source
-    unit, unit_note = _unit(freq_unit, clean.header_unit, src, raw.unit_mentions)
+    policy, window = chosen.negative, low_frequency_window(chosen.low_frequency)
+    unit, unit_note = _unit(explicit.freq_unit, clean.header_unit, carried and carried.freq_unit, src,
+                            raw.unit_mentions)
     notes = list(clean.warnings) + ([unit_note] if unit_note else [])
 
     factor = thz_to_unit(unit)
@@ -178,7 +186,7 @@ def _prepared(raw, clean, freq_unit, atoms, policy, window):
                             "and the policy is to refuse them", src)
     notes += imaginary_warnings(share, policy)
     notes += partial_sum_warnings(nu_all, cols_all[0], dict(zip(names, cols_all[1:])))
-    n_atoms, inferred = resolve_atoms(raw_integral, atoms, src)
+    n_atoms, inferred = _atom_count(raw_integral, explicit.atoms, carried and carried.atoms, src)
     if inferred:
         notes.append(f"atoms per formula unit inferred as {n_atoms} from the DOS integral {raw_integral:.6g}")
     if nu.size < 3 or real_integral <= 0:
@@ -188,11 +196,12 @@ def _prepared(raw, clean, freq_unit, atoms, policy, window):
                                                  raw_integral, inferred)
     notes += more
     provenance = {
-        "name": src, "sha256": clean.sha256, "freq_unit": unit,
+        "name": src, "sha256": clean.sha256, "freq_unit": unit, "stated_unit": clean.header_unit,
         "raw_integral": raw_integral, "scale_factor": scale,
         "negative_mode_fraction": share, "negative_policy": policy,
         "atoms_inferred": inferred, "columns": list(clean.names),
         "low_frequency_option": window,
+        "reading_options": chosen.replaced(freq_unit=unit, atoms=n_atoms, sheet=raw.sheet).as_dict(),
     }
     if raw.sheet is not None:
         provenance["sheet"] = raw.sheet

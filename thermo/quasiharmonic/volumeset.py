@@ -212,8 +212,8 @@ def parse_manifest(text, name="<manifest>"):
     return rows
 
 
-def read_manifest(source, files=None, freq_unit=None, atoms=None, negative="drop",
-                  low_frequency="auto", name=None, resolve=None, electronic_options=None):
+def read_manifest(source, files=None, freq_unit=None, atoms=None, negative=None,
+                  low_frequency=None, name=None, resolve=None, electronic_options=None, options=None):
     r"""Read a manifest and every DOS it lists.
 
     Parameters
@@ -223,8 +223,9 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative="drop
     files : dict of str to bytes, optional
         DOS files by name (uploads); ``dos_file`` is matched by its file
         name.  Without it, paths are relative to the manifest's folder.
-    freq_unit, atoms, negative, low_frequency
-        As :func:`thermo.preparation.load_dos`, applied to every DOS.
+    freq_unit, atoms, negative, low_frequency, options
+        As :func:`thermo.preparation.load_dos`, applied to every DOS
+        (``options``: the reading-options record; the keywords win over it).
     name : str, optional
         Display name of the manifest.
     resolve : callable, optional
@@ -278,7 +279,7 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative="drop
         content, label = _content(dos_file, "dos_file", line, shown, folder, uploads if files is not None else None,
                                   resolve)
         dos = load_dos(content, freq_unit=freq_unit, atoms=atoms, negative=negative,
-                       low_frequency=low_frequency, name=label)
+                       low_frequency=low_frequency, name=label, options=options)
         entry = (volume, energy, dos, label)
         if electronic_file is not None:
             from ..electronic import load_electronic_dos

@@ -16,7 +16,7 @@ from pathlib import Path
 from ..errors import WorkspaceError
 
 #: Schema version written by this modeheat.
-SCHEMA_VERSION = 2
+SCHEMA_VERSION = 3
 #: How long a writer waits for another process's transaction [s] before giving up.
 BUSY_SECONDS = 60.0
 
@@ -44,6 +44,13 @@ MIGRATIONS = {
         "CREATE TABLE set_members (set_id INTEGER NOT NULL REFERENCES sets(id) ON DELETE CASCADE,"
         " dataset_id TEXT NOT NULL REFERENCES datasets(id) ON DELETE CASCADE,"
         " position INTEGER NOT NULL, value REAL, PRIMARY KEY (set_id, dataset_id))",
+    ],
+    3: [   # file sets: a volume set's manifest and DOS files, a measured C_p file (thermo/workspace/sets.py)
+        "ALTER TABLE sets ADD COLUMN settings TEXT NOT NULL DEFAULT '{}'",
+        "CREATE TABLE set_files (set_id INTEGER NOT NULL REFERENCES sets(id) ON DELETE CASCADE,"
+        " position INTEGER NOT NULL, role TEXT NOT NULL, name TEXT NOT NULL,"
+        " sha256 TEXT NOT NULL REFERENCES blobs(sha256), PRIMARY KEY (set_id, position))",
+        "CREATE INDEX set_files_sha ON set_files(sha256)",
     ],
 }
 

@@ -26,14 +26,14 @@ from dataclasses import dataclass
 from pathlib import Path
 
 from ..errors import WorkspaceError
+from ..preparation.options import FIELDS, ReadingOptions
 from .location import default_path
 from .schema import connect, migrate, transaction, utc_now
 
-#: Settings a dataset is loaded with (the options of :func:`thermo.load_dos` plus the formula).
-SETTING_NAMES = ("freq_unit", "atoms", "negative", "low_frequency", "formula", "sheet")
-#: Settings of a dataset added without any.
-DEFAULT_SETTINGS = {"freq_unit": None, "atoms": None, "negative": "drop", "low_frequency": "auto", "formula": "",
-                    "sheet": None}
+#: Settings a dataset is loaded with: the reading options (:mod:`thermo.preparation.options`).
+SETTING_NAMES = FIELDS
+#: Settings of a dataset added without any (the record's defaults, in stored form).
+DEFAULT_SETTINGS = ReadingOptions().stored()
 #: Name of the space the command line uses unless told otherwise.
 LOCAL_SPACE = "main"
 
@@ -53,17 +53,12 @@ def sha256_hex(raw: bytes) -> str:
 
 
 def settings_of(settings=None) -> dict:
-    """Complete, canonical settings (unknown names refused)."""
+    """Complete, canonical settings (unknown names refused): :meth:`ReadingOptions.stored`."""
     settings = dict(settings or {})
     unknown = sorted(set(settings) - set(SETTING_NAMES))
     if unknown:
         raise WorkspaceError(f"unknown dataset setting(s): {', '.join(unknown)}")
-    out = {**DEFAULT_SETTINGS, **{k: v for k, v in settings.items()}}
-    out["low_frequency"] = out["low_frequency"] if isinstance(out["low_frequency"], str) or out["low_frequency"] is None \
-        else ":".join(str(float(v)) for v in out["low_frequency"])
-    out["atoms"] = None if out["atoms"] in (None, "") else int(out["atoms"])
-    out["formula"] = out["formula"] or ""
-    return out
+    return ReadingOptions.from_mapping(settings).stored()
 
 
 def _key(settings) -> str:
@@ -337,7 +332,8 @@ class Space:
             else:
                 con.execute("DELETE FROM datasets WHERE id = ?", (d.id,))
                 con.execute("DELETE FROM blobs WHERE sha256 = ? AND NOT EXISTS "
-                            "(SELECT 1 FROM datasets WHERE sha256 = ?)", (d.sha256, d.sha256))
+                            "(SELECT 1 FROM datasets WHERE sha256 = ?) AND NOT EXISTS "
+                            "(SELECT 1 FROM set_files WHERE sha256 = ?)", (d.sha256, d.sha256, d.sha256))
         return d
 
     def restore(self, dataset_id):

@@ -8,7 +8,7 @@ import hashlib
 import dash
 import numpy as np
 import plotly.graph_objects as go
-from dash import Input, Output, State, callback, dcc, html
+from dash import Input, Output, State, callback, dcc, html, no_update
 
 from thermo.calorimetry import HeatCapacityModel, parse_fixed, read_heat_capacity
 from thermo.calorimetry.report import CAUTIONS, analyse, electronic_comparison
@@ -16,13 +16,13 @@ from thermo.cli.models import parse_fit_range
 from thermo.columns import column_name, find
 from thermo.errors import ModeheatError, OptionError
 
-from .. import cache, session
+from .. import cache, filesets, session
 from ..demo import demo_file, electronic_demo_entry
 from .. import components as c
 from .. import figures as fg
 from .. import intake
 from ..intake import decode_upload
-from ..reporting import reported
+from ..reporting import attempt, reported
 
 PATH, NAME, ORDER = "/calorimetry", "Calorimetry", 7
 
@@ -38,8 +38,13 @@ _PARAM_TEXT = {"theta_D_K": ("θ_D", "K"), "scale": ("frequency scale s", "1"),
                "gamma_J_per_mol_K2": ("γ", "J/(mol K²)"), "dilation_A_mol_per_J": ("A (Nernst–Lindemann)", "mol/J")}
 
 
+#: The demo's entry in the list of measured sets.
+DEMO_LABEL = "invented demo measurement (springium)"
+
+
 def layout(**_query):
-    """The calorimetry page."""
+    """The calorimetry page (opens the measured set opened last in the workspace, else the demo)."""
+    name, files = filesets.last("measured")
     return c.page(
         "Calorimetry", "Measured heat capacity against the DOS: fit lattice, electronic γT and dilation terms "
                        "with uncertainties, and the third-law entropy S°(298.15 K) from data and model.",
@@ -47,8 +52,12 @@ def layout(**_query):
                              children=html.Div(["Drop a measured C_p file here or ", html.U("choose a file"),
                                                 html.Br(), html.Small("columns T [K], C_p, optional standard "
                                                                       "uncertainty; text or .xlsx")])),
-                  html.Button("Use the demo measurement", id="cal-demo", n_clicks=0, className="mh-button")]),
-        dcc.Store(id="cal-measured", storage_type="session"),
+                  html.Button("Use the demo measurement", id="cal-demo", n_clicks=0, className="mh-button"),
+                  c.dropdown("cal-set-choice", filesets.choices("measured", DEMO_LABEL), name or "demo",
+                             "Measured set", hint="uploads are kept in the workspace" if filesets.enabled() else None)]),
+        # with a workspace file the kept set is reopened by the server; without one the tab keeps the file
+        dcc.Store(id="cal-measured", storage_type="memory", data=_entry(*files[0][1:]) if name else None)
+        if filesets.enabled() else dcc.Store(id="cal-measured", storage_type="session"),
         html.P(id="cal-file", className="mh-active-note"),
         c.active_slot("cal"),
         c.controls(
@@ -77,13 +86,30 @@ def layout(**_query):
     )
 
 
-@callback(Output("cal-measured", "data"), Input("cal-upload", "contents"), Input("cal-demo", "n_clicks"),
+@callback(Output("cal-measured", "data"), Output("cal-set-choice", "options"), Output("cal-set-choice", "value"),
+          Input("cal-upload", "contents"), Input("cal-demo", "n_clicks"), Input("cal-set-choice", "value"),
           State("cal-upload", "filename"), prevent_initial_call=True)
-def keep_measured(contents, _clicks, name):
-    """The measured file as a data URL in the browser's session store (size limit from the server)."""
-    if dash.ctx.triggered_id == "cal-demo":
-        return demo_measurement()
-    return uploaded_measurement(contents, name, upload_limit())
+@reported(lambda message: ({"name": "upload", "refused": message}, no_update, no_update))
+def keep_measured(contents, _clicks, choice, name):
+    """The measured file for the page: an upload (kept in the workspace when there is one and it reads),
+    a kept set, or the demo."""
+    trigger = dash.ctx.triggered_id
+    if trigger == "cal-demo" or (trigger == "cal-set-choice" and choice in (None, "demo")):
+        return demo_measurement(), no_update, "demo"
+    if trigger == "cal-set-choice":
+        return _entry(*filesets.reopen("measured", choice)[0][1:]), no_update, no_update
+    entry = uploaded_measurement(contents, name, upload_limit())
+    if entry.get("refused"):
+        return entry, no_update, no_update
+    raw = decode_upload(entry["contents"], entry["name"])
+    _, error = attempt(read_heat_capacity, raw, name=entry["name"])
+    kept = None if error else filesets.keep("measured", [("measured", entry["name"], raw)])[0]
+    return entry, filesets.choices("measured", DEMO_LABEL), kept or no_update
+
+
+def _entry(name, raw):
+    """Store entry of kept bytes."""
+    return {"name": name, "contents": "data:application/octet-stream;base64," + base64.b64encode(raw).decode("ascii")}
 
 
 @callback(Output("cal-terms", "value"), Input("cal-measured", "data"), State("cal-terms", "value"))

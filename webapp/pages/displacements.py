@@ -164,11 +164,10 @@ def layout(**_query):
 
 def _failed(message):
     blank = fg.message_figure("nothing to show for these settings")
-    return (blank,) * 4 + ([], dash.no_update, c.message_items([("error", message)]))
+    return (blank,) * 4 + ([], c.message_items([("error", message)]))
 
 
-@callback(*[Output(g, "figure") for g in _GRAPHS], Output("dw-keys", "children"),
-          Output("dw-active", "children"), Output("dw-messages", "children"),
+@callback(*[Output(g, "figure") for g in _GRAPHS], Output("dw-keys", "children"), Output("dw-messages", "children"),
           Input("mh-workspace", "data"), Input("dw-tmin", "value"), Input("dw-tmax", "value"),
           Input("dw-step", "value"), Input("dw-masses", "value"), Input("dw-distance", "value"))
 @reported(_failed)
@@ -177,11 +176,11 @@ def draw(workspace, t_min, t_max, step, masses_text, distance):
     current = session.active(workspace)
     if current is None:
         blank = fg.message_figure("no dataset loaded")
-        return blank, blank, blank, blank, [], c.active_note(None), []
+        return blank, blank, blank, blank, [], []
     table, summary, notes = results(current, temperature_range(t_min, t_max, step), masses_text, distance)
     messages = notes + [("warn", w) for w in summary["warnings"]]
     d = parse_distance(distance) if distance not in (None, "") else None
-    return (*figures(table, d), key_numbers(summary), c.active_note(current), c.message_items(messages))
+    return (*figures(table, d), key_numbers(summary), c.message_items(messages))
 
 
 @callback(Output("dw-elastic", "children"), Input("mh-workspace", "data"),
@@ -210,5 +209,6 @@ def download(_clicks, workspace, t_min, t_max, step, masses_text, distance, fmt)
     return dcc.send_bytes(content, name), c.message_items([("info", f"prepared {name}")])
 
 
+c.follow_active("dw")
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

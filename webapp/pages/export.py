@@ -84,22 +84,22 @@ def preview_figure(dataset, spec, per, keys):
 
 
 def _no_preview(message):
-    return "", fg.message_figure("nothing to export"), c.message_items([("error", message)]), no_update
+    return "", fg.message_figure("nothing to export"), c.message_items([("error", message)])
 
 
 @callback(Output("ex-preview", "children"), Output("ex-preview-graph", "figure"), Output("ex-messages", "children"),
-          Output("ex-active", "children"), Input("mh-workspace", "data"), Input("ex-temperatures", "value"),
+          Input("mh-workspace", "data"), Input("ex-temperatures", "value"),
           Input("ex-per", "value"), Input("ex-columns", "value"))
 @reported(_no_preview)
 def preview(workspace, spec, per, columns):
     """The first lines of the CSV export and a plot of its first chosen column."""
     current = session.active(workspace)
     if current is None:
-        return "", fg.message_figure("no dataset loaded"), [c.no_data_note()], c.active_note(None)
+        return "", fg.message_figure("no dataset loaded"), [c.no_data_note()]
     _, content = export_bytes(current, spec, per, columns, "csv")
     fig = preview_figure(current, spec, per, columns)
     lines = content.decode("utf-8").splitlines()
-    return "\n".join(lines[:40] + (["…"] if len(lines) > 40 else [])), fig, [], c.active_note(current)
+    return "\n".join(lines[:40] + (["…"] if len(lines) > 40 else [])), fig, []
 
 
 @callback(Output("ex-download", "data"), Output("ex-messages", "children", allow_duplicate=True),
@@ -122,5 +122,6 @@ def image_format(fmt, prefs):
     return {**(prefs or {}), "image_format": fmt if fmt in ("png", "svg") else "png"}
 
 
+c.follow_active("ex")
 c.follow_image_format("ex-preview-graph")
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -138,24 +138,23 @@ def layout(**_query):
 
 
 def _no_choices(message):
-    return [], None, [], None, c.message_items([("error", message)]), dash.no_update
+    return [], None, [], None, c.message_items([("error", message)])
 
 
 @callback(Output("mod-einstein", "options"), Output("mod-einstein", "value"),
           Output("mod-debye", "options"), Output("mod-debye", "value"),
-          Output("mod-theta-table", "children"), Output("mod-active", "children"),
+          Output("mod-theta-table", "children"),
           Input("mh-workspace", "data"), State("mod-einstein", "value"), State("mod-debye", "value"))
 @reported(_no_choices)
 def choices(workspace, einstein_key, debye_key):
     """θ choices of the active dataset (keeping the user's picks when they still exist) and the θ table."""
     current = session.active(workspace)
     if current is None:
-        return [], None, [], None, c.no_data_note(), c.active_note(None)
+        return [], None, [], None, c.no_data_note()
     e_opts, d_opts = theta_options(current, "einstein"), theta_options(current, "debye")
     pick = (lambda opts, key: key if key in [o["value"] for o in opts]
             else (opts[0]["value"] if opts else None))
-    return (e_opts, pick(e_opts, einstein_key), d_opts, pick(d_opts, debye_key), theta_table(current),
-            c.active_note(current))
+    return e_opts, pick(e_opts, einstein_key), d_opts, pick(d_opts, debye_key), theta_table(current)
 
 
 def _failed(message):
@@ -179,5 +178,6 @@ def draw(workspace, einstein_key, debye_key, optical, t_min, t_max, step, per, r
                      residual_key or "heat_capacity_v"), [])
 
 
+c.follow_active("mod")
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -113,17 +113,16 @@ def map_temperatures(t_min, t_max):
     return np.geomspace(lo, hi, MAP_TEMPERATURES)
 
 
-@callback(Output("mm-map-graph", "figure"), Output("mm-active", "children"), Output("mm-messages", "children"),
+@callback(Output("mm-map-graph", "figure"), Output("mm-messages", "children"),
           Input("mh-workspace", "data"), Input("mm-quantity", "value"), Input("mm-tmin", "value"),
           Input("mm-tmax", "value"))
-@reported(lambda message: (fg.message_figure("nothing to show"), dash.no_update,
-                           c.message_items([("error", message)])))
+@reported(lambda message: (fg.message_figure("nothing to show"), c.message_items([("error", message)])))
 def draw_map(workspace, quantity, t_min, t_max):
     """The share heat map for the chosen quantity and temperature range."""
     current = session.active(workspace)
     if current is None:
-        return fg.message_figure("no dataset loaded"), c.active_note(None), []
-    return heat_map_figure(current, map_temperatures(t_min, t_max), quantity), c.active_note(current), []
+        return fg.message_figure("no dataset loaded"), []
+    return heat_map_figure(current, map_temperatures(t_min, t_max), quantity), []
 
 
 @callback(Output("mm-cumulative-graph", "figure"), Output("mm-planck-graph", "figure"),
@@ -144,5 +143,6 @@ def _explorer_or_message(dataset, temperature):
     return explorer_figures(dataset, temperature)
 
 
+c.follow_active("mm")
 c.follow_image_format("mm-map-graph", "mm-cumulative-graph", "mm-planck-graph")
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -131,7 +131,7 @@ def _settings(form, t_min, t_max, t_mid, formation, phase, formula):
 
 def _failed(message):
     blank = fg.message_figure("nothing to show for these settings")
-    return blank, blank, [], "", no_update, c.message_items([("error", message)])
+    return blank, blank, [], "", c.message_items([("error", message)])
 
 
 _SETTINGS = [Input("po-form", "value"), Input("po-tmin", "value"), Input("po-tmax", "value"),
@@ -140,7 +140,7 @@ _SETTINGS = [Input("po-form", "value"), Input("po-tmin", "value"), Input("po-tma
 
 
 @callback(Output("po-fit-graph", "figure"), Output("po-error-graph", "figure"), Output("po-keys", "children"),
-          Output("po-block", "children"), Output("po-active", "children"), Output("po-messages", "children"),
+          Output("po-block", "children"), Output("po-messages", "children"),
           Input("mh-workspace", "data"), *_SETTINGS, Input("po-output", "value"))
 @reported(_failed)
 def draw(workspace, form, t_min, t_max, t_mid, formation, phase, formula, output):
@@ -148,7 +148,7 @@ def draw(workspace, form, t_min, t_max, t_mid, formation, phase, formula, output
     current = session.active(workspace)
     if current is None:
         blank = fg.message_figure("no dataset loaded")
-        return blank, blank, [], "", c.active_note(None), []
+        return blank, blank, [], "", []
     settings = _settings(form, t_min, t_max, t_mid, formation, phase, formula)
     source, fit = fitted(current, *settings)
     over, err = figures(source, fit)
@@ -157,7 +157,7 @@ def draw(workspace, form, t_min, t_max, t_mid, formation, phase, formula, output
         block = export_text(current, fit, output or "json", settings[-1] or None)
     except ModeheatError as exc:  # a format this fit cannot take (SGTE or no formula for YAML): say so
         block, messages = "", messages + [("error", one_line(exc))]
-    return over, err, error_numbers(fit), block, c.active_note(current), c.message_items(messages)
+    return over, err, error_numbers(fit), block, c.message_items(messages)
 
 
 @callback(Output("po-download", "data"), Output("po-messages", "children", allow_duplicate=True),
@@ -179,5 +179,6 @@ def download(_clicks, workspace, form, t_min, t_max, t_mid, formation, phase, fo
     return dcc.send_string(text, name), no_update
 
 
+c.follow_active("po")
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

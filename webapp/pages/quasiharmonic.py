@@ -19,7 +19,7 @@ from thermo.quasiharmonic import (CAUTIONS, free_energy_curves, free_energy_surf
 from thermo.quasiharmonic.report import quasiharmonic_provenance
 from thermo.temperatures import STANDARD_TEMPERATURE, temperature_range, with_standard_temperature
 
-from .. import cache, session
+from .. import cache, filesets, session
 from ..demo import demo_file
 from .. import components as c
 from .. import figures as fg
@@ -53,6 +53,33 @@ def demo_set():
     names = [line.split(",")[2].strip() for line in DEMO_MANIFEST.read_text().splitlines()[3:] if line.strip()]
     return {"manifest": _entry(DEMO_MANIFEST.name, DEMO_MANIFEST.read_bytes()),
             "files": [_entry(n, (folder / n).read_bytes()) for n in names]}
+
+
+#: The demo's entry in the list of volume sets.
+DEMO_LABEL = "invented demo set (springium, 11 volumes)"
+
+
+def set_files(record):
+    """``[(role, name, bytes), ...]`` of a record: the manifest first, then its DOS files."""
+    return [("manifest", record["manifest"]["name"], base64.b64decode(record["manifest"]["content"]))] + \
+        [("dos", f["name"], base64.b64decode(f["content"])) for f in record["files"]]
+
+
+def record_of(files):
+    """The browser-side record of kept files (:func:`set_files` reversed)."""
+    return {"manifest": next(_entry(n, raw) for role, n, raw in files if role == "manifest"),
+            "files": [_entry(n, raw) for role, n, raw in files if role == "dos"]}
+
+
+def _note(record, kept=None):
+    text = f"{record['manifest']['name']} with {len(record['files'])} DOS file(s)"
+    return text + (f", kept in the workspace as {kept}" if kept else "")
+
+
+def opening_set():
+    """``(record, choice)`` a page load starts from: the set opened last in the workspace, else the demo."""
+    name, files = filesets.last("volume")
+    return (record_of(files), name) if name else (demo_set(), "demo")
 
 
 def set_from_uploads(names, contents):
@@ -147,16 +174,19 @@ def figures(table, curves):
 
 
 def layout(**_query):
-    """The quasi-harmonic page."""
+    """The quasi-harmonic page (opens the volume set opened last in the workspace, else the demo)."""
+    record, choice = opening_set()
     return c.page(
         "Quasi-harmonic", "DOS at several volumes plus static lattice energies: F(V,T) = E(V) + F_vib(V,T) "
                           "fitted by an equation of state at each temperature and minimised at pressure p.",
-        dcc.Store(id="qh-set", data=demo_set(), storage_type="memory"),
+        dcc.Store(id="qh-set", data=record, storage_type="memory"),
         c.controls(c.radio("qh-source", SOURCE_CHOICES, "manifest", "Volume set from"),
                    html.Div([dcc.Upload(id="qh-upload", multiple=True, className="mh-upload",
                                         children=html.Span(["Drop or ", html.A("choose"), " the manifest (CSV: "
                                                             "volume_A3, energy_eV, dos_file) together with its DOS files"])),
-                             html.Small(id="qh-set-note", className="mh-hint")], className="mh-field")),
+                             html.Small(_note(record), id="qh-set-note", className="mh-hint")], className="mh-field"),
+                   c.dropdown("qh-set-choice", filesets.choices("volume", DEMO_LABEL), choice, "Volume set",
+                              hint="uploaded sets are kept in the workspace" if filesets.enabled() else None)),
         html.Div(id="qh-datasets-panel", children=[
             html.P("Type the volume and static energy of each loaded dataset (at least 5 rows); rows left "
                    "empty are not used.", className="mh-intro"),
@@ -195,13 +225,22 @@ def layout(**_query):
     )
 
 
-@callback(Output("qh-set", "data"), Output("qh-set-note", "children"), Input("qh-upload", "contents"),
+@callback(Output("qh-set", "data"), Output("qh-set-note", "children"), Output("qh-set-choice", "options"),
+          Output("qh-set-choice", "value"), Input("qh-upload", "contents"), Input("qh-set-choice", "value"),
           State("qh-upload", "filename"), prevent_initial_call=True)
-@reported(lambda message: (no_update, message))
-def uploaded(contents, names):
-    """Keep an uploaded manifest and its DOS files in the browser."""
-    record = set_from_uploads(names, contents)
-    return record, f"{record['manifest']['name']} with {len(record['files'])} DOS file(s)"
+@reported(lambda message: (no_update, message, no_update, no_update))
+def choose_set(contents, choice, names):
+    """Open an uploaded volume set (kept in the workspace when there is one) or a kept one, or the demo."""
+    if dash.ctx.triggered_id == "qh-upload":
+        record = set_from_uploads(names, contents)
+        kept, added = filesets.keep("volume", set_files(record))
+        note = _note(record, kept) + ("" if added or kept is None else " (the same files as before)")
+        return record, note, filesets.choices("volume", DEMO_LABEL), kept or no_update
+    if choice in (None, "demo"):
+        record = demo_set()
+        return record, _note(record), no_update, no_update
+    record = record_of(filesets.reopen("volume", choice))
+    return record, _note(record, choice), no_update, no_update
 
 
 @callback(Output("qh-rows", "data"), Output("qh-datasets-panel", "style"), Input("qh-source", "value"),

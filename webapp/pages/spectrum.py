@@ -2,13 +2,13 @@
 
 from __future__ import annotations
 
-import math
 
 import dash
 from dash import ClientsideFunction, Input, Output, State, callback, clientside_callback, ctx, dcc, html, no_update
 
 from thermo.accuracy.breakdown import FLAG_SPREAD, error_breakdown, error_column
 from thermo.errors import OptionError
+from thermo.preparation.options import ReadingOptions
 from thermo.units import FREQUENCY_UNITS
 
 from .. import cache, intake, session
@@ -82,31 +82,18 @@ def options_from_controls(values, trigger=None, shown_window=(None, None)):
     window, so typed numbers are used rather than wiped; limits equal to
     ``shown_window`` (the automatic window the page filled in) change nothing.
     """
-    atoms = values.get("sp-atoms")
-    if atoms in ("", None):
-        atoms = None
-    else:
-        if not math.isfinite(float(atoms)) or float(atoms) != int(float(atoms)) or int(float(atoms)) < 1:
-            raise OptionError(f"atoms per formula unit must be a whole number >= 1, not {atoms}")
-        atoms = int(float(atoms))
     mode = values.get("sp-lowmode") or "auto"
     lo, hi = values.get("sp-low-lo"), values.get("sp-low-hi")
     if trigger in ("sp-low-lo", "sp-low-hi") and lo is not None and hi is not None \
             and (lo, hi) != tuple(shown_window):
         mode = "manual"
-    if mode == "manual":
-        if lo is None or hi is None:
-            raise OptionError("type both limits of the low-frequency window (THz), e.g. 0.2 and 0.6")
-        if not 0 <= float(lo) < float(hi) < math.inf:
-            raise OptionError(f"the low-frequency window {lo}–{hi} THz needs 0 <= low < high")
-        low = f"{float(lo)}:{float(hi)}"
-    else:
-        low = mode
+    if mode == "manual" and (lo is None or hi is None):
+        raise OptionError("type both limits of the low-frequency window (THz), e.g. 0.2 and 0.6")
     unit = values.get("sp-unit")
-    return {"freq_unit": None if unit in (None, "auto") else unit, "atoms": atoms,
-            "formula": (values.get("sp-formula") or "").strip(),
-            "negative": values.get("sp-negative") or "drop", "low_frequency": low,
-            "sheet": (values.get("sp-sheet") or "").strip() or None}
+    chosen = ReadingOptions(freq_unit=None if unit in (None, "auto") else unit, atoms=values.get("sp-atoms"),
+                            negative=values.get("sp-negative"), low_frequency=(lo, hi) if mode == "manual" else mode,
+                            formula=values.get("sp-formula"), sheet=values.get("sp-sheet"))
+    return chosen.stored()
 
 
 def upload_options(values):

@@ -103,11 +103,11 @@ def layout(**_query):
 
 def _failed(message):
     blank = fg.message_figure("nothing to show for these settings")
-    return (blank,) * 4 + ([], [], dash.no_update, c.message_items([("error", message)]))
+    return (blank,) * 4 + ([], [], c.message_items([("error", message)]))
 
 
 @callback(*[Output(g, "figure") for g in _GRAPHS], Output("th-keys", "children"),
-          Output("th-table", "children"), Output("th-active", "children"), Output("th-messages", "children"),
+          Output("th-table", "children"), Output("th-messages", "children"),
           Input("mh-workspace", "data"), Input("th-tmin", "value"), Input("th-tmax", "value"),
           Input("th-step", "value"), Input("th-per", "value"), Input("th-logt", "value"))
 @reported(_failed)
@@ -116,10 +116,11 @@ def draw(workspace, t_min, t_max, step, per, log_t):
     current = session.active(workspace)
     if current is None:
         blank = fg.message_figure("no dataset loaded")
-        return blank, blank, blank, blank, [], [], c.active_note(None), []
+        return blank, blank, blank, blank, [], [], []
     figs, keys, table = figures(current, temperature_range(t_min, t_max, step), per, bool(log_t))
-    return (*figs, keys, table, c.active_note(current), [])
+    return (*figs, keys, table, [])
 
 
+c.follow_active("th")
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -1,0 +1,280 @@
+r"""Reading options: how a DOS file is read, as one record with its defaults written once.
+
+A :class:`ReadingOptions` holds the six things a user may say about a DOS
+file: the frequency unit, the atoms per formula unit, the imaginary-mode
+policy, the low-frequency form, the worksheet of an ``.xlsx`` file and the
+chemical formula.  A field that was not given is ``None`` — never a copy of
+its default — so that layers of options can be merged without mistaking "the
+user chose the default" for "the user said nothing".
+
+Layers, highest first (see :func:`merged`):
+
+1. an option given *for this one file* (a command-line option beside one
+   input, the Spectrum page's controls applied to the active dataset, a
+   keyword of :func:`~thermo.preparation.loading.load_dos`) — it overrides
+   even what the file states, with a warning;
+2. what the file states itself: the unit of its frequency column's header
+   (or an explicit unit line), the atom count its integral gives;
+3. options *carried* from elsewhere (``batch`` options for many files, the
+   page's controls at the next upload, a dataset's stored settings under the
+   options typed now) — ``fallback`` of :func:`load_dos`, used only where the
+   file says nothing;
+4. :data:`DEFAULTS`.
+
+The same record travels as a dict (:meth:`ReadingOptions.as_dict`) in the
+dashboard's browser state, in the workspace store and in the provenance of
+every export (``dos.source["reading_options"]``).
+
+Examples
+--------
+>>> typed = ReadingOptions(negative="drop")                 # typed now: the default, but given
+>>> stored = ReadingOptions.from_mapping({"negative": "refuse", "freq_unit": "meV"})
+>>> typed.over(stored).resolved().as_dict()["negative"]
+'drop'
+>>> ReadingOptions().over(stored).resolved().freq_unit
+'meV'
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+
+from ..errors import OptionError
+
+#: The fields of the record, in the order they are shown.
+FIELDS = ("freq_unit", "atoms", "negative", "low_frequency", "formula", "sheet")
+#: What each field means when it is not given (the one place defaults are written).
+#: ``None`` here: decided from the file (unit, atoms), the first sheet, no formula.
+DEFAULT_VALUES = {"freq_unit": None, "atoms": None, "negative": "drop", "low_frequency": "auto",
+                  "formula": None, "sheet": None}
+#: The defaults in words, for help texts and page hints.
+DEFAULT_TEXT = {"freq_unit": "as the file's frequency header or unit line states (never guessed)",
+                "atoms": "inferred when the DOS integrates to 3n", "negative": DEFAULT_VALUES["negative"],
+                "low_frequency": DEFAULT_VALUES["low_frequency"], "sheet": "the first sheet",
+                "formula": "none"}
+#: Words meaning "no low-frequency treatment".
+_OFF_WORDS = ("off", "none", "no", "false")
+
+
+def low_frequency_setting(value):
+    """Canonical text of a low-frequency option: ``'auto'``, ``'off'`` or ``'LOW:HIGH'`` [THz].
+
+    Accepts the text forms, ``True``/``False`` and a ``(low, high)`` pair;
+    None stays None (not given).
+
+    Raises
+    ------
+    OptionError
+        For anything else, or a window outside 0 <= low < high <= the largest
+        accepted frequency.
+
+    Examples
+    --------
+    >>> low_frequency_setting("AUTO"), low_frequency_setting(False), low_frequency_setting((0.2, 0.6))
+    ('auto', 'off', '0.2:0.6')
+    """
+    if value is None:
+        return None
+    if value is True or (isinstance(value, str) and value.strip().lower() == "auto"):
+        return "auto"
+    if value is False or (isinstance(value, str) and value.strip().lower() in _OFF_WORDS):
+        return "off"
+    if isinstance(value, str):
+        parts = value.split(":")
+    else:
+        try:
+            parts = list(value)
+        except TypeError:
+            parts = []
+    try:
+        lo, hi = (float(v) for v in parts)
+    except (TypeError, ValueError):
+        raise OptionError(f"low-frequency window {value!r} must be 'auto', 'off' or LOW:HIGH in THz") from None
+    from .validation import MAX_FREQUENCY_THZ
+    if not (0.0 <= lo < hi <= MAX_FREQUENCY_THZ):
+        raise OptionError(f"low-frequency window {value!r} must have 0 <= low < high <= "
+                          f"{MAX_FREQUENCY_THZ:g} THz")
+    return f"{lo!r}:{hi!r}"
+
+
+def low_frequency_window(setting):
+    """The treatment a canonical setting asks for: ``'auto'``, None (off) or ``(low, high)`` [THz].
+
+    Examples
+    --------
+    >>> low_frequency_window("auto"), low_frequency_window("off"), low_frequency_window("0.2:0.6")
+    ('auto', None, (0.2, 0.6))
+    """
+    setting = low_frequency_setting(setting)
+    if setting in ("auto", None):
+        return "auto"
+    if setting == "off":
+        return None
+    lo, hi = (float(v) for v in setting.split(":"))
+    return (lo, hi)
+
+
+def _atoms(value):
+    if value is None or (isinstance(value, str) and not value.strip()):
+        return None
+    from .atoms import MAX_ATOMS
+    try:
+        number = float(value)
+    except (TypeError, ValueError):
+        raise OptionError(f"atoms per formula unit must be a whole number, not {value!r}") from None
+    if not math.isfinite(number) or number != int(number) or number < 1:
+        raise OptionError(f"atoms per formula unit must be a whole number >= 1, not {value!r}")
+    if number > MAX_ATOMS:
+        raise OptionError(f"atoms per formula unit must be at most {MAX_ATOMS:,}, not {value!r}")
+    return int(number)
+
+
+def _sheet(value):
+    if value is None or isinstance(value, bool):
+        return None
+    if isinstance(value, int):
+        if value < 1:
+            raise OptionError(f"sheet numbers start at 1, not {value}")
+        return value
+    text = str(value).strip()
+    return text or None
+
+
+def _text(value):
+    text = "" if value is None else " ".join(str(value).split())
+    return text or None
+
+
+@dataclasses.dataclass(frozen=True)
+class ReadingOptions:
+    """How to read one DOS file; every field None when not given.
+
+    Attributes
+    ----------
+    freq_unit : str or None
+        Unit of the frequency column (a name of :data:`thermo.units.FREQUENCY_UNITS`).
+    atoms : int or None
+        Atoms per formula unit n.
+    negative : str or None
+        Imaginary-mode policy (``drop``, ``drop-unscaled``, ``refuse``).
+    low_frequency : str or None
+        ``auto``, ``off`` or ``LOW:HIGH`` [THz] (see :func:`low_frequency_setting`).
+    formula : str or None
+        Chemical formula of the formula unit (values per gram, masses).
+    sheet : str, int or None
+        Worksheet of an ``.xlsx`` file: name or 1-based number.
+
+    Values are checked and written canonically on construction
+    (:class:`~thermo.errors.OptionError` for a bad one).
+    """
+
+    freq_unit: str | None = None
+    atoms: int | None = None
+    negative: str | None = None
+    low_frequency: str | None = None
+    formula: str | None = None
+    sheet: str | int | None = None
+
+    def __post_init__(self):
+        unit = self.freq_unit
+        if unit is not None:
+            if not str(unit).strip():
+                unit = None
+            else:
+                from ..units import canonical_unit
+                unit = canonical_unit(unit)
+        negative = self.negative
+        if negative is not None:
+            from .imaginary import check_policy
+            negative = check_policy(negative)
+        for name, value in (("freq_unit", unit), ("atoms", _atoms(self.atoms)), ("negative", negative),
+                            ("low_frequency", low_frequency_setting(self.low_frequency)),
+                            ("formula", _text(self.formula)), ("sheet", _sheet(self.sheet))):
+            object.__setattr__(self, name, value)
+
+    # ------------------------------------------------------------------ construction
+    @classmethod
+    def from_mapping(cls, mapping=None):
+        """The record of a dict (browser state, workspace settings, provenance); blanks are not given.
+
+        Raises
+        ------
+        OptionError
+            For a key that is not a reading option, or a bad value.
+        """
+        mapping = dict(mapping or {})
+        unknown = sorted(set(mapping) - set(FIELDS))
+        if unknown:
+            raise OptionError(f"unknown reading option(s): {', '.join(unknown)}")
+        return cls(**{k: (None if isinstance(v, str) and not v.strip() else v) for k, v in mapping.items()})
+
+    @classmethod
+    def from_args(cls, args):
+        """The options given on a command line (parsed ``argparse`` namespace; absent ones are None)."""
+        return cls(**{k: getattr(args, k, None) for k in FIELDS})
+
+    @classmethod
+    def of(cls, dos):
+        """The options a :class:`~thermo.spectrum.PhononDOS` was read with (from its provenance)."""
+        return cls.from_mapping((getattr(dos, "source", None) or {}).get("reading_options"))
+
+    # ------------------------------------------------------------------ merging and views
+    def over(self, *lower):
+        """This record with its gaps filled from ``lower`` records, first one first."""
+        values = self.as_dict()
+        for layer in lower:
+            if layer is None:
+                continue
+            for key, value in dataclasses.asdict(layer).items():
+                if values[key] is None:
+                    values[key] = value
+        return ReadingOptions(**values)
+
+    def resolved(self):
+        """This record with :data:`DEFAULT_VALUES` for what is not given."""
+        return self.over(DEFAULTS)
+
+    def replaced(self, **changes):
+        """A copy with some fields changed (None: not given)."""
+        return dataclasses.replace(self, **changes)
+
+    def as_dict(self) -> dict:
+        """All six fields (None when not given), JSON-able."""
+        return dataclasses.asdict(self)
+
+    def given(self) -> dict:
+        """Only the fields that were given."""
+        return {k: v for k, v in self.as_dict().items() if v is not None}
+
+    def stored(self) -> dict:
+        """The form kept by the workspace store and the dashboard's datasets: resolved, formula ``""`` when none.
+
+        Stored settings are the file's own (a layer below options given
+        later); the blank formula keeps the form of files written before the
+        record existed, so identical settings compare equal.
+        """
+        values = self.resolved().as_dict()
+        values["formula"] = values["formula"] or ""
+        return values
+
+    def differs_from_default(self) -> dict:
+        """Given fields whose value is not the default (for short listings)."""
+        return {k: v for k, v in self.given().items() if v != DEFAULT_VALUES[k]}
+
+
+#: The defaults as a record.
+DEFAULTS = ReadingOptions(**DEFAULT_VALUES)
+
+
+def merged(*layers) -> ReadingOptions:
+    """First given value per field over ``layers`` (highest first; None layers skipped), then defaults.
+
+    Examples
+    --------
+    >>> merged(ReadingOptions(atoms=2), {"atoms": 4, "negative": "refuse"}).as_dict()["atoms"]
+    2
+    """
+    records = [layer if isinstance(layer, ReadingOptions) else ReadingOptions.from_mapping(layer)
+               for layer in layers if layer is not None]
+    return ReadingOptions().over(*records).resolved()
