@@ -14,12 +14,10 @@ The spectra are the invented spring crystal of :mod:`bench.cases`.
 
 from __future__ import annotations
 
-import time
-
 import numpy as np
 
 from . import cases
-from .timing import median_ratio, median_seconds
+from .timing import best_seconds, median_ratio, median_seconds
 
 ROWS = (1_000, 10_000, 100_000, 1_000_000)
 TEMPERATURE_COUNTS = (10, 100, 1_000, 10_000)
@@ -33,17 +31,6 @@ def _text(points):
 
 def _temperatures(count):
     return np.linspace(1.0, 1500.0, count)
-
-
-def _best(fn, repeat):
-    """Least wall time of ``repeat`` calls after a warm-up [s] (the floor of a shared machine's noise)."""
-    fn()
-    times = []
-    for _ in range(repeat):
-        start = time.perf_counter()
-        fn()
-        times.append(time.perf_counter() - start)
-    return min(times)
 
 
 def p14(repeat=7):
@@ -97,11 +84,11 @@ def scaling(quick=False):
     table, loads = {}, {}
     for n in rows:
         text = _text(n)
-        loads[n] = _best(lambda: load_dos(text), repeat)
+        loads[n] = best_seconds(lambda: load_dos(text), repeat)
         dos = load_dos(text)
         for m in counts:
             t = _temperatures(m)
-            table[(n, m)] = _best(lambda: tabulate(dos, t), repeat if n * m < 10 ** 9 else 1)
+            table[(n, m)] = best_seconds(lambda: tabulate(dos, t), repeat if n * m < 10 ** 9 else 1)
     along_rows = slope(rows, [table[(n, counts[-1])] for n in rows])
     along_t = slope(counts, [table[(rows[-1], m)] for m in counts])
     lines = ["rows \\ T " + "".join(f"{m:>10d}" for m in counts) + f"{'load':>10s}"]

@@ -8,15 +8,25 @@ import statistics
 import time
 
 
-def median_seconds(fn, repeat=7):
-    """Median wall time of ``fn()`` over ``repeat`` calls, after one warm-up call [s]."""
+def _timings(fn, repeat):
+    """Wall times of ``repeat`` calls of ``fn()`` after one warm-up call [s]."""
     fn()
     times = []
     for _ in range(repeat):
         start = time.perf_counter()
         fn()
         times.append(time.perf_counter() - start)
-    return statistics.median(times)
+    return times
+
+
+def median_seconds(fn, repeat=7):
+    """Median wall time of ``fn()`` over ``repeat`` calls, after one warm-up call [s]."""
+    return statistics.median(_timings(fn, repeat))
+
+
+def best_seconds(fn, repeat=7):
+    """Least wall time of ``repeat`` calls after a warm-up [s] (the floor of a shared machine's noise)."""
+    return min(_timings(fn, repeat))
 
 
 def median_ratio(numerator, denominator, repeat=15):
