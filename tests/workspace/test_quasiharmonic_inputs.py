@@ -47,3 +47,32 @@ def test_workspace_reference_without_the_dataset_is_one_line(tmp_path):
     assert _run("workspace", "add", VOLUMES / "springium_v01.dat", "--workspace", store)[0] == 0
     code, _, err = _run("quasiharmonic", stored, "--workspace", store)
     assert code == 2 and "missing0" in err and "Traceback" not in err and len(err.strip().splitlines()) == 1
+
+
+def test_manifest_entries_use_each_dataset_stored_reading_options(tmp_path):
+    """Issue 25 (seams): a ``ws:`` entry is read with the options it was stored with, as ``table ws:X`` is.
+
+    The DOS files lose their unit header and are stored with ``--freq-unit THz``; the manifest naming
+    them must give the table of the original files (truth: the same run on the files with their header).
+    """
+    store = tmp_path / "w.sqlite"
+    manifest = VOLUMES / "springium_volumes.csv"
+    lines = manifest.read_text().splitlines()
+    bare = []
+    for path in sorted(VOLUMES.glob("springium_v*.dat")):
+        rows = [r for r in path.read_text().splitlines() if r and not r.startswith("#")][1:]
+        target = tmp_path / path.name
+        target.write_text("\n".join(rows) + "\n")       # numbers only: no unit anywhere
+        bare.append(target)
+    code, _, err = _run("workspace", "add", *bare, "--freq-unit", "THz", "--workspace", store)
+    assert code == 0, err
+    stored = tmp_path / "from_workspace.csv"
+    stored.write_text("\n".join(line.replace("springium_v", "ws:springium_v") if line.endswith(".dat") else line
+                                for line in lines) + "\n")
+    options = ["--temperatures", "0:600:50", "--workspace", store]
+    code_a, from_files, err_a = _run("quasiharmonic", manifest, *options)
+    code_b, from_store, err_b = _run("quasiharmonic", stored, *options)
+    assert code_a == 0 and code_b == 0, err_a + err_b
+    a = pd.read_csv(io.StringIO(from_files), comment="#")
+    b = pd.read_csv(io.StringIO(from_store), comment="#")
+    pd.testing.assert_frame_equal(a, b)

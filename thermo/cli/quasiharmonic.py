@@ -73,7 +73,7 @@ def run(args) -> int:
 
 
 def _workspace_resolver(args):
-    """``ws:NAME`` entries of the manifest read from the workspace (opened on first use)."""
+    """``ws:NAME`` entries of the manifest: ``(bytes, stored settings)`` from the workspace (opened on first use)."""
     from .workspace import REFERENCE_PREFIX, open_space
     opened = {}
 
@@ -81,5 +81,6 @@ def _workspace_resolver(args):
         if "space" not in opened:
             opened["space"] = open_space(args)
         space = opened["space"]
-        return space.content(space.get(str(reference)[len(REFERENCE_PREFIX):]))
+        dataset = space.get(str(reference)[len(REFERENCE_PREFIX):])
+        return space.content(dataset), dataset.settings
     return resolve

@@ -23,7 +23,7 @@ from ..units import FREQUENCY_UNITS, thz_to_unit
 from .plausibility import entropy_298_per_atom, partial_sum_warnings, unit_warnings
 from .validation import check_spectrum
 from .validation import check_magnitudes, check_mode_count
-from .options import ReadingOptions, low_frequency_window
+from .options import ReadingOptions, low_frequency_window, as_record
 
 
 def _mention_note(mentions):
@@ -126,8 +126,8 @@ def load_dos(source, freq_unit=None, atoms=None, negative=None, low_frequency=No
     (1, 3.0)
     """
     explicit = ReadingOptions(freq_unit=freq_unit, atoms=atoms, negative=negative, low_frequency=low_frequency,
-                              sheet=sheet).over(_record(options))
-    carried = _record(fallback)
+                              sheet=sheet).over(as_record(options))
+    carried = as_record(fallback)
     chosen = explicit.over(carried).resolved()
     raw = read_table(source, name=name, sheet=chosen.sheet)
     clean = check_spectrum(raw)
@@ -138,10 +138,6 @@ def load_dos(source, freq_unit=None, atoms=None, negative=None, low_frequency=No
         # a safety net behind the magnitude checks: never a raw numpy error or warning
         raise DosInputError(f"numbers out of the range this DOS can be prepared in ({exc})",
                             clean.source) from None
-
-
-def _record(options):
-    return options if isinstance(options, ReadingOptions) or options is None else ReadingOptions.from_mapping(options)
 
 
 def _atom_count(raw_integral, explicit, carried, src):

@@ -267,6 +267,11 @@ class ReadingOptions:
 DEFAULTS = ReadingOptions(**DEFAULT_VALUES)
 
 
+def as_record(options) -> ReadingOptions | None:
+    """``options`` as a record (a dict is read with :meth:`ReadingOptions.from_mapping`; None stays None)."""
+    return options if isinstance(options, ReadingOptions) or options is None else ReadingOptions.from_mapping(options)
+
+
 def merged(*layers) -> ReadingOptions:
     """First given value per field over ``layers`` (highest first; None layers skipped), then defaults.
 
@@ -275,6 +280,5 @@ def merged(*layers) -> ReadingOptions:
     >>> merged(ReadingOptions(atoms=2), {"atoms": 4, "negative": "refuse"}).as_dict()["atoms"]
     2
     """
-    records = [layer if isinstance(layer, ReadingOptions) else ReadingOptions.from_mapping(layer)
-               for layer in layers if layer is not None]
+    records = [as_record(layer) for layer in layers if layer is not None]
     return ReadingOptions().over(*records).resolved()

@@ -21,6 +21,7 @@ from scipy import constants as sc
 from ..errors import DosInputError, OptionError
 from ..io.readers import COMMENT_CHARS
 from ..preparation.loading import load_dos
+from ..preparation.options import ReadingOptions, as_record
 
 #: eV per unit of each accepted energy column.
 ENERGY_COLUMNS = {
@@ -229,8 +230,10 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative=None,
     name : str, optional
         Display name of the manifest.
     resolve : callable, optional
-        ``resolve(reference) -> bytes`` for ``dos_file`` entries of the form
-        ``ws:NAME`` (datasets of a workspace; the command line passes one).
+        ``resolve(reference) -> (bytes, settings)`` for ``dos_file`` entries of
+        the form ``ws:NAME`` (datasets of a workspace; the command line passes
+        one).  Such a DOS is read with its stored reading options under the
+        ones given here (a given option wins), as ``table ws:NAME`` reads it.
     electronic_options : dict, optional
         Keyword arguments of :func:`thermo.electronic.load_electronic_dos` for the
         files of the optional ``electronic_dos_file`` column (energy unit, Fermi
@@ -274,12 +277,17 @@ def read_manifest(source, files=None, freq_unit=None, atoms=None, negative=None,
     rows = sorted(parse_manifest(text, shown), key=lambda r: r[1])
     check_volumes(np.array([r[1] for r in rows]), np.array([r[2] for r in rows]),
                   [f"line {r[0]}" for r in rows])        # refuse before reading any DOS
+    given = ReadingOptions(freq_unit=freq_unit, atoms=atoms, negative=negative, low_frequency=low_frequency).over(
+        as_record(options))
     entries = []
     for line, volume, energy, dos_file, electronic_file in rows:
         content, label = _content(dos_file, "dos_file", line, shown, folder, uploads if files is not None else None,
                                   resolve)
-        dos = load_dos(content, freq_unit=freq_unit, atoms=atoms, negative=negative,
-                       low_frequency=low_frequency, name=label, options=options)
+        reading = given
+        if isinstance(content, tuple):                  # a workspace dataset: (bytes, stored settings)
+            content, kept = content
+            reading = given.over(ReadingOptions.from_mapping(kept))
+        dos = load_dos(content, name=label, options=reading)
         entry = (volume, energy, dos, label)
         if electronic_file is not None:
             from ..electronic import load_electronic_dos
