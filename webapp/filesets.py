@@ -18,6 +18,8 @@ from . import persistence
 
 #: Space setting holding the name of the set of ``kind`` opened last.
 _OPEN = "open_{kind}_set"
+#: Space setting holding the values typed beside loaded datasets for a set of ``kind``.
+_TYPED = "typed_{kind}_values"
 
 
 def enabled() -> bool:
@@ -67,6 +69,30 @@ def last(kind):
     if name not in [s.name for s in stored.file_sets(space, kind)]:
         return None, None
     return name, stored.set_contents(space, name)
+
+
+def typed_values(kind):
+    """``{dataset sha256: {column: value}}`` typed beside loaded datasets for ``kind`` ({} without a workspace file)."""
+    if not enabled():
+        return {}
+    return dict(_space().setting(_TYPED.format(kind=kind), {}) or {})
+
+
+def keep_typed_values(kind, rows, datasets):
+    """Keep the values of ``rows`` (``id`` + columns) by the bytes of their dataset; True when kept.
+
+    A dataset is named by its content's sha256, so the values come back
+    after a reload, a server restart or the same file uploaded again.
+    """
+    if not enabled():
+        return False
+    digest = {d["id"]: d["sha256"] for d in datasets or []}
+    values = typed_values(kind)
+    for row in rows or []:
+        if row.get("id") in digest:
+            values[digest[row["id"]]] = {k: v for k, v in row.items() if k not in ("id", "name")}
+    _space().set_setting(_TYPED.format(kind=kind), values)
+    return True
 
 
 def choices(kind, demo_label):

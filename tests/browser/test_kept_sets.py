@@ -97,3 +97,50 @@ def test_sets_are_listed_and_reopened_after_reload_and_restart(tmp_path, browser
         assert listed == ["invented demo measurement (springium)", "my_cp.csv"]
     finally:
         _stop(server)
+
+
+def _cell(driver, row, column):
+    return driver.find_element(By.CSS_SELECTOR, f'#qh-rows td[data-dash-row="{row}"][data-dash-column="{column}"]')
+
+
+def _typed(driver, row):
+    try:
+        return _cell(driver, row, "volume_A3").text.strip(), _cell(driver, row, "energy_eV").text.strip()
+    except Exception:  # noqa: BLE001 - table not drawn yet
+        return None
+
+
+def _datasets_source(driver):
+    driver.get(URL + "/quasiharmonic")
+    until(lambda: "springium_volumes.csv" in text_of(driver, "#qh-set-note"), 60)
+    next(e for e in driver.find_elements(By.CSS_SELECTOR, "#qh-source label")
+         if e.text.startswith("loaded datasets")).click()
+    until(lambda: _typed(driver, 0) is not None, 30)
+
+
+def test_values_typed_beside_loaded_datasets_survive_reload_and_restart(tmp_path, browsers):  # noqa: F811
+    """Issue 25, item 7: a volume set built on the page from loaded datasets is kept as typed.
+
+    The values typed are the check: they must read back the same after a reload and after a restart.
+    """
+    from selenium.webdriver.common.action_chains import ActionChains
+    from selenium.webdriver.common.keys import Keys
+    w = tmp_path / "w.sqlite"
+    server = _serve(w)
+    try:
+        driver = browsers()
+        _datasets_source(driver)
+        for column, value in (("volume_A3", "16.5"), ("energy_eV", "-0.25")):
+            _cell(driver, 0, column).click()
+            ActionChains(driver).send_keys(value).send_keys(Keys.ENTER).perform()
+        until(lambda: _typed(driver, 0) == ("16.5", "-0.25"), 30)
+        until(lambda: "kept in the workspace" in text_of(driver, "#qh-rows-kept"), 30)
+        for restart in (False, True):
+            if restart:
+                _stop(server)
+                server = _serve(w)
+            _datasets_source(driver)
+            until(lambda: _typed(driver, 0) == ("16.5", "-0.25"), 30)
+            assert _typed(driver, 1) == ("", "")          # nothing typed there, nothing invented
+    finally:
+        _stop(server)

@@ -195,7 +195,8 @@ def layout(**_query):
                                           {"name": "V [Å³ per formula unit]", "id": "volume_A3", "type": "numeric"},
                                           {"name": "E static [eV per formula unit]", "id": "energy_eV",
                                            "type": "numeric"}],
-                                 style_table={"maxWidth": "720px"})], style={"display": "none"}),
+                                 style_table={"maxWidth": "720px"}),
+            html.Small(id="qh-rows-kept", className="mh-hint")], style={"display": "none"}),
         c.controls(*c.temperature_fields("qh", 0, 1000, 10),
                    c.number("qh-pressure", 0, "pressure p [GPa]"),
                    c.radio("qh-eos", EOS_CHOICES, "birch-murnaghan", "Equation of state"),
@@ -246,11 +247,26 @@ def choose_set(contents, choice, names):
 @callback(Output("qh-rows", "data"), Output("qh-datasets-panel", "style"), Input("qh-source", "value"),
           Input("mh-workspace", "data"), State("qh-rows", "data"))
 def dataset_rows(source, workspace, rows):
-    """One editable row per loaded dataset (typed values kept)."""
+    """One editable row per loaded dataset; typed values kept (in the workspace too, by dataset content)."""
+    kept = filesets.typed_values("volume")
     typed = {r.get("id"): r for r in rows or []}
-    data = [{"id": d["id"], "name": d["name"], "volume_A3": typed.get(d["id"], {}).get("volume_A3"),
-             "energy_eV": typed.get(d["id"], {}).get("energy_eV")} for d in (workspace or {}).get("datasets", [])]
+    data = []
+    for d in (workspace or {}).get("datasets", []):
+        row = {**kept.get(d.get("sha256"), {}),
+               **{k: v for k, v in typed.get(d["id"], {}).items() if v not in (None, "")}}
+        data.append({"id": d["id"], "name": d["name"], "volume_A3": row.get("volume_A3"),
+                     "energy_eV": row.get("energy_eV")})
     return data, ({} if source == "datasets" else {"display": "none"})
+
+
+@callback(Output("qh-rows-kept", "children"), Input("qh-rows", "data_timestamp"), State("qh-rows", "data"),
+          State("mh-workspace", "data"), prevent_initial_call=True)
+@reported(lambda message: message)
+def keep_rows(_edited, rows, workspace):
+    """Keep the typed volumes and energies in the workspace (said beside the table)."""
+    if filesets.keep_typed_values("volume", rows, (workspace or {}).get("datasets")):
+        return "typed values kept in the workspace"
+    return "typed values are kept in this page only (the server keeps no workspace file)"
 
 
 def _failed(message):
