@@ -10,7 +10,7 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-from dash.testing.wait import until
+from tests.browser.waits import until
 from scipy import constants as sc
 from selenium.webdriver.common.by import By
 

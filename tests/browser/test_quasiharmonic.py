@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-from dash.testing.wait import until
+from tests.browser.waits import until
 from selenium.webdriver.common.by import By
 
 from tests.browser.test_dashboard import drawn, js_graph, no_console_errors, values, wait_drawn
