@@ -78,7 +78,8 @@ def values(driver, graph_id, trace=0):
 
 
 def upload(driver, *paths):
-    field = driver.find_element(By.CSS_SELECTOR, "#mh-upload input[type=file]")
+    """Send ``paths`` to the upload field once the page has drawn it (right after ``get`` it may not be)."""
+    field = until(lambda: driver.find_element(By.CSS_SELECTOR, "#mh-upload input[type=file]"))
     field.send_keys("\n".join(str(p) for p in paths))
 
 

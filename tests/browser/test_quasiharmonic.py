@@ -38,7 +38,7 @@ def messages(driver):
 
 
 def upload(driver, paths):
-    field = driver.find_element(By.CSS_SELECTOR, "#qh-upload input[type=file]")
+    field = until(lambda: driver.find_element(By.CSS_SELECTOR, "#qh-upload input[type=file]"))
     driver.execute_script("arguments[0].value = '';", field)   # chromedriver appends to a multiple input
     field.send_keys("\n".join(str(p) for p in paths))
 
