@@ -8,7 +8,7 @@ PORT   ?= 8050
 # pytest-xdist workers of `make test`
 WORKERS ?= 2
 
-.PHONY: run test bench bench-json bench-quick demo-data clean
+.PHONY: run test docs bench bench-json bench-quick demo-data clean
 
 $(VENV)/.installed: requirements.txt
 	$(PYTHON) -m venv $(VENV) || { echo "make: '$(PYTHON) -m venv' failed; run: sudo apt-get install python3-venv" >&2; exit 1; }
@@ -17,7 +17,7 @@ $(VENV)/.installed: requirements.txt
 	$(PY) -m pip install --quiet --no-deps -e .
 	touch $@
 
-$(VENV)/.test-installed: $(VENV)/.installed requirements-test.txt
+$(VENV)/.test-installed: $(VENV)/.installed requirements-test.txt requirements-docs.txt
 	$(PY) -m pip install --quiet -r requirements-test.txt
 	touch $@
 
@@ -33,6 +33,9 @@ test: $(VENV)/.test-installed
 	  $(PY) -m pytest -q --headless -n $(WORKERS) -m "not browser"; \
 	  echo "make test: FAILED: the browser tests did not run (Chromium/chromedriver missing, see above)" >&2; exit 1; \
 	fi
+
+docs: $(VENV)/.test-installed         ## the documentation site in build/site (no warnings allowed)
+	$(VENV)/bin/mkdocs build --strict
 
 bench: $(VENV)/.test-installed        ## every performance figure (p1-p13), readable (several minutes)
 	$(PY) -m bench
