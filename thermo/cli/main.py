@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import sqlite3
 import sys
 
 from .. import __version__
@@ -39,6 +40,10 @@ def main(argv=None) -> int:
         return int(args.func(args) or 0)
     except ModeheatError as exc:
         print(f"error: {exc}", file=sys.stderr)
+        return 2
+    except sqlite3.DatabaseError as exc:          # a storage failure outside a transaction (disk, permissions)
+        from ..workspace.schema import storage_message
+        print(f"error: {storage_message(exc)}", file=sys.stderr)
         return 2
     except OSError as exc:
         print(f"error: {exc.strerror or exc}: {exc.filename or ''}".rstrip(": "), file=sys.stderr)
