@@ -39,7 +39,8 @@ def main(argv=None) -> int:
     try:
         return int(args.func(args) or 0)
     except ModeheatError as exc:
-        print(f"error: {exc}", file=sys.stderr)
+        from ..io.inert import inert_text
+        print(f"error: {inert_text(exc)}", file=sys.stderr)
         return 2
     except sqlite3.DatabaseError as exc:          # a storage failure outside a transaction (disk, permissions)
         from ..workspace.schema import storage_message
