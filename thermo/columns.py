@@ -342,3 +342,21 @@ register_quantity("helmholtz_energy_total", "F_vib+el", "energy",
 #: Quantities of the electronic table, in column order.
 ELECTRONIC = ("temperature", "heat_capacity_electronic", "entropy_electronic", "internal_energy_electronic",
               "helmholtz_energy_electronic", "chemical_potential_shift")
+# --- phase comparison (thermo.phases) ---
+register_quantity("phase", "phase", "fixed", description="name of a phase")
+register_quantity("reference_phase", "reference", "fixed", description="phase the differences are taken against")
+register_quantity("pressure", "p", "fixed", "GPa", "GPa", "pressure")
+register_quantity("helmholtz_energy_difference", "ΔF", "energy",
+                  description="Helmholtz energy of the phase minus the reference phase (fixed volumes)")
+register_quantity("gibbs_energy_difference", "ΔG", "energy",
+                  description="Gibbs energy of the phase minus the reference phase")
+register_quantity("entropy_difference", "ΔS", "entropy", description="entropy of the phase minus the reference phase")
+register_quantity("enthalpy_difference", "ΔH", "energy",
+                  description="enthalpy (ΔG + TΔS) of the phase minus the reference phase")
+register_quantity("volume_difference", "ΔV", "fixed", "Å³", "A3",
+                  description="volume of the phase minus the reference phase (per atom or per common formula unit)")
+register_quantity("stable_phase", "stable", "fixed", description="phase with the lowest G (F) at this row")
+register_quantity("stable_phase_decided", "decided", "fixed",
+                  description="False where the lowest G is within the estimated errors of another phase's")
+for _key in ("helmholtz_energy_difference", "gibbs_energy_difference"):
+    register_error(_key)
