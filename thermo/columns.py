@@ -312,13 +312,19 @@ register_quantity("enthalpy_from_zero_error", "u(H°−H°(0))", "energy",
 for _key, _symbol, _kind in (("heat_capacity_v", "C_v", "entropy"), ("entropy", "S", "entropy"),
                              ("internal_energy", "U", "energy"), ("helmholtz_energy", "F", "energy")):
     for _part, _what in (("numerical", "numerical (grid-halving) error"),
-                         ("low_frequency", "low-frequency (ν² treatment) error")):
+                         ("low_frequency", "low-frequency (ν² treatment) error"),
+                         ("resolution", "error from the modes below the resolved frequency"),
+                         ("smearing", "smearing/binning error")):
         register_quantity(f"{_key}_{_part}_error", f"δ{_symbol} {_part}", _kind,
                           description=f"{_what} of {_symbol}")
         register_quantity(f"{_key}_{_part}_relative_error", f"δ{_symbol}/{_symbol} {_part}", "fixed", "1",
                           description=f"{_what} of {_symbol}, relative to |{_symbol}|")
 register_quantity("low_frequency_flag", "flag", "fixed", "",
                   description="low-frequency spread of C_v or S over 1 %")
+register_quantity("error_flag", "flag", "fixed", "",
+                  description="estimated error of C_v or S over 1 % (error_reason says why)")
+register_quantity("error_reason", "why", "fixed", "",
+                  description="largest part of the estimated error of a flagged row")
 # --- electronic term of metals (thermo.electronic) ---
 register_quantity("entropy_electronic", "S_el", "entropy", description="electronic entropy from an electronic DOS")
 register_quantity("internal_energy_electronic", "U_el", "energy",

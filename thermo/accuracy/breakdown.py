@@ -11,8 +11,17 @@ automatic window placed at half and at twice its mode count, the fit's
 standard error of :math:`A` carried through the analytic part, and, when the
 treatment was switched off or set by hand, the automatic treatment.
 
-Both are given absolute (in the table's units) and relative to the value
-itself (no floor, so small values near T = 0 are judged too).
+*Resolution* and *smearing* (:mod:`.resolution`): what a sampled DOS
+cannot say — the modes below its lowest resolved frequency (first q-shell,
+smearing width, bin width), bounded through the cumulative count, and the
+change of the table when the data are smeared once more.  They are there
+whether or not the ν² treatment is on, so the low-frequency error never
+drops out when the fit switches itself off.
+
+All parts are given absolute (in the table's units) and relative to the value
+itself (no floor, so small values near T = 0 are judged too).  A row whose
+combined relative error of C_v or S exceeds :data:`FLAG_SPREAD` is flagged
+with the reason (the largest part).
 
 References
 ----------
@@ -25,7 +34,7 @@ from __future__ import annotations
 import numpy as np
 import pandas as pd
 
-from ..columns import column_name
+from ..columns import column_name, lookup
 from ..kernels.nu2 import analytic_part_sums
 
 from ..kernels.quadrature import mode_weights
@@ -34,12 +43,18 @@ from ..preparation.imaginary import split_at_zero
 from ..preparation.loading import treat_spectrum
 from ..preparation.lowfreq import WINDOW_MODES, WINDOW_SPREAD
 from ..spectrum import PhononDOS
+from .resolution import analyse_resolution, resolution_parts
 from scipy import constants as sc
 
 #: Quantities of the breakdown, in the order of :func:`thermo.kernels.sums.molar_values`.
 QUANTITIES = ("heat_capacity_v", "entropy", "internal_energy", "helmholtz_energy")
-#: Relative low-frequency spread above which a row is flagged.
+#: Relative low-frequency spread (and combined error) above which a row is flagged.
 FLAG_SPREAD = 0.01
+#: Parts of the breakdown, each a column per quantity.
+PARTS = ("numerical", "low_frequency", "resolution", "smearing")
+#: What each part means, for the reason of a flagged row.
+REASONS = {"numerical": "numerical (grid halving)", "low_frequency": "low-frequency ν² treatment",
+           "resolution": "modes below the resolved frequency", "smearing": "smearing/binning of the data"}
 _ENERGY = (False, False, True, True)
 
 
@@ -118,18 +133,23 @@ def error_breakdown(dos, temperatures):
     -------
     pandas.DataFrame
         ``temperature_K``; for each quantity ``q`` of :data:`QUANTITIES`
-        its value and its numerical and low-frequency errors (per mole of
-        formula units: J/(mol·K), kJ/mol) and their relative forms [1],
-        named by :func:`error_column`; ``low_frequency_flag``, True where the
-        relative low-frequency part of C_v or S exceeds 1 %.
+        its value and its numerical, low-frequency, resolution and smearing
+        errors (per mole of formula units: J/(mol·K), kJ/mol) and their
+        relative forms [1], named by :func:`error_column`;
+        ``low_frequency_flag``, True where the relative low-frequency part
+        of C_v or S exceeds 1 %; ``error_flag`` and ``error_reason``, where
+        the combined relative error of C_v or S exceeds 1 %, and why;
+        ``attrs["resolution"]``: what the data resolve
+        (:meth:`~thermo.accuracy.resolution.Resolution.as_dict`).
 
     Notes
     -----
     :math:`\delta_{num} = \max_{k=0,1} |Q_h - Q_{2h}^{(k)}|` over the two interleaved
     half grids (rows 0, 2, 4, … and 1, 3, 5, …, each re-prepared with its own fit);
     :math:`\delta_{lf} = \max_w |Q_w - Q| + |\partial Q/\partial A|\,\sigma_A`
-    over the alternative treatments w; relative: :math:`\delta/|Q|` (0 where
-    Q = 0, at T = 0).
+    over the alternative treatments w; resolution and smearing parts as in
+    :func:`~thermo.accuracy.resolution.resolution_parts`; relative:
+    :math:`\delta/|Q|` (0 where Q = 0, at T = 0).
 
     References
     ----------
@@ -162,20 +182,46 @@ def error_breakdown(dos, temperatures):
         if alt is not None and (alt.low_frequency is not None or fit is not None):
             spread = np.maximum(spread, np.abs(_values(alt, t) - base))
     low = spread + _fit_part(dos, t)
+    resolution = analyse_resolution(dos)
+    res, smear = resolution_parts(dos, t, resolution)
+    parts = {"numerical": numerical, "low_frequency": low, "resolution": res, "smearing": smear}
     columns = {column_name("temperature"): t}
     with np.errstate(divide="ignore", invalid="ignore"):
         for i, key in enumerate(QUANTITIES):
             k = 1e-3 if _ENERGY[i] else 1.0
             value = base[i]
             columns[column_name(key)] = value * k
-            for part, err in (("numerical", numerical[i]), ("low_frequency", low[i])):
+            for part in PARTS:
+                err = parts[part][i]
                 columns[error_column(key, part)] = err * k
                 columns[error_column(key, part, relative=True)] = np.where(value != 0, err / np.abs(value), 0.0)
     df = pd.DataFrame(columns)
     df[column_name("low_frequency_flag")] = (
         (df[error_column("heat_capacity_v", "low_frequency", True)] > FLAG_SPREAD)
         | (df[error_column("entropy", "low_frequency", True)] > FLAG_SPREAD))
+    df[column_name("error_flag")], df[column_name("error_reason")] = _flags(df, resolution)
+    df.attrs["resolution"] = None if resolution is None else resolution.as_dict()
     return df
+
+
+def _flags(df, resolution):
+    """(flag, reason) per row: combined relative error of C_v or S above FLAG_SPREAD, and its largest part."""
+    flag = np.zeros(len(df), dtype=bool)
+    reason = np.full(len(df), "", dtype=object)
+    worst = np.zeros(len(df))
+    for key in ("heat_capacity_v", "entropy"):
+        rel = np.array([df[error_column(key, p, True)].to_numpy() for p in PARTS])
+        total = rel.sum(axis=0)
+        for j in np.flatnonzero((total > FLAG_SPREAD) & (total > worst)):
+            worst[j] = total[j]
+            part = PARTS[int(np.argmax(rel[:, j]))]
+            text = f"{lookup(column_name(key)).quantity.symbol} ±{100 * total[j]:.2g} %: {REASONS[part]}"
+            if part == "resolution" and resolution is not None:
+                text += (f" ({resolution.resolved_thz:.3g} THz; the data do not determine the table below "
+                         f"{resolution.undetermined_below_k:.3g} K)")
+            reason[j] = text
+        flag |= total > FLAG_SPREAD
+    return flag, reason
 
 
 def error_column(key, part, relative=False):
@@ -206,7 +252,7 @@ def estimated_relative_error(dos, temperatures, breakdown=None):
     Returns
     -------
     float
-        :math:`\max (\delta_{num} + \delta_{lf})/|Q|` over C_v, S and U at
+        :math:`\max (\delta_{num} + \delta_{lf} + \delta_{res} + \delta_{sm})/|Q|` over C_v, S and U at
         every T > 0, and over F relative to :math:`|U|` (F crosses zero) [1].
 
     Examples
@@ -224,7 +270,7 @@ def estimated_relative_error(dos, temperatures, breakdown=None):
     worst = 0.0
     energy = np.abs(b[column_name("internal_energy")].to_numpy()[hot])
     for key in QUANTITIES:
-        total = (b[error_column(key, "numerical")] + b[error_column(key, "low_frequency")]).to_numpy()[hot]
+        total = sum(b[error_column(key, p)] for p in PARTS if error_column(key, p) in b).to_numpy()[hot]
         ref = energy if key == "helmholtz_energy" else np.abs(b[column_name(key)].to_numpy()[hot])
         with np.errstate(divide="ignore", invalid="ignore"):
             rel = np.where(ref > 0, total / ref, 0.0)
@@ -247,7 +293,9 @@ def breakdown_summary(breakdown):
     out = {}
     for key in QUANTITIES:
         entry = {}
-        for part in ("numerical", "low_frequency"):
+        for part in PARTS:
+            if error_column(key, part, relative=True) not in breakdown:
+                continue
             rel = breakdown[error_column(key, part, relative=True)].to_numpy()
             i = int(np.argmax(rel)) if rel.size else 0
             entry[part] = {"max_relative": float(rel[i]) if rel.size else 0.0,
@@ -255,4 +303,8 @@ def breakdown_summary(breakdown):
                            "max_absolute": float(breakdown[error_column(key, part)].max())}
         out[key] = entry
     out["flagged_temperatures_K"] = [float(v) for v in t[breakdown[column_name("low_frequency_flag")].to_numpy()]]
+    if column_name("error_flag") in breakdown:
+        flagged = breakdown[column_name("error_flag")].to_numpy()
+        out["error_flagged_temperatures_K"] = [float(v) for v in t[flagged]]
+    out["resolution"] = breakdown.attrs.get("resolution")
     return out

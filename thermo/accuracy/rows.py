@@ -2,7 +2,7 @@
 
 The one entry point other capabilities use (the quasi-harmonic step carries
 these errors from every volume into V, α, B_T, C_p, G).  Today it adds the
-two parts of :func:`thermo.accuracy.breakdown.error_breakdown`; when the
+parts of :func:`thermo.accuracy.breakdown.error_breakdown`; when the
 harmonic estimate changes, only this function is re-pointed.
 """
 
@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .breakdown import QUANTITIES, error_breakdown, error_column
+from .breakdown import PARTS, QUANTITIES, error_breakdown, error_column
 
 #: Factor from the breakdown's column units to SI (kJ/mol -> J/mol for the energies).
 _TO_SI = {"heat_capacity_v": 1.0, "entropy": 1.0, "internal_energy": 1e3, "helmholtz_energy": 1e3}
@@ -35,8 +35,9 @@ def harmonic_row_errors(dos, temperatures):
 
     Notes
     -----
-    :math:`\delta Q = \delta_{num} + \delta_{lf}`, the numerical (grid-halving)
-    and low-frequency parts of :func:`~thermo.accuracy.breakdown.error_breakdown`.
+    :math:`\delta Q = \delta_{num} + \delta_{lf} + \delta_{res} + \delta_{sm}`, the
+    numerical (grid-halving), low-frequency, resolution and smearing parts of
+    :func:`~thermo.accuracy.breakdown.error_breakdown`.
 
     Examples
     --------
@@ -47,5 +48,4 @@ def harmonic_row_errors(dos, temperatures):
     (['entropy', 'heat_capacity_v', 'helmholtz_energy', 'internal_energy'], True)
     """
     b = error_breakdown(dos, temperatures)
-    return {key: _TO_SI[key] * (b[error_column(key, "numerical")].to_numpy()
-                                + b[error_column(key, "low_frequency")].to_numpy()) for key in QUANTITIES}
+    return {key: _TO_SI[key] * sum(b[error_column(key, p)].to_numpy() for p in PARTS) for key in QUANTITIES}

@@ -1,0 +1,350 @@
+r"""What a sampled DOS resolves, and the resolution and smearing parts of a table's error.
+
+A DOS from a q-point mesh is a sum of modes at the mesh points, smeared
+(Gaussian of width σ) or binned (histogram of width Δ).  It says nothing
+about the modes below its lowest resolved frequency :math:`\nu_r` (the first
+q-shell, a few smearing widths, a few bins), and above it the mesh's shells
+and the smearing move modes by up to a shell spacing or a width.
+
+Both errors are bounded through the cumulative count
+:math:`N(\nu)=\int_0^\nu g`: for a kernel :math:`K` (per mode) and any two
+spectra with the same mode count, integration by parts gives
+
+.. math:: \Big|\int K\,dN_1 - \int K\,dN_2\Big| \le \int |K'(\nu)|\,|N_1-N_2|\,d\nu ,
+
+so a bound :math:`D(\nu) \ge |N_{table}-N_{true}|` gives an error bound per
+quantity and temperature:
+
+* *resolution* (:math:`\nu<\nu_r`): :math:`D = \max(N_{table}, \gamma N_{D})`, with
+  :math:`N_D = A\nu^3/3` the ν³ law fitted to the cumulative count above
+  :math:`\nu_r` (far less sensitive to mesh combs than :math:`g/\nu^2`) and
+  :math:`\gamma` = :data:`MODEL_FACTOR`;
+* *smearing* (:math:`\nu\ge\nu_r`): twice the change of the table,
+  :math:`2|\int K\,d(N_{data}-N_{data}*G_{\sigma_e})|`, when the data are
+  smeared once more by :math:`\sigma_e=\sqrt2\,\max(\sigma,\Delta,h)`
+  (none when no smearing or binning is seen; the grid step is then the
+  numerical part's):
+  to first order that change equals the error of the smearing the data
+  carry (Richardson's argument applied to σ², [2]_); it also sees the comb
+  of the shells.
+
+References
+----------
+.. [1] N. W. Ashcroft and N. D. Mermin, *Solid State Physics* (Saunders, 1976),
+   ch. 23 (the T³ law of the long-wave modes).
+.. [2] L. F. Richardson, Phil. Trans. R. Soc. A 226, 299 (1927).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+import numpy as np
+from scipy import constants as sc
+
+from ..kernels.planck import H_OVER_K_THZ
+
+#: The ν³ law below the resolved limit is trusted to this factor (the true count may exceed the fit's).
+MODEL_FACTOR = 2.0
+#: Most points of the fine frequency grid of the bounds.
+GRID_POINTS = 4000
+#: Safety factor on the resolution bound (its ν³ law and count below ν_r are estimates).
+RESOLUTION_SAFETY = 1.25
+#: The smearing part is this many times the change of the table under the extra smearing (σ_e = √2 σ:
+#: to first order the change equals the smearing error itself).
+SMEARING_FACTOR = 2.0
+#: The smearing part at T is the largest change over T/ENVELOPE … T·ENVELOPE (the signed change crosses zero).
+ENVELOPE = 1.3
+ENVELOPE_POINTS = 60
+#: The table is not determined by the data below h·ν_r/(k_B · this) (as for a mode list).
+RESOLVED_DIVISOR = 5.0
+#: Share of the modes below the top of the ν³ fit window [1].
+FIT_SHARE = 0.05
+#: The data follow the ν³ law above ν_r within this factor.
+LAW_BAND = 2.0
+_J_PER_MOL_PER_THZ = sc.h * 1e12 * sc.N_A
+
+
+@dataclass(frozen=True)
+class Resolution:
+    """What a sampled DOS resolves.
+
+    Attributes
+    ----------
+    kind : {'histogram', 'gaussian', 'plain'}
+        Histogram of bin centres, Gaussian-smeared mesh DOS (smearing seen in
+        its lowest feature), or neither seen.
+    width_thz : float
+        Bin width, smearing σ, or 0 [THz].
+    step_thz : float
+        Grid step of the data [THz].
+    resolved_thz : float
+        Lowest frequency the data resolve, ν_r [THz].
+    coefficient : float
+        A of the ν³ law N = Aν³/3 fitted to the cumulative count above ν_r [modes/THz³].
+    undetermined_below_k : float
+        Below this temperature the table is not determined by the data [K].
+    """
+
+    kind: str
+    width_thz: float
+    step_thz: float
+    resolved_thz: float
+    coefficient: float
+    undetermined_below_k: float
+
+    def as_dict(self):
+        """JSON-able record."""
+        return {"kind": self.kind, "width_THz": self.width_thz, "step_THz": self.step_thz,
+                "resolved_THz": self.resolved_thz, "cumulative_nu3_coefficient": self.coefficient,
+                "undetermined_below_K": self.undetermined_below_k}
+
+
+def _data(dos):
+    """(ν, g) of the positive-frequency data as read (scaled), or of the table."""
+    if dos.input_frequency_thz is not None and dos.input_dos is not None:
+        nu, g = np.asarray(dos.input_frequency_thz, float), np.asarray(dos.input_dos, float)
+    else:
+        nu, g = np.asarray(dos.frequency_thz, float), np.asarray(dos.dos, float)
+    keep = nu >= 0
+    return nu[keep], np.clip(g[keep], 0.0, None)
+
+
+def is_histogram(nu):
+    """True when the grid is uniform and starts half a step above zero (bin centres).
+
+    Examples
+    --------
+    >>> is_histogram(np.arange(10) * 0.05 + 0.025), is_histogram(np.arange(10) * 0.05)
+    (True, False)
+    """
+    nu = np.asarray(nu, float)
+    if nu.size < 4:
+        return False
+    step = np.diff(nu)
+    h = float(np.median(step))
+    return bool(h > 0 and np.all(np.abs(step - h) <= 1e-3 * h) and abs(nu[0] - h / 2) <= 1e-3 * h)
+
+
+def _gaussian_width(nu, g):
+    """(σ, centre) of the lowest feature when it is a Gaussian (half-Gaussian at 0 or a rising tail), else (0, 0)."""
+    pos = np.flatnonzero(g > 0)
+    if pos.size < 4:
+        return 0.0, 0.0
+    i0 = pos[0]
+    # a maximum at the start: Γ's modes smeared into a half Gaussian
+    if g[i0] > 0 and (i0 + 1 < g.size) and g[i0 + 1] < g[i0]:
+        j = i0 + 1
+        while j + 1 < g.size and 0 < g[j + 1] < g[j]:
+            j += 1
+        sel = np.arange(i0, j + 1)
+        sel = sel[g[sel] > 1e-8 * g[i0]]
+        if sel.size >= 3:
+            slope = np.polyfit(nu[sel] ** 2, np.log(g[sel]), 1)[0]
+            if slope < 0:
+                return float(np.sqrt(-0.5 / slope)), 0.0
+        return 0.0, 0.0
+    # a rising start from a non-zero value at 0: the tail of the lowest smeared shell (quadratic ln g)
+    if nu[0] > 1e-6 * (nu[-1] - nu[0]) or g[0] <= 0:
+        return 0.0, 0.0
+    best = None
+    for k in range(5, min(g.size, 80) + 1):          # the longest leading run that is one Gaussian tail
+        sel = np.arange(k)
+        if np.any(g[sel] <= 0):
+            break
+        coef = np.polyfit(nu[sel], np.log(g[sel]), 2)
+        rms = float(np.sqrt(np.mean((np.polyval(coef, nu[sel]) - np.log(g[sel])) ** 2)))
+        if coef[0] >= 0 or rms > 0.02:
+            break
+        best = coef
+    if best is not None:
+        return float(np.sqrt(-0.5 / best[0])), max(float(-best[1] / (2 * best[0])), 0.0)
+    return -1.0, 0.0          # smeared, width from g(0) = Aσ²/2 (see analyse_resolution)
+
+
+def _cumulative(nu, g, histogram):
+    """N at the grid nodes (trapezoid) or at the bin tops (histogram), and those abscissae."""
+    if histogram:
+        h = nu[1] - nu[0]
+        return np.concatenate([[0.0], nu + h / 2]), np.concatenate([[0.0], np.cumsum(g) * h])
+    n = np.concatenate([[0.0], np.cumsum(0.5 * (g[1:] + g[:-1]) * np.diff(nu))])
+    if nu[0] > 0:
+        return np.concatenate([[0.0], nu]), np.concatenate([[0.0], n + g[0] * nu[0] / 3])
+    return nu, n
+
+
+def analyse_resolution(dos):
+    """The :class:`Resolution` of a prepared DOS (None for a mode list or an empty table).
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> nu = np.linspace(0.0, 5.0, 501)
+    >>> r = analyse_resolution(PhononDOS(nu, 9 * nu**2 / 125, atoms=1))
+    >>> r.kind, r.resolved_thz <= 0.05
+    ('plain', True)
+    """
+    if dos.modes is not None:
+        return None
+    nu, g = _data(dos)
+    if nu.size < 4 or not np.any(g > 0):
+        return None
+    histogram = bool(dos.source.get("histogram")) or is_histogram(nu)
+    step = float(np.median(np.diff(nu)))
+    if histogram:
+        kind, width, centre = "histogram", step, 0.0
+    else:
+        width, centre = _gaussian_width(nu, g)
+        kind = "gaussian" if width != 0 else "plain"
+    x, n = _cumulative(nu, g, histogram)
+    total = n[-1]
+    if width < 0:             # a smeared ν² law has g(0) = Aσ²/2: σ from the ν³ law of the count
+        a0 = _law(x, n, max(2.0 * step, float(x[1])), total)
+        width = float(np.sqrt(2.0 * g[0] / a0)) if a0 > 0 else step
+    start = max(centre + 2.0 * width, 2.0 * step, float(x[1]))
+    win = _window(x, n, start, total)
+    a = _law(x, n, start, total)
+    resolved = start
+    if a > 0:
+        ratio = n[win] / (a * x[win] ** 3 / 3.0)
+        bad = np.flatnonzero((ratio > LAW_BAND) | (ratio < 1.0 / LAW_BAND))
+        if bad.size:
+            resolved = max(resolved, float(x[win][bad[-1]]))
+    return Resolution(kind, float(width), step, float(resolved), a, float(H_OVER_K_THZ * resolved / RESOLVED_DIVISOR))
+
+
+def _window(x, n, start, total):
+    """Grid points of the ν³ fit window: from ``start`` to where N reaches FIT_SHARE of the modes (at least 2 start)."""
+    top = max(float(np.interp(FIT_SHARE * total, n, x)), 2.0 * start)
+    win = (x >= start) & (x <= top)
+    if win.sum() < 2:
+        win = (x >= start) & (x <= x[min(np.searchsorted(x, start) + 2, x.size - 1)])
+    return win
+
+
+def _law(x, n, start, total):
+    """A of N = Aν³/3 over the fit window (median of 3N/ν³: robust to the comb of the shells) [modes/THz³]."""
+    win = _window(x, n, start, total)
+    return float(np.median(3.0 * n[win] / x[win] ** 3)) if win.any() else 0.0
+
+
+def _table_cumulative(dos, grid):
+    """N of what the table integrates (ν² form, then the piecewise-linear table) at ``grid``."""
+    nu, g = np.asarray(dos.frequency_thz, float), np.asarray(dos.dos, float)
+    x, n = _cumulative(nu, g, False)
+    out = np.interp(grid, x, n, right=n[-1])
+    fit = dos.low_frequency
+    if fit is not None and fit.cutoff_thz > 0:
+        c = np.minimum(grid, fit.cutoff_thz)
+        below = fit.coefficient * (c ** 3 / 3 + fit.curvature * c ** 5 / 5 + fit.quartic * c ** 7 / 7)
+        out = np.where(grid >= fit.cutoff_thz, out + fit.analytic_moment() - _taper(fit), below)
+    return out
+
+
+def _taper(fit):
+    return float(np.sum(fit.taper_nodes()[1]))
+
+
+def _smoothed_count(nu, g, histogram, grid, sigma):
+    """N of the data smeared once more by a Gaussian σ (modes folded back at 0), at ``grid``."""
+    x, n = _cumulative(nu, g, histogram)
+    h = min(sigma / 4.0, float(grid[1] - grid[0]))
+    u = np.arange(-6 * sigma, grid[-1] + 6 * sigma + h, h)
+    nn = np.interp(u, x, n, left=0.0, right=n[-1])
+    k = np.arange(-int(np.ceil(6 * sigma / h)), int(np.ceil(6 * sigma / h)) + 1) * h
+    w = np.exp(-0.5 * (k / sigma) ** 2)
+    w /= w.sum()
+    smooth = np.convolve(nn, w, mode="same")
+    smooth = np.interp(grid, u, smooth) + np.interp(-grid, u, smooth)   # the part pushed below 0, folded back
+    return smooth
+
+
+def _kernels(grid, t):
+    """Per-mode C_v, S [J/(mol K)], U, F [J/mol] at ``grid`` (rows) and ``t`` (columns)."""
+    x = H_OVER_K_THZ * grid[:, None] / t[None, :]
+    e = np.exp(-x)
+    one = -np.expm1(-x)
+    with np.errstate(divide="ignore", invalid="ignore", over="ignore"):
+        u = np.where(x < 700, x * e / one, 0.0)
+        c = np.where(x < 700, u * x / one, 0.0)
+        lg = np.log(one)
+    zp = 0.5 * _J_PER_MOL_PER_THZ * grid[:, None]
+    return (sc.R * c, sc.R * (u - lg), zp + sc.R * t[None, :] * u, zp + sc.R * t[None, :] * lg)
+
+
+def resolution_parts(dos, temperatures, resolution=None):
+    r"""Resolution and smearing parts of the error of C_v, S, U, F at each temperature.
+
+    Parameters
+    ----------
+    dos : PhononDOS
+        Prepared DOS (its rows as read are used when kept).
+    temperatures : array_like, shape (M,)
+        Temperatures [K], >= 0.
+    resolution : Resolution, optional
+        A ready :func:`analyse_resolution` of ``dos``.
+
+    Returns
+    -------
+    resolution, smearing : numpy.ndarray, shape (4, M)
+        Bounds of the error of C_v, S [J/(mol·K)], U, F [J/mol] per mole of
+        formula units (zeros for a mode list, at T = 0 the smearing part of
+        the zero-point energy only).
+
+    Notes
+    -----
+    :math:`\delta_Q = \sum_i |K_Q(\nu_{i+1})-K_Q(\nu_i)|\,D(\bar\nu_i)` on a
+    fine grid (see the module notes for D).
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> nu = np.linspace(0.0, 5.0, 501)
+    >>> res, smear = resolution_parts(PhononDOS(nu, 9 * nu**2 / 125, atoms=1), [300.0])
+    >>> bool(res[0, 0] < 1e-4 and smear[0, 0] < 1e-3)
+    True
+    """
+    t = np.atleast_1d(np.asarray(temperatures, float)).ravel()
+    zero = np.zeros((4, t.size))
+    r = analyse_resolution(dos) if resolution is None else resolution
+    if r is None:
+        return zero, zero.copy()
+    nu, g = _data(dos)
+    histogram = r.kind == "histogram"
+    sigma = np.sqrt(2.0) * max(r.width_thz, r.step_thz)
+    top = float(nu[-1]) + (r.step_thz if histogram else 0.0) + 6.0 * sigma   # the extra smearing spills over the top
+    h = min(r.step_thz / 2.0, r.resolved_thz / 20.0) if r.resolved_thz > 0 else r.step_thz / 2.0
+    grid = np.arange(0.0, top + h, max(h, top / GRID_POINTS))
+    mid = 0.5 * (grid[1:] + grid[:-1])
+    scale = dos.mode_count / max(_cumulative(nu, g, histogram)[1][-1], 1e-300)
+    table = _table_cumulative(dos, mid)
+    below = mid < r.resolved_thz
+    d_res = np.where(below, np.maximum(table, MODEL_FACTOR * r.coefficient * scale * mid ** 3 / 3.0), 0.0)
+    x, n = _cumulative(nu, g, histogram)
+    moved = (np.interp(grid, x, n, right=n[-1]) - _smoothed_count(nu, g, histogram, grid, sigma)) * scale
+    fit = dos.low_frequency
+    own = r.resolved_thz if fit is None else max(r.resolved_thz, fit.blend_top_thz or fit.cutoff_thz)
+    if r.kind == "plain":                                # no smearing seen: the grid is the numerical part's
+        own = np.inf
+    # modes the extra smearing moves, per interval, where the table uses the data (not the ν² form)
+    d_sm = np.where(mid < own, 0.0, np.diff(moved))
+    hot = t > 0
+    out_res, out_sm = zero, zero.copy()
+    if hot.any():
+        floor = np.maximum(grid, 0.5 * grid[1])
+        th = t[hot]
+        # the signed change crosses zero at some temperatures: its envelope over T/ENVELOPE..T·ENVELOPE is used
+        aux = np.unique(np.concatenate([th, np.geomspace(th.min() / ENVELOPE, th.max() * ENVELOPE, ENVELOPE_POINTS)]))
+        res_hot, sm_aux = np.zeros((4, th.size)), np.zeros((4, aux.size))
+        for lo in range(0, max(th.size, aux.size), 64):        # temperature blocks: memory stays small
+            if lo < th.size:
+                for i, k in enumerate(_kernels(floor, th[lo:lo + 64])):
+                    res_hot[i, lo:lo + 64] = np.einsum("g,gm->m", d_res, np.abs(np.diff(k, axis=0)))
+            if lo < aux.size:
+                for i, k in enumerate(_kernels(floor, aux[lo:lo + 64])):
+                    sm_aux[i, lo:lo + 64] = np.abs(np.einsum("g,gm->m", d_sm, 0.5 * (k[1:] + k[:-1])))
+        near = (aux[None, :] >= th[:, None] / ENVELOPE) & (aux[None, :] <= th[:, None] * ENVELOPE)
+        out_res[:, hot] = RESOLUTION_SAFETY * res_hot
+        for i in range(4):
+            out_sm[i, hot] = SMEARING_FACTOR * np.max(np.where(near, sm_aux[i][None, :], 0.0), axis=1)
+    return out_res, out_sm
