@@ -2,11 +2,11 @@
 
 from __future__ import annotations
 
-import json
 import sys
 
 from ..temperatures import DEFAULT_TEMPERATURES, parse_temperatures
-from .options import add_input_options, check_digits, load_from_args, report_warnings
+from .options import (add_input_options, add_report_output_options, check_digits, check_output_target, emit_report,
+                      load_from_args, report_warnings, write_text_output)
 
 
 def register(sub):
@@ -22,8 +22,11 @@ def register(sub):
                    help="Einstein terms sharing the 3n-3 optical modes in the composite model (default 1)")
     p.add_argument("--format", default="json", choices=["json", "csv"],
                    help="json: every θ with definitions (default); csv: DOS and model tables side by side")
-    p.add_argument("--digits", type=int, default=8, metavar="N",
-                   help="significant digits of the csv table (default 8; 17 for full double precision)")
+    add_report_output_options(p)
+    for action in p._actions:
+        if action.dest == "digits":
+            action.help = ("significant digits of the numbers written (1 to 17; default: 8 for csv, all digits "
+                           "for json)")
     p.set_defaults(func=run)
 
 
@@ -55,6 +58,7 @@ def run(args) -> int:
 
     if args.optical_terms < 1:
         raise OptionError(f"--optical-terms must be >= 1, got {args.optical_terms}")
+    check_output_target(args)
     fit_range = None if args.fit_range is None else parse_fit_range(args.fit_range)
     temperatures = None if args.temperatures is None else parse_temperatures(args.temperatures)
     if args.format == "csv" and temperatures is None:
@@ -66,8 +70,7 @@ def run(args) -> int:
                 "temperatures_K": None if temperatures is None else temperature_settings(temperatures)}
     if args.format == "json":
         record = provenance_record([dos_input(dos)], settings, dos.warnings)
-        print(json.dumps({"provenance": record, **report}, indent=2, allow_nan=False))
-        return 0
+        return emit_report(args, record, report)
     composite = CompositeModel.from_dict(report["composite"])
     tables = model_tables(dos, temperatures, report["einstein_theta_fit_K"], report["debye_theta_fit_K"], composite)
     info = provenance_record(
@@ -77,6 +80,9 @@ def run(args) -> int:
         composite_einstein_theta_K=report["composite_einstein_theta_K"],
         fit_range_K=report["fit_range_K"],
         note="einstein/debye columns use the θ fitted to C_v over fit_range_K; U and F include the ZPE")
-    sys.stdout.write(export_table(side_by_side(tables), info, "csv", digits=check_digits(args.digits))
-                     .decode("utf-8"))
+    text = export_table(side_by_side(tables), info, "csv", digits=check_digits(8 if args.digits is None else args.digits))
+    if args.output:
+        write_text_output(args, text.decode("utf-8"))
+    else:
+        sys.stdout.write(text.decode("utf-8"))
     return 0
