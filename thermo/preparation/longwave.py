@@ -2,19 +2,31 @@ r"""The long-wave region of a mode list: sound velocities near Γ and the elasti
 
 A q-point mesh samples the acoustic branches only at a few points near Γ,
 so a plain sum over its modes misses the :math:`T^3` law.  With the wave
-vectors and the cell volume, the acoustic modes near Γ are replaced by the
-elastic continuum:
-sphere of the same Brillouin-zone volume: three branches
-:math:`g_j(\nu) = 4\pi V\nu^2/c_j^3\,(1 + b_j\nu^2)` whose velocities come
-from the acoustic modes of the shells nearest Γ.  At low temperature only
-the continuum is excited and the table follows the Debye law with the exact
-:math:`\langle\sum_j c_j^{-3}\rangle`.
+vectors and the cell volume:
+
+1. the long-wave sound speeds :math:`c_0` along the directions of the
+   q-points nearest Γ come from their acoustic modes, the dispersion removed
+   by a Richardson step with the mode at :math:`k\mathbf q` (:func:`branch_velocities`);
+2. an elastic tensor fitted to them gives the exact direction means
+   :math:`\langle c_j^{-3}\rangle` (:func:`christoffel_means`);
+3. each acoustic branch below :data:`BLEND` mesh spacings is the elastic
+   continuum :math:`g_j = 4\pi V\nu^2\langle c_j^{-3}\rangle` with its
+   dispersion (a sine law with the measured β, :func:`dispersion_nodes`),
+   blended by an infinitely smooth step :math:`W_j(\nu)` into the acoustic
+   mesh modes, each of which keeps the share :math:`1 - W_j`
+   (:func:`long_wave_region`).
+
+At low temperature only the continuum is excited and the table follows the
+Debye law with the exact :math:`\langle\sum_j c_j^{-3}\rangle`; the mesh sum
+of the smooth remainder converges fast.
 
 References
 ----------
 .. [1] N. W. Ashcroft, N. D. Mermin, *Solid State Physics* (Holt, Rinehart
-   and Winston, 1976), ch. 23 (the Debye :math:`T^3` law with the
-   direction-averaged :math:`c^{-3}`).
+   and Winston, 1976), ch. 22-23 (sound speeds of the long-wave dynamical
+   matrix; the Debye :math:`T^3` law with the direction-averaged :math:`c^{-3}`).
+.. [2] L. F. Richardson, "The deferred approach to the limit", Phil. Trans.
+   R. Soc. A 226, 299-361 (1927).
 """
 
 from __future__ import annotations
@@ -27,26 +39,17 @@ from ..spectrum import LowFrequencyFit
 
 #: Wave vectors shorter than this are Γ [1/Å].
 GAMMA_Q = 1e-8
-#: Velocity points: q-points out to this many times the shortest non-zero |q| (with a 2q partner).
+#: Velocity points: whole shells near Γ out to this many times the shortest non-zero |q| ...
 FIT_RADIUS = 1.8
-#: Fewest fit points per fitted coefficient.
-POINTS_PER_COEFFICIENT = 2
-#: The continuum is the whole acoustic DOS below BLEND[0]·q₁ and is blended into the mesh modes by
-#: 2q₁ above that (q₁ the shortest non-zero |q|; per branch in frequency, ν = c_j q/2π).
-BLEND = (0.5, 2.5)
-
-
-def _direction_basis(n, degree):
-    """Zero-mean even functions of the unit vector n (N, 3) up to ``degree`` (0, 2 or 4), and the constant."""
-    x, y, z = n.T
-    cols = [np.ones_like(x)]
-    if degree >= 2:
-        cols += [x * x - 1 / 3, y * y - 1 / 3, x * y, x * z, y * z]
-    if degree >= 4:
-        cols += [x ** 4 - 0.2, y ** 4 - 0.2, z ** 4 - 0.2, x * x * y * y - 1 / 15, x * x * z * z - 1 / 15,
-                 x ** 3 * y, x ** 3 * z, y ** 3 * x, y ** 3 * z, z ** 3 * x, z ** 3 * y,
-                 x * x * y * z, y * y * x * z, z * z * x * y]
-    return cols
+#: ... and at least this many points.
+MIN_FIT_POINTS = 24
+#: Fewest q-points with a partner at kq for the dispersion step.
+MIN_PAIRS = 6
+#: From this many q-points with a partner, the others are left out of the velocity fit.
+PAIRED_ONLY = 12
+#: The continuum is the whole acoustic DOS below BLEND[0]·Δq and is blended into the mesh modes up to
+#: BLEND[1]·Δq (Δq = (V_zone·w_min)^{1/3} the mesh spacing; per branch in frequency, ν = c_j q/2π).
+BLEND = (0.5, 2.25)
 
 
 #: Voigt pairs of the 21 independent elastic constants.
@@ -144,7 +147,7 @@ def christoffel_means(directions, speeds, weights):
     return w @ eig ** -1.5
 
 
-def branch_velocities(q_per_a, acoustic_thz, weights, doubled_thz=None):
+def branch_velocities(q_per_a, acoustic_thz, weights, doubled_thz=None, step=2):
     r"""Direction means of :math:`c_j^{-3}` and of the dispersion, from acoustic modes near Γ.
 
     Parameters
@@ -156,25 +159,27 @@ def branch_velocities(q_per_a, acoustic_thz, weights, doubled_thz=None):
     weights : numpy.ndarray, shape (P,)
         q-point weights (star multiplicities) [1].
     doubled_thz : numpy.ndarray, shape (P, 3), optional
-        The same at :math:`2\mathbf q` (Richardson step for the dispersion).
+        The same at :math:`k\mathbf q` (Richardson step for the dispersion;
+        NaN rows where the mesh has no such point: their β is the mean of the others').
+    step : int
+        :math:`k` (2 on a Γ-centred mesh, 3 on a shifted one).
 
     Returns
     -------
     dict
         ``inverse_cube`` :math:`\langle c_j^{-3}\rangle` per branch [(Å·THz)⁻³];
-        ``curvature`` :math:`b_j` of :math:`g_j \propto \nu^2(1+b_j\nu^2)` [1/THz²];
         ``inverse_cube_mean`` :math:`\sum_j\langle c_j^{-3}\rangle`; ``points``;
-        ``directions_degree``; ``dispersion_corrected``.
+        ``dispersion_corrected``; per point ``speeds`` :math:`c_0` [Å·THz],
+        ``betas`` β [Å²] and ``weights``.
 
     Notes
     -----
     :math:`c_j(\mathbf q) = 2\pi\nu_j/|\mathbf q|`.  With the mode at
-    :math:`2\mathbf q`, :math:`c = c_0(1-\beta q^2)` gives
-    :math:`c_0 = (4c(q) - c(2q))/3` and :math:`\beta = (1 - c(q)/c_0)/q^2`;
-    then :math:`g_j = 4\pi V\nu^2\langle c_0^{-3}(1 + 3\beta(2\pi\nu/c_0)^2)\rangle`.
-    Each direction mean is the constant of a weighted least-squares fit of
-    zero-mean even functions of :math:`\hat q` (degree 4, 2 or 0, as many as
-    the points carry) — its sphere mean.
+    :math:`k\mathbf q`, :math:`c = c_0(1-\beta q^2)` gives
+    :math:`c_0 = (k^2c(q) - c(kq))/(k^2-1)` and :math:`\beta = (1 - c(q)/c_0)/q^2`
+    (Richardson's step); points without a partner take the mean β.  The
+    direction means come from the elastic tensor fitted to :math:`c_0`
+    (:func:`christoffel_means`).
 
     References
     ----------
@@ -193,28 +198,21 @@ def branch_velocities(q_per_a, acoustic_thz, weights, doubled_thz=None):
     n = q_per_a / q[:, None]
     c = 2 * np.pi * np.asarray(acoustic_thz, float) / q[:, None]
     beta = np.zeros_like(c)
-    if doubled_thz is not None:
-        c2 = 2 * np.pi * np.asarray(doubled_thz, float) / (2 * q[:, None])
-        c0 = (4 * c - c2) / 3
-        beta = (1 - c / c0) / (q[:, None] ** 2)
-        c = c0
-    for degree in (4, 2, 0):
-        cols = _direction_basis(n, degree)
-        if q.size >= POINTS_PER_COEFFICIENT * len(cols) or degree == 0:
-            break
-    design = np.column_stack(cols)
-    root = np.sqrt(np.asarray(weights, float))
-    slope = np.linalg.lstsq(design * root[:, None], 3 * beta * (2 * np.pi) ** 2 * c ** -5.0 * root[:, None],
-                            rcond=None)[0][0]
+    paired = np.zeros(q.size, bool) if doubled_thz is None else np.all(np.isfinite(doubled_thz), axis=1)
+    if paired.sum() >= MIN_PAIRS:
+        c2 = 2 * np.pi * np.asarray(doubled_thz, float)[paired] / (step * q[paired, None])
+        c0 = (step ** 2 * c[paired] - c2) / (step ** 2 - 1)
+        beta[paired] = (1 - c[paired] / c0) / (q[paired, None] ** 2)
+        beta[~paired] = np.average(beta[paired], axis=0, weights=np.asarray(weights, float)[paired])
+        c = c / (1 - beta * q[:, None] ** 2)
     inverse = christoffel_means(n, c, weights)
-    curvature = np.where(inverse > 0, slope / np.where(inverse > 0, inverse, 1.0), 0.0)
-    return {"inverse_cube": inverse, "curvature": curvature,
-            "inverse_cube_mean": float(inverse.sum()), "points": int(q.size), "directions_degree": degree,
-            "dispersion_corrected": doubled_thz is not None}
+    return {"inverse_cube": inverse, "inverse_cube_mean": float(inverse.sum()), "points": int(q.size),
+            "dispersion_corrected": bool(paired.sum() >= MIN_PAIRS),
+            "speeds": c, "betas": beta, "weights": np.asarray(weights, float)}
 
 
-def blended_continuum(velocities, cell_volume_a3, first_shell_per_a, blend=BLEND):
-    r"""The elastic continuum of each acoustic branch, blended out between ``blend`` × q₁.
+def blended_continuum(velocities, cell_volume_a3, spacing_per_a, blend=None):
+    r"""The elastic continuum of each acoustic branch, blended out between ``blend`` × Δq.
 
     Parameters
     ----------
@@ -222,15 +220,15 @@ def blended_continuum(velocities, cell_volume_a3, first_shell_per_a, blend=BLEND
         :func:`branch_velocities`.
     cell_volume_a3 : float
         Cell volume V [Å³].
-    first_shell_per_a : float
-        Shortest non-zero |q| of the mesh, q₁ [1/Å].
-    blend : (float, float)
-        Start and end of the blend in units of q₁.
+    spacing_per_a : float
+        Mesh spacing Δq [1/Å].
+    blend : (float, float), optional
+        Start and end of the blend in units of Δq (default :data:`BLEND`).
 
     Returns
     -------
     tuple of LowFrequencyFit
-        Per branch :math:`A_j\nu^2(1+b_j\nu^2)`, :math:`A_j = 4\pi V\langle c_j^{-3}\rangle`
+        Per branch :math:`A_j\nu^2`, :math:`A_j = 4\pi V\langle c_j^{-3}\rangle`
         [modes / THz³ per cell, one mode per branch over the zone], cut-off
         :math:`c_jq_a/2\pi` and blend top :math:`c_jq_b/2\pi` with
         :math:`c_j = \langle c_j^{-3}\rangle^{-1/3}`.
@@ -246,18 +244,74 @@ def blended_continuum(velocities, cell_volume_a3, first_shell_per_a, blend=BLEND
 
     Examples
     --------
-    >>> v = {"inverse_cube": np.array([1e-3]), "curvature": np.array([0.0])}
+    >>> v = {"inverse_cube": np.array([1e-3])}
     >>> f = blended_continuum(v, 10.0, 0.1, (1.0, 1.0))[0]          # a sharp sphere of radius q₁
     >>> round(f.analytic_moment() / (10.0 * 0.1 ** 3 / (6 * np.pi ** 2)), 12)
     1.0
     """
     out = []
-    for inv, b in zip(velocities["inverse_cube"], velocities["curvature"]):
+    blend = BLEND if blend is None else blend
+    for inv in velocities["inverse_cube"]:
         speed = float(inv) ** (-1 / 3)
-        low, high = (speed * f * first_shell_per_a / (2 * np.pi) for f in blend)
+        low, high = (speed * f * spacing_per_a / (2 * np.pi) for f in blend)
         out.append(LowFrequencyFit(coefficient=float(4 * np.pi * cell_volume_a3 * inv), cutoff_thz=low,
-                                   window_thz=(low, high), curvature=float(b), blend_top_thz=high))
+                                   window_thz=(low, high), blend_top_thz=high, smooth_taper=True))
     return tuple(out)
+
+
+#: Gauss–Legendre points of each of the two segments of a dispersion correction.
+DISPERSION_NODES = 24
+
+
+def dispersion_nodes(velocities, fits, cell_volume_a3):
+    r"""Nodes and weights of :math:`\int (g_j - A_j\nu^2)W_j\,d\nu`: the dispersion of each continuum branch.
+
+    Parameters
+    ----------
+    velocities : dict
+        :func:`branch_velocities` (``speeds``, ``betas``, ``weights`` of its points).
+    fits : tuple of LowFrequencyFit
+        :func:`blended_continuum`.
+    cell_volume_a3 : float
+        Cell volume [Å³].
+
+    Returns
+    -------
+    nodes, modes : numpy.ndarray
+        Frequencies [THz] and mode weights [1 per cell] (either sign).
+
+    Notes
+    -----
+    Along each direction :math:`\nu = (c_0q_s/2\pi)\sin(q/q_s)` with
+    :math:`q_s = (6\beta)^{-1/2}` (the sine law with the measured
+    :math:`c_0` and :math:`\beta`), so with :math:`u = 2\pi\nu/c_0q_s`,
+    :math:`g_j = 4\pi V\nu^2\langle c_0^{-3}R(u)\rangle`,
+    :math:`R = (\arcsin u/u)^2/\sqrt{1-u^2}`; the ratio
+    :math:`\langle c_0^{-3}R\rangle/\langle c_0^{-3}\rangle` is the
+    weighted mean over the points, the scale :math:`A_j` is the fitted one.
+
+    Examples
+    --------
+    >>> v = {"inverse_cube": np.array([1e-3]), "speeds": np.array([[10.0]]),
+    ...      "betas": np.array([[0.0]]), "weights": np.array([1.0])}
+    >>> nodes, modes = dispersion_nodes(v, blended_continuum(v, 10.0, 0.1), 10.0)
+    >>> float(np.abs(modes).max())                     # no dispersion: nothing to add
+    0.0
+    """
+    x, w = np.polynomial.legendre.leggauss(DISPERSION_NODES)
+    nodes, modes = [], []
+    for j, fit in enumerate(fits):
+        c0, beta = velocities["speeds"][:, j], velocities["betas"][:, j]
+        weight = velocities["weights"] * c0 ** -3.0
+        qs = np.where(beta > 0, 1 / np.sqrt(np.where(beta > 0, 6 * beta, 1.0)), np.inf)
+        for low, high in ((0.0, fit.cutoff_thz), (fit.cutoff_thz, fit.blend_top_thz)):
+            nu = low + 0.5 * (high - low) * (x + 1)
+            u = np.clip(2 * np.pi * nu[:, None] / (c0 * qs)[None, :], 1e-12, 0.99)
+            ratio = (np.arcsin(u) / u) ** 2 / np.sqrt(1 - u * u)
+            excess = fit.form(nu) * ((ratio @ weight) / weight.sum() - 1.0) * fit.taper(nu)
+            nodes.append(nu)
+            modes.append(0.5 * (high - low) * w * excess)
+    return np.concatenate(nodes), np.concatenate(modes)
 
 
 def long_wave_region(q_points, frequencies, weights, cell_volume_a3):
@@ -310,19 +364,36 @@ def long_wave_region(q_points, frequencies, weights, cell_volume_a3):
     if not moving.any():
         return kept, (), None
     first = float(q[moving].min())
-    near = moving & (q <= FIT_RADIUS * first) & np.all(frequencies[:, :3] > 0, axis=1)
-    lookup = {tuple(k): i for i, k in enumerate(np.round(q_points / first, 4))}
-    partner = np.array([lookup.get(tuple(k), -1) for k in np.round(2 * q_points[near] / first, 4)], int)
-    if near.sum() < 3:
+    usable = moving & np.all(frequencies[:, :3] > 0, axis=1)
+    radii = np.sort(q[usable])
+    if radii.size < 3:
         return kept, (), None
-    doubled = None
-    if partner.size and np.all(partner >= 0) and np.all(frequencies[partner, :3] > 0):
-        doubled = frequencies[partner, :3]
-    info = branch_velocities(q_points[near], frequencies[near, :3], weights[near], doubled)
+    reach = radii[min(MIN_FIT_POINTS, radii.size) - 1] * (1 + 1e-6)      # whole shells up to MIN_FIT_POINTS
+    near = usable & (q <= max(reach, FIT_RADIUS * first))
+    lookup = {tuple(k): i for i, k in enumerate(np.round(q_points / first, 4))}
+    doubled, step, best = None, 2, -1
+    for k in (2, 3):          # Γ-centred meshes hold 2q, shifted (Monkhorst–Pack) ones 3q
+        partner = np.array([lookup.get(tuple(x), -1) for x in np.round(k * q_points[near] / first, 4)], int)
+        have = partner >= 0
+        have[have] = np.all(frequencies[partner[have], :3] > 0, axis=1)
+        if have.sum() > best:
+            best, step, pairs = int(have.sum()), k, (partner, have)
+    partner, have = pairs
+    if best >= PAIRED_ONLY:      # enough points with a partner: the others' dispersion is not guessed
+        near[np.flatnonzero(near)[~have]] = False
+        partner, have = partner[have], have[have]
+    doubled = np.full((partner.size, 3), np.nan)
+    doubled[have] = frequencies[partner[have], :3]
+    try:
+        info = branch_velocities(q_points[near], frequencies[near, :3], weights[near], doubled, step)
+    except ModeheatError:
+        return kept, (), None
     if not np.all(info["inverse_cube"] > 0):
         return kept, (), None
-    continuum = blended_continuum(info, cell_volume_a3, first)
+    spacing = (8 * np.pi ** 3 / cell_volume_a3 * float(weights.min())) ** (1 / 3)
+    continuum = blended_continuum(info, cell_volume_a3, spacing)
     for j, fit in enumerate(continuum):
         kept[:, j] = 1.0 - fit.taper(frequencies[:, j])
     kept[~moving] = 0.0
-    return kept, continuum, dict(info, shell_radius_per_A=first)
+    nodes = dispersion_nodes(info, continuum, cell_volume_a3)
+    return kept, continuum, dict(info, shell_radius_per_A=first, mesh_spacing_per_A=spacing, dispersion_nodes=nodes)

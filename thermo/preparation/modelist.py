@@ -138,7 +138,8 @@ def load_mode_list(raw, explicit, carried, chosen):
         raise DosInputError("no real (positive-frequency) modes in the list", src)
     real_modes = 3 * n_atoms * (1.0 if policy == "drop" else 1.0 - share)
     w_real = w[real] * share_kept[real]
-    in_continuum = zone * sum(f.analytic_moment() for f in continuum)
+    extra_nu, extra_w = fit["dispersion_nodes"] if continuum else (np.zeros(0), np.zeros(0))
+    in_continuum = zone * (sum(f.analytic_moment() for f in continuum) + float(extra_w.sum()))
     scale = real_modes / (float(w_real.sum()) + in_continuum)
     continuum = tuple(f.scaled(scale * zone) for f in continuum)
     zero_weight = float(w[replaced].sum())
@@ -152,7 +153,7 @@ def load_mode_list(raw, explicit, carried, chosen):
     resolved = _resolved(nu, real, replaced, table, continuum)
     if not continuum:
         notes.append(_undetermined_note(resolved, table))
-    modes = ModeList(frequency_thz=freq, weight=weight, partials=partials, continuum=continuum,
+    modes = ModeList(frequency_thz=freq, weight=weight, extra=(extra_nu, extra_w * scale * zone), partials=partials, continuum=continuum,
                      cell_volume_a3=table.cell_volume_a3, resolved_thz=resolved,
                      velocities={} if not continuum else {k: fit[k] for k in ("inverse_cube_mean", "points",
                                                                               "shell_radius_per_A",
