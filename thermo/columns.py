@@ -289,6 +289,7 @@ register_quantity("eos_fit_residual", "ΔF_rms", "fixed", "meV", "meV",
 register_quantity("outside_volume_range", "outside", "fixed",
                   description="True where the minimum lies outside the sampled volumes (extrapolated)")
 for _key in ("volume", "thermal_expansion", "bulk_modulus_T", "heat_capacity_p", "heat_capacity_v", "entropy",
+             "internal_energy", "helmholtz_energy",
              "enthalpy", "gibbs_energy", "gruneisen_parameter"):
     register_error(_key)
 # --- calorimetry (measured heat capacity, thermo/calorimetry) ---
