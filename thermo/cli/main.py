@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import argparse
 import importlib
+import sqlite3
 import sys
 
 from .. import __version__
@@ -15,7 +16,7 @@ from ..errors import ModeheatError
 
 #: Subcommand modules, in the order shown by --help.
 SUBCOMMANDS = ("table", "summary", "models", "batch", "serve", "workspace", "quasiharmonic", "calorimetry",
-               "displacements", "elastic", "polynomial", "electronic")
+               "displacements", "elastic", "polynomial", "electronic", "compare", "phases")
 
 
 def build_parser():
@@ -84,7 +85,12 @@ def main(argv=None) -> int:
     try:
         return int(args.func(args) or 0)
     except ModeheatError as exc:
-        print(f"error: {exc}", file=sys.stderr)
+        from ..io.inert import inert_text
+        print(f"error: {inert_text(exc)}", file=sys.stderr)
+        return 2
+    except sqlite3.DatabaseError as exc:          # a storage failure outside a transaction (disk, permissions)
+        from ..workspace.schema import storage_message
+        print(f"error: {storage_message(exc)}", file=sys.stderr)
         return 2
     except OSError as exc:
         print(f"error: {exc.strerror or exc}: {exc.filename or ''}".rstrip(": "), file=sys.stderr)
