@@ -51,11 +51,10 @@ def parse_fit_range(text):
 
 
 def run(args) -> int:
-    from ..errors import OptionError
-    from ..models import CompositeModel, model_tables, models_report, side_by_side
     from ..io.writers import export_table
-    from ..provenance import dos_input, provenance_record, temperature_settings
+    from ..models.export import models_export
 
+    from ..errors import OptionError
     if args.optical_terms < 1:
         raise OptionError(f"--optical-terms must be >= 1, got {args.optical_terms}")
     check_output_target(args)
@@ -63,26 +62,15 @@ def run(args) -> int:
     temperatures = None if args.temperatures is None else parse_temperatures(args.temperatures)
     if args.format == "csv" and temperatures is None:
         temperatures = parse_temperatures(DEFAULT_TEMPERATURES)
+    digits = check_digits(8 if args.digits is None else args.digits) if args.format == "csv" else None
     dos = load_from_args(args)
     report_warnings(dos)
-    report = models_report(dos, temperatures if args.format == "json" else None, fit_range, args.optical_terms)
-    settings = {"fit_range_K": None if fit_range is None else list(fit_range), "optical_terms": args.optical_terms,
-                "temperatures_K": None if temperatures is None else temperature_settings(temperatures)}
+    info, result = models_export(dos, temperatures, fit_range, args.optical_terms, args.format)
     if args.format == "json":
-        record = provenance_record([dos_input(dos)], settings, dos.warnings)
-        return emit_report(args, record, report)
-    composite = CompositeModel.from_dict(report["composite"])
-    tables = model_tables(dos, temperatures, report["einstein_theta_fit_K"], report["debye_theta_fit_K"], composite)
-    info = provenance_record(
-        [dos_input(dos)], settings, dos.warnings,
-        einstein_theta_K=report["einstein_theta_fit_K"], debye_theta_K=report["debye_theta_fit_K"],
-        composite_debye_theta_K=report["composite_debye_theta_K"],
-        composite_einstein_theta_K=report["composite_einstein_theta_K"],
-        fit_range_K=report["fit_range_K"],
-        note="einstein/debye columns use the θ fitted to C_v over fit_range_K; U and F include the ZPE")
-    text = export_table(side_by_side(tables), info, "csv", digits=check_digits(8 if args.digits is None else args.digits))
+        return emit_report(args, info, result)
+    text = export_table(result, info, "csv", digits=digits).decode("utf-8")
     if args.output:
-        write_text_output(args, text.decode("utf-8"))
+        write_text_output(args, text)
     else:
-        sys.stdout.write(text.decode("utf-8"))
+        sys.stdout.write(text)
     return 0

@@ -75,12 +75,8 @@ def emit_report(args, provenance, report, ensure_ascii=True, allow_nan=False):
 
     The report's floats are rounded to ``--digits`` significant digits.
     """
-    import json
-
-    from ..io.writers import rounded_report
-    body = rounded_report(dict(report), report_digits(args))
-    record = body if provenance is None else {"provenance": provenance, **body}
-    text = json.dumps(record, indent=2, allow_nan=allow_nan, ensure_ascii=ensure_ascii) + "\n"
+    from ..io.writers import report_text
+    text = report_text(provenance, report, report_digits(args), ensure_ascii=ensure_ascii, allow_nan=allow_nan)
     if getattr(args, "output", None):
         write_text_output(args, text)
     else:

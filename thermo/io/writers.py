@@ -51,7 +51,7 @@ import pandas as pd
 from ..errors import OptionError
 from .inert import FORMULA_PREFIXES, _RISKY_SPLIT, append_inert, inert_json, neutralised_cell, restored_cell, write_file
 
-__all__ = ["EXPORT_FORMATS", "FORMULA_PREFIXES", "export_table", "neutralised_cell", "restored_cell", "rounded_report", "write_file",
+__all__ = ["EXPORT_FORMATS", "FORMULA_PREFIXES", "export_table", "neutralised_cell", "report_text", "restored_cell", "rounded_report", "write_file",
            "write_table"]
 
 #: Significant digits the command line and the dashboard write by default: the
@@ -118,6 +118,35 @@ def rounded_report(value, digits=None):
     if isinstance(value, (list, tuple)):
         return [rounded_report(v, digits) for v in value]
     return value
+
+
+def report_text(provenance, report, digits=None, ensure_ascii=True, allow_nan=False) -> str:
+    """A JSON report as written by the command line and the dashboard: ``{"provenance": ..., **report}``.
+
+    Parameters
+    ----------
+    provenance : dict or None
+        The record of :func:`thermo.provenance.provenance_record` (never rounded); None: no key.
+    report : dict
+        The result; its floats rounded to ``digits`` significant digits (:func:`rounded_report`).
+    digits : int, optional
+        None: all digits.
+    ensure_ascii, allow_nan : bool
+        As :func:`json.dumps`.
+
+    Returns
+    -------
+    str
+        Indented JSON text ending in a newline.
+
+    Examples
+    --------
+    >>> json.loads(report_text(None, {"theta_K": 412.3456}, digits=3))
+    {'theta_K': 412.0}
+    """
+    body = rounded_report(dict(report), digits)
+    record = body if provenance is None else {"provenance": provenance, **body}
+    return json.dumps(record, indent=2, allow_nan=allow_nan, ensure_ascii=ensure_ascii) + "\n"
 
 
 def export_table(df: pd.DataFrame, provenance: dict, fmt: str, digits: int | None = None) -> bytes:
