@@ -366,3 +366,12 @@ register_quantity("stable_phase_decided", "decided", "fixed",
                   description="False where the lowest G is within the estimated errors of another phase's")
 for _key in ("helmholtz_energy_difference", "gibbs_energy_difference"):
     register_error(_key)
+register_quantity("helmholtz_energy_formation", "ΔF_f", "energy",
+                  description="Helmholtz energy of formation of a compound from the phases of its reaction")
+register_quantity("gibbs_energy_formation", "ΔG_f", "energy",
+                  description="Gibbs energy of formation of a compound from the phases of its reaction")
+register_quantity("entropy_formation", "ΔS_f", "entropy",
+                  description="entropy of formation of a compound (vibrational, plus electronic when given)")
+register_quantity("enthalpy_formation", "ΔH_f", "energy", description="enthalpy of formation ΔF_f + TΔS_f")
+for _key in ("helmholtz_energy_formation", "gibbs_energy_formation"):
+    register_error(_key)
