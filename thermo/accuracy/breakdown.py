@@ -40,8 +40,11 @@ from ..kernels.nu2 import analytic_part_sums
 from ..kernels.quadrature import mode_weights
 from ..kernels.sums import molar_values, thermal_sums
 from ..preparation.imaginary import split_at_zero
+from ..preparation.histogram import merged_bins
 from ..preparation.loading import treat_spectrum
 from ..preparation.lowfreq import WINDOW_MODES, WINDOW_SPREAD
+from dataclasses import replace
+
 from ..spectrum import PhononDOS
 from .resolution import analyse_resolution, resolution_parts
 from scipy import constants as sc
@@ -64,6 +67,8 @@ def _rebuild(dos, every=1, window="same", window_modes=WINDOW_MODES, offset=0):
     The first and last rows are always kept, so both coarse grids span the
     same frequencies.
     """
+    if dos.source.get("histogram") and dos.input_dos is not None:
+        return _merged_histogram(dos, offset) if every == 2 else None
     if dos.input_frequency_thz is None or dos.input_dos is None:
         return _halved_table(dos) if every == 2 and offset == 0 else None
     nu_all, g_all = np.asarray(dos.input_frequency_thz), np.asarray(dos.input_dos)
@@ -84,6 +89,17 @@ def _rebuild(dos, every=1, window="same", window_modes=WINDOW_MODES, offset=0):
     grid, cut, fit, scale, _notes = treat_spectrum(nu, cols, [], dos.atoms, share, policy, window,
                                                    window_modes=window_modes)
     return PhononDOS(grid, cut[0] * scale, dos.atoms, low_frequency=fit)
+
+
+def _merged_histogram(dos, offset):
+    """A histogram summed on bins twice as wide (pairs from ``offset``), same modes: its numerical check."""
+    nu, g = np.asarray(dos.input_frequency_thz), np.asarray(dos.input_dos)
+    real = nu > 0
+    centres, modes = merged_bins(nu[real], g[real], offset)
+    keep = modes > 0
+    listed = replace(dos.modes, frequency_thz=centres[keep], weight=modes[keep] * dos.modes.weight.sum() / modes.sum(),
+                     partials={})
+    return replace(dos, modes=listed)
 
 
 def _halved_table(dos):
@@ -184,6 +200,10 @@ def error_breakdown(dos, temperatures):
     low = spread + _fit_part(dos, t)
     resolution = analyse_resolution(dos)
     res, smear = resolution_parts(dos, t, resolution)
+    if resolution is not None and resolution.lost_share > 0:     # modes lost below 0, spread by the normalisation
+        scale = np.abs(base)
+        scale[3] = np.abs(base[2]) + t * np.abs(base[1])
+        smear = smear + resolution.lost_share * scale
     parts = {"numerical": numerical, "low_frequency": low, "resolution": res, "smearing": smear}
     columns = {column_name("temperature"): t}
     with np.errstate(divide="ignore", invalid="ignore"):

@@ -43,6 +43,7 @@ import numpy as np
 from scipy import constants as sc
 
 from ..kernels.planck import H_OVER_K_THZ
+from ..preparation.histogram import is_histogram
 
 #: The ν³ law below the resolved limit is trusted to this factor (the true count may exceed the fit's).
 MODEL_FACTOR = 2.0
@@ -67,7 +68,7 @@ _J_PER_MOL_PER_THZ = sc.h * 1e12 * sc.N_A
 
 @dataclass(frozen=True)
 class Resolution:
-    """What a sampled DOS resolves.
+    r"""What a sampled DOS resolves.
 
     Attributes
     ----------
@@ -84,6 +85,11 @@ class Resolution:
         A of the ν³ law N = Aν³/3 fitted to the cumulative count above ν_r [modes/THz³].
     undetermined_below_k : float
         Below this temperature the table is not determined by the data [K].
+    lost_share : float
+        Share of the modes a smeared DOS starting at 0 lost below 0,
+        :math:`g(0)\,\sigma\sqrt{\pi/2}/N` (exact for Γ's half Gaussian, an upper
+        bound for a tail centred above 0); the normalisation to 3n spreads it
+        over all modes [1].
     """
 
     kind: str
@@ -92,12 +98,13 @@ class Resolution:
     resolved_thz: float
     coefficient: float
     undetermined_below_k: float
+    lost_share: float = 0.0
 
     def as_dict(self):
         """JSON-able record."""
         return {"kind": self.kind, "width_THz": self.width_thz, "step_THz": self.step_thz,
                 "resolved_THz": self.resolved_thz, "cumulative_nu3_coefficient": self.coefficient,
-                "undetermined_below_K": self.undetermined_below_k}
+                "undetermined_below_K": self.undetermined_below_k, "lost_share": self.lost_share}
 
 
 def _data(dos):
@@ -108,22 +115,6 @@ def _data(dos):
         nu, g = np.asarray(dos.frequency_thz, float), np.asarray(dos.dos, float)
     keep = nu >= 0
     return nu[keep], np.clip(g[keep], 0.0, None)
-
-
-def is_histogram(nu):
-    """True when the grid is uniform and starts half a step above zero (bin centres).
-
-    Examples
-    --------
-    >>> is_histogram(np.arange(10) * 0.05 + 0.025), is_histogram(np.arange(10) * 0.05)
-    (True, False)
-    """
-    nu = np.asarray(nu, float)
-    if nu.size < 4:
-        return False
-    step = np.diff(nu)
-    h = float(np.median(step))
-    return bool(h > 0 and np.all(np.abs(step - h) <= 1e-3 * h) and abs(nu[0] - h / 2) <= 1e-3 * h)
 
 
 def _gaussian_width(nu, g):
@@ -184,8 +175,8 @@ def analyse_resolution(dos):
     >>> r.kind, r.resolved_thz <= 0.05
     ('plain', True)
     """
-    if dos.modes is not None:
-        return None
+    if dos.modes is not None and not dos.source.get("histogram"):
+        return None                      # a mode list: see thermo.preparation.modelist
     nu, g = _data(dos)
     if nu.size < 4 or not np.any(g > 0):
         return None
@@ -210,7 +201,9 @@ def analyse_resolution(dos):
         bad = np.flatnonzero((ratio > LAW_BAND) | (ratio < 1.0 / LAW_BAND))
         if bad.size:
             resolved = max(resolved, float(x[win][bad[-1]]))
-    return Resolution(kind, float(width), step, float(resolved), a, float(H_OVER_K_THZ * resolved / RESOLVED_DIVISOR))
+    lost = float(g[0] * width * np.sqrt(np.pi / 2) / total) if kind == "gaussian" and nu[0] == 0 else 0.0
+    return Resolution(kind, float(width), step, float(resolved), a, float(H_OVER_K_THZ * resolved / RESOLVED_DIVISOR),
+                      lost)
 
 
 def _window(x, n, start, total):
@@ -229,7 +222,11 @@ def _law(x, n, start, total):
 
 
 def _table_cumulative(dos, grid):
-    """N of what the table integrates (ν² form, then the piecewise-linear table) at ``grid``."""
+    """N of what the table integrates (modes; or ν² form, then the piecewise-linear table) at ``grid``."""
+    if dos.modes is not None:
+        steps = np.cumsum(dos.modes.weight)
+        at = np.searchsorted(dos.modes.frequency_thz, grid, side="right")
+        return np.where(at > 0, steps[np.maximum(at - 1, 0)], 0.0)
     nu, g = np.asarray(dos.frequency_thz, float), np.asarray(dos.dos, float)
     x, n = _cumulative(nu, g, False)
     out = np.interp(grid, x, n, right=n[-1])
@@ -347,4 +344,9 @@ def resolution_parts(dos, temperatures, resolution=None):
         out_res[:, hot] = RESOLUTION_SAFETY * res_hot
         for i in range(4):
             out_sm[i, hot] = SMEARING_FACTOR * np.max(np.where(near, sm_aux[i][None, :], 0.0), axis=1)
+    # the zero-point energy is linear in ν, so a signed change cancels: the count moved, unsigned, bounds it
+    moved_abs = np.where(mid < own, 0.0, np.abs(0.5 * (moved[1:] + moved[:-1])))
+    zero_point = SMEARING_FACTOR * 0.5 * _J_PER_MOL_PER_THZ * float(np.sum(moved_abs * np.diff(grid)))
+    out_sm[2] += zero_point
+    out_sm[3] += zero_point
     return out_res, out_sm

@@ -27,6 +27,7 @@ from .validation import check_magnitudes, check_mode_count
 from .options import ReadingOptions, low_frequency_window, as_record
 from .modelist import load_mode_list
 from .layers import chosen_atoms, chosen_unit
+from .histogram import bin_modes, histogram_dos, is_histogram, stated_histogram
 
 
 def load_dos(source, freq_unit=None, atoms=None, negative=None, low_frequency=None, name=None,
@@ -141,9 +142,15 @@ def _prepared(raw, clean, explicit, carried, chosen):
         cols_all = [np.asarray(clean.total, float) * factor] + [np.asarray(clean.partials[k], float) * factor
                                                               for k in names]
     check_magnitudes(nu_all, cols_all, src, clean.line_numbers)
+    histogram = stated_histogram(raw.comments) or is_histogram(nu_all[nu_all > 0])
     negative_modes, nu, cols = split_at_zero(nu_all, cols_all)
     with np.errstate(over="ignore", invalid="ignore"):
-        real_integral = float(mode_weights(nu, cols[0]).sum()) if nu.size > 1 else 0.0
+        if histogram:                    # Σ g·Δ on each side of 0 (see .histogram)
+            below = nu_all < 0
+            negative_modes = np.array([float(bin_modes(nu_all, c)[below].sum()) for c in cols_all])
+            real_integral = float(bin_modes(nu_all, cols_all[0])[nu_all > 0].sum())
+        else:
+            real_integral = float(mode_weights(nu, cols[0]).sum()) if nu.size > 1 else 0.0
         raw_integral = float(negative_modes[0]) + real_integral
     check_mode_count(raw_integral, src)
     if not raw_integral > 0:
@@ -160,6 +167,14 @@ def _prepared(raw, clean, explicit, carried, chosen):
     if nu.size < 3 or real_integral <= 0:
         raise DosInputError("no real (positive-frequency) modes left after removing imaginary ones", src)
 
+    if histogram:
+        top = float(np.asarray(clean.frequency, float)[np.asarray(clean.total) > 0].max())
+        return _histogram_prepared(nu_all, cols_all, names, n_atoms, share, policy, notes, raw_integral, top, dict(
+            name=src, sha256=clean.sha256, freq_unit=unit, stated_unit=clean.header_unit,
+            negative_mode_fraction=share, negative_policy=policy, atoms_inferred=inferred,
+            columns=list(clean.names), low_frequency_option=None,
+            reading_options=chosen.replaced(freq_unit=unit, atoms=n_atoms, sheet=raw.sheet).as_dict(),
+            **({"sheet": raw.sheet} if raw.sheet is not None else {})))
     grid, cut, fit, scale, more = treat_spectrum(nu, cols, names, n_atoms, share, policy, window,
                                                  raw_integral, inferred)
     notes += more
@@ -185,6 +200,23 @@ def _prepared(raw, clean, explicit, carried, chosen):
     if checks:
         dos = dataclasses.replace(dos, warnings=dos.warnings + tuple(checks))
     return dos
+
+
+def _histogram_prepared(nu_all, cols_all, names, atoms, share, policy, notes, raw_integral, top, source):
+    """A histogram of bin centres summed as Σ g·Δ (see :mod:`.histogram`), with the usual checks and notes."""
+    dos = histogram_dos(nu_all, cols_all, names, atoms, share, policy,
+                        source=dict(source, raw_integral=raw_integral),
+                        input_frequency_thz=nu_all, warnings=())
+    scale = dos.source["scale_factor"]
+    notes = notes + [f"read as a histogram of bin centres ({dos.source['histogram_bin_THz']:.4g} THz bins): "
+                     "summed bin by bin as Σ g·Δν, without the ν² treatment"]
+    if abs(scale - 1.0) > 1e-6:
+        notes.append(f"the histogram holds {modes_text(raw_integral)}; rescaled by ×{scale:.6g} to "
+                     f"{3 * atoms * (1.0 if policy == 'drop' else 1.0 - share):.6g} modes (3n with n = {atoms})")
+    dos = dataclasses.replace(dos, input_dos=cols_all[0] * scale, warnings=tuple(notes),
+                              input_partials={k: c * scale for k, c in zip(names, cols_all[1:])})
+    checks = unit_warnings(top, source["freq_unit"], entropy_298_per_atom(dos))
+    return dataclasses.replace(dos, warnings=dos.warnings + tuple(checks)) if checks else dos
 
 
 def _start_note(first, fit, modes_below, total):
