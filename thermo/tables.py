@@ -10,6 +10,7 @@ from .columns import BASES, table_columns
 from .errors import OptionError
 from .formula import formula_unit
 from .accuracy.breakdown import error_breakdown, estimated_relative_error, breakdown_summary
+from .accuracy.resolution import analyse_resolution, resolution_note
 from .kernels.sums import ZPE_J_PER_MOL_PER_THZ as _ZPE_J_PER_MOL_PER_THZ
 from .kernels.sums import molar_values as _molar_values
 from .kernels.sums import thermal_sums
@@ -320,9 +321,10 @@ def provenance(dos, temperatures, per="formula", formula=None):
     fit = dos.low_frequency
     src = dos.source
     breakdown = error_breakdown(dos, temperatures)
+    note = resolution_note(analyse_resolution(dos), temperatures)
     return provenance_record(
         [dos_input(dos)], {"basis": per, "formula": formula, "temperatures_K": temperature_settings(temperatures)},
-        dos.warnings,
+        tuple(dos.warnings) + ((note,) if note else ()),
         raw_integral=src.get("raw_integral"), scale_factor=src.get("scale_factor"),
         negative_mode_fraction=src.get("negative_mode_fraction"),
         low_frequency="off" if fit is None else ("auto" if fit.automatic else "manual"),

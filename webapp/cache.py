@@ -183,6 +183,15 @@ def table(dataset, temperatures, per="formula"):
     return _TABLE_CACHE.get(key, lambda: tabulate(load(dataset), t, per=per, formula=formula))
 
 
+def table_with_errors(dataset, temperatures, per="formula"):
+    """:func:`table` with each quantity's estimated error and the flag of rows over 1 % (cached)."""
+    from thermo.accuracy.rows import add_error_columns
+    t = np.asarray(temperatures, dtype=float)
+    formula = formula_for(dataset, per)
+    return derived("table-errors", dataset, lambda dos: add_error_columns(table(dataset, t, per), dos, formula),
+                   hashlib.sha1(t.tobytes()).hexdigest(), per, formula)
+
+
 def derived(kind, dataset, compute, *params):
     """Memoise ``compute(dos)`` for a dataset under ``(kind, params)``.
 

@@ -49,3 +49,54 @@ def harmonic_row_errors(dos, temperatures):
     """
     b = error_breakdown(dos, temperatures)
     return {key: _TO_SI[key] * sum(b[error_column(key, p)].to_numpy() for p in PARTS) for key in QUANTITIES}
+
+
+def add_error_columns(table, dos, formula=None):
+    r"""The table with each quantity's estimated error and the flag of rows over 1 %.
+
+    Parameters
+    ----------
+    table : pandas.DataFrame
+        A harmonic table of ``dos`` (:func:`thermo.tables.tabulate`; its
+        ``attrs["per"]`` gives the basis).
+    dos : PhononDOS
+        The DOS it came from.
+    formula : str, optional
+        Chemical formula, for the ``gram`` basis.
+
+    Returns
+    -------
+    pandas.DataFrame
+        A copy with ``<quantity>_error_<unit>`` for C_v, S, U and F (names
+        from the column schema, same unit as the value), ``error_flag``
+        (combined relative error of C_v or S over 1 %) and ``error_reason``
+        (its largest part; empty where not flagged); ``attrs["resolution"]``.
+
+    Notes
+    -----
+    The errors are those of :func:`harmonic_row_errors` on the table's basis.
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> from thermo.tables import tabulate
+    >>> nu = np.linspace(0.0, 5.0, 201)
+    >>> d = PhononDOS(nu, 9 * nu**2 / 125, atoms=1)
+    >>> t = add_error_columns(tabulate(d, [300.0]), d)
+    >>> "entropy_error_J_per_mol_K" in t.columns, bool(t.error_flag[0])
+    (True, False)
+    """
+    from ..columns import column_name, error_key
+    from ..tables import to_basis
+    t = table[column_name("temperature")].to_numpy()
+    per = table.attrs.get("per", "formula")
+    b = error_breakdown(dos, t)
+    si = tuple(_TO_SI[k] * sum(b[error_column(k, p)].to_numpy() for p in PARTS) for k in QUANTITIES)
+    out = table.copy()
+    for key, err in zip(QUANTITIES, to_basis(si, per, dos.atoms, formula)):
+        out[column_name(error_key(key), per)] = np.asarray(err, float)
+    out[column_name("error_flag")] = b[column_name("error_flag")].to_numpy()
+    out[column_name("error_reason")] = b[column_name("error_reason")].to_numpy()
+    out.attrs.update(table.attrs)
+    out.attrs["resolution"] = b.attrs.get("resolution")
+    return out

@@ -18,6 +18,10 @@ def register(sub):
                    help="electronic DOS of the same solid (metals): adds C_el, S_el, U_el, F_el, μ − E_F and the "
                         "vibrational + electronic totals (see 'modeheat electronic' for its format)")
     add_electronic_reading_options(p)
+    p.add_argument("--errors", action="store_true",
+                   help="add each quantity's estimated error (<quantity>_error_<unit>: numerical, low-frequency, "
+                        "resolution and smearing parts) and flag rows whose error of C_v or S exceeds 1 %% "
+                        "(error_flag, error_reason)")
     p.set_defaults(func=run)
 
 
@@ -32,6 +36,16 @@ def run(args) -> int:
     table = tabulate(dos, temperatures, per=args.per, formula=formula)
     report_warnings(dos)
     info = provenance(dos, temperatures, per=args.per, formula=formula)
+    if args.errors:
+        import sys
+
+        from ..accuracy.rows import add_error_columns
+        table = add_error_columns(table, dos, formula)
+        flagged = table[table.error_flag]
+        if len(flagged):
+            print(f"warning: {len(flagged)} of {len(table)} rows have an estimated error of C_v or S over 1 % "
+                  f"(first at {flagged.iloc[0, 0]:g} K: {flagged.error_reason.iloc[0]}); see error_reason",
+                  file=sys.stderr)
     if edos is not None:
         from ..electronic import electronic_details, electronic_input, with_electronic
         table = with_electronic(table, edos, atoms=dos.atoms)

@@ -6,7 +6,7 @@ import dash
 import numpy as np
 from dash import Input, Output, State, callback, dcc, html
 
-from thermo.columns import find
+from thermo.columns import error_column_for, find
 from thermo.tables import classical_heat_capacity, provenance
 from thermo.temperatures import temperature_range
 
@@ -59,12 +59,16 @@ def preview_temperatures(temperatures, rows=12):
 
 def figures(dataset, temperatures, per, log_t):
     """The four figures, key numbers and preview rows for one dataset."""
-    df = cache.table(dataset, temperatures, per)
+    df = cache.table_with_errors(dataset, temperatures, per)
     t = find(df, "temperature")
     figs = []
     for k, key in enumerate(QUANTITIES):
         col = find(df, key)
         fig = fg.figure("temperature T [K]", axis_title(col))
+        err = error_column_for(df, col)
+        if err is not None:        # shaded: the estimated error (numerical, low-frequency, resolution, smearing)
+            x, y, e = df[t].to_numpy(), df[col].to_numpy(), df[err].to_numpy()
+            fig.add_trace(fg.band(x, y - e, y + e, "estimated error", k))
         fig.add_trace(fg.line(df[t], df[col], dataset["name"], k))
         if key == "heat_capacity_v":
             limit = dulong_petit(dataset, per)
@@ -73,19 +77,27 @@ def figures(dataset, temperatures, per, log_t):
         if log_t:
             fig.update_xaxes(type="log")
         figs.append(fig)
-    preview = cache.table(dataset, preview_temperatures(df[t].to_numpy()), per)
-    table = html.Table([html.Thead(html.Tr([html.Th(axis_title(col)) for col in df.columns])),
-                        html.Tbody([html.Tr([html.Td(f"{v:.6g}") for v in row])
+    preview = cache.table_with_errors(dataset, preview_temperatures(df[t].to_numpy()), per)
+    table = html.Table([html.Thead(html.Tr([html.Th(axis_title(col)) for col in preview.columns])),
+                        html.Tbody([html.Tr([html.Td(_cell(v)) for v in row])
                                     for row in preview.itertuples(index=False)])],
                        className="mh-table mh-numbers")
     return figs, key_numbers(dataset, per), table
+
+
+def _cell(value):
+    """A preview cell: numbers to 6 digits, the flag and its reason as they are."""
+    if isinstance(value, (bool, np.bool_)):
+        return "over 1 %" if value else ""
+    return f"{value:.6g}" if isinstance(value, (int, float, np.floating)) else str(value)
 
 
 def layout(**_query):
     """The thermodynamics page."""
     return c.page(
         "Thermodynamics", "Harmonic heat capacity, entropy, internal and Helmholtz energy of the active "
-                          "dataset. U and F include the zero-point energy.",
+                          "dataset. U and F include the zero-point energy. Shaded: the estimated error "
+                          "(numerical, low-frequency, resolution and smearing parts).",
         c.active_slot("th"),
         c.controls(*c.temperature_fields("th"), c.basis_field("th-per"),
                    c.field("Temperature axis", dcc.Checklist(
@@ -124,15 +136,15 @@ def draw(workspace, t_min, t_max, step, per, log_t):
 
 
 def table_download(fmt, workspace, t_min, t_max, step, per):
-    """The table as ``modeheat table --temperatures T_MIN:T_MAX:STEP --per PER`` writes it."""
+    """The table as ``modeheat table --temperatures T_MIN:T_MAX:STEP --per PER --errors`` writes it."""
     current = session.active(workspace)
     if current is None:
         return None
     temperatures = temperature_range(t_min, t_max, step)
     formula = session.options_of(current).get("formula") or None
     info = provenance(cache.load(current), temperatures, per=per, formula=formula)
-    return exports.table_file(f"{exports.file_stem(current['name'])}-{per}", cache.table(current, temperatures, per),
-                              info, fmt)
+    return exports.table_file(f"{exports.file_stem(current['name'])}-{per}",
+                              cache.table_with_errors(current, temperatures, per), info, fmt)
 
 
 exports.register_download("th", [State("mh-workspace", "data"), State("th-tmin", "value"), State("th-tmax", "value"),
