@@ -28,7 +28,12 @@ from .preparation.options import ReadingOptions
 #: Name of the index file written in the output directory.
 INDEX_NAME = "index.csv"
 #: Columns of the index file, in order.
-INDEX_COLUMNS = ("input", "status", "output", "atoms", "negative_mode_fraction", "warnings", "error")
+INDEX_COLUMNS = ("input", "status", "output", "atoms", "negative_mode_fraction",
+                 "heat_capacity_v_298K_J_per_mol_K", "heat_capacity_v_298K_error_J_per_mol_K",
+                 "entropy_298K_J_per_mol_K", "entropy_298K_error_J_per_mol_K",
+                 "low_frequency_debye_temperature_K", "estimated_relative_error", "warnings", "error")
+#: Key numbers of each file in the index: C_v and S at this temperature [K] (per mole of formula units).
+INDEX_TEMPERATURE = 298.15
 #: File name patterns taken from a directory by default (known DOS file kinds).
 KNOWN_PATTERNS = ("*.dat", "*.txt", "*.csv", "*.tsv", "*.dos", "*.xlsx")
 
@@ -183,6 +188,21 @@ def _one_line(text):
     return " ".join(str(text).split())
 
 
+def _key_numbers(dos, info):
+    """C_v and S at 298.15 K with their estimated errors, the low-frequency θ_D and the table's worst error."""
+    from .accuracy.rows import harmonic_row_errors
+    from .columns import column_name
+    from .tables import tabulate
+    room = tabulate(dos, [INDEX_TEMPERATURE]).iloc[0]
+    err = harmonic_row_errors(dos, [INDEX_TEMPERATURE])
+    return {"heat_capacity_v_298K_J_per_mol_K": float(room[column_name("heat_capacity_v")]),
+            "heat_capacity_v_298K_error_J_per_mol_K": float(err["heat_capacity_v"][0]),
+            "entropy_298K_J_per_mol_K": float(room[column_name("entropy")]),
+            "entropy_298K_error_J_per_mol_K": float(err["entropy"][0]),
+            "low_frequency_debye_temperature_K": dos.low_frequency_debye_temperature_k(),
+            "estimated_relative_error": info.get("estimated_relative_error")}
+
+
 def process_file(source, target, options):
     """Load one DOS file, tabulate it and write its table; never raises.
 
@@ -215,7 +235,7 @@ def process_file(source, target, options):
         table = tabulate(dos, options.temperatures, per=options.per, formula=formula)
         info = provenance(dos, options.temperatures, per=options.per, formula=formula)
         write_table(table, info, options.fmt, target, overwrite=options.force, digits=options.digits)
-        row.update(status="ok", output=Path(target).name)
+        row.update(status="ok", output=Path(target).name, **_key_numbers(dos, info))
     except ModeheatError as exc:
         row["error"] = _one_line(exc)
     except OSError as exc:

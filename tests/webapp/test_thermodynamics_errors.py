@@ -40,3 +40,13 @@ def test_download_carries_the_error_columns_and_flags(ws):
     doc = json.loads(body)
     assert name.endswith(".json")
     assert "entropy_error_J_per_mol_K" in doc["columns"] and "error_reason" in doc["columns"]
+
+
+def test_spectrum_page_lists_every_part_and_the_undetermined_range():
+    from thermo import load_dos
+    from webapp.pages.spectrum import accuracy_items
+    items = accuracy_items(load_dos(C.dos_text(*C.gaussian_dos(C.BCC, 8, 0.12)), atoms=1))
+    texts = [t for _, t in items]
+    assert any("not determined by the data" in t for t in texts)
+    five = [(k, t) for k, t in items if t.startswith("error estimate C_v(5 K)")]
+    assert five[0][0] == "warn" and "resolution ±" in five[0][1] and "smearing ±" in five[0][1]

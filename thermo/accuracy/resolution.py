@@ -365,14 +365,12 @@ def resolution_parts(dos, temperatures, resolution=None):
         th = t[hot]
         # the signed change crosses zero at some temperatures: its envelope over T/ENVELOPE..T·ENVELOPE is used
         aux = np.unique(np.concatenate([th, np.geomspace(th.min() / ENVELOPE, th.max() * ENVELOPE, ENVELOPE_POINTS)]))
-        res_hot, sm_aux = np.zeros((4, th.size)), np.zeros((4, aux.size))
-        for lo in range(0, max(th.size, aux.size), 64):        # temperature blocks: memory stays small
-            if lo < th.size:
-                for i, k in enumerate(_kernels(floor, th[lo:lo + 64])):
-                    res_hot[i, lo:lo + 64] = np.einsum("g,gm->m", d_res, np.abs(np.diff(k, axis=0)))
-            if lo < aux.size:
-                for i, k in enumerate(_kernels(floor, aux[lo:lo + 64])):
-                    sm_aux[i, lo:lo + 64] = np.abs(np.einsum("g,gm->m", d_sm, 0.5 * (k[1:] + k[:-1])))
+        res_aux, sm_aux = np.zeros((4, aux.size)), np.zeros((4, aux.size))
+        for lo in range(0, aux.size, 64):        # temperature blocks: memory stays small
+            for i, k in enumerate(_kernels(floor, aux[lo:lo + 64])):
+                res_aux[i, lo:lo + 64] = np.einsum("g,gm->m", d_res, np.abs(np.diff(k, axis=0)))
+                sm_aux[i, lo:lo + 64] = np.abs(np.einsum("g,gm->m", d_sm, 0.5 * (k[1:] + k[:-1])))
+        res_hot = res_aux[:, np.searchsorted(aux, th)]
         near = (aux[None, :] >= th[:, None] / ENVELOPE) & (aux[None, :] <= th[:, None] * ENVELOPE)
         out_res[:, hot] = RESOLUTION_SAFETY * res_hot
         for i in range(4):

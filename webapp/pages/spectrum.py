@@ -6,7 +6,8 @@ from __future__ import annotations
 import dash
 from dash import ClientsideFunction, Input, Output, State, callback, clientside_callback, ctx, dcc, html, no_update
 
-from thermo.accuracy.breakdown import FLAG_SPREAD, error_breakdown, error_column
+from thermo.accuracy.breakdown import FLAG_SPREAD, PARTS, error_breakdown, error_column
+from thermo.accuracy.resolution import analyse_resolution, resolution_note
 from thermo.errors import OptionError
 from thermo.preparation.options import ReadingOptions
 from thermo.units import FREQUENCY_UNITS
@@ -211,20 +212,26 @@ ACCURACY_TEMPERATURES = (5.0, 20.0, 298.15)
 
 
 def accuracy_items(dos):
-    """``(kind, text)`` lines of the error breakdown (numerical / low-frequency) of C_v and S."""
+    """``(kind, text)`` lines of the error breakdown (every part) of C_v and S, and what the data resolve."""
     table = error_breakdown(dos, ACCURACY_TEMPERATURES)
     items = []
+    note = resolution_note(analyse_resolution(dos), ACCURACY_TEMPERATURES)
+    if note:
+        items.append(("warn", note))
     for key, symbol, unit in (("heat_capacity_v", "C_v", "J/(mol·K)"), ("entropy", "S", "J/(mol·K)")):
         for _, row in table.iterrows():
-            num, low = row[error_column(key, "numerical")], row[error_column(key, "low_frequency")]
-            rel_num = row[error_column(key, "numerical", relative=True)]
-            rel_low = row[error_column(key, "low_frequency", relative=True)]
-            kind = "warn" if rel_low > FLAG_SPREAD else "info"
-            items.append((kind, f"error estimate {symbol}({row['temperature_K']:g} K): numerical ±{num:.2g} "
-                                f"{unit} ({100 * rel_num:.2g} %), low-frequency ±{low:.2g} {unit} "
-                                f"({100 * rel_low:.2g} %)" + (" — over 1 %, check against measured data"
-                                                              if kind == "warn" else "")))
+            parts = ", ".join(f"{_PART_WORDS[p]} ±{row[error_column(key, p)]:.2g} {unit} "
+                              f"({100 * row[error_column(key, p, relative=True)]:.2g} %)" for p in PARTS)
+            total = sum(row[error_column(key, p, relative=True)] for p in PARTS)
+            kind = "warn" if total > FLAG_SPREAD else "info"
+            items.append((kind, f"error estimate {symbol}({row['temperature_K']:g} K): {parts}"
+                                + (" — over 1 %, check against measured data" if kind == "warn" else "")))
     return items
+
+
+#: Short words for the parts of the error estimate.
+_PART_WORDS = {"numerical": "numerical", "low_frequency": "low-frequency", "resolution": "resolution",
+               "smearing": "smearing"}
 
 
 # ---------------------------------------------------------------- layout
