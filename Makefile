@@ -5,7 +5,7 @@ VENV   ?= .venv
 PY     := $(VENV)/bin/python
 PORT   ?= 8050
 
-.PHONY: run test bench bench-json bench-quick demo-data clean
+.PHONY: run test test-budget bench bench-json bench-quick demo-data clean
 
 $(VENV)/.installed: requirements.txt
 	$(PYTHON) -m venv $(VENV)
@@ -23,6 +23,9 @@ run: $(VENV)/.installed
 
 test: $(VENV)/.test-installed
 	$(PY) -m pytest -q --headless
+
+test-budget: $(VENV)/.test-installed  ## resource checks: each page and command at its documented limits (<= 1 GB, <= 10 s)
+	$(PY) -m pytest -q -m budget tests/budget
 
 bench: $(VENV)/.test-installed        ## every performance figure (p1-p13), readable (several minutes)
 	$(PY) -m bench

@@ -9,9 +9,8 @@ from dash import Input, Output, State, callback, html
 
 from thermo import models
 from thermo.columns import find
-from thermo.temperatures import temperature_range
 
-from .. import cache, session
+from .. import budget, cache, session
 from .. import components as c
 from .. import figures as fg
 from ..labels import axis_title, theta_label
@@ -173,7 +172,7 @@ def draw(workspace, einstein_key, debye_key, optical, t_min, t_max, step, per, r
     if current is None:
         blank = fg.message_figure("no dataset loaded")
         return blank, blank, blank, blank, []
-    temperatures = temperature_range(t_min, t_max, step)
+    temperatures = budget.temperatures(t_min, t_max, step)
     return (*figures(current, temperatures, per, einstein_key, debye_key, optical,
                      residual_key or "heat_capacity_v"), [])
 

@@ -8,9 +8,8 @@ from dash import Input, Output, callback, dcc, html
 
 from thermo.columns import find
 from thermo.tables import classical_heat_capacity
-from thermo.temperatures import temperature_range
 
-from .. import cache, session
+from .. import budget, cache, session
 from .. import components as c
 from .. import figures as fg
 from ..labels import axis_title, unit_of
@@ -117,7 +116,7 @@ def draw(workspace, t_min, t_max, step, per, log_t):
     if current is None:
         blank = fg.message_figure("no dataset loaded")
         return blank, blank, blank, blank, [], [], []
-    figs, keys, table = figures(current, temperature_range(t_min, t_max, step), per, bool(log_t))
+    figs, keys, table = figures(current, budget.temperatures(t_min, t_max, step), per, bool(log_t))
     return (*figs, keys, table, [])
 
 
