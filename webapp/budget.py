@@ -58,11 +58,11 @@ def configure(config, max_upload_bytes):
 
 def setting(name):
     """A budget setting of the running server (the configured app's, outside a request too)."""
+    import dash
     import flask
     if flask.has_app_context():
         return flask.current_app.config[name]
-    from .shell import server
-    return server.config[name]
+    return dash.get_app().server.config[name]
 
 
 def checked_count(values, what="temperatures"):

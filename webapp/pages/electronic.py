@@ -11,7 +11,6 @@ from dash import Input, Output, State, callback, dcc, html
 
 from thermo.columns import column_name
 from thermo.electronic import CAUTIONS, electronic_table
-from thermo.temperatures import temperature_range
 from thermo.unit_names import ELECTRON_ENERGY_UNITS
 
 from .. import budget, cache, intake
