@@ -48,6 +48,7 @@ bench-quick: $(VENV)/.test-installed  ## smoke run: fewer repeats, 200 batch fil
 
 demo-data: $(VENV)/.installed  ## regenerate every invented demo file (deterministic)
 	$(PY) sample_dos/generate.py
+	$(PY) sample_dos/generate_modes.py
 	$(PY) sample_dos/volumes/generate_volumes.py
 	$(PY) sample_dos/generate_calorimetry.py
 	$(PY) sample_dos/electronic/generate_electronic.py

@@ -5,7 +5,6 @@ from __future__ import annotations
 import base64
 import hashlib
 import json
-from pathlib import Path
 
 import dash
 import numpy as np
@@ -13,7 +12,6 @@ from dash import Input, Output, State, callback, dash_table, dcc, html, no_updat
 
 from thermo.columns import error_column_for, find, lookup
 from thermo.errors import DosInputError, OptionError
-from thermo.io.writers import DEFAULT_DIGITS, export_table
 from thermo.quasiharmonic import (CAUTIONS, free_energy_curves, free_energy_surface, make_volume_set,
                                   quasiharmonic_table, read_manifest)
 from thermo.quasiharmonic.report import quasiharmonic_provenance
@@ -22,6 +20,7 @@ from thermo.temperatures import STANDARD_TEMPERATURE, temperature_range, with_st
 from .. import cache, filesets, session
 from ..demo import demo_file
 from .. import components as c
+from .. import exports
 from .. import figures as fg
 from ..labels import PER_CHOICES, axis_title
 from ..reporting import reported
@@ -35,8 +34,6 @@ EOS_CHOICES = [{"label": "Birch–Murnaghan (3rd order)", "value": "birch-murnag
 ERROR_CHOICES = [{"label": "estimate, shown as bands", "value": "on"}, {"label": "off", "value": "off"}]
 SOURCE_CHOICES = [{"label": "manifest + DOS files", "value": "manifest"},
                   {"label": "loaded datasets (type volumes and energies)", "value": "datasets"}]
-FORMAT_CHOICES = [{"label": "CSV", "value": "csv"}, {"label": "Excel (XLSX)", "value": "xlsx"},
-                  {"label": "JSON", "value": "json"}]
 #: Temperatures of the F(V) curves [K].
 CURVE_TEMPERATURES = (0.0, 200.0, 400.0, 600.0, 800.0, 1000.0)
 _GRAPHS = ("qh-fv-graph", "qh-v-graph", "qh-alpha-graph", "qh-b-graph", "qh-cp-graph", "qh-gamma-graph",
@@ -219,9 +216,7 @@ def layout(**_query):
                   c.graph("qh-residual-graph", "Root-mean-square misfit of the equation of state to F(V) "
                                                "at each temperature")], className="mh-grid"),
         html.H2("Export"),
-        html.Div([c.radio("qh-format", FORMAT_CHOICES, "csv", "File format"),
-                  html.Button("Download quasi-harmonic table", id="qh-download-btn", className="mh-button mh-primary"),
-                  dcc.Download(id="qh-download")], className="mh-inline"),
+        exports.download_bar("qh", "quasi-harmonic table"),
         html.Ul([html.Li(text) for text in CAUTIONS], className="mh-caution"),
     )
 
@@ -324,24 +319,20 @@ def draw(record, source, rows, workspace, t_min, t_max, step, pressure, eos, per
     return (*figures(table, curves), keys, c.message_items(notes[:12]))
 
 
-@callback(Output("qh-download", "data"), Output("qh-messages", "children", allow_duplicate=True),
-          Input("qh-download-btn", "n_clicks"), State("qh-set", "data"), State("qh-source", "value"),
-          State("qh-rows", "data"), State("mh-workspace", "data"), State("qh-tmin", "value"), State("qh-tmax", "value"),
-          State("qh-step", "value"), State("qh-pressure", "value"), State("qh-eos", "value"), State("qh-per", "value"),
-          State("qh-negative", "value"), State("qh-formula", "value"), State("qh-tolerance", "value"),
-          State("qh-format", "value"), State("qh-errors", "value"),
-          prevent_initial_call=True)
-@reported(lambda message: (no_update, c.message_items([("error", message)])))
-def download(_clicks, record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula,
-             tolerance, fmt, errors="on"):
-    """The quasi-harmonic table with its provenance, as the command line writes it (``--errors`` when shown)."""
+def table_download(fmt, record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula,
+                   tolerance, errors="on"):
+    """The quasi-harmonic table with its provenance, as ``modeheat quasiharmonic`` writes it (``--errors`` when shown)."""
     temperatures, p = _settings(t_min, t_max, step, pressure)
     vs, table, _ = results(record, source, rows, workspace, temperatures, p, eos, per, negative, formula or None,
                            tolerance, errors != "off")
-    content = export_table(table, quasiharmonic_provenance(vs, table, temperatures), fmt, digits=DEFAULT_DIGITS)
-    name = f"{Path(str(vs.source.get('name') or 'volumes')).stem}-quasiharmonic-{per}.{fmt}"
-    return dcc.send_bytes(content, name), c.message_items([("info", f"prepared {name}")])
+    stem = f"{exports.file_stem(vs.source.get('name'), 'volumes')}-quasiharmonic-{per}"
+    return exports.table_file(stem, table, quasiharmonic_provenance(vs, table, temperatures), fmt)
 
 
+exports.register_download("qh", [State("qh-set", "data"), State("qh-source", "value"), State("qh-rows", "data"),
+                                 State("mh-workspace", "data"), State("qh-tmin", "value"), State("qh-tmax", "value"),
+                                 State("qh-step", "value"), State("qh-pressure", "value"), State("qh-eos", "value"),
+                                 State("qh-per", "value"), State("qh-negative", "value"), State("qh-formula", "value"),
+                                 State("qh-tolerance", "value"), State("qh-errors", "value")], table_download)
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)
