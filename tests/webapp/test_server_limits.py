@@ -180,9 +180,10 @@ def test_xlsx_bomb_is_refused_from_the_zip_directory_without_unpacking(monkeypat
 
     def unpacking(*args, **kwargs):
         raise AssertionError("a workbook member was unpacked before the size check")
+    bomb = xlsx_bomb()
     monkeypatch.setattr(zipfile.ZipFile, "open", unpacking)
     with pytest.raises(DosInputError, match="unpack"):
-        read_table(xlsx_bomb(), name="bomb.xlsx")
+        read_table(bomb, name="bomb.xlsx")
 
 
 def test_xlsx_bomb_refused_by_the_server(server):
