@@ -244,7 +244,7 @@ def dos_text(frequency_thz, g_per_thz, unit="THz", comment=""):
     """DOS file body in THz or meV (density per the same unit); full precision."""
     scale = {"THz": 1.0, "meV": MEV_PER_THZ}[unit]
     head = f"# {comment}\n" if comment else ""
-    rows = "\n".join(f"{f!r} {g!r}" for f, g in zip(frequency_thz * scale, g_per_thz / scale))
+    rows = "\n".join(f"{float(f)!r} {float(g)!r}" for f, g in zip(frequency_thz * scale, g_per_thz / scale))
     return f"{head}frequency_{unit} total\n{rows}\n"
 
 

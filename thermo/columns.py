@@ -289,6 +289,7 @@ register_quantity("eos_fit_residual", "ΔF_rms", "fixed", "meV", "meV",
 register_quantity("outside_volume_range", "outside", "fixed",
                   description="True where the minimum lies outside the sampled volumes (extrapolated)")
 for _key in ("volume", "thermal_expansion", "bulk_modulus_T", "heat_capacity_p", "heat_capacity_v", "entropy",
+             "internal_energy", "helmholtz_energy",
              "enthalpy", "gibbs_energy", "gruneisen_parameter"):
     register_error(_key)
 # --- calorimetry (measured heat capacity, thermo/calorimetry) ---
@@ -358,4 +359,13 @@ register_quantity("stable_phase", "stable", "fixed", description="phase with the
 register_quantity("stable_phase_decided", "decided", "fixed",
                   description="False where the lowest G is within the estimated errors of another phase's")
 for _key in ("helmholtz_energy_difference", "gibbs_energy_difference"):
+    register_error(_key)
+register_quantity("helmholtz_energy_formation", "ΔF_f", "energy",
+                  description="Helmholtz energy of formation of a compound from the phases of its reaction")
+register_quantity("gibbs_energy_formation", "ΔG_f", "energy",
+                  description="Gibbs energy of formation of a compound from the phases of its reaction")
+register_quantity("entropy_formation", "ΔS_f", "entropy",
+                  description="entropy of formation of a compound (vibrational, plus electronic when given)")
+register_quantity("enthalpy_formation", "ΔH_f", "energy", description="enthalpy of formation ΔF_f + TΔS_f")
+for _key in ("helmholtz_energy_formation", "gibbs_energy_formation"):
     register_error(_key)

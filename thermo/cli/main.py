@@ -16,7 +16,7 @@ from ..errors import ModeheatError
 
 #: Subcommand modules, in the order shown by --help.
 SUBCOMMANDS = ("table", "summary", "models", "batch", "serve", "workspace", "quasiharmonic", "calorimetry",
-               "displacements", "elastic", "polynomial", "electronic")
+               "displacements", "elastic", "polynomial", "electronic", "compare", "phases")
 
 
 def build_parser():

@@ -241,7 +241,7 @@ def _format_name(fmt) -> str:
     return kind
 
 
-def _plain(value):
+def plain_value(value):
     """JSON-able Python value: numpy scalars/arrays unwrapped, non-finite -> None."""
     if isinstance(value, np.generic):
         value = value.item()
@@ -250,9 +250,9 @@ def _plain(value):
     if isinstance(value, float) and not math.isfinite(value):
         return None
     if isinstance(value, dict):
-        return {str(k): _plain(v) for k, v in value.items()}
+        return {str(k): plain_value(v) for k, v in value.items()}
     if isinstance(value, (list, tuple)):
-        return [_plain(v) for v in value]
+        return [plain_value(v) for v in value]
     if value is None or isinstance(value, (str, bool, int, float)):
         return value
     return str(value)
@@ -264,7 +264,7 @@ def _plain_provenance(provenance) -> dict:
         key = str(key)
         if not key or ": " in key or key != " ".join(key.split()):
             raise OptionError(f"provenance key {key!r} must be one line without ': '")
-        meta[key] = _plain(value)
+        meta[key] = plain_value(value)
     return meta
 
 
@@ -308,7 +308,7 @@ def _inert_key(key: str) -> str:
 
 
 def _rows(df):
-    return [[_plain(v) for v in row] for row in df.itertuples(index=False, name=None)]
+    return [[plain_value(v) for v in row] for row in df.itertuples(index=False, name=None)]
 
 
 def _json_bytes(df, meta) -> bytes:

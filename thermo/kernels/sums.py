@@ -180,6 +180,8 @@ def mode_list_sums(modes, temperatures, method="auto", keys=SUM_KEYS):
     if hot.any():
         parts = [grid_sums(modes.frequency_thz, modes.weight, t[hot], method, keys)]
         parts += [analytic_part_sums(fit, t[hot]) for fit in modes.continuum]
+        if modes.extra[0].size:
+            parts.append(direct_grid_sums(*modes.extra, t[hot], keys))
         for key in keys:
             out[key][hot] = sum(p[key] for p in parts)
     if "thermal_energy" in out and "log_partition" in out:

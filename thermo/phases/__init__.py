@@ -8,6 +8,7 @@ transitions, the closest approach when there is none and the p–T boundary;
 
 from .compare import Basis, Comparison, basis_of, compare_phases
 from .phase import ENERGY_UNITS, Phase, energy_in_ev, phase_curves
+from .reaction import formation_table, parse_reaction
 
 __all__ = ["Basis", "Comparison", "ENERGY_UNITS", "Phase", "basis_of", "compare_phases", "energy_in_ev",
-           "phase_curves"]
+           "formation_table", "parse_reaction", "phase_curves"]

@@ -100,7 +100,7 @@ class Comparison:
     settings: dict = field(default_factory=dict)
 
 
-def _check(phases, temperatures):
+def _check(phases, temperatures, min_temperatures=2):
     names = [p.name for p in phases]
     if len(phases) < 2:
         raise OptionError("compare at least two phases")
@@ -112,8 +112,8 @@ def _check(phases, temperatures):
                           "(quasi-harmonic); a fixed-volume F cannot be compared with G(T, p)")
     from ..tables import check_temperatures
     t = np.unique(check_temperatures(temperatures))
-    if t.size < 2:
-        raise OptionError("give at least two temperatures")
+    if t.size < min_temperatures:
+        raise OptionError("give at least two temperatures (a crossing is searched between them)")
     return t, kinds.pop()
 
 
