@@ -23,7 +23,7 @@ import re
 import dash
 from dash import ALL, ClientsideFunction, Dash, Input, Output, State, dcc, html, no_update
 
-from . import components, demo, intake, persistence, session
+from . import components, demo, hosts, intake, persistence, session
 from .reporting import attempt
 
 ASSETS = os.path.join(os.path.dirname(__file__), "assets")
@@ -65,9 +65,11 @@ _DEMO = {}
 _CSP = {}
 
 
-def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspace=None):
+def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspace=None, bound_host=None):
     """Set the server's settings (upload limit [MB], demo folder, session-storage limit [characters],
-    workspace file: None keeps the workspace in the browser only)."""
+    workspace file: None keeps the workspace in the browser only; the host bound to, allowed in ``Host``
+    besides loopback and ``MODEHEAT_ALLOWED_HOSTS``; trusted proxies: :mod:`webapp.hosts`)."""
+    hosts.configure(server, bound_host)
     if max_upload_mb is None:
         max_upload_mb = float(os.environ.get("MODEHEAT_MAX_UPLOAD_MB", intake.DEFAULT_MAX_UPLOAD_MB))
     upload_bytes = int(float(max_upload_mb) * 1e6)
@@ -163,6 +165,7 @@ def keep(workspace, space):
 
 
 configure()
+hosts.install(server)
 persistence.install(server)
 server.after_request(security_headers)
 app.layout = shell

@@ -112,7 +112,7 @@ def test_oversize_post_refused_from_its_header_with_little_memory(server):
     before = _rss_kb(server.pid)
     declared = 300 * 10 ** 6
     with socket.create_connection(("127.0.0.1", PORT), timeout=10) as sock:
-        sock.sendall((f"POST /_dash-update-component HTTP/1.1\r\nHost: x\r\nContent-Type: application/json\r\n"
+        sock.sendall((f"POST /_dash-update-component HTTP/1.1\r\nHost: 127.0.0.1\r\nContent-Type: application/json\r\n"
                       f"Content-Length: {declared}\r\n\r\n").encode())
         try:   # the server may answer and close before the body is sent
             sock.sendall(b"{" + b" " * 2_000_000)
