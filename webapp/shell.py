@@ -10,7 +10,9 @@ Settings live in the Flask config (``MODEHEAT_*`` keys), set by
 The request-body limit (Flask ``MAX_CONTENT_LENGTH``) follows from the same
 upload setting (:func:`webapp.intake.request_limit`): an oversize request is
 refused with HTTP 413 from its ``Content-Length`` (or, streamed, as soon as the
-limit is passed) before its body is read.  Every response carries the
+limit is passed) before its body is read; a JSON body nested too deep or holding too many
+objects is refused with HTTP 400 before it is parsed, and page requests are held to the
+budgets of :mod:`webapp.budget`.  Every response carries the
 security headers of :func:`security_headers`.
 """
 
@@ -23,7 +25,7 @@ import re
 import dash
 from dash import ALL, ClientsideFunction, Dash, Input, Output, State, dcc, html, no_update
 
-from . import components, demo, hosts, intake, persistence, session
+from . import budget, components, demo, hosts, intake, persistence, session
 from .reporting import attempt
 
 ASSETS = os.path.join(os.path.dirname(__file__), "assets")
@@ -77,6 +79,7 @@ def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspa
         raise ValueError(f"the upload limit must be > 0 MB, not {max_upload_mb!r}")
     server.config["MODEHEAT_MAX_UPLOAD_BYTES"] = upload_bytes
     server.config["MAX_CONTENT_LENGTH"] = intake.request_limit(upload_bytes)
+    budget.configure(server.config, upload_bytes)
     server.config["MODEHEAT_DEMO_DIR"] = str(demo_dir) if demo_dir is not None else None
     server.config["MODEHEAT_SAVED_LIMIT_CHARS"] = int(saved_limit_chars or session.SAVED_LIMIT_CHARS)
     workspace = workspace if workspace is not None else os.environ.get("MODEHEAT_WORKSPACE") or None
@@ -167,6 +170,7 @@ def keep(workspace, space):
 configure()
 hosts.install(server)
 persistence.install(server)
+budget.install(server)
 server.after_request(security_headers)
 app.layout = shell
 app.callback(Output("mh-workspace", "data", allow_duplicate=True), Input("mh-saved", "data"),
