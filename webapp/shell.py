@@ -26,7 +26,7 @@ import dash
 from dash import ALL, ClientsideFunction, Dash, Input, Output, State, dcc, html, no_update
 
 from . import budget, components, demo, handoff, hosts, intake, persistence, session
-from .reporting import attempt
+from .reporting import attempt, install_guard
 
 ASSETS = os.path.join(os.path.dirname(__file__), "assets")
 #: The plotting library's cartesian bundle (scatter, heatmap and the other 2-D traces: 1.5 MB instead of
@@ -170,6 +170,7 @@ def keep(workspace, space):
 
 configure()
 hosts.install(server)
+install_guard(server)
 persistence.install(server)
 budget.install(server)
 server.after_request(security_headers)
