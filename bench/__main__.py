@@ -10,7 +10,10 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import sys
+
+from .descriptions import WHAT
 
 # Goals of issue 30 where it set them (p1, p2, p7, p9's 41-point run, p14-p16); the scaling exponents are reported.
 GOALS = {
@@ -41,6 +44,7 @@ def _guarded(name, fn, keys):
 
 def measure(only=None, quick=False):
     """All requested figures in one dict."""
+    load_before = os.getloadavg() if hasattr(os, "getloadavg") else None   # other jobs' load (1, 5, 15 min)
     from . import calorimetry, dashboard, figures, load, pageload, quasiharmonic, scaling, workspace
     from .timing import machine
     plan = [
@@ -78,7 +82,7 @@ def measure(only=None, quick=False):
     result["goals"] = {k: f"{op} {v}" if v is not None else op for k, (op, v) in GOALS.items()}
     result["met"] = {k: _met(result.get(k), *GOALS[k]) for k in GOALS if k in result}
     result["quick"] = quick
-    result["machine"] = machine()
+    result["machine"] = {**machine(), "load_average_before_run": load_before}
     return result
 
 
@@ -105,7 +109,7 @@ def main(argv=None):
             value = result[key]
             shown = "null" if value is None else f"{value:.4g}"
             mark = {True: "met", False: "NOT met", None: ""}[result["met"].get(key)]
-            print(f"{key:24s} {shown:>12s}   goal {goal:10s} {mark}")
+            print(f"{key:24s} {shown:>12s}   goal {goal:10s} {mark:8s} {WHAT.get(key, '')}")
     for key, value in result.items():
         if key.endswith(("_note", "_case")):
             print(f"  {key}: {value}")

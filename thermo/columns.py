@@ -289,6 +289,7 @@ register_quantity("eos_fit_residual", "ΔF_rms", "fixed", "meV", "meV",
 register_quantity("outside_volume_range", "outside", "fixed",
                   description="True where the minimum lies outside the sampled volumes (extrapolated)")
 for _key in ("volume", "thermal_expansion", "bulk_modulus_T", "heat_capacity_p", "heat_capacity_v", "entropy",
+             "internal_energy", "helmholtz_energy",
              "enthalpy", "gibbs_energy", "gruneisen_parameter"):
     register_error(_key)
 # --- calorimetry (measured heat capacity, thermo/calorimetry) ---
@@ -341,3 +342,30 @@ register_quantity("helmholtz_energy_total", "F_vib+el", "energy",
 #: Quantities of the electronic table, in column order.
 ELECTRONIC = ("temperature", "heat_capacity_electronic", "entropy_electronic", "internal_energy_electronic",
               "helmholtz_energy_electronic", "chemical_potential_shift")
+# --- phase comparison (thermo.phases) ---
+register_quantity("phase", "phase", "fixed", description="name of a phase")
+register_quantity("reference_phase", "reference", "fixed", description="phase the differences are taken against")
+register_quantity("pressure", "p", "fixed", "GPa", "GPa", "pressure")
+register_quantity("helmholtz_energy_difference", "ΔF", "energy",
+                  description="Helmholtz energy of the phase minus the reference phase (fixed volumes)")
+register_quantity("gibbs_energy_difference", "ΔG", "energy",
+                  description="Gibbs energy of the phase minus the reference phase")
+register_quantity("entropy_difference", "ΔS", "entropy", description="entropy of the phase minus the reference phase")
+register_quantity("enthalpy_difference", "ΔH", "energy",
+                  description="enthalpy (ΔG + TΔS) of the phase minus the reference phase")
+register_quantity("volume_difference", "ΔV", "fixed", "Å³", "A3",
+                  description="volume of the phase minus the reference phase (per atom or per common formula unit)")
+register_quantity("stable_phase", "stable", "fixed", description="phase with the lowest G (F) at this row")
+register_quantity("stable_phase_decided", "decided", "fixed",
+                  description="False where the lowest G is within the estimated errors of another phase's")
+for _key in ("helmholtz_energy_difference", "gibbs_energy_difference"):
+    register_error(_key)
+register_quantity("helmholtz_energy_formation", "ΔF_f", "energy",
+                  description="Helmholtz energy of formation of a compound from the phases of its reaction")
+register_quantity("gibbs_energy_formation", "ΔG_f", "energy",
+                  description="Gibbs energy of formation of a compound from the phases of its reaction")
+register_quantity("entropy_formation", "ΔS_f", "entropy",
+                  description="entropy of formation of a compound (vibrational, plus electronic when given)")
+register_quantity("enthalpy_formation", "ΔH_f", "energy", description="enthalpy of formation ΔF_f + TΔS_f")
+for _key in ("helmholtz_energy_formation", "gibbs_energy_formation"):
+    register_error(_key)

@@ -43,6 +43,10 @@ class LowFrequencyFit:
     species_shares : dict of str to float
         Share of each partial column in the analytic part (its share of the
         DOS in the fit window) [1].
+    smooth_taper : bool
+        The step of :meth:`taper` is infinitely smooth (a mode list's
+        continuum, whose complement is summed on a mesh), :math:`1/(1+e^{1/(1-s)-1/s})`, instead of
+        :math:`1 - s^2(3-2s)`.
     """
 
     coefficient: float
@@ -56,6 +60,7 @@ class LowFrequencyFit:
     coefficient_uncertainty: float = 0.0
     blend_top_thz: float | None = None
     species_shares: dict = field(default_factory=dict)
+    smooth_taper: bool = False
 
     def form(self, frequency_thz):
         r"""The fitted form :math:`A\nu^2(1+b\nu^2+c\nu^4)` [states / THz]."""
@@ -69,6 +74,9 @@ class LowFrequencyFit:
         if top <= self.cutoff_thz:
             return np.where(nu <= self.cutoff_thz, 1.0, 0.0)
         s = np.clip((nu - self.cutoff_thz) / (top - self.cutoff_thz), 0.0, 1.0)
+        if self.smooth_taper:       # C^∞: 1 - e^{-1/s} / (e^{-1/s} + e^{-1/(1-s)})
+            with np.errstate(divide="ignore", over="ignore", invalid="ignore"):
+                return 1.0 / (1.0 + np.exp(1.0 / (1.0 - s) - 1.0 / s))
         return 1.0 - s * s * (3.0 - 2.0 * s)
 
     def taper_nodes(self):
@@ -127,6 +135,75 @@ class LowFrequencyFit:
 
 
 @dataclass(frozen=True)
+class ModeList:
+    r"""The modes of a q-point mesh, summed one by one (no smearing).
+
+    Attributes
+    ----------
+    frequency_thz : numpy.ndarray, shape (N,)
+        Ascending real mode frequencies [THz], >= 0 (the acoustic modes of the
+        innermost q-shell left out when ``continuum`` replaces them).
+    weight : numpy.ndarray, shape (N,)
+        Modes per formula unit each mode carries (its q-point weight after
+        normalisation) [1].
+    partials : dict of str to numpy.ndarray
+        Each species' share of ``weight`` (projection × weight), same order [1].
+    continuum : tuple of LowFrequencyFit
+        The elastic continuum of each acoustic branch inside the innermost
+        q-shell (empty when not built).
+    cell_volume_a3 : float or None
+        Cell volume stated by the file [Å³].
+    resolved_thz : float
+        Lowest frequency the list resolves: the lowest acoustic frequency of
+        the innermost q-shell without Γ (or the lowest real mode) [THz].
+    extra : tuple of numpy.ndarray
+        Quadrature nodes [THz] and mode weights [1] (either sign) of the
+        continuum's dispersion beyond :math:`A_j\nu^2`.
+    velocities : dict
+        The long-wave fit when a continuum was built: ``inverse_cube_mean``
+        (direction mean of :math:`\sum_j c_j^{-3}`, [(100 m/s)⁻³] = [(Å·THz)⁻³]),
+        ``points`` used, ``shell_radius_per_A``.
+
+    Notes
+    -----
+    A sum over the list is :math:`\sum_i w_i K(h\nu_i/k_BT)` plus the
+    closed-form integral of each continuum branch
+    :math:`A_j\nu^2(1+b_j\nu^2)` on :math:`[0, \nu_{c,j}]`.
+
+    Examples
+    --------
+    >>> m = ModeList(np.array([1.0, 2.0]), np.array([1.5, 1.5]))
+    >>> m.mode_count
+    3.0
+    """
+
+    frequency_thz: np.ndarray
+    weight: np.ndarray
+    partials: dict = field(default_factory=dict)
+    continuum: tuple = ()
+    cell_volume_a3: float | None = None
+    resolved_thz: float = 0.0
+    velocities: dict = field(default_factory=dict)
+    extra: tuple = (np.zeros(0), np.zeros(0))
+
+    @property
+    def mode_count(self) -> float:
+        """Modes carried by the list and its continuum [per formula unit]."""
+        return self.moment(0)
+
+    def moment(self, power) -> float:
+        r""":math:`\sum_i w_i\nu_i^p` plus the continuum's :math:`\int \nu^p g\,d\nu` [modes · THz^p]."""
+        nodes, modes = self.extra
+        return float(np.sum(self.weight * self.frequency_thz ** power) + np.sum(modes * nodes ** power)) + sum(
+            f.analytic_moment(power) for f in self.continuum)
+
+    def continuum_debye_temperature_k(self, atoms) -> float | None:
+        r"""Debye temperature of the continuum's summed :math:`A = \sum_j A_j` [K], or None."""
+        a = sum(f.coefficient for f in self.continuum)
+        return float(H_OVER_K_THZ * (9.0 * atoms / a) ** (1.0 / 3.0)) if a > 0 else None
+
+
+@dataclass(frozen=True)
 class PhononDOS:
     """A normalised phonon DOS ready for thermodynamic integration.
 
@@ -158,6 +235,9 @@ class PhononDOS:
         converted to THz and scaled by the same normalisation factor, for plots.
     input_partials : dict of str to numpy.ndarray
         The partial columns as read, on ``input_frequency_thz``, same scale.
+    modes : ModeList or None
+        For a mode list: the modes the sums run over; ``frequency_thz``/``dos``
+        then hold a histogram of them for plots and moment-based models.
     """
 
     frequency_thz: np.ndarray
@@ -170,10 +250,13 @@ class PhononDOS:
     input_frequency_thz: np.ndarray | None = None
     input_dos: np.ndarray | None = None
     input_partials: dict = field(default_factory=dict)
+    modes: ModeList | None = None
 
     @property
     def mode_count(self) -> float:
         """Number of real modes carried by the spectrum [per formula unit]."""
+        if self.modes is not None:
+            return self.modes.mode_count
         from .kernels.quadrature import mode_weights
         total = float(mode_weights(self.frequency_thz, self.dos).sum())
         if self.low_frequency is not None:
@@ -195,6 +278,8 @@ class PhononDOS:
         .. [1] P. Debye, "Zur Theorie der spezifischen Wärmen", Ann. Phys.
            344, 789-839 (1912).
         """
+        if self.modes is not None:
+            return self.modes.continuum_debye_temperature_k(self.atoms)
         if self.low_frequency is None or self.low_frequency.coefficient <= 0:
             return None
         return float(H_OVER_K_THZ * (9.0 * self.atoms / self.low_frequency.coefficient) ** (1.0 / 3.0))

@@ -1,7 +1,11 @@
 """Memoised calls into :mod:`thermo` for the datasets of a workspace.
 
-Results are keyed by the SHA-256 of the file content and the load options, so
-the caches hold pure results only and users never share state through them.
+Results are keyed by the SHA-256 the server computed from the bytes (or, for
+a dataset kept in the workspace file, after checking that the requesting
+browser's space holds it: :func:`webapp.session.verified_sha256`) and the load
+options, never by a hash a request states; so the caches hold pure results
+only, a browser cannot read another's results by naming their hash, and bytes
+posted under someone else's hash are cached under their own.
 
 Each cache is bounded by entry count and by bytes (arrays, tables and strings
 it holds, measured by :func:`held_bytes`); the four caches together hold at
@@ -26,7 +30,7 @@ from thermo.io.readers import read_table
 
 from thermo.preparation.options import FIELDS
 
-from .session import content_bytes, options_of, reading_of
+from .session import content_bytes, options_of, reading_of, verified_sha256
 
 
 def held_bytes(value, _depth=0) -> int:
@@ -106,10 +110,38 @@ def held_total() -> int:
     return sum(c.held for c in CACHES)
 
 
+def verified(dataset) -> str:
+    """:func:`webapp.session.verified_sha256` of a dataset, computed once per request for the same content."""
+    memo = _request_memo()
+    if memo is None:
+        return verified_sha256(dataset)
+    content = dataset.get("content")
+    mark = (dataset.get("encoding"), dataset.get("sha256"), id(content))
+    if mark not in memo or memo[mark][0] is not content:
+        memo[mark] = (content, verified_sha256(dataset))     # content kept: its id is not reused meanwhile
+    return memo[mark][1]
+
+
+def _request_memo():
+    try:
+        import flask
+    except ImportError:     # pragma: no cover - flask comes with dash
+        return None
+    if not flask.has_request_context():
+        return None
+    if not hasattr(flask.g, "mh_verified"):
+        flask.g.mh_verified = {}
+    return flask.g.mh_verified
+
+
 def load_key(dataset):
-    """The key of a dataset's loaded DOS: content hash, name and its reading options (canonical record)."""
+    """The key of a dataset's loaded DOS: the verified content hash, name and reading options (canonical record).
+
+    Raises :class:`webapp.session.ForeignDataset` for a stored reference the
+    requesting browser's space does not hold, before any cache is consulted.
+    """
     reading = reading_of(dataset).resolved()
-    return (dataset["sha256"], dataset["name"], *(getattr(reading, k) for k in FIELDS))
+    return (verified(dataset), str(dataset["name"]), *(getattr(reading, k) for k in FIELDS))
 
 
 def load(dataset, loaded=None):
@@ -135,7 +167,7 @@ def stated_unit(dataset):
             return read_table(content_bytes(dataset), name=dataset["name"]).header_unit
         except ModeheatError:
             return None
-    return _HEADER_CACHE.get(dataset["sha256"], compute)
+    return _HEADER_CACHE.get(verified(dataset), compute)
 
 
 def formula_for(dataset, per):

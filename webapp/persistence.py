@@ -42,8 +42,10 @@ def _key():
 
 def install(server):
     """Give every response of ``server`` the browser's space cookie (set once, HttpOnly, SameSite=Lax),
-    and let :func:`webapp.session.content_bytes` read stored bytes from the requesting browser's space only."""
+    and let :func:`webapp.session.content_bytes` read stored bytes from the requesting browser's space only
+    (:func:`webapp.session.verified_sha256` accepts a stored reference only when that space holds it)."""
     session.STORED_BYTES["fetch"] = lambda sha: current_space(server).content(sha)
+    session.STORED_BYTES["owns"] = lambda sha: enabled(server) and owns(current_space(server), sha)
 
     @server.after_request
     def _cookie(response):
@@ -53,6 +55,11 @@ def install(server):
                 response.set_cookie(COOKIE, key, max_age=COOKIE_SECONDS, httponly=True, samesite="Lax",
                                     secure=flask.request.is_secure)
         return response
+
+
+def owns(space, sha) -> bool:
+    """True when ``space`` holds a live dataset with the SHA-256 ``sha`` (a full 64-digit hash)."""
+    return any(d.sha256 == sha for d in space.datasets())
 
 
 def store(server):

@@ -16,8 +16,10 @@ from __future__ import annotations
 import base64
 import hashlib
 import json
+import re
 import uuid
 
+from thermo.errors import ModeheatError
 from thermo.preparation.options import FIELDS, ReadingOptions
 
 #: Load options of a new dataset: the reading-options record's defaults in stored form
@@ -33,9 +35,14 @@ def empty_workspace():
     return {"datasets": [], "active": None}
 
 
-#: Reads the bytes of a dataset kept by the server (``encoding: "stored"``, no ``content``);
-#: set by :func:`webapp.persistence.install` (configuration, not per-user data).
-STORED_BYTES = {"fetch": None}
+#: Reads the bytes of a dataset kept by the server (``encoding: "stored"``, no ``content``) and tells
+#: whether the requesting browser's space holds a SHA-256 (``owns``); set by
+#: :func:`webapp.persistence.install` (configuration, not per-user data).
+STORED_BYTES = {"fetch": None, "owns": None}
+
+
+class ForeignDataset(ModeheatError):
+    """A dataset reference the requesting browser's space does not hold."""
 
 
 def content_bytes(dataset) -> bytes:
@@ -45,6 +52,29 @@ def content_bytes(dataset) -> bytes:
     if dataset.get("encoding") == "base64":
         return base64.b64decode(dataset["content"])
     return dataset["content"].encode("utf-8")
+
+
+def verified_sha256(dataset) -> str:
+    """The SHA-256 [64 hex digits] the server itself vouches for (FIPS 180-4), never the one a request states.
+
+    A dataset carrying its bytes (``text``/``base64``) is hashed here; a
+    stored one (``encoding: "stored"``) is only a reference, accepted when
+    the requesting browser's space holds those bytes
+    (:class:`ForeignDataset` otherwise).  Caches key on this value.
+
+    Examples
+    --------
+    >>> d = new_dataset("a.dat", b"1 2\\n")
+    >>> verified_sha256({**d, "sha256": "0" * 64}) == d["sha256"]
+    True
+    """
+    if dataset.get("encoding") == "stored":
+        sha = str(dataset.get("sha256") or "")
+        owns = STORED_BYTES["owns"]
+        if owns is None or not re.fullmatch(r"[0-9a-f]{64}", sha) or not owns(sha):
+            raise ForeignDataset(f"dataset {str(dataset.get('name'))[:80]!r} is not in this browser's workspace")
+        return sha
+    return hashlib.sha256(content_bytes(dataset)).hexdigest()
 
 
 def options_of(dataset) -> dict:

@@ -7,8 +7,24 @@ Run with ``pytest tests/browser --headless``.  Chromium is Debian's
 import os
 
 import pytest
+from dash.testing.application_runners import ThreadedRunner
 
-from webapp.browser import available, chrome_options
+from tests.ports import worker_port
+from webapp.browser import CHROMIUM, available, chrome_options
+
+MISSING = (f"Chromium ({CHROMIUM}) or chromedriver is not installed: run `make test` (it installs them) "
+           "or `sudo apt-get install chromium chromium-driver`")
+
+_threaded_start = ThreadedRunner.start
+
+
+def _start_on_worker_port(self, app, start_timeout=3, **kwargs):
+    """``dash_duo.start_server`` on this xdist worker's own port (tests/ports.py)."""
+    kwargs["port"] = worker_port(kwargs.get("port", 8050))
+    return _threaded_start(self, app, start_timeout, **kwargs)
+
+
+ThreadedRunner.start = _start_on_worker_port
 
 
 def pytest_configure(config):
@@ -19,20 +35,19 @@ def pytest_setup_options():
     return chrome_options(headless=False)   # dash_duo adds --headless itself (pytest --headless)
 
 
+@pytest.hookimpl(tryfirst=True)   # before ``-m "not browser"`` deselects by this marker
 def pytest_collection_modifyitems(config, items):
     here = os.path.dirname(__file__)
     for item in items:
         if str(item.fspath).startswith(here):
             item.add_marker(pytest.mark.browser)
-    if not available() and any(str(item.fspath).startswith(here) for item in items):
-        if os.environ.get("MODEHEAT_NO_BROWSER"):
-            skip = pytest.mark.skip(reason="MODEHEAT_NO_BROWSER is set")
-            for item in items:
-                if str(item.fspath).startswith(here):
-                    item.add_marker(skip)
-        else:
-            raise pytest.UsageError("Chromium or chromedriver is not installed (apt-get install chromium "
-                                    "chromium-driver); set MODEHEAT_NO_BROWSER=1 to skip the browser tests")
+
+
+@pytest.fixture(autouse=True)
+def _browser_installed():
+    """Without Chromium a browser test fails with one line naming the command (never a skip)."""
+    if not available():
+        pytest.fail(MISSING, pytrace=False)
 
 
 @pytest.fixture

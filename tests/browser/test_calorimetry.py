@@ -2,7 +2,7 @@
 
 import numpy as np
 import pytest
-from dash.testing.wait import until
+from tests.browser.waits import until
 from selenium.common.exceptions import NoSuchElementException, StaleElementReferenceException
 from selenium.webdriver.common.by import By
 

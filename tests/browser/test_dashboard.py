@@ -10,7 +10,7 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-from dash.testing.wait import until
+from tests.browser.waits import until
 from scipy import constants as sc
 from selenium.webdriver.common.by import By
 
@@ -78,7 +78,8 @@ def values(driver, graph_id, trace=0):
 
 
 def upload(driver, *paths):
-    field = driver.find_element(By.CSS_SELECTOR, "#mh-upload input[type=file]")
+    """Send ``paths`` to the upload field once the page has drawn it (right after ``get`` it may not be)."""
+    field = until(lambda: driver.find_element(By.CSS_SELECTOR, "#mh-upload input[type=file]"))
     field.send_keys("\n".join(str(p) for p in paths))
 
 

@@ -7,7 +7,7 @@ when the neighbour distance makes √⟨u²⟩/d exceed 0.1 (common practice).
 
 import numpy as np
 import pytest
-from dash.testing.wait import until
+from tests.browser.waits import until
 from selenium.webdriver.common.keys import Keys
 
 from selenium.webdriver.common.by import By

@@ -4,7 +4,7 @@ import math
 
 import numpy as np
 import pytest
-from dash.testing.wait import until
+from tests.browser.waits import until
 from scipy import constants as sc
 from selenium.webdriver.common.by import By
 

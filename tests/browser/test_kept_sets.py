@@ -13,7 +13,7 @@ import shutil
 from pathlib import Path
 
 import pytest
-from dash.testing.wait import until
+from tests.browser.waits import until
 from selenium.webdriver.common.by import By
 
 from .test_workspace import URL, _serve, _stop, browsers, text_of  # noqa: F401  (browsers is a fixture)

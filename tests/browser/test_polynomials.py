@@ -9,7 +9,7 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-from dash.testing.wait import until
+from tests.browser.waits import until
 from selenium.webdriver.common.by import By
 
 from tests.browser.test_dashboard import PLAIN, active_name, no_console_errors, upload, wait_drawn

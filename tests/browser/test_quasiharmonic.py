@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
-from dash.testing.wait import until
+from tests.browser.waits import until
 from selenium.webdriver.common.by import By
 
 from tests.browser.test_dashboard import drawn, js_graph, no_console_errors, values, wait_drawn
@@ -38,7 +38,7 @@ def messages(driver):
 
 
 def upload(driver, paths):
-    field = driver.find_element(By.CSS_SELECTOR, "#qh-upload input[type=file]")
+    field = until(lambda: driver.find_element(By.CSS_SELECTOR, "#qh-upload input[type=file]"))
     driver.execute_script("arguments[0].value = '';", field)   # chromedriver appends to a multiple input
     field.send_keys("\n".join(str(p) for p in paths))
 

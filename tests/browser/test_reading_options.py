@@ -6,7 +6,7 @@ Test spectra are invented (a Debye ν² spectrum, normalised to 1 mode or withou
 
 import numpy as np
 import pytest
-from dash.testing.wait import until
+from tests.browser.waits import text, until
 from selenium.common.exceptions import StaleElementReferenceException
 from selenium.webdriver.common.by import By
 from selenium.webdriver.common.keys import Keys
@@ -41,16 +41,24 @@ def _listed(driver, name, column):
         return None
 
 
+def _typed(driver, css, value):
+    """Type ``value`` + Enter into the input at ``css``; true once the box holds it (retried if redrawn)."""
+    box = driver.find_element(By.CSS_SELECTOR, css)
+    box.clear()
+    box.send_keys(value + Keys.ENTER)
+    return driver.find_element(By.CSS_SELECTOR, css).get_attribute("value") == value
+
+
 def test_atoms_typed_before_the_upload_are_used(duo, tmp_path):
+    # the list and messages re-render while the upload is read: every read goes through
+    # waits.until / waits.text (a redrawn element is "not yet", never a stale-element failure)
     path = tmp_path / "one_mode.dat"
     path.write_text(ONE_MODE)
-    box = duo.find_element("#sp-atoms")
-    box.clear()
-    box.send_keys("2" + Keys.ENTER)
+    until(lambda: _typed(duo.driver, "#sp-atoms", "2"))
     upload(duo.driver, path)
-    until(lambda: active_name(duo.driver) == path.name, 20)
-    until(lambda: _listed(duo.driver, path.name, 1) == "2", 20)
-    assert "integrates to 1 mode" not in duo.find_element("#sp-messages").text
+    until(lambda: active_name(duo.driver) == path.name)
+    until(lambda: _listed(duo.driver, path.name, 1) == "2")
+    assert "integrates to 1 mode" not in text(duo.driver, "#sp-messages")
     no_console_errors(duo)
 
 

@@ -6,7 +6,7 @@ Chromium's console must stay free of errors (a CSP violation is logged there as 
 
 import pytest
 import requests
-from dash.testing.wait import until
+from tests.browser.waits import until
 from selenium.webdriver.common.by import By
 
 from webapp.app import create_app

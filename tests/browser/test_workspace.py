@@ -15,18 +15,19 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-from dash.testing.wait import until
+from tests.browser.waits import until
 from selenium.webdriver.common.by import By
 from selenium.webdriver.support.ui import WebDriverWait
 from selenium.webdriver.support import expected_conditions
 
 from thermo import load_dos, tabulate
 from thermo.columns import find
+from tests.ports import worker_port
 from webapp.browser import start
 
 pytestmark = pytest.mark.browser
 ROOT = Path(__file__).resolve().parents[2]
-PORT = int(os.environ.get("MODEHEAT_TEST_WORKSPACE_PORT", "8078"))
+PORT = worker_port(8078)
 URL = f"http://127.0.0.1:{PORT}"
 PLAIN = "# frequency (THz) dos\n" + "\n".join(f"{a} {9 * a * a / 125}" for a in np.linspace(0, 5, 241)) + "\n"
 

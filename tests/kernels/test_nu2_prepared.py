@@ -24,6 +24,7 @@ FITS = [
     LowFrequencyFit(0.3, 2.0, (2.0, 8.0), blend_top_thz=2.1, curvature=0.02),        # narrow: quadrature
     LowFrequencyFit(0.3, 2.0, (2.0, 8.0)),                                            # no taper
     LowFrequencyFit(5.0, 0.05, (0.05, 0.4), blend_top_thz=0.1, curvature=3.0, quartic=-2.0),
+    LowFrequencyFit(0.2, 1.0, (1.0, 4.0), blend_top_thz=2.0, smooth_taper=True),        # not a cubic: quadrature
 ]
 
 
@@ -39,6 +40,8 @@ def _mp_sums(fit, temperature):
 
         def step(v):
             s = (v - cut) / (top - cut)
+            if fit.smooth_taper:
+                return 1 / (1 + mp.exp(1 / (1 - s) - 1 / s)) if 0 < s < 1 else (1 if s <= 0 else 0)
             return 1 - 3 * s ** 2 + 2 * s ** 3
 
         kernels = {"heat_capacity": lambda v: (beta * v) ** 2 * mp.exp(beta * v) / mp.expm1(beta * v) ** 2,

@@ -23,9 +23,10 @@ import numpy as np
 import pytest
 import requests
 
+from tests.ports import worker_port
 from webapp import intake
 
-PORT = 8072
+PORT = worker_port(8072)
 BASE = f"http://127.0.0.1:{PORT}"
 LIMIT_MB = 1.0
 ROOT = Path(__file__).resolve().parents[2]

@@ -2,11 +2,10 @@
 
 from __future__ import annotations
 
-import json
 import sys
 
 from .electronic import add_electronic_reading_options, load_electronic_from_args
-from .options import add_dos_option, check_output_target, load_from_args, write_text_output
+from .options import add_dos_option, add_report_output_options, check_output_target, emit_report, load_from_args, report_digits
 
 
 def register(sub):
@@ -40,8 +39,7 @@ def register(sub):
     add_electronic_reading_options(p)
     p.add_argument("--format", default="json", choices=["json", "csv", "xlsx"],
                    help="json: fit, entropies, notes (default); csv/xlsx: residual and third-law table")
-    p.add_argument("--output", metavar="PATH", help="write here (default stdout; needed for xlsx)")
-    p.add_argument("--force", action="store_true", help="replace an existing output file")
+    add_report_output_options(p, "write here (default stdout; needed for xlsx)")
     p.set_defaults(func=run)
 
 
@@ -103,20 +101,15 @@ def run(args) -> int:
     record = calorimetry_provenance(args, measured, dos, report["notes"], edos)
     if args.format == "json":
         report["residuals"] = {k: [_number(v) for v in fit.residuals[k]] for k in fit.residuals.columns}
-        text = json.dumps({"provenance": record, **report}, indent=2, allow_nan=False) + "\n"
-        if args.output:
-            write_text_output(args, text)
-        else:
-            sys.stdout.write(text)
-        return 0
+        return emit_report(args, record, report)
     table = third.merge(fit.residuals.drop(columns=[third.columns[1]]), on=third.columns[0], how="left")
     record.update((k, v) for k, v in report.items()
                   if k not in ("input", "sha256", "notes", "correlation", "low_temperature_analysis"))
     if args.output:
-        write_table(table, record, args.format, args.output, overwrite=args.force)
+        write_table(table, record, args.format, args.output, overwrite=args.force, digits=report_digits(args))
         print(f"wrote {args.output}", file=sys.stderr)
         return 0
-    sys.stdout.write(export_table(table, record, args.format).decode("utf-8"))
+    sys.stdout.write(export_table(table, record, args.format, digits=report_digits(args)).decode("utf-8"))
     return 0
 
 

@@ -15,6 +15,8 @@ import os
 import sys
 from pathlib import Path
 
+from ..io.inert import inert_text
+
 #: Prefix marking a workspace dataset where a file name is expected.
 REFERENCE_PREFIX = "ws:"
 _CSV_FIELDS = ("id", "name", "sha256", "size_bytes", "added_utc", "group", "note", "invented")
@@ -115,13 +117,13 @@ def _add(args, space):
             try:
                 load_dos(raw, name=path.name, options=check)
             except ModeheatError as exc:
-                print(f"error: {exc}", file=sys.stderr)
+                print(f"error: {inert_text(exc)}", file=sys.stderr)
                 failed += 1
                 continue
         d, new = space.add(raw, args.name or name, settings, group=args.group, note=args.note)
         added, present = added + new, present + (not new)
         if not new:
-            print(f"{path}: already stored as {d.name!r} ({d.id})", file=sys.stderr)
+            print(inert_text(f"{path}: already stored as {d.name!r} ({d.id})"), file=sys.stderr)
     print(f"added {added}, already present {present}, refused {failed} (workspace {space.workspace.path}, "
           f"space {space.name})", file=sys.stderr)
     return 2 if failed else 0
@@ -143,34 +145,28 @@ def _list(args, space):
         for r in rows:
             group = f"  [{r['group']}]" if r["group"] else ""
             mark = "  (invented demo data)" if r["invented"] else ""
-            print(f"{r['id']}  {r['sha256'][:12]}  {r['added_utc'][:19]}  {r['name']}{group}{mark}")
-        print(f"{len(rows)} dataset(s) in space {space.name} of {space.workspace.path}", file=sys.stderr)
+            print(inert_text(f"{r['id']}  {r['sha256'][:12]}  {r['added_utc'][:19]}  {r['name']}{group}{mark}"))
+        print(inert_text(f"{len(rows)} dataset(s) in space {space.name} of {space.workspace.path}"), file=sys.stderr)
     return 0
 
 
 def _export(args, space):
-    from ..errors import OptionError
+    from ..io.inert import replace_file
     d = space.get(args.ref)
-    out = Path(args.output)
-    if out.exists() and not args.force:
-        raise OptionError(f"refusing to overwrite existing file {out}; use --force to replace it")
-    raw = space.content(d)
-    tmp = out.with_name(out.name + ".part")
-    tmp.write_bytes(raw)
-    os.replace(tmp, out)
-    print(f"wrote {out} ({len(raw)} bytes, sha256 {d.sha256[:12]})", file=sys.stderr)
+    out = replace_file(args.output, space.content(d), overwrite=args.force)
+    print(f"wrote {inert_text(out)} ({d.size} bytes, sha256 {d.sha256[:12]})", file=sys.stderr)
     return 0
 
 
 def _remove(args, space):
     d = space.remove(args.ref)
-    print(f"removed {d.name!r} ({d.id})", file=sys.stderr)
+    print(inert_text(f"removed {d.name!r} ({d.id})"), file=sys.stderr)
     return 0
 
 
 def _spaces(args, space):
     for s in space.workspace.spaces():
-        print(f"{s.name}\t{s.key}")
+        print(f"{inert_text(s.name)}\t{s.key}")
     return 0
 
 

@@ -1,10 +1,14 @@
-"""Inert output: spreadsheet formula neutralising (OWASP) and file writes that never follow symbolic links.
+"""Inert output: spreadsheet formula neutralising (OWASP), text without terminal controls, safe file writes.
 
 Spreadsheet programs evaluate a cell that starts with ``=``, ``+``, ``-``,
 ``@``, tab or carriage return as a formula; text from users (names, headers,
 labels) therefore gets a leading ``'`` in CSV and is stored as a text cell in
 ``.xlsx`` [1].  Files are opened with ``O_NOFOLLOW`` so a symbolic link placed
-where an output goes is never written through [2].
+where an output goes is never written through [2]; a file replaced in place is
+written to a fresh, exclusively created temporary file beside it and renamed.
+Text from users shown on a terminal or in a label has its control characters
+(C0, DEL, C1: ANSI escape sequences) and bidirectional overrides written as
+visible escapes [3].
 
 References
 ----------
@@ -12,6 +16,9 @@ References
    https://owasp.org/www-community/attacks/CSV_Injection (accessed 2026).
 .. [2] IEEE Std 1003.1-2017 (POSIX), ``open()`` with ``O_CREAT | O_EXCL``;
    Linux ``open(2)``, ``O_NOFOLLOW``.
+.. [3] ECMA-48, *Control Functions for Coded Character Sets*, 5th ed. (1991);
+   Unicode Standard Annex #9, *Unicode Bidirectional Algorithm* (explicit
+   formatting characters U+061C, U+200E/F, U+202A-U+202E, U+2066-U+2069).
 
 Examples
 --------
@@ -31,6 +38,8 @@ from ..errors import OptionError
 
 #: Characters that make a spreadsheet read a cell as a formula (OWASP).
 FORMULA_PREFIXES = ("=", "+", "-", "@", "\t", "\r")
+#: Characters never shown raw: C0 controls, DEL, C1 controls, bidirectional formatting characters.
+CONTROL_CHARACTERS = re.compile("[\x00-\x1f\x7f-\x9f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]")
 # A cell separator (comma; semicolon in some locales) that would start a cell like a formula.
 _RISKY_SPLIT = re.compile(r"[,;](?=[ ]*[=+\-@\t\r])")
 
@@ -49,6 +58,24 @@ def neutralised_cell(value):
     if isinstance(value, str) and value.startswith(FORMULA_PREFIXES):
         return "'" + value
     return value
+
+
+def inert_text(text) -> str:
+    r"""``text`` with every control character and bidirectional override written as a visible escape.
+
+    An ANSI escape sequence in a dataset name can no longer move the cursor,
+    recolour or clear a terminal, and a right-to-left override can no longer
+    reverse what follows it (ECMA-48; Unicode UAX #9).
+
+    Examples
+    --------
+    >>> inert_text("a\x1b[2Jb\u202ecba")
+    'a\\x1b[2Jb\\u202ecba'
+    """
+    def escaped(match):
+        code = ord(match.group())
+        return f"\\x{code:02x}" if code < 0x100 else f"\\u{code:04x}"
+    return CONTROL_CHARACTERS.sub(escaped, str(text))
 
 
 def restored_cell(value):
@@ -115,4 +142,44 @@ def write_file(path, content: bytes, overwrite: bool = False) -> Path:
         if exc.errno == errno.ELOOP:
             raise OptionError(f"{target} is a symbolic link; not written through it") from None
         raise OptionError(f"cannot write {target}: {exc.strerror or exc}") from None
+    return target
+
+
+def replace_file(path, content: bytes, overwrite: bool = False) -> Path:
+    """Write bytes to ``path`` whole or not at all, never through a symbolic link.
+
+    The bytes go to a fresh temporary file created exclusively (``O_EXCL``, a
+    random name) in the target's folder, which is then renamed onto ``path``;
+    on any error the temporary file is removed.  A name planted beside the
+    target (``path.part`` as a symbolic link) is never opened.  Without
+    ``overwrite`` an existing ``path`` (or a symbolic link there) is refused.
+
+    Raises
+    ------
+    OptionError
+        Existing file without ``overwrite``, or a folder that cannot be written.
+    """
+    import tempfile
+
+    target = Path(path)
+    if not overwrite and (target.exists() or target.is_symlink()):
+        raise OptionError(f"refusing to overwrite existing file {target}; use --force to replace it")
+    try:
+        fd, temporary = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".tmp", dir=target.parent)
+    except OSError as exc:
+        raise OptionError(f"cannot write {target}: {exc.strerror or exc}") from None
+    try:
+        with os.fdopen(fd, "wb") as handle:
+            handle.write(content)
+            handle.flush()
+            os.fsync(handle.fileno())
+        os.replace(temporary, target)           # renames onto a link, never writes through it
+    except BaseException as exc:
+        try:
+            os.unlink(temporary)
+        except OSError:
+            pass
+        if isinstance(exc, OSError):
+            raise OptionError(f"cannot write {target}: {exc.strerror or exc}") from None
+        raise
     return target

@@ -357,7 +357,7 @@ def prepared_analytic_part(fit):
     top = fit.blend_top_thz if fit.blend_top_thz is not None else cut
     if fit.coefficient == 0.0 or cut <= 0.0:
         form = np.zeros(1)
-    if top <= cut or top - cut < _NARROW_TAPER * cut:
+    if top <= cut or top - cut < _NARROW_TAPER * cut or getattr(fit, "smooth_taper", False):
         nodes, modes = fit.taper_nodes()
         return PolynomialBoseSums([(cut, form)]), nodes, modes
     half = top - cut
@@ -389,7 +389,7 @@ def analytic_part_sums(fit, temperatures):
     -----
     :math:`\int_0^{\nu_a} M K\,d\nu + \int_{\nu_a}^{\nu_m} W M K\,d\nu` in closed form
     (:func:`prepared_analytic_part`, prepared once per fit and kept on it); a taper zone
-    narrower than half the cut-off by 48-point Gauss–Legendre quadrature.
+    narrower than half the cut-off, or a smooth (not cubic) step, by 48-point Gauss–Legendre quadrature.
 
     References
     ----------

@@ -118,6 +118,8 @@ def thermal_sums(dos, temperatures, method="auto", keys=SUM_KEYS):
     3.0
     """
     t = np.atleast_1d(np.asarray(temperatures, dtype=float))
+    if dos.modes is not None:
+        return mode_list_sums(dos.modes, t, method, keys)
     hot = t > 0
     out = {key: np.zeros_like(t) for key in keys}
     weights = mode_weights(dos.frequency_thz, dos.dos)
@@ -134,4 +136,55 @@ def thermal_sums(dos, temperatures, method="auto", keys=SUM_KEYS):
     if dos.low_frequency is not None:
         zp += dos.low_frequency.analytic_moment(1) / 2
     out["zero_point_thz"] = zp
+    return out
+
+
+def mode_list_sums(modes, temperatures, method="auto", keys=SUM_KEYS):
+    r"""Sums of a :class:`~thermo.spectrum.ModeList`: every mode, plus its elastic continuum.
+
+    Parameters
+    ----------
+    modes : ModeList
+        Modes [THz] with their weights [modes per formula unit].
+    temperatures : array_like, shape (M,)
+        Temperatures [K], >= 0.
+    method : {'auto', 'direct', 'fast'}
+        Evaluation of the mode sums (see :func:`grid_sums`).
+    keys : sequence of str
+        Sums wanted.
+
+    Returns
+    -------
+    dict
+        As :func:`thermal_sums`.
+
+    Notes
+    -----
+    .. math:: \Sigma_K(T) = \sum_i w_i K\!\left(\frac{h\nu_i}{k_BT}\right)
+              + \sum_j \int_0^{\nu_{c,j}} A_j\nu^2(1+b_j\nu^2) K\,d\nu
+
+    References
+    ----------
+    .. [1] D. C. Wallace, *Thermodynamics of Crystals* (Wiley, 1972), §4.
+
+    Examples
+    --------
+    >>> from thermo.spectrum import ModeList
+    >>> m = ModeList(np.array([2.0]), np.array([3.0]))
+    >>> round(float(mode_list_sums(m, [1e7])["heat_capacity"][0]), 6)
+    3.0
+    """
+    t = np.atleast_1d(np.asarray(temperatures, dtype=float))
+    hot = t > 0
+    out = {key: np.zeros_like(t) for key in keys}
+    if hot.any():
+        parts = [grid_sums(modes.frequency_thz, modes.weight, t[hot], method, keys)]
+        parts += [analytic_part_sums(fit, t[hot]) for fit in modes.continuum]
+        if modes.extra[0].size:
+            parts.append(direct_grid_sums(*modes.extra, t[hot], keys))
+        for key in keys:
+            out[key][hot] = sum(p[key] for p in parts)
+    if "thermal_energy" in out and "log_partition" in out:
+        out["entropy"] = out["thermal_energy"] + out["log_partition"]
+    out["zero_point_thz"] = modes.moment(1) / 2
     return out

@@ -16,36 +16,17 @@ from ..errors import DosInputError
 from ..kernels.quadrature import mode_weights
 from .imaginary import imaginary_warnings, split_at_zero
 from .lowfreq import WINDOW_MODES, blend_low_frequency, fit_low_frequency, window_shares
-from .atoms import modes_text, resolve_atoms
+from .atoms import modes_text
 from ..io.readers import read_table
+from ..io.modelists import is_mode_list
 from ..spectrum import PhononDOS
-from ..units import FREQUENCY_UNITS, thz_to_unit
+from ..units import thz_to_unit
 from .plausibility import entropy_298_per_atom, partial_sum_warnings, unit_warnings
 from .validation import check_spectrum
 from .validation import check_magnitudes, check_mode_count
 from .options import ReadingOptions, low_frequency_window, as_record
-
-
-def _mention_note(mentions):
-    if not mentions:
-        return ""
-    where = "; ".join(f"line {line} mentions {unit}" for line, unit in mentions[:3])
-    return f" ({where}, but not as the frequency unit)"
-
-
-def _unit(explicit, stated, carried, source, mentions=()):
-    """The unit used and its note: an option for this file > the file's own statement > a carried option."""
-    if explicit is not None:
-        note = None
-        if stated is not None and stated != explicit:
-            note = f"the file states {stated} but {explicit} was chosen; using {explicit}"
-        return explicit, note
-    if stated is not None:
-        return stated, None
-    if carried is not None:
-        return carried, None
-    raise DosInputError("the frequency unit is not stated in the file" + _mention_note(mentions)
-                        + "; set the frequency unit option to one of " + ", ".join(FREQUENCY_UNITS), source)
+from .modelist import load_mode_list
+from .layers import chosen_atoms, chosen_unit
 
 
 def load_dos(source, freq_unit=None, atoms=None, negative=None, low_frequency=None, name=None,
@@ -88,7 +69,9 @@ def load_dos(source, freq_unit=None, atoms=None, negative=None, low_frequency=No
     Returns
     -------
     PhononDOS
-        DOS in states/THz per formula unit, integrating to 3n.
+        DOS in states/THz per formula unit, integrating to 3n.  A mode list
+        (a table with a ``weight`` column, :mod:`thermo.io.modelists`) gives a
+        DOS whose sums run over its modes (:mod:`thermo.preparation.modelist`).
 
     Raises
     ------
@@ -130,6 +113,9 @@ def load_dos(source, freq_unit=None, atoms=None, negative=None, low_frequency=No
     carried = as_record(fallback)
     chosen = explicit.over(carried).resolved()
     raw = read_table(source, name=name, sheet=chosen.sheet)
+    if is_mode_list(raw):
+        with np.errstate(over="raise", invalid="raise", divide="raise"):
+            return load_mode_list(raw, explicit, carried, chosen)
     clean = check_spectrum(raw)
     try:
         with np.errstate(over="raise", invalid="raise", divide="raise"):
@@ -140,25 +126,11 @@ def load_dos(source, freq_unit=None, atoms=None, negative=None, low_frequency=No
                             clean.source) from None
 
 
-def _atom_count(raw_integral, explicit, carried, src):
-    """(n, inferred): given for this file > the integral's own count > a carried count.
-
-    The result is the same as a load with the count used given for this file
-    (or none, when inferred), so a caller may keep those options for the file.
-    """
-    if explicit is not None or carried is None:
-        return resolve_atoms(raw_integral, explicit, src)
-    try:
-        return resolve_atoms(raw_integral, None, src)
-    except DosInputError:
-        return resolve_atoms(raw_integral, carried, src)
-
-
 def _prepared(raw, clean, explicit, carried, chosen):
     """The steps after reading: units, magnitudes, imaginary modes, atoms, low-frequency treatment, 3n."""
     src = clean.source
     policy, window = chosen.negative, low_frequency_window(chosen.low_frequency)
-    unit, unit_note = _unit(explicit.freq_unit, clean.header_unit, carried and carried.freq_unit, src,
+    unit, unit_note = chosen_unit(explicit.freq_unit, clean.header_unit, carried and carried.freq_unit, src,
                             raw.unit_mentions)
     notes = list(clean.warnings) + ([unit_note] if unit_note else [])
 
@@ -182,7 +154,7 @@ def _prepared(raw, clean, explicit, carried, chosen):
                             "and the policy is to refuse them", src)
     notes += imaginary_warnings(share, policy)
     notes += partial_sum_warnings(nu_all, cols_all[0], dict(zip(names, cols_all[1:])))
-    n_atoms, inferred = _atom_count(raw_integral, explicit.atoms, carried and carried.atoms, src)
+    n_atoms, inferred = chosen_atoms(raw_integral, explicit.atoms, carried and carried.atoms, src)
     if inferred:
         notes.append(f"atoms per formula unit inferred as {n_atoms} from the DOS integral {raw_integral:.6g}")
     if nu.size < 3 or real_integral <= 0:

@@ -32,7 +32,7 @@ UNCERTAIN = ("volume", "thermal_expansion", "bulk_modulus_T", "heat_capacity_p",
              "enthalpy", "gibbs_energy", "gruneisen_parameter")
 
 __all__ = ["FreeEnergySurface", "QUASIHARMONIC", "UNCERTAIN", "equilibrium_volume", "free_energy_curves",
-           "free_energy_surface", "path_values", "quasiharmonic_table"]
+           "free_energy_surface", "path_values", "quasiharmonic_table", "quasiharmonic_tables"]
 
 
 def quasiharmonic_table(volume_set, temperatures, pressure_gpa=0.0, eos="birch-murnaghan", per="formula",
@@ -137,6 +137,53 @@ def quasiharmonic_table(volume_set, temperatures, pressure_gpa=0.0, eos="birch-m
         raise OptionError("pressure must be finite")
     surface = free_energy_surface(vs, temperatures, eos, method, errors=errors, parts=parts)
     return _table(vs, surface, p, per, formula, diagnose, imaginary_tolerance, pressure_gpa, errors)
+
+
+def quasiharmonic_tables(volume_set, temperatures, pressures_gpa, eos="birch-murnaghan", per="formula",
+                         formula=None, imaginary_tolerance=UNSTABLE_SHARE, method="auto", errors=False):
+    """:func:`quasiharmonic_table` at several pressures from one free-energy surface.
+
+    Parameters
+    ----------
+    volume_set : VolumeSet
+        Volumes, static energies and DOS.
+    temperatures : array_like
+        Temperatures [K], >= 0.
+    pressures_gpa : array_like
+        Pressures p [GPa].
+    eos, per, formula, imaginary_tolerance, method, errors
+        As :func:`quasiharmonic_table`.
+
+    Returns
+    -------
+    list of pandas.DataFrame
+        One table per pressure, in the order given (the same columns and
+        ``attrs`` as :func:`quasiharmonic_table`).
+
+    Notes
+    -----
+    F(V,T) and its fit do not depend on p; only the minimum of F + pV does,
+    so the surface (and its harmonic error estimate) is computed once.
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> from thermo.quasiharmonic.eos import birch_murnaghan_energy
+    >>> from thermo.quasiharmonic.volumeset import make_volume_set
+    >>> nu = np.linspace(0.0, 5.0, 101)
+    >>> vs = make_volume_set([(v, float(birch_murnaghan_energy(v, 0.0, 20.0, 0.6, 4.0)),
+    ...                        PhononDOS(nu, 9 * nu**2 / 125, atoms=1)) for v in (18, 19, 20, 21, 22)])
+    >>> low, high = quasiharmonic_tables(vs, [0.0], [0.0, 5.0])
+    >>> bool(high.volume_A3[0] < low.volume_A3[0])
+    True
+    """
+    from .diagnostics import diagnose
+    pressures = np.atleast_1d(np.asarray(pressures_gpa, dtype=float))
+    if not np.all(np.isfinite(pressures)):
+        raise OptionError("pressures must be finite numbers in GPa")
+    surface = free_energy_surface(volume_set, temperatures, eos, method, errors=errors)
+    return [_table(volume_set, surface, p / GPA_PER_EV_A3, per, formula, diagnose, imaginary_tolerance, p, errors)
+            for p in pressures]
 
 
 def _table(vs, surface, p, per, formula, diagnose, tolerance, pressure_gpa, errors=False):

@@ -60,18 +60,79 @@ def utc_now() -> str:
     return datetime.now(timezone.utc).strftime("%Y-%m-%dT%H:%M:%S.%fZ")
 
 
+#: One-line wording of SQLite's storage failures, by result code (SQLite documentation, "Result and Error Codes").
+STORAGE_WORDS = {"SQLITE_FULL": "disk is full", "SQLITE_READONLY": "the workspace is read-only",
+                 "SQLITE_IOERR": "disk read/write error", "SQLITE_CANTOPEN": "cannot open the workspace file",
+                 "SQLITE_CORRUPT": "the workspace file is damaged", "SQLITE_NOTADB": "not a workspace file",
+                 "SQLITE_PERM": "no permission to write the workspace"}
+
+
+def storage_message(exc, where="workspace") -> str:
+    """One line for an SQLite failure: what happened first, then where and SQLite's own words.
+
+    Examples
+    --------
+    >>> storage_message(sqlite3.OperationalError("database or disk is full"), "w.sqlite")
+    'disk is full: w.sqlite (database or disk is full)'
+    """
+    name = str(getattr(exc, "sqlite_errorname", "") or "")
+    words = STORAGE_WORDS.get("_".join(name.split("_")[:2]))          # SQLITE_IOERR_WRITE -> SQLITE_IOERR
+    text = " ".join(str(exc).split())
+    if words is None:
+        words = next((w for k, w in (("full", "disk is full"), ("readonly", "the workspace is read-only"),
+                                     ("read-only", "the workspace is read-only")) if k in text.lower()),
+                     "workspace storage failed")
+    return f"{words}: {where} ({text})"
+
+
+def storage_error(exc, where="workspace") -> WorkspaceError:
+    """The :class:`~thermo.errors.WorkspaceError` carrying :func:`storage_message`."""
+    return WorkspaceError(storage_message(exc, where))
+
+
+def _open(path, mode=None):
+    if mode is None:
+        con = sqlite3.connect(str(path), timeout=BUSY_SECONDS, isolation_level=None, check_same_thread=False)
+    else:
+        uri = f"{path.resolve().as_uri()}?{mode}"
+        con = sqlite3.connect(uri, uri=True, timeout=BUSY_SECONDS, isolation_level=None, check_same_thread=False)
+    try:
+        con.execute(f"PRAGMA busy_timeout = {int(BUSY_SECONDS * 1000)}")
+        con.execute("PRAGMA foreign_keys = ON")
+        mode_now = con.execute("PRAGMA journal_mode" if mode else "PRAGMA journal_mode = WAL").fetchone()[0]
+        if mode is None:
+            con.execute("PRAGMA synchronous = NORMAL")
+        con.execute("SELECT count(*) FROM sqlite_master").fetchone()
+    except BaseException:
+        con.close()
+        raise
+    return con, mode_now
+
+
 def connect(path) -> sqlite3.Connection:
-    """Open ``path`` with WAL, foreign keys and a busy timeout (autocommit; see :func:`transaction`)."""
+    """Open ``path`` with WAL, foreign keys and a busy timeout (autocommit; see :func:`transaction`).
+
+    An existing file that cannot be opened for writing (full disk, read-only
+    file system) is opened read-only (``mode=ro``, else ``immutable=1``), so
+    listing and reading still work; a write then fails with one line
+    (:func:`storage_message`).
+    """
     path = Path(path)
     try:
         path.parent.mkdir(parents=True, exist_ok=True)
-        con = sqlite3.connect(str(path), timeout=BUSY_SECONDS, isolation_level=None, check_same_thread=False)
-        con.execute(f"PRAGMA busy_timeout = {int(BUSY_SECONDS * 1000)}")
-        con.execute("PRAGMA foreign_keys = ON")
-        mode = con.execute("PRAGMA journal_mode = WAL").fetchone()[0]
-        con.execute("PRAGMA synchronous = NORMAL")
+    except OSError:
+        pass                                    # a read-only parent: the file may still be readable
+    try:
+        con, mode = _open(path)
     except sqlite3.DatabaseError as exc:
-        raise WorkspaceError(f"{path}: cannot open the workspace ({exc})") from None
+        if not path.exists() or str(getattr(exc, "sqlite_errorname", "")).startswith("SQLITE_NOTADB"):
+            raise WorkspaceError(f"{path}: cannot open the workspace ({storage_message(exc, path)})") from None
+        for fallback in ("mode=ro", "immutable=1"):
+            try:
+                return _open(path, fallback)[0]
+            except sqlite3.DatabaseError:
+                continue
+        raise WorkspaceError(f"{path}: cannot open the workspace ({storage_message(exc, path)})") from None
     if str(mode).lower() != "wal":
         con.close()
         raise WorkspaceError(f"{path}: the workspace cannot use write-ahead logging here (journal mode {mode})")
@@ -93,21 +154,35 @@ def transaction(con, where="workspace"):
             break
         except sqlite3.OperationalError as exc:
             if "locked" not in str(exc) and "busy" not in str(exc):
-                raise WorkspaceError(f"{where}: {exc}") from None
+                raise storage_error(exc, where) from None
             if time.monotonic() > deadline:
                 raise WorkspaceError(f"{where}: another program kept the workspace busy for over "
                                      f"{BUSY_SECONDS:g} s; try again") from None
             time.sleep(0.05)
     try:
         yield con
+    except sqlite3.DatabaseError as exc:
+        _rollback(con)                          # SQLite may have rolled back already (disk full)
+        if isinstance(exc, sqlite3.IntegrityError):
+            raise
+        raise storage_error(exc, where) from None
     except BaseException:
-        con.execute("ROLLBACK")
+        _rollback(con)
         raise
     try:
         con.execute("COMMIT")
-    except sqlite3.OperationalError as exc:
-        con.execute("ROLLBACK")
-        raise WorkspaceError(f"{where}: could not commit ({exc})") from None
+    except sqlite3.DatabaseError as exc:
+        _rollback(con)
+        raise storage_error(exc, where) from None
+
+
+def _rollback(con):
+    """Roll back an open transaction; never hides the error that caused it."""
+    if con.in_transaction:
+        try:
+            con.execute("ROLLBACK")
+        except sqlite3.DatabaseError:
+            pass
 
 
 def version(con) -> int:
@@ -120,7 +195,14 @@ def version(con) -> int:
 
 
 def migrate(con, where="workspace", target=SCHEMA_VERSION) -> int:
-    """Bring the file to ``target``, one migration per transaction; returns the version reached."""
+    """Bring the file to ``target``, one migration per transaction; returns the version reached.
+
+    A file already at ``target`` is only read (it opens on a full or read-only disk)."""
+    try:
+        if version(con) == target:
+            return target
+    except sqlite3.DatabaseError as exc:
+        raise storage_error(exc, where) from None
     with transaction(con, where):
         con.execute("CREATE TABLE IF NOT EXISTS schema_version (version INTEGER PRIMARY KEY, applied_utc TEXT NOT NULL)")
     current = version(con)

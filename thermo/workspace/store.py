@@ -17,6 +17,7 @@ from __future__ import annotations
 
 import hashlib
 import json
+import re
 import secrets
 import sqlite3
 import threading
@@ -36,6 +37,9 @@ SETTING_NAMES = FIELDS
 DEFAULT_SETTINGS = ReadingOptions().stored()
 #: Name of the space the command line uses unless told otherwise.
 LOCAL_SPACE = "main"
+
+#: A SHA-256 prefix a dataset may be named by (8 to 64 hexadecimal digits).
+_HEX_PREFIX = re.compile(r"[0-9A-Fa-f]{8,64}")
 
 _MIGRATED = set()
 _MIGRATED_LOCK = threading.Lock()
@@ -222,11 +226,14 @@ class Space:
     def find(self, ref):
         """The live dataset whose id, name or SHA-256 prefix (8+ digits) is ``ref``; None when absent."""
         ref = str(ref)
+        # a SHA-256 prefix is 8-64 hexadecimal digits compared as text (no LIKE: '%' and '_' match nothing)
+        prefix = ref.lower() if _HEX_PREFIX.fullmatch(ref) else None
         with self.workspace.db() as con:
             rows = con.execute(f"SELECT {_COLUMNS} FROM datasets d JOIN blobs b ON b.sha256 = d.sha256 "
                                "WHERE d.space_id = ? AND d.deleted_utc IS NULL AND (d.id = ? OR d.name = ? OR "
-                               "(length(?) >= 8 AND d.sha256 LIKE ? || '%')) ORDER BY d.id = ? DESC, d.name = ? DESC",
-                               (self.id, ref, ref, ref, ref, ref, ref)).fetchall()
+                               "(? IS NOT NULL AND substr(d.sha256, 1, length(?)) = ?)) "
+                               "ORDER BY d.id = ? DESC, d.name = ? DESC",
+                               (self.id, ref, ref, prefix, prefix, prefix, ref, ref)).fetchall()
         if not rows:
             return None
         exact = [r for r in rows if r[0] == ref or r[1] == ref]

@@ -13,6 +13,7 @@ from thermo.temperatures import temperature_range
 
 from .. import cache, session
 from .. import components as c
+from .. import exports
 from .. import figures as fg
 from ..labels import axis_title, theta_label
 from ..reporting import reported
@@ -132,6 +133,7 @@ def layout(**_query):
                   c.graph("mod-residual-graph", "Residuals: model minus DOS result"),
                   c.graph("mod-lowt-graph", "Low-temperature check: C_v/T³ (flat for a Debye solid)"),
                   c.graph("mod-thetad-graph", "Equivalent Debye temperature versus T")], className="mh-grid"),
+        exports.download_bar("mod", "models result", formats=("json", "csv")),
         html.H2("Characteristic temperatures"),
         html.Div(id="mod-theta-table"),
     )
@@ -178,6 +180,25 @@ def draw(workspace, einstein_key, debye_key, optical, t_min, t_max, step, per, r
                      residual_key or "heat_capacity_v"), [])
 
 
+def models_download(fmt, workspace, t_min, t_max, step, optical):
+    """The result as ``modeheat models --temperatures T_MIN:T_MAX:STEP --optical-terms K --format FMT`` writes it.
+
+    Fitted θ_E and θ_D (the command's), whatever θ the page draws; K = 1 when the page shows no composite.
+    """
+    from thermo.models.export import models_export
+    current = session.active(workspace)
+    if current is None:
+        return None
+    info, result = models_export(cache.load(current), temperature_range(t_min, t_max, step),
+                                 optical_terms=int(optical or 1), fmt=fmt)
+    stem = f"{exports.file_stem(current['name'])}-models"
+    if fmt == "json":
+        return exports.report_file(stem, info, result)
+    return exports.table_file(stem, result, info, fmt)
+
+
+exports.register_download("mod", [State("mh-workspace", "data"), State("mod-tmin", "value"), State("mod-tmax", "value"),
+                                  State("mod-step", "value"), State("mod-optical", "value")], models_download)
 c.follow_active("mod")
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -118,7 +118,7 @@ def results(record, source, rows, workspace, temperatures, pressure, eos, per, n
             tolerance_percent=1.0, errors=True):
     """(volume set, table, F(V) curves), memoised on content and settings; ``errors`` adds the ``_error_`` columns."""
     digest = hashlib.sha256(json.dumps([record if source == "manifest" else None, rows if source == "datasets"
-                                        else None, [d["sha256"] for d in (workspace or {}).get("datasets", [])]
+                                        else None, [cache.verified(d) for d in (workspace or {}).get("datasets", [])]
                                         if source == "datasets" else None], sort_keys=True).encode()).hexdigest()
     tolerance = _tolerance(tolerance_percent)
     key = (digest, source, tuple(temperatures.tolist()), float(pressure), eos, per, negative, formula, tolerance,

@@ -1,0 +1,111 @@
+"""Mode lists (one row per mode of a q-point mesh): reading, normalisation and exact mode sums.
+
+References for the checks: the Einstein heat capacity of a single mode,
+:math:`C = R x^2 e^x/(e^x-1)^2` (A. Einstein, Ann. Phys. 327, 180 (1907)),
+with CODATA constants from ``scipy.constants``; the partition function of a
+harmonic oscillator, :math:`S = R[x/(e^x-1) - \\ln(1-e^{-x})]` (textbook
+statistical mechanics, common practice).
+"""
+
+from __future__ import annotations
+
+import io
+
+import numpy as np
+import openpyxl
+import pytest
+from scipy import constants as sc
+
+from thermo import load_dos, tabulate
+from thermo.cli.main import main
+from thermo.errors import DosInputError
+from thermo.io.readback import read_exported_csv
+
+FREQS = (1.5, 3.0, 4.5)    # THz, three modes per q-point
+
+
+def _list_text(weights=(0.125, 0.375, 0.5), unit="THz", factor=1.0, header=None):
+    rows = [f"{w} {f * factor}" for w in weights for f in FREQS]
+    return (header or f"weight frequency_{unit}") + "\n" + "\n".join(rows) + "\n"
+
+
+def _einstein(nu_thz, t):
+    x = sc.h * nu_thz * 1e12 / (sc.k * t)
+    cv = sc.R * x * x * np.exp(x) / np.expm1(x) ** 2
+    s = sc.R * (x / np.expm1(x) - np.log(-np.expm1(-x)))
+    return cv, s
+
+
+@pytest.mark.parametrize("unit, factor", [("THz", 1.0), ("cm-1", 1e10 / sc.c)])
+def test_mode_sums_equal_einstein_terms_whatever_the_weight_normalisation(unit, factor):
+    t = np.array([5.0, 40.0, 300.0])
+    dos = load_dos(_list_text(unit=unit, factor=factor))
+    df = tabulate(dos, t)
+    cv = sum(_einstein(f, t)[0] for f in FREQS)    # 3 modes, one each per formula unit
+    s = sum(_einstein(f, t)[1] for f in FREQS)
+    assert dos.atoms == 1 and dos.modes is not None
+    assert np.allclose(df.heat_capacity_v_J_per_mol_K, cv, rtol=1e-9)
+    assert np.allclose(df.entropy_J_per_mol_K, s, rtol=1e-9)
+
+
+def test_atoms_from_the_modes_per_q_point_and_weights_normalised():
+    rows = [f"0.5 {f} 0.1 0 {k}" for k in (0, 1) for f in FREQS + tuple(2 * f for f in FREQS)]
+    dos = load_dos("weight frequency_THz qx_per_A qy_per_A qz_per_A\n" + "\n".join(rows) + "\n")
+    assert dos.atoms == 2
+    assert np.isclose(dos.modes.weight.sum(), 6.0)
+    assert any("6 modes per q-point" in w for w in dos.warnings)
+
+
+def test_imaginary_modes_follow_the_policy():
+    text = "weight frequency_THz\n" + "\n".join(f"1 {f}" for f in (-0.5, 1.0, 2.0, 1.0, 2.0, 3.0)) + "\n"
+    dropped = load_dos(text, atoms=2)
+    assert np.isclose(dropped.modes.weight.sum(), 6.0)
+    unscaled = load_dos(text, atoms=2, negative="drop-unscaled")
+    assert np.isclose(unscaled.modes.weight.sum(), 5.0)
+    with pytest.raises(DosInputError, match="imaginary"):
+        load_dos(text, atoms=2, negative="refuse")
+
+
+@pytest.mark.parametrize("text, where, what", [
+    ("weight frequency_THz\n1 1\n-1 2\n1 3\n", "line 3, column 1", "weight -1 must be > 0"),
+    ("weight frequency_THz\n1 1\n1 x\n1 3\n", "line 3, column 2", "not a number"),
+    ("weight frequency_THz Fe\n1 1 0.5\n1 2 1.5\n1 3 0\n", "line 3, column 3", "projection 1.5"),
+    ("weight frequency_THz qx_per_A\n1 1 0\n1 2 0\n1 3 0\n", "<text>:", "all three columns"),
+    ("weight value\n1 1\n1 2\n1 3\n", "<text>:", "needs a frequency column"),
+])
+def test_bad_rows_give_one_line_errors_with_the_line(text, where, what):
+    with pytest.raises(DosInputError) as err:
+        load_dos(text)
+    message = str(err.value)
+    assert "\n" not in message and where in message and what in message
+
+
+def test_q_points_with_different_mode_counts_are_named():
+    text = "weight frequency_THz qx_per_A qy_per_A qz_per_A\n" + "\n".join(
+        [f"1 {f} 0.1 0 0" for f in FREQS] + ["1 1 0.2 0 0", "1 2 0.2 0 0"]) + "\n"
+    with pytest.raises(DosInputError, match=r"line 5: the q-point of this row has 2 modes"):
+        load_dos(text)
+
+
+def test_xlsx_mode_list_reads_as_text():
+    book = openpyxl.Workbook()
+    sheet = book.active
+    sheet.append(["weight", "frequency_THz"])
+    for w in (0.125, 0.375, 0.5):
+        for f in FREQS:
+            sheet.append([w, f])
+    buffer = io.BytesIO()
+    book.save(buffer)
+    t = [10.0, 200.0]
+    a = tabulate(load_dos(buffer.getvalue(), name="modes.xlsx"), t)
+    b = tabulate(load_dos(_list_text()), t)
+    assert np.allclose(a.to_numpy(), b.to_numpy(), rtol=1e-14)
+
+
+def test_cli_table_reads_a_mode_list(tmp_path, capsys):
+    path = tmp_path / "modes.txt"
+    path.write_text(_list_text())
+    assert main(["table", str(path), "--temperatures", "50,300", "--digits", "12"]) == 0
+    df, info = read_exported_csv(capsys.readouterr().out)
+    cv = sum(_einstein(f, np.array([50.0, 300.0]))[0] for f in FREQS)
+    assert np.allclose(df["heat_capacity_v_J_per_mol_K"], cv, rtol=1e-10)

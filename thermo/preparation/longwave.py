@@ -1,0 +1,399 @@
+r"""The long-wave region of a mode list: sound velocities near Γ and the elastic continuum.
+
+A q-point mesh samples the acoustic branches only at a few points near Γ,
+so a plain sum over its modes misses the :math:`T^3` law.  With the wave
+vectors and the cell volume:
+
+1. the long-wave sound speeds :math:`c_0` along the directions of the
+   q-points nearest Γ come from their acoustic modes, the dispersion removed
+   by a Richardson step with the mode at :math:`k\mathbf q` (:func:`branch_velocities`);
+2. an elastic tensor fitted to them gives the exact direction means
+   :math:`\langle c_j^{-3}\rangle` (:func:`christoffel_means`);
+3. each acoustic branch below :data:`BLEND` mesh spacings is the elastic
+   continuum :math:`g_j = 4\pi V\nu^2\langle c_j^{-3}\rangle` with its
+   dispersion (a sine law with the measured β, :func:`dispersion_nodes`),
+   blended by an infinitely smooth step :math:`W_j(\nu)` into the acoustic
+   mesh modes, each of which keeps the share :math:`1 - W_j`
+   (:func:`long_wave_region`).
+
+At low temperature only the continuum is excited and the table follows the
+Debye law with the exact :math:`\langle\sum_j c_j^{-3}\rangle`; the mesh sum
+of the smooth remainder converges fast.
+
+References
+----------
+.. [1] N. W. Ashcroft, N. D. Mermin, *Solid State Physics* (Holt, Rinehart
+   and Winston, 1976), ch. 22-23 (sound speeds of the long-wave dynamical
+   matrix; the Debye :math:`T^3` law with the direction-averaged :math:`c^{-3}`).
+.. [2] L. F. Richardson, "The deferred approach to the limit", Phil. Trans.
+   R. Soc. A 226, 299-361 (1927).
+"""
+
+from __future__ import annotations
+
+import numpy as np
+from scipy import optimize
+
+from ..errors import ModeheatError
+from ..spectrum import LowFrequencyFit
+
+#: Wave vectors shorter than this are Γ [1/Å].
+GAMMA_Q = 1e-8
+#: Velocity points: whole shells near Γ out to this many times the shortest non-zero |q| ...
+FIT_RADIUS = 1.8
+#: ... and at least this many points.
+MIN_FIT_POINTS = 24
+#: Fewest q-points with a partner at kq for the dispersion step.
+MIN_PAIRS = 6
+#: From this many q-points with a partner, the others are left out of the velocity fit.
+PAIRED_ONLY = 12
+#: The continuum is the whole acoustic DOS below BLEND[0]·Δq and is blended into the mesh modes up to
+#: BLEND[1]·Δq (Δq = (V_zone·w_min)^{1/3} the mesh spacing; per branch in frequency, ν = c_j q/2π).
+BLEND = (0.5, 2.25)
+
+
+#: Voigt pairs of the 21 independent elastic constants.
+_VOIGT = [(0, 0), (1, 1), (2, 2), (1, 2), (0, 2), (0, 1)]
+#: Sphere rule for the direction means: Gauss–Legendre in cos θ × uniform φ.
+_SPHERE = (24, 48)
+
+
+def _tensor(params):
+    """C_ijkl / ρ [(Å·THz)²] from the 21 Voigt numbers (upper triangle of the 6×6 matrix)."""
+    voigt = np.zeros((6, 6))
+    voigt[np.triu_indices(6)] = params
+    voigt = voigt + np.triu(voigt, 1).T
+    c = np.empty((3, 3, 3, 3))
+    for a, (i, j) in enumerate(_VOIGT):
+        for b, (k, m) in enumerate(_VOIGT):
+            for ii, jj in {(i, j), (j, i)}:
+                for kk, mm in {(k, m), (m, k)}:
+                    c[ii, jj, kk, mm] = voigt[a, b]
+    return c
+
+
+def _speeds_squared(params, n):
+    """Ascending eigenvalues of the Christoffel matrix Γ_ik = C_ijkl n_j n_l / ρ at unit vectors n (P, 3)."""
+    gamma = np.einsum("ijkl,pj,pl->pik", _tensor(params), n, n)
+    return np.linalg.eigvalsh(gamma)
+
+
+def _sphere_rule():
+    x, w = np.polynomial.legendre.leggauss(_SPHERE[0])
+    phi = (np.arange(_SPHERE[1]) + 0.5) * 2 * np.pi / _SPHERE[1]
+    ct, ph = np.meshgrid(x, phi, indexing="ij")
+    st = np.sqrt(1 - ct ** 2)
+    n = np.column_stack([(st * np.cos(ph)).ravel(), (st * np.sin(ph)).ravel(), ct.ravel()])
+    weights = np.repeat(w / 2, _SPHERE[1]) / _SPHERE[1]
+    return n, weights
+
+
+def christoffel_means(directions, speeds, weights):
+    r"""Direction mean of :math:`c_j^{-3}` per branch from an elastic tensor fitted to sound speeds.
+
+    Parameters
+    ----------
+    directions : numpy.ndarray, shape (P, 3)
+        Unit vectors [1].
+    speeds : numpy.ndarray, shape (P, 3)
+        Ascending long-wave speeds along each [Å·THz = 100 m/s].
+    weights : numpy.ndarray, shape (P,)
+        Weights of the points [1].
+
+    Returns
+    -------
+    numpy.ndarray, shape (3,)
+        :math:`\langle c_j^{-3}\rangle` [(Å·THz)⁻³].
+
+    Raises
+    ------
+    ModeheatError
+        When the fit does not converge.
+
+    Notes
+    -----
+    In the long-wave limit :math:`\rho c^2` are the eigenvalues of the
+    Christoffel matrix :math:`C_{ijkl}n_jn_l` (21 constants :math:`C/\rho`
+    fitted by least squares to :math:`c^2`); the means come from a
+    24 × 48-point product rule on the sphere.
+
+    References
+    ----------
+    .. [1] Ashcroft and Mermin (1976), ch. 22-23.
+    .. [2] E. B. Christoffel, Ann. Mat. Pura Appl. 8, 193-243 (1877).
+
+    Examples
+    --------
+    >>> n = np.eye(3)[[0, 1, 2, 0, 1, 0]] + np.eye(3)[[0, 1, 2, 1, 2, 2]] * [[0], [0], [0], [1], [1], [1]]
+    >>> n = n / np.linalg.norm(n, axis=1)[:, None]
+    >>> out = christoffel_means(n, np.tile([5.0, 5.0, 8.0], (6, 1)), np.ones(6))   # isotropic
+    >>> np.round(out * 5 ** 3, 6).tolist()
+    [1.0, 1.0, 0.244141]
+    """
+    target = np.asarray(speeds, float) ** 2
+    weights = np.asarray(weights, float)
+    root = np.sqrt(weights / weights.mean())[:, None]
+    lam, mu = target[:, 2].mean() - 2 * target[:, :2].mean(), target[:, :2].mean()
+    start = np.zeros((6, 6))
+    start[:3, :3] = lam
+    start[np.arange(3), np.arange(3)] = lam + 2 * mu
+    start[np.arange(3, 6), np.arange(3, 6)] = mu
+    result = optimize.least_squares(lambda p: (root * (_speeds_squared(p, directions) / target - 1)).ravel(),
+                                    start[np.triu_indices(6)], method="trf", x_scale="jac")
+    if not result.success:
+        raise ModeheatError(f"the elastic-tensor fit to the sound speeds near Γ did not converge ({result.message})")
+    n, w = _sphere_rule()
+    eig = np.clip(_speeds_squared(result.x, n), 1e-300, None)
+    return w @ eig ** -1.5
+
+
+def branch_velocities(q_per_a, acoustic_thz, weights, doubled_thz=None, step=2):
+    r"""Direction means of :math:`c_j^{-3}` and of the dispersion, from acoustic modes near Γ.
+
+    Parameters
+    ----------
+    q_per_a : numpy.ndarray, shape (P, 3)
+        Non-zero wave vectors near Γ [1/Å].
+    acoustic_thz : numpy.ndarray, shape (P, 3)
+        The three lowest frequencies at each, ascending [THz], > 0.
+    weights : numpy.ndarray, shape (P,)
+        q-point weights (star multiplicities) [1].
+    doubled_thz : numpy.ndarray, shape (P, 3), optional
+        The same at :math:`k\mathbf q` (Richardson step for the dispersion;
+        NaN rows where the mesh has no such point: their β is the mean of the others').
+    step : int
+        :math:`k` (2 on a Γ-centred mesh, 3 on a shifted one).
+
+    Returns
+    -------
+    dict
+        ``inverse_cube`` :math:`\langle c_j^{-3}\rangle` per branch [(Å·THz)⁻³];
+        ``inverse_cube_mean`` :math:`\sum_j\langle c_j^{-3}\rangle`; ``points``;
+        ``dispersion_corrected``; per point ``speeds`` :math:`c_0` [Å·THz],
+        ``betas`` β [Å²] and ``weights``.
+
+    Notes
+    -----
+    :math:`c_j(\mathbf q) = 2\pi\nu_j/|\mathbf q|`.  With the mode at
+    :math:`k\mathbf q`, :math:`c = c_0(1-\beta q^2)` gives
+    :math:`c_0 = (k^2c(q) - c(kq))/(k^2-1)` and :math:`\beta = (1 - c(q)/c_0)/q^2`
+    (Richardson's step); points without a partner take the mean β.  The
+    direction means come from the elastic tensor fitted to :math:`c_0`
+    (:func:`christoffel_means`).
+
+    References
+    ----------
+    .. [1] Ashcroft and Mermin (1976), ch. 23.
+    .. [2] L. F. Richardson, Phil. Trans. R. Soc. A 226, 299-361 (1927).
+
+    Examples
+    --------
+    >>> q = np.array([[0.1, 0, 0], [0, 0.1, 0], [0, 0, 0.1], [0.1, 0.1, 0], [0, 0.1, 0.1], [0.1, 0, 0.1]])
+    >>> nu = np.outer(np.linalg.norm(q, axis=1), [5.0, 5.0, 8.0]) / (2 * np.pi)
+    >>> out = branch_velocities(q, nu, np.ones(6))
+    >>> round(out["inverse_cube_mean"] * 5 ** 3, 6)      # 2/5³ + 1/8³ in units of 5⁻³
+    2.244141
+    """
+    q = np.linalg.norm(q_per_a, axis=1)
+    n = q_per_a / q[:, None]
+    c = 2 * np.pi * np.asarray(acoustic_thz, float) / q[:, None]
+    beta = np.zeros_like(c)
+    paired = np.zeros(q.size, bool) if doubled_thz is None else np.all(np.isfinite(doubled_thz), axis=1)
+    if paired.sum() >= MIN_PAIRS:
+        c2 = 2 * np.pi * np.asarray(doubled_thz, float)[paired] / (step * q[paired, None])
+        c0 = (step ** 2 * c[paired] - c2) / (step ** 2 - 1)
+        beta[paired] = (1 - c[paired] / c0) / (q[paired, None] ** 2)
+        beta[~paired] = np.average(beta[paired], axis=0, weights=np.asarray(weights, float)[paired])
+        c = c / (1 - beta * q[:, None] ** 2)
+    inverse = christoffel_means(n, c, weights)
+    return {"inverse_cube": inverse, "inverse_cube_mean": float(inverse.sum()), "points": int(q.size),
+            "dispersion_corrected": bool(paired.sum() >= MIN_PAIRS),
+            "speeds": c, "betas": beta, "weights": np.asarray(weights, float)}
+
+
+def blended_continuum(velocities, cell_volume_a3, spacing_per_a, blend=None):
+    r"""The elastic continuum of each acoustic branch, blended out between ``blend`` × Δq.
+
+    Parameters
+    ----------
+    velocities : dict
+        :func:`branch_velocities`.
+    cell_volume_a3 : float
+        Cell volume V [Å³].
+    spacing_per_a : float
+        Mesh spacing Δq [1/Å].
+    blend : (float, float), optional
+        Start and end of the blend in units of Δq (default :data:`BLEND`).
+
+    Returns
+    -------
+    tuple of LowFrequencyFit
+        Per branch :math:`A_j\nu^2`, :math:`A_j = 4\pi V\langle c_j^{-3}\rangle`
+        [modes / THz³ per cell, one mode per branch over the zone], cut-off
+        :math:`c_jq_a/2\pi` and blend top :math:`c_jq_b/2\pi` with
+        :math:`c_j = \langle c_j^{-3}\rangle^{-1/3}`.
+
+    Notes
+    -----
+    :math:`N_j(\nu) = V q^3/6\pi^2` per branch and cell gives
+    :math:`g_j = 4\pi V\nu^2/c_j^3` for :math:`\nu = c_jq/2\pi`.
+
+    References
+    ----------
+    .. [1] Ashcroft and Mermin (1976), ch. 23.
+
+    Examples
+    --------
+    >>> v = {"inverse_cube": np.array([1e-3])}
+    >>> f = blended_continuum(v, 10.0, 0.1, (1.0, 1.0))[0]          # a sharp sphere of radius q₁
+    >>> round(f.analytic_moment() / (10.0 * 0.1 ** 3 / (6 * np.pi ** 2)), 12)
+    1.0
+    """
+    out = []
+    blend = BLEND if blend is None else blend
+    for inv in velocities["inverse_cube"]:
+        speed = float(inv) ** (-1 / 3)
+        low, high = (speed * f * spacing_per_a / (2 * np.pi) for f in blend)
+        out.append(LowFrequencyFit(coefficient=float(4 * np.pi * cell_volume_a3 * inv), cutoff_thz=low,
+                                   window_thz=(low, high), blend_top_thz=high, smooth_taper=True))
+    return tuple(out)
+
+
+#: Gauss–Legendre points of each of the two segments of a dispersion correction.
+DISPERSION_NODES = 24
+
+
+def dispersion_nodes(velocities, fits, cell_volume_a3):
+    r"""Nodes and weights of :math:`\int (g_j - A_j\nu^2)W_j\,d\nu`: the dispersion of each continuum branch.
+
+    Parameters
+    ----------
+    velocities : dict
+        :func:`branch_velocities` (``speeds``, ``betas``, ``weights`` of its points).
+    fits : tuple of LowFrequencyFit
+        :func:`blended_continuum`.
+    cell_volume_a3 : float
+        Cell volume [Å³].
+
+    Returns
+    -------
+    nodes, modes : numpy.ndarray
+        Frequencies [THz] and mode weights [1 per cell] (either sign).
+
+    Notes
+    -----
+    Along each direction :math:`\nu = (c_0q_s/2\pi)\sin(q/q_s)` with
+    :math:`q_s = (6\beta)^{-1/2}` (the sine law with the measured
+    :math:`c_0` and :math:`\beta`), so with :math:`u = 2\pi\nu/c_0q_s`,
+    :math:`g_j = 4\pi V\nu^2\langle c_0^{-3}R(u)\rangle`,
+    :math:`R = (\arcsin u/u)^2/\sqrt{1-u^2}`; the ratio
+    :math:`\langle c_0^{-3}R\rangle/\langle c_0^{-3}\rangle` is the
+    weighted mean over the points, the scale :math:`A_j` is the fitted one.
+
+    Examples
+    --------
+    >>> v = {"inverse_cube": np.array([1e-3]), "speeds": np.array([[10.0]]),
+    ...      "betas": np.array([[0.0]]), "weights": np.array([1.0])}
+    >>> nodes, modes = dispersion_nodes(v, blended_continuum(v, 10.0, 0.1), 10.0)
+    >>> float(np.abs(modes).max())                     # no dispersion: nothing to add
+    0.0
+    """
+    x, w = np.polynomial.legendre.leggauss(DISPERSION_NODES)
+    nodes, modes = [], []
+    for j, fit in enumerate(fits):
+        c0, beta = velocities["speeds"][:, j], velocities["betas"][:, j]
+        weight = velocities["weights"] * c0 ** -3.0
+        qs = np.where(beta > 0, 1 / np.sqrt(np.where(beta > 0, 6 * beta, 1.0)), np.inf)
+        for low, high in ((0.0, fit.cutoff_thz), (fit.cutoff_thz, fit.blend_top_thz)):
+            nu = low + 0.5 * (high - low) * (x + 1)
+            u = np.clip(2 * np.pi * nu[:, None] / (c0 * qs)[None, :], 1e-12, 0.99)
+            ratio = (np.arcsin(u) / u) ** 2 / np.sqrt(1 - u * u)
+            excess = fit.form(nu) * ((ratio @ weight) / weight.sum() - 1.0) * fit.taper(nu)
+            nodes.append(nu)
+            modes.append(0.5 * (high - low) * w * excess)
+    return np.concatenate(nodes), np.concatenate(modes)
+
+
+def long_wave_region(q_points, frequencies, weights, cell_volume_a3):
+    r"""The continuum near Γ and the share of each acoustic mesh mode left beside it.
+
+    Parameters
+    ----------
+    q_points : numpy.ndarray, shape (P, 3)
+        Distinct wave vectors [1/Å].
+    frequencies : numpy.ndarray, shape (P, m)
+        Ascending frequencies at each q-point [THz] (m = 3 × atoms in the cell).
+    weights : numpy.ndarray, shape (P,)
+        q-point weights normalised to 1 over the zone [1].
+    cell_volume_a3 : float
+        Cell volume [Å³].
+
+    Returns
+    -------
+    kept : numpy.ndarray, shape (P, 3)
+        Share :math:`1 - W_j(\nu)` of each acoustic mode kept in the sums [1].
+    continuum : tuple of LowFrequencyFit
+        Per cell (:func:`blended_continuum`).
+    info : dict or None
+        :func:`branch_velocities` and ``shell_radius_per_A``; None (and
+        nothing replaced) when the shells near Γ give no velocities.
+
+    Notes
+    -----
+    The acoustic DOS is :math:`\sum_j W_jg_j + \sum_{\mathbf q}w_{\mathbf q}(1-W_j)\delta(\nu-\nu_j)`:
+    the mesh sum of the smooth remainder converges fast while the continuum
+    carries the :math:`T^3` law exactly.
+
+    References
+    ----------
+    .. [1] Ashcroft and Mermin (1976), ch. 23.
+
+    Examples
+    --------
+    >>> k = np.arange(-3, 4)
+    >>> q = 0.05 * np.array(np.meshgrid(k, k, k)).reshape(3, -1).T          # 7³ cubic mesh [1/Å]
+    >>> nu = np.outer(np.linalg.norm(q, axis=1), [4.0, 4.0, 7.0]) / (2 * np.pi)
+    >>> w = np.full(len(q), 1 / len(q))
+    >>> kept, continuum, info = long_wave_region(q, nu, w, (2 * np.pi / 0.35) ** 3)
+    >>> float(kept[np.all(q == 0, axis=1)].max()), round(info["inverse_cube_mean"] * 64, 6)
+    (0.0, 2.186589)
+    """
+    q = np.linalg.norm(q_points, axis=1)
+    kept = np.ones((q.size, 3))
+    moving = q > GAMMA_Q
+    if not moving.any():
+        return kept, (), None
+    first = float(q[moving].min())
+    usable = moving & np.all(frequencies[:, :3] > 0, axis=1)
+    radii = np.sort(q[usable])
+    if radii.size < 3:
+        return kept, (), None
+    reach = radii[min(MIN_FIT_POINTS, radii.size) - 1] * (1 + 1e-6)      # whole shells up to MIN_FIT_POINTS
+    near = usable & (q <= max(reach, FIT_RADIUS * first))
+    lookup = {tuple(k): i for i, k in enumerate(np.round(q_points / first, 4))}
+    doubled, step, best = None, 2, -1
+    for k in (2, 3):          # Γ-centred meshes hold 2q, shifted (Monkhorst–Pack) ones 3q
+        partner = np.array([lookup.get(tuple(x), -1) for x in np.round(k * q_points[near] / first, 4)], int)
+        have = partner >= 0
+        have[have] = np.all(frequencies[partner[have], :3] > 0, axis=1)
+        if have.sum() > best:
+            best, step, pairs = int(have.sum()), k, (partner, have)
+    partner, have = pairs
+    if best >= PAIRED_ONLY:      # enough points with a partner: the others' dispersion is not guessed
+        near[np.flatnonzero(near)[~have]] = False
+        partner, have = partner[have], have[have]
+    doubled = np.full((partner.size, 3), np.nan)
+    doubled[have] = frequencies[partner[have], :3]
+    try:
+        info = branch_velocities(q_points[near], frequencies[near, :3], weights[near], doubled, step)
+    except ModeheatError:
+        return kept, (), None
+    if not np.all(info["inverse_cube"] > 0):
+        return kept, (), None
+    spacing = (8 * np.pi ** 3 / cell_volume_a3 * float(weights.min())) ** (1 / 3)
+    continuum = blended_continuum(info, cell_volume_a3, spacing)
+    for j, fit in enumerate(continuum):
+        kept[:, j] = 1.0 - fit.taper(frequencies[:, j])
+    kept[~moving] = 0.0
+    nodes = dispersion_nodes(info, continuum, cell_volume_a3)
+    return kept, continuum, dict(info, shell_radius_per_A=first, mesh_spacing_per_A=spacing, dispersion_nodes=nodes)
