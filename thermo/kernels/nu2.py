@@ -134,6 +134,17 @@ _BETA = _bernoulli_over_factorial(60)
 _LI_K = np.arange(1, 21, dtype=float)
 #: Highest power m of ν in a prepared polynomial (Aν²(1+bν²+cν⁴) times the cubic taper).
 _MAX_POWER = 9
+#: n = m + 1 for the powers m = 0 … 9, and the tables that depend on n only.
+_N = np.arange(1.0, _MAX_POWER + 2.0)
+#: β_k / (k + n): row n, column k (the Bernoulli series of Φ_n).
+_SERIES = _BETA[None, :] / (np.arange(_BETA.size)[None, :] + _N[:, None])
+#: n! ζ(n + 1).
+_FACTORIAL_ZETA = np.array([math.factorial(int(n)) for n in _N]) * special.zeta(_N + 1.0)
+#: n!/(n - j)! for j <= n (0 above): row n, column j = 0 … 10.
+_FALLING = np.array([[math.factorial(int(n)) / math.factorial(int(n) - j) if j <= n else 0.0
+                      for j in range(_MAX_POWER + 2)] for n in _N])
+#: 1 / k^{j+1}: row j, column k = 1 … 20.
+_LI_INVERSE = 1.0 / _LI_K[None, :] ** (np.arange(_MAX_POWER + 2.0)[:, None] + 1.0)
 #: Taper zones narrower than this share of the cut-off stay on Gauss–Legendre nodes (the monomial
 #: form of a steep cubic would cancel digits).
 _NARROW_TAPER = 0.5
@@ -185,23 +196,14 @@ class PolynomialBoseSums:
             d = np.zeros(_MAX_POWER + 1)
             given = np.asarray(coefficients, dtype=float)
             d[:given.size] = given
-            m = np.arange(d.size, dtype=float)
-            n = m + 1.0
-            g = d * float(nu_l) ** n                                     # modes carried by each power
-            gw = np.array([(m + 2.0) * g, g, g / n])                     # (3 kernels, powers)
-            small = gw @ (_BETA[None, :] / (np.arange(_BETA.size)[None, :] + n[:, None]))   # (3, 60)
-            fact = np.array([math.factorial(int(k)) for k in n])
+            g = d * float(nu_l) ** _N                                    # modes carried by each power
+            gw = np.array([(_N + 1.0) * g, g, g / _N])                   # (3 kernels, powers)
             const = np.zeros((3, _MAX_POWER + 2))
-            const[:, 1:] = gw * fact * special.zeta(n + 1.0)
-            # tail[κ, k, j] = -Σ_{n >= j} gw[κ, n] n!/(n-j)! / k^{j+1}
-            j = np.arange(_MAX_POWER + 2)
-            falling = np.array([[math.factorial(int(nn)) / math.factorial(int(nn) - jj) if jj <= nn else 0.0
-                                 for jj in j] for nn in n])                 # (powers, j)
-            tail = -(gw @ falling)[:, None, :] / _LI_K[None, :, None] ** (j + 1.0)[None, None, :]
-            # tail as (3·11, 20): rows (kernel, j), columns the power k of q
-            self._limits.append((float(nu_l), small, const,
-                                 tail.transpose(0, 2, 1).reshape(-1, _LI_K.size).copy(),
-                                 float(g.sum()) if heat_capacity_edges else 0.0, float(np.sum(g / n))))
+            const[:, 1:] = gw * _FACTORIAL_ZETA
+            # tail[κ, j, k] = -Σ_{n >= j} gw[κ, n] n!/(n-j)! / k^{j+1}: rows (kernel, j), columns the power k of q
+            tail = -(gw @ _FALLING)[:, :, None] * _LI_INVERSE[None, :, :]
+            self._limits.append((float(nu_l), gw @ _SERIES, const, tail.reshape(-1, _LI_K.size),
+                                 float(g.sum()) if heat_capacity_edges else 0.0, float(np.sum(g / _N))))
         # Where every limit is below the split, one series in X of the first limit serves all:
         # X_L = r_L X_0, so r_L^k joins the coefficients of X_0^k.
         self._limits = [entry for entry in self._limits if entry[0] > 0.0]
