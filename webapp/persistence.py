@@ -150,6 +150,13 @@ def create_named(server, name):
     return space
 
 
+def purge(server):
+    """Remove the deleted datasets of this browser's space for good, drop unused bytes, compact the file
+    (:func:`thermo.workspace.upkeep.purge`); returns its counts."""
+    from thermo.workspace.upkeep import purge as purged
+    return purged(store(server), space=current_space(server))
+
+
 def own_space(server):
     """Leave a named space: a fresh private space for this browser."""
     flask.g.mh_space_open = secrets.token_urlsafe(32)

@@ -259,6 +259,51 @@ def blended_continuum(velocities, cell_volume_a3, spacing_per_a, blend=None):
     return tuple(out)
 
 
+#: The elastic law of a list without wave vectors holds below ANCHOR_BLEND[0]·ν_Δ and is blended out by
+#: ANCHOR_BLEND[1]·ν_Δ, ν_Δ the frequency of the Debye-averaged branch one mesh spacing from Γ.
+ANCHOR_BLEND = (0.25, 2.0)
+
+
+def anchored_continuum(coefficient, q_points, atoms):
+    r"""An elastic Debye law :math:`A\nu^2` blended into a mode list that has no wave vectors.
+
+    Parameters
+    ----------
+    coefficient : float
+        :math:`A = 9n/\nu_D^3`, :math:`\nu_D = k_B\theta/h` [modes / THz³ per formula unit].
+    q_points : float
+        Number of q-points of the mesh, :math:`N_q` [1].
+    atoms : int
+        Atoms per formula unit n (one formula unit per cell is assumed).
+
+    Returns
+    -------
+    LowFrequencyFit
+        The law alone below :data:`ANCHOR_BLEND`\ [0]·ν_Δ, blended out by
+        :data:`ANCHOR_BLEND`\ [1]·ν_Δ with an infinitely smooth step.
+
+    Notes
+    -----
+    A mesh spacing :math:`\Delta q = (V_{zone}/N_q)^{1/3}` on the Debye branch
+    :math:`\nu = \bar cq/2\pi` with :math:`\nu_D = \bar c(3n/4\pi V)^{1/3}` is
+    :math:`\nu_\Delta = \nu_D(4\pi/3nN_q)^{1/3}`.
+
+    References
+    ----------
+    .. [1] Ashcroft and Mermin (1976), ch. 23.
+
+    Examples
+    --------
+    >>> f = anchored_continuum(9.0, 4 * np.pi / 3, 1)                 # ν_D = 1 THz, ν_Δ = 1 THz
+    >>> round(f.cutoff_thz, 12), round(f.blend_top_thz, 12)
+    (0.25, 2.0)
+    """
+    spacing = (9.0 * atoms / coefficient) ** (1 / 3) * (4 * np.pi / (3 * atoms * q_points)) ** (1 / 3)
+    low, high = (f * spacing for f in ANCHOR_BLEND)
+    return LowFrequencyFit(coefficient=float(coefficient), cutoff_thz=low, window_thz=(low, high),
+                           automatic=False, blend_top_thz=high, smooth_taper=True)
+
+
 #: Gauss–Legendre points of each of the two segments of a dispersion correction.
 DISPERSION_NODES = 24
 

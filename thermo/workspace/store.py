@@ -163,7 +163,10 @@ class Workspace:
         found = self.by_key(key)
         if found is not None:
             return found, False
-        return self._create(f"browser-{sha256_hex(str(key).encode())[:12]}", "browser", key), True
+        space = self._create(f"browser-{sha256_hex(str(key).encode())[:12]}", "browser", key)
+        from .upkeep import sweep
+        sweep(self)                     # idle spaces past the retention go (at most once an hour)
+        return space, True
 
     def create_named(self, name):
         """A new named space with a fresh key (refused when the name is taken)."""

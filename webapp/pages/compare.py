@@ -8,9 +8,8 @@ import plotly.graph_objects as go
 from dash import Input, Output, State, callback, html
 
 from thermo.columns import find
-from thermo.temperatures import temperature_range
 
-from .. import cache, session
+from .. import budget, cache, session
 from .. import components as c
 from .. import figures as fg
 from ..labels import axis_title
@@ -129,7 +128,7 @@ def _failed(message):
 @reported(_failed)
 def draw(workspace, ids, reference, quantity, t_min, t_max, step, per):
     """Overlay, difference and largest-difference table for the chosen datasets."""
-    temperatures = temperature_range(t_min, t_max, step)
+    temperatures = budget.temperatures(t_min, t_max, step)
     over, diff, table = comparison(workspace or session.empty_workspace(), ids, reference, quantity,
                                    temperatures, per)
     return over, diff, table, []

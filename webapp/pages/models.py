@@ -9,9 +9,8 @@ from dash import Input, Output, State, callback, html
 
 from thermo import models
 from thermo.columns import find
-from thermo.temperatures import temperature_range
 
-from .. import cache, session
+from .. import budget, cache, session
 from .. import components as c
 from .. import exports
 from .. import figures as fg
@@ -175,7 +174,7 @@ def draw(workspace, einstein_key, debye_key, optical, t_min, t_max, step, per, r
     if current is None:
         blank = fg.message_figure("no dataset loaded")
         return blank, blank, blank, blank, []
-    temperatures = temperature_range(t_min, t_max, step)
+    temperatures = budget.temperatures(t_min, t_max, step)
     return (*figures(current, temperatures, per, einstein_key, debye_key, optical,
                      residual_key or "heat_capacity_v"), [])
 
@@ -189,7 +188,7 @@ def models_download(fmt, workspace, t_min, t_max, step, optical):
     current = session.active(workspace)
     if current is None:
         return None
-    info, result = models_export(cache.load(current), temperature_range(t_min, t_max, step),
+    info, result = models_export(cache.load(current), budget.temperatures(t_min, t_max, step),
                                  optical_terms=int(optical or 1), fmt=fmt)
     stem = f"{exports.file_stem(current['name'])}-models"
     if fmt == "json":
