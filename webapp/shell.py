@@ -25,7 +25,7 @@ import re
 import dash
 from dash import ALL, ClientsideFunction, Dash, Input, Output, State, dcc, html, no_update
 
-from . import budget, components, demo, hosts, intake, persistence, session
+from . import budget, components, demo, handoff, hosts, intake, persistence, session
 from .reporting import attempt, install_guard
 
 ASSETS = os.path.join(os.path.dirname(__file__), "assets")
@@ -138,7 +138,8 @@ def shell():
         dcc.Store(id="mh-synced"),
         dcc.Store(id="mh-saved", storage_type="session"),
         dcc.Store(id="mh-prefs", storage_type="session", data={"image_format": "png"}),
-        dcc.Store(id="mh-electronic", storage_type="session"),   # the electronic DOS chosen (Electronic, Calorimetry)
+        dcc.Store(id="mh-electronic", storage_type="session"),
+        handoff.store(),                                          # results sent on to another page (handoff.py)   # the electronic DOS chosen (Electronic, Calorimetry)
         dcc.Store(id="mh-config", data={"max_upload_bytes": server.config["MODEHEAT_MAX_UPLOAD_BYTES"],
                                         "saved_limit_chars": None if stored else server.config["MODEHEAT_SAVED_LIMIT_CHARS"]}),
         html.Header([html.Div([html.Span("mode", className="mh-brand-a"), html.Span("heat", className="mh-brand-b")],

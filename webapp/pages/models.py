@@ -73,12 +73,12 @@ def figures(dataset, temperatures, per, einstein_key, debye_key, optical_terms, 
     for k, (label, df) in enumerate(tables.items()):
         style = {"width": 3 if label == "DOS" else 2, "color": fg.PALETTE[k % len(fg.PALETTE)],
                  "dash": None if label == "DOS" else ("dash", "dot", "dashdot")[k % 3]}
-        values.add_trace(go.Scatter(x=df[t], y=df[cv], name=label, mode="lines", line=style,
+        values.add_trace(go.Scatter(x=df[t], y=df[cv], name=fg.plot_text(label), mode="lines", line=style,
                                     hovertemplate="%{y:.5g}"))
         if label != "DOS":
             res = models.residual_table(dos_table, df)
             residual.add_trace(go.Scatter(x=res[find(res, "temperature")], y=res[find(res, residual_key)],
-                                          name=label, mode="lines", line=style, hovertemplate="%{y:.3g}"))
+                                          name=fg.plot_text(label), mode="lines", line=style, hovertemplate="%{y:.3g}"))
     residual.add_hline(y=0, line_color="#9aa7b0")
 
     low_t = np.geomspace(1.0, max(2.0, min(float(np.max(temperatures)), 300.0)), 120)
