@@ -29,4 +29,6 @@ WHAT = {
     "scaling_exponent_rows": "tabulate over rows 10³…10⁶: log-log slope of time along rows",
     "scaling_exponent_temperatures": "tabulate over temperatures 10…10⁴: log-log slope of time along temperatures",
     "scaling_exponent_load_rows": "load_dos over rows 10³…10⁶: log-log slope of time",
+    "p18_worst_peak_rss_mb": "each page callback and command at its documented maximum (docs/limits.md): worst peak RSS above start [MB]",
+    "p18_worst_seconds": "the same cases: worst wall time [s]",
 }

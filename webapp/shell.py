@@ -10,7 +10,9 @@ Settings live in the Flask config (``MODEHEAT_*`` keys), set by
 The request-body limit (Flask ``MAX_CONTENT_LENGTH``) follows from the same
 upload setting (:func:`webapp.intake.request_limit`): an oversize request is
 refused with HTTP 413 from its ``Content-Length`` (or, streamed, as soon as the
-limit is passed) before its body is read.  Every response carries the
+limit is passed) before its body is read; a JSON body nested too deep or holding too many
+objects is refused with HTTP 400 before it is parsed, and page requests are held to the
+budgets of :mod:`webapp.budget`.  Every response carries the
 security headers of :func:`security_headers`.
 """
 
@@ -23,8 +25,8 @@ import re
 import dash
 from dash import ALL, ClientsideFunction, Dash, Input, Output, State, dcc, html, no_update
 
-from . import components, demo, hosts, intake, persistence, session
-from .reporting import attempt
+from . import budget, components, demo, handoff, hosts, intake, persistence, session
+from .reporting import attempt, install_guard
 
 ASSETS = os.path.join(os.path.dirname(__file__), "assets")
 #: The plotting library's cartesian bundle (scatter, heatmap and the other 2-D traces: 1.5 MB instead of
@@ -77,6 +79,7 @@ def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspa
         raise ValueError(f"the upload limit must be > 0 MB, not {max_upload_mb!r}")
     server.config["MODEHEAT_MAX_UPLOAD_BYTES"] = upload_bytes
     server.config["MAX_CONTENT_LENGTH"] = intake.request_limit(upload_bytes)
+    budget.configure(server.config, upload_bytes)
     server.config["MODEHEAT_DEMO_DIR"] = str(demo_dir) if demo_dir is not None else None
     server.config["MODEHEAT_SAVED_LIMIT_CHARS"] = int(saved_limit_chars or session.SAVED_LIMIT_CHARS)
     workspace = workspace if workspace is not None else os.environ.get("MODEHEAT_WORKSPACE") or None
@@ -135,7 +138,8 @@ def shell():
         dcc.Store(id="mh-synced"),
         dcc.Store(id="mh-saved", storage_type="session"),
         dcc.Store(id="mh-prefs", storage_type="session", data={"image_format": "png"}),
-        dcc.Store(id="mh-electronic", storage_type="session"),   # the electronic DOS chosen (Electronic, Calorimetry)
+        dcc.Store(id="mh-electronic", storage_type="session"),
+        handoff.store(),                                          # results sent on to another page (handoff.py)   # the electronic DOS chosen (Electronic, Calorimetry)
         dcc.Store(id="mh-config", data={"max_upload_bytes": server.config["MODEHEAT_MAX_UPLOAD_BYTES"],
                                         "saved_limit_chars": None if stored else server.config["MODEHEAT_SAVED_LIMIT_CHARS"]}),
         html.Header([html.Div([html.Span("mode", className="mh-brand-a"), html.Span("heat", className="mh-brand-b")],
@@ -166,7 +170,9 @@ def keep(workspace, space):
 
 configure()
 hosts.install(server)
+install_guard(server)
 persistence.install(server)
+budget.install(server)
 server.after_request(security_headers)
 app.layout = shell
 app.callback(Output("mh-workspace", "data", allow_duplicate=True), Input("mh-saved", "data"),

@@ -7,14 +7,13 @@ scipy.constants, and the thermo command line's own output for exports.
 import base64
 import io
 import json
-import subprocess
-import sys
 
 import numpy as np
 import openpyxl
 import pytest
 from scipy import constants as sc
 
+from tests.clirun import run_main
 from thermo import load_dos, tabulate
 from thermo.columns import column_name, label
 from webapp import cache, intake, session
@@ -135,8 +134,8 @@ def test_thermodynamics_bad_settings_give_message_not_exception(ws):
 
 
 def cli_csv(path, spec, per):
-    run = subprocess.run([sys.executable, "-m", "thermo", "table", str(path), "--temperatures", spec,
-                          "--per", per, "--format", "csv"], capture_output=True, text=True, check=True)
+    run = run_main("table", path, "--temperatures", spec, "--per", per, "--format", "csv")
+    assert run.returncode == 0, run.stderr
     return run.stdout
 
 

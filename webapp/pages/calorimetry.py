@@ -16,7 +16,7 @@ from thermo.cli.models import parse_fit_range
 from thermo.columns import column_name, find
 from thermo.errors import ModeheatError, OptionError
 
-from .. import cache, filesets, session
+from .. import budget, cache, filesets, session
 from ..demo import demo_file, electronic_demo_entry
 from .. import components as c
 from .. import exports
@@ -125,7 +125,7 @@ def metal_for_the_demo(stored, terms):
 
 def upload_limit():
     """Per-file upload limit [bytes] from the server's settings (never from the browser)."""
-    return int(dash.get_app().server.config["MODEHEAT_MAX_UPLOAD_BYTES"])
+    return intake.upload_limit()
 
 
 def uploaded_measurement(contents, name, max_bytes=None):
@@ -153,9 +153,10 @@ def _measured(stored, unit, formula):
     if stored.get("refused"):
         raise OptionError(stored["refused"])
     # the store is the browser's: its size is checked against the server's limit again, before decoding
-    raw = decode_upload(stored["contents"], stored["name"], upload_limit())
-    return read_heat_capacity(raw, cp_unit=None if unit == "header" else unit, formula=formula or None,
-                              name=stored["name"])
+    with budget.holding(intake.decoded_size(stored["contents"]), stored["name"]):
+        raw = decode_upload(stored["contents"], stored["name"], upload_limit())
+        return read_heat_capacity(raw, cp_unit=None if unit == "header" else unit, formula=formula or None,
+                                  name=stored["name"])
 
 
 def _fixed(text):
@@ -249,7 +250,7 @@ def _with_electronic(report, stored, electronic, config):
     if not electronic:
         return []
     try:
-        edos = intake.electronic_dos(electronic, (config or {}).get("max_upload_bytes"))
+        edos = intake.electronic_dos(electronic)          # the server's upload limit, never the browser's config
     except ModeheatError as exc:
         return [("warn", f"the electronic DOS is not compared: {exc}")]
     report["electronic_dos_comparison"] = electronic_comparison(report, edos)

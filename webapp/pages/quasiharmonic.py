@@ -15,12 +15,12 @@ from thermo.errors import DosInputError, OptionError
 from thermo.quasiharmonic import (CAUTIONS, free_energy_curves, free_energy_surface, make_volume_set,
                                   quasiharmonic_table, read_manifest)
 from thermo.quasiharmonic.report import quasiharmonic_provenance
-from thermo.temperatures import STANDARD_TEMPERATURE, temperature_range, with_standard_temperature
+from thermo.temperatures import STANDARD_TEMPERATURE, with_standard_temperature
 
-from .. import cache, filesets, session
+from .. import budget, cache, filesets, intake, session
 from ..demo import demo_file
 from .. import components as c
-from .. import exports
+from .. import exports, handoff
 from .. import figures as fg
 from ..labels import PER_CHOICES, axis_title
 from ..reporting import reported
@@ -56,10 +56,15 @@ def demo_set():
 DEMO_LABEL = "invented demo set (springium, 11 volumes)"
 
 
+def _decoded(entry):
+    """The bytes of a record's file (base64), each within the server's per-file upload limit."""
+    return intake.decode_upload("data:;base64," + str(entry["content"]), str(entry["name"]))
+
+
 def set_files(record):
     """``[(role, name, bytes), ...]`` of a record: the manifest first, then its DOS files."""
-    return [("manifest", record["manifest"]["name"], base64.b64decode(record["manifest"]["content"]))] + \
-        [("dos", f["name"], base64.b64decode(f["content"])) for f in record["files"]]
+    return [("manifest", record["manifest"]["name"], _decoded(record["manifest"]))] + \
+        [("dos", f["name"], _decoded(f)) for f in record["files"]]
 
 
 def record_of(files):
@@ -83,7 +88,7 @@ def set_from_uploads(names, contents):
     """The record of an upload: the file whose header names ``volume_A3`` is the manifest."""
     manifest, files = None, []
     for name, url in zip(names or [], contents or []):
-        raw = base64.b64decode(url.split(",", 1)[1])
+        raw = intake.decode_upload(url, name)
         if manifest is None and b"volume_A3" in raw[:4000] and b"dos_file" in raw[:4000]:
             manifest = _entry(name, raw)
         else:
@@ -106,9 +111,10 @@ def _volume_set(record, source, rows, workspace, negative):
             entries.append((float(row["volume_A3"]), float(row["energy_eV"]), dos, dataset["name"]))
         return make_volume_set(entries, {"name": "loaded datasets"})
     manifest = record["manifest"]
-    files = {f["name"]: base64.b64decode(f["content"]) for f in record["files"]}
-    return read_manifest(base64.b64decode(manifest["content"]), files=files, negative=negative,
-                         name=manifest["name"])
+    size = sum(len(str(f["content"])) * 3 // 4 for f in [manifest, *record["files"]])
+    with budget.holding(size, manifest["name"]):
+        files = {f["name"]: _decoded(f) for f in record["files"]}
+        return read_manifest(_decoded(manifest), files=files, negative=negative, name=manifest["name"])
 
 
 def results(record, source, rows, workspace, temperatures, pressure, eos, per, negative, formula=None,
@@ -217,6 +223,7 @@ def layout(**_query):
                                                "at each temperature")], className="mh-grid"),
         html.H2("Export"),
         exports.download_bar("qh", "quasi-harmonic table"),
+        handoff.send_bar("qh", "the table", ("polynomials",)),
         html.Ul([html.Li(text) for text in CAUTIONS], className="mh-caution"),
     )
 
@@ -282,7 +289,7 @@ def _tolerance(percent):
 
 def _settings(t_min, t_max, step, pressure):
     """The temperature grid (with 298.15 K when inside it) and the pressure [GPa]."""
-    return with_standard_temperature(temperature_range(t_min, t_max, step)), float(pressure or 0.0)
+    return with_standard_temperature(budget.temperatures(t_min, t_max, step)), float(pressure or 0.0)
 
 
 def _quoted(table, key):
@@ -329,10 +336,13 @@ def table_download(fmt, record, source, rows, workspace, t_min, t_max, step, pre
     return exports.table_file(stem, table, quasiharmonic_provenance(vs, table, temperatures), fmt)
 
 
-exports.register_download("qh", [State("qh-set", "data"), State("qh-source", "value"), State("qh-rows", "data"),
-                                 State("mh-workspace", "data"), State("qh-tmin", "value"), State("qh-tmax", "value"),
-                                 State("qh-step", "value"), State("qh-pressure", "value"), State("qh-eos", "value"),
-                                 State("qh-per", "value"), State("qh-negative", "value"), State("qh-formula", "value"),
-                                 State("qh-tolerance", "value"), State("qh-errors", "value")], table_download)
+_TABLE_STATES = [State("qh-set", "data"), State("qh-source", "value"), State("qh-rows", "data"),
+                 State("mh-workspace", "data"), State("qh-tmin", "value"), State("qh-tmax", "value"),
+                 State("qh-step", "value"), State("qh-pressure", "value"), State("qh-eos", "value"),
+                 State("qh-per", "value"), State("qh-negative", "value"), State("qh-formula", "value"),
+                 State("qh-tolerance", "value"), State("qh-errors", "value")]
+exports.register_download("qh", _TABLE_STATES, table_download)
+for _target in ("polynomials",):      # the CSV the download writes (C_p, S with their errors)
+    handoff.register_send("qh", _target, _TABLE_STATES, lambda *values: table_download("csv", *values), NAME)
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -8,9 +8,8 @@ from dash import Input, Output, State, callback, dcc, html
 
 from thermo.columns import find
 from thermo.tables import classical_heat_capacity, provenance
-from thermo.temperatures import temperature_range
 
-from .. import cache, session
+from .. import budget, cache, session
 from .. import components as c
 from .. import exports
 from .. import figures as fg
@@ -119,7 +118,7 @@ def draw(workspace, t_min, t_max, step, per, log_t):
     if current is None:
         blank = fg.message_figure("no dataset loaded")
         return blank, blank, blank, blank, [], [], []
-    figs, keys, table = figures(current, temperature_range(t_min, t_max, step), per, bool(log_t))
+    figs, keys, table = figures(current, budget.temperatures(t_min, t_max, step), per, bool(log_t))
     return (*figs, keys, table, [])
 
 
@@ -128,7 +127,7 @@ def table_download(fmt, workspace, t_min, t_max, step, per):
     current = session.active(workspace)
     if current is None:
         return None
-    temperatures = temperature_range(t_min, t_max, step)
+    temperatures = budget.temperatures(t_min, t_max, step)
     formula = session.options_of(current).get("formula") or None
     info = provenance(cache.load(current), temperatures, per=per, formula=formula)
     return exports.table_file(f"{exports.file_stem(current['name'])}-{per}", cache.table(current, temperatures, per),
