@@ -6,7 +6,8 @@ from __future__ import annotations
 import dash
 from dash import ClientsideFunction, Input, Output, State, callback, clientside_callback, ctx, dcc, html, no_update
 
-from thermo.accuracy.breakdown import FLAG_SPREAD, error_breakdown, error_column
+from thermo.accuracy.breakdown import FLAG_SPREAD, error_column
+from thermo.accuracy.reuse import table_breakdown
 from thermo.errors import OptionError
 from thermo.preparation.options import ReadingOptions, elastic_theta
 from thermo.units import FREQUENCY_UNITS
@@ -224,7 +225,7 @@ ACCURACY_TEMPERATURES = (5.0, 20.0, 298.15)
 
 def accuracy_items(dos):
     """``(kind, text)`` lines of the error breakdown (numerical / low-frequency) of C_v and S."""
-    table = error_breakdown(dos, ACCURACY_TEMPERATURES)
+    table = table_breakdown(dos, ACCURACY_TEMPERATURES)
     items = []
     for key, symbol, unit in (("heat_capacity_v", "C_v", "J/(mol·K)"), ("entropy", "S", "J/(mol·K)")):
         for _, row in table.iterrows():
