@@ -127,13 +127,19 @@ def _pages():
 
 def shell():
     """The layout common to all pages (evaluated on every page load)."""
-    stored = persistence.enabled(server)
+    stored, note = persistence.enabled(server), ""
+    workspace = None
+    if stored:   # a full or read-only disk: the page still opens, with the demo kept in the tab only
+        workspace, error = attempt(lambda: persistence.browser_workspace(
+            persistence.current_space(server, demo_workspace)))
+        if error:
+            stored, note = False, (f"The workspace file cannot be used ({error}); this tab keeps its "
+                                   "datasets only until it is closed.")
     nav = [dcc.Link(p["name"], href=p["path"], className="mh-nav-link",
                     id={"type": "mh-nav", "path": p["path"]}) for p in _pages()]
     return html.Div([
         dcc.Location(id="mh-url", refresh=False),
-        dcc.Store(id="mh-workspace", storage_type="memory", data=(persistence.browser_workspace(
-            persistence.current_space(server, demo_workspace)) if stored else demo_workspace())),
+        dcc.Store(id="mh-workspace", storage_type="memory", data=workspace if stored else demo_workspace()),
         dcc.Store(id="mh-space", data={"stored": stored, "loaded": persistence.loaded_stamp()}),
         dcc.Store(id="mh-synced"),
         dcc.Store(id="mh-saved", storage_type="session"),
@@ -146,7 +152,7 @@ def shell():
                               className="mh-brand"),
                      html.Nav(nav, className="mh-nav", **{"aria-label": "pages"})], className="mh-header"),
         html.Main(dash.page_container, id="mh-page", className="mh-main"),
-        html.P(id="mh-sync-note", className="mh-msg mh-msg-error", role="alert"),
+        html.P(note, id="mh-sync-note", className="mh-msg mh-msg-error", role="alert"),
         html.Footer([html.Strong("Caution. "), components.CAUTION], className="mh-footer", id="mh-caution"),
     ], className="mh-shell")
 

@@ -73,7 +73,9 @@ def load_mode_list(raw, explicit, carried, chosen):
     Returns
     -------
     PhononDOS
-        With ``modes`` set; ``low_frequency`` None.
+        With ``modes`` set; ``low_frequency`` None; ``frequency_thz``/``dos``
+        and ``input_frequency_thz``/``input_dos`` a histogram of the modes
+        (and the continuum) for plots.
 
     Notes
     -----
@@ -189,7 +191,8 @@ def load_mode_list(raw, explicit, carried, chosen):
         provenance["sheet"] = raw.sheet
     part_grid = {k: _histogram(freq, p, (), float(p.sum()))[1] for k, p in partials.items()}
     return PhononDOS(frequency_thz=grid, dos=g, atoms=n_atoms, partials=part_grid, low_frequency=None,
-                     source=provenance, warnings=tuple(n for n in notes if n), modes=modes)
+                     source=provenance, warnings=tuple(n for n in notes if n), modes=modes,
+                     input_frequency_thz=grid, input_dos=g, input_partials=dict(part_grid))
 
 
 def _theta_of(continuum, atoms, factor=1.0):
