@@ -21,7 +21,7 @@ WHAT = {
     "p11_navigation_s": "menu click until the new page is loaded, all pages, two rounds [s]",
     "p12_parse_1e6_lines_s": "read_table of a 10⁶-line DOS: slowest of plain, Fortran d exponents, one bad cell (refused) [s]",
     "p13_p95_ms": "20 client threads against gunicorn --workers 2 --threads 8 (page + table callback), p95 [ms]",
-    "p14_provenance_ratio": "provenance of the p1 table (error breakdown recomputed) ÷ the table, interleaved",
+    "p14_provenance_ratio": "provenance of the p1 table (its error breakdown computed once and reused) ÷ the table, interleaved",
     "p15_load_1e6_rows_s": "10⁶-row DOS: load_dos (read, validate, prepare) [s]",
     "p15_table_1e6_rows_1e4_T_s": "10⁶-row DOS: a 10⁴-temperature table [s]",
     "p16_table_1e3_rows_1e4_T_s": "10³-row DOS at 10⁴ temperatures [s]",

@@ -224,7 +224,7 @@ class PolynomialBoseSums:
         if joint.any():
             xj = x0[joint]
             count = _terms(float(xj.max()) * self._reach)
-            out[:, joint] = self._joint[:, :count] @ _powers(xj, count)
+            out[:, joint] = _apply(self._joint[:, :count], _powers(xj, count))
         rest = ~joint
         for nu_l, small, const, tail, c_edge, l_edge in self._limits:
             x = H_OVER_K_THZ * nu_l / t
@@ -242,13 +242,19 @@ def _one_limit(x, small, const, tail):
     low = x < _SPLIT
     if low.any():
         count = _terms(float(x[low].max()))
-        part[:, low] = small[:, :count] @ _powers(x[low], count)
+        part[:, low] = _apply(small[:, :count], _powers(x[low], count))
     if not low.all():
         xl = x[~low]
         y = _powers(1.0 / xl, const.shape[1])                       # (11, M)
         q = _powers(np.exp(-xl), _LI_K.size + 1)[1:]                # q^1 … q^20
-        part[:, ~low] = const @ y + np.einsum("kjm,jm->km", (tail @ q).reshape(3, -1, xl.size), y)
+        part[:, ~low] = _apply(const, y) + np.einsum("kjm,jm->km", _apply(tail, q).reshape(3, -1, xl.size), y)
     return part
+
+
+def _apply(coefficients, powers):
+    """coefficients (R, K) times powers (K, M) [einsum: a BLAS product of this flat shape stalled
+    for milliseconds on a busy machine]."""
+    return np.einsum("rk,km->rm", coefficients, powers)
 
 
 def _terms(largest):
