@@ -129,6 +129,8 @@ def shell():
     """The layout common to all pages (evaluated on every page load)."""
     stored, note = persistence.enabled(server), ""
     workspace = None
+    if stored and not persistence.sends_cookie():        # no space for a client that never keeps the cookie
+        stored, note = False, "This browser sends no cookie: its datasets are kept in this tab only."
     if stored:   # a full or read-only disk: the page still opens, with the demo kept in the tab only
         workspace, error = attempt(lambda: persistence.browser_workspace(
             persistence.current_space(server, demo_workspace)))

@@ -200,8 +200,20 @@ def test_models_and_mode_map_draw_with_demo(demo):
     assert shown == expected and all(m.className.endswith("warn") for m in figs[-1]) and len(figs[0].data) >= 3
     heat, msgs = modemap.draw_map(demo, "heat_capacity_share", 10, 400)
     assert msgs == []
-    z = np.asarray(heat.data[0].z)
-    np.testing.assert_allclose(z.sum(axis=0), 100.0, rtol=1e-6)   # each column is a whole (100 %)
+    share = np.asarray(heat.data[0].customdata)
+    np.testing.assert_allclose(share.sum(axis=0), 100.0, rtol=1e-6)   # each column is a whole (100 %)
+    # the colour is per temperature: every column reaches the top of the scale, the bar says so
+    colour = np.asarray(heat.data[0].z)
+    np.testing.assert_allclose(colour.max(axis=0), 100.0, rtol=1e-12)
+    assert "relative to the largest bin at that T" in heat.data[0].colorbar.title.text
+    # over the page's default range, on the share itself the hottest column would use a small part of the
+    # scale (the issue: "everything above ~50 K looks blank"); per temperature it reaches the top
+    wide, _ = modemap.draw_map(demo, "heat_capacity_share", 2, 1000)
+    wide_share = np.asarray(wide.data[0].customdata)
+    assert wide_share[:, -1].max() < 0.2 * wide_share.max() and np.asarray(wide.data[0].z)[:, -1].max() == 100.0
+    logged, _ = modemap.draw_map(demo, "heat_capacity_share", 10, 400, "log")
+    np.testing.assert_allclose(np.asarray(logged.data[0].z), np.log10(np.maximum(share, 1e-4)), rtol=1e-12)
+    assert logged.data[0].colorbar.title.text.startswith("C_v: log₁₀")
     cum, planck, text = modemap.draw_explorer(demo, np.log10(300.0))
     assert text == "T = 300 K" and np.asarray(cum.data[0].y)[-1] == pytest.approx(100.0, rel=1e-6)
 

@@ -96,15 +96,30 @@ def _browser_spaces(path):
         return con.execute("SELECT count(*) FROM spaces WHERE kind = 'browser'").fetchone()[0]
 
 
-def test_cookieless_requests_do_not_pile_up_spaces(server, tmp_path, monkeypatch):
+def test_cookieless_requests_create_no_space(server, tmp_path):
+    w = tmp_path / "w.sqlite"
+    for _ in range(20):                                   # 20 visitors that never send the cookie back
+        r = server.test_client().get("/_dash-layout")
+        assert r.status_code == 200 and "kept in this tab only" in r.get_data(as_text=True)
+    assert _browser_spaces(w) == 0
+    browser = server.test_client()                        # a browser keeps the cookie of its first page
+    browser.get("/")
+    assert browser.get("/_dash-layout").status_code == 200 and _browser_spaces(w) == 1
+
+
+def test_idle_spaces_are_swept_when_new_browsers_arrive(server, tmp_path, monkeypatch):
     w = tmp_path / "w.sqlite"
     monkeypatch.setattr(upkeep, "_SWEPT", {})
-    for _ in range(20):                                   # 20 visitors that never send a cookie back
-        assert server.test_client().get("/_dash-layout").status_code == 200
-    assert _browser_spaces(w) == 20
+    for _ in range(5):
+        browser = server.test_client()
+        browser.get("/")
+        browser.get("/_dash-layout")
+    assert _browser_spaces(w) == 5
     _backdate(w, upkeep.DEFAULT_RETENTION_DAYS + 1)
     monkeypatch.setattr(upkeep, "_SWEPT", {})             # an hour later: the next new space sweeps
-    server.test_client().get("/_dash-layout")
+    late = server.test_client()
+    late.get("/")
+    late.get("/_dash-layout")
     assert _browser_spaces(w) == 1
 
 
