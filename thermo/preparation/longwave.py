@@ -45,11 +45,11 @@ FIT_RADIUS = 1.8
 MIN_FIT_POINTS = 24
 #: Fewest q-points with a partner at kq for the dispersion step.
 MIN_PAIRS = 6
-#: From this many q-points with a partner, the others are left out of the velocity fit.
-PAIRED_ONLY = 12
+#: The tensor fit weighs a point by (q₁/q)^this: the residual of a Richardson step grows as q⁴.
+RICHARDSON_POWER = 4
 #: The continuum is the whole acoustic DOS below BLEND[0]·Δq and is blended into the mesh modes up to
 #: BLEND[1]·Δq (Δq = (V_zone·w_min)^{1/3} the mesh spacing; per branch in frequency, ν = c_j q/2π).
-BLEND = (0.5, 2.25)
+BLEND = (0.5, 2.5)
 
 
 #: Voigt pairs of the 21 independent elastic constants.
@@ -88,8 +88,8 @@ def _sphere_rule():
     return n, weights
 
 
-def christoffel_means(directions, speeds, weights):
-    r"""Direction mean of :math:`c_j^{-3}` per branch from an elastic tensor fitted to sound speeds.
+def christoffel_fit(directions, speeds, weights):
+    r"""The elastic tensor :math:`C_{ijkl}/\rho` (21 Voigt numbers) whose Christoffel speeds fit ``speeds``.
 
     Parameters
     ----------
@@ -102,33 +102,32 @@ def christoffel_means(directions, speeds, weights):
 
     Returns
     -------
-    numpy.ndarray, shape (3,)
-        :math:`\langle c_j^{-3}\rangle` [(Å·THz)⁻³].
+    numpy.ndarray, shape (21,)
+        Upper triangle of the 6×6 Voigt matrix of :math:`C/\rho` [(Å·THz)²].
 
     Raises
     ------
     ModeheatError
-        When the fit does not converge.
+        When the least-squares fit does not converge.
 
     Notes
     -----
     In the long-wave limit :math:`\rho c^2` are the eigenvalues of the
-    Christoffel matrix :math:`C_{ijkl}n_jn_l` (21 constants :math:`C/\rho`
-    fitted by least squares to :math:`c^2`); the means come from a
-    24 × 48-point product rule on the sphere.
+    Christoffel matrix :math:`C_{ijkl}n_jn_l`; the fit minimises the weighted
+    relative misfit of :math:`c^2`, starting from the isotropic tensor of the
+    mean speeds.
 
     References
     ----------
-    .. [1] Ashcroft and Mermin (1976), ch. 22-23.
+    .. [1] Ashcroft and Mermin (1976), ch. 22.
     .. [2] E. B. Christoffel, Ann. Mat. Pura Appl. 8, 193-243 (1877).
 
     Examples
     --------
-    >>> n = np.eye(3)[[0, 1, 2, 0, 1, 0]] + np.eye(3)[[0, 1, 2, 1, 2, 2]] * [[0], [0], [0], [1], [1], [1]]
-    >>> n = n / np.linalg.norm(n, axis=1)[:, None]
-    >>> out = christoffel_means(n, np.tile([5.0, 5.0, 8.0], (6, 1)), np.ones(6))   # isotropic
-    >>> np.round(out * 5 ** 3, 6).tolist()
-    [1.0, 1.0, 0.244141]
+    >>> n = np.eye(3)
+    >>> p = christoffel_fit(n, np.tile([5.0, 5.0, 8.0], (3, 1)), np.ones(3))
+    >>> np.round(christoffel_speeds(p, np.array([[0.6, 0.8, 0.0]])), 6).tolist()      # isotropic
+    [[5.0, 5.0, 8.0]]
     """
     target = np.asarray(speeds, float) ** 2
     weights = np.asarray(weights, float)
@@ -142,8 +141,29 @@ def christoffel_means(directions, speeds, weights):
                                     start[np.triu_indices(6)], method="trf", x_scale="jac")
     if not result.success:
         raise ModeheatError(f"the elastic-tensor fit to the sound speeds near Γ did not converge ({result.message})")
+    return result.x
+
+
+def christoffel_speeds(params, directions):
+    """Ascending sound speeds [Å·THz] of the fitted tensor along unit ``directions`` (P, 3)."""
+    return np.sqrt(np.clip(_speeds_squared(params, directions), 0.0, None))
+
+
+def christoffel_means(params):
+    r""":math:`\langle c_j^{-3}\rangle` per branch [(Å·THz)⁻³] of a fitted tensor, over the sphere.
+
+    Notes
+    -----
+    A 24 × 48-point product rule (Gauss–Legendre in cos θ, uniform in φ).
+
+    Examples
+    --------
+    >>> p = christoffel_fit(np.eye(3), np.tile([5.0, 5.0, 8.0], (3, 1)), np.ones(3))
+    >>> np.round(christoffel_means(p) * 5 ** 3, 6).tolist()
+    [1.0, 1.0, 0.244141]
+    """
     n, w = _sphere_rule()
-    eig = np.clip(_speeds_squared(result.x, n), 1e-300, None)
+    eig = np.clip(_speeds_squared(params, n), 1e-300, None)
     return w @ eig ** -1.5
 
 
@@ -176,10 +196,12 @@ def branch_velocities(q_per_a, acoustic_thz, weights, doubled_thz=None, step=2):
     -----
     :math:`c_j(\mathbf q) = 2\pi\nu_j/|\mathbf q|`.  With the mode at
     :math:`k\mathbf q`, :math:`c = c_0(1-\beta q^2)` gives
-    :math:`c_0 = (k^2c(q) - c(kq))/(k^2-1)` and :math:`\beta = (1 - c(q)/c_0)/q^2`
-    (Richardson's step); points without a partner take the mean β.  The
-    direction means come from the elastic tensor fitted to :math:`c_0`
-    (:func:`christoffel_means`).
+    :math:`c_0 = (k^2c(q) - c(kq))/(k^2-1)` (Richardson's step).  An elastic
+    tensor is fitted to these :math:`c_0` (:func:`christoffel_fit`, weights
+    :math:`\propto q^{-4}`, the order of the step's residual); its speeds
+    give every point's :math:`\beta = (1 - c(q)/c_0(\hat q))/q^2` and the
+    direction means (:func:`christoffel_means`).  With fewer than
+    :data:`MIN_PAIRS` partners the tensor is fitted to the raw speeds and β = 0.
 
     References
     ----------
@@ -197,18 +219,20 @@ def branch_velocities(q_per_a, acoustic_thz, weights, doubled_thz=None, step=2):
     q = np.linalg.norm(q_per_a, axis=1)
     n = q_per_a / q[:, None]
     c = 2 * np.pi * np.asarray(acoustic_thz, float) / q[:, None]
-    beta = np.zeros_like(c)
+    weights = np.asarray(weights, float)
     paired = np.zeros(q.size, bool) if doubled_thz is None else np.all(np.isfinite(doubled_thz), axis=1)
-    if paired.sum() >= MIN_PAIRS:
+    corrected = paired.sum() >= MIN_PAIRS
+    fit_speeds, fit_weights = c, weights * (q.min() / q) ** RICHARDSON_POWER
+    if corrected:              # the tensor from the Richardson-corrected points, β of every point from it
         c2 = 2 * np.pi * np.asarray(doubled_thz, float)[paired] / (step * q[paired, None])
-        c0 = (step ** 2 * c[paired] - c2) / (step ** 2 - 1)
-        beta[paired] = (1 - c[paired] / c0) / (q[paired, None] ** 2)
-        beta[~paired] = np.average(beta[paired], axis=0, weights=np.asarray(weights, float)[paired])
-        c = c / (1 - beta * q[:, None] ** 2)
-    inverse = christoffel_means(n, c, weights)
+        fit_speeds = (step ** 2 * c[paired] - c2) / (step ** 2 - 1)
+        fit_weights = fit_weights[paired]
+    params = christoffel_fit(n[paired] if corrected else n, fit_speeds, fit_weights)
+    c0 = christoffel_speeds(params, n)
+    beta = (1 - c / c0) / q[:, None] ** 2 if corrected else np.zeros_like(c)
+    inverse = christoffel_means(params)
     return {"inverse_cube": inverse, "inverse_cube_mean": float(inverse.sum()), "points": int(q.size),
-            "dispersion_corrected": bool(paired.sum() >= MIN_PAIRS),
-            "speeds": c, "betas": beta, "weights": np.asarray(weights, float)}
+            "dispersion_corrected": bool(corrected), "speeds": c0, "betas": beta, "weights": weights}
 
 
 def blended_continuum(velocities, cell_volume_a3, spacing_per_a, blend=None):
@@ -424,9 +448,6 @@ def long_wave_region(q_points, frequencies, weights, cell_volume_a3):
         if have.sum() > best:
             best, step, pairs = int(have.sum()), k, (partner, have)
     partner, have = pairs
-    if best >= PAIRED_ONLY:      # enough points with a partner: the others' dispersion is not guessed
-        near[np.flatnonzero(near)[~have]] = False
-        partner, have = partner[have], have[have]
     doubled = np.full((partner.size, 3), np.nan)
     doubled[have] = frequencies[partner[have], :3]
     try:
