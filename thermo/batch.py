@@ -56,6 +56,10 @@ class BatchOptions:
         Replace existing output files.
     digits : int, optional
         Significant digits of the written numbers (None: full precision).
+    per_file : tuple of (str, ReadingOptions), optional
+        Options for single files (a file list, :func:`file_list`): keyed by
+        the resolved path, given for that file (they win over what the file
+        states), with ``reading`` below them as the fallback.
     """
 
     temperatures: tuple
@@ -64,6 +68,7 @@ class BatchOptions:
     fmt: str = "csv"
     force: bool = False
     digits: int | None = None
+    per_file: tuple = ()
 
     def __post_init__(self):
         reading = self.reading
@@ -202,7 +207,8 @@ def process_file(source, target, options):
 
     row = _blank_row(source)
     try:
-        dos = load_dos(Path(source), name=Path(source).name, fallback=options.reading)
+        own = dict(options.per_file).get(str(Path(source).resolve()))
+        dos = load_dos(Path(source), name=Path(source).name, options=own, fallback=options.reading)
         row.update(atoms=dos.atoms, negative_mode_fraction=dos.source.get("negative_mode_fraction", ""),
                    warnings=" | ".join(_one_line(w) for w in list(dos.warnings) + carried_notes(dos, options.reading)))
         formula = ReadingOptions.of(dos).formula
@@ -217,6 +223,52 @@ def process_file(source, target, options):
     except Exception as exc:  # noqa: BLE001 - one bad file must not stop the batch
         row["error"] = _one_line(f"{source}: unexpected {type(exc).__name__}: {exc}")
     return row
+
+
+def file_list(path):
+    """The files of a file list and the reading options of each (``batch --file-list``).
+
+    Parameters
+    ----------
+    path : str or path-like
+        CSV with a ``file`` column and any reading-option columns
+        (:func:`thermo.io.filelist.read_file_list`).
+
+    Returns
+    -------
+    files : list of str
+        The files, in list order, relative paths taken from the list's folder.
+    per_file : tuple of (str, ReadingOptions)
+        For :attr:`BatchOptions.per_file`.
+
+    Raises
+    ------
+    DosInputError, OptionError
+        A bad list, or a bad value (with its line), or a missing file.
+
+    Examples
+    --------
+    >>> import tempfile
+    >>> with tempfile.TemporaryDirectory() as tmp:
+    ...     _ = (Path(tmp) / "a.dat").write_text("x")
+    ...     _ = (Path(tmp) / "list.csv").write_text("file,freq_unit\na.dat,cm-1\n")
+    ...     files, per_file = file_list(Path(tmp) / "list.csv")
+    ...     per_file[0][1].freq_unit
+    'cm-1'
+    """
+    from .io.filelist import read_file_list
+    from .preparation.options import FIELDS
+    files, per_file = [], []
+    for line, target, values in read_file_list(path, FIELDS):
+        try:
+            options = ReadingOptions.from_mapping(values)
+        except OptionError as exc:
+            raise OptionError(f"{path} line {line}: {exc}") from None
+        if not target.is_file():
+            raise OptionError(f"{path} line {line}: no such file {target}")
+        files.append(str(target))
+        per_file.append((str(target.resolve()), options))
+    return files, tuple(per_file)
 
 
 def carried_notes(dos, carried):
@@ -353,7 +405,7 @@ def run_batch(inputs, outdir, options, workers=None, progress=True, pattern=None
     if options.fmt not in EXPORT_FORMATS:
         raise OptionError(f"unknown format {options.fmt!r}; choose {', '.join(EXPORT_FORMATS)}")
     check_temperatures(options.temperatures)
-    if options.per == "gram":
+    if options.per == "gram" and not any(o.formula for _, o in options.per_file):   # else checked per file
         from .formula import formula_unit
         formula_unit(options.reading.formula)
     out = Path(outdir)

@@ -43,6 +43,10 @@ class LowFrequencyFit:
     species_shares : dict of str to float
         Share of each partial column in the analytic part (its share of the
         DOS in the fit window) [1].
+    smooth_taper : bool
+        The step of :meth:`taper` is infinitely smooth (a mode list's
+        continuum, whose complement is summed on a mesh), :math:`1/(1+e^{1/(1-s)-1/s})`, instead of
+        :math:`1 - s^2(3-2s)`.
     """
 
     coefficient: float
@@ -56,6 +60,7 @@ class LowFrequencyFit:
     coefficient_uncertainty: float = 0.0
     blend_top_thz: float | None = None
     species_shares: dict = field(default_factory=dict)
+    smooth_taper: bool = False
 
     def form(self, frequency_thz):
         r"""The fitted form :math:`A\nu^2(1+b\nu^2+c\nu^4)` [states / THz]."""
@@ -69,6 +74,9 @@ class LowFrequencyFit:
         if top <= self.cutoff_thz:
             return np.where(nu <= self.cutoff_thz, 1.0, 0.0)
         s = np.clip((nu - self.cutoff_thz) / (top - self.cutoff_thz), 0.0, 1.0)
+        if self.smooth_taper:       # C^∞: 1 - e^{-1/s} / (e^{-1/s} + e^{-1/(1-s)})
+            with np.errstate(divide="ignore", over="ignore", invalid="ignore"):
+                return 1.0 / (1.0 + np.exp(1.0 / (1.0 - s) - 1.0 / s))
         return 1.0 - s * s * (3.0 - 2.0 * s)
 
     def taper_nodes(self):
@@ -105,6 +113,21 @@ class LowFrequencyFit:
                                          + self.curvature * nc ** (5 + power) / (5 + power)
                                          + self.quartic * nc ** (7 + power) / (7 + power)))
 
+    def prepared_sums(self):
+        """The closed-form kernel sums of the analytic part, prepared on first use and kept.
+
+        Returns
+        -------
+        tuple
+            As :func:`thermo.kernels.nu2.prepared_analytic_part`.
+        """
+        prepared = self.__dict__.get("_prepared_sums")
+        if prepared is None:
+            from .kernels.nu2 import prepared_analytic_part
+            prepared = prepared_analytic_part(self)
+            self.__dict__["_prepared_sums"] = prepared      # beside the frozen fields, not one of them
+        return prepared
+
     def scaled(self, factor):
         """The same fit with the DOS multiplied by ``factor`` [1]."""
         return replace(self, coefficient=self.coefficient * factor, offset=self.offset * factor,
@@ -133,6 +156,9 @@ class ModeList:
     resolved_thz : float
         Lowest frequency the list resolves: the lowest acoustic frequency of
         the innermost q-shell without Γ (or the lowest real mode) [THz].
+    extra : tuple of numpy.ndarray
+        Quadrature nodes [THz] and mode weights [1] (either sign) of the
+        continuum's dispersion beyond :math:`A_j\nu^2`.
     velocities : dict
         The long-wave fit when a continuum was built: ``inverse_cube_mean``
         (direction mean of :math:`\sum_j c_j^{-3}`, [(100 m/s)⁻³] = [(Å·THz)⁻³]),
@@ -158,15 +184,17 @@ class ModeList:
     cell_volume_a3: float | None = None
     resolved_thz: float = 0.0
     velocities: dict = field(default_factory=dict)
+    extra: tuple = (np.zeros(0), np.zeros(0))
 
     @property
     def mode_count(self) -> float:
         """Modes carried by the list and its continuum [per formula unit]."""
-        return float(np.sum(self.weight)) + sum(f.analytic_moment() for f in self.continuum)
+        return self.moment(0)
 
     def moment(self, power) -> float:
         r""":math:`\sum_i w_i\nu_i^p` plus the continuum's :math:`\int \nu^p g\,d\nu` [modes · THz^p]."""
-        return float(np.sum(self.weight * self.frequency_thz ** power)) + sum(
+        nodes, modes = self.extra
+        return float(np.sum(self.weight * self.frequency_thz ** power) + np.sum(modes * nodes ** power)) + sum(
             f.analytic_moment(power) for f in self.continuum)
 
     def continuum_debye_temperature_k(self, atoms) -> float | None:

@@ -29,6 +29,10 @@ def register(sub):
     p.add_argument("--pattern", action="append", metavar="GLOB",
                    help="file names taken from a directory, e.g. '*.dos' (repeatable; default: the known "
                         "DOS kinds .dat .txt .csv .tsv .dos .xlsx); other files are reported as skipped")
+    p.add_argument("--file-list", metavar="CSV",
+                   help="files with their own reading options: CSV with a 'file' column (paths relative to the "
+                        "list) and any of freq_unit, atoms, negative, low_frequency, formula, sheet; a cell given "
+                        "wins for that file, a blank one falls back to the options given here (--kind table)")
     p.add_argument("--workers", type=int, metavar="N",
                    help="worker processes (default: the number of cores)")
     p.add_argument("--kind", default="table", choices=["table", "quasiharmonic", "polynomial"],
@@ -60,12 +64,24 @@ def run(args) -> int:
     if args.workers is not None and args.workers < 1:
         raise OptionError("--workers must be at least 1")
     if args.kind != "table":
+        if args.file_list:
+            raise OptionError("--file-list applies to --kind table")
+        if not args.file:
+            raise OptionError("batch needs input files, directories or patterns")
         return _campaign(args)
+    files, per_file = list(args.file), ()
+    if args.file_list:
+        from ..batch import file_list
+        listed, per_file = file_list(args.file_list)
+        files += listed
+    if not files:
+        raise OptionError("batch needs input files, directories or patterns, or --file-list CSV")
     options = BatchOptions(
         temperatures=tuple(parse_temperatures(args.temperatures).tolist()), reading=reading_from_args(args),
-        per=args.per, fmt=args.format or "csv", force=args.force, digits=check_digits(args.digits))
+        per=args.per, fmt=args.format or "csv", force=args.force, digits=check_digits(args.digits),
+        per_file=per_file)
     with _executor(args.scheduler) as executor:
-        rows = run_batch(args.file, args.output, options, workers=args.workers, progress=True,
+        rows = run_batch(files, args.output, options, workers=args.workers, progress=True,
                          pattern=args.pattern, executor=executor)
     failed = [row for row in rows if row["status"] == "failed"]
     skipped = [row for row in rows if row["status"] == "skipped"]

@@ -2,9 +2,7 @@
 
 from __future__ import annotations
 
-import json
-
-from .options import add_dos_option, load_from_args
+from .options import add_dos_option, add_report_output_options, check_output_target, emit_report, load_from_args
 
 
 def register(sub):
@@ -19,6 +17,7 @@ def register(sub):
                    help="molar mass of the formula unit (instead of --formula; needs --atoms)")
     add_dos_option(p, "DOS whose low-frequency θ_D is compared", formula_help="molar mass and atom count",
                    atoms_default="from --formula; needed with --molar-mass")
+    add_report_output_options(p)
     p.set_defaults(func=run)
 
 
@@ -26,6 +25,7 @@ def run(args) -> int:
     from ..errors import OptionError
     from ..formula import formula_unit
     from ..vibration.elastic import compare_debye_temperatures, elastic_debye_temperature
+    check_output_target(args)
     if args.formula:
         mass, atoms = formula_unit(args.formula)
     elif args.molar_mass is not None and args.atoms is not None:
@@ -46,5 +46,4 @@ def run(args) -> int:
                                                           dos.low_frequency_debye_temperature_k())
     record["caution"] = ("θ_D from elastic data tests the acoustic branches only; elastic constants "
                          "measured at room temperature give a lower θ_D than 0 K values")
-    print(json.dumps(record, indent=2, ensure_ascii=False))
-    return 0
+    return emit_report(args, None, record, ensure_ascii=False)

@@ -30,9 +30,54 @@ def build_parser():
     return parser
 
 
+#: Options that name where the workspace is; accepted before or after the command and its verb.
+GLOBAL_OPTIONS = ("--workspace", "--space")
+#: Commands whose next word is a verb (``workspace add``).
+_VERB_COMMANDS = ("workspace",)
+
+
+def placed_global_options(argv):
+    """``argv`` with ``--workspace``/``--space`` given before the command (or its verb) moved after it.
+
+    argparse only knows an option in the parser of the word it follows, so
+    ``modeheat --workspace P workspace add F`` and ``modeheat workspace
+    --workspace P add F`` are rewritten to ``modeheat workspace add F
+    --workspace P``; options after the last command word are left alone.
+
+    Examples
+    --------
+    >>> placed_global_options(["workspace", "--workspace", "w.sqlite", "add", "a.dat"])
+    ['workspace', 'add', 'a.dat', '--workspace', 'w.sqlite']
+    >>> placed_global_options(["--space=lab", "table", "ws:a"])
+    ['table', 'ws:a', '--space=lab']
+    """
+    argv = list(argv)
+    words, moved, rest, i = [], [], [], 0
+    while i < len(argv):
+        token = argv[i]
+        if token == "--":
+            break
+        name = token.split("=", 1)[0]
+        if name in GLOBAL_OPTIONS:
+            take = 1 if "=" in token else 2
+            moved += argv[i:i + take]
+            i += take
+            continue
+        if token.startswith("-"):
+            break               # another option before the command: leave the line as given
+        words.append(token)
+        i += 1
+        if len(words) == 1 and words[0] not in _VERB_COMMANDS or len(words) == 2:
+            break
+    rest = argv[i:]
+    if not moved:
+        return argv
+    return words + rest + moved
+
+
 def main(argv=None) -> int:
     parser = build_parser()
-    args = parser.parse_args(argv)
+    args = parser.parse_args(placed_global_options(sys.argv[1:] if argv is None else argv))
     if not getattr(args, "func", None):
         parser.print_help(sys.stderr)
         return 2

@@ -2,11 +2,11 @@
 
 from __future__ import annotations
 
-import json
 import sys
 
 from ..temperatures import DEFAULT_TEMPERATURES, parse_temperatures
-from .options import add_input_options, check_digits, load_from_args, report_warnings
+from .options import (add_input_options, add_report_output_options, check_digits, check_output_target, emit_report,
+                      load_from_args, report_warnings, write_text_output)
 
 
 def register(sub):
@@ -22,8 +22,11 @@ def register(sub):
                    help="Einstein terms sharing the 3n-3 optical modes in the composite model (default 1)")
     p.add_argument("--format", default="json", choices=["json", "csv"],
                    help="json: every θ with definitions (default); csv: DOS and model tables side by side")
-    p.add_argument("--digits", type=int, default=8, metavar="N",
-                   help="significant digits of the csv table (default 8; 17 for full double precision)")
+    add_report_output_options(p)
+    for action in p._actions:
+        if action.dest == "digits":
+            action.help = ("significant digits of the numbers written (1 to 17; default: 8 for csv, all digits "
+                           "for json)")
     p.set_defaults(func=run)
 
 
@@ -48,35 +51,26 @@ def parse_fit_range(text):
 
 
 def run(args) -> int:
-    from ..errors import OptionError
-    from ..models import CompositeModel, model_tables, models_report, side_by_side
     from ..io.writers import export_table
-    from ..provenance import dos_input, provenance_record, temperature_settings
+    from ..models.export import models_export
 
+    from ..errors import OptionError
     if args.optical_terms < 1:
         raise OptionError(f"--optical-terms must be >= 1, got {args.optical_terms}")
+    check_output_target(args)
     fit_range = None if args.fit_range is None else parse_fit_range(args.fit_range)
     temperatures = None if args.temperatures is None else parse_temperatures(args.temperatures)
     if args.format == "csv" and temperatures is None:
         temperatures = parse_temperatures(DEFAULT_TEMPERATURES)
+    digits = check_digits(8 if args.digits is None else args.digits) if args.format == "csv" else None
     dos = load_from_args(args)
     report_warnings(dos)
-    report = models_report(dos, temperatures if args.format == "json" else None, fit_range, args.optical_terms)
-    settings = {"fit_range_K": None if fit_range is None else list(fit_range), "optical_terms": args.optical_terms,
-                "temperatures_K": None if temperatures is None else temperature_settings(temperatures)}
+    info, result = models_export(dos, temperatures, fit_range, args.optical_terms, args.format)
     if args.format == "json":
-        record = provenance_record([dos_input(dos)], settings, dos.warnings)
-        print(json.dumps({"provenance": record, **report}, indent=2, allow_nan=False))
-        return 0
-    composite = CompositeModel.from_dict(report["composite"])
-    tables = model_tables(dos, temperatures, report["einstein_theta_fit_K"], report["debye_theta_fit_K"], composite)
-    info = provenance_record(
-        [dos_input(dos)], settings, dos.warnings,
-        einstein_theta_K=report["einstein_theta_fit_K"], debye_theta_K=report["debye_theta_fit_K"],
-        composite_debye_theta_K=report["composite_debye_theta_K"],
-        composite_einstein_theta_K=report["composite_einstein_theta_K"],
-        fit_range_K=report["fit_range_K"],
-        note="einstein/debye columns use the θ fitted to C_v over fit_range_K; U and F include the ZPE")
-    sys.stdout.write(export_table(side_by_side(tables), info, "csv", digits=check_digits(args.digits))
-                     .decode("utf-8"))
+        return emit_report(args, info, result)
+    text = export_table(result, info, "csv", digits=digits).decode("utf-8")
+    if args.output:
+        write_text_output(args, text)
+    else:
+        sys.stdout.write(text)
     return 0

@@ -12,7 +12,7 @@ from .reading import add_formula_option, add_reading_options
 def add_input_options(parser, many=False, formula_help="for --per gram"):
     """Add the options that say how to read a DOS file (or, with ``many``, several)."""
     if many:
-        parser.add_argument("file", nargs="+", metavar="DIR_OR_GLOB",
+        parser.add_argument("file", nargs="*", metavar="DIR_OR_GLOB",
                             help="DOS files, directories (their files) or glob patterns (quote them; ** recurses)")
     else:
         parser.add_argument("file", help="DOS file: text (space, tab, comma or semicolon separated) or .xlsx, "
@@ -50,6 +50,38 @@ def add_output_options(parser, output_help):
                         help="significant digits of the numbers written (default 8, which the numerics "
                              "support; 17 for full double precision)")
     parser.add_argument("--force", action="store_true", help="replace existing output files")
+
+
+def add_report_output_options(parser, output_help="write here (default: stdout)"):
+    """Add ``--output``, ``--force`` and ``--digits`` to a command writing a JSON report (see :func:`emit_report`).
+
+    ``--digits`` rounds the report's numbers (not its provenance); by default
+    they are written in full.
+    """
+    parser.add_argument("--output", metavar="PATH", help=output_help)
+    parser.add_argument("--force", action="store_true", help="replace an existing output file")
+    parser.add_argument("--digits", type=int, default=None, metavar="N",
+                        help="significant digits of the numbers written (1 to 17; default: all digits)")
+
+
+def report_digits(args):
+    """``--digits`` of a report command: None (all digits) or an int from 1 to 17."""
+    digits = getattr(args, "digits", None)
+    return None if digits is None else check_digits(digits)
+
+
+def emit_report(args, provenance, report, ensure_ascii=True, allow_nan=False):
+    """Write ``{"provenance": ..., **report}`` as JSON to ``--output`` or standard output; returns 0.
+
+    The report's floats are rounded to ``--digits`` significant digits.
+    """
+    from ..io.writers import report_text
+    text = report_text(provenance, report, report_digits(args), ensure_ascii=ensure_ascii, allow_nan=allow_nan)
+    if getattr(args, "output", None):
+        write_text_output(args, text)
+    else:
+        sys.stdout.write(text)
+    return 0
 
 
 def add_temperature_option(parser, default=DEFAULT_TEMPERATURES):

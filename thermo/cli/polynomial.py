@@ -5,7 +5,8 @@ from __future__ import annotations
 import sys
 from pathlib import Path
 
-from .options import add_input_options, check_output_target, write_text_output
+from .options import (add_input_options, add_report_output_options, check_output_target, report_digits,
+                      write_text_output)
 
 
 def register(sub):
@@ -20,8 +21,7 @@ def register(sub):
     add_fit_options(p)
     p.add_argument("--format", default="json", choices=["json", "csv", "yaml"],
                    help="json (default), csv (one row per coefficient) or yaml (Cantera species block)")
-    p.add_argument("--output", metavar="PATH", help="write here (default: stdout)")
-    p.add_argument("--force", action="store_true", help="replace an existing output file")
+    add_report_output_options(p)
     p.set_defaults(func=run)
 
 
@@ -74,7 +74,8 @@ def run(args) -> int:
     name = species_name(args.formula, args.phase) if args.formula else None
     fit = fit_polynomial(source, args.form, t_range, t_mid=args.mid, formation_enthalpy=args.formation_enthalpy,
                          phase=args.phase, name=name)
-    text = polynomial_export(fit, args.format, args.formula, fit.provenance([entry], args.formula))
+    text = polynomial_export(fit, args.format, args.formula, fit.provenance([entry], args.formula),
+                             digits=report_digits(args))
     for note in fit.warnings:
         print(f"warning: {note}", file=sys.stderr)
     if args.output:

@@ -2,10 +2,8 @@
 
 from __future__ import annotations
 
-import json
-
 from ..temperatures import parse_temperatures
-from .options import add_input_options, load_from_args, report_warnings
+from .options import add_input_options, add_report_output_options, check_output_target, emit_report, load_from_args, report_warnings
 
 
 def register(sub):
@@ -15,6 +13,7 @@ def register(sub):
                    help="temperatures [K] over which the estimated_relative_error is taken (the other "
                         "numbers are at 298.15 K or temperature-free); START:STOP:STEP and/or a comma "
                         "list (default 0:1500:5,298.15)")
+    add_report_output_options(p)
     p.set_defaults(func=run)
 
 
@@ -47,7 +46,7 @@ def summarize(dos, temperatures):
 
 def run(args) -> int:
     temperatures = parse_temperatures(args.temperatures)
+    check_output_target(args)
     dos = load_from_args(args)
     report_warnings(dos)
-    print(json.dumps(summarize(dos, temperatures), indent=2))
-    return 0
+    return emit_report(args, None, summarize(dos, temperatures), allow_nan=True)

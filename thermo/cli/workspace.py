@@ -1,4 +1,4 @@
-"""``modeheat workspace add|list|export|remove|spaces``: the persistent workspace from the command line.
+"""``modeheat workspace add|list|export|remove|purge|spaces``: the persistent workspace from the command line.
 
 Other commands (``table``, ``models``, ...) read a stored dataset when their
 input is ``ws:NAME`` (or ``ws:ID``, ``ws:SHA256-PREFIX``), loaded with the
@@ -51,8 +51,13 @@ def register(sub):
     exp.add_argument("--force", action="store_true", help="replace an existing file")
     rem = verbs.add_parser("remove", help="delete a dataset (its bytes go when no dataset uses them)")
     rem.add_argument("ref", metavar="ID|NAME")
+    pur = verbs.add_parser("purge", help="remove deleted datasets for good, expire idle browser spaces, "
+                                         "drop bytes nothing uses and compact the file (every space of the file)")
+    pur.add_argument("--retention-days", type=float, metavar="DAYS",
+                     help="keep browser spaces holding only demo data this long (default "
+                          "$MODEHEAT_SPACE_RETENTION_DAYS, else 30; 0 keeps them)")
     verbs.add_parser("spaces", help="named workspaces in the file with the keys that open them in the dashboard")
-    for v in (add, lst, exp, rem, verbs.choices["spaces"]):
+    for v in (add, lst, exp, rem, pur, verbs.choices["spaces"]):
         add_location_options(v)
         v.set_defaults(func=run)
     p.set_defaults(func=run)
@@ -164,6 +169,19 @@ def _remove(args, space):
     return 0
 
 
+def _purge(args, space):
+    from ..errors import OptionError
+    from ..workspace.upkeep import purge
+    days = args.retention_days
+    if days is not None and not 0 <= days < 1e6:
+        raise OptionError(f"--retention-days {days:g}: give a number of days from 0 (keep for ever) to 1e6")
+    done = purge(space.workspace, days=days)
+    print(f"purged {done['datasets']} deleted dataset(s), {done['spaces']} idle browser space(s), "
+          f"{done['blobs']} unused file(s); {space.workspace.path}: {done['bytes_before']} -> "
+          f"{done['bytes_after']} bytes", file=sys.stderr)
+    return 0
+
+
 def _spaces(args, space):
     for s in space.workspace.spaces():
         print(f"{inert_text(s.name)}\t{s.key}")
@@ -174,8 +192,9 @@ def run(args) -> int:
     from ..errors import OptionError
     verb = getattr(args, "verb", None)
     if verb is None:
-        raise OptionError("workspace needs a verb: add, list, export, remove or spaces")
-    return {"add": _add, "list": _list, "export": _export, "remove": _remove, "spaces": _spaces}[verb](
+        raise OptionError("workspace needs a verb: add, list, export, remove, purge or spaces")
+    return {"add": _add, "list": _list, "export": _export, "remove": _remove, "purge": _purge,
+            "spaces": _spaces}[verb](
         args, open_space(args, create=verb == "add"))
 
 

@@ -51,7 +51,7 @@ import pandas as pd
 from ..errors import OptionError
 from .inert import FORMULA_PREFIXES, _RISKY_SPLIT, append_inert, inert_json, neutralised_cell, restored_cell, write_file
 
-__all__ = ["EXPORT_FORMATS", "FORMULA_PREFIXES", "export_table", "neutralised_cell", "restored_cell", "write_file",
+__all__ = ["EXPORT_FORMATS", "FORMULA_PREFIXES", "export_table", "neutralised_cell", "report_text", "restored_cell", "rounded_report", "write_file",
            "write_table"]
 
 #: Significant digits the command line and the dashboard write by default: the
@@ -83,6 +83,70 @@ def _rounded(df, digits):
         if pd.api.types.is_float_dtype(out[name]):
             out[name] = [float(f"{v:.{digits}g}") for v in out[name].to_numpy()]
     return out
+
+
+def rounded_report(value, digits=None):
+    """A JSON report (dicts, lists, numbers) with every float rounded to ``digits`` significant digits.
+
+    Parameters
+    ----------
+    value : dict, list, float or any JSON-able value
+        The report.
+    digits : int, optional
+        Significant digits from 1 to 17 (None: unchanged).  Integers,
+        booleans, texts and None are kept as they are.
+
+    Returns
+    -------
+    The same structure with rounded floats.
+
+    Examples
+    --------
+    >>> rounded_report({"theta_K": [412.345678912, 3], "name": "x"}, 4)
+    {'theta_K': [412.3, 3], 'name': 'x'}
+    """
+    if digits is None:
+        return value
+    if not isinstance(digits, int) or isinstance(digits, bool) or not 1 <= digits <= 17:
+        raise OptionError(f"significant digits must be a whole number from 1 to 17, not {digits!r}")
+    if isinstance(value, np.generic):
+        value = value.item()
+    if isinstance(value, float):
+        return float(f"{value:.{digits}g}") if math.isfinite(value) else value
+    if isinstance(value, dict):
+        return {k: rounded_report(v, digits) for k, v in value.items()}
+    if isinstance(value, (list, tuple)):
+        return [rounded_report(v, digits) for v in value]
+    return value
+
+
+def report_text(provenance, report, digits=None, ensure_ascii=True, allow_nan=False) -> str:
+    """A JSON report as written by the command line and the dashboard: ``{"provenance": ..., **report}``.
+
+    Parameters
+    ----------
+    provenance : dict or None
+        The record of :func:`thermo.provenance.provenance_record` (never rounded); None: no key.
+    report : dict
+        The result; its floats rounded to ``digits`` significant digits (:func:`rounded_report`).
+    digits : int, optional
+        None: all digits.
+    ensure_ascii, allow_nan : bool
+        As :func:`json.dumps`.
+
+    Returns
+    -------
+    str
+        Indented JSON text ending in a newline.
+
+    Examples
+    --------
+    >>> json.loads(report_text(None, {"theta_K": 412.3456}, digits=3))
+    {'theta_K': 412.0}
+    """
+    body = rounded_report(dict(report), digits)
+    record = body if provenance is None else {"provenance": provenance, **body}
+    return json.dumps(record, indent=2, allow_nan=allow_nan, ensure_ascii=ensure_ascii) + "\n"
 
 
 def export_table(df: pd.DataFrame, provenance: dict, fmt: str, digits: int | None = None) -> bytes:

@@ -106,7 +106,7 @@ def cantera_yaml(fit, formula):
     return "\n".join(lines) + "\n"
 
 
-def polynomial_export(fit, fmt, formula=None, provenance=None):
+def polynomial_export(fit, fmt, formula=None, provenance=None, digits=None):
     """A fit as file text: ``json`` (the provenance and the record of
     :meth:`PolynomialFit.to_dict`), ``csv`` (one row per coefficient, provenance
     lines first) or ``yaml`` (Cantera; the provenance as one comment line).
@@ -141,7 +141,7 @@ def polynomial_export(fit, fmt, formula=None, provenance=None):
 
     import pandas as pd
 
-    from ..io.writers import export_table
+    from ..io.writers import export_table, rounded_report
 
     from ..provenance import COMMON_KEYS, provenance_record
 
@@ -149,7 +149,7 @@ def polynomial_export(fit, fmt, formula=None, provenance=None):
     kind = str(fmt).lower()
     if kind == "yaml":
         return f"# provenance: {json.dumps(info, allow_nan=False, ensure_ascii=False)}\n" + cantera_yaml(fit, formula)
-    record = fit.to_dict()
+    record = rounded_report(fit.to_dict(), digits)
     record["formula"] = formula
     if kind == "json":
         return json.dumps({"provenance": info, **record}, indent=2, allow_nan=False, ensure_ascii=False) + "\n"
@@ -162,4 +162,4 @@ def polynomial_export(fit, fmt, formula=None, provenance=None):
     if "coefficient_uncertainties" not in ranges[0]:
         table = table.drop(columns="uncertainty")
     meta = {**info, **{k: v for k, v in record.items() if k not in COMMON_KEYS}}
-    return export_table(table, meta, "csv").decode("utf-8")
+    return export_table(table, meta, "csv", digits=digits).decode("utf-8")

@@ -2,135 +2,150 @@ r"""The long-wave region of a mode list: sound velocities near Γ and the elasti
 
 A q-point mesh samples the acoustic branches only at a few points near Γ,
 so a plain sum over its modes misses the :math:`T^3` law.  With the wave
-vectors and the cell volume, the acoustic modes of the innermost q-shell
-(Γ itself on a Γ-centred mesh) are replaced by the elastic continuum of a
-sphere of the same Brillouin-zone volume: three branches
-:math:`g_j(\nu) = 4\pi V\nu^2/c_j^3\,(1 + b_j\nu^2)` whose velocities come
-from the acoustic modes of the shells nearest Γ.  At low temperature only
-the continuum is excited and the table follows the Debye law with the exact
-:math:`\langle\sum_j c_j^{-3}\rangle`.
+vectors and the cell volume:
+
+1. the long-wave sound speeds :math:`c_0` along the directions of the
+   q-points nearest Γ come from their acoustic modes, the dispersion removed
+   by a Richardson step with the mode at :math:`k\mathbf q` (:func:`branch_velocities`);
+2. an elastic tensor fitted to them gives the exact direction means
+   :math:`\langle c_j^{-3}\rangle` (:func:`christoffel_means`);
+3. each acoustic branch below :data:`BLEND` mesh spacings is the elastic
+   continuum :math:`g_j = 4\pi V\nu^2\langle c_j^{-3}\rangle` with its
+   dispersion (a sine law with the measured β, :func:`dispersion_nodes`),
+   blended by an infinitely smooth step :math:`W_j(\nu)` into the acoustic
+   mesh modes, each of which keeps the share :math:`1 - W_j`
+   (:func:`long_wave_region`).
+
+At low temperature only the continuum is excited and the table follows the
+Debye law with the exact :math:`\langle\sum_j c_j^{-3}\rangle`; the mesh sum
+of the smooth remainder converges fast.
 
 References
 ----------
 .. [1] N. W. Ashcroft, N. D. Mermin, *Solid State Physics* (Holt, Rinehart
-   and Winston, 1976), ch. 23 (the Debye :math:`T^3` law with the
-   direction-averaged :math:`c^{-3}`).
+   and Winston, 1976), ch. 22-23 (sound speeds of the long-wave dynamical
+   matrix; the Debye :math:`T^3` law with the direction-averaged :math:`c^{-3}`).
+.. [2] L. F. Richardson, "The deferred approach to the limit", Phil. Trans.
+   R. Soc. A 226, 299-361 (1927).
 """
 
 from __future__ import annotations
 
 import numpy as np
 
+from ..errors import ModeheatError
+from .christoffel import christoffel_fit, christoffel_means, christoffel_speeds
 from ..spectrum import LowFrequencyFit
 
 #: Wave vectors shorter than this are Γ [1/Å].
 GAMMA_Q = 1e-8
-#: Fit points: q-points out to this many times the shortest non-zero |q|.
-FIT_RADIUS = 2.6
-#: Fewest fit points per fitted coefficient.
-POINTS_PER_COEFFICIENT = 2
+#: Velocity points: whole shells near Γ out to this many times the shortest non-zero |q| ...
+FIT_RADIUS = 1.8
+#: ... and at least this many points.
+MIN_FIT_POINTS = 24
+#: Fewest q-points with a partner at kq for the dispersion step.
+MIN_PAIRS = 6
+#: The tensor fit weighs a point by (q₁/q)^this: the residual of a Richardson step grows as q⁴.
+RICHARDSON_POWER = 4
+#: The continuum is the whole acoustic DOS below BLEND[0]·Δq and is blended into the mesh modes up to
+#: BLEND[1]·Δq (Δq = (V_zone·w_min)^{1/3} the mesh spacing; per branch in frequency, ν = c_j q/2π).
+BLEND = (0.5, 2.5)
 
 
-def _direction_basis(n, degree):
-    """Zero-mean even functions of the unit vector n (N, 3) up to ``degree`` (0, 2 or 4), and the constant."""
-    x, y, z = n.T
-    cols = [np.ones_like(x)]
-    if degree >= 2:
-        cols += [x * x - 1 / 3, y * y - 1 / 3, x * y, x * z, y * z]
-    if degree >= 4:
-        cols += [x ** 4 - 0.2, y ** 4 - 0.2, z ** 4 - 0.2, x * x * y * y - 1 / 15, x * x * z * z - 1 / 15,
-                 x ** 3 * y, x ** 3 * z, y ** 3 * x, y ** 3 * z, z ** 3 * x, z ** 3 * y,
-                 x * x * y * z, y * y * x * z, z * z * x * y]
-    return cols
-
-
-def inverse_cube_fit(q_per_a, acoustic_thz, weights):
-    r"""Direction mean of :math:`\sum_j c_j^{-3}` and the dispersion from acoustic modes near Γ.
+def branch_velocities(q_per_a, acoustic_thz, weights, doubled_thz=None, step=2):
+    r"""Direction means of :math:`c_j^{-3}` and of the dispersion, from acoustic modes near Γ.
 
     Parameters
     ----------
     q_per_a : numpy.ndarray, shape (P, 3)
         Non-zero wave vectors near Γ [1/Å].
     acoustic_thz : numpy.ndarray, shape (P, 3)
-        The three lowest frequencies at each [THz], > 0.
+        The three lowest frequencies at each, ascending [THz], > 0.
     weights : numpy.ndarray, shape (P,)
         q-point weights (star multiplicities) [1].
+    doubled_thz : numpy.ndarray, shape (P, 3), optional
+        The same at :math:`k\mathbf q` (Richardson step for the dispersion;
+        NaN rows where the mesh has no such point: their β is the mean of the others').
+    step : int
+        :math:`k` (2 on a Γ-centred mesh, 3 on a shifted one).
 
     Returns
     -------
     dict
-        ``inverse_cube_mean`` :math:`\langle\sum_j c_j^{-3}\rangle` [(Å·THz)⁻³],
-        ``branch_shares`` (each branch's share of it), ``dispersion``
-        :math:`\beta` in :math:`c(q) = c(0)(1-\beta q^2)` [Å²], ``points``.
+        ``inverse_cube`` :math:`\langle c_j^{-3}\rangle` per branch [(Å·THz)⁻³];
+        ``inverse_cube_mean`` :math:`\sum_j\langle c_j^{-3}\rangle`; ``points``;
+        ``dispersion_corrected``; per point ``speeds`` :math:`c_0` [Å·THz],
+        ``betas`` β [Å²] and ``weights``.
 
     Notes
     -----
-    :math:`c_j(\mathbf q) = 2\pi\nu_j/|\mathbf q|`; the weighted least-squares
-    fit :math:`\sum_j c_j^{-3} = a_0 + \sum_k a_k Y_k(\hat q) + d_1q^2 + d_2q^4`
-    with zero-mean even :math:`Y_k` (degree 2 and 4, as many as the points
-    carry) gives the sphere mean :math:`a_0` at :math:`q \to 0`.
+    :math:`c_j(\mathbf q) = 2\pi\nu_j/|\mathbf q|`.  With the mode at
+    :math:`k\mathbf q`, :math:`c = c_0(1-\beta q^2)` gives
+    :math:`c_0 = (k^2c(q) - c(kq))/(k^2-1)` (Richardson's step).  An elastic
+    tensor is fitted to these :math:`c_0` (:func:`christoffel_fit`, weights
+    :math:`\propto q^{-4}`, the order of the step's residual); its speeds
+    give every point's :math:`\beta = (1 - c(q)/c_0(\hat q))/q^2` and the
+    direction means (:func:`christoffel_means`).  With fewer than
+    :data:`MIN_PAIRS` partners the tensor is fitted to the raw speeds and β = 0.
 
     References
     ----------
     .. [1] Ashcroft and Mermin (1976), ch. 23.
+    .. [2] L. F. Richardson, Phil. Trans. R. Soc. A 226, 299-361 (1927).
 
     Examples
     --------
-    >>> q = np.array([[0.1, 0, 0], [0, 0.1, 0], [0, 0, 0.1], [0.2, 0, 0], [0, 0.2, 0], [0, 0, 0.2]])
+    >>> q = np.array([[0.1, 0, 0], [0, 0.1, 0], [0, 0, 0.1], [0.1, 0.1, 0], [0, 0.1, 0.1], [0.1, 0, 0.1]])
     >>> nu = np.outer(np.linalg.norm(q, axis=1), [5.0, 5.0, 8.0]) / (2 * np.pi)
-    >>> out = inverse_cube_fit(q, nu, np.ones(6))
+    >>> out = branch_velocities(q, nu, np.ones(6))
     >>> round(out["inverse_cube_mean"] * 5 ** 3, 6)      # 2/5³ + 1/8³ in units of 5⁻³
     2.244141
     """
     q = np.linalg.norm(q_per_a, axis=1)
     n = q_per_a / q[:, None]
     c = 2 * np.pi * np.asarray(acoustic_thz, float) / q[:, None]
-    per_branch = c ** -3.0
-    s = per_branch.sum(axis=1)
-    shells = np.unique(np.round(q / q.min(), 6)).size
-    points = q.size
-    for degree in (4, 2, 0):
-        cols = _direction_basis(n, degree)
-        extra = [q ** 2, q ** 4][: max(0, min(2, shells - 1))]
-        if points >= POINTS_PER_COEFFICIENT * (len(cols) + len(extra)) or degree == 0:
-            break
-    design = np.column_stack(cols + extra)
-    root = np.sqrt(np.asarray(weights, float))
-    coef = np.linalg.lstsq(design * root[:, None], s * root, rcond=None)[0]
-    mean = float(coef[0])
-    d1 = float(coef[len(cols)]) if extra else 0.0
-    shares = np.average(per_branch, axis=0, weights=weights)
-    beta = d1 / (3.0 * mean) if mean > 0 else 0.0
-    return {"inverse_cube_mean": mean, "branch_shares": shares / shares.sum(), "dispersion": beta,
-            "points": int(points), "directions_degree": degree}
+    weights = np.asarray(weights, float)
+    paired = np.zeros(q.size, bool) if doubled_thz is None else np.all(np.isfinite(doubled_thz), axis=1)
+    corrected = paired.sum() >= MIN_PAIRS
+    fit_speeds, fit_weights = c, weights * (q.min() / q) ** RICHARDSON_POWER
+    if corrected:              # the tensor from the Richardson-corrected points, β of every point from it
+        c2 = 2 * np.pi * np.asarray(doubled_thz, float)[paired] / (step * q[paired, None])
+        fit_speeds = (step ** 2 * c[paired] - c2) / (step ** 2 - 1)
+        fit_weights = fit_weights[paired]
+    params = christoffel_fit(n[paired] if corrected else n, fit_speeds, fit_weights)
+    c0 = christoffel_speeds(params, n)
+    beta = (1 - c / c0) / q[:, None] ** 2 if corrected else np.zeros_like(c)
+    inverse = christoffel_means(params)
+    return {"inverse_cube": inverse, "inverse_cube_mean": float(inverse.sum()), "points": int(q.size),
+            "dispersion_corrected": bool(corrected), "speeds": c0, "betas": beta, "weights": weights}
 
 
-def elastic_continuum(inverse_cube_branches, cell_volume_a3, sphere_modes, dispersion=0.0):
-    r"""The continuum of each acoustic branch inside a sphere holding ``sphere_modes`` modes per branch.
+def blended_continuum(velocities, cell_volume_a3, spacing_per_a, blend=None):
+    r"""The elastic continuum of each acoustic branch, blended out between ``blend`` × Δq.
 
     Parameters
     ----------
-    inverse_cube_branches : sequence of float
-        :math:`\langle c_j^{-3}\rangle` of each branch [(Å·THz)⁻³].
+    velocities : dict
+        :func:`branch_velocities`.
     cell_volume_a3 : float
         Cell volume V [Å³].
-    sphere_modes : float
-        Modes per branch in the sphere (its share of the zone per cell) [1].
-    dispersion : float
-        :math:`\beta` of :math:`\nu = cq(1-\beta q^2)/2\pi` [Å²].
+    spacing_per_a : float
+        Mesh spacing Δq [1/Å].
+    blend : (float, float), optional
+        Start and end of the blend in units of Δq (default :data:`BLEND`).
 
     Returns
     -------
     tuple of LowFrequencyFit
-        One form :math:`A_j\nu^2(1+b_j\nu^2)` per branch, with
-        :math:`A_j = 4\pi V\langle c_j^{-3}\rangle`,
-        :math:`b_j = 5\beta(2\pi)^2\langle c_j^{-3}\rangle^{2/3}` and the cut-off where its
-        integral reaches ``sphere_modes`` [per cell].
+        Per branch :math:`A_j\nu^2`, :math:`A_j = 4\pi V\langle c_j^{-3}\rangle`
+        [modes / THz³ per cell, one mode per branch over the zone], cut-off
+        :math:`c_jq_a/2\pi` and blend top :math:`c_jq_b/2\pi` with
+        :math:`c_j = \langle c_j^{-3}\rangle^{-1/3}`.
 
     Notes
     -----
-    :math:`N_j(\nu) = V q^3/6\pi^2` with :math:`q(\nu) \approx (2\pi\nu/c)(1+\beta(2\pi\nu/c)^2)`
-    gives :math:`g_j = 4\pi V\nu^2c^{-3}(1 + 5\beta(2\pi/c)^2\nu^2)` to first order in β.
+    :math:`N_j(\nu) = V q^3/6\pi^2` per branch and cell gives
+    :math:`g_j = 4\pi V\nu^2/c_j^3` for :math:`\nu = c_jq/2\pi`.
 
     References
     ----------
@@ -138,32 +153,130 @@ def elastic_continuum(inverse_cube_branches, cell_volume_a3, sphere_modes, dispe
 
     Examples
     --------
-    >>> f = elastic_continuum([1e-3], 10.0, 0.01)[0]
-    >>> round(f.analytic_moment(), 12)
-    0.01
+    >>> v = {"inverse_cube": np.array([1e-3])}
+    >>> f = blended_continuum(v, 10.0, 0.1, (1.0, 1.0))[0]          # a sharp sphere of radius q₁
+    >>> round(f.analytic_moment() / (10.0 * 0.1 ** 3 / (6 * np.pi ** 2)), 12)
+    1.0
     """
     out = []
-    for inv in inverse_cube_branches:
-        a = 4 * np.pi * cell_volume_a3 * inv
-        b = 5 * dispersion * (2 * np.pi) ** 2 * inv ** (2 / 3) if dispersion > 0 else 0.0
-        top = (3 * sphere_modes / a) ** (1 / 3)
-        for _ in range(50):                       # Newton on A(ν³/3 + bν⁵/5) = N
-            value = a * (top ** 3 / 3 + b * top ** 5 / 5) - sphere_modes
-            top -= value / (a * top * top * (1 + b * top * top))
-        out.append(LowFrequencyFit(coefficient=a, cutoff_thz=float(top), window_thz=(0.0, float(top)),
-                                   curvature=b, automatic=True))
+    blend = BLEND if blend is None else blend
+    for inv in velocities["inverse_cube"]:
+        speed = float(inv) ** (-1 / 3)
+        low, high = (speed * f * spacing_per_a / (2 * np.pi) for f in blend)
+        out.append(LowFrequencyFit(coefficient=float(4 * np.pi * cell_volume_a3 * inv), cutoff_thz=low,
+                                   window_thz=(low, high), blend_top_thz=high, smooth_taper=True))
     return tuple(out)
 
 
-def replace_inner_shell(q_points, frequencies, weights, cell_volume_a3):
-    r"""Which acoustic modes the continuum replaces, and the continuum per cell.
+#: The elastic law of a list without wave vectors holds below ANCHOR_BLEND[0]·ν_Δ and is blended out by
+#: ANCHOR_BLEND[1]·ν_Δ, ν_Δ the frequency of the Debye-averaged branch one mesh spacing from Γ.
+ANCHOR_BLEND = (0.25, 2.0)
+
+
+def anchored_continuum(coefficient, q_points, atoms):
+    r"""An elastic Debye law :math:`A\nu^2` blended into a mode list that has no wave vectors.
+
+    Parameters
+    ----------
+    coefficient : float
+        :math:`A = 9n/\nu_D^3`, :math:`\nu_D = k_B\theta/h` [modes / THz³ per formula unit].
+    q_points : float
+        Number of q-points of the mesh, :math:`N_q` [1].
+    atoms : int
+        Atoms per formula unit n (one formula unit per cell is assumed).
+
+    Returns
+    -------
+    LowFrequencyFit
+        The law alone below :data:`ANCHOR_BLEND`\ [0]·ν_Δ, blended out by
+        :data:`ANCHOR_BLEND`\ [1]·ν_Δ with an infinitely smooth step.
+
+    Notes
+    -----
+    A mesh spacing :math:`\Delta q = (V_{zone}/N_q)^{1/3}` on the Debye branch
+    :math:`\nu = \bar cq/2\pi` with :math:`\nu_D = \bar c(3n/4\pi V)^{1/3}` is
+    :math:`\nu_\Delta = \nu_D(4\pi/3nN_q)^{1/3}`.
+
+    References
+    ----------
+    .. [1] Ashcroft and Mermin (1976), ch. 23.
+
+    Examples
+    --------
+    >>> f = anchored_continuum(9.0, 4 * np.pi / 3, 1)                 # ν_D = 1 THz, ν_Δ = 1 THz
+    >>> round(f.cutoff_thz, 12), round(f.blend_top_thz, 12)
+    (0.25, 2.0)
+    """
+    spacing = (9.0 * atoms / coefficient) ** (1 / 3) * (4 * np.pi / (3 * atoms * q_points)) ** (1 / 3)
+    low, high = (f * spacing for f in ANCHOR_BLEND)
+    return LowFrequencyFit(coefficient=float(coefficient), cutoff_thz=low, window_thz=(low, high),
+                           automatic=False, blend_top_thz=high, smooth_taper=True)
+
+
+#: Gauss–Legendre points of each of the two segments of a dispersion correction.
+DISPERSION_NODES = 24
+
+
+def dispersion_nodes(velocities, fits, cell_volume_a3):
+    r"""Nodes and weights of :math:`\int (g_j - A_j\nu^2)W_j\,d\nu`: the dispersion of each continuum branch.
+
+    Parameters
+    ----------
+    velocities : dict
+        :func:`branch_velocities` (``speeds``, ``betas``, ``weights`` of its points).
+    fits : tuple of LowFrequencyFit
+        :func:`blended_continuum`.
+    cell_volume_a3 : float
+        Cell volume [Å³].
+
+    Returns
+    -------
+    nodes, modes : numpy.ndarray
+        Frequencies [THz] and mode weights [1 per cell] (either sign).
+
+    Notes
+    -----
+    Along each direction :math:`\nu = (c_0q_s/2\pi)\sin(q/q_s)` with
+    :math:`q_s = (6\beta)^{-1/2}` (the sine law with the measured
+    :math:`c_0` and :math:`\beta`), so with :math:`u = 2\pi\nu/c_0q_s`,
+    :math:`g_j = 4\pi V\nu^2\langle c_0^{-3}R(u)\rangle`,
+    :math:`R = (\arcsin u/u)^2/\sqrt{1-u^2}`; the ratio
+    :math:`\langle c_0^{-3}R\rangle/\langle c_0^{-3}\rangle` is the
+    weighted mean over the points, the scale :math:`A_j` is the fitted one.
+
+    Examples
+    --------
+    >>> v = {"inverse_cube": np.array([1e-3]), "speeds": np.array([[10.0]]),
+    ...      "betas": np.array([[0.0]]), "weights": np.array([1.0])}
+    >>> nodes, modes = dispersion_nodes(v, blended_continuum(v, 10.0, 0.1), 10.0)
+    >>> float(np.abs(modes).max())                     # no dispersion: nothing to add
+    0.0
+    """
+    x, w = np.polynomial.legendre.leggauss(DISPERSION_NODES)
+    nodes, modes = [], []
+    for j, fit in enumerate(fits):
+        c0, beta = velocities["speeds"][:, j], velocities["betas"][:, j]
+        weight = velocities["weights"] * c0 ** -3.0
+        qs = np.where(beta > 0, 1 / np.sqrt(np.where(beta > 0, 6 * beta, 1.0)), np.inf)
+        for low, high in ((0.0, fit.cutoff_thz), (fit.cutoff_thz, fit.blend_top_thz)):
+            nu = low + 0.5 * (high - low) * (x + 1)
+            u = np.clip(2 * np.pi * nu[:, None] / (c0 * qs)[None, :], 1e-12, 0.99)
+            ratio = (np.arcsin(u) / u) ** 2 / np.sqrt(1 - u * u)
+            excess = fit.form(nu) * ((ratio @ weight) / weight.sum() - 1.0) * fit.taper(nu)
+            nodes.append(nu)
+            modes.append(0.5 * (high - low) * w * excess)
+    return np.concatenate(nodes), np.concatenate(modes)
+
+
+def long_wave_region(q_points, frequencies, weights, cell_volume_a3):
+    r"""The continuum near Γ and the share of each acoustic mesh mode left beside it.
 
     Parameters
     ----------
     q_points : numpy.ndarray, shape (P, 3)
         Distinct wave vectors [1/Å].
     frequencies : numpy.ndarray, shape (P, m)
-        Sorted frequencies at each q-point [THz] (m = 3 × atoms in the cell).
+        Ascending frequencies at each q-point [THz] (m = 3 × atoms in the cell).
     weights : numpy.ndarray, shape (P,)
         q-point weights normalised to 1 over the zone [1].
     cell_volume_a3 : float
@@ -171,13 +284,23 @@ def replace_inner_shell(q_points, frequencies, weights, cell_volume_a3):
 
     Returns
     -------
-    inner : numpy.ndarray of bool, shape (P,)
-        q-points whose three acoustic modes are replaced.
+    kept : numpy.ndarray, shape (P, 3)
+        Share :math:`1 - W_j(\nu)` of each acoustic mode kept in the sums [1].
     continuum : tuple of LowFrequencyFit
-        Per cell (one mode per branch over the whole zone).
-    fit : dict
-        :func:`inverse_cube_fit` and ``shell_radius_per_A``; None when the
-        shells near Γ carry no positive acoustic frequencies.
+        Per cell (:func:`blended_continuum`).
+    info : dict or None
+        :func:`branch_velocities` and ``shell_radius_per_A``; None (and
+        nothing replaced) when the shells near Γ give no velocities.
+
+    Notes
+    -----
+    The acoustic DOS is :math:`\sum_j W_jg_j + \sum_{\mathbf q}w_{\mathbf q}(1-W_j)\delta(\nu-\nu_j)`:
+    the mesh sum of the smooth remainder converges fast while the continuum
+    carries the :math:`T^3` law exactly.
+
+    References
+    ----------
+    .. [1] Ashcroft and Mermin (1976), ch. 23.
 
     Examples
     --------
@@ -185,24 +308,43 @@ def replace_inner_shell(q_points, frequencies, weights, cell_volume_a3):
     >>> q = 0.05 * np.array(np.meshgrid(k, k, k)).reshape(3, -1).T          # 7³ cubic mesh [1/Å]
     >>> nu = np.outer(np.linalg.norm(q, axis=1), [4.0, 4.0, 7.0]) / (2 * np.pi)
     >>> w = np.full(len(q), 1 / len(q))
-    >>> inner, continuum, fit = replace_inner_shell(q, nu, w, (2 * np.pi / 0.35) ** 3)
-    >>> int(inner.sum()), round(fit["inverse_cube_mean"] * 64, 6)       # Γ; 2/4³ + 1/7³ in 4⁻³
-    (1, 2.186589)
+    >>> kept, continuum, info = long_wave_region(q, nu, w, (2 * np.pi / 0.35) ** 3)
+    >>> float(kept[np.all(q == 0, axis=1)].max()), round(info["inverse_cube_mean"] * 64, 6)
+    (0.0, 2.186589)
     """
     q = np.linalg.norm(q_points, axis=1)
+    kept = np.ones((q.size, 3))
     moving = q > GAMMA_Q
     if not moving.any():
-        return np.zeros(q.size, bool), (), None
+        return kept, (), None
     first = float(q[moving].min())
-    inner = ~moving if (~moving).any() else q <= first * (1 + 1e-6)
-    near = moving & ~inner & (q <= FIT_RADIUS * first) & np.all(frequencies[:, :3] > 0, axis=1)
-    if near.sum() < 3:
-        return np.zeros(q.size, bool), (), None
-    fit = inverse_cube_fit(q_points[near], frequencies[near, :3], weights[near])
-    if not fit["inverse_cube_mean"] > 0:
-        return np.zeros(q.size, bool), (), None
-    per_branch = fit["inverse_cube_mean"] * fit["branch_shares"]
-    sphere = float(weights[inner].sum())
-    continuum = elastic_continuum(per_branch, cell_volume_a3, sphere, max(fit["dispersion"], 0.0))
-    fit = dict(fit, shell_radius_per_A=(6 * np.pi ** 2 * sphere / cell_volume_a3) ** (1 / 3))
-    return inner, continuum, fit
+    usable = moving & np.all(frequencies[:, :3] > 0, axis=1)
+    radii = np.sort(q[usable])
+    if radii.size < 3:
+        return kept, (), None
+    reach = radii[min(MIN_FIT_POINTS, radii.size) - 1] * (1 + 1e-6)      # whole shells up to MIN_FIT_POINTS
+    near = usable & (q <= max(reach, FIT_RADIUS * first))
+    lookup = {tuple(k): i for i, k in enumerate(np.round(q_points / first, 4))}
+    doubled, step, best = None, 2, -1
+    for k in (2, 3):          # Γ-centred meshes hold 2q, shifted (Monkhorst–Pack) ones 3q
+        partner = np.array([lookup.get(tuple(x), -1) for x in np.round(k * q_points[near] / first, 4)], int)
+        have = partner >= 0
+        have[have] = np.all(frequencies[partner[have], :3] > 0, axis=1)
+        if have.sum() > best:
+            best, step, pairs = int(have.sum()), k, (partner, have)
+    partner, have = pairs
+    doubled = np.full((partner.size, 3), np.nan)
+    doubled[have] = frequencies[partner[have], :3]
+    try:
+        info = branch_velocities(q_points[near], frequencies[near, :3], weights[near], doubled, step)
+    except ModeheatError:
+        return kept, (), None
+    if not np.all(info["inverse_cube"] > 0):
+        return kept, (), None
+    spacing = (8 * np.pi ** 3 / cell_volume_a3 * float(weights.min())) ** (1 / 3)
+    continuum = blended_continuum(info, cell_volume_a3, spacing)
+    for j, fit in enumerate(continuum):
+        kept[:, j] = 1.0 - fit.taper(frequencies[:, j])
+    kept[~moving] = 0.0
+    nodes = dispersion_nodes(info, continuum, cell_volume_a3)
+    return kept, continuum, dict(info, shell_radius_per_A=first, mesh_spacing_per_A=spacing, dispersion_nodes=nodes)

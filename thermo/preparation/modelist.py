@@ -19,7 +19,8 @@ from ..spectrum import ModeList, PhononDOS
 from ..units import thz_to_unit
 from .imaginary import imaginary_warnings
 from .layers import chosen_atoms, chosen_unit
-from .longwave import GAMMA_Q, replace_inner_shell
+from .longwave import GAMMA_Q, anchored_continuum, long_wave_region
+from .options import elastic_theta, low_frequency_window
 from .validation import check_magnitudes, check_mode_count
 
 #: Modes below this |frequency| without a wave vector are taken as Γ's acoustic modes [THz].
@@ -72,13 +73,15 @@ def load_mode_list(raw, explicit, carried, chosen):
     Returns
     -------
     PhononDOS
-        With ``modes`` set; ``low_frequency`` None.
+        With ``modes`` set; ``low_frequency`` None; ``frequency_thz``/``dos``
+        and ``input_frequency_thz``/``input_dos`` a histogram of the modes
+        (and the continuum) for plots.
 
     Notes
     -----
     Each mode carries :math:`w_i\\,3n(1-f^{[\\text{drop-unscaled}]}_{\\text{imag}})/\\sum_k w_k`
     modes per formula unit; with wave vectors and a cell volume the acoustic
-    modes of the innermost q-shell are replaced by the elastic continuum
+    modes near Γ are blended into the elastic continuum
     (:func:`thermo.preparation.longwave.replace_inner_shell`) carrying the
     same number of modes.
 
@@ -105,27 +108,23 @@ def load_mode_list(raw, explicit, carried, chosen):
     total_raw = float(w.sum())
     check_mode_count(total_raw, src)
     policy, option = chosen.negative, chosen.low_frequency
-    replaced = np.zeros(nu.size, bool)
-    continuum, fit, per_q = (), None, None
+    share_kept = np.ones(nu.size)          # 1 - W of each mode beside the continuum
+    continuum, fit, per_q, zone = (), None, None, 0.0
     if table.q_per_a is not None:
         index, distinct, per_q = _q_points(table.q_per_a, lines, src)
         q_weight = np.bincount(index, weights=w) / per_q
+        zone = float(q_weight.sum())
         order = np.lexsort((nu, index))                 # rows by q-point, then frequency
         freqs = nu[order].reshape(-1, per_q)
+        kept = np.ones((distinct.shape[0], per_q))
         if option != "off" and table.cell_volume_a3 is not None:
-            inner, continuum, fit = replace_inner_shell(distinct, freqs, q_weight / q_weight.sum(),
-                                                        table.cell_volume_a3)
-            if fit is not None:
-                acoustic = np.zeros((distinct.shape[0], per_q), bool)
-                acoustic[inner, :3] = True
-                replaced[order[acoustic.ravel()]] = True
+            kept[:, :3], continuum, fit = long_wave_region(distinct, freqs, q_weight / zone, table.cell_volume_a3)
         if fit is None:
-            gamma = np.linalg.norm(distinct, axis=1) <= GAMMA_Q
-            at_gamma = np.zeros((distinct.shape[0], per_q), bool)
-            at_gamma[gamma, :3] = True
-            replaced[order[at_gamma.ravel()]] = True
+            kept[np.linalg.norm(distinct, axis=1) <= GAMMA_Q, :3] = 0.0
+        share_kept[order] = kept.ravel()
     else:
-        replaced = np.abs(nu) < ZERO_MODE_THZ
+        share_kept[np.abs(nu) < ZERO_MODE_THZ] = 0.0
+    replaced = share_kept == 0.0
     n_atoms, inferred = _atoms(explicit, carried, per_q, total_raw, src, chosen_atoms)
     if inferred:
         how = f"{per_q} modes per q-point" if per_q else f"the sum of the weights {total_raw:.6g}"
@@ -141,38 +140,65 @@ def load_mode_list(raw, explicit, carried, chosen):
     if not real.any():
         raise DosInputError("no real (positive-frequency) modes in the list", src)
     real_modes = 3 * n_atoms * (1.0 if policy == "drop" else 1.0 - share)
+    extra_nu, extra_w = fit["dispersion_nodes"] if continuum else (np.zeros(0), np.zeros(0))
+    theta = elastic_theta(option)
+    if theta is None:
+        w_real = w[real] * share_kept[real]
+        in_continuum = zone * (sum(f.analytic_moment() for f in continuum) + float(extra_w.sum()))
+        scale = real_modes / (float(w_real.sum()) + in_continuum)
+        continuum = tuple(f.scaled(scale * zone) for f in continuum)
+        extra_w = extra_w * scale * zone
+    else:       # the elastic law fixes A absolutely; the mesh modes carry the rest
+        law = 9.0 * n_atoms / (theta / H_OVER_K_THZ) ** 3
+        if continuum:
+            factor = law / sum(f.coefficient for f in continuum)
+            continuum, extra_w = tuple(f.scaled(factor) for f in continuum), extra_w * factor
+        else:
+            q_count = total_raw / float(w.min()) / (per_q or 3 * n_atoms)
+            continuum = (anchored_continuum(law, q_count, n_atoms),)
+            share_kept[real] *= 1.0 - continuum[0].taper(nu[real])
+        w_real = w[real] * share_kept[real]
+        scale = (real_modes - sum(f.analytic_moment() for f in continuum) - float(extra_w.sum())) / float(w_real.sum())
+        notes.append(f"long-wave limit anchored by the elastic Debye temperature {theta:g} K"
+                     + ("" if fit is None else f" (the modes near Γ give "
+                        f"{_theta_of(continuum, n_atoms, 3 * n_atoms / per_q / factor):.4g} K)"))
     zero_weight = float(w[replaced].sum())
-    carried_by = float(w[real].sum()) + (zero_weight if continuum else 0.0)
-    scale = real_modes / carried_by
-    if continuum:
-        factor = scale * zero_weight / 3.0
-        continuum = tuple(f.scaled(factor / f.analytic_moment()) for f in continuum)
-    elif zero_weight > 0:
+    if not continuum and zero_weight > 0:
         notes.append(f"{100 * zero_weight / total_raw:.3g} % of the modes are Γ's acoustic modes (frequency 0) "
                      "and were left out; the rest renormalised")
     order = np.argsort(nu[real], kind="stable")
-    freq, weight = nu[real][order], w[real][order] * scale
-    partials = {k: (p[real][order] * weight) for k, p in table.projections.items()}
+    freq, weight = nu[real][order], w_real[order] * scale
+    freq, weight = freq[weight > 0], weight[weight > 0]
+    partials = {k: (p[real][order] * w_real[order] * scale)[w_real[order] > 0] for k, p in table.projections.items()}
     resolved = _resolved(nu, real, replaced, table, continuum)
     if not continuum:
         notes.append(_undetermined_note(resolved, table))
-    modes = ModeList(frequency_thz=freq, weight=weight, partials=partials, continuum=continuum,
+    modes = ModeList(frequency_thz=freq, weight=weight, extra=(extra_nu, extra_w), partials=partials,
+                     continuum=continuum,
                      cell_volume_a3=table.cell_volume_a3, resolved_thz=resolved,
-                     velocities={} if not continuum else {k: fit[k] for k in ("inverse_cube_mean", "points",
-                                                                              "shell_radius_per_A", "dispersion")})
+                     velocities={} if fit is None else {k: fit[k] for k in ("inverse_cube_mean", "points",
+                                                                              "shell_radius_per_A",
+                                                                              "dispersion_corrected")})
     grid, g = _histogram(freq, weight, continuum, real_modes)
     provenance = {
         "name": src, "sha256": raw.sha256, "freq_unit": unit, "stated_unit": table.unit,
         "raw_integral": total_raw, "scale_factor": scale, "negative_mode_fraction": share,
         "negative_policy": policy, "atoms_inferred": inferred, "columns": list(raw.names),
-        "low_frequency_option": option, "kind": "mode list", "modes": int(nu.size),
+        "low_frequency_option": low_frequency_window(option), "kind": "mode list", "modes": int(nu.size),
         "reading_options": chosen.replaced(freq_unit=unit, atoms=n_atoms, sheet=raw.sheet).as_dict(),
     }
     if raw.sheet is not None:
         provenance["sheet"] = raw.sheet
     part_grid = {k: _histogram(freq, p, (), float(p.sum()))[1] for k, p in partials.items()}
     return PhononDOS(frequency_thz=grid, dos=g, atoms=n_atoms, partials=part_grid, low_frequency=None,
-                     source=provenance, warnings=tuple(n for n in notes if n), modes=modes)
+                     source=provenance, warnings=tuple(n for n in notes if n), modes=modes,
+                     input_frequency_thz=grid, input_dos=g, input_partials=dict(part_grid))
+
+
+def _theta_of(continuum, atoms, factor=1.0):
+    """Debye temperature [K] of the continuum's summed A (times ``factor``)."""
+    a = factor * sum(f.coefficient for f in continuum)
+    return float(H_OVER_K_THZ * (9.0 * atoms / a) ** (1 / 3))
 
 
 def _atoms(explicit, carried, per_q, total_raw, src, atom_count):

@@ -99,6 +99,7 @@ def _open(path, mode=None):
     try:
         con.execute(f"PRAGMA busy_timeout = {int(BUSY_SECONDS * 1000)}")
         con.execute("PRAGMA foreign_keys = ON")
+        con.execute("PRAGMA secure_delete = ON")     # deleted rows are overwritten, not left in free pages
         mode_now = con.execute("PRAGMA journal_mode" if mode else "PRAGMA journal_mode = WAL").fetchone()[0]
         if mode is None:
             con.execute("PRAGMA synchronous = NORMAL")

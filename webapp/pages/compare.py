@@ -8,9 +8,8 @@ import plotly.graph_objects as go
 from dash import Input, Output, State, callback, html
 
 from thermo.columns import find
-from thermo.temperatures import temperature_range
 
-from .. import cache, session
+from .. import budget, cache, session
 from .. import components as c
 from .. import figures as fg
 from ..labels import axis_title
@@ -67,12 +66,12 @@ def comparison(workspace, ids, reference, quantity, temperatures, per):
     for k, d in enumerate(chosen):
         x, y = curves[d["id"]]
         colour = fg.PALETTE[k % len(fg.PALETTE)]
-        over.add_trace(go.Scatter(x=x, y=y, mode="lines", name=d["name"], hovertemplate="%{y:.5g}",
+        over.add_trace(go.Scatter(x=x, y=y, mode="lines", name=fg.plot_text(d["name"]), hovertemplate="%{y:.5g}",
                                   line={"width": 2, "color": colour}))
         if d["id"] == ref["id"]:
             continue
         delta = np.interp(x_ref, x, y, left=np.nan, right=np.nan) - y_ref
-        diff.add_trace(go.Scatter(x=x_ref, y=delta, mode="lines", name=d["name"], hovertemplate="%{y:.3g}",
+        diff.add_trace(go.Scatter(x=x_ref, y=delta, mode="lines", name=fg.plot_text(d["name"]), hovertemplate="%{y:.3g}",
                                   line={"width": 2, "color": colour}))
         worst = int(np.nanargmax(np.abs(delta))) if np.any(np.isfinite(delta)) else None
         rows.append(html.Tr([html.Td(d["name"]),
@@ -129,7 +128,7 @@ def _failed(message):
 @reported(_failed)
 def draw(workspace, ids, reference, quantity, t_min, t_max, step, per):
     """Overlay, difference and largest-difference table for the chosen datasets."""
-    temperatures = temperature_range(t_min, t_max, step)
+    temperatures = budget.temperatures(t_min, t_max, step)
     over, diff, table = comparison(workspace or session.empty_workspace(), ids, reference, quantity,
                                    temperatures, per)
     return over, diff, table, []

@@ -9,10 +9,10 @@ from dash import Input, Output, State, callback, html
 
 from thermo import models
 from thermo.columns import find
-from thermo.temperatures import temperature_range
 
-from .. import cache, session
+from .. import budget, cache, session
 from .. import components as c
+from .. import exports, notices
 from .. import figures as fg
 from ..labels import axis_title, theta_label
 from ..reporting import reported
@@ -73,12 +73,12 @@ def figures(dataset, temperatures, per, einstein_key, debye_key, optical_terms, 
     for k, (label, df) in enumerate(tables.items()):
         style = {"width": 3 if label == "DOS" else 2, "color": fg.PALETTE[k % len(fg.PALETTE)],
                  "dash": None if label == "DOS" else ("dash", "dot", "dashdot")[k % 3]}
-        values.add_trace(go.Scatter(x=df[t], y=df[cv], name=label, mode="lines", line=style,
+        values.add_trace(go.Scatter(x=df[t], y=df[cv], name=fg.plot_text(label), mode="lines", line=style,
                                     hovertemplate="%{y:.5g}"))
         if label != "DOS":
             res = models.residual_table(dos_table, df)
             residual.add_trace(go.Scatter(x=res[find(res, "temperature")], y=res[find(res, residual_key)],
-                                          name=label, mode="lines", line=style, hovertemplate="%{y:.3g}"))
+                                          name=fg.plot_text(label), mode="lines", line=style, hovertemplate="%{y:.3g}"))
     residual.add_hline(y=0, line_color="#9aa7b0")
 
     low_t = np.geomspace(1.0, max(2.0, min(float(np.max(temperatures)), 300.0)), 120)
@@ -132,6 +132,7 @@ def layout(**_query):
                   c.graph("mod-residual-graph", "Residuals: model minus DOS result"),
                   c.graph("mod-lowt-graph", "Low-temperature check: C_v/T³ (flat for a Debye solid)"),
                   c.graph("mod-thetad-graph", "Equivalent Debye temperature versus T")], className="mh-grid"),
+        exports.download_bar("mod", "models result", formats=("json", "csv")),
         html.H2("Characteristic temperatures"),
         html.Div(id="mod-theta-table"),
     )
@@ -173,11 +174,31 @@ def draw(workspace, einstein_key, debye_key, optical, t_min, t_max, step, per, r
     if current is None:
         blank = fg.message_figure("no dataset loaded")
         return blank, blank, blank, blank, []
-    temperatures = temperature_range(t_min, t_max, step)
+    temperatures = budget.temperatures(t_min, t_max, step)
+    warnings = [(current["name"], w) for w in cache.load(current).warnings]
     return (*figures(current, temperatures, per, einstein_key, debye_key, optical,
-                     residual_key or "heat_capacity_v"), [])
+                     residual_key or "heat_capacity_v"), notices.warning_items(warnings))
 
 
+def models_download(fmt, workspace, t_min, t_max, step, optical):
+    """The result as ``modeheat models --temperatures T_MIN:T_MAX:STEP --optical-terms K --format FMT`` writes it.
+
+    Fitted θ_E and θ_D (the command's), whatever θ the page draws; K = 1 when the page shows no composite.
+    """
+    from thermo.models.export import models_export
+    current = session.active(workspace)
+    if current is None:
+        return None
+    info, result = models_export(cache.load(current), budget.temperatures(t_min, t_max, step),
+                                 optical_terms=int(optical or 1), fmt=fmt)
+    stem = f"{exports.file_stem(current['name'])}-models"
+    if fmt == "json":
+        return exports.report_file(stem, info, result)
+    return exports.table_file(stem, result, info, fmt)
+
+
+exports.register_download("mod", [State("mh-workspace", "data"), State("mod-tmin", "value"), State("mod-tmax", "value"),
+                                  State("mod-step", "value"), State("mod-optical", "value")], models_download)
 c.follow_active("mod")
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -4,14 +4,14 @@ from __future__ import annotations
 
 import dash
 import numpy as np
-from dash import Input, Output, callback, dcc, html
+from dash import Input, Output, State, callback, dcc, html
 
 from thermo.columns import find
-from thermo.tables import classical_heat_capacity
-from thermo.temperatures import temperature_range
+from thermo.tables import classical_heat_capacity, provenance
 
-from .. import cache, session
+from .. import budget, cache, session
 from .. import components as c
+from .. import exports, notices
 from .. import figures as fg
 from ..labels import axis_title, unit_of
 from ..reporting import reported
@@ -96,6 +96,7 @@ def layout(**_query):
                   c.graph("th-s-graph", "Entropy"),
                   c.graph("th-u-graph", "Internal energy (with zero-point energy)"),
                   c.graph("th-f-graph", "Helmholtz energy (with zero-point energy)")], className="mh-grid"),
+        exports.download_bar("th", "table"),
         html.H2("Table preview"),
         dcc.Loading(html.Div(id="th-table"), type="dot"),
     )
@@ -117,10 +118,25 @@ def draw(workspace, t_min, t_max, step, per, log_t):
     if current is None:
         blank = fg.message_figure("no dataset loaded")
         return blank, blank, blank, blank, [], [], []
-    figs, keys, table = figures(current, temperature_range(t_min, t_max, step), per, bool(log_t))
-    return (*figs, keys, table, [])
+    figs, keys, table = figures(current, budget.temperatures(t_min, t_max, step), per, bool(log_t))
+    warnings = [(current["name"], w) for w in cache.load(current).warnings]
+    return (*figs, keys, table, notices.warning_items(warnings))
 
 
+def table_download(fmt, workspace, t_min, t_max, step, per):
+    """The table as ``modeheat table --temperatures T_MIN:T_MAX:STEP --per PER`` writes it."""
+    current = session.active(workspace)
+    if current is None:
+        return None
+    temperatures = budget.temperatures(t_min, t_max, step)
+    formula = session.options_of(current).get("formula") or None
+    info = provenance(cache.load(current), temperatures, per=per, formula=formula)
+    return exports.table_file(f"{exports.file_stem(current['name'])}-{per}", cache.table(current, temperatures, per),
+                              info, fmt)
+
+
+exports.register_download("th", [State("mh-workspace", "data"), State("th-tmin", "value"), State("th-tmax", "value"),
+                                 State("th-step", "value"), State("th-per", "value")], table_download)
 c.follow_active("th")
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

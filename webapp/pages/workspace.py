@@ -1,4 +1,5 @@
-"""Workspace page: rename, annotate, group and delete datasets (with undo); switch named workspaces."""
+"""Workspace page: rename, annotate, group and delete datasets (with undo); remove deleted files for good;
+switch named workspaces."""
 
 from __future__ import annotations
 
@@ -57,7 +58,10 @@ def layout(**_query):
                         c.text("ws-note", "", "Note"))
     buttons = html.Div([html.Button("Save", id="ws-save", className="mh-button"),
                         html.Button("Delete…", id="ws-delete", className="mh-button"),
-                        html.Button("Undo delete", id="ws-undo", className="mh-button")], className="mh-controls")
+                        html.Button("Undo delete", id="ws-undo", className="mh-button"),
+                        html.Button("Remove deleted files for good", id="ws-purge", className="mh-button",
+                                    title="Deleted datasets can no longer be undone; their bytes leave the "
+                                          "server's file")], className="mh-controls")
     named = html.Div([
         html.H2("Named workspaces"),
         html.P("A named workspace is opened with its key (keep it private: whoever has it sees the datasets). "
@@ -75,6 +79,9 @@ def layout(**_query):
         c.messages_panel("ws-messages"),
         editor, buttons,
         dcc.ConfirmDialog(id="ws-confirm"),
+        dcc.ConfirmDialog(id="ws-purge-confirm", message="Remove the deleted datasets of this workspace for good? "
+                                                         "Undo delete cannot bring them back afterwards."),
+        html.Div(id="ws-purged"),
         dcc.Store(id="ws-trash", storage_type="session", data=[]),
         dcc.Location(id="ws-reload", refresh=True),
         html.Div([html.Div(id="ws-list", className="mh-content"),
@@ -173,6 +180,24 @@ def edit(_save, _confirm, _undo, dataset_id, name, group, note, workspace, trash
     new = session.revised(new)
     kept, _ = session.persistable(new, (config or {}).get("saved_limit_chars", session.SAVED_LIMIT_CHARS))
     return new, kept, trash, c.message_items(notes)
+
+
+@callback(Output("ws-purge-confirm", "displayed"), Input("ws-purge", "n_clicks"), prevent_initial_call=True)
+def ask_purge(_n):
+    """Ask once before removing deleted datasets for good."""
+    return True
+
+
+@callback(Output("ws-purged", "children"), Output("ws-trash", "data", allow_duplicate=True),
+          Input("ws-purge-confirm", "submit_n_clicks"), State("mh-space", "data"), prevent_initial_call=True)
+@reported(lambda message: (c.message_items([("error", message)]), no_update))
+def purge(_confirmed, space):
+    """Remove this workspace's deleted datasets and every byte no dataset references, then compact the file."""
+    if not (space or {}).get("stored"):
+        return c.message_items([("info", "nothing kept on the server: deleted datasets are gone already")]), []
+    done = persistence.purge(dash.get_app().server)
+    return c.message_items([("info", f"removed {done['datasets']} deleted dataset(s) and "
+                                     f"{done['blobs']} unused file(s) for good")]), []
 
 
 @callback(Output("ws-reload", "href"), Output("ws-key-shown", "children"),
