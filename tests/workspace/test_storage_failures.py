@@ -128,5 +128,7 @@ def test_pages_open_on_a_full_or_read_only_disk(server, tmp_path, monkeypatch, f
     assert "theirs.dat" in _layout(returning)                   # an existing space is read as before
     for path in ("/", "/workspace", "/thermodynamics"):
         assert returning.get(path).status_code == 200
-    fresh = _layout(server.test_client())                        # a new browser: the demo, kept in the tab
+    newcomer = server.test_client()                              # a new browser: the demo, kept in the tab
+    assert newcomer.get("/").status_code == 200
+    fresh = _layout(newcomer)
     assert "springium" in fresh and "cannot be used" in fresh and "Traceback" not in fresh

@@ -20,7 +20,7 @@ from ..units import thz_to_unit
 from .imaginary import imaginary_warnings
 from .layers import chosen_atoms, chosen_unit
 from .longwave import GAMMA_Q, anchored_continuum, long_wave_region
-from .options import elastic_theta
+from .options import elastic_theta, low_frequency_window
 from .validation import check_magnitudes, check_mode_count
 
 #: Modes below this |frequency| without a wave vector are taken as Γ's acoustic modes [THz].
@@ -184,7 +184,7 @@ def load_mode_list(raw, explicit, carried, chosen):
         "name": src, "sha256": raw.sha256, "freq_unit": unit, "stated_unit": table.unit,
         "raw_integral": total_raw, "scale_factor": scale, "negative_mode_fraction": share,
         "negative_policy": policy, "atoms_inferred": inferred, "columns": list(raw.names),
-        "low_frequency_option": option, "kind": "mode list", "modes": int(nu.size),
+        "low_frequency_option": low_frequency_window(option), "kind": "mode list", "modes": int(nu.size),
         "reading_options": chosen.replaced(freq_unit=unit, atoms=n_atoms, sheet=raw.sheet).as_dict(),
     }
     if raw.sheet is not None:

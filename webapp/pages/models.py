@@ -12,7 +12,7 @@ from thermo.columns import find
 
 from .. import budget, cache, session
 from .. import components as c
-from .. import exports
+from .. import exports, notices
 from .. import figures as fg
 from ..labels import axis_title, theta_label
 from ..reporting import reported
@@ -175,8 +175,9 @@ def draw(workspace, einstein_key, debye_key, optical, t_min, t_max, step, per, r
         blank = fg.message_figure("no dataset loaded")
         return blank, blank, blank, blank, []
     temperatures = budget.temperatures(t_min, t_max, step)
+    warnings = [(current["name"], w) for w in cache.load(current).warnings]
     return (*figures(current, temperatures, per, einstein_key, debye_key, optical,
-                     residual_key or "heat_capacity_v"), [])
+                     residual_key or "heat_capacity_v"), notices.warning_items(warnings))
 
 
 def models_download(fmt, workspace, t_min, t_max, step, optical):

@@ -20,7 +20,7 @@ from thermo.temperatures import STANDARD_TEMPERATURE, with_standard_temperature
 from .. import budget, cache, filesets, intake, session
 from ..demo import demo_file
 from .. import components as c
-from .. import exports, handoff
+from .. import exports, handoff, notices
 from .. import figures as fg
 from ..labels import PER_CHOICES, axis_title
 from ..reporting import reported
@@ -321,9 +321,8 @@ def draw(record, source, rows, workspace, t_min, t_max, step, pressure, eos, per
                           ("largest EOS rms residual", f"{diag['max_fit_residual_meV']:.3g} meV"),
                           ("rows outside the sampled volumes", str(int(table[find(table, 'outside_volume_range')].sum()))),
                           *[_quoted(table, key) for key in ("volume", "thermal_expansion", "bulk_modulus_T")]])
-    notes = [("warn", w) for w in diag["warnings"]] + [("warn", f"{n}: {w}") for n, d in zip(vs.names, vs.doses)
-                                                       for w in d.warnings if "inferred" not in w]
-    return (*figures(table, curves), keys, c.message_items(notes[:12]))
+    notes = [(None, w) for w in diag["warnings"]] + [(n, w) for n, d in zip(vs.names, vs.doses) for w in d.warnings]
+    return (*figures(table, curves), keys, notices.warning_items(notes))   # each caution once (notices.py)
 
 
 def table_download(fmt, record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula,
