@@ -28,9 +28,9 @@ run: $(VENV)/.installed
 # naming what is missing: the browser tests are never skipped silently.
 test: $(VENV)/.test-installed
 	@if .ci/ensure-browser; then \
-	  $(PY) -m pytest -q --headless -n $(WORKERS); \
+	  $(PY) -m pytest -q --headless -n $(WORKERS) --dist worksteal; \
 	else \
-	  $(PY) -m pytest -q --headless -n $(WORKERS) -m "not browser"; \
+	  $(PY) -m pytest -q --headless -n $(WORKERS) --dist worksteal -m "not browser and not budget"; \
 	  echo "make test: FAILED: the browser tests did not run (Chromium/chromedriver missing, see above)" >&2; exit 1; \
 	fi
 
@@ -55,6 +55,7 @@ demo-data: $(VENV)/.installed  ## regenerate every invented demo file (determini
 	$(PY) sample_dos/volumes/generate_volumes.py
 	$(PY) sample_dos/generate_calorimetry.py
 	$(PY) sample_dos/electronic/generate_electronic.py
+	$(PY) sample_dos/phases/generate_phases.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info .pytest_cache

@@ -21,7 +21,7 @@ WHAT = {
     "p11_navigation_s": "menu click until the new page is loaded, all pages, two rounds [s]",
     "p12_parse_1e6_lines_s": "read_table of a 10⁶-line DOS: slowest of plain, Fortran d exponents, one bad cell (refused) [s]",
     "p13_p95_ms": "20 client threads against gunicorn --workers 2 --threads 8 (page + table callback), p95 [ms]",
-    "p14_provenance_ratio": "provenance of the p1 table (error breakdown recomputed) ÷ the table, interleaved",
+    "p14_provenance_ratio": "provenance of the p1 table (its error breakdown computed once and reused) ÷ the table, interleaved",
     "p15_load_1e6_rows_s": "10⁶-row DOS: load_dos (read, validate, prepare) [s]",
     "p15_table_1e6_rows_1e4_T_s": "10⁶-row DOS: a 10⁴-temperature table [s]",
     "p16_table_1e3_rows_1e4_T_s": "10³-row DOS at 10⁴ temperatures [s]",
@@ -29,4 +29,6 @@ WHAT = {
     "scaling_exponent_rows": "tabulate over rows 10³…10⁶: log-log slope of time along rows",
     "scaling_exponent_temperatures": "tabulate over temperatures 10…10⁴: log-log slope of time along temperatures",
     "scaling_exponent_load_rows": "load_dos over rows 10³…10⁶: log-log slope of time",
+    "p18_worst_peak_rss_mb": "each page callback and command at its documented maximum (docs/limits.md): worst peak RSS above start [MB]",
+    "p18_worst_seconds": "the same cases: worst wall time [s]",
 }

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from .scaling import _text
+from .scaling import UNIT, _text
 from .timing import median_ratio, median_seconds
 
 
@@ -17,7 +17,7 @@ def p17(repeat=7):
     t = np.linspace(1.0, 1000.0, 1000)
     table_s = median_seconds(lambda: tabulate(dos, t), repeat)
     load_s = median_seconds(lambda: load_dos(text), max(3, repeat // 2))
-    same_size = load_dos(_text(12_288))
+    same_size = load_dos(_text(12_288), **UNIT)
     ratio, _, _ = median_ratio(lambda: tabulate(dos, t), lambda: tabulate(same_size, t), repeat)
     return {"p17_modelist_table_ms": 1e3 * table_s,
             "contrast": {"p17_modelist_load_ms": 1e3 * load_s,

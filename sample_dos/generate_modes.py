@@ -24,20 +24,21 @@ HERE = pathlib.Path(__file__).resolve().parent
 LATTICE_A = 3.90
 
 
-def mode_list_text(n, lattice=LATTICE_A):
-    """The mode list of an n³ Γ-centred mesh as file text."""
+def mode_list_text(n, lattice=LATTICE_A, springs=(11.8, 2.1)):
+    """The mode list of an n³ Γ-centred mesh as file text (springs [N/m] of the two neighbour shells)."""
     cell = np.array([[0, 1, 1], [1, 0, 1], [1, 1, 0]], float) * lattice / 2
     recip = 2 * np.pi * np.linalg.inv(cell).T
     f = np.arange(n) / n
     f = f - np.round(f)
     q = np.array(np.meshgrid(f, f, f, indexing="ij")).reshape(3, -1).T @ recip
-    bonds = ([(0, 0, d, 11.8) for d in _fcc_vectors(0.5 * lattice)]
-             + [(0, 0, d, 2.1) for d in _axis_vectors(lattice)])
+    bonds = ([(0, 0, d, springs[0]) for d in _fcc_vectors(0.5 * lattice)]
+             + [(0, 0, d, springs[1]) for d in _axis_vectors(lattice)])
     nu, _ = _frequencies(q, np.array([47.1]), bonds)
     nu = nu.reshape(-1, 3)
     rows = [f"{1 / len(q):.10g} {v:.6f} {qi[0]:.6f} {qi[1]:.6f} {qi[2]:.6f}" for qi, modes in zip(q, nu) for v in modes]
     head = ["# modeheat demo data - INVENTED: monatomic fcc 'springium' (47.1 amu), ball-and-spring model",
-            f"# made-up springs 11.8 and 2.1 N/m, invented lattice constant {lattice} A; {n}^3 Gamma-centred mesh",
+            f"# made-up springs {springs[0]:g} and {springs[1]:g} N/m, invented lattice constant {lattice:g} A; "
+            f"{n}^3 Gamma-centred mesh",
             f"# cell volume: {abs(np.linalg.det(cell)):.6f} A^3",
             "weight frequency_THz qx_per_A qy_per_A qz_per_A"]
     return "\n".join(head + rows) + "\n"

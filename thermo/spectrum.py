@@ -113,6 +113,21 @@ class LowFrequencyFit:
                                          + self.curvature * nc ** (5 + power) / (5 + power)
                                          + self.quartic * nc ** (7 + power) / (7 + power)))
 
+    def prepared_sums(self):
+        """The closed-form kernel sums of the analytic part, prepared on first use and kept.
+
+        Returns
+        -------
+        tuple
+            As :func:`thermo.kernels.nu2.prepared_analytic_part`.
+        """
+        prepared = self.__dict__.get("_prepared_sums")
+        if prepared is None:
+            from .kernels.nu2 import prepared_analytic_part
+            prepared = prepared_analytic_part(self)
+            self.__dict__["_prepared_sums"] = prepared      # beside the frozen fields, not one of them
+        return prepared
+
     def scaled(self, factor):
         """The same fit with the DOS multiplied by ``factor`` [1]."""
         return replace(self, coefficient=self.coefficient * factor, offset=self.offset * factor,

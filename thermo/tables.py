@@ -9,7 +9,8 @@ from scipy import constants as sc
 from .columns import BASES, table_columns
 from .errors import OptionError
 from .formula import formula_unit
-from .accuracy.breakdown import error_breakdown, estimated_relative_error, breakdown_summary
+from .accuracy.breakdown import estimated_relative_error, breakdown_summary
+from .accuracy.reuse import table_breakdown
 from .kernels.sums import ZPE_J_PER_MOL_PER_THZ as _ZPE_J_PER_MOL_PER_THZ
 from .kernels.sums import molar_values as _molar_values
 from .kernels.sums import thermal_sums
@@ -285,7 +286,7 @@ def table_from_sums(sums, temperatures, per="formula", atoms=1, formula=None):
     return df
 
 
-def provenance(dos, temperatures, per="formula", formula=None):
+def provenance(dos, temperatures, per="formula", formula=None, breakdown=None):
     """Provenance record written beside every exported harmonic table.
 
     Parameters
@@ -298,6 +299,10 @@ def provenance(dos, temperatures, per="formula", formula=None):
         Basis of the table.
     formula : str, optional
         Chemical formula, when given.
+    breakdown : pandas.DataFrame, optional
+        The table's :func:`thermo.accuracy.breakdown.error_breakdown`; by default the one kept on
+        the DOS for these temperatures (:func:`thermo.accuracy.reuse.table_breakdown`: computed
+        once, reused by every later provenance, page and row-error call).
 
     Returns
     -------
@@ -319,7 +324,7 @@ def provenance(dos, temperatures, per="formula", formula=None):
     """
     fit = dos.low_frequency
     src = dos.source
-    breakdown = error_breakdown(dos, temperatures)
+    breakdown = table_breakdown(dos, temperatures) if breakdown is None else breakdown
     return provenance_record(
         [dos_input(dos)], {"basis": per, "formula": formula, "temperatures_K": temperature_settings(temperatures)},
         dos.warnings,

@@ -139,3 +139,30 @@ def test_calorimetry_download_equals_calorimetry_command(page, tmp_path, monkeyp
     assert len(page_meta["inputs"]) == 3
     assert page_meta["warnings"] == cli_meta["warnings"] and page_meta["settings"] == cli_meta["settings"]
     no_console_errors(duo)
+
+
+def test_quasiharmonic_cp_sent_to_polynomials_fits_as_the_polynomial_command(page, tmp_path):
+    from webapp.pages.quasiharmonic import _GRAPHS
+    duo, _ = page
+    duo.driver.get(duo.server_url + "/quasiharmonic")
+    wait_drawn(duo.driver, list(_GRAPHS))
+    table = _download(duo, "qh", "csv")
+    duo.find_element("#qh-send-polynomials").click()
+    until(lambda: duo.find_element("#qh-send-polynomials-note").text.startswith("sent "))
+    duo.driver.find_element(By.CSS_SELECTOR, "#qh-send-polynomials-note a[href='/polynomials']").click()
+    until(lambda: duo.driver.execute_script(
+        "const e = document.querySelector('#po-source input[value=sent]'); return e && e.checked;"))
+    box = duo.find_element("#po-tmax")
+    box.clear()
+    box.send_keys("1000\n")           # the quasi-harmonic table ends at 1000 K
+    until(lambda: '"T_max_K": 1000.0' in duo.find_element("#po-block").text)
+    duo.find_element("#po-download-btn").click()
+    target = Path(duo.download_path) / f"{table.stem}-shomate.json"
+    until(lambda: target.exists() and target.stat().st_size > 0)
+    cli = tmp_path / "cli.json"
+    assert main(["polynomial", str(table), "--cp-table", "--range", "298.15:1000", "--output", str(cli)]) == 0
+    ours, theirs = json.loads(target.read_text()), json.loads(cli.read_text())
+    assert [r["coefficients"] for r in ours["ranges"]] == [r["coefficients"] for r in theirs["ranges"]]
+    assert ours["ranges"][0]["coefficients"]["A"] != 0
+    assert ours["provenance"]["inputs"][0]["role"] == theirs["provenance"]["inputs"][0]["role"] == "heat-capacity table"
+    no_console_errors(duo)

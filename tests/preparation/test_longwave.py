@@ -29,7 +29,7 @@ def _errors(crystal, n, gamma=False, **options):
 
 
 @pytest.mark.parametrize("name", CRYSTALS)
-@pytest.mark.parametrize("n, gamma", [(8, False), (8, True), (16, False)])
+@pytest.mark.parametrize("n, gamma", [(8, False), (8, True), (16, False), (16, True)])
 def test_mode_lists_match_the_exact_tables(name, n, gamma):
     _dos, cv, s = _errors(CRYSTALS[name], n, gamma)
     cold = TEMPERATURES <= 20
@@ -112,3 +112,19 @@ def test_an_elastic_anchor_on_a_dos_keeps_its_law_absolute():
     s = tabulate(dos, [3.0]).entropy_J_per_mol_K.to_numpy()[0] / 2
     assert s == pytest.approx(debye_entropy(300.0, 3.0), rel=0.01)
     assert any("resolved limit" in w for w in dos.warnings)
+
+
+def test_mean_square_displacement_of_a_mode_list_is_the_zone_average():
+    # ⟨u²⟩ = Σ_modes (ħ/2Mω) coth(ħω/2k_BT) over the zone (Maradudin et al. 1971, ch. 4), from the
+    # crystal's exact reference nodes (tests/crystal.py), CODATA constants from scipy.constants
+    from thermo.vibration.displacements import mean_square_displacement
+    crystal = cr.BCC
+    t = np.array([20.0, 300.0])
+    nu, w = cr.reference_nodes(crystal)
+    omega = 2 * np.pi * nu * 1e12
+    mass = crystal.mass_amu * sc.atomic_mass
+    x = sc.hbar * omega[:, None] / (sc.k * t[None, :])
+    exact = (w / omega) @ (1 / np.tanh(x / 2)) * sc.hbar / (2 * mass) * 1e20     # Å², 3 branches
+    dos = load_dos(cr.mode_list_text(crystal, 16))
+    got = mean_square_displacement(dos, t, masses={"X": crystal.mass_amu})["X"]["msd"]
+    assert np.allclose(got, exact, rtol=0.005)

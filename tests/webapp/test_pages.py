@@ -7,14 +7,13 @@ scipy.constants, and the thermo command line's own output for exports.
 import base64
 import io
 import json
-import subprocess
-import sys
 
 import numpy as np
 import openpyxl
 import pytest
 from scipy import constants as sc
 
+from tests.clirun import run_main
 from thermo import load_dos, tabulate
 from thermo.columns import column_name, label
 from webapp import cache, intake, session
@@ -135,8 +134,8 @@ def test_thermodynamics_bad_settings_give_message_not_exception(ws):
 
 
 def cli_csv(path, spec, per):
-    run = subprocess.run([sys.executable, "-m", "thermo", "table", str(path), "--temperatures", spec,
-                          "--per", per, "--format", "csv"], capture_output=True, text=True, check=True)
+    run = run_main("table", path, "--temperatures", spec, "--per", per, "--format", "csv")
+    assert run.returncode == 0, run.stderr
     return run.stdout
 
 
@@ -195,11 +194,26 @@ def test_models_and_mode_map_draw_with_demo(demo):
     options = models.choices(demo, None, None)
     assert options[1] and options[3]
     figs = models.draw(demo, options[1], options[3], 1, 0, 400, 10, "formula", "heat_capacity_v")
-    assert figs[-1] == [] and len(figs[0].data) >= 3
+    # only the dataset's own warnings, each once (no error)
+    shown = [m.children for m in figs[-1]]
+    expected = [f"{session.active(demo)['name']}: {w}" for w in cache.load(session.active(demo)).warnings]
+    assert shown == expected and all(m.className.endswith("warn") for m in figs[-1]) and len(figs[0].data) >= 3
     heat, msgs = modemap.draw_map(demo, "heat_capacity_share", 10, 400)
     assert msgs == []
-    z = np.asarray(heat.data[0].z)
-    np.testing.assert_allclose(z.sum(axis=0), 100.0, rtol=1e-6)   # each column is a whole (100 %)
+    share = np.asarray(heat.data[0].customdata)
+    np.testing.assert_allclose(share.sum(axis=0), 100.0, rtol=1e-6)   # each column is a whole (100 %)
+    # the colour is per temperature: every column reaches the top of the scale, the bar says so
+    colour = np.asarray(heat.data[0].z)
+    np.testing.assert_allclose(colour.max(axis=0), 100.0, rtol=1e-12)
+    assert "relative to the largest bin at that T" in heat.data[0].colorbar.title.text
+    # over the page's default range, on the share itself the hottest column would use a small part of the
+    # scale (the issue: "everything above ~50 K looks blank"); per temperature it reaches the top
+    wide, _ = modemap.draw_map(demo, "heat_capacity_share", 2, 1000)
+    wide_share = np.asarray(wide.data[0].customdata)
+    assert wide_share[:, -1].max() < 0.2 * wide_share.max() and np.asarray(wide.data[0].z)[:, -1].max() == 100.0
+    logged, _ = modemap.draw_map(demo, "heat_capacity_share", 10, 400, "log")
+    np.testing.assert_allclose(np.asarray(logged.data[0].z), np.log10(np.maximum(share, 1e-4)), rtol=1e-12)
+    assert logged.data[0].colorbar.title.text.startswith("C_v: log₁₀")
     cum, planck, text = modemap.draw_explorer(demo, np.log10(300.0))
     assert text == "T = 300 K" and np.asarray(cum.data[0].y)[-1] == pytest.approx(100.0, rel=1e-6)
 
@@ -234,7 +248,7 @@ def test_models_page_works_in_every_basis(demo, per):
     assert error is None
     opts = models.choices(ws, None, None)
     values, residual, lowt, thetad, msgs = models.draw(ws, opts[1], opts[3], 1, 0, 600, 20, per, "heat_capacity_v")
-    assert msgs == [] and len(values.data) == 4
+    assert all(m.className.endswith("warn") for m in msgs) and len(values.data) == 4
     expected = cache.table(session.active(ws), np.arange(0.0, 601.0, 20.0), per)[column_name("heat_capacity_v", per)]
     np.testing.assert_array_equal(np.asarray(values.data[0].y), expected.to_numpy())
     # the axis names the schema's quantity and unit (thermo.columns)

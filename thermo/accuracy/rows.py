@@ -10,7 +10,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .breakdown import QUANTITIES, error_breakdown, error_column
+from .breakdown import QUANTITIES, error_column
+from .reuse import table_breakdown
 
 #: Factor from the breakdown's column units to SI (kJ/mol -> J/mol for the energies).
 _TO_SI = {"heat_capacity_v": 1.0, "entropy": 1.0, "internal_energy": 1e3, "helmholtz_energy": 1e3}
@@ -46,6 +47,6 @@ def harmonic_row_errors(dos, temperatures):
     >>> sorted(e), bool(e["entropy"][0] < 1e-3)
     (['entropy', 'heat_capacity_v', 'helmholtz_energy', 'internal_energy'], True)
     """
-    b = error_breakdown(dos, temperatures)
+    b = table_breakdown(dos, temperatures)
     return {key: _TO_SI[key] * (b[error_column(key, "numerical")].to_numpy()
                                 + b[error_column(key, "low_frequency")].to_numpy()) for key in QUANTITIES}

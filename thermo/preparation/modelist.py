@@ -20,7 +20,7 @@ from ..units import thz_to_unit
 from .imaginary import imaginary_warnings
 from .layers import chosen_atoms, chosen_unit
 from .longwave import GAMMA_Q, anchored_continuum, long_wave_region
-from .options import elastic_theta
+from .options import elastic_theta, low_frequency_window
 from .validation import check_magnitudes, check_mode_count
 
 #: Modes below this |frequency| without a wave vector are taken as Γ's acoustic modes [THz].
@@ -73,7 +73,9 @@ def load_mode_list(raw, explicit, carried, chosen):
     Returns
     -------
     PhononDOS
-        With ``modes`` set; ``low_frequency`` None.
+        With ``modes`` set; ``low_frequency`` None; ``frequency_thz``/``dos``
+        and ``input_frequency_thz``/``input_dos`` a histogram of the modes
+        (and the continuum) for plots.
 
     Notes
     -----
@@ -182,14 +184,15 @@ def load_mode_list(raw, explicit, carried, chosen):
         "name": src, "sha256": raw.sha256, "freq_unit": unit, "stated_unit": table.unit,
         "raw_integral": total_raw, "scale_factor": scale, "negative_mode_fraction": share,
         "negative_policy": policy, "atoms_inferred": inferred, "columns": list(raw.names),
-        "low_frequency_option": option, "kind": "mode list", "modes": int(nu.size),
+        "low_frequency_option": low_frequency_window(option), "kind": "mode list", "modes": int(nu.size),
         "reading_options": chosen.replaced(freq_unit=unit, atoms=n_atoms, sheet=raw.sheet).as_dict(),
     }
     if raw.sheet is not None:
         provenance["sheet"] = raw.sheet
     part_grid = {k: _histogram(freq, p, (), float(p.sum()))[1] for k, p in partials.items()}
     return PhononDOS(frequency_thz=grid, dos=g, atoms=n_atoms, partials=part_grid, low_frequency=None,
-                     source=provenance, warnings=tuple(n for n in notes if n), modes=modes)
+                     source=provenance, warnings=tuple(n for n in notes if n), modes=modes,
+                     input_frequency_thz=grid, input_dos=g, input_partials=dict(part_grid))
 
 
 def _theta_of(continuum, atoms, factor=1.0):

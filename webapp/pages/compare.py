@@ -66,12 +66,12 @@ def comparison(workspace, ids, reference, quantity, temperatures, per):
     for k, d in enumerate(chosen):
         x, y = curves[d["id"]]
         colour = fg.PALETTE[k % len(fg.PALETTE)]
-        over.add_trace(go.Scatter(x=x, y=y, mode="lines", name=d["name"], hovertemplate="%{y:.5g}",
+        over.add_trace(go.Scatter(x=x, y=y, mode="lines", name=fg.plot_text(d["name"]), hovertemplate="%{y:.5g}",
                                   line={"width": 2, "color": colour}))
         if d["id"] == ref["id"]:
             continue
         delta = np.interp(x_ref, x, y, left=np.nan, right=np.nan) - y_ref
-        diff.add_trace(go.Scatter(x=x_ref, y=delta, mode="lines", name=d["name"], hovertemplate="%{y:.3g}",
+        diff.add_trace(go.Scatter(x=x_ref, y=delta, mode="lines", name=fg.plot_text(d["name"]), hovertemplate="%{y:.3g}",
                                   line={"width": 2, "color": colour}))
         worst = int(np.nanargmax(np.abs(delta))) if np.any(np.isfinite(delta)) else None
         rows.append(html.Tr([html.Td(d["name"]),

@@ -78,7 +78,7 @@ def preview_figure(dataset, spec, per, keys):
     col = find(df, next(key for key in ALL_VALUES if key in chosen))
     t = find(df, "temperature")
     fig = fg.figure("temperature T [K]", axis_title(col))
-    fig.add_trace(go.Scatter(x=df[t], y=df[col], mode="lines+markers", name=col,
+    fig.add_trace(go.Scatter(x=df[t], y=df[col], mode="lines+markers", name=fg.plot_text(col),
                              marker={"size": 4}, line={"color": fg.PALETTE[0]}, hovertemplate="%{y:.6g}"))
     return fig
 

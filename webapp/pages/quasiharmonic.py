@@ -20,7 +20,7 @@ from thermo.temperatures import STANDARD_TEMPERATURE, with_standard_temperature
 from .. import budget, cache, filesets, intake, session
 from ..demo import demo_file
 from .. import components as c
-from .. import exports
+from .. import exports, handoff, notices
 from .. import figures as fg
 from ..labels import PER_CHOICES, axis_title
 from ..reporting import reported
@@ -223,6 +223,7 @@ def layout(**_query):
                                                "at each temperature")], className="mh-grid"),
         html.H2("Export"),
         exports.download_bar("qh", "quasi-harmonic table"),
+        handoff.send_bar("qh", "the table", ("polynomials",)),
         html.Ul([html.Li(text) for text in CAUTIONS], className="mh-caution"),
     )
 
@@ -320,9 +321,8 @@ def draw(record, source, rows, workspace, t_min, t_max, step, pressure, eos, per
                           ("largest EOS rms residual", f"{diag['max_fit_residual_meV']:.3g} meV"),
                           ("rows outside the sampled volumes", str(int(table[find(table, 'outside_volume_range')].sum()))),
                           *[_quoted(table, key) for key in ("volume", "thermal_expansion", "bulk_modulus_T")]])
-    notes = [("warn", w) for w in diag["warnings"]] + [("warn", f"{n}: {w}") for n, d in zip(vs.names, vs.doses)
-                                                       for w in d.warnings if "inferred" not in w]
-    return (*figures(table, curves), keys, c.message_items(notes[:12]))
+    notes = [(None, w) for w in diag["warnings"]] + [(n, w) for n, d in zip(vs.names, vs.doses) for w in d.warnings]
+    return (*figures(table, curves), keys, notices.warning_items(notes))   # each caution once (notices.py)
 
 
 def table_download(fmt, record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula,
@@ -335,10 +335,13 @@ def table_download(fmt, record, source, rows, workspace, t_min, t_max, step, pre
     return exports.table_file(stem, table, quasiharmonic_provenance(vs, table, temperatures), fmt)
 
 
-exports.register_download("qh", [State("qh-set", "data"), State("qh-source", "value"), State("qh-rows", "data"),
-                                 State("mh-workspace", "data"), State("qh-tmin", "value"), State("qh-tmax", "value"),
-                                 State("qh-step", "value"), State("qh-pressure", "value"), State("qh-eos", "value"),
-                                 State("qh-per", "value"), State("qh-negative", "value"), State("qh-formula", "value"),
-                                 State("qh-tolerance", "value"), State("qh-errors", "value")], table_download)
+_TABLE_STATES = [State("qh-set", "data"), State("qh-source", "value"), State("qh-rows", "data"),
+                 State("mh-workspace", "data"), State("qh-tmin", "value"), State("qh-tmax", "value"),
+                 State("qh-step", "value"), State("qh-pressure", "value"), State("qh-eos", "value"),
+                 State("qh-per", "value"), State("qh-negative", "value"), State("qh-formula", "value"),
+                 State("qh-tolerance", "value"), State("qh-errors", "value")]
+exports.register_download("qh", _TABLE_STATES, table_download)
+for _target in ("polynomials",):      # the CSV the download writes (C_p, S with their errors)
+    handoff.register_send("qh", _target, _TABLE_STATES, lambda *values: table_download("csv", *values), NAME)
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -11,7 +11,7 @@ from thermo.tables import classical_heat_capacity, provenance
 
 from .. import budget, cache, session
 from .. import components as c
-from .. import exports
+from .. import exports, notices
 from .. import figures as fg
 from ..labels import axis_title, unit_of
 from ..reporting import reported
@@ -119,7 +119,8 @@ def draw(workspace, t_min, t_max, step, per, log_t):
         blank = fg.message_figure("no dataset loaded")
         return blank, blank, blank, blank, [], [], []
     figs, keys, table = figures(current, budget.temperatures(t_min, t_max, step), per, bool(log_t))
-    return (*figs, keys, table, [])
+    warnings = [(current["name"], w) for w in cache.load(current).warnings]
+    return (*figs, keys, table, notices.warning_items(warnings))
 
 
 def table_download(fmt, workspace, t_min, t_max, step, per):
