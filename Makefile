@@ -55,6 +55,7 @@ demo-data: $(VENV)/.installed  ## regenerate every invented demo file (determini
 	$(PY) sample_dos/volumes/generate_volumes.py
 	$(PY) sample_dos/generate_calorimetry.py
 	$(PY) sample_dos/electronic/generate_electronic.py
+	$(PY) sample_dos/phases/generate_phases.py
 
 clean:
 	rm -rf $(VENV) build *.egg-info .pytest_cache

@@ -84,6 +84,13 @@ def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspa
     server.config["MODEHEAT_SAVED_LIMIT_CHARS"] = int(saved_limit_chars or session.SAVED_LIMIT_CHARS)
     workspace = workspace if workspace is not None else os.environ.get("MODEHEAT_WORKSPACE") or None
     server.config["MODEHEAT_WORKSPACE"] = str(workspace) if workspace is not None else None
+    if workspace is not None:
+        from thermo.errors import ModeheatError
+        from thermo.workspace.upkeep import retention_days
+        try:
+            retention_days()          # a bad MODEHEAT_SPACE_RETENTION_DAYS stops the start, not a sweep later
+        except ModeheatError as exc:
+            raise ValueError(str(exc)) from None
 
 
 def demo_workspace():

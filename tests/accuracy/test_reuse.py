@@ -76,3 +76,19 @@ def test_old_grids_are_dropped_beyond_the_kept_count(monkeypatch):
     assert len(calls) == reuse.KEEP + 1
     reuse.table_breakdown(dos, [100.0])                       # oldest: dropped, computed again
     assert len(calls) == reuse.KEEP + 2
+
+
+def test_kept_temperatures_are_bounded(monkeypatch):
+    dos = _dos()
+    calls = _counting(monkeypatch)
+    monkeypatch.setattr(reuse, "KEEP_TEMPERATURES", 5)
+    big = np.linspace(10.0, 300.0, 6)                          # over the bound: computed, not kept
+    pd.testing.assert_frame_equal(reuse.table_breakdown(dos, big), error_breakdown(_dos(), big), check_exact=True)
+    reuse.table_breakdown(dos, big)
+    assert len(calls) == 2
+    reuse.table_breakdown(dos, [10.0, 20.0, 30.0])
+    reuse.table_breakdown(dos, [40.0, 50.0, 60.0])            # 6 > 5 kept: the first grid goes
+    reuse.table_breakdown(dos, [40.0, 50.0, 60.0])
+    assert len(calls) == 4
+    reuse.table_breakdown(dos, [10.0, 20.0, 30.0])
+    assert len(calls) == 5

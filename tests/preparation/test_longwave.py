@@ -29,7 +29,7 @@ def _errors(crystal, n, gamma=False, **options):
 
 
 @pytest.mark.parametrize("name", CRYSTALS)
-@pytest.mark.parametrize("n, gamma", [(8, False), (8, True), (16, False)])
+@pytest.mark.parametrize("n, gamma", [(8, False), (8, True), (16, False), (16, True)])
 def test_mode_lists_match_the_exact_tables(name, n, gamma):
     _dos, cv, s = _errors(CRYSTALS[name], n, gamma)
     cold = TEMPERATURES <= 20

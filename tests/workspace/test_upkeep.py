@@ -135,3 +135,13 @@ def test_the_page_action_removes_deleted_bytes_from_the_file(server, tmp_path):
         assert "removed 1 deleted dataset(s)" in str(message) and trash == []
     assert SECRET not in _on_disk(w)
     assert [x.name for x in Workspace(w).browser("purger")[0].datasets()] == ["stays.dat"]
+
+
+def test_a_bad_retention_stops_the_server_start(tmp_path, monkeypatch):
+    monkeypatch.setenv(upkeep.RETENTION_ENV, "soon")
+    try:
+        with pytest.raises(ValueError, match=upkeep.RETENTION_ENV):
+            create_app(workspace=tmp_path / "w.sqlite")
+    finally:
+        monkeypatch.delenv(upkeep.RETENTION_ENV)
+        create_app()

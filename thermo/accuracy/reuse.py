@@ -17,6 +17,9 @@ from .breakdown import error_breakdown
 _HELD = "_error_breakdowns"
 #: Temperature grids kept per DOS (oldest dropped first).
 KEEP = 8
+#: Temperatures kept per DOS over all its grids (a cache that sized the DOS when it stored it does not
+#: see what is added later; about 10 MB at most); a larger grid is computed and not kept.
+KEEP_TEMPERATURES = 30_000
 
 
 def table_breakdown(dos, temperatures):
@@ -48,8 +51,12 @@ def table_breakdown(dos, temperatures):
         return error_breakdown(dos, t)
     kept = held.setdefault(_HELD, {})
     key = t.tobytes()
-    if key not in kept:
-        if len(kept) >= KEEP:
-            kept.pop(next(iter(kept)))
-        kept[key] = error_breakdown(dos, t)
-    return kept[key].copy()
+    if key in kept:
+        return kept[key].copy()
+    fresh = error_breakdown(dos, t)
+    if t.size > KEEP_TEMPERATURES:
+        return fresh
+    while kept and (len(kept) >= KEEP or sum(len(b) for b in kept.values()) + t.size > KEEP_TEMPERATURES):
+        kept.pop(next(iter(kept)))
+    kept[key] = fresh
+    return fresh.copy()
