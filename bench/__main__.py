@@ -1,7 +1,7 @@
 """``python -m bench [--json] [--quick] [--only p1,p3,...]``: measure the figures.
 
 Prints one JSON object (``--json``) or a readable list: the figures
-``p1_ratio_to_exp`` … ``p16_table_1e3_rows_1e4_T_s``, the scaling table (rows ×
+``p1_ratio_to_exp`` … ``p17_modelist_table_ms``, the scaling table (rows ×
 temperatures) with its exponents, contrast figures, the goals and the machine.
 A figure that cannot be measured here is ``null`` with a reason.
 """
@@ -15,7 +15,8 @@ import sys
 
 from .descriptions import WHAT
 
-# Goals of issue 30 where it set them (p1, p2, p7, p9's 41-point run, p14-p16); the scaling exponents are reported.
+# Goals of issue 30 where it set them (p1, p2, p7, p9's 41-point run, p14-p16), p17 of issue 23; the scaling
+# exponents are reported.
 GOALS = {
     "p1_ratio_to_exp": ("<=", 0.10), "p1_agreement": ("<=", 1e-6), "p2_speedup_vs_loop": (">=", 50.0),
     "p2_speedup_vs_quad": ("report", None), "p3_max_rel_error": ("<=", 1e-4),
@@ -29,6 +30,8 @@ GOALS = {
     "p12_parse_1e6_lines_s": ("<=", 2.0), "p13_p95_ms": ("<=", 300.0),
     "p14_provenance_ratio": ("<=", 2.0), "p15_load_1e6_rows_s": ("<=", 0.5),
     "p15_table_1e6_rows_1e4_T_s": ("<=", 0.3), "p16_table_1e3_rows_1e4_T_s": ("<=", 0.02),
+    "p17_modelist_table_ms": ("<=", 50.0), "p19_phases_s": ("<=", 1.0),
+    "p18_worst_peak_rss_mb": ("<=", 1000.0), "p18_worst_seconds": ("<=", 10.0),
     "scaling_exponent_rows": ("report", None), "scaling_exponent_temperatures": ("report", None),
     "scaling_exponent_load_rows": ("report", None),
 }
@@ -45,7 +48,8 @@ def _guarded(name, fn, keys):
 def measure(only=None, quick=False):
     """All requested figures in one dict."""
     load_before = os.getloadavg() if hasattr(os, "getloadavg") else None   # other jobs' load (1, 5, 15 min)
-    from . import calorimetry, dashboard, figures, load, pageload, quasiharmonic, scaling, workspace
+    from . import (calorimetry, dashboard, figures, limits, load, modelist, pageload, phases, quasiharmonic, scaling,
+                   workspace)
     from .timing import machine
     plan = [
         ("p1", lambda: figures.p1_p2(repeat=7 if quick else 15, quad_temperatures=5 if quick else 25),
@@ -66,6 +70,10 @@ def measure(only=None, quick=False):
         ("p14", lambda: scaling.p14(repeat=3 if quick else 9), ("p14_provenance_ratio",)),
         ("p15", lambda: scaling.p15_p16(repeat=1 if quick else 3),
          ("p15_load_1e6_rows_s", "p15_table_1e6_rows_1e4_T_s", "p16_table_1e3_rows_1e4_T_s")),
+        ("p17", lambda: modelist.p17(repeat=3 if quick else 7), ("p17_modelist_table_ms",)),
+        ("p19", lambda: phases.p19(repeat=1 if quick else 3), ("p19_phases_s",)),
+        ("p18", lambda: limits.p18(limits.PAGE_CASES if quick else limits.CASES),
+         ("p18_worst_peak_rss_mb", "p18_worst_seconds", "p18_cases")),
         ("scaling", lambda: scaling.scaling(quick),
          ("scaling_exponent_rows", "scaling_exponent_temperatures", "scaling_exponent_load_rows")),
     ]

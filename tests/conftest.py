@@ -32,3 +32,9 @@ def _mpmath_precision_is_restored():
     saved = mpmath.mp.dps
     yield
     mpmath.mp.dps = saved
+
+
+def pytest_collection_modifyitems(config, items):
+    """Long runs (marker ``slow``) first: on several workers (``make test``: ``-n 2 --dist worksteal``)
+    a long test started last would leave the other worker idle at the end."""
+    items.sort(key=lambda item: item.get_closest_marker("slow") is None)

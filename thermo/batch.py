@@ -32,8 +32,7 @@ INDEX_COLUMNS = ("input", "status", "output", "atoms", "negative_mode_fraction",
                  "heat_capacity_v_298K_J_per_mol_K", "heat_capacity_v_298K_error_J_per_mol_K",
                  "entropy_298K_J_per_mol_K", "entropy_298K_error_J_per_mol_K",
                  "low_frequency_debye_temperature_K", "estimated_relative_error", "warnings", "error")
-#: Key numbers of each file in the index: C_v and S at this temperature [K] (per mole of formula units).
-INDEX_TEMPERATURE = 298.15
+INDEX_TEMPERATURE = 298.15    #: C_v and S of each file in the index at this temperature [K], per mole of formula units
 #: File name patterns taken from a directory by default (known DOS file kinds).
 KNOWN_PATTERNS = ("*.dat", "*.txt", "*.csv", "*.tsv", "*.dos", "*.xlsx")
 
@@ -246,7 +245,7 @@ def process_file(source, target, options):
 
 
 def file_list(path):
-    """The files of a file list and the reading options of each (``batch --file-list``).
+    r"""The files of a file list and the reading options of each (``batch --file-list``).
 
     Parameters
     ----------

@@ -113,6 +113,21 @@ class LowFrequencyFit:
                                          + self.curvature * nc ** (5 + power) / (5 + power)
                                          + self.quartic * nc ** (7 + power) / (7 + power)))
 
+    def prepared_sums(self):
+        """The closed-form kernel sums of the analytic part, prepared on first use and kept.
+
+        Returns
+        -------
+        tuple
+            As :func:`thermo.kernels.nu2.prepared_analytic_part`.
+        """
+        prepared = self.__dict__.get("_prepared_sums")
+        if prepared is None:
+            from .kernels.nu2 import prepared_analytic_part
+            prepared = prepared_analytic_part(self)
+            self.__dict__["_prepared_sums"] = prepared      # beside the frozen fields, not one of them
+        return prepared
+
     def scaled(self, factor):
         """The same fit with the DOS multiplied by ``factor`` [1]."""
         return replace(self, coefficient=self.coefficient * factor, offset=self.offset * factor,
@@ -181,6 +196,20 @@ class ModeList:
         nodes, modes = self.extra
         return float(np.sum(self.weight * self.frequency_thz ** power) + np.sum(modes * nodes ** power)) + sum(
             f.analytic_moment(power) for f in self.continuum)
+
+    def summary(self) -> dict:
+        """What the list holds, for provenance: modes, continuum, velocities, resolved limit.
+
+        Examples
+        --------
+        >>> ModeList(np.array([1.0, 2.0]), np.array([1.5, 1.5])).summary()["modes"]
+        2
+        """
+        return {"modes": int(self.frequency_thz.size), "elastic_continuum": bool(self.continuum),
+                "continuum_modes": float(sum(f.analytic_moment() for f in self.continuum) + np.sum(self.extra[1])),
+                "resolved_THz": float(self.resolved_thz), "cell_volume_A3": self.cell_volume_a3,
+                "inverse_cube_speed_mean_per_A3_THz3": self.velocities.get("inverse_cube_mean"),
+                "dispersion_corrected": self.velocities.get("dispersion_corrected")}
 
     def continuum_debye_temperature_k(self, atoms) -> float | None:
         r"""Debye temperature of the continuum's summed :math:`A = \sum_j A_j` [K], or None."""

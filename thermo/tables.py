@@ -9,8 +9,9 @@ from scipy import constants as sc
 from .columns import BASES, table_columns
 from .errors import OptionError
 from .formula import formula_unit
-from .accuracy.breakdown import error_breakdown, estimated_relative_error, breakdown_summary
+from .accuracy.breakdown import estimated_relative_error, breakdown_summary
 from .accuracy.resolution import analyse_resolution, resolution_note
+from .accuracy.reuse import table_breakdown
 from .kernels.sums import ZPE_J_PER_MOL_PER_THZ as _ZPE_J_PER_MOL_PER_THZ
 from .kernels.sums import molar_values as _molar_values
 from .kernels.sums import thermal_sums
@@ -286,7 +287,7 @@ def table_from_sums(sums, temperatures, per="formula", atoms=1, formula=None):
     return df
 
 
-def provenance(dos, temperatures, per="formula", formula=None):
+def provenance(dos, temperatures, per="formula", formula=None, breakdown=None):
     """Provenance record written beside every exported harmonic table.
 
     Parameters
@@ -299,6 +300,10 @@ def provenance(dos, temperatures, per="formula", formula=None):
         Basis of the table.
     formula : str, optional
         Chemical formula, when given.
+    breakdown : pandas.DataFrame, optional
+        The table's :func:`thermo.accuracy.breakdown.error_breakdown`; by default the one kept on
+        the DOS for these temperatures (:func:`thermo.accuracy.reuse.table_breakdown`: computed
+        once, reused by every later provenance, page and row-error call).
 
     Returns
     -------
@@ -320,7 +325,7 @@ def provenance(dos, temperatures, per="formula", formula=None):
     """
     fit = dos.low_frequency
     src = dos.source
-    breakdown = error_breakdown(dos, temperatures)
+    breakdown = table_breakdown(dos, temperatures) if breakdown is None else breakdown
     note = resolution_note(analyse_resolution(dos), temperatures)
     return provenance_record(
         [dos_input(dos)], {"basis": per, "formula": formula, "temperatures_K": temperature_settings(temperatures)},
@@ -336,6 +341,7 @@ def provenance(dos, temperatures, per="formula", formula=None):
             "rms_relative_misfit": fit.rms_relative_residual, "blend_top_THz": fit.blend_top_thz,
             "species_shares": dict(fit.species_shares)},
         low_frequency_debye_temperature_K=dos.low_frequency_debye_temperature_k(),
+        **({} if dos.modes is None else {"mode_list": dos.modes.summary()}),
         estimated_relative_error=estimated_relative_error(dos, temperatures, breakdown),
         error_breakdown=breakdown_summary(breakdown),
         zero_point_energy_kJ_per_mol=zero_point_energy(dos) / 1e3,

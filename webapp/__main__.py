@@ -25,6 +25,9 @@ def serve(args) -> int:
     if args.host not in ("127.0.0.1", "localhost", "::1"):
         print(f"warning: serving on {args.host} makes the dashboard reachable from other machines; "
               "it has no login", file=sys.stderr)
+    if args.host in ("0.0.0.0", "::") and not os.environ.get("MODEHEAT_ALLOWED_HOSTS"):
+        print("note: only requests naming localhost, 127.0.0.1 or [::1] are answered; list the names "
+              "others use in MODEHEAT_ALLOWED_HOSTS (comma-separated)", file=sys.stderr)
     from thermo.errors import ModeheatError
     from thermo.workspace import Workspace, default_path
     from .app import create_app
@@ -36,7 +39,11 @@ def serve(args) -> int:
             print(f"error: {exc}", file=sys.stderr)
             return 2
         print(f"workspace: {path}", file=sys.stderr)
-    app = create_app(workspace=path)
+    try:
+        app = create_app(workspace=path, bound_host=args.host)
+    except ValueError as exc:
+        print(f"error: {exc}", file=sys.stderr)
+        return 2
     app.run(host=args.host, port=args.port, debug=args.debug)
     return 0
 

@@ -30,7 +30,7 @@ def _set_up_before_serving():
 _set_up_before_serving()
 
 
-def create_app(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspace=None):
+def create_app(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspace=None, bound_host=None):
     """Configure the dashboard and return it.
 
     Parameters
@@ -46,6 +46,9 @@ def create_app(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, worksp
         SQLite workspace file (:mod:`thermo.workspace`) keeping every
         browser's datasets across reloads and restarts; None keeps them in
         the browser tab only.
+    bound_host : str, optional
+        The address the server listens on: allowed in the ``Host`` header besides loopback and
+        ``MODEHEAT_ALLOWED_HOSTS`` (:mod:`webapp.hosts`).
     """
-    configure(max_upload_mb, demo_dir, saved_limit_chars, workspace)
+    configure(max_upload_mb, demo_dir, saved_limit_chars, workspace, bound_host)
     return app

@@ -2,8 +2,12 @@
 
 from __future__ import annotations
 
+import html
+
 import numpy as np
 import plotly.graph_objects as go
+
+from thermo.io.inert import inert_text
 
 from thermo.preparation.lowfreq import reduced_dos
 
@@ -37,8 +41,26 @@ def figure(x_title, y_title, title=None, height=360):
         "xaxis": _axis(x_title), "yaxis": _axis(y_title)})
 
 
+def plot_text(text) -> str:
+    """Text from users (dataset, column and species names, messages quoting them) made inert for plotly.
+
+    Plotly renders a subset of HTML in trace names, annotations and titles (``<b>``, ``<span
+    style=...>``, ``<a href=...>``, ``<br>``); ``<``, ``>`` and ``&`` are written as entities, which
+    plotly shows as the characters themselves, and control characters and bidirectional overrides
+    (a right-to-left override reverses the rest of a legend entry) as visible escapes
+    (:func:`thermo.io.inert.inert_text`).
+
+    Examples
+    --------
+    >>> plot_text("<b>Si</b> & Ge")
+    '&lt;b&gt;Si&lt;/b&gt; &amp; Ge'
+    """
+    return html.escape(inert_text(text), quote=False)
+
+
 def message_figure(text, height=360):
-    """A blank figure that states why there is nothing to plot."""
+    """A blank figure that states why there is nothing to plot (``text`` shown as plain text)."""
+    text = plot_text(text)
     return go.Figure(layout=dict(template={}, height=height, xaxis={"visible": False}, paper_bgcolor="white",
                       plot_bgcolor="white", yaxis={"visible": False}, margin={"l": 10, "r": 10, "t": 10, "b": 10},
                       annotations=[{"text": text, "showarrow": False, "xref": "paper", "yref": "paper",
@@ -60,7 +82,7 @@ def dos_figure(dos):
                              line={"width": 2, "color": PALETTE[0]},
                              hovertemplate="%{y:.4g}"))
     for k, (name, col) in enumerate(dos.input_partials.items()):
-        fig.add_trace(go.Scatter(x=nu, y=col, name=f"partial: {name}", mode="lines",
+        fig.add_trace(go.Scatter(x=nu, y=col, name=f"partial: {plot_text(name)}", mode="lines",
                                  line={"width": 1.4, "color": PALETTE[(k + 1) % len(PALETTE)]},
                                  hovertemplate="%{y:.4g}"))
     fit = dos.low_frequency
@@ -126,7 +148,8 @@ def reduced_figure(dos):
 
 
 def band(x, low, high, name, k=0, opacity=0.22):
-    """A filled band between ``low`` and ``high`` (value ± uncertainty) in palette colour ``k``.
+    """A filled band between ``low`` and ``high`` (value ± uncertainty) in palette colour ``k``
+    (``name`` shown as plain text: :func:`plot_text`).
 
     Rows where either edge is not finite are left out (the band has gaps there, never a made-up edge).
     """
@@ -135,11 +158,11 @@ def band(x, low, high, name, k=0, opacity=0.22):
     x, low, high = x[keep], low[keep], high[keep]
     colour = PALETTE[k % len(PALETTE)]
     return go.Scatter(x=np.concatenate([x, x[::-1]]), y=np.concatenate([high, low[::-1]]), fill="toself",
-                      mode="lines", line={"width": 0, "color": colour}, opacity=opacity, name=name,
+                      mode="lines", line={"width": 0, "color": colour}, opacity=opacity, name=plot_text(name),
                       hoverinfo="skip")
 
 
 def line(x, y, name, k=0, width=2.2, dash=None, hover="%{y:.5g}", **extra):
-    """A line trace in palette colour ``k``."""
-    return go.Scatter(x=x, y=y, mode="lines", name=name, hovertemplate=hover,
+    """A line trace in palette colour ``k`` (``name`` shown as plain text: :func:`plot_text`)."""
+    return go.Scatter(x=x, y=y, mode="lines", name=plot_text(name), hovertemplate=hover,
                       line={"width": width, "color": PALETTE[k % len(PALETTE)], "dash": dash}, **extra)

@@ -60,6 +60,13 @@ def reopen(kind, name):
     return files
 
 
+def contents(name):
+    """``[(role, name, bytes), ...]`` of the kept set ``name``, without making it the open one ([] without a file)."""
+    if not enabled():
+        return []
+    return stored.set_contents(_space(), name)
+
+
 def last(kind):
     """``(name, files)`` of the set of ``kind`` opened last, or ``(None, None)`` (none, or no workspace file)."""
     if not enabled():

@@ -11,7 +11,7 @@ from thermo.formula import formula_unit
 from thermo.preparation.loading import load_dos
 from thermo.preparation.options import FIELDS, ReadingOptions
 
-from . import cache, session
+from . import budget, cache, session
 from .reporting import attempt, one_line
 
 #: Default per-file upload limit [MB].
@@ -36,20 +36,33 @@ class UploadRefused(ModeheatError):
     """An upload that never reached :mod:`thermo` (size limit, bad encoding)."""
 
 
+def upload_limit() -> int:
+    """Per-file upload limit [bytes] of the running server (its settings, never the browser's)."""
+    return int(budget.setting("MODEHEAT_MAX_UPLOAD_BYTES"))
+
+
+def decoded_size(contents) -> int:
+    """Bytes [bytes] a base64 data URL decodes to, from its length alone."""
+    data = str(contents or "").partition(",")[2]
+    return len(data) * 3 // 4 - data[-2:].count("=")
+
+
 def decode_upload(contents: str, name: str, max_bytes: int | None = None) -> bytes:
     """Bytes of a ``dcc.Upload`` data URL (``data:<type>;base64,<data>``).
 
-    With ``max_bytes`` [bytes] the decoded size is checked from the length of
-    the base64 text before anything is decoded.
+    The decoded size is checked from the length of the base64 text before
+    anything is decoded, against ``max_bytes`` [bytes] when given and always
+    against the server's upload limit (:func:`upload_limit`).
     """
     head, sep, data = str(contents or "").partition(",")
     if not sep or ";base64" not in head:
         raise UploadRefused(f"{name}: the upload did not arrive as a base64 data URL")
-    if max_bytes is not None:
-        size = len(data) * 3 // 4 - data[-2:].count("=")
-        if size > max_bytes:
-            raise UploadRefused(f"{name}: the file is {size / 1e6:.1f} MB; "
-                                f"the upload limit is {max_bytes / 1e6:g} MB")
+    limit = upload_limit()
+    max_bytes = limit if max_bytes is None else min(int(max_bytes), limit)
+    size = len(data) * 3 // 4 - data[-2:].count("=")
+    if size > max_bytes:
+        raise UploadRefused(f"{name}: the file is {size / 1e6:.1f} MB; "
+                            f"the upload limit is {max_bytes / 1e6:g} MB")
     try:
         return base64.b64decode(data, validate=True)
     except binascii.Error:
@@ -84,6 +97,11 @@ def _checked_dataset(workspace, contents, name, max_bytes, options=None):
     (:func:`thermo.load_dos` ``fallback``); the dataset keeps only the options
     that were used for it, so a re-read gives the same spectrum.
     """
+    with budget.holding(decoded_size(contents), name):
+        return _read_upload(workspace, contents, name, max_bytes, options)
+
+
+def _read_upload(workspace, contents, name, max_bytes, options):
     raw = decode_upload(contents, name, max_bytes)
     if len(raw) > max_bytes:
         raise UploadRefused(f"{name}: the file is {len(raw) / 1e6:.1f} MB; "
@@ -195,6 +213,7 @@ def electronic_dos(stored, max_bytes=None):
     from thermo.electronic import load_electronic_dos
 
     options = electronic_options(stored.get("fields"))
-    raw = decode_upload(stored["contents"], stored["name"], max_bytes)
-    key = ("electronic", hashlib.sha256(raw).hexdigest(), stored["name"], tuple(sorted(options.items())))
-    return cache.result(key, lambda: load_electronic_dos(raw, name=stored["name"], **options))
+    with budget.holding(decoded_size(stored["contents"]), stored["name"]):
+        raw = decode_upload(stored["contents"], stored["name"], max_bytes)
+        key = ("electronic", hashlib.sha256(raw).hexdigest(), stored["name"], tuple(sorted(options.items())))
+        return cache.result(key, lambda: load_electronic_dos(raw, name=stored["name"], **options))

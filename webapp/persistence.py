@@ -14,6 +14,7 @@ import secrets
 
 import flask
 
+from thermo.errors import WorkspaceError
 from thermo.workspace import Workspace
 from thermo.workspace.schema import utc_now
 
@@ -67,8 +68,26 @@ def store(server):
     return Workspace(server.config["MODEHEAT_WORKSPACE"])
 
 
+#: Said when a request carries no space cookie (cookies off, or a client that never keeps them).
+NO_COOKIE = "this browser sends no workspace cookie (cookies off?), so nothing is kept on the server"
+
+
+def sends_cookie() -> bool:
+    """True when the request carries the space cookie: only such a browser gets a space in the file
+    (a client that never sends it back would create a new, unreachable space on every request)."""
+    return bool(flask.request.cookies.get(COOKIE))
+
+
 def current_space(server, demo=None):
-    """The space of the browser making this request (new ones get the demo datasets, once)."""
+    """The space of the browser making this request (new ones get the demo datasets, once).
+
+    Raises
+    ------
+    WorkspaceError
+        The request carries no space cookie (:data:`NO_COOKIE`): no space is created for it.
+    """
+    if not sends_cookie():
+        raise WorkspaceError(NO_COOKIE)
     space, new = store(server).browser(_key())
     if new and demo is not None:
         for d in demo().get("datasets", []):

@@ -1,4 +1,4 @@
-"""Errors become one-line messages: the wrapper every callback uses, and per-item attempts."""
+"""Errors become one-line messages: the wrapper every callback uses, per-item attempts, the request guard."""
 
 from __future__ import annotations
 
@@ -47,3 +47,25 @@ def reported(fallback):
             return fallback(message) if message is not None else value
         return wrapper
     return decorate
+
+
+#: The path Dash posts callback requests to.
+CALLBACK_PATH = "/_dash-update-component"
+
+
+def install_guard(server):
+    """The shared guard: a callback request that still raises (a forged value the page never sends:
+    a slider at ``'abc'``, a store replaced by a string) is answered 400 with one line, never 500 with
+    a traceback; the traceback goes to the server log.  HTTP errors (400, 413, ...) pass unchanged."""
+    import flask
+    from werkzeug.exceptions import HTTPException
+
+    @server.errorhandler(Exception)
+    def _one_line(exc):
+        if isinstance(exc, HTTPException):
+            return exc
+        log.error("request %s failed", flask.request.path, exc_info=exc)
+        status = 400 if flask.request.path.endswith(CALLBACK_PATH) else 500
+        what = "refused: a value this page never sends" if status == 400 else "the server could not answer"
+        return flask.Response(f"{what} ({type(exc).__name__})\n", status=status,
+                              mimetype="text/plain")

@@ -10,7 +10,9 @@ Settings live in the Flask config (``MODEHEAT_*`` keys), set by
 The request-body limit (Flask ``MAX_CONTENT_LENGTH``) follows from the same
 upload setting (:func:`webapp.intake.request_limit`): an oversize request is
 refused with HTTP 413 from its ``Content-Length`` (or, streamed, as soon as the
-limit is passed) before its body is read.  Every response carries the
+limit is passed) before its body is read; a JSON body nested too deep or holding too many
+objects is refused with HTTP 400 before it is parsed, and page requests are held to the
+budgets of :mod:`webapp.budget`.  Every response carries the
 security headers of :func:`security_headers`.
 """
 
@@ -23,8 +25,8 @@ import re
 import dash
 from dash import ALL, ClientsideFunction, Dash, Input, Output, State, dcc, html, no_update
 
-from . import components, demo, intake, persistence, session
-from .reporting import attempt
+from . import budget, components, demo, handoff, hosts, intake, persistence, session
+from .reporting import attempt, install_guard
 
 ASSETS = os.path.join(os.path.dirname(__file__), "assets")
 #: The plotting library's cartesian bundle (scatter, heatmap and the other 2-D traces: 1.5 MB instead of
@@ -65,9 +67,11 @@ _DEMO = {}
 _CSP = {}
 
 
-def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspace=None):
+def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspace=None, bound_host=None):
     """Set the server's settings (upload limit [MB], demo folder, session-storage limit [characters],
-    workspace file: None keeps the workspace in the browser only)."""
+    workspace file: None keeps the workspace in the browser only; the host bound to, allowed in ``Host``
+    besides loopback and ``MODEHEAT_ALLOWED_HOSTS``; trusted proxies: :mod:`webapp.hosts`)."""
+    hosts.configure(server, bound_host)
     if max_upload_mb is None:
         max_upload_mb = float(os.environ.get("MODEHEAT_MAX_UPLOAD_MB", intake.DEFAULT_MAX_UPLOAD_MB))
     upload_bytes = int(float(max_upload_mb) * 1e6)
@@ -75,10 +79,18 @@ def configure(max_upload_mb=None, demo_dir=None, saved_limit_chars=None, workspa
         raise ValueError(f"the upload limit must be > 0 MB, not {max_upload_mb!r}")
     server.config["MODEHEAT_MAX_UPLOAD_BYTES"] = upload_bytes
     server.config["MAX_CONTENT_LENGTH"] = intake.request_limit(upload_bytes)
+    budget.configure(server.config, upload_bytes)
     server.config["MODEHEAT_DEMO_DIR"] = str(demo_dir) if demo_dir is not None else None
     server.config["MODEHEAT_SAVED_LIMIT_CHARS"] = int(saved_limit_chars or session.SAVED_LIMIT_CHARS)
     workspace = workspace if workspace is not None else os.environ.get("MODEHEAT_WORKSPACE") or None
     server.config["MODEHEAT_WORKSPACE"] = str(workspace) if workspace is not None else None
+    if workspace is not None:
+        from thermo.errors import ModeheatError
+        from thermo.workspace.upkeep import retention_days
+        try:
+            retention_days()          # a bad MODEHEAT_SPACE_RETENTION_DAYS stops the start, not a sweep later
+        except ModeheatError as exc:
+            raise ValueError(str(exc)) from None
 
 
 def demo_workspace():
@@ -122,25 +134,34 @@ def _pages():
 
 def shell():
     """The layout common to all pages (evaluated on every page load)."""
-    stored = persistence.enabled(server)
+    stored, note = persistence.enabled(server), ""
+    workspace = None
+    if stored and not persistence.sends_cookie():        # no space for a client that never keeps the cookie
+        stored, note = False, "This browser sends no cookie: its datasets are kept in this tab only."
+    if stored:   # a full or read-only disk: the page still opens, with the demo kept in the tab only
+        workspace, error = attempt(lambda: persistence.browser_workspace(
+            persistence.current_space(server, demo_workspace)))
+        if error:
+            stored, note = False, (f"The workspace file cannot be used ({error}); this tab keeps its "
+                                   "datasets only until it is closed.")
     nav = [dcc.Link(p["name"], href=p["path"], className="mh-nav-link",
                     id={"type": "mh-nav", "path": p["path"]}) for p in _pages()]
     return html.Div([
         dcc.Location(id="mh-url", refresh=False),
-        dcc.Store(id="mh-workspace", storage_type="memory", data=(persistence.browser_workspace(
-            persistence.current_space(server, demo_workspace)) if stored else demo_workspace())),
+        dcc.Store(id="mh-workspace", storage_type="memory", data=workspace if stored else demo_workspace()),
         dcc.Store(id="mh-space", data={"stored": stored, "loaded": persistence.loaded_stamp()}),
         dcc.Store(id="mh-synced"),
         dcc.Store(id="mh-saved", storage_type="session"),
         dcc.Store(id="mh-prefs", storage_type="session", data={"image_format": "png"}),
-        dcc.Store(id="mh-electronic", storage_type="session"),   # the electronic DOS chosen (Electronic, Calorimetry)
+        dcc.Store(id="mh-electronic", storage_type="session"),
+        handoff.store(),                                          # results sent on to another page (handoff.py)   # the electronic DOS chosen (Electronic, Calorimetry)
         dcc.Store(id="mh-config", data={"max_upload_bytes": server.config["MODEHEAT_MAX_UPLOAD_BYTES"],
                                         "saved_limit_chars": None if stored else server.config["MODEHEAT_SAVED_LIMIT_CHARS"]}),
         html.Header([html.Div([html.Span("mode", className="mh-brand-a"), html.Span("heat", className="mh-brand-b")],
                               className="mh-brand"),
                      html.Nav(nav, className="mh-nav", **{"aria-label": "pages"})], className="mh-header"),
         html.Main(dash.page_container, id="mh-page", className="mh-main"),
-        html.P(id="mh-sync-note", className="mh-msg mh-msg-error", role="alert"),
+        html.P(note, id="mh-sync-note", className="mh-msg mh-msg-error", role="alert"),
         html.Footer([html.Strong("Caution. "), components.CAUTION], className="mh-footer", id="mh-caution"),
     ], className="mh-shell")
 
@@ -163,7 +184,10 @@ def keep(workspace, space):
 
 
 configure()
+hosts.install(server)
+install_guard(server)
 persistence.install(server)
+budget.install(server)
 server.after_request(security_headers)
 app.layout = shell
 app.callback(Output("mh-workspace", "data", allow_duplicate=True), Input("mh-saved", "data"),

@@ -35,12 +35,17 @@ def page(dash_duo, tmp_path):
     return dash_duo, good
 
 
-def _download(duo, prefix, fmt, name):
+def _download(duo, prefix, fmt, name=None):
+    """Click the page's download in ``fmt``; the file (``name``, else the one the note names) once written."""
     duo.driver.find_element(By.CSS_SELECTOR, f"#{prefix}-dl-format input[value='{fmt}']").click()
     duo.find_element(f"#{prefix}-dl-btn").click()
-    target = Path(duo.download_path) / name
-    until(lambda: target.exists() and target.stat().st_size > 0 and duo.find_element(f"#{prefix}-dl-note").text
-          == f"prepared {name}")
+    def prepared():
+        text = duo.find_element(f"#{prefix}-dl-note").text
+        return text.startswith("prepared ") and text.endswith(f".{fmt}") and text
+    shown = until(prepared)[len("prepared "):]
+    assert name is None or shown == name
+    target = Path(duo.download_path) / shown
+    until(lambda: target.exists() and target.stat().st_size > 0)
     return target
 
 
@@ -89,4 +94,75 @@ def test_models_download_equals_models_command(page, tmp_path):
     assert list(ours_t.columns) == list(theirs_t.columns)
     np.testing.assert_array_equal(ours_t.to_numpy(), theirs_t.to_numpy())
     assert meta["debye_theta_K"] == cli_meta["debye_theta_K"]
+    no_console_errors(duo)
+
+
+def test_quasiharmonic_download_equals_quasiharmonic_command(page, tmp_path):
+    from webapp.pages.quasiharmonic import _GRAPHS, DEMO_MANIFEST
+    duo, _ = page
+    duo.driver.get(duo.server_url + "/quasiharmonic")
+    wait_drawn(duo.driver, list(_GRAPHS))
+    target = _download(duo, "qh", "csv")
+    cli = tmp_path / "cli.csv"
+    # the page's default grid (0 to 1000 K every 10 K with 298.15 K) is the command's default
+    assert main(["quasiharmonic", str(DEMO_MANIFEST), "--errors", "--output", str(cli)]) == 0
+    ours, meta = read_exported_csv(target)
+    theirs, cli_meta = read_exported_csv(cli)
+    assert list(ours.columns) == list(theirs.columns) and 298.15 in ours["temperature_K"].to_numpy()
+    np.testing.assert_array_equal(ours.select_dtypes("number").to_numpy(), theirs.select_dtypes("number").to_numpy())
+    assert [i["sha256"] for i in meta["inputs"]] == [i["sha256"] for i in cli_meta["inputs"]]
+    assert meta["settings"] == cli_meta["settings"]
+    no_console_errors(duo)
+
+
+def test_calorimetry_download_equals_calorimetry_command(page, tmp_path, monkeypatch):
+    import shutil
+
+    from webapp.pages.calorimetry import _GRAPHS, DEMO_DOS, DEMO_FILE
+    from webapp.demo import demo_file
+    duo, _ = page
+    duo.driver.get(duo.server_url + "/calorimetry")
+    wait_drawn(duo.driver, list(_GRAPHS))
+    until(lambda: "electronic" in (duo.driver.execute_script(
+        "return Array.from(document.querySelectorAll('#cal-terms input:checked')).map(e => e.value);") or []))
+    target = _download(duo, "cal", "json")
+    # the same files under the names the page shows, so the notes naming them read the same
+    for source in (DEMO_FILE, demo_file(DEMO_DOS), demo_file("electronic", "springium_edos.dat")):
+        shutil.copy(source, tmp_path / Path(source).name)
+    monkeypatch.chdir(tmp_path)
+    assert main(["calorimetry", DEMO_FILE.name, "--dos", DEMO_DOS, "--model", "dos+electronic+nernst-lindemann",
+                 "--electronic", "springium_edos.dat", "--output", "cli.json"]) == 0
+    ours, theirs = json.loads(target.read_text()), json.loads((tmp_path / "cli.json").read_text())
+    page_meta, cli_meta = ours.pop("provenance"), theirs.pop("provenance")
+    assert ours == theirs and "electronic_dos_comparison" in ours and len(ours["residuals"]) > 0
+    assert [i["sha256"] for i in page_meta["inputs"]] == [i["sha256"] for i in cli_meta["inputs"]]
+    assert len(page_meta["inputs"]) == 3
+    assert page_meta["warnings"] == cli_meta["warnings"] and page_meta["settings"] == cli_meta["settings"]
+    no_console_errors(duo)
+
+
+def test_quasiharmonic_cp_sent_to_polynomials_fits_as_the_polynomial_command(page, tmp_path):
+    from webapp.pages.quasiharmonic import _GRAPHS
+    duo, _ = page
+    duo.driver.get(duo.server_url + "/quasiharmonic")
+    wait_drawn(duo.driver, list(_GRAPHS))
+    table = _download(duo, "qh", "csv")
+    duo.find_element("#qh-send-polynomials").click()
+    until(lambda: duo.find_element("#qh-send-polynomials-note").text.startswith("sent "))
+    duo.driver.find_element(By.CSS_SELECTOR, "#qh-send-polynomials-note a[href='/polynomials']").click()
+    until(lambda: duo.driver.execute_script(
+        "const e = document.querySelector('#po-source input[value=sent]'); return e && e.checked;"))
+    box = duo.find_element("#po-tmax")
+    box.clear()
+    box.send_keys("1000\n")           # the quasi-harmonic table ends at 1000 K
+    until(lambda: '"T_max_K": 1000.0' in duo.find_element("#po-block").text)
+    duo.find_element("#po-download-btn").click()
+    target = Path(duo.download_path) / f"{table.stem}-shomate.json"
+    until(lambda: target.exists() and target.stat().st_size > 0)
+    cli = tmp_path / "cli.json"
+    assert main(["polynomial", str(table), "--cp-table", "--range", "298.15:1000", "--output", str(cli)]) == 0
+    ours, theirs = json.loads(target.read_text()), json.loads(cli.read_text())
+    assert [r["coefficients"] for r in ours["ranges"]] == [r["coefficients"] for r in theirs["ranges"]]
+    assert ours["ranges"][0]["coefficients"]["A"] != 0
+    assert ours["provenance"]["inputs"][0]["role"] == theirs["provenance"]["inputs"][0]["role"] == "heat-capacity table"
     no_console_errors(duo)

@@ -185,3 +185,49 @@ def test_named_workspace_created_in_one_browser_opened_by_key_in_another(tmp_pat
         assert src.name not in text_of(second, "#ws-list")
     finally:
         _stop(server)
+
+
+def _deleted_rows(path):
+    import sqlite3
+    con = sqlite3.connect(str(path))
+    try:
+        return con.execute("SELECT count(*) FROM datasets WHERE deleted_utc IS NOT NULL").fetchone()[0]
+    finally:
+        con.close()
+
+
+def _file_bytes(path):
+    return b"".join(Path(p).read_bytes() for p in (str(path), f"{path}-wal") if os.path.exists(p))
+
+
+def test_remove_deleted_files_for_good_from_the_page(tmp_path, browsers):
+    # issue 26: the page's Delete only marks a dataset; the purge action takes its bytes out of the file
+    marker = b"CONFIDENTIAL-page-purge-91c4"
+    src = tmp_path / "confidential.dat"
+    src.write_bytes(PLAIN.encode() + b"# " + marker + b"\n")
+    w = tmp_path / "w.sqlite"
+    server = _serve(w)
+    try:
+        page = browsers()
+        page.get(URL + "/spectrum")
+        until(lambda: "springium" in text_of(page, "#sp-list"), 30)
+        page.find_element(By.CSS_SELECTOR, "#mh-upload input[type=file]").send_keys(str(src))
+        until(lambda: src.name in text_of(page, "#sp-list"), 30)
+        page.get(URL + "/workspace")
+        until(lambda: src.name in text_of(page, "#ws-list"), 30)
+        until(lambda: page.find_element(By.ID, "ws-name").get_attribute("value") == src.name, 30)
+        page.find_element(By.ID, "ws-delete").click()
+        WebDriverWait(page, 10).until(expected_conditions.alert_is_present())
+        page.switch_to.alert.accept()
+        until(lambda: _deleted_rows(w) == 1, 20)                 # the store has the mark
+        assert marker in _file_bytes(w)                          # ... and still the bytes
+        page.find_element(By.ID, "ws-purge").click()
+        WebDriverWait(page, 10).until(expected_conditions.alert_is_present())
+        page.switch_to.alert.accept()
+        until(lambda: "removed 1 deleted dataset(s)" in text_of(page, "#ws-purged"), 30)
+        assert _deleted_rows(w) == 0 and marker not in _file_bytes(w)
+        page.find_element(By.ID, "ws-undo").click()              # nothing left to bring back
+        until(lambda: "nothing to undo" in text_of(page, "#ws-messages"), 20)
+        assert src.name not in text_of(page, "#ws-list") and "springium" in text_of(page, "#ws-list")
+    finally:
+        _stop(server)

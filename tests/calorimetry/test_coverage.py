@@ -125,6 +125,7 @@ def test_mpmath_solid_is_self_consistent():
                 assert float(slope) == pytest.approx(float(part(300.0, 150, "cv") * factor), rel=1e-10)
 
 
+@pytest.mark.slow   # full size; make test runs it (-m 'not slow' for a quick local loop)
 def test_data_route_coverage_over_seeds_and_first_points():
     # Issue 24 / 25 item 3: S° and H° − H°(0) from data whose first point is at 10, 30, 50 or 100 K,
     # 100 noise seeds (each seed one of three invented solids, 0.3 % stated noise, every 5 K to 320 K):

@@ -5,14 +5,15 @@ ragged rows, units far out, broken .xlsx, values near and far from physical) fee
 :func:`thermo.calorimetry.read_heat_capacity`; every accepted file goes through the data route
 (:func:`third_law_from_data`) and every tenth also through the fit and both routes (:func:`analyse`).
 The outcome is our own one-line error (``ModeheatError``) or finite, non-negative S° and H° − H°(0);
-no warning of numpy or any other library; no input takes 10 s (counted, not timed tightly).
+no warning of numpy or any other library.
 """
 
 from __future__ import annotations
 
 import random
-import time
 import warnings
+
+import pytest
 
 import numpy as np
 from scipy import constants as sc
@@ -89,17 +90,17 @@ def _check(source, options, index, counts):
     return None
 
 
+@pytest.mark.slow   # full size; make test runs it (-m 'not slow' for a quick local loop)
 def test_seeded_generator_3000_inputs():
     rng = random.Random(SEED)
     counts = {"accepted": 0, "analysed": 0}
-    failures, slow = [], 0
+    failures = []
     for k in range(N_GENERATED):
         source = _source(rng)
         if isinstance(source, str) and "\n" not in source:
             source += "\n"
         options = {"cp_unit": rng.choice([None] * 6 + ["mJ/(mol K)", "cal/(mol K)", "J/(g K)", "BTU"]),
                    "formula": rng.choice([None, None, "Cu", "NaCl", "Xx9"])}
-        start = time.perf_counter()
         try:
             with warnings.catch_warnings():
                 warnings.simplefilter("error")
@@ -107,9 +108,7 @@ def test_seeded_generator_3000_inputs():
                 problem = _check(source, options, k, counts)
         except Exception as exc:   # noqa: BLE001 - any other type is the failure this test looks for
             problem = f"{type(exc).__name__}: {exc}"
-        slow += time.perf_counter() - start > 10.0
         if problem:
             failures.append((k, problem))
     assert not failures, f"{len(failures)} of {N_GENERATED} inputs failed, first: {failures[:3]}"
-    assert slow == 0
     assert counts["accepted"] >= 300 and counts["analysed"] >= 30     # the accept path is fuzzed too

@@ -10,8 +10,6 @@ from __future__ import annotations
 
 import io
 import json
-import subprocess
-import sys
 
 import numpy as np
 import pandas as pd
@@ -19,6 +17,7 @@ import pytest
 from scipy import constants as sc
 
 from tests.spectra import gaussian, write_text
+from tests.clirun import run_main
 from thermo.cli.main import main
 from thermo.tables import COLUMNS
 
@@ -116,7 +115,7 @@ def test_bad_options_exit_2_with_one_line(capsys, debye_file, argv):
     assert len(err) == 1 and err[0].startswith("error:")
 
 
-def test_subprocess_runs_the_module(debye_file):
-    out = subprocess.run([sys.executable, "-m", "thermo", "models", str(debye_file)], capture_output=True,
-                         text=True, check=True)
+def test_default_output_is_json(debye_file):
+    out = run_main("models", debye_file)          # in-process; the real process: tests/cli/test_smoke.py
+    assert out.returncode == 0, out.stderr
     assert json.loads(out.stdout)["debye_theta_moment_0_K"] == pytest.approx(5.0 * H_OVER_K, rel=1e-4)

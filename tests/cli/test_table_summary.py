@@ -4,13 +4,12 @@ from __future__ import annotations
 
 import hashlib
 import json
-import subprocess
-import sys
 
 import numpy as np
 import pandas as pd
 import pytest
 
+from tests.clirun import run_main
 from tests.spectra import debye_table, dos_text
 from thermo import load_dos, tabulate
 from thermo.io.readback import read_exported_csv, read_exported_json
@@ -19,7 +18,7 @@ ROOT = __import__("pathlib").Path(__file__).resolve().parents[2]
 
 
 def run_cli(*args):
-    return subprocess.run([sys.executable, "-m", "thermo", *args], capture_output=True, text=True, cwd=ROOT)
+    return run_main(*args)          # in this process (tests/clirun.py); smoke tests: tests/cli/test_smoke.py
 
 
 @pytest.fixture

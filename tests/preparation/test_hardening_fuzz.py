@@ -155,6 +155,7 @@ def check_one(source, options, index=0):
     return None
 
 
+@pytest.mark.slow   # full size; make test runs it (-m 'not slow' for a quick local loop)
 def test_seeded_generator_12000_inputs():
     rng = random.Random(SEED)
     failures, accepted = [], 0

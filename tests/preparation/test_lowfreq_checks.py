@@ -166,6 +166,7 @@ def test_five_samplings_agree_and_the_estimate_bounds_the_true_error(smooth_refe
     assert max(s298) / min(s298) - 1 < 1e-5
 
 
+@pytest.mark.slow   # full size; make test runs it (-m 'not slow' for a quick local loop)
 def test_five_smeared_samplings_agree_and_are_bounded_by_the_estimate():
     # Reference: the same smeared DOS on a grid 16× finer than the finest sampling
     # (the estimate must bound the distance to it).  Smearing 0.05 THz.  0.16 THz rows: with one

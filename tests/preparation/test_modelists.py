@@ -109,3 +109,18 @@ def test_cli_table_reads_a_mode_list(tmp_path, capsys):
     df, info = read_exported_csv(capsys.readouterr().out)
     cv = sum(_einstein(f, np.array([50.0, 300.0]))[0] for f in FREQS)
     assert np.allclose(df["heat_capacity_v_J_per_mol_K"], cv, rtol=1e-10)
+
+
+@pytest.mark.parametrize("name", ["modes.txt", "dos.dat"])
+def test_cli_table_with_an_elastic_anchor_writes_its_table(tmp_path, capsys, name):
+    # the whole command (table, provenance, error breakdown) runs with the anchor on a mode list and a DOS
+    path = tmp_path / name
+    if name == "modes.txt":
+        path.write_text(_list_text())
+    else:
+        nu = np.linspace(0.0, 6.0, 241)
+        path.write_text("frequency_THz total\n" + "\n".join(f"{a} {9 * a * a / 216}" for a in nu) + "\n")
+    assert main(["table", str(path), "--temperatures", "2,300", "--low-frequency", "elastic:250"]) == 0
+    df, info = read_exported_csv(capsys.readouterr().out)
+    assert info["inputs"][0]["options"]["low_frequency"] == "elastic:250.0"
+    assert np.all(np.isfinite(df["heat_capacity_v_J_per_mol_K"]))

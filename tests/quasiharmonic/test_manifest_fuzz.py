@@ -9,15 +9,16 @@ themselves malformed).  For every input the result is either our own one-line er
 * V > 0, B_T > 0, C_p >= C_v >= 0 where a minimum was found — common practice (stability of a
   solid: positive bulk modulus; C_p - C_v = α²B_T V T >= 0, a thermodynamic identity);
 * every row with a value has a finite ± when errors are asked for;
-* no warning of numpy or any other library (warnings are errors here), none over 10 s (loose).
+* no warning of numpy or any other library (warnings are errors here).
 """
 
 from __future__ import annotations
 
 import functools
 import random
-import time
 import warnings
+
+import pytest
 
 import numpy as np
 
@@ -120,19 +121,17 @@ def check_one(raw, files, errors, low_frequency="auto"):
     return "table"
 
 
+@pytest.mark.slow   # full size; make test runs it (-m 'not slow' for a quick local loop)
 def test_seeded_generator_3000_volume_sets():
     rng = random.Random(SEED)
-    failures, accepted, slowest = [], 0, 0.0
+    failures, accepted = [], 0
     for k in range(N_GENERATED):
         raw, files = _manifest(rng)
-        start = time.perf_counter()
         # the automatic low-frequency fit has its own fuzz (tests/preparation); here it is on for 1 set in 5
         problem = check_one(raw, files, errors=rng.random() < 0.02, low_frequency=rng.choice(["off"] * 4 + ["auto"]))
-        slowest = max(slowest, time.perf_counter() - start)
         if problem == "table":
             accepted += 1
         elif problem:
             failures.append((k, problem))
     assert not failures, f"{len(failures)} of {N_GENERATED} inputs failed, first: {failures[:3]}"
     assert accepted >= 300           # the accept path is exercised too, not only refusals
-    assert slowest < 10.0            # loose: no input may hang the reader

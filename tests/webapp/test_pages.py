@@ -7,14 +7,13 @@ scipy.constants, and the thermo command line's own output for exports.
 import base64
 import io
 import json
-import subprocess
-import sys
 
 import numpy as np
 import openpyxl
 import pytest
 from scipy import constants as sc
 
+from tests.clirun import run_main
 from thermo import load_dos, tabulate
 from thermo.columns import column_name, label
 from webapp import cache, intake, session
@@ -135,8 +134,8 @@ def test_thermodynamics_bad_settings_give_message_not_exception(ws):
 
 
 def cli_csv(path, spec, per):
-    run = subprocess.run([sys.executable, "-m", "thermo", "table", str(path), "--temperatures", spec,
-                          "--per", per, "--format", "csv"], capture_output=True, text=True, check=True)
+    run = run_main("table", path, "--temperatures", spec, "--per", per, "--format", "csv")
+    assert run.returncode == 0, run.stderr
     return run.stdout
 
 
@@ -179,27 +178,95 @@ def test_export_preview_and_errors(ws):
     assert export.image_format("svg", {"image_format": "png"}) == {"image_format": "svg"}
 
 
-def test_compare_difference_equals_table_difference(demo):
+def _grouped(demo, names, group):
+    ws = demo
+    for d in demo["datasets"]:
+        if d["name"] in names:
+            ws = session.replaced(ws, {**session.find(ws, d["id"]), "group": group})
+    return ws
+
+
+def test_compare_selects_by_group_all_none_and_never_all_at_first(demo):
+    ids = {d["name"]: d["id"] for d in demo["datasets"]}
+    assert len(ids) > 2
+    # first visit without groups: the active dataset alone (not every dataset)
+    assert compare.selection(demo, None, None, None) == [session.active(demo)["id"]]
+    ws = _grouped(demo, ("springium_fcc.dat", "springium_md.csv"), "springium runs")
+    assert compare.groups(ws) == ["springium runs"]
+    by_group = compare.selection(ws, "cmp-group", [], "springium runs")
+    assert sorted(by_group) == sorted([ids["springium_fcc.dat"], ids["springium_md.csv"]])
+    assert compare.selection(ws, "cmp-all", by_group, None) == [d["id"] for d in ws["datasets"]]
+    assert compare.selection(ws, "cmp-none", by_group, None) == []
+    assert compare.selection(ws, None, [], None) == []            # "none" stays none when the workspace changes
+
+
+def test_compare_relative_differences_with_each_runs_error(demo):
     fcc = next(d for d in demo["datasets"] if d["name"] == "springium_fcc.dat")
     md = next(d for d in demo["datasets"] if d["name"] == "springium_md.csv")
-    t = np.arange(0.0, 501.0, 25.0)
-    over, diff, table = compare.comparison(demo, [fcc["id"], md["id"]], fcc["id"], "entropy", t, "formula")
-    expected = (cache.table(md, t, "formula")[S_MOL] - cache.table(fcc, t, "formula")[S_MOL])
-    np.testing.assert_allclose(np.asarray(diff.data[0].y), expected.to_numpy(), rtol=1e-12, atol=1e-12)
-    assert len(over.data) == 2
-    _, self_diff, _ = compare.comparison(demo, [fcc["id"]], fcc["id"], "dos", t, "formula")
-    assert len(self_diff.data) == 0
+    over, diff, table, msgs = compare.draw(demo, [fcc["id"], md["id"]], fcc["id"], "entropy", "relative",
+                                           "5,20,298.15", 25, 500, 25, "formula")
+    assert msgs == []
+    t = np.arange(25.0, 501.0, 25.0)
+    s_fcc, s_md = cache.table(fcc, t, "formula")[S_MOL].to_numpy(), cache.table(md, t, "formula")[S_MOL].to_numpy()
+    line = next(tr for tr in diff.data if tr.name == "springium_md.csv")
+    np.testing.assert_allclose(np.asarray(line.y), 100 * (s_md - s_fcc) / np.abs(s_fcc), rtol=1e-12, atol=1e-12)
+    assert "[%]" in diff.layout.yaxis.title.text and len(over.data) == 2
+    text = str(table)
+    assert "S ± error [J/(mol·K)]" in text and "ΔS/S [%]" in text
+    at = cache.table(md, [298.15], "formula")[S_MOL].iloc[0], cache.table(fcc, [298.15], "formula")[S_MOL].iloc[0]
+    assert f"{100 * (at[0] - at[1]) / abs(at[1]):+.3g}" in text
+    _, absolute, table_abs, _ = compare.draw(demo, [fcc["id"], md["id"]], fcc["id"], "entropy", "absolute",
+                                             "298.15", 25, 500, 25, "formula")
+    line = next(tr for tr in absolute.data if tr.name == "springium_md.csv")
+    np.testing.assert_allclose(np.asarray(line.y), s_md - s_fcc, rtol=1e-12, atol=1e-12)
+    assert "[J/(mol·K)]" in absolute.layout.yaxis.title.text and f"{at[0] - at[1]:+.4g}" in str(table_abs)
+    _, _, _, one = compare.draw(demo, [fcc["id"]], fcc["id"], "entropy", "relative", "298.15", 25, 500, 25, "formula")
+    assert "at least two runs" in one[0].children
+
+
+def test_compare_download_equals_compare_command(demo, tmp_path, capsys):
+    from thermo.cli.main import main
+    from thermo.io.readback import read_exported_csv
+    from webapp.demo import demo_file
+    fcc = next(d for d in demo["datasets"] if d["name"] == "springium_fcc.dat")
+    md = next(d for d in demo["datasets"] if d["name"] == "springium_md.csv")
+    name, content = compare.comparison_download("csv", demo, [fcc["id"], md["id"]], md["id"], "5,20,298.15", "atom")
+    assert name == "springium_md-comparison.csv"
+    assert main(["compare", str(demo_file("springium_fcc.dat")), str(demo_file("springium_md.csv")),
+                 "--reference", str(demo_file("springium_md.csv")), "--temperatures", "5,20,298.15",
+                 "--per", "atom"]) == 0
+    ours, meta = read_exported_csv(content)
+    theirs, cli_meta = read_exported_csv(capsys.readouterr().out.encode())
+    assert list(ours.columns) == list(theirs.columns) and len(ours) == 6
+    np.testing.assert_array_equal(ours.select_dtypes("number").to_numpy(), theirs.select_dtypes("number").to_numpy())
+    assert meta["comparison"]["reference"] == cli_meta["comparison"]["reference"] == "springium_md.csv"
+    assert [i["sha256"] for i in meta["inputs"]] == [i["sha256"] for i in cli_meta["inputs"]]
 
 
 def test_models_and_mode_map_draw_with_demo(demo):
     options = models.choices(demo, None, None)
     assert options[1] and options[3]
     figs = models.draw(demo, options[1], options[3], 1, 0, 400, 10, "formula", "heat_capacity_v")
-    assert figs[-1] == [] and len(figs[0].data) >= 3
+    # only the dataset's own warnings, each once (no error)
+    shown = [m.children for m in figs[-1]]
+    expected = [f"{session.active(demo)['name']}: {w}" for w in cache.load(session.active(demo)).warnings]
+    assert shown == expected and all(m.className.endswith("warn") for m in figs[-1]) and len(figs[0].data) >= 3
     heat, msgs = modemap.draw_map(demo, "heat_capacity_share", 10, 400)
     assert msgs == []
-    z = np.asarray(heat.data[0].z)
-    np.testing.assert_allclose(z.sum(axis=0), 100.0, rtol=1e-6)   # each column is a whole (100 %)
+    share = np.asarray(heat.data[0].customdata)
+    np.testing.assert_allclose(share.sum(axis=0), 100.0, rtol=1e-6)   # each column is a whole (100 %)
+    # the colour is per temperature: every column reaches the top of the scale, the bar says so
+    colour = np.asarray(heat.data[0].z)
+    np.testing.assert_allclose(colour.max(axis=0), 100.0, rtol=1e-12)
+    assert "relative to the largest bin at that T" in heat.data[0].colorbar.title.text
+    # over the page's default range, on the share itself the hottest column would use a small part of the
+    # scale (the issue: "everything above ~50 K looks blank"); per temperature it reaches the top
+    wide, _ = modemap.draw_map(demo, "heat_capacity_share", 2, 1000)
+    wide_share = np.asarray(wide.data[0].customdata)
+    assert wide_share[:, -1].max() < 0.2 * wide_share.max() and np.asarray(wide.data[0].z)[:, -1].max() == 100.0
+    logged, _ = modemap.draw_map(demo, "heat_capacity_share", 10, 400, "log")
+    np.testing.assert_allclose(np.asarray(logged.data[0].z), np.log10(np.maximum(share, 1e-4)), rtol=1e-12)
+    assert logged.data[0].colorbar.title.text.startswith("C_v: log₁₀")
     cum, planck, text = modemap.draw_explorer(demo, np.log10(300.0))
     assert text == "T = 300 K" and np.asarray(cum.data[0].y)[-1] == pytest.approx(100.0, rel=1e-6)
 
@@ -234,7 +301,7 @@ def test_models_page_works_in_every_basis(demo, per):
     assert error is None
     opts = models.choices(ws, None, None)
     values, residual, lowt, thetad, msgs = models.draw(ws, opts[1], opts[3], 1, 0, 600, 20, per, "heat_capacity_v")
-    assert msgs == [] and len(values.data) == 4
+    assert all(m.className.endswith("warn") for m in msgs) and len(values.data) == 4
     expected = cache.table(session.active(ws), np.arange(0.0, 601.0, 20.0), per)[column_name("heat_capacity_v", per)]
     np.testing.assert_array_equal(np.asarray(values.data[0].y), expected.to_numpy())
     # the axis names the schema's quantity and unit (thermo.columns)

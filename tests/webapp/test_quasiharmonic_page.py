@@ -83,13 +83,13 @@ def test_loaded_datasets_with_typed_volumes(tmp_path):
 
 def test_download_equals_command_line(tmp_path, capsys):
     record = qh.demo_set()
-    sent, _ = qh.download(1, record, "manifest", [], None, 0, 600, 50, 1.5, "vinet", "atom", "drop", None, 0.5,
-                          "csv", "on")
-    page_table, page_info = read_exported_csv(base64.b64decode(sent["content"]))
+    name, content = qh.table_download("csv", record, "manifest", [], None, 0, 600, 50, 1.5, "vinet", "atom", "drop",
+                                      None, 0.5, "on")
+    page_table, page_info = read_exported_csv(content)
     assert main(["quasiharmonic", str(qh.DEMO_MANIFEST), "--temperatures", "0:600:50,298.15", "--pressure", "1.5",
                  "--eos", "vinet", "--per", "atom", "--imaginary-tolerance", "0.005", "--errors"]) == 0
     cli_table, cli_info = read_exported_csv(capsys.readouterr().out.encode())
-    assert sent["filename"] == "springium_volumes-quasiharmonic-atom.csv"
+    assert name == "springium_volumes-quasiharmonic-atom.csv"
     assert list(page_table.columns) == list(cli_table.columns)
     np.testing.assert_allclose(page_table.to_numpy(float), cli_table.to_numpy(float), rtol=1e-12)
     assert {k: v for k, v in page_info.items() if k != "created_utc"} == \

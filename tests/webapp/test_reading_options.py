@@ -198,3 +198,21 @@ def test_after_a_read_again_in_mev_a_file_stating_wavenumbers_is_read_in_wavenum
     # the dataset keeps what was used for it: its own unit (none chosen) and the typed atom count
     assert session.options_of(session.active(ws))["freq_unit"] is None
     assert session.options_of(session.active(ws))["atoms"] == 1
+
+
+def test_an_elastic_debye_temperature_typed_on_the_page_anchors_the_dataset():
+    # θ_D = 300 K of the Debye DOS itself: its low-frequency θ is that value (Debye 1912, tests/spectra.py)
+    ws, _, _ = _upload(session.empty_workspace(), _values(), STATED)
+    shown = spectrum.control_values(ws)
+    assert shown["sp-elastic"] is None
+    anchored, notes = spectrum.apply_edit(ws, "sp-elastic", {**shown, "sp-elastic": 300})
+    assert not [n for n in notes if n[0] == "error"]
+    d = session.active(anchored)
+    assert session.options_of(d)["low_frequency"] == "elastic:300.0"
+    assert spectrum.cache.load(d).low_frequency_debye_temperature_k() == pytest.approx(300.0, rel=1e-9)
+    again = spectrum.control_values(anchored)
+    assert again["sp-lowmode"] == "elastic" and again["sp-elastic"] == 300.0
+    # choosing the anchor without a θ asks for one; the next upload does not inherit it
+    empty, notes = spectrum.apply_edit(ws, "sp-lowmode", {**shown, "sp-lowmode": "elastic"})
+    assert empty is ws and "elastic Debye temperature" in notes[0][1]
+    assert spectrum.upload_options({**again})["low_frequency"] in (None, "auto")

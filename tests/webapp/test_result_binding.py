@@ -26,9 +26,10 @@ import requests
 from tests.spectra import debye_table, dos_text
 from thermo import load_dos, tabulate
 from thermo.columns import find
+from tests.ports import worker_port
 from webapp import session as ws_session
 
-PORT = 8086
+PORT = worker_port(8086)   # one port per xdist worker (tests/ports.py)
 BASE = f"http://127.0.0.1:{PORT}"
 ROOT = Path(__file__).resolve().parents[2]
 TEXT_A = dos_text(*debye_table(300.0, points=801))

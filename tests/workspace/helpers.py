@@ -5,6 +5,8 @@ import subprocess
 import sys
 from pathlib import Path
 
+from tests.clirun import run_main
+
 ROOT = Path(__file__).resolve().parents[2]
 
 
@@ -27,10 +29,8 @@ def write_files(folder, count, prefix="f"):
 
 
 def cli(*args, **kwargs):
-    """Run ``python -m thermo ARGS`` with this worktree first on the path."""
-    env = {**os.environ, "PYTHONPATH": str(ROOT)}
-    return subprocess.run([sys.executable, "-m", "thermo", *map(str, args)], capture_output=True, text=True,
-                          env=env, cwd=str(ROOT), **kwargs)
+    """``modeheat ARGS`` in this process (tests/clirun.py); ``popen`` starts a real process."""
+    return run_main(*args, **kwargs)
 
 
 def popen(*args, quiet=False):

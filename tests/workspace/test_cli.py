@@ -70,7 +70,7 @@ def test_spaces_prints_keys_of_named_workspaces(tmp_path):
     lab = Workspace(w).create_named("lab")
     Workspace(w).browser("private-browser-key")
     out = cli("workspace", "spaces", "--workspace", w).stdout
-    assert f"lab\t{lab.key}" in out and "private-browser-key" not in out
+    assert f"{lab.name}\t{lab.key}" in out and lab.name.startswith("lab [") and "private-browser-key" not in out
 
 
 def test_table_of_a_stored_dataset_equals_table_of_the_file(tmp_path):

@@ -107,7 +107,7 @@ def test_named_workspace_switch_sets_the_cookie(server, tmp_path):
         response = server.process_response(server.response_class("x"))
         assert f"{persistence.COOKIE}={lab.key}" in response.headers["Set-Cookie"]
     with server.test_request_context("/", headers={"Cookie": f"{persistence.COOKIE}={lab.key}"}):
-        assert persistence.current_space(server).name == "lab"
+        assert persistence.current_space(server) == lab
         persistence.own_space(server)
         response = server.process_response(server.response_class("x"))
         fresh = response.headers["Set-Cookie"].split(";")[0].split("=", 1)[1]

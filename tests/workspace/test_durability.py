@@ -50,6 +50,7 @@ def _rows(path):
         return 0
 
 
+@pytest.mark.slow   # full size; make test runs it (-m 'not slow' for a quick local loop)
 def test_sigkill_during_add_leaves_a_consistent_workspace(tmp_path):
     files = write_files(tmp_path / "in", 1000)    # about 0.35 s of adding on a fast machine: kills land mid-add
     expected = {p.name: hashlib.sha256(p.read_bytes()).hexdigest() for p in files}

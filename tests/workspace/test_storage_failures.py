@@ -101,3 +101,34 @@ def test_read_only_file_lists_and_refuses_writes_in_one_line(tmp_path, monkeypat
     assert code == 2 and "read-only" in err and "internal error" not in err
     monkeypatch.undo()
     assert [d.name for d in Workspace(w).local().datasets()] == ["kept.dat"]
+
+
+@pytest.fixture
+def server(tmp_path):
+    from webapp.app import create_app
+    app = create_app(workspace=tmp_path / "w.sqlite")          # the installed demo: a new space writes its files
+    yield app.server
+    create_app()
+
+
+def _layout(client):
+    response = client.get("/_dash-layout")
+    assert response.status_code == 200, response.status_code
+    return response.get_data(as_text=True)
+
+
+@pytest.mark.parametrize("failure", [_full_connections, _read_only_connections, _unwritable_opens])
+def test_pages_open_on_a_full_or_read_only_disk(server, tmp_path, monkeypatch, failure):
+    from webapp import persistence
+    w = tmp_path / "w.sqlite"
+    Workspace(w).browser("returning")[0].add(debye_text(tag="theirs").encode(), "theirs.dat")
+    returning = server.test_client()
+    returning.set_cookie(persistence.COOKIE, "returning")
+    failure(monkeypatch)
+    assert "theirs.dat" in _layout(returning)                   # an existing space is read as before
+    for path in ("/", "/workspace", "/thermodynamics"):
+        assert returning.get(path).status_code == 200
+    newcomer = server.test_client()                              # a new browser: the demo, kept in the tab
+    assert newcomer.get("/").status_code == 200
+    fresh = _layout(newcomer)
+    assert "springium" in fresh and "cannot be used" in fresh and "Traceback" not in fresh

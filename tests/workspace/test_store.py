@@ -81,16 +81,21 @@ def test_spaces_are_isolated(ws):
     with pytest.raises(WorkspaceError, match="missing"):     # another space cannot read the bytes by hash
         two.content(one.datasets()[0].sha256)
     taken = one.datasets()[0].id
-    with pytest.raises(WorkspaceError, match="taken"):
-        two.add(debye_text(tag=9).encode(), "other.dat", dataset_id=taken)
+    # another space's id is neither refused nor reused: the error would tell that the id exists elsewhere
+    other, added = two.add(debye_text(tag=9).encode(), "other.dat", dataset_id=taken)
+    assert added and other.id != taken and two.find(taken) is None
+    assert [d.name for d in one.datasets()] == ["mine.dat"] and one.datasets()[0].id == taken
 
 
 def test_named_space_opened_by_key(ws):
     lab = ws.create_named("convergence study")
-    assert len(lab.key) >= 40 and ws.by_key(lab.key) == lab
-    with pytest.raises(WorkspaceError, match="exists"):
-        ws.create_named("convergence study")
+    assert len(lab.key) >= 40 and ws.by_key(lab.key) == lab and lab.name.startswith("convergence study [")
+    # the same name again is a new space: creating tells nothing about the spaces in the file
+    again = ws.create_named("convergence study")
+    assert again.key != lab.key and again.name != lab.name and ws.by_key(lab.key) == lab
     assert ws.by_key("not-a-key") is None
+    # a name typed in the dashboard never becomes the command line's space
+    assert ws.create_named("main").name != "main" and ws.local("main").kind == "local"
 
 
 def test_rename_annotate_soft_delete_and_undo(ws):

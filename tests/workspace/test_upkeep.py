@@ -96,15 +96,30 @@ def _browser_spaces(path):
         return con.execute("SELECT count(*) FROM spaces WHERE kind = 'browser'").fetchone()[0]
 
 
-def test_cookieless_requests_do_not_pile_up_spaces(server, tmp_path, monkeypatch):
+def test_cookieless_requests_create_no_space(server, tmp_path):
+    w = tmp_path / "w.sqlite"
+    for _ in range(20):                                   # 20 visitors that never send the cookie back
+        r = server.test_client().get("/_dash-layout")
+        assert r.status_code == 200 and "kept in this tab only" in r.get_data(as_text=True)
+    assert _browser_spaces(w) == 0
+    browser = server.test_client()                        # a browser keeps the cookie of its first page
+    browser.get("/")
+    assert browser.get("/_dash-layout").status_code == 200 and _browser_spaces(w) == 1
+
+
+def test_idle_spaces_are_swept_when_new_browsers_arrive(server, tmp_path, monkeypatch):
     w = tmp_path / "w.sqlite"
     monkeypatch.setattr(upkeep, "_SWEPT", {})
-    for _ in range(20):                                   # 20 visitors that never send a cookie back
-        assert server.test_client().get("/_dash-layout").status_code == 200
-    assert _browser_spaces(w) == 20
+    for _ in range(5):
+        browser = server.test_client()
+        browser.get("/")
+        browser.get("/_dash-layout")
+    assert _browser_spaces(w) == 5
     _backdate(w, upkeep.DEFAULT_RETENTION_DAYS + 1)
     monkeypatch.setattr(upkeep, "_SWEPT", {})             # an hour later: the next new space sweeps
-    server.test_client().get("/_dash-layout")
+    late = server.test_client()
+    late.get("/")
+    late.get("/_dash-layout")
     assert _browser_spaces(w) == 1
 
 
@@ -120,3 +135,13 @@ def test_the_page_action_removes_deleted_bytes_from_the_file(server, tmp_path):
         assert "removed 1 deleted dataset(s)" in str(message) and trash == []
     assert SECRET not in _on_disk(w)
     assert [x.name for x in Workspace(w).browser("purger")[0].datasets()] == ["stays.dat"]
+
+
+def test_a_bad_retention_stops_the_server_start(tmp_path, monkeypatch):
+    monkeypatch.setenv(upkeep.RETENTION_ENV, "soon")
+    try:
+        with pytest.raises(ValueError, match=upkeep.RETENTION_ENV):
+            create_app(workspace=tmp_path / "w.sqlite")
+    finally:
+        monkeypatch.delenv(upkeep.RETENTION_ENV)
+        create_app()

@@ -10,7 +10,8 @@ from __future__ import annotations
 
 import numpy as np
 
-from .breakdown import PARTS, QUANTITIES, error_breakdown, error_column
+from .breakdown import PARTS, QUANTITIES, error_column
+from .reuse import table_breakdown
 
 #: Factor from the breakdown's column units to SI (kJ/mol -> J/mol for the energies).
 _TO_SI = {"heat_capacity_v": 1.0, "entropy": 1.0, "internal_energy": 1e3, "helmholtz_energy": 1e3}
@@ -47,7 +48,7 @@ def harmonic_row_errors(dos, temperatures):
     >>> sorted(e), bool(e["entropy"][0] < 1e-3)
     (['entropy', 'heat_capacity_v', 'helmholtz_energy', 'internal_energy'], True)
     """
-    b = error_breakdown(dos, temperatures)
+    b = table_breakdown(dos, temperatures)
     return {key: _TO_SI[key] * sum(b[error_column(key, p)].to_numpy() for p in PARTS) for key in QUANTITIES}
 
 
@@ -90,7 +91,7 @@ def add_error_columns(table, dos, formula=None):
     from ..tables import to_basis
     t = table[column_name("temperature")].to_numpy()
     per = table.attrs.get("per", "formula")
-    b = error_breakdown(dos, t)
+    b = table_breakdown(dos, t)
     si = tuple(_TO_SI[k] * sum(b[error_column(k, p)].to_numpy() for p in PARTS) for k in QUANTITIES)
     out = table.copy()
     for key, err in zip(QUANTITIES, to_basis(si, per, dos.atoms, formula)):

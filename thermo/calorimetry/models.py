@@ -32,7 +32,7 @@ import numpy as np
 from scipy import constants as sc
 
 from ..errors import OptionError
-from ..kernels.sums import thermal_sums
+from .dos_curve import DosHeatCapacity
 from ..models.debye import debye_heat_capacity, debye_heat_capacity_fraction
 
 #: Parameter names (JSON keys) and their short aliases for ``--fix``.
@@ -192,6 +192,7 @@ class HeatCapacityModel:
     dilation: str = "nernst-lindemann"
     dos: object = None
     dilation_table: tuple | None = field(default=None, repr=False)
+    _curve: object = field(default=None, init=False, repr=False, compare=False)
 
     def __post_init__(self):
         if self.lattice not in LATTICES + (None,):
@@ -204,6 +205,8 @@ class HeatCapacityModel:
             raise OptionError("the dilation term 'values' needs a table of T and C_p - C_v")
         if int(self.atoms) < 1:
             raise OptionError(f"atoms per formula unit must be >= 1, got {self.atoms}")
+        if self.lattice == "dos":          # its sums computed once, for every trial scale of a fit
+            object.__setattr__(self, "_curve", DosHeatCapacity(self.dos))
 
     @property
     def parameters(self):
@@ -250,7 +253,7 @@ class HeatCapacityModel:
         if self.lattice == "debye":
             return debye_heat_capacity(t, values["theta_D_K"], 3 * int(self.atoms))
         if self.lattice == "dos":
-            return sc.R * thermal_sums(self.dos, t / values["scale"])["heat_capacity"]
+            return sc.R * self._curve(t / values["scale"])
         return np.zeros_like(t)
 
     def completed(self, temperatures, lattice, values):

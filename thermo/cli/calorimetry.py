@@ -73,7 +73,7 @@ def build_model(args, dos, fixed=None):
 
 def run(args) -> int:
     from ..calorimetry import parse_fixed, read_heat_capacity
-    from ..calorimetry.report import analyse, electronic_comparison
+    from ..calorimetry.export import calorimetry_export
     from ..errors import OptionError
     from ..io.writers import export_table, write_table
     from .models import parse_fit_range
@@ -90,50 +90,32 @@ def run(args) -> int:
     fixed = parse_fixed(args.fix)
     model = build_model(args, dos, fixed)
     fit_range = parse_fit_range(args.range) if args.range else None
-    report, fit, third = analyse(measured, model, fixed, fit_range, args.low_t_max)
     edos = load_electronic_from_args(args, args.electronic) if args.electronic else None
-    if edos is not None:
-        report["electronic_dos_comparison"] = electronic_comparison(report, edos)
-        report["notes"] += report["electronic_dos_comparison"]["notes"] + [f"{args.electronic}: {w}"
-                                                                           for w in edos.warnings]
-    for note in report["notes"]:
+    record, result, notes = calorimetry_export(
+        measured, model, fixed, fit_range, args.low_t_max, edos, args.electronic, args.format,
+        **calorimetry_settings(args, dos))
+    for note in notes:
         print(f"note: {note}", file=sys.stderr)
-    record = calorimetry_provenance(args, measured, dos, report["notes"], edos)
     if args.format == "json":
-        report["residuals"] = {k: [_number(v) for v in fit.residuals[k]] for k in fit.residuals.columns}
-        return emit_report(args, record, report)
-    table = third.merge(fit.residuals.drop(columns=[third.columns[1]]), on=third.columns[0], how="left")
-    record.update((k, v) for k, v in report.items()
-                  if k not in ("input", "sha256", "notes", "correlation", "low_temperature_analysis"))
+        return emit_report(args, record, result)
     if args.output:
-        write_table(table, record, args.format, args.output, overwrite=args.force, digits=report_digits(args))
+        write_table(result, record, args.format, args.output, overwrite=args.force, digits=report_digits(args))
         print(f"wrote {args.output}", file=sys.stderr)
         return 0
-    sys.stdout.write(export_table(table, record, args.format, digits=report_digits(args)).decode("utf-8"))
+    sys.stdout.write(export_table(result, record, args.format, digits=report_digits(args)).decode("utf-8"))
     return 0
 
 
+def calorimetry_settings(args, dos):
+    """Keywords of :func:`thermo.calorimetry.export.calorimetry_provenance` from the command line."""
+    return {"cp_unit": args.cp_unit, "formula": args.formula, "dos": dos, "dos_label": args.dos,
+            "dilation_values": args.dilation_values,
+            "settings": {"model": args.model, "metal": bool(getattr(args, "metal", False)), "fixed": list(args.fix),
+                         "fit_range_K": args.range, "low_t_max_K": args.low_t_max, "atoms": args.atoms}}
+
+
 def calorimetry_provenance(args, measured, dos, notes, edos=None):
-    """The provenance record of a calorimetry result: the measured file, ``--dos``, ``--dilation-values``
-    and ``--electronic``."""
-    from ..provenance import dos_input, input_record, provenance_record
-    inputs = [input_record(measured.source, measured.sha256,
-                           {"cp_unit": args.cp_unit, "unit_read": measured.unit, "formula": args.formula},
-                           role="measured heat capacity")]
-    if dos is not None:
-        inputs.append(dos_input(dos, role="lattice DOS"))
-    if args.dilation_values:
-        inputs.append(input_record(args.dilation_values, data=args.dilation_values, role="dilation values"))
-    if edos is not None:
-        from ..electronic import electronic_input
-        inputs.append(electronic_input(edos, role="electronic DOS"))
-    settings = {"model": args.model, "metal": bool(getattr(args, "metal", False)), "fixed": list(args.fix),
-                "fit_range_K": args.range,
-                "low_t_max_K": args.low_t_max, "atoms": args.atoms}
-    dos_notes = [] if dos is None else [f"{args.dos}: {w}" for w in dos.warnings]
-    return provenance_record(inputs, settings, dos_notes + list(notes))
-
-
-def _number(value):
-    value = float(value)
-    return value if value == value and abs(value) != float("inf") else None
+    """The provenance record of a calorimetry result from the command line's options (see
+    :func:`thermo.calorimetry.export.calorimetry_provenance`)."""
+    from ..calorimetry.export import calorimetry_provenance as record
+    return record(measured, edos=edos, notes=notes, **calorimetry_settings(args, dos))

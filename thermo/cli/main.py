@@ -33,7 +33,7 @@ def build_parser():
 #: Options that name where the workspace is; accepted before or after the command and its verb.
 GLOBAL_OPTIONS = ("--workspace", "--space")
 #: Commands whose next word is a verb (``workspace add``).
-_VERB_COMMANDS = {"workspace": ("add", "list", "export", "remove", "spaces")}
+_VERB_COMMANDS = ("workspace",)
 
 
 def placed_global_options(argv):
@@ -67,8 +67,7 @@ def placed_global_options(argv):
             break               # another option before the command: leave the line as given
         words.append(token)
         i += 1
-        verbs = _VERB_COMMANDS.get(words[0], ()) if words else ()
-        if len(words) == 1 and not verbs or len(words) == 2:
+        if len(words) == 1 and words[0] not in _VERB_COMMANDS or len(words) == 2:
             break
     rest = argv[i:]
     if not moved:

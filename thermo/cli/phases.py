@@ -12,7 +12,6 @@ from .reading import add_reading_options
 
 #: 0 to 1000 K every 5 K.
 _DEFAULT_TEMPERATURES = "0:1000:5"
-_DETAILS = ("transitions", "metastable_crossings", "no_crossing", "boundary")
 
 
 def register(sub):
@@ -159,7 +158,7 @@ def _electronic(args, path):
 def run(args) -> int:
     from ..errors import OptionError
     from ..phases import compare_phases, formation_table
-    from ..phases.report import comparison_provenance, comparison_report, formation_provenance
+    from ..phases.report import comparison_json, comparison_provenance, formation_provenance
     from ..temperatures import parse_temperatures
 
     temperatures = parse_temperatures(args.temperatures)
@@ -186,9 +185,7 @@ def run(args) -> int:
         print(f"warning: {note}", file=sys.stderr)
     _say(result)
     if fmt == "json":
-        plain = {k: v for k, v in record.items() if k not in _DETAILS}
-        text = json.dumps(comparison_report(result, plain, digits), indent=1, ensure_ascii=False, allow_nan=False)
-        return _write_text(args, text + "\n")
+        return _write_text(args, comparison_json(result, record, digits))
     return _emit(args, fmt, digits, result.table, record)
 
 

@@ -37,8 +37,10 @@ def add_reading_options(parser, formula_help=None, for_option=None, many=False, 
                              "(old spelling keep-count still accepted), or refuse the file" + stored)
     parser.add_argument("--sheet", metavar="NAME_OR_NUMBER",
                         help=f".xlsx input: worksheet name or number from 1 (default: {DEFAULT_TEXT['sheet']})")
-    parser.add_argument("--low-frequency", default=None, metavar="auto|off|LOW:HIGH",
-                        help="ν² treatment below a cut-off: automatic window, off, or a window in THz "
+    parser.add_argument("--low-frequency", default=None, metavar="auto|off|LOW:HIGH|elastic:THETA_K",
+                        help="ν² treatment below a cut-off: automatic window, off, a window in THz, or "
+                             "elastic:THETA_K — the long-wave limit anchored by an elastic Debye temperature "
+                             "(e.g. from 'modeheat elastic') and blended into the data above their resolved limit "
                              f"(default {DEFAULT_TEXT['low_frequency']})" + stored)
     add_formula_option(parser, formula_help)
 

@@ -28,7 +28,7 @@ from ..errors import DosInputError
 
 
 #: Most data rows (lines) a DOS file may have.
-MAX_ROWS = 2_000_000
+MAX_ROWS = 1_000_000
 #: Most columns (frequency, total and partial DOS) a DOS file may have.
 MAX_COLUMNS = 256
 #: Largest uncompressed size of all parts of an .xlsx workbook [bytes].

@@ -123,12 +123,12 @@ def lagrange_weights(offset):
     before = [np.ones_like(t)]
     for k in range(1, ORDER):
         before.append(before[-1] * diff[k - 1])
-    out = np.empty((t.size, ORDER))
+    out = np.empty((ORDER, t.size))         # filled row by row (contiguous), handed out as (N, ORDER)
     after = np.ones_like(t)
     for k in range(ORDER - 1, -1, -1):
-        out[:, k] = before[k] * after / _DENOM[k]
+        out[k] = before[k] * after / _DENOM[k]
         after = after * diff[k]
-    return out
+    return out.T
 
 
 def _stencil(position):
@@ -298,23 +298,55 @@ def frozen_sums(nodes_thz, weights, temperatures):
             "log_partition": -(w @ np.log1p(-e))}
 
 
-def _fill_cold(out, nu, w, t, cold, groups=4):
+#: Largest x = hν/k_BT of the lowest grid node at which cold sums run over the deposited log grid
+#: instead of the nodes: every term that matters then changes by less than 0.15 per grid step, where the
+#: 8-point interpolation behind the deposit is good to about 1e-10 relative (see :func:`_fill_cold`).
+_GRID_COLD_X = 20.0
+
+
+def _fill_cold(out, nu, w, t, cold, groups=4, grid=None):
     """Replace the sums at the cold temperatures by direct ones.
 
-    The cold temperatures are split in up to ``groups`` bands; each band sums
-    only the prefix of nodes its warmest temperature needs.
+    Where x of the lowest node reaches the clip every term is the clipped
+    kernel (Σw times it, exactly).  With ``grid`` ``(deposit, s0)`` (the weights
+    deposited on the log grid), temperatures whose lowest node has x below
+    :data:`_GRID_COLD_X` sum over the grid points when they are fewer than the
+    nodes: the cost is then grid points × temperatures whatever the number of
+    rows (a 10⁶-row DOS).  The others are split in up to ``groups`` bands;
+    each band sums only the prefix of nodes its warmest temperature needs.
     """
-    order = cold[np.argsort(t[cold])]
+    x_low = H_OVER_K_THZ * nu.min() / t[cold]
+    frozen = cold[x_low >= _X_CLIP]
+    if frozen.size:
+        _assign(out, frozen, frozen_sums(nu[:1], np.array([w.sum()]), t[frozen]))
+    rest = cold[x_low < _X_CLIP]
+    if grid is not None:
+        deposit, s0 = grid
+        used = np.flatnonzero(deposit)
+        on_grid = rest[H_OVER_K_THZ * nu.min() / t[rest] < _GRID_COLD_X]
+        if on_grid.size and used.size < _relevant_nodes(nu, w, t[on_grid].max()) // 2:
+            _sum_in_passes(out, np.exp(s0 + STEP * used), deposit[used], t, on_grid)
+            rest = np.setdiff1d(rest, on_grid)
+    if rest.size == 0:
+        return
+    order = rest[np.argsort(t[rest])]
     for band in np.array_split(order, min(groups, order.size)):
         # where the kernels' clipping of x reaches the lowest node, every
         # clipped term is as large as any other: keep all nodes
         clipped = H_OVER_K_THZ * nu.min() / t[band].min() > _X_CLIP - _NEGLIGIBLE_LOG
         upto = nu.size if clipped else _relevant_nodes(nu, w, t[band].max())
-        # at most about _PAIRS_PER_PASS pairs in memory at once
-        for part in np.array_split(band, -(-band.size * upto // _PAIRS_PER_PASS)):
-            exact = frozen_sums(nu[:upto], w[:upto], t[part])
-            for key in SUM_KEYS:
-                out[key][part] = exact[key]
+        _sum_in_passes(out, nu[:upto], w[:upto], t, band)
+
+
+def _sum_in_passes(out, nodes, weights, t, which):
+    """Direct sums at ``t[which]`` with at most about _PAIRS_PER_PASS pairs in memory at once."""
+    for part in np.array_split(which, -(-which.size * nodes.size // _PAIRS_PER_PASS)):
+        _assign(out, part, frozen_sums(nodes, weights, t[part]))
+
+
+def _assign(out, which, sums):
+    for key in SUM_KEYS:
+        out[key][which] = sums[key]
 
 
 def loggrid_sums(nodes_thz, weights, temperatures):
@@ -372,14 +404,15 @@ def loggrid_sums(nodes_thz, weights, temperatures):
     tau0 = tau.min() - half * STEP
     n_s = int(np.ceil((s.max() - s0) / STEP)) + half + 1
     n_tau = int(np.ceil((tau.max() - tau0) / STEP)) + half + 1
-    on_grid, scale = _correlate(_deposit(s, grid_w, s0, n_s), tau0, s0, n_tau)
+    deposit = _deposit(s, grid_w, s0, n_s)
+    on_grid, scale = _correlate(deposit, tau0, s0, n_tau)
     values = _read_back(on_grid, tau0, tau)
     out = dict(zip(SUM_KEYS, values))
     cold = np.zeros(t.size, dtype=bool)
     for key in SUM_KEYS:
         cold |= ~(out[key] > DYNAMIC_RANGE * scale[SUM_KEYS.index(key)])
     if cold.any():
-        _fill_cold(out, grid_nu, grid_w, t, np.flatnonzero(cold))
+        _fill_cold(out, grid_nu, grid_w, t, np.flatnonzero(cold), grid=(deposit, s0))
     if low_nu.size:
         extra = direct_grid_sums(low_nu, low_w, t)
         for key in SUM_KEYS:

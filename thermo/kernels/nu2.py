@@ -18,6 +18,7 @@ References
 from __future__ import annotations
 
 import math
+from fractions import Fraction
 
 import numpy as np
 from scipy import special
@@ -29,7 +30,26 @@ from .planck import H_OVER_K_THZ, log_partition_kernel, thermal_energy_kernel
 #: Below this X the Bernoulli series of J_m(X) is used, above it the e^{−kX} series.
 _J_SPLIT = 1.0
 _J_TERMS = np.arange(1, 41, dtype=float)
-_BERNOULLI = special.bernoulli(40) / special.factorial(np.arange(41))
+
+
+def _bernoulli_over_factorial(count):
+    r""":math:`B_k/k!` for k < ``count``, exact rationals rounded once (B₁ = −1/2).
+
+    From :math:`\sum_{k=0}^{n} \beta_k/(n-k+1)! = 0` (n >= 1), the series of
+    :math:`x/(e^x-1)`; scipy's floating B₄ is off by 2e-12 relative, which showed in the sums.
+
+    Examples
+    --------
+    >>> _bernoulli_over_factorial(5).tolist() == [1.0, -0.5, 1 / 12, 0.0, -1 / 720]
+    True
+    """
+    beta = [Fraction(1)]
+    for n in range(1, count):
+        beta.append(-sum(beta[k] / math.factorial(n - k + 1) for k in range(n)))
+    return np.array([float(b) for b in beta])
+
+
+_BERNOULLI = _bernoulli_over_factorial(41)
 
 
 def bose_integral(order, upper):
@@ -107,6 +127,154 @@ def debye_integral(upper):
     return bose_integral(3, upper)
 
 
+#: Below this X the Bernoulli series (60 terms) of X^{-n} J_n(X) is used, above it the Li_p(e^{-X}) series.
+_SPLIT = 3.0
+_BETA = _bernoulli_over_factorial(60)
+#: Terms of Li_p(q) = Σ_k q^k / k^p kept above the split (q <= e^{-3}: q^21 < 1e-27).
+_LI_K = np.arange(1, 21, dtype=float)
+#: Highest power m of ν in a prepared polynomial (Aν²(1+bν²+cν⁴) times the cubic taper).
+_MAX_POWER = 9
+#: n = m + 1 for the powers m = 0 … 9, and the tables that depend on n only.
+_N = np.arange(1.0, _MAX_POWER + 2.0)
+#: β_k / (k + n): row n, column k (the Bernoulli series of Φ_n).
+_SERIES = _BETA[None, :] / (np.arange(_BETA.size)[None, :] + _N[:, None])
+#: n! ζ(n + 1).
+_FACTORIAL_ZETA = np.array([math.factorial(int(n)) for n in _N]) * special.zeta(_N + 1.0)
+#: n!/(n - j)! for j <= n (0 above): row n, column j = 0 … 10.
+_FALLING = np.array([[math.factorial(int(n)) / math.factorial(int(n) - j) if j <= n else 0.0
+                      for j in range(_MAX_POWER + 2)] for n in _N])
+#: 1 / k^{j+1}: row j, column k = 1 … 20.
+_LI_INVERSE = 1.0 / _LI_K[None, :] ** (np.arange(_MAX_POWER + 2.0)[:, None] + 1.0)
+#: Taper zones narrower than this share of the cut-off stay on Gauss–Legendre nodes (the monomial
+#: form of a steep cubic would cancel digits).
+_NARROW_TAPER = 0.5
+
+
+class PolynomialBoseSums:
+    r"""Kernel sums of a DOS made of polynomials in ν, prepared once, evaluated at any temperatures.
+
+    Parameters
+    ----------
+    limits : sequence of (float, array_like)
+        Pairs :math:`(\nu_L, d^L)`: the sum is
+        :math:`\sum_L \int_0^{\nu_L} \sum_m d^L_m \nu^m K(h\nu/k_BT)\,d\nu`,
+        :math:`\nu_L` [THz], :math:`d^L_m` [modes / THz^{m+1}] for powers m = 0…9 (m >= 2 used).
+    heat_capacity_edges : bool
+        False when the pieces join continuously and the polynomial vanishes at the last limit
+        (the boundary terms of the C_v integrals cancel exactly and are left out).
+
+    Notes
+    -----
+    With :math:`X = h\nu_L/k_BT`, :math:`n = m + 1` and
+    :math:`\Phi_n(X) = X^{-n}J_n(X)` (:func:`bose_integral`), integrating by parts,
+
+    .. math::
+        \int_0^{\nu_L}\nu^m u = \nu_L^n\Phi_n,\quad
+        \int_0^{\nu_L}\nu^m c = \nu_L^n[(m+2)\Phi_n - u(X)],\quad
+        \int_0^{\nu_L}\nu^m \ell = \nu_L^n[\Phi_n + \ell(X)]/n .
+
+    For :math:`X < 3`, :math:`\Phi_n = \sum_k B_k X^k/(k!(k+n))`; above,
+    :math:`\Phi_n = n!\zeta(n+1)X^{-n} - \sum_{j=0}^{n}\frac{n!}{(n-j)!}X^{-j}\mathrm{Li}_{j+1}(e^{-X})`.
+    Both are polynomials (in :math:`X`, resp. in :math:`1/X` and :math:`e^{-X}`) whose
+    coefficients depend only on the DOS: they are summed over the powers and limits here, once,
+    so a temperature costs one short polynomial and no quadrature.
+
+    References
+    ----------
+    Abramowitz and Stegun (1964), 23.1.1, 27.1 and 27.7 (polylogarithm series).
+
+    Examples
+    --------
+    >>> s = PolynomialBoseSums([(1.0, [0, 0, 9.0])]).sums([1e7])   # 9ν² on [0, 1]: 3 modes
+    >>> round(float(s["heat_capacity"][0]), 6)
+    3.0
+    """
+
+    def __init__(self, limits, heat_capacity_edges=True):
+        self._limits = []
+        for nu_l, coefficients in limits:
+            d = np.zeros(_MAX_POWER + 1)
+            given = np.asarray(coefficients, dtype=float)
+            d[:given.size] = given
+            g = d * float(nu_l) ** _N                                    # modes carried by each power
+            gw = np.array([(_N + 1.0) * g, g, g / _N])                   # (3 kernels, powers)
+            const = np.zeros((3, _MAX_POWER + 2))
+            const[:, 1:] = gw * _FACTORIAL_ZETA
+            # tail[κ, j, k] = -Σ_{n >= j} gw[κ, n] n!/(n-j)! / k^{j+1}: rows (kernel, j), columns the power k of q
+            tail = -(gw @ _FALLING)[:, :, None] * _LI_INVERSE[None, :, :]
+            self._limits.append((float(nu_l), gw @ _SERIES, const, tail.reshape(-1, _LI_K.size),
+                                 float(g.sum()) if heat_capacity_edges else 0.0, float(np.sum(g / _N))))
+        # Where every limit is below the split, one series in X of the first limit serves all:
+        # X_L = r_L X_0, so r_L^k joins the coefficients of X_0^k.
+        self._limits = [entry for entry in self._limits if entry[0] > 0.0]
+        self._first = self._limits[0][0] if self._limits else 0.0
+        self._reach = max((entry[0] for entry in self._limits), default=0.0) / (self._first or 1.0)
+        k = np.arange(_BETA.size)
+        self._joint = sum(entry[1] * (entry[0] / self._first) ** k for entry in self._limits) \
+            if self._limits else np.zeros((3, _BETA.size))
+
+    def sums(self, temperatures):
+        """``heat_capacity``, ``thermal_energy``, ``log_partition`` at each temperature (> 0) [1]."""
+        t = np.asarray(temperatures, dtype=float).ravel()
+        out = np.zeros((3, t.size))
+        if not self._limits:
+            return {key: out[i].reshape(np.shape(temperatures)) for i, key in enumerate(SUM_KEYS)}
+        x0 = H_OVER_K_THZ * self._first / t
+        joint = x0 * self._reach < _SPLIT
+        if joint.any():
+            xj = x0[joint]
+            count = _terms(float(xj.max()) * self._reach)
+            out[:, joint] = _apply(self._joint[:, :count], _powers(xj, count))
+        rest = ~joint
+        for nu_l, small, const, tail, c_edge, l_edge in self._limits:
+            x = H_OVER_K_THZ * nu_l / t
+            if rest.any():
+                out[:, rest] += _one_limit(x[rest], small, const, tail)
+            if c_edge:
+                out[0] -= c_edge * thermal_energy_kernel(x)
+            out[2] += l_edge * log_partition_kernel(x)
+        return {key: out[i].reshape(np.shape(temperatures)) for i, key in enumerate(SUM_KEYS)}
+
+
+def _one_limit(x, small, const, tail):
+    """Σ_m gw_m Φ_{m+1}(X) of one limit (3 kernels × X), each X on its own side of the split."""
+    part = np.zeros((3, x.size))
+    low = x < _SPLIT
+    if low.any():
+        count = _terms(float(x[low].max()))
+        part[:, low] = _apply(small[:, :count], _powers(x[low], count))
+    if not low.all():
+        xl = x[~low]
+        y = _powers(1.0 / xl, const.shape[1])                       # (11, M)
+        q = _powers(np.exp(-xl), _LI_K.size + 1)[1:]                # q^1 … q^20
+        part[:, ~low] = _apply(const, y) + np.einsum("kjm,jm->km", _apply(tail, q).reshape(3, -1, xl.size), y)
+    return part
+
+
+def _apply(coefficients, powers):
+    """coefficients (R, K) times powers (K, M) [einsum: a BLAS product of this flat shape stalled
+    for milliseconds on a busy machine]."""
+    return np.einsum("rk,km->rm", coefficients, powers)
+
+
+def _terms(largest):
+    """Terms of the Bernoulli series for X <= ``largest``: (X/2π)^k below 1e-18 (at most 60)."""
+    if largest <= 0.0:
+        return 2
+    return int(min(_BETA.size, max(2, math.ceil(18.0 * math.log(10.0) / math.log(2.0 * math.pi / largest)))))
+
+
+def _powers(x, count):
+    """Rows x⁰, x¹, …, x^(count-1) of a 1-D array (row-wise products: contiguous and quick)."""
+    out = np.empty((count, x.size))
+    out[0] = 1.0
+    if count > 1:
+        out[1] = x
+    for k in range(2, count):
+        np.multiply(out[k - 1], x, out=out[k])
+    return out
+
+
 def nu2_part_sums(coefficient, cutoff_thz, temperatures, curvature=0.0, quartic=0.0):
     r"""Sums of the analytic part :math:`A\nu^2` on :math:`[0, \nu_c]`, in closed form.
 
@@ -140,11 +308,8 @@ def nu2_part_sums(coefficient, cutoff_thz, temperatures, curvature=0.0, quartic=
         \int_0^X x^2 \ell\,dx = \frac{X^3 \ell(X) + J}{3}.
 
     The :math:`Ab\nu^4` and :math:`Ac\nu^6` terms add the same with
-    :math:`s_{m+1} = A b (k_BT/h)^{m+1}` (resp. :math:`Ac`) and
-    :math:`J_{m+1}` of :func:`bose_integral`; in general
-    :math:`\int_0^X x^m c = (m+2)J_{m+1} - X^{m+1}u(X)`,
-    :math:`\int_0^X x^m u = J_{m+1}`,
-    :math:`\int_0^X x^m \ell = (X^{m+1}\ell(X) + J_{m+1})/(m+1)` at m = 4, 6.
+    :math:`J_{m+1}` of :func:`bose_integral`; evaluated by
+    :class:`PolynomialBoseSums`.
 
     References
     ----------
@@ -160,21 +325,57 @@ def nu2_part_sums(coefficient, cutoff_thz, temperatures, curvature=0.0, quartic=
     t = np.asarray(temperatures, dtype=float)
     if coefficient == 0.0 or cutoff_thz <= 0.0:
         return {key: np.zeros_like(t) for key in SUM_KEYS}
-    big_x = H_OVER_K_THZ * cutoff_thz / t
-    # X^k u(X) and X^k ℓ(X) vanish beyond the kernels' clipping; keep X^k finite there
-    inside = np.where(big_x < _X_CLIP, big_x, 0.0)
-    u_edge, l_edge = thermal_energy_kernel(big_x), log_partition_kernel(big_x)
-    out = {key: np.zeros_like(t) for key in SUM_KEYS}
-    for power, factor in ((2, coefficient), (4, coefficient * curvature), (6, coefficient * quartic)):
-        if factor == 0.0:
-            continue
-        scale = factor * (t / H_OVER_K_THZ) ** (power + 1)
-        j = bose_integral(power + 1, big_x)
-        edge = inside ** (power + 1)
-        out["heat_capacity"] = out["heat_capacity"] + scale * ((power + 2) * j - edge * u_edge)
-        out["thermal_energy"] = out["thermal_energy"] + scale * j
-        out["log_partition"] = out["log_partition"] + scale * (edge * l_edge + j) / (power + 1)
-    return out
+    form = [0.0, 0.0, coefficient, 0.0, coefficient * curvature, 0.0, coefficient * quartic]
+    return PolynomialBoseSums([(cutoff_thz, form)]).sums(t)
+
+
+def prepared_analytic_part(fit):
+    r"""The :class:`PolynomialBoseSums` of a fit's analytic part (form below the cut-off, taper above).
+
+    Parameters
+    ----------
+    fit : LowFrequencyFit
+        The fitted form, its cut-off and taper.
+
+    Returns
+    -------
+    tuple
+        ``(sums, taper_nodes, taper_modes)``: the prepared closed form, and the Gauss–Legendre
+        nodes [THz] and modes [1] of a taper zone too narrow for it (empty otherwise).
+
+    Notes
+    -----
+    On :math:`[\nu_a, \nu_m]` the DOS is :math:`W M` with the cubic step
+    :math:`W = 1 - 3s^2 + 2s^3`, :math:`s = (\nu-\nu_a)/(\nu_m-\nu_a)`: a polynomial
+    :math:`Q` of degree 9.  So :math:`\int_0^{\nu_a} M K + \int_{\nu_a}^{\nu_m} Q K`
+    :math:`= \int_0^{\nu_a}(M - Q)K + \int_0^{\nu_m} Q K`; :math:`M(\nu_a) = Q(\nu_a)` and
+    :math:`Q(\nu_m) = 0`, so the boundary terms of C_v cancel.
+
+    Examples
+    --------
+    >>> from thermo.spectrum import LowFrequencyFit
+    >>> sums, nodes, _ = prepared_analytic_part(LowFrequencyFit(9.0, 1.0, (1.0, 4.0), blend_top_thz=2.0))
+    >>> round(float(sums.sums([1e7])["heat_capacity"][0]), 6), nodes.size   # 3 + 9 · 13/15 modes
+    (10.8, 0)
+    """
+    poly = np.polynomial.polynomial
+    form = np.array([0.0, 0.0, fit.coefficient, 0.0, fit.coefficient * fit.curvature, 0.0,
+                     fit.coefficient * fit.quartic])
+    cut = fit.cutoff_thz
+    top = fit.blend_top_thz if fit.blend_top_thz is not None else cut
+    if fit.coefficient == 0.0 or cut <= 0.0:
+        form = np.zeros(1)
+    if top <= cut or top - cut < _NARROW_TAPER * cut or getattr(fit, "smooth_taper", False):
+        nodes, modes = fit.taper_nodes()
+        return PolynomialBoseSums([(cut, form)]), nodes, modes
+    half = top - cut
+    s = np.array([-cut / half, 1.0 / half])
+    step = poly.polyadd([1.0], poly.polyadd(-3.0 * poly.polypow(s, 2), 2.0 * poly.polypow(s, 3)))
+    tapered = np.convolve(step, form)                      # degree 9 at most
+    below = np.zeros(tapered.size)
+    below[:form.size] = form
+    return (PolynomialBoseSums([(cut, below - tapered), (top, tapered)], heat_capacity_edges=False),
+            np.zeros(0), np.zeros(0))
 
 
 def analytic_part_sums(fit, temperatures):
@@ -194,14 +395,13 @@ def analytic_part_sums(fit, temperatures):
 
     Notes
     -----
-    :math:`\int_0^{\nu_a} M K\,d\nu` in closed form (:func:`nu2_part_sums`)
-    plus :math:`\int_{\nu_a}^{\nu_m} W M K\,d\nu` by 48-point
-    Gauss–Legendre quadrature (smooth integrand, error far below rounding of
-    the table).
+    :math:`\int_0^{\nu_a} M K\,d\nu + \int_{\nu_a}^{\nu_m} W M K\,d\nu` in closed form
+    (:func:`prepared_analytic_part`, prepared once per fit and kept on it); a taper zone
+    narrower than half the cut-off, or a smooth (not cubic) step, by 48-point Gauss–Legendre quadrature.
 
     References
     ----------
-    Abramowitz and Stegun (1964), 25.4.29.
+    Abramowitz and Stegun (1964), 25.4.29 and 27.1.
 
     Examples
     --------
@@ -211,8 +411,8 @@ def analytic_part_sums(fit, temperatures):
     3.0
     """
     t = np.asarray(temperatures, dtype=float)
-    out = nu2_part_sums(fit.coefficient, fit.cutoff_thz, t, fit.curvature, fit.quartic)
-    nodes, modes = fit.taper_nodes()
+    sums, nodes, modes = fit.prepared_sums()
+    out = sums.sums(t)
     if nodes.size:
         extra = direct_grid_sums(nodes, modes, t)
         out = {key: out[key] + extra[key] for key in SUM_KEYS}

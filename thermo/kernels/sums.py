@@ -16,7 +16,7 @@ from scipy import constants as sc
 from ..errors import OptionError
 from . import loggrid
 from .direct import SUM_KEYS, direct_grid_sums
-from .nu2 import analytic_part_sums
+from .nu2 import analytic_part_sums, nu2_part_sums
 from .quadrature import mode_weights
 
 #: Zero-point energy [J/mol] per THz of Σ modes·ν/2.
@@ -177,11 +177,13 @@ def mode_list_sums(modes, temperatures, method="auto", keys=SUM_KEYS):
     t = np.atleast_1d(np.asarray(temperatures, dtype=float))
     hot = t > 0
     out = {key: np.zeros_like(t) for key in keys}
-    if hot.any():
-        parts = [grid_sums(modes.frequency_thz, modes.weight, t[hot], method, keys)]
-        parts += [analytic_part_sums(fit, t[hot]) for fit in modes.continuum]
-        if modes.extra[0].size:
-            parts.append(direct_grid_sums(*modes.extra, t[hot], keys))
+    if hot.any():        # the modes, the continuum's taper and dispersion nodes in one pass; its ν² core closed
+        tapers = [fit.taper_nodes() for fit in modes.continuum]
+        nodes = np.concatenate([modes.frequency_thz, modes.extra[0]] + [n for n, _ in tapers])
+        weights = np.concatenate([modes.weight, modes.extra[1]] + [w for _, w in tapers])
+        order = np.argsort(nodes, kind="stable")
+        parts = [grid_sums(nodes[order], weights[order], t[hot], method, keys)]
+        parts += [nu2_part_sums(f.coefficient, f.cutoff_thz, t[hot], f.curvature, f.quartic) for f in modes.continuum]
         for key in keys:
             out[key][hot] = sum(p[key] for p in parts)
     if "thermal_energy" in out and "log_partition" in out:

@@ -102,3 +102,14 @@ def comparison_report(result, record, digits=None):
     return jsonable({"provenance": record, "transitions": result.transitions,
                      "metastable_crossings": result.metastable_crossings, "no_crossing": result.no_crossing,
                      "boundary": result.boundary, "columns": list(table.columns), "table": rows})
+
+
+#: Details of a comparison record that the JSON report carries at its top level instead.
+TOP_LEVEL = ("transitions", "metastable_crossings", "no_crossing", "boundary")
+
+
+def comparison_json(result, record, digits=None):
+    """The JSON text of a comparison (what ``modeheat phases --format json`` writes and the page downloads)."""
+    import json
+    plain = {k: v for k, v in record.items() if k not in TOP_LEVEL}
+    return json.dumps(comparison_report(result, plain, digits), indent=1, ensure_ascii=False, allow_nan=False) + "\n"

@@ -12,7 +12,7 @@ import dataclasses
 import numpy as np
 from dataclasses import replace
 
-from ..errors import DosInputError
+from ..errors import DosInputError, OptionError
 from ..kernels.quadrature import mode_weights
 from .imaginary import imaginary_warnings, split_at_zero
 from .lowfreq import WINDOW_MODES, blend_low_frequency, fit_low_frequency, window_shares
@@ -26,6 +26,7 @@ from .validation import check_spectrum
 from .validation import check_magnitudes, check_mode_count
 from .options import ReadingOptions, low_frequency_window, as_record
 from .modelist import load_mode_list
+from .anchor import elastic_anchor
 from .layers import chosen_atoms, chosen_unit
 from .histogram import bin_modes, histogram_dos, is_histogram, stated_histogram
 
@@ -249,8 +250,9 @@ def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="aut
         Imaginary share of the modes [1].
     policy : str
         Imaginary-mode policy (``drop`` or ``keep-count``).
-    window : 'auto', None or (low, high)
-        Low-frequency option as normalised by :func:`load_dos`.
+    window : 'auto', None, (low, high) or ('elastic', θ)
+        Low-frequency option as normalised by :func:`load_dos`; an elastic
+        anchor (:mod:`.anchor`) is absolute and the data carry the other modes.
     raw_integral : float, optional
         Integral of the DOS as read, for the rescale report.
     inferred : bool
@@ -279,7 +281,10 @@ def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="aut
     notes = []
     real_modes = 3 * atoms * (1.0 if policy == "drop" else 1.0 - share)
     fit, fit_note = (None, None)
-    if window is not None:
+    anchored = isinstance(window, tuple) and window[0] == "elastic"
+    if anchored:
+        fit, fit_note = elastic_anchor(nu, cols[0], window[1], atoms, real_modes)
+    elif window is not None:
         fit, fit_note = fit_low_frequency(nu, cols[0], None if window == "auto" else window,
                                           total_modes=real_modes, window_modes=window_modes)
     if fit_note:
@@ -293,14 +298,17 @@ def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="aut
         grid, cut = blend_low_frequency(nu, cols, fit)
     tabulated = float(mode_weights(grid, cut[0]).sum())
     analytic = 0.0 if fit is None else fit.analytic_moment()
-    scale = real_modes / (tabulated + analytic)
+    if anchored and not analytic < 0.5 * real_modes:
+        raise OptionError(f"the elastic Debye law puts {analytic:.3g} of the {real_modes:.3g} modes below the data's "
+                          f"resolved limit {fit.cutoff_thz:.4g} THz; check θ")
+    scale = (real_modes - analytic) / tabulated if anchored else real_modes / (tabulated + analytic)
     first = float(nu[0])
     if fit is None:
         below = float(cols[0][0]) * first / 3.0
         note = _start_note(first, None, below * scale, real_modes) if cols[0][0] > 0 else None
     else:
         below = fit.coefficient * first ** 3 * (1 / 3 + first ** 2 * (fit.curvature / 5 + fit.quartic * first ** 2 / 7))
-        note = _start_note(first, fit, below * scale, real_modes)
+        note = _start_note(first, fit, below * (1.0 if anchored else scale), real_modes)
     if note:
         notes.append(note)
     if abs(scale - 1.0) > 1e-6:
@@ -310,6 +318,6 @@ def treat_spectrum(nu, cols, names, atoms, share=0.0, policy="drop", window="aut
             why += f" less the {100 * share:.3g} % imaginary modes"
         notes.append(f"{read}after the low-frequency treatment it is rescaled by ×{scale:.6g} to "
                      f"{real_modes:.6g} modes ({why})")
-    if fit is not None:
+    if fit is not None and not anchored:      # an elastic anchor is per formula unit already
         fit = fit.scaled(scale)
     return grid, cut, fit, scale, notes

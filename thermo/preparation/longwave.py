@@ -32,9 +32,9 @@ References
 from __future__ import annotations
 
 import numpy as np
-from scipy import optimize
 
 from ..errors import ModeheatError
+from .christoffel import christoffel_fit, christoffel_means, christoffel_speeds
 from ..spectrum import LowFrequencyFit
 
 #: Wave vectors shorter than this are Γ [1/Å].
@@ -45,106 +45,11 @@ FIT_RADIUS = 1.8
 MIN_FIT_POINTS = 24
 #: Fewest q-points with a partner at kq for the dispersion step.
 MIN_PAIRS = 6
-#: From this many q-points with a partner, the others are left out of the velocity fit.
-PAIRED_ONLY = 12
+#: The tensor fit weighs a point by (q₁/q)^this: the residual of a Richardson step grows as q⁴.
+RICHARDSON_POWER = 4
 #: The continuum is the whole acoustic DOS below BLEND[0]·Δq and is blended into the mesh modes up to
 #: BLEND[1]·Δq (Δq = (V_zone·w_min)^{1/3} the mesh spacing; per branch in frequency, ν = c_j q/2π).
-BLEND = (0.5, 2.25)
-
-
-#: Voigt pairs of the 21 independent elastic constants.
-_VOIGT = [(0, 0), (1, 1), (2, 2), (1, 2), (0, 2), (0, 1)]
-#: Sphere rule for the direction means: Gauss–Legendre in cos θ × uniform φ.
-_SPHERE = (24, 48)
-
-
-def _tensor(params):
-    """C_ijkl / ρ [(Å·THz)²] from the 21 Voigt numbers (upper triangle of the 6×6 matrix)."""
-    voigt = np.zeros((6, 6))
-    voigt[np.triu_indices(6)] = params
-    voigt = voigt + np.triu(voigt, 1).T
-    c = np.empty((3, 3, 3, 3))
-    for a, (i, j) in enumerate(_VOIGT):
-        for b, (k, m) in enumerate(_VOIGT):
-            for ii, jj in {(i, j), (j, i)}:
-                for kk, mm in {(k, m), (m, k)}:
-                    c[ii, jj, kk, mm] = voigt[a, b]
-    return c
-
-
-def _speeds_squared(params, n):
-    """Ascending eigenvalues of the Christoffel matrix Γ_ik = C_ijkl n_j n_l / ρ at unit vectors n (P, 3)."""
-    gamma = np.einsum("ijkl,pj,pl->pik", _tensor(params), n, n)
-    return np.linalg.eigvalsh(gamma)
-
-
-def _sphere_rule():
-    x, w = np.polynomial.legendre.leggauss(_SPHERE[0])
-    phi = (np.arange(_SPHERE[1]) + 0.5) * 2 * np.pi / _SPHERE[1]
-    ct, ph = np.meshgrid(x, phi, indexing="ij")
-    st = np.sqrt(1 - ct ** 2)
-    n = np.column_stack([(st * np.cos(ph)).ravel(), (st * np.sin(ph)).ravel(), ct.ravel()])
-    weights = np.repeat(w / 2, _SPHERE[1]) / _SPHERE[1]
-    return n, weights
-
-
-def christoffel_means(directions, speeds, weights):
-    r"""Direction mean of :math:`c_j^{-3}` per branch from an elastic tensor fitted to sound speeds.
-
-    Parameters
-    ----------
-    directions : numpy.ndarray, shape (P, 3)
-        Unit vectors [1].
-    speeds : numpy.ndarray, shape (P, 3)
-        Ascending long-wave speeds along each [Å·THz = 100 m/s].
-    weights : numpy.ndarray, shape (P,)
-        Weights of the points [1].
-
-    Returns
-    -------
-    numpy.ndarray, shape (3,)
-        :math:`\langle c_j^{-3}\rangle` [(Å·THz)⁻³].
-
-    Raises
-    ------
-    ModeheatError
-        When the fit does not converge.
-
-    Notes
-    -----
-    In the long-wave limit :math:`\rho c^2` are the eigenvalues of the
-    Christoffel matrix :math:`C_{ijkl}n_jn_l` (21 constants :math:`C/\rho`
-    fitted by least squares to :math:`c^2`); the means come from a
-    24 × 48-point product rule on the sphere.
-
-    References
-    ----------
-    .. [1] Ashcroft and Mermin (1976), ch. 22-23.
-    .. [2] E. B. Christoffel, Ann. Mat. Pura Appl. 8, 193-243 (1877).
-
-    Examples
-    --------
-    >>> n = np.eye(3)[[0, 1, 2, 0, 1, 0]] + np.eye(3)[[0, 1, 2, 1, 2, 2]] * [[0], [0], [0], [1], [1], [1]]
-    >>> n = n / np.linalg.norm(n, axis=1)[:, None]
-    >>> out = christoffel_means(n, np.tile([5.0, 5.0, 8.0], (6, 1)), np.ones(6))   # isotropic
-    >>> np.round(out * 5 ** 3, 6).tolist()
-    [1.0, 1.0, 0.244141]
-    """
-    target = np.asarray(speeds, float) ** 2
-    weights = np.asarray(weights, float)
-    root = np.sqrt(weights / weights.mean())[:, None]
-    lam, mu = target[:, 2].mean() - 2 * target[:, :2].mean(), target[:, :2].mean()
-    start = np.zeros((6, 6))
-    start[:3, :3] = lam
-    start[np.arange(3), np.arange(3)] = lam + 2 * mu
-    start[np.arange(3, 6), np.arange(3, 6)] = mu
-    result = optimize.least_squares(lambda p: (root * (_speeds_squared(p, directions) / target - 1)).ravel(),
-                                    start[np.triu_indices(6)], method="trf", x_scale="jac")
-    if not result.success:
-        raise ModeheatError(f"the elastic-tensor fit to the sound speeds near Γ did not converge ({result.message})")
-    n, w = _sphere_rule()
-    eig = np.clip(_speeds_squared(result.x, n), 1e-300, None)
-    return w @ eig ** -1.5
+BLEND = (0.5, 2.5)
 
 
 def branch_velocities(q_per_a, acoustic_thz, weights, doubled_thz=None, step=2):
@@ -176,10 +81,12 @@ def branch_velocities(q_per_a, acoustic_thz, weights, doubled_thz=None, step=2):
     -----
     :math:`c_j(\mathbf q) = 2\pi\nu_j/|\mathbf q|`.  With the mode at
     :math:`k\mathbf q`, :math:`c = c_0(1-\beta q^2)` gives
-    :math:`c_0 = (k^2c(q) - c(kq))/(k^2-1)` and :math:`\beta = (1 - c(q)/c_0)/q^2`
-    (Richardson's step); points without a partner take the mean β.  The
-    direction means come from the elastic tensor fitted to :math:`c_0`
-    (:func:`christoffel_means`).
+    :math:`c_0 = (k^2c(q) - c(kq))/(k^2-1)` (Richardson's step).  An elastic
+    tensor is fitted to these :math:`c_0` (:func:`christoffel_fit`, weights
+    :math:`\propto q^{-4}`, the order of the step's residual); its speeds
+    give every point's :math:`\beta = (1 - c(q)/c_0(\hat q))/q^2` and the
+    direction means (:func:`christoffel_means`).  With fewer than
+    :data:`MIN_PAIRS` partners the tensor is fitted to the raw speeds and β = 0.
 
     References
     ----------
@@ -197,18 +104,20 @@ def branch_velocities(q_per_a, acoustic_thz, weights, doubled_thz=None, step=2):
     q = np.linalg.norm(q_per_a, axis=1)
     n = q_per_a / q[:, None]
     c = 2 * np.pi * np.asarray(acoustic_thz, float) / q[:, None]
-    beta = np.zeros_like(c)
+    weights = np.asarray(weights, float)
     paired = np.zeros(q.size, bool) if doubled_thz is None else np.all(np.isfinite(doubled_thz), axis=1)
-    if paired.sum() >= MIN_PAIRS:
+    corrected = paired.sum() >= MIN_PAIRS
+    fit_speeds, fit_weights = c, weights * (q.min() / q) ** RICHARDSON_POWER
+    if corrected:              # the tensor from the Richardson-corrected points, β of every point from it
         c2 = 2 * np.pi * np.asarray(doubled_thz, float)[paired] / (step * q[paired, None])
-        c0 = (step ** 2 * c[paired] - c2) / (step ** 2 - 1)
-        beta[paired] = (1 - c[paired] / c0) / (q[paired, None] ** 2)
-        beta[~paired] = np.average(beta[paired], axis=0, weights=np.asarray(weights, float)[paired])
-        c = c / (1 - beta * q[:, None] ** 2)
-    inverse = christoffel_means(n, c, weights)
+        fit_speeds = (step ** 2 * c[paired] - c2) / (step ** 2 - 1)
+        fit_weights = fit_weights[paired]
+    params = christoffel_fit(n[paired] if corrected else n, fit_speeds, fit_weights)
+    c0 = christoffel_speeds(params, n)
+    beta = (1 - c / c0) / q[:, None] ** 2 if corrected else np.zeros_like(c)
+    inverse = christoffel_means(params)
     return {"inverse_cube": inverse, "inverse_cube_mean": float(inverse.sum()), "points": int(q.size),
-            "dispersion_corrected": bool(paired.sum() >= MIN_PAIRS),
-            "speeds": c, "betas": beta, "weights": np.asarray(weights, float)}
+            "dispersion_corrected": bool(corrected), "speeds": c0, "betas": beta, "weights": weights}
 
 
 def blended_continuum(velocities, cell_volume_a3, spacing_per_a, blend=None):
@@ -257,6 +166,51 @@ def blended_continuum(velocities, cell_volume_a3, spacing_per_a, blend=None):
         out.append(LowFrequencyFit(coefficient=float(4 * np.pi * cell_volume_a3 * inv), cutoff_thz=low,
                                    window_thz=(low, high), blend_top_thz=high, smooth_taper=True))
     return tuple(out)
+
+
+#: The elastic law of a list without wave vectors holds below ANCHOR_BLEND[0]·ν_Δ and is blended out by
+#: ANCHOR_BLEND[1]·ν_Δ, ν_Δ the frequency of the Debye-averaged branch one mesh spacing from Γ.
+ANCHOR_BLEND = (0.25, 2.0)
+
+
+def anchored_continuum(coefficient, q_points, atoms):
+    r"""An elastic Debye law :math:`A\nu^2` blended into a mode list that has no wave vectors.
+
+    Parameters
+    ----------
+    coefficient : float
+        :math:`A = 9n/\nu_D^3`, :math:`\nu_D = k_B\theta/h` [modes / THz³ per formula unit].
+    q_points : float
+        Number of q-points of the mesh, :math:`N_q` [1].
+    atoms : int
+        Atoms per formula unit n (one formula unit per cell is assumed).
+
+    Returns
+    -------
+    LowFrequencyFit
+        The law alone below :data:`ANCHOR_BLEND`\ [0]·ν_Δ, blended out by
+        :data:`ANCHOR_BLEND`\ [1]·ν_Δ with an infinitely smooth step.
+
+    Notes
+    -----
+    A mesh spacing :math:`\Delta q = (V_{zone}/N_q)^{1/3}` on the Debye branch
+    :math:`\nu = \bar cq/2\pi` with :math:`\nu_D = \bar c(3n/4\pi V)^{1/3}` is
+    :math:`\nu_\Delta = \nu_D(4\pi/3nN_q)^{1/3}`.
+
+    References
+    ----------
+    .. [1] Ashcroft and Mermin (1976), ch. 23.
+
+    Examples
+    --------
+    >>> f = anchored_continuum(9.0, 4 * np.pi / 3, 1)                 # ν_D = 1 THz, ν_Δ = 1 THz
+    >>> round(f.cutoff_thz, 12), round(f.blend_top_thz, 12)
+    (0.25, 2.0)
+    """
+    spacing = (9.0 * atoms / coefficient) ** (1 / 3) * (4 * np.pi / (3 * atoms * q_points)) ** (1 / 3)
+    low, high = (f * spacing for f in ANCHOR_BLEND)
+    return LowFrequencyFit(coefficient=float(coefficient), cutoff_thz=low, window_thz=(low, high),
+                           automatic=False, blend_top_thz=high, smooth_taper=True)
 
 
 #: Gauss–Legendre points of each of the two segments of a dispersion correction.
@@ -379,9 +333,6 @@ def long_wave_region(q_points, frequencies, weights, cell_volume_a3):
         if have.sum() > best:
             best, step, pairs = int(have.sum()), k, (partner, have)
     partner, have = pairs
-    if best >= PAIRED_ONLY:      # enough points with a partner: the others' dispersion is not guessed
-        near[np.flatnonzero(near)[~have]] = False
-        partner, have = partner[have], have[have]
     doubled = np.full((partner.size, 3), np.nan)
     doubled[have] = frequencies[partner[have], :3]
     try:

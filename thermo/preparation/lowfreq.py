@@ -168,13 +168,16 @@ def _auto_window(nu, g, widths, total_modes, window_modes):
     first = float(nu[0])
     step = float(nu[nu > 0][0]) if np.any(nu > 0) else 0.0
     below, smear, result = 0.0, 0.0, None
+    done = {}                   # a pass that lands on a window already fitted reuses that fit
     for _ in range(4):
         target = window_modes - below
         top = float(np.interp(target, cum, nu)) if target > 0 else 2.0 * max(first, step)
         # the bottom only moves up between passes, so the passes settle
         lo = max(top / SPAN, SMEAR_CLEARANCE * smear, first, step, result[0] if result else 0.0)
         hi = max(top, 3.0 * lo)
-        fit, _count = _window_fit(nu, g, widths, lo, hi)
+        if (lo, hi) not in done:
+            done[(lo, hi)] = _window_fit(nu, g, widths, lo, hi)
+        fit, _count = done[(lo, hi)]
         if fit is None or not np.isfinite(fit[3]):
             return lo, hi, None
         result = (lo, hi, fit)

@@ -19,7 +19,8 @@ from ..spectrum import ModeList, PhononDOS
 from ..units import thz_to_unit
 from .imaginary import imaginary_warnings
 from .layers import chosen_atoms, chosen_unit
-from .longwave import GAMMA_Q, long_wave_region
+from .longwave import GAMMA_Q, anchored_continuum, long_wave_region
+from .options import elastic_theta, low_frequency_window
 from .validation import check_magnitudes, check_mode_count
 
 #: Modes below this |frequency| without a wave vector are taken as Γ's acoustic modes [THz].
@@ -72,7 +73,9 @@ def load_mode_list(raw, explicit, carried, chosen):
     Returns
     -------
     PhononDOS
-        With ``modes`` set; ``low_frequency`` None.
+        With ``modes`` set; ``low_frequency`` None; ``frequency_thz``/``dos``
+        and ``input_frequency_thz``/``input_dos`` a histogram of the modes
+        (and the continuum) for plots.
 
     Notes
     -----
@@ -137,11 +140,28 @@ def load_mode_list(raw, explicit, carried, chosen):
     if not real.any():
         raise DosInputError("no real (positive-frequency) modes in the list", src)
     real_modes = 3 * n_atoms * (1.0 if policy == "drop" else 1.0 - share)
-    w_real = w[real] * share_kept[real]
     extra_nu, extra_w = fit["dispersion_nodes"] if continuum else (np.zeros(0), np.zeros(0))
-    in_continuum = zone * (sum(f.analytic_moment() for f in continuum) + float(extra_w.sum()))
-    scale = real_modes / (float(w_real.sum()) + in_continuum)
-    continuum = tuple(f.scaled(scale * zone) for f in continuum)
+    theta = elastic_theta(option)
+    if theta is None:
+        w_real = w[real] * share_kept[real]
+        in_continuum = zone * (sum(f.analytic_moment() for f in continuum) + float(extra_w.sum()))
+        scale = real_modes / (float(w_real.sum()) + in_continuum)
+        continuum = tuple(f.scaled(scale * zone) for f in continuum)
+        extra_w = extra_w * scale * zone
+    else:       # the elastic law fixes A absolutely; the mesh modes carry the rest
+        law = 9.0 * n_atoms / (theta / H_OVER_K_THZ) ** 3
+        if continuum:
+            factor = law / sum(f.coefficient for f in continuum)
+            continuum, extra_w = tuple(f.scaled(factor) for f in continuum), extra_w * factor
+        else:
+            q_count = total_raw / float(w.min()) / (per_q or 3 * n_atoms)
+            continuum = (anchored_continuum(law, q_count, n_atoms),)
+            share_kept[real] *= 1.0 - continuum[0].taper(nu[real])
+        w_real = w[real] * share_kept[real]
+        scale = (real_modes - sum(f.analytic_moment() for f in continuum) - float(extra_w.sum())) / float(w_real.sum())
+        notes.append(f"long-wave limit anchored by the elastic Debye temperature {theta:g} K"
+                     + ("" if fit is None else f" (the modes near Γ give "
+                        f"{_theta_of(continuum, n_atoms, 3 * n_atoms / per_q / factor):.4g} K)"))
     zero_weight = float(w[replaced].sum())
     if not continuum and zero_weight > 0:
         notes.append(f"{100 * zero_weight / total_raw:.3g} % of the modes are Γ's acoustic modes (frequency 0) "
@@ -153,9 +173,10 @@ def load_mode_list(raw, explicit, carried, chosen):
     resolved = _resolved(nu, real, replaced, table, continuum)
     if not continuum:
         notes.append(_undetermined_note(resolved, table))
-    modes = ModeList(frequency_thz=freq, weight=weight, extra=(extra_nu, extra_w * scale * zone), partials=partials, continuum=continuum,
+    modes = ModeList(frequency_thz=freq, weight=weight, extra=(extra_nu, extra_w), partials=partials,
+                     continuum=continuum,
                      cell_volume_a3=table.cell_volume_a3, resolved_thz=resolved,
-                     velocities={} if not continuum else {k: fit[k] for k in ("inverse_cube_mean", "points",
+                     velocities={} if fit is None else {k: fit[k] for k in ("inverse_cube_mean", "points",
                                                                               "shell_radius_per_A",
                                                                               "dispersion_corrected")})
     grid, g = _histogram(freq, weight, continuum, real_modes)
@@ -163,14 +184,21 @@ def load_mode_list(raw, explicit, carried, chosen):
         "name": src, "sha256": raw.sha256, "freq_unit": unit, "stated_unit": table.unit,
         "raw_integral": total_raw, "scale_factor": scale, "negative_mode_fraction": share,
         "negative_policy": policy, "atoms_inferred": inferred, "columns": list(raw.names),
-        "low_frequency_option": option, "kind": "mode list", "modes": int(nu.size),
+        "low_frequency_option": low_frequency_window(option), "kind": "mode list", "modes": int(nu.size),
         "reading_options": chosen.replaced(freq_unit=unit, atoms=n_atoms, sheet=raw.sheet).as_dict(),
     }
     if raw.sheet is not None:
         provenance["sheet"] = raw.sheet
     part_grid = {k: _histogram(freq, p, (), float(p.sum()))[1] for k, p in partials.items()}
     return PhononDOS(frequency_thz=grid, dos=g, atoms=n_atoms, partials=part_grid, low_frequency=None,
-                     source=provenance, warnings=tuple(n for n in notes if n), modes=modes)
+                     source=provenance, warnings=tuple(n for n in notes if n), modes=modes,
+                     input_frequency_thz=grid, input_dos=g, input_partials=dict(part_grid))
+
+
+def _theta_of(continuum, atoms, factor=1.0):
+    """Debye temperature [K] of the continuum's summed A (times ``factor``)."""
+    a = factor * sum(f.coefficient for f in continuum)
+    return float(H_OVER_K_THZ * (9.0 * atoms / a) ** (1 / 3))
 
 
 def _atoms(explicit, carried, per_q, total_raw, src, atom_count):

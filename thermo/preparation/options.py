@@ -58,24 +58,29 @@ _OFF_WORDS = ("off", "none", "no", "false")
 
 
 def low_frequency_setting(value):
-    """Canonical text of a low-frequency option: ``'auto'``, ``'off'`` or ``'LOW:HIGH'`` [THz].
+    """Canonical text of a low-frequency option: ``'auto'``, ``'off'``, ``'LOW:HIGH'`` [THz] or ``'elastic:THETA'`` [K].
 
     Accepts the text forms, ``True``/``False`` and a ``(low, high)`` pair;
-    None stays None (not given).
+    None stays None (not given).  ``elastic:THETA`` anchors the long-wave
+    limit with an elastic Debye temperature θ (e.g. from ``modeheat elastic``).
 
     Raises
     ------
     OptionError
-        For anything else, or a window outside 0 <= low < high <= the largest
-        accepted frequency.
+        For anything else, a window outside 0 <= low < high <= the largest
+        accepted frequency, or θ not in (0, :data:`MAX_ELASTIC_THETA_K`].
 
     Examples
     --------
     >>> low_frequency_setting("AUTO"), low_frequency_setting(False), low_frequency_setting((0.2, 0.6))
     ('auto', 'off', '0.2:0.6')
+    >>> low_frequency_setting(" Elastic: 343 ")
+    'elastic:343.0'
     """
     if value is None:
         return None
+    if isinstance(value, str) and value.strip().lower().startswith("elastic"):
+        return f"elastic:{elastic_theta(value)!r}"
     if value is True or (isinstance(value, str) and value.strip().lower() == "auto"):
         return "auto"
     if value is False or (isinstance(value, str) and value.strip().lower() in _OFF_WORDS):
@@ -98,19 +103,47 @@ def low_frequency_setting(value):
     return f"{lo!r}:{hi!r}"
 
 
+#: Largest elastic Debye temperature accepted [K] (diamond's is about 2,200 K, common practice).
+MAX_ELASTIC_THETA_K = 1.0e4
+
+
+def elastic_theta(setting):
+    """θ [K] of an ``elastic:THETA`` setting, None for any other.
+
+    Examples
+    --------
+    >>> elastic_theta("elastic:343"), elastic_theta("auto")
+    (343.0, None)
+    """
+    if not (isinstance(setting, str) and setting.strip().lower().startswith("elastic")):
+        return None
+    text = setting.strip()[len("elastic"):].strip().lstrip(":").strip()
+    try:
+        theta = float(text)
+    except ValueError:
+        raise OptionError(f"low-frequency anchor {setting!r} must be elastic:THETA with θ in kelvin") from None
+    if not (math.isfinite(theta) and 0 < theta <= MAX_ELASTIC_THETA_K):
+        raise OptionError(f"elastic Debye temperature {text} K must lie in (0, {MAX_ELASTIC_THETA_K:g}] K")
+    return theta
+
+
 def low_frequency_window(setting):
-    """The treatment a canonical setting asks for: ``'auto'``, None (off) or ``(low, high)`` [THz].
+    """The treatment a canonical setting asks for: ``'auto'``, None (off), ``(low, high)`` [THz] or ``('elastic', θ)``.
 
     Examples
     --------
     >>> low_frequency_window("auto"), low_frequency_window("off"), low_frequency_window("0.2:0.6")
     ('auto', None, (0.2, 0.6))
+    >>> low_frequency_window("elastic:300")
+    ('elastic', 300.0)
     """
     setting = low_frequency_setting(setting)
     if setting in ("auto", None):
         return "auto"
     if setting == "off":
         return None
+    if setting.startswith("elastic:"):
+        return ("elastic", elastic_theta(setting))
     lo, hi = (float(v) for v in setting.split(":"))
     return (lo, hi)
 

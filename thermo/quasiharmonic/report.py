@@ -5,6 +5,7 @@ from __future__ import annotations
 import re
 
 from ..provenance import dos_input, input_record, provenance_record, temperature_settings
+from ..accuracy.reuse import table_breakdown
 from ..tables import estimated_relative_error
 
 
@@ -86,7 +87,8 @@ def quasiharmonic_provenance(volume_set, table, temperatures):
         inputs, settings, list(diag.get("warnings", [])) + _grouped_warnings(volume_set),
         atoms=volume_set.atoms, atoms_inferred=bool(first.source.get("atoms_inferred")),
         low_frequency="off" if fits[0] is None else ("auto" if fits[0].automatic else "manual"),
-        estimated_relative_error=max(estimated_relative_error(d, temperatures) for d in doses),
+        estimated_relative_error=max(estimated_relative_error(d, temperatures, table_breakdown(d, temperatures))
+                                     for d in doses),
         volume_range_A3=diag.get("volume_range_A3"),
         max_fit_residual_meV=diag.get("max_fit_residual_meV"),
         outside_range_K=diag.get("outside_range_K"),

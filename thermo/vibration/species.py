@@ -41,8 +41,30 @@ def _counts_from_formula(formula):
     return {str(el): float(n) for el, n in parsed.atoms.items()}
 
 
+def _mode_integrals(modes, weights, share, t):
+    """:func:`_integrals` of a mode list: a sum over its modes plus ``share`` of its continuum."""
+    nu, w = modes.frequency_thz, np.asarray(weights, float)
+    extra_nu, extra_w = modes.extra
+    nodes, counts = np.concatenate([nu, extra_nu]), np.concatenate([w, share * extra_w])
+    pos = nodes > 0
+    coth = 1.0 + 2.0 * occupation(reduced_frequency(nodes[pos], t))
+    main = (counts[pos] / nodes[pos]) @ coth
+    inverse_square = float(np.sum(counts[pos] / nodes[pos] ** 2))
+    total = float(np.sum(counts))
+    for fit in modes.continuum:
+        main = main + share * analytic_displacement_integral(fit, t)
+        inverse_square += share * fit.analytic_moment(-2)
+        total += share * fit.analytic_moment(0)
+    return main, inverse_square, total
+
+
 def _integrals(dos, column, share, t):
-    """∫ g coth(x/2)/ν dν [modes/THz] on T, ∫ g/ν² dν [modes/THz²] and modes of one column."""
+    """∫ g coth(x/2)/ν dν [modes/THz] on T, ∫ g/ν² dν [modes/THz²] and modes of one column.
+
+    For a mode list ``column`` holds the modes' weights of that column (:func:`_parts`).
+    """
+    if dos.modes is not None:
+        return _mode_integrals(dos.modes, column, share, t)
     nu = np.asarray(dos.frequency_thz, float)
     column = np.asarray(column, float)
     w = column * trapezoid_weights(nu, dos.dos)
@@ -71,7 +93,16 @@ def _integrals(dos, column, share, t):
 
 
 def _species_shares(dos):
-    """Each partial's share of the analytic part, as fixed when the DOS was loaded (``species_shares``)."""
+    """Each partial's share of the analytic part, as fixed when the DOS was loaded (``species_shares``).
+
+    For a mode list: each species' share of the modes below the top of the continuum's blend.
+    """
+    if dos.modes is not None:
+        m = dos.modes
+        top = max((f.blend_top_thz or f.cutoff_thz for f in m.continuum), default=0.0)
+        low = m.frequency_thz <= top
+        whole = float(m.weight[low].sum())
+        return {k: float(m.partials[k][low].sum()) / whole if whole > 0 else 0.0 for k in dos.partials}
     fit = dos.low_frequency
     if fit is None:
         return {name: 0.0 for name in dos.partials}
@@ -105,17 +136,19 @@ def _parts(dos, formula, masses, species=None):
         for name, col in dos.partials.items():
             if species is not None and name not in species:
                 continue
+            col = dos.modes.partials[name] if dos.modes is not None else col
             mass = float(masses[name]) if name in masses else _element_mass(name)
             parts.append((name, col, shares[name], mass, counts.get(name)))
         return parts
+    total = dos.modes.weight if dos.modes is not None else dos.dos     # a mode list: its modes' weights
     if formula:
         molar_mass, atoms = formula_unit(formula)
         counts = _counts_from_formula(formula)
         label = next(iter(counts)) if len(counts) == 1 else ALL_ATOMS
-        return [(label, dos.dos, 1.0, molar_mass / atoms, float(atoms))]
+        return [(label, total, 1.0, molar_mass / atoms, float(atoms))]
     if len(masses) == 1:                      # one species, however many atoms per formula unit
         (name, mass), = masses.items()
-        return [(name, dos.dos, 1.0, float(mass), float(dos.atoms))]
+        return [(name, total, 1.0, float(mass), float(dos.atoms))]
     if masses:
         raise OptionError(f"{len(masses)} masses given but the DOS has no partial columns; give the chemical "
                           "formula for the mass-weighted mean, or one mass for a one-species crystal")

@@ -126,14 +126,15 @@ def connect(path) -> sqlite3.Connection:
     try:
         con, mode = _open(path)
     except sqlite3.DatabaseError as exc:
-        if not path.exists() or str(getattr(exc, "sqlite_errorname", "")).startswith("SQLITE_NOTADB"):
-            raise WorkspaceError(f"{path}: cannot open the workspace ({storage_message(exc, path)})") from None
+        code = str(getattr(exc, "sqlite_errorname", "") or "")
+        if not path.exists() or code.startswith(("SQLITE_NOTADB", "SQLITE_BUSY", "SQLITE_LOCKED")):
+            raise WorkspaceError(f"cannot open the workspace: {storage_message(exc, path)}") from None
         for fallback in ("mode=ro", "immutable=1"):
             try:
                 return _open(path, fallback)[0]
             except sqlite3.DatabaseError:
                 continue
-        raise WorkspaceError(f"{path}: cannot open the workspace ({storage_message(exc, path)})") from None
+        raise WorkspaceError(f"cannot open the workspace: {storage_message(exc, path)}") from None
     if str(mode).lower() != "wal":
         con.close()
         raise WorkspaceError(f"{path}: the workspace cannot use write-ahead logging here (journal mode {mode})")

@@ -148,7 +148,7 @@ class Workspace:
         with self.db() as con, transaction(con, str(self.path)):
             con.execute("INSERT OR IGNORE INTO spaces (name, key, kind, created_utc) VALUES (?, ?, ?, ?)",
                         (name, key, kind, utc_now()))
-        return self._space("name = ?", (name,))
+        return self._space("name = ?", (name,)) if kind == "local" else self._space("key = ?", (key,))
 
     def local(self, name=LOCAL_SPACE):
         """The command line's space ``name`` (created when missing)."""
@@ -169,13 +169,20 @@ class Workspace:
         return space, True
 
     def create_named(self, name):
-        """A new named space with a fresh key (refused when the name is taken)."""
+        """A new named space with a fresh key; its name is the one given plus a tag of the key.
+
+        The tag makes every name new, so creating one tells nothing about the
+        spaces already in the file (no "exists already"), and a name typed in
+        the dashboard never opens the command line's space of that name.
+        """
         name = " ".join(str(name or "").split())
         if not name or name.startswith("browser-"):
             raise WorkspaceError(f"workspace name {name!r} is empty or reserved")
-        if self._space("name = ?", (name,)) is not None:
-            raise WorkspaceError(f"a workspace named {name!r} exists already; open it with its key")
-        return self._create(name, "named")
+        key = secrets.token_urlsafe(32)
+        space = self._create(f"{name} [{sha256_hex(key.encode())[:12]}]", "named", key)
+        if space is None:
+            raise WorkspaceError("could not create the workspace; try again")
+        return space
 
     def spaces(self, kinds=("local", "named")):
         """Spaces of the given kinds, by name (browser spaces are private and left out by default)."""
@@ -300,8 +307,11 @@ class Space:
                     while final in taken:
                         final, k = f"{name} ({k})", k + 1
                     new_id = dataset_id or uuid.uuid4().hex[:10]
-                    if con.execute("SELECT 1 FROM datasets WHERE id = ?", (new_id,)).fetchone():
-                        raise WorkspaceError(f"dataset id {new_id!r} is taken in this workspace file")
+                    owner = con.execute("SELECT space_id FROM datasets WHERE id = ?", (new_id,)).fetchone()
+                    if owner and owner[0] == self.id:
+                        raise WorkspaceError(f"dataset id {new_id!r} is taken in this workspace")
+                    if owner:           # another space's id: a fresh one, and nothing said about the other
+                        new_id = uuid.uuid4().hex[:10]
                     con.execute("INSERT INTO datasets (id, space_id, name, sha256, settings, group_label, note, "
                                 "invented, added_utc) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)",
                                 (new_id, self.id, final, sha, key, str(group or ""), str(note or ""),

@@ -14,6 +14,7 @@ from . import export
 from . import home
 from . import modemap
 from . import models
+from . import phases
 from . import polynomials
 from . import quasiharmonic
 from . import spectrum
@@ -23,6 +24,7 @@ from . import workspace
 PAGES = tuple(sorted((
     home, spectrum, thermodynamics, models, modemap, compare, export,
     quasiharmonic,
+    phases,
     calorimetry,
     electronic,
     displacements,

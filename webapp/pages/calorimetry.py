@@ -16,9 +16,10 @@ from thermo.cli.models import parse_fit_range
 from thermo.columns import column_name, find
 from thermo.errors import ModeheatError, OptionError
 
-from .. import cache, filesets, session
+from .. import budget, cache, filesets, session
 from ..demo import demo_file, electronic_demo_entry
 from .. import components as c
+from .. import exports, handoff
 from .. import figures as fg
 from .. import intake
 from ..intake import decode_upload
@@ -82,6 +83,8 @@ def layout(**_query):
                  className="mh-grid"),
         html.H2("Fitted parameters"),
         dcc.Loading(html.Div(id="cal-params"), type="dot"),
+        exports.download_bar("cal", "calorimetry result", formats=("json", "csv", "xlsx")),
+        handoff.send_bar("cal", "the fitted C_p table", ("polynomials",)),
         html.Div([html.P(text, className="mh-msg mh-msg-info") for text in CAUTIONS], id="cal-cautions"),
     )
 
@@ -123,7 +126,7 @@ def metal_for_the_demo(stored, terms):
 
 def upload_limit():
     """Per-file upload limit [bytes] from the server's settings (never from the browser)."""
-    return int(dash.get_app().server.config["MODEHEAT_MAX_UPLOAD_BYTES"])
+    return intake.upload_limit()
 
 
 def uploaded_measurement(contents, name, max_bytes=None):
@@ -151,9 +154,10 @@ def _measured(stored, unit, formula):
     if stored.get("refused"):
         raise OptionError(stored["refused"])
     # the store is the browser's: its size is checked against the server's limit again, before decoding
-    raw = decode_upload(stored["contents"], stored["name"], upload_limit())
-    return read_heat_capacity(raw, cp_unit=None if unit == "header" else unit, formula=formula or None,
-                              name=stored["name"])
+    with budget.holding(intake.decoded_size(stored["contents"]), stored["name"]):
+        raw = decode_upload(stored["contents"], stored["name"], upload_limit())
+        return read_heat_capacity(raw, cp_unit=None if unit == "header" else unit, formula=formula or None,
+                                  name=stored["name"])
 
 
 def _fixed(text):
@@ -247,7 +251,7 @@ def _with_electronic(report, stored, electronic, config):
     if not electronic:
         return []
     try:
-        edos = intake.electronic_dos(electronic, (config or {}).get("max_upload_bytes"))
+        edos = intake.electronic_dos(electronic)          # the server's upload limit, never the browser's config
     except ModeheatError as exc:
         return [("warn", f"the electronic DOS is not compared: {exc}")]
     report["electronic_dos_comparison"] = electronic_comparison(report, edos)
@@ -376,4 +380,59 @@ def _parameter_table(report):
 
 
 c.follow_image_format(*_GRAPHS)
+
+
+def model_text(lattice, terms):
+    """The ``--model`` text of the page's choices (lattice first, then γT, then the dilation term).
+
+    Examples
+    --------
+    >>> model_text("dos", ["nernst-lindemann", "electronic"])
+    'dos+electronic+nernst-lindemann'
+    """
+    return "+".join([lattice] + [t for t in ("electronic", "nernst-lindemann") if t in (terms or [])])
+
+
+def calorimetry_download(fmt, stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula,
+                         electronic=None, config=None):
+    """The result as ``modeheat calorimetry MEASURED --dos DOS --model TERMS [--atoms N] [--fix ...] [--range LO:HI]
+    [--cp-unit U] [--formula F] [--electronic EDOS] --format FMT`` writes it for the page's settings."""
+    from thermo.calorimetry.export import calorimetry_export
+    stored = stored or demo_measurement()
+    current = _dos_dataset(workspace, stored)
+    measured = _measured(stored, unit, formula)
+    dos = cache.load(current) if current is not None else None
+    if lattice == "dos" and dos is None:
+        raise OptionError("the DOS lattice part needs an active dataset (load one on the Spectrum page)")
+    n = int(dos.atoms if dos is not None and lattice == "dos" else (atoms or 1))
+    model = HeatCapacityModel(atoms=n, lattice=lattice, electronic="electronic" in (terms or []),
+                              dilation="nernst-lindemann" if "nernst-lindemann" in (terms or []) else "none",
+                              dos=dos if lattice == "dos" else None)
+    if not electronic and stored.get("name") == DEMO_FILE.name:
+        electronic = electronic_demo_entry()
+    edos = intake.electronic_dos(electronic, (config or {}).get("max_upload_bytes")) if electronic else None
+    items = [p.strip() for p in str(fix or "").replace(";", ",").split(",") if p.strip()]
+    settings = {"model": model_text(lattice, terms), "metal": False, "fixed": items,
+                "fit_range_K": fit_range or None, "low_t_max_K": None,
+                "atoms": None if dos is not None and lattice == "dos" else n}   # --atoms only without a DOS part
+    record, result, _notes = calorimetry_export(
+        measured, model, parse_fixed(items), parse_fit_range(fit_range) if fit_range else None, None, edos,
+        None if edos is None else electronic["name"], fmt, cp_unit=None if unit == "header" else unit,
+        formula=formula or None, dos=dos, dos_label=None if current is None else current["name"],
+        settings=settings)
+    stem = f"{exports.file_stem(measured.source, 'measured')}-calorimetry"
+    if fmt == "json":
+        return exports.report_file(stem, record, result)
+    return exports.table_file(stem, result, record, fmt, digits=None)
+
+
+_STATES = [State("cal-measured", "data"), State("mh-workspace", "data"), State("cal-lattice", "value"),
+           State("cal-terms", "value"), State("cal-fix", "value"), State("cal-range", "value"),
+           State("cal-atoms", "value"), State("cal-unit", "value"), State("cal-formula", "value"),
+           State("mh-electronic", "data"), State("mh-config", "data")]
+exports.register_download("cal", _STATES, calorimetry_download)
+# the residual and third-law table (fitted C_p, S° from the data) as the csv download writes it
+handoff.register_send("cal", "polynomials", _STATES, lambda *values: calorimetry_download("csv", *values), NAME)
+
+
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -6,7 +6,6 @@ import dash
 from dash import Input, Output, State, callback, dcc, html, no_update
 
 from thermo.columns import column_name, label
-from thermo.temperatures import temperature_range
 from thermo.io.writers import DEFAULT_DIGITS, export_table
 from thermo.vibration.displacements import (CONVENTION, displacement_provenance, displacement_summary,
                                             displacement_table)
@@ -14,7 +13,7 @@ from thermo.vibration.elastic import compare_debye_temperatures, elastic_debye_t
 from thermo.vibration.inputs import parse_distance, parse_masses
 from thermo.vibration.lindemann import LINDEMANN_THRESHOLD
 
-from .. import cache, session
+from .. import budget, cache, session
 from .. import components as c
 from .. import figures as fg
 from ..reporting import reported
@@ -177,7 +176,7 @@ def draw(workspace, t_min, t_max, step, masses_text, distance):
     if current is None:
         blank = fg.message_figure("no dataset loaded")
         return blank, blank, blank, blank, [], []
-    table, summary, notes = results(current, temperature_range(t_min, t_max, step), masses_text, distance)
+    table, summary, notes = results(current, budget.temperatures(t_min, t_max, step), masses_text, distance)
     messages = notes + [("warn", w) for w in summary["warnings"]]
     d = parse_distance(distance) if distance not in (None, "") else None
     return (*figures(table, d), key_numbers(summary), c.message_items(messages))
@@ -205,7 +204,7 @@ def download(_clicks, workspace, t_min, t_max, step, masses_text, distance, fmt)
     current = session.active(workspace)
     if current is None:
         return no_update, c.no_data_note()
-    name, content = export_bytes(current, temperature_range(t_min, t_max, step), masses_text, distance, fmt)
+    name, content = export_bytes(current, budget.temperatures(t_min, t_max, step), masses_text, distance, fmt)
     return dcc.send_bytes(content, name), c.message_items([("info", f"prepared {name}")])
 
 

@@ -11,10 +11,9 @@ from dash import Input, Output, State, callback, dcc, html
 
 from thermo.columns import column_name
 from thermo.electronic import CAUTIONS, electronic_table
-from thermo.temperatures import temperature_range
 from thermo.unit_names import ELECTRON_ENERGY_UNITS
 
-from .. import cache, intake
+from .. import budget, cache, intake
 from .. import components as c
 from .. import figures as fg
 from ..demo import electronic_demo_entry
@@ -102,8 +101,8 @@ def draw(stored, t_min, t_max, step, config):
         stored = electronic_demo_entry()
         notes.append(("info", "Showing the invented demo electronic DOS (imaginary metal 'springium'); "
                               "upload your own file above."))
-    temperatures = temperature_range(t_min, t_max, step)
-    edos, table = computed(stored, temperatures, (config or {}).get("max_upload_bytes"))
+    temperatures = budget.temperatures(t_min, t_max, step)
+    edos, table = computed(stored, temperatures)     # the upload limit is the server's (never config's)
     summary = table.attrs["summary"]
     notes += [("info", n) for n in edos.notes] + [("warn", w) for w in table.attrs["warnings"]]
     e = edos.energies_ev

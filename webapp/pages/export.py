@@ -9,9 +9,9 @@ from dash import Input, Output, State, callback, dcc, html, no_update
 from thermo.columns import find
 from thermo.io.writers import DEFAULT_DIGITS, export_table
 from thermo.tables import provenance
-from thermo.temperatures import DEFAULT_TEMPERATURES, parse_temperatures
+from thermo.temperatures import DEFAULT_TEMPERATURES
 
-from .. import cache, session
+from .. import budget, cache, session
 from .. import components as c
 from .. import figures as fg
 from ..labels import axis_title
@@ -36,7 +36,7 @@ def export_bytes(dataset, spec, per, value_keys, fmt):
     ``value_keys`` are the quantity keys of the value columns to keep, in
     table order (the temperature column is always first).
     """
-    temperatures = parse_temperatures(spec)
+    temperatures = budget.parsed_temperatures(spec)
     df = cache.table(dataset, temperatures, per)
     chosen = set(value_keys or ALL_VALUES)
     keep = [find(df, "temperature")] + [find(df, key) for key in ALL_VALUES if key in chosen]
@@ -73,12 +73,12 @@ def layout(**_query):
 
 def preview_figure(dataset, spec, per, keys):
     """The first chosen value column of the export against temperature."""
-    df = cache.table(dataset, parse_temperatures(spec), per)
+    df = cache.table(dataset, budget.parsed_temperatures(spec), per)
     chosen = set(keys or ALL_VALUES)
     col = find(df, next(key for key in ALL_VALUES if key in chosen))
     t = find(df, "temperature")
     fig = fg.figure("temperature T [K]", axis_title(col))
-    fig.add_trace(go.Scatter(x=df[t], y=df[col], mode="lines+markers", name=col,
+    fig.add_trace(go.Scatter(x=df[t], y=df[col], mode="lines+markers", name=fg.plot_text(col),
                              marker={"size": 4}, line={"color": fg.PALETTE[0]}, hovertemplate="%{y:.6g}"))
     return fig
 

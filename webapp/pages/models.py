@@ -9,11 +9,10 @@ from dash import Input, Output, State, callback, html
 
 from thermo import models
 from thermo.columns import find
-from thermo.temperatures import temperature_range
 
-from .. import cache, session
+from .. import budget, cache, session
 from .. import components as c
-from .. import exports
+from .. import exports, notices
 from .. import figures as fg
 from ..labels import axis_title, theta_label
 from ..reporting import reported
@@ -74,12 +73,12 @@ def figures(dataset, temperatures, per, einstein_key, debye_key, optical_terms, 
     for k, (label, df) in enumerate(tables.items()):
         style = {"width": 3 if label == "DOS" else 2, "color": fg.PALETTE[k % len(fg.PALETTE)],
                  "dash": None if label == "DOS" else ("dash", "dot", "dashdot")[k % 3]}
-        values.add_trace(go.Scatter(x=df[t], y=df[cv], name=label, mode="lines", line=style,
+        values.add_trace(go.Scatter(x=df[t], y=df[cv], name=fg.plot_text(label), mode="lines", line=style,
                                     hovertemplate="%{y:.5g}"))
         if label != "DOS":
             res = models.residual_table(dos_table, df)
             residual.add_trace(go.Scatter(x=res[find(res, "temperature")], y=res[find(res, residual_key)],
-                                          name=label, mode="lines", line=style, hovertemplate="%{y:.3g}"))
+                                          name=fg.plot_text(label), mode="lines", line=style, hovertemplate="%{y:.3g}"))
     residual.add_hline(y=0, line_color="#9aa7b0")
 
     low_t = np.geomspace(1.0, max(2.0, min(float(np.max(temperatures)), 300.0)), 120)
@@ -175,9 +174,10 @@ def draw(workspace, einstein_key, debye_key, optical, t_min, t_max, step, per, r
     if current is None:
         blank = fg.message_figure("no dataset loaded")
         return blank, blank, blank, blank, []
-    temperatures = temperature_range(t_min, t_max, step)
+    temperatures = budget.temperatures(t_min, t_max, step)
+    warnings = [(current["name"], w) for w in cache.load(current).warnings]
     return (*figures(current, temperatures, per, einstein_key, debye_key, optical,
-                     residual_key or "heat_capacity_v"), [])
+                     residual_key or "heat_capacity_v"), notices.warning_items(warnings))
 
 
 def models_download(fmt, workspace, t_min, t_max, step, optical):
@@ -189,7 +189,7 @@ def models_download(fmt, workspace, t_min, t_max, step, optical):
     current = session.active(workspace)
     if current is None:
         return None
-    info, result = models_export(cache.load(current), temperature_range(t_min, t_max, step),
+    info, result = models_export(cache.load(current), budget.temperatures(t_min, t_max, step),
                                  optical_terms=int(optical or 1), fmt=fmt)
     stem = f"{exports.file_stem(current['name'])}-models"
     if fmt == "json":

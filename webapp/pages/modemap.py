@@ -19,6 +19,9 @@ PATH, NAME, ORDER = "/modes", "Mode map", 4
 
 BINS = 160
 MAP_TEMPERATURES = 120
+#: Colour scales: per-temperature normalisation (default) or the logarithm of the share.
+SCALE_CHOICES = [{"label": "per temperature (largest bin = 100)", "value": "column"},
+                 {"label": "log₁₀ of the share", "value": "log"}]
 SHARE_CHOICES = [{"label": "heat capacity C_v", "value": "heat_capacity_share"},
                  {"label": "entropy S", "value": "entropy_share"}]
 #: Slider marks of the explorer temperature: log10(T/K).
@@ -37,16 +40,40 @@ def share_map(dataset, temperatures):
                          t.tobytes(), BINS)
 
 
-def heat_map_figure(dataset, temperatures, quantity):
-    """Heat map of the chosen share over temperature × frequency."""
+def colour_values(share_percent, scale="column"):
+    """Colour values of a share map [% per bin] (frequency × temperature) and the colour bar title.
+
+    ``column``: each temperature's shares divided by its largest, in % (every
+    column reaches 100, so high temperatures, where the share spreads over
+    many bins, are as visible as low ones); ``log``: log₁₀ of the share in %,
+    floored at 10⁻⁴ %.
+
+    Examples
+    --------
+    >>> z, title = colour_values(np.array([[50.0, 1.0], [50.0, 0.5]]))
+    >>> z[:, 1].tolist(), title
+    ([100.0, 50.0], 'share relative to the largest bin at that T [%]')
+    """
+    z = np.asarray(share_percent, dtype=float)
+    if scale == "log":
+        return np.log10(np.maximum(z, 1e-4)), "log₁₀(share [% per bin])"
+    top = np.max(z, axis=0, keepdims=True)
+    return 100.0 * np.divide(z, top, out=np.zeros_like(z), where=top > 0), \
+        "share relative to the largest bin at that T [%]"
+
+
+def heat_map_figure(dataset, temperatures, quantity, scale="column"):
+    """Heat map of the chosen share over temperature × frequency, coloured by ``scale`` (:func:`colour_values`)."""
     data = share_map(dataset, temperatures)
     label = "C_v" if quantity == "heat_capacity_share" else "S"
     z = np.asarray(data[quantity], dtype=float) * 100.0
+    colour, title = colour_values(z, scale)
     fig = fg.figure("temperature T [K]", "frequency ν [THz]")
-    fig.add_trace(go.Heatmap(x=data["temperature_K"], y=data["frequency_thz"], z=z,
+    fig.add_trace(go.Heatmap(x=data["temperature_K"], y=data["frequency_thz"], z=colour, customdata=z,
                              colorscale=[[0, "#f7f4ea"], [0.35, "#e3b15c"], [0.7, "#b85b2c"], [1, "#3a1f3d"]],
-                             colorbar={"title": {"text": f"share of {label} [% per bin]"}},
-                             hovertemplate="T %{x:.4g} K<br>ν %{y:.3g} THz<br>%{z:.3g} %<extra></extra>"))
+                             colorbar={"title": {"text": f"{label}: {title}", "side": "right"}},
+                             hovertemplate="T %{x:.4g} K<br>ν %{y:.3g} THz<br>%{customdata:.3g} % of "
+                                           + label + "<extra></extra>"))
     fig.update_layout(hovermode="closest")
     fig.update_xaxes(type="log")
     return fig
@@ -89,9 +116,11 @@ def layout(**_query):
         c.controls(c.radio("mm-quantity", SHARE_CHOICES, "heat_capacity_share", "Share of"),
                    c.number("mm-tmin", 2, "T from [K]", min_value=0.1),
                    c.number("mm-tmax", 1000, "T to [K]", min_value=0.1),
+                   c.radio("mm-scale", SCALE_CHOICES, "column", "Colour scale"),
                    html.Small(f"{MAP_TEMPERATURES} temperatures, evenly spaced in log T", className="mh-hint")),
         c.messages_panel("mm-messages"),
-        c.graph("mm-map-graph", "Share of the chosen quantity per frequency bin (each column sums to 100 %)"),
+        c.graph("mm-map-graph", "Share of the chosen quantity per frequency bin (each column sums to 100 %; the "
+                                "colour scale is stated on its bar)"),
         html.H2("At one temperature"),
         c.field("Temperature (log scale)", dcc.Slider(id="mm-temperature", min=0, max=np.log10(3000.0), step=0.01,
                                                       value=np.log10(300.0), marks=_MARKS,
@@ -115,14 +144,14 @@ def map_temperatures(t_min, t_max):
 
 @callback(Output("mm-map-graph", "figure"), Output("mm-messages", "children"),
           Input("mh-workspace", "data"), Input("mm-quantity", "value"), Input("mm-tmin", "value"),
-          Input("mm-tmax", "value"))
+          Input("mm-tmax", "value"), Input("mm-scale", "value"))
 @reported(lambda message: (fg.message_figure("nothing to show"), c.message_items([("error", message)])))
-def draw_map(workspace, quantity, t_min, t_max):
-    """The share heat map for the chosen quantity and temperature range."""
+def draw_map(workspace, quantity, t_min, t_max, scale="column"):
+    """The share heat map for the chosen quantity, temperature range and colour scale."""
     current = session.active(workspace)
     if current is None:
         return fg.message_figure("no dataset loaded"), []
-    return heat_map_figure(current, map_temperatures(t_min, t_max), quantity), []
+    return heat_map_figure(current, map_temperatures(t_min, t_max), quantity, scale or "column"), []
 
 
 @callback(Output("mm-cumulative-graph", "figure"), Output("mm-planck-graph", "figure"),

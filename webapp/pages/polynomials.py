@@ -11,7 +11,7 @@ from thermo.polynomials.cantera_yaml import polynomial_export, species_name
 from thermo.provenance import dos_input
 from thermo.polynomials import fit_polynomial, harmonic_source
 
-from .. import cache, session
+from .. import cache, handoff, session
 from .. import components as c
 from .. import figures as fg
 from ..reporting import one_line, reported
@@ -45,9 +45,45 @@ def fitted(dataset, form, t_min, t_max, t_mid, formation, phase, formula):
                          phase or "cr", name)
 
 
-def export_text(dataset, fit, fmt, formula):
+def fitted_table(item, form, t_min, t_max, t_mid, formation, phase, formula):
+    """The fit of a table sent from another page, as ``modeheat polynomial --cp-table FILE`` fits the downloaded
+    file (memoised by the sent bytes and the settings); ``(source, fit, inputs entry)``."""
+    from thermo.polynomials import source_from_table
+    from thermo.provenance import input_record
+    lo, hi = _number(t_min, 298.15), _number(t_max, 1500.0)
+    mid = None if t_mid in (None, "") else float(t_mid)
+    name = species_name(formula, phase) if formula else None
+    raw = item["csv"].encode("utf-8")
+    entry = input_record(item["name"], data=raw, options={"entropy_298_J_per_mol_K": None},
+                         role="heat-capacity table")
+
+    def compute():
+        table, _ = handoff.sent_table(item)
+        source = source_from_table(table, label=f"C_p table {item['name']}")
+        return source, fit_polynomial(source, form, (lo, hi), t_mid=mid, formation_enthalpy=_number(formation, 0.0),
+                                      phase=phase or "cr", name=name)
+    source, fit = cache.result(("polynomial-table", item["sha256"], form, lo, hi, mid, _number(formation, 0.0),
+                                phase or "cr", name), compute)
+    return source, fit, entry
+
+
+def export_text(dataset, fit, fmt, formula, entry=None):
     """The coefficient file with its provenance, as ``modeheat polynomial`` writes it."""
-    return polynomial_export(fit, fmt, formula, fit.provenance([dos_input(cache.load(dataset))], formula))
+    entry = entry if entry is not None else dos_input(cache.load(dataset))
+    return polynomial_export(fit, fmt, formula, fit.provenance([entry], formula))
+
+
+def _fit_of(workspace, sent, choice, settings):
+    """``(label, source, fit, entry)`` of the chosen C_p: the active dataset's harmonic table or a sent table."""
+    item = handoff.received(sent, "polynomials") if choice == "sent" else None
+    if item is not None:
+        source, fit, entry = fitted_table(item, *settings)
+        return item["name"], source, fit, entry
+    current = session.active(workspace)
+    if current is None:
+        return None
+    source, fit = fitted(current, *settings)
+    return current["name"], source, fit, dos_input(cache.load(current))
 
 
 def figures(source, fit):
@@ -56,7 +92,8 @@ def figures(source, fit):
     data = source.within(fit.t_min, fit.t_max)
     p = fit.properties(t)
     over = fg.figure("temperature T [K]", "C_p [J/(mol·K)]")
-    over.add_trace(fg.line(t, data.heat_capacity, "harmonic table (C_p = C_v)", 0, width=5))
+    over.add_trace(fg.line(t, data.heat_capacity, data.label if str(data.label).startswith("C_p table")
+                           else "harmonic table (C_p = C_v)", 0, width=5))
     over.add_trace(fg.line(t, p["heat_capacity_p"], f"{fit.form} fit", 1, dash="dash"))
     if data.uncertainty is not None:
         u = data.uncertainty["heat_capacity"]
@@ -100,6 +137,8 @@ def layout(**_query):
                        "active dataset, ready for thermochemical databases. C_p is fitted; H and S follow "
                        "from it, anchored to the table at 298.15 K.",
         c.active_slot("po"),
+        c.radio("po-source", [{"label": "active dataset (harmonic C_p = C_v)", "value": "dataset"}], "dataset",
+                "C_p from"),
         c.controls(c.radio("po-form", FORM_CHOICES, "shomate", "Form"),
                    c.number("po-tmin", 298.15, "T from [K]", min_value=1),
                    c.number("po-tmax", 1500, "T to [K]", min_value=1),
@@ -141,20 +180,21 @@ _SETTINGS = [Input("po-form", "value"), Input("po-tmin", "value"), Input("po-tma
 
 @callback(Output("po-fit-graph", "figure"), Output("po-error-graph", "figure"), Output("po-keys", "children"),
           Output("po-block", "children"), Output("po-messages", "children"),
-          Input("mh-workspace", "data"), *_SETTINGS, Input("po-output", "value"))
+          Input("mh-workspace", "data"), *_SETTINGS, Input("po-output", "value"), Input("po-source", "value"),
+          Input(handoff.STORE_ID, "data"))
 @reported(_failed)
-def draw(workspace, form, t_min, t_max, t_mid, formation, phase, formula, output):
+def draw(workspace, form, t_min, t_max, t_mid, formation, phase, formula, output, choice=None, sent=None):
     """Fit, overlay and error plots, key numbers, the coefficient block and the warnings."""
-    current = session.active(workspace)
-    if current is None:
+    settings = _settings(form, t_min, t_max, t_mid, formation, phase, formula)
+    chosen = _fit_of(workspace, sent, choice, settings)
+    if chosen is None:
         blank = fg.message_figure("no dataset loaded")
         return blank, blank, [], "", []
-    settings = _settings(form, t_min, t_max, t_mid, formation, phase, formula)
-    source, fit = fitted(current, *settings)
+    _, source, fit, entry = chosen
     over, err = figures(source, fit)
     messages = [("warning", w) for w in fit.warnings]
     try:
-        block = export_text(current, fit, output or "json", settings[-1] or None)
+        block = export_text(None, fit, output or "json", settings[-1] or None, entry)
     except ModeheatError as exc:  # a format this fit cannot take (SGTE or no formula for YAML): say so
         block, messages = "", messages + [("error", one_line(exc))]
     return over, err, error_numbers(fit), block, c.message_items(messages)
@@ -163,22 +203,23 @@ def draw(workspace, form, t_min, t_max, t_mid, formation, phase, formula, output
 @callback(Output("po-download", "data"), Output("po-messages", "children", allow_duplicate=True),
           Input("po-download-btn", "n_clicks"), State("mh-workspace", "data"),
           *[State(i.component_id, i.component_property) for i in _SETTINGS], State("po-output", "value"),
-          prevent_initial_call=True)
+          State("po-source", "value"), State(handoff.STORE_ID, "data"), prevent_initial_call=True)
 @reported(lambda message: (no_update, c.message_items([("error", message)])))
-def download(_clicks, workspace, form, t_min, t_max, t_mid, formation, phase, formula, output):
-    """The coefficient file, as ``modeheat polynomial`` writes it."""
-    current = session.active(workspace)
-    if current is None:
-        return no_update, [c.no_data_note()]
+def download(_clicks, workspace, form, t_min, t_max, t_mid, formation, phase, formula, output, choice=None, sent=None):
+    """The coefficient file, as ``modeheat polynomial`` writes it (``--cp-table`` for a sent table)."""
     settings = _settings(form, t_min, t_max, t_mid, formation, phase, formula)
-    _, fit = fitted(current, *settings)
+    chosen = _fit_of(workspace, sent, choice, settings)
+    if chosen is None:
+        return no_update, [c.no_data_note()]
+    label, _, fit, entry = chosen
     fmt = output or "json"
-    text = export_text(current, fit, fmt, settings[-1] or None)
-    stem = current["name"].rsplit(".", 1)[0] or "polynomial"
+    text = export_text(None, fit, fmt, settings[-1] or None, entry)
+    stem = label.rsplit(".", 1)[0] or "polynomial"
     name = f"{stem}-{fit.form}.{fmt}"
     return dcc.send_string(text, name), no_update
 
 
+handoff.follow_sent("polynomials", "po-source")
 c.follow_active("po")
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

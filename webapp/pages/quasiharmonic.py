@@ -5,7 +5,6 @@ from __future__ import annotations
 import base64
 import hashlib
 import json
-from pathlib import Path
 
 import dash
 import numpy as np
@@ -13,15 +12,15 @@ from dash import Input, Output, State, callback, dash_table, dcc, html, no_updat
 
 from thermo.columns import error_column_for, find, lookup
 from thermo.errors import DosInputError, OptionError
-from thermo.io.writers import DEFAULT_DIGITS, export_table
 from thermo.quasiharmonic import (CAUTIONS, free_energy_curves, free_energy_surface, make_volume_set,
                                   quasiharmonic_table, read_manifest)
 from thermo.quasiharmonic.report import quasiharmonic_provenance
-from thermo.temperatures import STANDARD_TEMPERATURE, temperature_range, with_standard_temperature
+from thermo.temperatures import STANDARD_TEMPERATURE, with_standard_temperature
 
-from .. import cache, filesets, session
+from .. import budget, cache, filesets, intake, session
 from ..demo import demo_file
 from .. import components as c
+from .. import exports, handoff, notices
 from .. import figures as fg
 from ..labels import PER_CHOICES, axis_title
 from ..reporting import reported
@@ -35,8 +34,6 @@ EOS_CHOICES = [{"label": "Birch–Murnaghan (3rd order)", "value": "birch-murnag
 ERROR_CHOICES = [{"label": "estimate, shown as bands", "value": "on"}, {"label": "off", "value": "off"}]
 SOURCE_CHOICES = [{"label": "manifest + DOS files", "value": "manifest"},
                   {"label": "loaded datasets (type volumes and energies)", "value": "datasets"}]
-FORMAT_CHOICES = [{"label": "CSV", "value": "csv"}, {"label": "Excel (XLSX)", "value": "xlsx"},
-                  {"label": "JSON", "value": "json"}]
 #: Temperatures of the F(V) curves [K].
 CURVE_TEMPERATURES = (0.0, 200.0, 400.0, 600.0, 800.0, 1000.0)
 _GRAPHS = ("qh-fv-graph", "qh-v-graph", "qh-alpha-graph", "qh-b-graph", "qh-cp-graph", "qh-gamma-graph",
@@ -59,10 +56,15 @@ def demo_set():
 DEMO_LABEL = "invented demo set (springium, 11 volumes)"
 
 
+def _decoded(entry):
+    """The bytes of a record's file (base64), each within the server's per-file upload limit."""
+    return intake.decode_upload("data:;base64," + str(entry["content"]), str(entry["name"]))
+
+
 def set_files(record):
     """``[(role, name, bytes), ...]`` of a record: the manifest first, then its DOS files."""
-    return [("manifest", record["manifest"]["name"], base64.b64decode(record["manifest"]["content"]))] + \
-        [("dos", f["name"], base64.b64decode(f["content"])) for f in record["files"]]
+    return [("manifest", record["manifest"]["name"], _decoded(record["manifest"]))] + \
+        [("dos", f["name"], _decoded(f)) for f in record["files"]]
 
 
 def record_of(files):
@@ -86,7 +88,7 @@ def set_from_uploads(names, contents):
     """The record of an upload: the file whose header names ``volume_A3`` is the manifest."""
     manifest, files = None, []
     for name, url in zip(names or [], contents or []):
-        raw = base64.b64decode(url.split(",", 1)[1])
+        raw = intake.decode_upload(url, name)
         if manifest is None and b"volume_A3" in raw[:4000] and b"dos_file" in raw[:4000]:
             manifest = _entry(name, raw)
         else:
@@ -109,9 +111,10 @@ def _volume_set(record, source, rows, workspace, negative):
             entries.append((float(row["volume_A3"]), float(row["energy_eV"]), dos, dataset["name"]))
         return make_volume_set(entries, {"name": "loaded datasets"})
     manifest = record["manifest"]
-    files = {f["name"]: base64.b64decode(f["content"]) for f in record["files"]}
-    return read_manifest(base64.b64decode(manifest["content"]), files=files, negative=negative,
-                         name=manifest["name"])
+    size = sum(len(str(f["content"])) * 3 // 4 for f in [manifest, *record["files"]])
+    with budget.holding(size, manifest["name"]):
+        files = {f["name"]: _decoded(f) for f in record["files"]}
+        return read_manifest(_decoded(manifest), files=files, negative=negative, name=manifest["name"])
 
 
 def results(record, source, rows, workspace, temperatures, pressure, eos, per, negative, formula=None,
@@ -219,9 +222,8 @@ def layout(**_query):
                   c.graph("qh-residual-graph", "Root-mean-square misfit of the equation of state to F(V) "
                                                "at each temperature")], className="mh-grid"),
         html.H2("Export"),
-        html.Div([c.radio("qh-format", FORMAT_CHOICES, "csv", "File format"),
-                  html.Button("Download quasi-harmonic table", id="qh-download-btn", className="mh-button mh-primary"),
-                  dcc.Download(id="qh-download")], className="mh-inline"),
+        exports.download_bar("qh", "quasi-harmonic table"),
+        handoff.send_bar("qh", "the table", ("polynomials",)),
         html.Ul([html.Li(text) for text in CAUTIONS], className="mh-caution"),
     )
 
@@ -287,7 +289,7 @@ def _tolerance(percent):
 
 def _settings(t_min, t_max, step, pressure):
     """The temperature grid (with 298.15 K when inside it) and the pressure [GPa]."""
-    return with_standard_temperature(temperature_range(t_min, t_max, step)), float(pressure or 0.0)
+    return with_standard_temperature(budget.temperatures(t_min, t_max, step)), float(pressure or 0.0)
 
 
 def _quoted(table, key):
@@ -319,29 +321,27 @@ def draw(record, source, rows, workspace, t_min, t_max, step, pressure, eos, per
                           ("largest EOS rms residual", f"{diag['max_fit_residual_meV']:.3g} meV"),
                           ("rows outside the sampled volumes", str(int(table[find(table, 'outside_volume_range')].sum()))),
                           *[_quoted(table, key) for key in ("volume", "thermal_expansion", "bulk_modulus_T")]])
-    notes = [("warn", w) for w in diag["warnings"]] + [("warn", f"{n}: {w}") for n, d in zip(vs.names, vs.doses)
-                                                       for w in d.warnings if "inferred" not in w]
-    return (*figures(table, curves), keys, c.message_items(notes[:12]))
+    notes = [(None, w) for w in diag["warnings"]] + [(n, w) for n, d in zip(vs.names, vs.doses) for w in d.warnings]
+    return (*figures(table, curves), keys, notices.warning_items(notes))   # each caution once (notices.py)
 
 
-@callback(Output("qh-download", "data"), Output("qh-messages", "children", allow_duplicate=True),
-          Input("qh-download-btn", "n_clicks"), State("qh-set", "data"), State("qh-source", "value"),
-          State("qh-rows", "data"), State("mh-workspace", "data"), State("qh-tmin", "value"), State("qh-tmax", "value"),
-          State("qh-step", "value"), State("qh-pressure", "value"), State("qh-eos", "value"), State("qh-per", "value"),
-          State("qh-negative", "value"), State("qh-formula", "value"), State("qh-tolerance", "value"),
-          State("qh-format", "value"), State("qh-errors", "value"),
-          prevent_initial_call=True)
-@reported(lambda message: (no_update, c.message_items([("error", message)])))
-def download(_clicks, record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula,
-             tolerance, fmt, errors="on"):
-    """The quasi-harmonic table with its provenance, as the command line writes it (``--errors`` when shown)."""
+def table_download(fmt, record, source, rows, workspace, t_min, t_max, step, pressure, eos, per, negative, formula,
+                   tolerance, errors="on"):
+    """The quasi-harmonic table with its provenance, as ``modeheat quasiharmonic`` writes it (``--errors`` when shown)."""
     temperatures, p = _settings(t_min, t_max, step, pressure)
     vs, table, _ = results(record, source, rows, workspace, temperatures, p, eos, per, negative, formula or None,
                            tolerance, errors != "off")
-    content = export_table(table, quasiharmonic_provenance(vs, table, temperatures), fmt, digits=DEFAULT_DIGITS)
-    name = f"{Path(str(vs.source.get('name') or 'volumes')).stem}-quasiharmonic-{per}.{fmt}"
-    return dcc.send_bytes(content, name), c.message_items([("info", f"prepared {name}")])
+    stem = f"{exports.file_stem(vs.source.get('name'), 'volumes')}-quasiharmonic-{per}"
+    return exports.table_file(stem, table, quasiharmonic_provenance(vs, table, temperatures), fmt)
 
 
+_TABLE_STATES = [State("qh-set", "data"), State("qh-source", "value"), State("qh-rows", "data"),
+                 State("mh-workspace", "data"), State("qh-tmin", "value"), State("qh-tmax", "value"),
+                 State("qh-step", "value"), State("qh-pressure", "value"), State("qh-eos", "value"),
+                 State("qh-per", "value"), State("qh-negative", "value"), State("qh-formula", "value"),
+                 State("qh-tolerance", "value"), State("qh-errors", "value")]
+exports.register_download("qh", _TABLE_STATES, table_download)
+for _target in ("polynomials",):      # the CSV the download writes (C_p, S with their errors)
+    handoff.register_send("qh", _target, _TABLE_STATES, lambda *values: table_download("csv", *values), NAME)
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -6,10 +6,11 @@ from __future__ import annotations
 import dash
 from dash import ClientsideFunction, Input, Output, State, callback, clientside_callback, ctx, dcc, html, no_update
 
-from thermo.accuracy.breakdown import FLAG_SPREAD, PARTS, error_breakdown, error_column
+from thermo.accuracy.breakdown import FLAG_SPREAD, PARTS, error_column
 from thermo.accuracy.resolution import analyse_resolution, resolution_note
+from thermo.accuracy.reuse import table_breakdown
 from thermo.errors import OptionError
-from thermo.preparation.options import ReadingOptions
+from thermo.preparation.options import ReadingOptions, elastic_theta
 from thermo.units import FREQUENCY_UNITS
 
 from .. import cache, intake, session
@@ -21,9 +22,9 @@ PATH, NAME, ORDER = "/spectrum", "Spectrum", 1
 
 NEGATIVE_CHOICES = c.NEGATIVE_CHOICES
 LOW_CHOICES = [{"label": "automatic", "value": "auto"}, {"label": "window", "value": "manual"},
-               {"label": "off", "value": "off"}]
+               {"label": "elastic θ_D", "value": "elastic"}, {"label": "off", "value": "off"}]
 _CONTROL_IDS = ("sp-unit", "sp-atoms", "sp-formula", "sp-negative", "sp-lowmode", "sp-low-lo", "sp-low-hi",
-                "sp-sheet")
+                "sp-sheet", "sp-elastic")
 _UPLOAD = "mh-upload-checked"
 _REFUSED = "sp-refused"
 _RETRY = "sp-retry-btn"
@@ -66,14 +67,16 @@ def control_values(workspace):
     current = session.active(workspace)
     opts = session.options_of(current)
     low = opts["low_frequency"]
-    if low in ("auto", "off"):
-        mode, (lo, hi) = low, _automatic_window(current)
+    theta = elastic_theta(low)
+    if low in ("auto", "off") or theta is not None:
+        mode, (lo, hi) = ("elastic" if theta is not None else low), _automatic_window(current)
     else:
         mode, lo, hi = ("manual", *(float(v) for v in str(low).split(":")))
     negative = {"keep-count": "drop-unscaled"}.get(opts["negative"], opts["negative"])
     return {"sp-unit": opts["freq_unit"] or "auto", "sp-atoms": opts["atoms"],
             "sp-formula": opts["formula"] or "", "sp-negative": negative,
-            "sp-lowmode": mode, "sp-low-lo": lo, "sp-low-hi": hi, "sp-sheet": opts.get("sheet") or ""}
+            "sp-lowmode": mode, "sp-low-lo": lo, "sp-low-hi": hi, "sp-sheet": opts.get("sheet") or "",
+            "sp-elastic": theta}
 
 
 def options_from_controls(values, trigger=None, shown_window=(None, None)):
@@ -82,17 +85,26 @@ def options_from_controls(values, trigger=None, shown_window=(None, None)):
     Typing a window limit (``trigger`` is a window field) chooses the manual
     window, so typed numbers are used rather than wiped; limits equal to
     ``shown_window`` (the automatic window the page filled in) change nothing.
+    Typing an elastic Debye temperature chooses the elastic anchor
+    (``elastic:THETA``, :mod:`thermo.preparation.anchor`).
     """
     mode = values.get("sp-lowmode") or "auto"
     lo, hi = values.get("sp-low-lo"), values.get("sp-low-hi")
+    theta = values.get("sp-elastic")
     if trigger in ("sp-low-lo", "sp-low-hi") and lo is not None and hi is not None \
             and (lo, hi) != tuple(shown_window):
         mode = "manual"
+    if trigger == "sp-elastic" and theta is not None:
+        mode = "elastic"
     if mode == "manual" and (lo is None or hi is None):
         raise OptionError("type both limits of the low-frequency window (THz), e.g. 0.2 and 0.6")
+    if mode == "elastic" and theta is None:
+        raise OptionError("type the elastic Debye temperature θ_D (K), e.g. from the elastic command")
     unit = values.get("sp-unit")
     chosen = ReadingOptions(freq_unit=None if unit in (None, "auto") else unit, atoms=values.get("sp-atoms"),
-                            negative=values.get("sp-negative"), low_frequency=(lo, hi) if mode == "manual" else mode,
+                            negative=values.get("sp-negative"),
+                            low_frequency=(lo, hi) if mode == "manual" else f"elastic:{theta}" if mode == "elastic"
+                            else mode,
                             formula=values.get("sp-formula"), sheet=values.get("sp-sheet"))
     return chosen.stored()
 
@@ -100,8 +112,8 @@ def options_from_controls(values, trigger=None, shown_window=(None, None)):
 def upload_options(values):
     """Reading options for the next upload from the controls.
 
-    A manual window belongs to one spectrum, so the next file gets the
-    automatic window; bad control values give the default options.
+    A manual window or an elastic θ_D belongs to one spectrum, so the next
+    file gets the automatic treatment; bad control values give the default options.
 
     Examples
     --------
@@ -109,7 +121,8 @@ def upload_options(values):
     2
     """
     mode = values.get("sp-lowmode")
-    options, error = attempt(options_from_controls, {**values, "sp-lowmode": "auto" if mode == "manual" else mode})
+    options, error = attempt(options_from_controls,
+                             {**values, "sp-lowmode": "auto" if mode in ("manual", "elastic") else mode})
     return dict(session.DEFAULT_OPTIONS) if error else options
 
 
@@ -180,7 +193,7 @@ def dataset_summary(dataset):
         return [dataset["name"], "—", "—", "—", error]
     src = dos.source
     return [dataset["name"], str(dos.atoms) + (" (inferred)" if src.get("atoms_inferred") else ""),
-            src.get("freq_unit", "?"), str(len(dos.input_frequency_thz)),
+            src.get("freq_unit", "?"), f"{src['modes']} modes" if "modes" in src else str(len(dos.input_frequency_thz)),
             f"{100 * src.get('negative_mode_fraction', 0):.3g} %"]
 
 
@@ -213,7 +226,7 @@ ACCURACY_TEMPERATURES = (5.0, 20.0, 298.15)
 
 def accuracy_items(dos):
     """``(kind, text)`` lines of the error breakdown (every part) of C_v and S, and what the data resolve."""
-    table = error_breakdown(dos, ACCURACY_TEMPERATURES)
+    table = table_breakdown(dos, ACCURACY_TEMPERATURES)
     items = []
     note = resolution_note(analyse_resolution(dos), ACCURACY_TEMPERATURES)
     if note:
@@ -271,6 +284,8 @@ def layout(**_query):
                 html.Div([c.number("sp-low-lo", values["sp-low-lo"], "Window from [THz]", min_value=0),
                           c.number("sp-low-hi", values["sp-low-hi"], "to [THz]", min_value=0)],
                          className="mh-inline"),
+                c.number("sp-elastic", values["sp-elastic"], "Elastic θ_D [K]", min_value=0,
+                         hint="anchors the long-wave limit (e.g. from the elastic command)"),
                 c.text("sp-sheet", values["sp-sheet"], "Sheet (.xlsx)", placeholder="first sheet",
                        hint="name or number from 1"),
             ], className="mh-side"),

@@ -8,11 +8,10 @@ from dash import Input, Output, State, callback, dcc, html
 
 from thermo.columns import error_column_for, find
 from thermo.tables import classical_heat_capacity, provenance
-from thermo.temperatures import temperature_range
 
-from .. import cache, session
+from .. import budget, cache, session
 from .. import components as c
-from .. import exports
+from .. import exports, notices
 from .. import figures as fg
 from ..labels import axis_title, unit_of
 from ..reporting import reported
@@ -131,8 +130,9 @@ def draw(workspace, t_min, t_max, step, per, log_t):
     if current is None:
         blank = fg.message_figure("no dataset loaded")
         return blank, blank, blank, blank, [], [], []
-    figs, keys, table = figures(current, temperature_range(t_min, t_max, step), per, bool(log_t))
-    return (*figs, keys, table, [])
+    figs, keys, table = figures(current, budget.temperatures(t_min, t_max, step), per, bool(log_t))
+    warnings = [(current["name"], w) for w in cache.load(current).warnings]
+    return (*figs, keys, table, notices.warning_items(warnings))
 
 
 def table_download(fmt, workspace, t_min, t_max, step, per):
@@ -140,7 +140,7 @@ def table_download(fmt, workspace, t_min, t_max, step, per):
     current = session.active(workspace)
     if current is None:
         return None
-    temperatures = temperature_range(t_min, t_max, step)
+    temperatures = budget.temperatures(t_min, t_max, step)
     formula = session.options_of(current).get("formula") or None
     info = provenance(cache.load(current), temperatures, per=per, formula=formula)
     return exports.table_file(f"{exports.file_stem(current['name'])}-{per}",

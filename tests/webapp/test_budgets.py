@@ -1,0 +1,112 @@
+"""Every page request is held to the server's budgets (webapp.budget): over a limit is a one-line refusal.
+
+Resource use at the documented maxima is measured by tests/budget/ (``make test-budget``);
+these tests check that each limit is enforced.  Test files are invented (Debye ν² spectra).
+"""
+
+from __future__ import annotations
+
+import base64
+import json
+import threading
+
+import pytest
+
+from tests.spectra import debye_table, dos_text
+from webapp import budget, intake, session
+from webapp.app import create_app
+from webapp.pages import electronic, export, quasiharmonic, thermodynamics
+
+TEXT = dos_text(*debye_table(300.0, points=201))
+
+
+def _url(raw: bytes):
+    return "data:application/octet-stream;base64," + base64.b64encode(raw).decode()
+
+
+@pytest.fixture(scope="module")
+def client():
+    return create_app().server.test_client()
+
+
+@pytest.fixture
+def ws():
+    new, _ = intake.add_uploads(session.empty_workspace(), [_url(TEXT.encode())], ["d.dat"], 10 ** 6)
+    return new
+
+
+def test_default_page_budget_is_documented_value():
+    assert budget.setting("MODEHEAT_MAX_TEMPERATURES") == 20_000
+    with open("docs/limits.md", encoding="utf-8") as handle:
+        text = handle.read()
+    for name in ("MODEHEAT_MAX_TEMPERATURES", "MODEHEAT_MAX_INFLIGHT_MB", "MODEHEAT_MAX_JSON_DEPTH",
+                 "MODEHEAT_MAX_JSON_CONTAINERS", "20,000"):
+        assert name in text
+
+
+def test_temperatures_over_the_page_budget_are_refused(ws):
+    out = thermodynamics.draw(ws, 0, 20_001, 1, "formula", [])       # 20,002 temperatures
+    assert "at most 20,000" in repr(out[-1])
+    out = thermodynamics.draw(ws, 0, 19_999, 1, "formula", [])       # exactly 20,000: computed
+    assert "at most" not in repr(out[-1])
+    with pytest.raises(Exception, match="at most 20,000"):
+        export.export_bytes(session.active(ws), "0:100000:1", "formula", ["entropy"], "csv")
+
+
+def test_deep_json_body_refused_with_400_before_parsing(client):
+    deep = b"[" * 100_000 + b"]" * 100_000
+    r = client.post("/_dash-update-component", data=deep, content_type="application/json")
+    assert r.status_code == 400
+    assert r.get_data(as_text=True).count("\n") == 1 and "nested" in r.get_data(as_text=True)
+
+
+def test_json_body_of_many_objects_refused_with_400(client):
+    many = b"[" + b"{}," * 300_000 + b"{}]"
+    r = client.post("/_dash-update-component", data=many, content_type="application/json")
+    assert r.status_code == 400
+    assert "objects and arrays" in r.get_data(as_text=True)
+
+
+def test_ordinary_callback_body_passes_the_json_check(client):
+    assert budget.json_shape(json.dumps({"output": "x.children", "inputs": [{"id": "a", "value": [1, {"b": []}]}]})
+                             .encode()) == (6, 6)
+    r = client.post("/_dash-update-component", json={"output": "nothing.children", "outputs": {}, "inputs": [],
+                                                     "changedPropIds": []})
+    assert r.status_code != 400 or "nested" not in r.get_data(as_text=True)
+
+
+def test_decoded_bytes_in_flight_are_bounded_per_worker(ws):
+    limit = budget.setting("MODEHEAT_MAX_INFLIGHT_BYTES")
+    inside, release = threading.Event(), threading.Event()
+
+    def hold():
+        with budget.holding(limit - 10, "first"):
+            inside.set()
+            release.wait(30)
+    worker = threading.Thread(target=hold)
+    worker.start()
+    try:
+        inside.wait(30)
+        new, messages = intake.add_uploads(ws, [_url(TEXT.replace("total", "total ").encode())], ["e.dat"], 10 ** 6)
+        assert len(new["datasets"]) == 1
+        assert "try again" in messages[0][1] and "at most" in messages[0][1]
+    finally:
+        release.set()
+        worker.join()
+    assert budget.inflight_bytes() == 0
+    new, messages = intake.add_uploads(ws, [_url(TEXT.replace("total", "total ").encode())], ["e.dat"], 10 ** 6)
+    assert len(new["datasets"]) == 2
+
+
+def test_upload_limits_come_from_the_server_not_the_browser(monkeypatch):
+    limit = intake.upload_limit()
+    big = b"0" * (limit + 10)
+    # the Electronic page once took the limit from the browser's config store
+    out = electronic.draw({"name": "e.dat", "contents": _url(big), "fields": {}}, 0, 100, 10,
+                          {"max_upload_bytes": 10 ** 12})
+    assert "upload limit" in repr(out)
+    with pytest.raises(intake.UploadRefused, match="upload limit"):
+        quasiharmonic.set_from_uploads(["m.csv"], [_url(b"volume_A3,energy_eV,dos_file\n" + big)])
+    with pytest.raises(intake.UploadRefused, match="upload limit"):
+        quasiharmonic.set_files({"manifest": {"name": "m.csv", "content": base64.b64encode(big).decode()},
+                                 "files": []})

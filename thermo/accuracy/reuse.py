@@ -1,0 +1,62 @@
+"""The error breakdown of a table, computed once per DOS and temperature grid and reused.
+
+A table's provenance, its per-row errors (quasi-harmonic carrying, convergence),
+the largest relative error and the pages all read the same breakdown; it costs
+several re-preparations and tables (:func:`~thermo.accuracy.breakdown.error_breakdown`),
+so it is kept on the DOS object beside its frozen fields, keyed by the
+temperatures' bytes, and handed out as a copy.
+"""
+
+from __future__ import annotations
+
+import numpy as np
+
+from .breakdown import error_breakdown
+
+#: Attribute of the DOS holding its breakdowns (not a field: equality and replace() ignore it).
+_HELD = "_error_breakdowns"
+#: Temperature grids kept per DOS (oldest dropped first).
+KEEP = 8
+#: Temperatures kept per DOS over all its grids (a cache that sized the DOS when it stored it does not
+#: see what is added later; about 10 MB at most); a larger grid is computed and not kept.
+KEEP_TEMPERATURES = 30_000
+
+
+def table_breakdown(dos, temperatures):
+    """:func:`~thermo.accuracy.breakdown.error_breakdown` of ``dos`` at ``temperatures``, computed once.
+
+    Parameters
+    ----------
+    dos : PhononDOS
+        Normalised DOS (prepared spectra are immutable, so the result stays valid).
+    temperatures : array_like, shape (M,)
+        Temperatures [K], >= 0.
+
+    Returns
+    -------
+    pandas.DataFrame
+        A copy of the kept breakdown (the caller may change it freely).
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> nu = np.linspace(0, 5, 201)
+    >>> d = PhononDOS(nu, 9 * nu**2 / 125, atoms=1)
+    >>> table_breakdown(d, [300.0]).equals(table_breakdown(d, [300.0]))
+    True
+    """
+    t = np.atleast_1d(np.asarray(temperatures, dtype=float)).ravel()
+    held = getattr(dos, "__dict__", None)
+    if held is None:
+        return error_breakdown(dos, t)
+    kept = held.setdefault(_HELD, {})
+    key = t.tobytes()
+    if key in kept:
+        return kept[key].copy()
+    fresh = error_breakdown(dos, t)
+    if t.size > KEEP_TEMPERATURES:
+        return fresh
+    while kept and (len(kept) >= KEEP or sum(len(b) for b in kept.values()) + t.size > KEEP_TEMPERATURES):
+        kept.pop(next(iter(kept)))
+    kept[key] = fresh
+    return fresh.copy()
