@@ -197,6 +197,20 @@ class ModeList:
         return float(np.sum(self.weight * self.frequency_thz ** power) + np.sum(modes * nodes ** power)) + sum(
             f.analytic_moment(power) for f in self.continuum)
 
+    def summary(self) -> dict:
+        """What the list holds, for provenance: modes, continuum, velocities, resolved limit.
+
+        Examples
+        --------
+        >>> ModeList(np.array([1.0, 2.0]), np.array([1.5, 1.5])).summary()["modes"]
+        2
+        """
+        return {"modes": int(self.frequency_thz.size), "elastic_continuum": bool(self.continuum),
+                "continuum_modes": float(sum(f.analytic_moment() for f in self.continuum) + np.sum(self.extra[1])),
+                "resolved_THz": float(self.resolved_thz), "cell_volume_A3": self.cell_volume_a3,
+                "inverse_cube_speed_mean_per_A3_THz3": self.velocities.get("inverse_cube_mean"),
+                "dispersion_corrected": self.velocities.get("dispersion_corrected")}
+
     def continuum_debye_temperature_k(self, atoms) -> float | None:
         r"""Debye temperature of the continuum's summed :math:`A = \sum_j A_j` [K], or None."""
         a = sum(f.coefficient for f in self.continuum)

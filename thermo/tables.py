@@ -339,6 +339,7 @@ def provenance(dos, temperatures, per="formula", formula=None, breakdown=None):
             "rms_relative_misfit": fit.rms_relative_residual, "blend_top_THz": fit.blend_top_thz,
             "species_shares": dict(fit.species_shares)},
         low_frequency_debye_temperature_K=dos.low_frequency_debye_temperature_k(),
+        **({} if dos.modes is None else {"mode_list": dos.modes.summary()}),
         estimated_relative_error=estimated_relative_error(dos, temperatures, breakdown),
         error_breakdown=breakdown_summary(breakdown),
         zero_point_energy_kJ_per_mol=zero_point_energy(dos) / 1e3,
