@@ -30,7 +30,7 @@ GOALS = {
     "p12_parse_1e6_lines_s": ("<=", 2.0), "p13_p95_ms": ("<=", 300.0),
     "p14_provenance_ratio": ("<=", 2.0), "p15_load_1e6_rows_s": ("<=", 0.5),
     "p15_table_1e6_rows_1e4_T_s": ("<=", 0.3), "p16_table_1e3_rows_1e4_T_s": ("<=", 0.02),
-    "p17_modelist_table_ms": ("<=", 50.0),
+    "p17_modelist_table_ms": ("<=", 50.0), "p19_phases_s": ("<=", 1.0),
     "p18_worst_peak_rss_mb": ("<=", 1000.0), "p18_worst_seconds": ("<=", 10.0),
     "scaling_exponent_rows": ("report", None), "scaling_exponent_temperatures": ("report", None),
     "scaling_exponent_load_rows": ("report", None),
@@ -48,7 +48,8 @@ def _guarded(name, fn, keys):
 def measure(only=None, quick=False):
     """All requested figures in one dict."""
     load_before = os.getloadavg() if hasattr(os, "getloadavg") else None   # other jobs' load (1, 5, 15 min)
-    from . import calorimetry, dashboard, figures, limits, load, modelist, pageload, quasiharmonic, scaling, workspace
+    from . import (calorimetry, dashboard, figures, limits, load, modelist, pageload, phases, quasiharmonic, scaling,
+                   workspace)
     from .timing import machine
     plan = [
         ("p1", lambda: figures.p1_p2(repeat=7 if quick else 15, quad_temperatures=5 if quick else 25),
@@ -70,6 +71,7 @@ def measure(only=None, quick=False):
         ("p15", lambda: scaling.p15_p16(repeat=1 if quick else 3),
          ("p15_load_1e6_rows_s", "p15_table_1e6_rows_1e4_T_s", "p16_table_1e3_rows_1e4_T_s")),
         ("p17", lambda: modelist.p17(repeat=3 if quick else 7), ("p17_modelist_table_ms",)),
+        ("p19", lambda: phases.p19(repeat=1 if quick else 3), ("p19_phases_s",)),
         ("p18", lambda: limits.p18(limits.PAGE_CASES if quick else limits.CASES),
          ("p18_worst_peak_rss_mb", "p18_worst_seconds", "p18_cases")),
         ("scaling", lambda: scaling.scaling(quick),

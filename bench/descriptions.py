@@ -25,6 +25,7 @@ WHAT = {
     "p15_load_1e6_rows_s": "10⁶-row DOS: load_dos (read, validate, prepare) [s]",
     "p15_table_1e6_rows_1e4_T_s": "10⁶-row DOS: a 10⁴-temperature table [s]",
     "p16_table_1e3_rows_1e4_T_s": "10³-row DOS at 10⁴ temperatures [s]",
+    "p19_phases_s": "compare_phases of two 11-volume phases, 1,000 temperatures × 20 pressures, boundary, no row errors, wall [s]",
     "p17_modelist_table_ms": "16³ mode list (12,288 rows, continuum near Γ) to a 1,000-temperature table [ms]",
     "scaling_exponent_rows": "tabulate over rows 10³…10⁶: log-log slope of time along rows",
     "scaling_exponent_temperatures": "tabulate over temperatures 10…10⁴: log-log slope of time along temperatures",

@@ -226,7 +226,7 @@ def process_file(source, target, options):
 
 
 def file_list(path):
-    """The files of a file list and the reading options of each (``batch --file-list``).
+    r"""The files of a file list and the reading options of each (``batch --file-list``).
 
     Parameters
     ----------

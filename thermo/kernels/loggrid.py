@@ -123,12 +123,12 @@ def lagrange_weights(offset):
     before = [np.ones_like(t)]
     for k in range(1, ORDER):
         before.append(before[-1] * diff[k - 1])
-    out = np.empty((t.size, ORDER))
+    out = np.empty((ORDER, t.size))         # filled row by row (contiguous), handed out as (N, ORDER)
     after = np.ones_like(t)
     for k in range(ORDER - 1, -1, -1):
-        out[:, k] = before[k] * after / _DENOM[k]
+        out[k] = before[k] * after / _DENOM[k]
         after = after * diff[k]
-    return out
+    return out.T
 
 
 def _stencil(position):

@@ -18,7 +18,7 @@ from scipy import constants as sc
 
 from ..columns import column_name, error_key
 from ..errors import OptionError
-from .crossings import brackets, closest_approach, transition
+from .crossings import brackets, closest_approach, hermite_root, refine, transition
 from .phase import J_PER_MOL_PER_EV, phase_curves
 
 KB_EV = sc.k / sc.electron_volt
@@ -136,10 +136,15 @@ def _stable(curves, k):
     return best, decided
 
 
-def _pair_crossings(t, ca, cb, k, pressure):
-    """Crossings of phases a, b at pressure index k (dicts with the phases named)."""
-    ga, sa, va, ua = _rows_of(ca, k, 0)
-    gb, sb, vb, ub = _rows_of(cb, k, 0)
+def _pair_crossings(t, ca, cb, k, exact_roots):
+    """Crossings of phases a, b at pressure index k.
+
+    Harmonic phases (``exact_roots``): Brent's method on the exact ΔF, finished
+    here.  Volume sets: the root of the cubic Hermite interpolant, to be
+    corrected by one batched Newton step (:func:`_newton`); returned pending.
+    """
+    ga, sa, _, ua = _rows_of(ca, k, 0)
+    gb, sb, _, ub = _rows_of(cb, k, 0)
     dg, ds, u = gb - ga, sb - sa, ua + ub
 
     def exact(x):
@@ -147,8 +152,32 @@ def _pair_crossings(t, ca, cb, k, pressure):
         return float(xb[0][0] - xa[0][0]), float(xb[1][0] - xa[1][0])
     found = []
     for low, high, hidden in brackets(t, dg, ds, lambda x: exact(x)[0]):
-        found.append(transition(t, dg, ds, u, exact, low, high, hidden))
+        if exact_roots:
+            root, converged, width = refine(low, high, lambda x: exact(x)[0])
+            found.append(transition(t, dg, ds, u, root, converged, width, exact(root)[1], hidden))
+        else:
+            root, converged = hermite_root(t, dg, ds, low, high)
+            found.append({"pending": (t, dg, ds, u, root, converged, high - low, hidden, low, high)})
     return found, (dg, u)
+
+
+def _newton(curves, pending):
+    """Finish pending Hermite roots: ΔG, ΔS of every phase at all of them in one pass, one Newton step each."""
+    ks = [x["k"] for x in pending]
+    roots = [x["pending"][4] for x in pending]
+    values = [c.evaluate_many(ks, roots) for c in curves]
+    out = []
+    for i, x in enumerate(pending):
+        t, dg, ds, u, root, converged, width, hidden, low, high = x["pending"]
+        a, b = x["pair"]
+        d_g = values[b][0][i] - values[a][0][i]
+        d_s = values[b][1][i] - values[a][1][i]
+        step = d_g / d_s if d_s else np.inf
+        new = root + step
+        ok = converged and np.isfinite(new) and low - 1e-9 <= new <= high + 1e-9
+        found = transition(t, dg, ds, u, new if ok else root, ok, width, d_s, hidden, step if ok else 0.0)
+        out.append(dict(found, pair=(a, b), k=x["k"]))
+    return out
 
 
 def compare_phases(phases, temperatures, pressures_gpa=None, per_formula=None, eos="birch-murnaghan",
@@ -217,16 +246,15 @@ def compare_phases(phases, temperatures, pressures_gpa=None, per_formula=None, e
         p = np.array([np.nan])
     curves = [phase_curves(ph, t, p, eos=eos, errors=errors) for ph in phases]
     warnings = [w for c in curves for w in c.warnings]
-    frames, crossings, none = [], [], []
+    frames, found_all, none = [], [], []
     for k, pk in enumerate(p):
         best, decided = _stable(curves, k)
         for j in range(1, len(phases)):
             frames.append(_frame(t, curves[0], curves[j], k, pk, phases[0].name, phases[j].name,
                                  [phases[i].name for i in best], decided, basis, quasi))
         for a, b in combinations(range(len(phases)), 2):
-            found, (dg, u) = _pair_crossings(t, curves[a], curves[b], k, pk)
-            for x in found:
-                crossings.append(_record(x, phases, curves, a, b, k, pk, basis))
+            found, (dg, u) = _pair_crossings(t, curves[a], curves[b], k, exact_roots=not quasi)
+            found_all += [dict(x, pair=(a, b), k=k) for x in found]
             if not found:
                 closest = closest_approach(t, dg, u)
                 none.append({"phases": [phases[a].name, phases[b].name],
@@ -234,6 +262,12 @@ def compare_phases(phases, temperatures, pressures_gpa=None, per_formula=None, e
                              "stable_phase": phases[b].name if closest and closest["delta_gibbs_eV"] < 0
                              else phases[a].name,
                              "closest_approach": _approach(closest, basis)})
+    pending = [x for x in found_all if "pending" in x]
+    done = [x for x in found_all if "pending" not in x] + (_newton(curves, pending) if pending else [])
+    at = [c.evaluate_many([x["k"] for x in done], [x["temperature_K"] for x in done]) for c in curves] \
+        if done else []
+    crossings = [_record(x, phases, [[v[q][i] for q in range(3)] for v in at], basis, p[x["k"]])
+                 for i, x in enumerate(done)]
     stable, metastable = [], []
     for c in sorted(crossings, key=lambda c: (c["pressure_GPa"] or 0.0, c["temperature_K"])):
         (stable if c.pop("_stable") else metastable).append(c)
@@ -284,19 +318,22 @@ def _approach(closest, basis):
             column_name(error_key("gibbs_energy_difference"), key): float(basis.energy(closest["uncertainty_eV"]))}
 
 
-def _record(x, phases, curves, a, b, k, pk, basis):
-    """A transition record: low_phase is stable below temperature_K; Δ = high − low."""
+def _record(x, phases, values, basis, pk):
+    """A transition record: low_phase is stable below temperature_K; Δ = high − low.
+
+    ``values`` are (G, S, V) of every phase at the crossing (per atom).
+    """
+    a, b = x["pair"]
     low, high = (b, a) if x["sign"] > 0 else (a, b)
     ds = abs(x["delta_entropy_eV_per_K"])
     tt = x["temperature_K"]
-    values = [c.evaluate(k, [tt]) for c in curves]
-    dv = float(values[high][2][0] - values[low][2][0])
-    g_pair = float(values[a][0][0])
-    others = [float(v[0][0]) for i, v in enumerate(values) if i not in (a, b)]
+    dv = float(values[high][2] - values[low][2])
+    g_pair = float(values[a][0])
+    others = [float(v[0]) for i, v in enumerate(values) if i not in (a, b)]
     stable = all(o >= g_pair - 1e-12 * max(1.0, abs(g_pair)) for o in others if np.isfinite(o))
     per = basis.per
-    return {"low_phase": phases[low].name, "high_phase": phases[high].name, "temperature_K": tt,
-            "uncertainty_K": x["uncertainty_K"], "pressure_GPa": None if np.isnan(pk) else float(pk),
+    return {"low_phase": phases[low].name, "high_phase": phases[high].name, "temperature_K": float(tt),
+            "uncertainty_K": float(x["uncertainty_K"]), "pressure_GPa": None if np.isnan(pk) else float(pk),
             column_name("entropy_difference", per): float(basis.entropy(ds)),
             column_name("enthalpy_difference", per): float(basis.energy(tt * ds)),
             column_name("volume_difference"): None if np.isnan(dv) else float(basis.volume(dv)),

@@ -73,9 +73,15 @@ def brackets(t, dg, ds, evaluate):
     """
     out = []
     ok = np.isfinite(dg)
-    for i in range(t.size - 1):
-        if not (ok[i] and ok[i + 1]):
-            continue
+    both = ok[:-1] & ok[1:]
+    d0, d1 = dg[:-1], dg[1:]
+    m0, m1 = -ds[:-1], -ds[1:]
+    with np.errstate(invalid="ignore"):
+        # a step without a sign change can hide two crossings only if ΔG heads towards 0 at its left row and
+        # away from it at its right row (an extremum inside); only those steps are examined
+        towards = both & (d0 * d1 > 0) & np.isfinite(m0) & np.isfinite(m1) & (m0 * d0 < 0) & (m1 * d1 > 0)
+    steps = np.flatnonzero(both & ((d0 * d1 <= 0) | towards))
+    for i in steps:
         a, b = dg[i], dg[i + 1]
         if a == 0.0:
             if i == 0 or not ok[i - 1] or dg[i - 1] * b < 0:
@@ -86,11 +92,14 @@ def brackets(t, dg, ds, evaluate):
             continue
         if b == 0.0:
             continue
-        slopes = (-ds[i], -ds[i + 1])
-        if not np.all(np.isfinite(slopes)):
-            continue
-        for tm in _hermite_extremum(t[i], t[i + 1], a, b, *slopes):
-            value = float(evaluate(tm))
+        h = t[i + 1] - t[i]
+        for tm in _hermite_extremum(t[i], t[i + 1], a, b, m0[i], m1[i]):
+            q = (tm - t[i]) / h
+            cubic = ((2 * q ** 3 - 3 * q ** 2 + 1) * a + (q ** 3 - 2 * q ** 2 + q) * h * m0[i]
+                     + (-2 * q ** 3 + 3 * q ** 2) * b + (q ** 3 - q ** 2) * h * m1[i])
+            if cubic * a > 0.5 * min(a * a, b * b):      # the cubic stays well clear of zero: no crossing here
+                continue
+            value = float(evaluate(tm))                  # close approach: look at the exact ΔG
             if value * a < 0:
                 out += [(float(t[i]), float(tm), True), (float(tm), float(t[i + 1]), True)]
                 break
@@ -137,19 +146,48 @@ def undecided_half_width(t, dg, u, t_star, u_star):
     return float(max(t_star - ends[0], ends[1] - t_star, 0.0))
 
 
-def transition(t, dg, ds, u, evaluate_dg_ds, low, high, hidden):
+def hermite_root(t, dg, ds, low, high):
+    """Root in [low, high] of the cubic Hermite interpolant of ΔG (slope −ΔS) over the grid step holding it.
+
+    Brent's method on the cubic (status checked); returns (T [K], converged).
+    """
+    i = int(np.clip(np.searchsorted(t, 0.5 * (low + high)) - 1, 0, t.size - 2))
+    t0, t1 = t[i], t[i + 1]
+    h = t1 - t0
+    d0, d1, m0, m1 = dg[i], dg[i + 1], -ds[i], -ds[i + 1]
+
+    def cubic(x):
+        q = (x - t0) / h
+        return ((2 * q ** 3 - 3 * q ** 2 + 1) * d0 + (q ** 3 - 2 * q ** 2 + q) * h * m0
+                + (-2 * q ** 3 + 3 * q ** 2) * d1 + (q ** 3 - q ** 2) * h * m1)
+    if low == high:
+        return low, True
+    if cubic(low) * cubic(high) > 0:        # the cubic misses the sign change the exact ΔG showed
+        return 0.5 * (low + high), False
+    root, info = brentq(cubic, low, high, xtol=ROOT_XTOL, rtol=ROOT_RTOL, maxiter=ROOT_MAXITER, full_output=True,
+                        disp=False)
+    return (float(root), True) if info.converged else (0.5 * (low + high), False)
+
+
+def transition(t, dg, ds, u, root, converged, width, ds_star, hidden, step=0.0):
     r"""One crossing of ΔG: T*, its uncertainty and ΔS there.
 
     Parameters
     ----------
     t, dg, ds, u : numpy.ndarray, shape (M,)
         Grid [K], ΔG [eV/atom], ΔS [eV/(K atom)], u(ΔG) [eV/atom].
-    evaluate_dg_ds : callable
-        ``f(T) -> (ΔG, ΔS)`` exactly at one temperature.
-    low, high : float
-        Bracket [K] (from :func:`brackets`).
+    root : float
+        T* [K] from :func:`refine` (exact ΔG) or a Newton step from :func:`hermite_root`.
+    converged : bool
+        Whether the root search converged.
+    width : float
+        Width of the bracket [K].
+    ds_star : float
+        ΔS at T* [eV/(K atom)].
     hidden : bool
         The bracket lies inside one grid step.
+    step : float
+        Size of the last Newton correction [K] (0 for Brent on the exact ΔG): added to u.
 
     Returns
     -------
@@ -162,16 +200,14 @@ def transition(t, dg, ds, u, evaluate_dg_ds, low, high, hidden):
     -----
     .. math:: u(T^*) = \frac{u(\Delta G)}{|\Delta S|}\Big|_{T^*}
 
-    (u(ΔG) interpolated linearly between rows) plus the root tolerance, widened to the interval where
-    |ΔG| <= u(ΔG) on the grid when that is wider, and to half the bracket when
-    the root did not converge.
+    (u(ΔG) interpolated linearly between rows) plus the root tolerance and the
+    last Newton correction, widened to the interval where |ΔG| <= u(ΔG) on the
+    grid when that is wider, and to half the bracket when the root did not converge.
     """
-    root, converged, width = refine(low, high, lambda x: float(evaluate_dg_ds(x)[0]))
-    _, ds_star = evaluate_dg_ds(root)
     ds_star = float(ds_star)
     u_dg = float(np.interp(root, t, np.where(np.isfinite(u), u, np.nanmax(u))))
     u_t = u_dg / abs(ds_star) if ds_star != 0 else np.inf
-    u_t += ROOT_XTOL + ROOT_RTOL * abs(root)          # Brent's guarantee on the root itself
+    u_t += ROOT_XTOL + ROOT_RTOL * abs(root) + abs(step)     # Brent's guarantee, the last correction
     if not hidden:
         u_t = max(u_t, undecided_half_width(t, dg, u, root, u_dg))
     if not converged:

@@ -125,6 +125,9 @@ class Curves:
     evaluate : callable
         ``evaluate(k, T) -> (G, S, V)`` at pressure index k and any temperatures
         (array) [eV/atom, eV/(K atom), Å³/atom], without error estimate.
+    evaluate_many : callable
+        ``evaluate_many(ks, T) -> (G, S, V)`` at pairs (pressure index, temperature),
+        in one pass (one free-energy surface for a volume set).
     """
 
     temperatures_k: np.ndarray
@@ -134,6 +137,7 @@ class Curves:
     entropy_ev_per_k: np.ndarray
     volume_a3: np.ndarray
     evaluate: object
+    evaluate_many: object = None
     warnings: tuple = ()
 
 
@@ -177,7 +181,7 @@ def harmonic_curves(phase, temperatures, errors=True):
         ff, ss = _harmonic_values(phase, np.atleast_1d(np.asarray(temps, dtype=float)))
         return ff / n, ss / n, np.full(ff.shape, np.nan)
     return Curves(t, np.array([np.nan]), (f / n)[None], (u / n)[None], (s / n)[None],
-                  np.full((1, t.size), np.nan), evaluate)
+                  np.full((1, t.size), np.nan), evaluate, lambda _ks, temps: evaluate(0, temps))
 
 
 def _shifted(volume_set, static_ev):
@@ -229,8 +233,17 @@ def quasiharmonic_curves(phase, temperatures, pressures_gpa, eos="birch-murnagha
                                     eos=eos, per="formula")
         gg, ss, vv = _qh_columns(table)
         return gg / n, ss / n, vv / n
+
+    def evaluate_many(ks, temps):
+        ks, temps = np.asarray(ks, dtype=int), np.asarray(temps, dtype=float)
+        grid, where = np.unique(temps, return_inverse=True)
+        used = np.unique(ks)
+        tables = quasiharmonic_tables(vs, grid, p[used], eos=eos, per="formula")
+        cols = {k: _qh_columns(tab) for k, tab in zip(used, tables)}
+        out = np.array([[cols[k][q][j] for k, j in zip(ks, where)] for q in range(3)]).reshape(3, -1)
+        return out[0] / n, out[1] / n, out[2] / n
     return Curves(t, p, np.array(g) / n, np.array(u) / n, np.array(s) / n, np.array(v) / n, evaluate,
-                  tuple(dict.fromkeys(notes)))
+                  evaluate_many, tuple(dict.fromkeys(notes)))
 
 
 def phase_curves(phase, temperatures, pressures_gpa=(0.0,), eos="birch-murnaghan", errors=True):
