@@ -112,6 +112,42 @@ def compare_runs(doses, temperatures=DEFAULT_TEMPERATURES, reference=0, names=No
     return df
 
 
+def comparison_provenance(doses, temperatures, reference=0, names=None, per="formula", formula=None):
+    """The provenance record of :func:`compare_runs` (every run as an input, the reference named).
+
+    Parameters
+    ----------
+    doses, temperatures, reference, names, per, formula
+        As :func:`compare_runs`.
+
+    Returns
+    -------
+    dict
+        :func:`thermo.tables.provenance` of the reference run with ``inputs``
+        holding every run and a ``comparison`` detail (reference, runs, what
+        the difference and the error are).
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> nu = np.linspace(0.0, 5.0, 201)
+    >>> a = PhononDOS(nu, 9 * nu**2 / 125, atoms=1)
+    >>> comparison_provenance([a, a], [300.0], names=["x", "y"])["comparison"]["runs"]
+    ['x', 'y']
+    """
+    from .tables import provenance
+    doses = list(doses)
+    t = np.atleast_1d(np.asarray(temperatures, dtype=float)).ravel()
+    names = list(names) if names is not None else [d.source.get("name") or f"run {i + 1}"
+                                                    for i, d in enumerate(doses)]
+    info = provenance(doses[reference], t, per=per, formula=formula)
+    info["inputs"] = [provenance(d, t[:1], per=per, formula=formula)["inputs"][0] for d in doses]
+    info["comparison"] = {"reference": names[reference], "runs": names,
+                          "relative_difference": "(run - reference) / |reference|",
+                          "error": "each run's own estimated error (numerical, low-frequency, resolution, smearing)"}
+    return info
+
+
 for _key, _symbol in (("heat_capacity_v", "C_v"), ("entropy", "S"), ("internal_energy", "U"),
                       ("helmholtz_energy", "F")):
     register_quantity(difference_key(_key), f"Δ{_symbol}/{_symbol}", "fixed", "1",

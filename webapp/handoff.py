@@ -85,9 +85,24 @@ def follow_sent(target, choice_id):
     @callback(Output(choice_id, "options"), Output(choice_id, "value"), Input(STORE_ID, "data"),
               State(choice_id, "options"))
     def offer(sent, options):
-        own = [o for o in options or [] if o.get("value") != "sent"][:1]
-        item = received(sent, target)
-        if item is None:
-            return own, own[0]["value"] if own else None
-        return own + [{"label": f"sent from {item['from']}: {item['name']}", "value": "sent"}], "sent"
+        return offered(sent, target, options)
     return offer
+
+
+def offered(sent, target, options):
+    """``(options, value)`` of a receiving page's source choice: its own first option, plus ``sent`` (chosen).
+
+    Examples
+    --------
+    >>> own = [{"label": "active dataset", "value": "dataset"}]
+    >>> offered({}, "polynomials", own)[1]
+    'dataset'
+    >>> item = {"name": "t.csv", "from": "Quasi-harmonic", "csv": "x"}
+    >>> offered({"polynomials": item}, "polynomials", own)[1]
+    'sent'
+    """
+    own = [o for o in options or [] if o.get("value") != "sent"][:1]
+    item = received(sent, target)
+    if item is None:
+        return own, own[0]["value"] if own else None
+    return own + [{"label": f"sent from {item['from']}: {item['name']}", "value": "sent"}], "sent"

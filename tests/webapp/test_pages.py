@@ -178,16 +178,69 @@ def test_export_preview_and_errors(ws):
     assert export.image_format("svg", {"image_format": "png"}) == {"image_format": "svg"}
 
 
-def test_compare_difference_equals_table_difference(demo):
+def _grouped(demo, names, group):
+    ws = demo
+    for d in demo["datasets"]:
+        if d["name"] in names:
+            ws = session.replaced(ws, {**session.find(ws, d["id"]), "group": group})
+    return ws
+
+
+def test_compare_selects_by_group_all_none_and_never_all_at_first(demo):
+    ids = {d["name"]: d["id"] for d in demo["datasets"]}
+    assert len(ids) > 2
+    # first visit without groups: the active dataset alone (not every dataset)
+    assert compare.selection(demo, None, None, None) == [session.active(demo)["id"]]
+    ws = _grouped(demo, ("springium_fcc.dat", "springium_md.csv"), "springium runs")
+    assert compare.groups(ws) == ["springium runs"]
+    by_group = compare.selection(ws, "cmp-group", [], "springium runs")
+    assert sorted(by_group) == sorted([ids["springium_fcc.dat"], ids["springium_md.csv"]])
+    assert compare.selection(ws, "cmp-all", by_group, None) == [d["id"] for d in ws["datasets"]]
+    assert compare.selection(ws, "cmp-none", by_group, None) == []
+    assert compare.selection(ws, None, [], None) == []            # "none" stays none when the workspace changes
+
+
+def test_compare_relative_differences_with_each_runs_error(demo):
     fcc = next(d for d in demo["datasets"] if d["name"] == "springium_fcc.dat")
     md = next(d for d in demo["datasets"] if d["name"] == "springium_md.csv")
-    t = np.arange(0.0, 501.0, 25.0)
-    over, diff, table = compare.comparison(demo, [fcc["id"], md["id"]], fcc["id"], "entropy", t, "formula")
-    expected = (cache.table(md, t, "formula")[S_MOL] - cache.table(fcc, t, "formula")[S_MOL])
-    np.testing.assert_allclose(np.asarray(diff.data[0].y), expected.to_numpy(), rtol=1e-12, atol=1e-12)
-    assert len(over.data) == 2
-    _, self_diff, _ = compare.comparison(demo, [fcc["id"]], fcc["id"], "dos", t, "formula")
-    assert len(self_diff.data) == 0
+    over, diff, table, msgs = compare.draw(demo, [fcc["id"], md["id"]], fcc["id"], "entropy", "relative",
+                                           "5,20,298.15", 25, 500, 25, "formula")
+    assert msgs == []
+    t = np.arange(25.0, 501.0, 25.0)
+    s_fcc, s_md = cache.table(fcc, t, "formula")[S_MOL].to_numpy(), cache.table(md, t, "formula")[S_MOL].to_numpy()
+    line = next(tr for tr in diff.data if tr.name == "springium_md.csv")
+    np.testing.assert_allclose(np.asarray(line.y), 100 * (s_md - s_fcc) / np.abs(s_fcc), rtol=1e-12, atol=1e-12)
+    assert "[%]" in diff.layout.yaxis.title.text and len(over.data) == 2
+    text = str(table)
+    assert "S ± error [J/(mol·K)]" in text and "ΔS/S [%]" in text
+    at = cache.table(md, [298.15], "formula")[S_MOL].iloc[0], cache.table(fcc, [298.15], "formula")[S_MOL].iloc[0]
+    assert f"{100 * (at[0] - at[1]) / abs(at[1]):+.3g}" in text
+    _, absolute, table_abs, _ = compare.draw(demo, [fcc["id"], md["id"]], fcc["id"], "entropy", "absolute",
+                                             "298.15", 25, 500, 25, "formula")
+    line = next(tr for tr in absolute.data if tr.name == "springium_md.csv")
+    np.testing.assert_allclose(np.asarray(line.y), s_md - s_fcc, rtol=1e-12, atol=1e-12)
+    assert "[J/(mol·K)]" in absolute.layout.yaxis.title.text and f"{at[0] - at[1]:+.4g}" in str(table_abs)
+    _, _, _, one = compare.draw(demo, [fcc["id"]], fcc["id"], "entropy", "relative", "298.15", 25, 500, 25, "formula")
+    assert "at least two runs" in one[0].children
+
+
+def test_compare_download_equals_compare_command(demo, tmp_path, capsys):
+    from thermo.cli.main import main
+    from thermo.io.readback import read_exported_csv
+    from webapp.demo import demo_file
+    fcc = next(d for d in demo["datasets"] if d["name"] == "springium_fcc.dat")
+    md = next(d for d in demo["datasets"] if d["name"] == "springium_md.csv")
+    name, content = compare.comparison_download("csv", demo, [fcc["id"], md["id"]], md["id"], "5,20,298.15", "atom")
+    assert name == "springium_md-comparison.csv"
+    assert main(["compare", str(demo_file("springium_fcc.dat")), str(demo_file("springium_md.csv")),
+                 "--reference", str(demo_file("springium_md.csv")), "--temperatures", "5,20,298.15",
+                 "--per", "atom"]) == 0
+    ours, meta = read_exported_csv(content)
+    theirs, cli_meta = read_exported_csv(capsys.readouterr().out.encode())
+    assert list(ours.columns) == list(theirs.columns) and len(ours) == 6
+    np.testing.assert_array_equal(ours.select_dtypes("number").to_numpy(), theirs.select_dtypes("number").to_numpy())
+    assert meta["comparison"]["reference"] == cli_meta["comparison"]["reference"] == "springium_md.csv"
+    assert [i["sha256"] for i in meta["inputs"]] == [i["sha256"] for i in cli_meta["inputs"]]
 
 
 def test_models_and_mode_map_draw_with_demo(demo):

@@ -28,9 +28,8 @@ def register(sub):
 
 
 def run(args) -> int:
-    from ..convergence import compare_runs
+    from ..convergence import compare_runs, comparison_provenance
     from ..errors import OptionError
-    from ..tables import provenance
     from ..temperatures import parse_temperatures
     from .options import emit_table, formula_of
 
@@ -49,9 +48,6 @@ def run(args) -> int:
     names = [f if f.startswith("ws:") else os.path.basename(f) for f in files]
     formula = formula_of(args, doses[0])
     table = compare_runs(doses, temperatures, reference=reference, names=names, per=args.per, formula=formula)
-    info = provenance(doses[reference], temperatures, per=args.per, formula=formula)
-    info["inputs"] = [provenance(d, temperatures[:1], per=args.per, formula=formula)["inputs"][0] for d in doses]
-    info["comparison"] = {"reference": names[reference], "runs": names,
-                          "relative_difference": "(run - reference) / |reference|",
-                          "error": "each run's own estimated error (numerical, low-frequency, resolution, smearing)"}
+    info = comparison_provenance(doses, temperatures, reference=reference, names=names, per=args.per,
+                                 formula=formula)
     return emit_table(table, info, args, plan)

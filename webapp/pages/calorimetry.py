@@ -19,7 +19,7 @@ from thermo.errors import ModeheatError, OptionError
 from .. import budget, cache, filesets, session
 from ..demo import demo_file, electronic_demo_entry
 from .. import components as c
-from .. import exports
+from .. import exports, handoff
 from .. import figures as fg
 from .. import intake
 from ..intake import decode_upload
@@ -84,6 +84,7 @@ def layout(**_query):
         html.H2("Fitted parameters"),
         dcc.Loading(html.Div(id="cal-params"), type="dot"),
         exports.download_bar("cal", "calorimetry result", formats=("json", "csv", "xlsx")),
+        handoff.send_bar("cal", "the fitted C_p table", ("polynomials",)),
         html.Div([html.P(text, className="mh-msg mh-msg-info") for text in CAUTIONS], id="cal-cautions"),
     )
 
@@ -425,11 +426,13 @@ def calorimetry_download(fmt, stored, workspace, lattice, terms, fix, fit_range,
     return exports.table_file(stem, result, record, fmt, digits=None)
 
 
-exports.register_download("cal", [State("cal-measured", "data"), State("mh-workspace", "data"),
-                                  State("cal-lattice", "value"), State("cal-terms", "value"), State("cal-fix", "value"),
-                                  State("cal-range", "value"), State("cal-atoms", "value"), State("cal-unit", "value"),
-                                  State("cal-formula", "value"), State("mh-electronic", "data"),
-                                  State("mh-config", "data")], calorimetry_download)
+_STATES = [State("cal-measured", "data"), State("mh-workspace", "data"), State("cal-lattice", "value"),
+           State("cal-terms", "value"), State("cal-fix", "value"), State("cal-range", "value"),
+           State("cal-atoms", "value"), State("cal-unit", "value"), State("cal-formula", "value"),
+           State("mh-electronic", "data"), State("mh-config", "data")]
+exports.register_download("cal", _STATES, calorimetry_download)
+# the residual and third-law table (fitted C_p, S° from the data) as the csv download writes it
+handoff.register_send("cal", "polynomials", _STATES, lambda *values: calorimetry_download("csv", *values), NAME)
 
 
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)
