@@ -216,3 +216,18 @@ def test_an_elastic_debye_temperature_typed_on_the_page_anchors_the_dataset():
     empty, notes = spectrum.apply_edit(ws, "sp-lowmode", {**shown, "sp-lowmode": "elastic"})
     assert empty is ws and "elastic Debye temperature" in notes[0][1]
     assert spectrum.upload_options({**again})["low_frequency"] in (None, "auto")
+
+
+def test_a_mode_list_uploads_like_a_dos_and_lists_its_modes():
+    # three Einstein-like modes per q-point (A. Einstein, Ann. Phys. 327, 180 (1907)): the page's dataset gives
+    # the table of the modes themselves; the list names the mode count
+    text = "weight frequency_THz\n" + "\n".join(f"0.5 {f}" for f in (1.0, 2.0, 3.0) * 2) + "\n"
+    ws, notes, pending = _upload(session.empty_workspace(), _values(), text)
+    assert pending == [] and not [n for n in notes if n[0] == "error"]
+    dos = spectrum.cache.load(session.active(ws))
+    assert dos.modes is not None and dos.mode_count == pytest.approx(3.0)
+    assert spectrum.dataset_summary(session.active(ws))[3] == "6 modes"
+    from scipy import constants as sc
+    x = sc.h * np.array([1e12, 2e12, 3e12]) / (sc.k * 50.0)      # h ν / k_B T of the three modes
+    cv = tabulate(dos, [50.0]).heat_capacity_v_J_per_mol_K[0]
+    assert cv == pytest.approx(sc.R * np.sum(x * x * np.exp(x) / np.expm1(x) ** 2), rel=1e-9)
