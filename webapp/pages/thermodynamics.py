@@ -11,6 +11,7 @@ from thermo.tables import classical_heat_capacity, provenance
 
 from .. import budget, cache, session
 from .. import components as c
+from .. import reading
 from .. import exports, notices
 from .. import figures as fg
 from ..labels import axis_title, unit_of
@@ -98,6 +99,7 @@ def layout(**_query):
                           "dataset. U and F include the zero-point energy. Shaded: the estimated error "
                           "(numerical, low-frequency, resolution and smearing parts).",
         c.active_slot("th"),
+        reading.panel("th"),
         c.controls(*c.temperature_fields("th"), c.basis_field("th-per"),
                    c.field("Temperature axis", dcc.Checklist(
                        id="th-logt", options=[{"label": " logarithmic", "value": "log"}], value=[]),
@@ -151,4 +153,5 @@ exports.register_download("th", [State("mh-workspace", "data"), State("th-tmin",
                                  State("th-step", "value"), State("th-per", "value")], table_download)
 c.follow_active("th")
 c.follow_image_format(*_GRAPHS)
+reading.register("th")
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)
