@@ -6,6 +6,9 @@ Every setting is read once by :func:`configure` into the Flask config
 ``MODEHEAT_MAX_TEMPERATURES``
     temperatures one page request may ask for (default 20,000; the command
     line allows :data:`thermo.temperatures.MAX_TEMPERATURES`);
+``MODEHEAT_MAX_QHA_TEMPERATURES``
+    temperatures of one Quasi-harmonic page request (default 2,000: each
+    carries an equation-of-state fit per volume left out for its error);
 ``MODEHEAT_MAX_INFLIGHT_MB``
     decoded upload bytes a worker process holds at once, summed over its
     threads (default three files at the upload limit); a request over it is
@@ -31,8 +34,8 @@ from thermo.errors import ModeheatError, OptionError
 from thermo.temperatures import parse_temperatures, temperature_range
 
 #: Defaults of the settings (environment variable → value).
-DEFAULTS = {"MODEHEAT_MAX_TEMPERATURES": 20_000, "MODEHEAT_MAX_JSON_DEPTH": 64,
-            "MODEHEAT_MAX_JSON_CONTAINERS": 200_000, "MODEHEAT_MAX_INFLIGHT_MB": None}
+DEFAULTS = {"MODEHEAT_MAX_TEMPERATURES": 20_000, "MODEHEAT_MAX_QHA_TEMPERATURES": 2_000,
+            "MODEHEAT_MAX_JSON_DEPTH": 64, "MODEHEAT_MAX_JSON_CONTAINERS": 200_000, "MODEHEAT_MAX_INFLIGHT_MB": None}
 #: Files at the upload limit a worker decodes at once when ``MODEHEAT_MAX_INFLIGHT_MB`` is not set.
 INFLIGHT_FILES = 3
 _SCAN_BLOCK = 1 << 22
@@ -65,18 +68,18 @@ def setting(name):
     return dash.get_app().server.config[name]
 
 
-def checked_count(values, what="temperatures"):
-    """``values`` when they hold at most ``MODEHEAT_MAX_TEMPERATURES`` points, else a one-line OptionError."""
-    limit = setting("MODEHEAT_MAX_TEMPERATURES")
+def checked_count(values, what="temperatures", name="MODEHEAT_MAX_TEMPERATURES"):
+    """``values`` when they hold at most the setting ``name`` points, else a one-line OptionError."""
+    limit = setting(name)
     if np.size(values) > limit:
-        raise OptionError(f"{np.size(values):,} {what} asked for; a page computes at most {limit:,} "
-                          "(server setting MODEHEAT_MAX_TEMPERATURES; the command line allows more)")
+        raise OptionError(f"{np.size(values):,} {what} asked for; this page computes at most {limit:,} "
+                          f"(server setting {name}; the command line allows more)")
     return values
 
 
-def temperatures(t_min, t_max, step):
-    """:func:`thermo.temperatures.temperature_range` within the page budget."""
-    return checked_count(temperature_range(t_min, t_max, step))
+def temperatures(t_min, t_max, step, name="MODEHEAT_MAX_TEMPERATURES"):
+    """:func:`thermo.temperatures.temperature_range` within the page budget (the setting ``name``)."""
+    return checked_count(temperature_range(t_min, t_max, step), name=name)
 
 
 def parsed_temperatures(spec):

@@ -138,3 +138,15 @@ def test_reaction_formation_against_closed_form(tmp_path, capsys):
     code, _, err = run(capsys, "phases", *(f"{n}={tmp_path / n}.dat" for n in ("AB", "A", "B")),
                        "--reaction", "AB = A")
     assert code == 2 and "atoms do not balance" in err
+
+
+def test_reaction_per_atom_is_the_per_formula_value_over_its_atoms(tmp_path):
+    # Bookkeeping (common practice): per atom = per formula unit of AB / 2 atoms, in k_B (R from CODATA via scipy)
+    from thermo.phases import Phase, formation_table
+    from thermo.preparation.loading import load_dos
+    phases = [Phase(n, load_dos(dos_text(*debye_table(theta, atoms, 1001)), name=f"{n}.dat"))
+              for n, theta, atoms in (("AB", 350.0, 2), ("A", 300.0, 1), ("B", 450.0, 1))]
+    per_fu = formation_table(phases, "AB = A + B", [300.0, 600.0])
+    per_atom = formation_table(phases, "AB = A + B", [300.0, 600.0], per_formula="atom")
+    np.testing.assert_allclose(per_atom["entropy_formation_kB_per_atom"],
+                               per_fu["entropy_formation_J_per_mol_K"] / (2 * sc.R), rtol=1e-12)

@@ -39,7 +39,7 @@ def test_default_page_budget_is_documented_value():
     assert budget.setting("MODEHEAT_MAX_TEMPERATURES") == 20_000
     with open("docs/limits.md", encoding="utf-8") as handle:
         text = handle.read()
-    for name in ("MODEHEAT_MAX_TEMPERATURES", "MODEHEAT_MAX_INFLIGHT_MB", "MODEHEAT_MAX_JSON_DEPTH",
+    for name in ("MODEHEAT_MAX_TEMPERATURES", "MODEHEAT_MAX_QHA_TEMPERATURES", "MODEHEAT_MAX_INFLIGHT_MB", "MODEHEAT_MAX_JSON_DEPTH",
                  "MODEHEAT_MAX_JSON_CONTAINERS", "20,000"):
         assert name in text
 
@@ -49,6 +49,9 @@ def test_temperatures_over_the_page_budget_are_refused(ws):
     assert "at most 20,000" in repr(out[-1])
     out = thermodynamics.draw(ws, 0, 19_999, 1, "formula", [])       # exactly 20,000: computed
     assert "at most" not in repr(out[-1])
+    out = quasiharmonic.draw(quasiharmonic.demo_set(), "manifest", [], None, 0, 2000, 1, 0.0, "vinet", "formula",
+                             "drop", "", 1.0, "on")                     # 2,001 (+298.15 K): over its own budget
+    assert "at most 2,000" in repr(out[-1]) and "MODEHEAT_MAX_QHA_TEMPERATURES" in repr(out[-1])
     with pytest.raises(Exception, match="at most 20,000"):
         export.export_bytes(session.active(ws), "0:100000:1", "formula", ["entropy"], "csv")
 

@@ -57,9 +57,14 @@ class Basis:
 def basis_of(per_formula=None):
     """The :class:`Basis` of a comparison: per atom, or per formula unit of ``per_formula``.
 
-    ``per_formula`` is a chemical formula (``"TiO2"``) or a whole number of atoms.
+    ``per_formula`` is a chemical formula (``"TiO2"``) or a whole number of atoms; None or ``"atom"``: per atom.
+
+    Examples
+    --------
+    >>> basis_of("TiO2").atoms, basis_of("atom").per
+    (3, 'atom')
     """
-    if per_formula is None or per_formula == "":
+    if per_formula is None or str(per_formula).strip() in ("", "atom"):
         return Basis()
     if isinstance(per_formula, (int, np.integer)) or str(per_formula).strip().isdigit():
         n = int(per_formula)

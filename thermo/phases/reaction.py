@@ -144,11 +144,8 @@ def formation_table(phases, reaction, temperatures, pressure_gpa=None, per_formu
         total["g"] += sign * scale * c.gibbs_ev[0]
         total["s"] += sign * scale * c.entropy_ev_per_k[0]
         total["u"] += scale * c.gibbs_error_ev[0]
-    if per_formula == "atom":
-        basis, per_atom = basis_of(None), 1.0 / compound.atoms
-    else:
-        basis = basis_of(per_formula if per_formula is not None else compound.atoms)
-        per_atom = 1.0 / compound.atoms
+    basis = basis_of(per_formula if per_formula is not None else compound.atoms)
+    per_atom = 1.0 / compound.atoms
     key = "gibbs_energy_formation" if quasi else "helmholtz_energy_formation"
     g, s, u = (total[k] * per_atom for k in ("g", "s", "u"))
     table = pd.DataFrame({column_name("temperature"): t,

@@ -218,7 +218,7 @@ ight)`.
         return tuple(p.reshape(shape) for p in self.parameters)
 
 
-def fit_eos(volumes, energies, kind="birch-murnaghan"):
+def fit_eos(volumes, energies, kind="birch-murnaghan", start=None):
     """Fit an equation of state to F(V) at every temperature.
 
     Parameters
@@ -229,6 +229,10 @@ def fit_eos(volumes, energies, kind="birch-murnaghan"):
         F at each volume and temperature [eV].
     kind : {'birch-murnaghan', 'vinet', 'spline'}
         Equation of state.
+    start : numpy.ndarray, shape (4, M), optional
+        Vinet parameters to start from (e.g. the fit of all volumes, for a
+        leave-one-out refit); NaN columns and the default start from the
+        Birch–Murnaghan minimum.
 
     Returns
     -------
@@ -260,7 +264,11 @@ def fit_eos(volumes, energies, kind="birch-murnaghan"):
         return EosFit(kind, v, poly, None, np.sqrt(np.mean(misfit ** 2, axis=0)))
     if kind == "spline":
         return EosFit(kind, v, poly, None, np.where(np.all(np.isfinite(f), axis=0), 0.0, np.nan), f)
-    params = fit_vinet(v, f, _start_from_polynomial(v, poly))
+    first = _start_from_polynomial(v, poly)
+    if start is not None:
+        given = np.asarray(start, dtype=float)
+        first = np.where(np.all(np.isfinite(given), axis=0), given, first)
+    params = fit_vinet(v, f, first)
     misfit = vinet_energy(v[:, None], *params) - f
     return EosFit(kind, v, poly, params, np.sqrt(np.mean(misfit ** 2, axis=0)))
 

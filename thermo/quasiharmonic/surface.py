@@ -103,9 +103,9 @@ class FreeEnergySurface:
         shape = (self.volumes_a3.size, self.temperatures_k.size)
         return {key: sum(np.broadcast_to(e[key], shape) for e in estimated) for key in ERROR_KEYS}
 
-    def refit(self, eos):
-        """The same surface with another equation of state."""
-        return replace(self, fit=fit_eos(self.volumes_a3, self.helmholtz_ev, eos))
+    def refit(self, eos, start=None):
+        """The same surface with another equation of state (Vinet from ``start`` parameters when given)."""
+        return replace(self, fit=fit_eos(self.volumes_a3, self.helmholtz_ev, eos, start))
 
     def without(self, index):
         """The surface without the ``index``-th volume, refitted with the same form (leave-one-out)."""
@@ -116,7 +116,9 @@ class FreeEnergySurface:
         parts = {name: SurfacePart(cut(p.helmholtz_ev), cut(p.entropy_ev_per_k), cut(p.heat_capacity_ev_per_k),
                                    None if p.errors is None else {k: cut(v) for k, v in p.errors.items()})
                  for name, p in self.parts.items()}
-        return replace(self, volumes_a3=self.volumes_a3[keep], parts=parts).refit(self.fit.kind)
+        # a Vinet refit starts from the fit of all volumes: a few steps instead of a fit from scratch
+        return replace(self, volumes_a3=self.volumes_a3[keep], parts=parts).refit(self.fit.kind,
+                                                                                  self.fit.parameters)
 
 
 def vibrational_part(doses, temperatures, method="auto", errors=False):

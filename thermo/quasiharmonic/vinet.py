@@ -21,6 +21,8 @@ from scipy.optimize import least_squares
 _ITERATIONS = 60
 _STEP_TOLERANCE = 1e-12        # largest parameter step (in units of the start values) that counts as settled
 _STUCK_DAMPING = 1e12          # damping at which no step lowers the misfit any more (a minimum to rounding)
+_MAX_RETRIES = 200             # temperatures refitted one by one when the batch fit did not settle (others: NaN)
+_MAX_EVALUATIONS = 400         # misfit evaluations of one such refit
 
 
 def vinet_energy(volume, e0, v0, b0, b0_prime):
@@ -139,8 +141,10 @@ def fit_vinet(v, f, start):
     """
     params, settled = _levenberg_marquardt(v, f, start)
     bad = ~(settled & np.all(np.isfinite(params), axis=0) & (params[2] > 0) & (params[3] > 1))
-    for j in np.flatnonzero(bad):
+    retried = np.flatnonzero(bad)
+    for j in retried[:_MAX_RETRIES]:          # at most _MAX_RETRIES one-by-one fits: bounded time
         params[:, j] = _fit_one(v, f[:, j], start[:, j])
+    params[:, retried[_MAX_RETRIES:]] = np.nan
     return params
 
 
@@ -149,7 +153,11 @@ def _misfit(v, f, p):
 
 
 def _levenberg_marquardt(v, f, start):
-    """Damped Gauss–Newton in units of the start values; returns parameters and a settled flag (M,)."""
+    """Damped Gauss–Newton in units of the start values; returns parameters and a settled flag (M,).
+
+    Each iteration works on the columns not yet settled or stuck only, so the
+    cost follows the columns that still move (linear in M overall).
+    """
     scale = np.abs(start) + np.array([1.0, 0.0, 0.0, 0.0])[:, None]
     x = start / scale
     lam = np.full(f.shape[1], 1e-3)
@@ -157,27 +165,30 @@ def _levenberg_marquardt(v, f, start):
     with np.errstate(all="ignore"):
         r = _misfit(v, f, x * scale)
         cost = np.sum(r * r, axis=0)
+        act = np.arange(f.shape[1])
         for _ in range(_ITERATIONS):
-            jac = np.empty(r.shape + (4,))
+            xa, sa, fa, ra, la = x[:, act], scale[:, act], f[:, act], r[:, act], lam[act]
+            jac = np.empty(ra.shape + (4,))
             for k in range(4):
-                step = np.zeros_like(x)
+                step = np.zeros_like(xa)
                 step[k] = 1e-7
-                jac[..., k] = (_misfit(v, f, (x + step) * scale) - r) / 1e-7
+                jac[..., k] = (_misfit(v, fa, (xa + step) * sa) - ra) / 1e-7
             jt = np.moveaxis(jac, 0, 1)                              # (M, K, 4)
             a = np.einsum("mki,mkj->mij", jt, jt)
-            g = np.einsum("mki,km->mi", jt, r)
-            a_damped = a + lam[:, None, None] * np.eye(4) * np.diagonal(a, axis1=1, axis2=2)[:, :, None]
+            g = np.einsum("mki,km->mi", jt, ra)
+            a_damped = a + la[:, None, None] * np.eye(4) * np.diagonal(a, axis1=1, axis2=2)[:, :, None]
             delta = -np.linalg.solve(a_damped + 1e-300 * np.eye(4), g[..., None])[..., 0].T
-            trial = x + delta
-            r_trial = _misfit(v, f, trial * scale)
+            trial = xa + delta
+            r_trial = _misfit(v, fa, trial * sa)
             cost_trial = np.sum(r_trial * r_trial, axis=0)
-            better = np.isfinite(cost_trial) & (cost_trial <= cost)
-            x = np.where(better, trial, x)
-            r = np.where(better, r_trial, r)
-            done |= better & (np.max(np.abs(delta), axis=0) < _STEP_TOLERANCE)
-            cost = np.where(better, cost_trial, cost)
-            lam = np.where(better, lam / 3, lam * 4)
-            if np.all(done | (lam > _STUCK_DAMPING)):
+            better = np.isfinite(cost_trial) & (cost_trial <= cost[act])
+            x[:, act] = np.where(better, trial, xa)
+            r[:, act] = np.where(better, r_trial, ra)
+            done[act] |= better & (np.max(np.abs(delta), axis=0) < _STEP_TOLERANCE)
+            cost[act] = np.where(better, cost_trial, cost[act])
+            lam[act] = np.where(better, la / 3, la * 4)
+            act = act[~(done[act] | (lam[act] > _STUCK_DAMPING))]
+            if act.size == 0:
                 break
     return x * scale, done | (lam > _STUCK_DAMPING)
 
@@ -193,7 +204,8 @@ def _fit_one(v, col, start):
         return vinet_energy(v, e0, v0, b0, bp) - col
 
     with np.errstate(all="ignore"):
-        result = least_squares(misfit, start / scale, method="lm", xtol=1e-14, ftol=1e-14, gtol=1e-14)
+        result = least_squares(misfit, start / scale, method="lm", xtol=1e-14, ftol=1e-14, gtol=1e-14,
+                               max_nfev=_MAX_EVALUATIONS)
     params = result.x * scale
     ok = result.success and np.all(np.isfinite(params)) and params[2] > 0 and params[3] > 1
     return params if ok else np.full(4, np.nan)

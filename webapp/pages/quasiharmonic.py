@@ -289,7 +289,8 @@ def _tolerance(percent):
 
 def _settings(t_min, t_max, step, pressure):
     """The temperature grid (with 298.15 K when inside it) and the pressure [GPa]."""
-    return with_standard_temperature(budget.temperatures(t_min, t_max, step)), float(pressure or 0.0)
+    return with_standard_temperature(budget.temperatures(t_min, t_max, step,
+                                                                "MODEHEAT_MAX_QHA_TEMPERATURES")), float(pressure or 0.0)
 
 
 def _quoted(table, key):
