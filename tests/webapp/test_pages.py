@@ -220,8 +220,9 @@ def test_compare_relative_differences_with_each_runs_error(demo):
     line = next(tr for tr in absolute.data if tr.name == "springium_md.csv")
     np.testing.assert_allclose(np.asarray(line.y), s_md - s_fcc, rtol=1e-12, atol=1e-12)
     assert "[J/(mol·K)]" in absolute.layout.yaxis.title.text and f"{at[0] - at[1]:+.4g}" in str(table_abs)
-    _, _, _, one = compare.draw(demo, [fcc["id"]], fcc["id"], "entropy", "relative", "298.15", 25, 500, 25, "formula")
-    assert "at least two runs" in one[0].children
+    _, alone, _, one = compare.draw(demo, [fcc["id"]], fcc["id"], "entropy", "relative", "298.15", 25, 500, 25,
+                                    "formula")
+    assert "at least two runs" in one[0].children and len(alone.data) == 1     # its own error band only
 
 
 def test_compare_download_equals_compare_command(demo, tmp_path, capsys):

@@ -18,6 +18,7 @@ from thermo.temperatures import parse_temperatures
 
 from .. import budget, cache, exports, session
 from .. import components as c
+from .. import reading
 from .. import figures as fg
 from ..labels import axis_title, unit_of
 from ..reporting import reported
@@ -72,8 +73,8 @@ def runs(workspace, ids, reference):
         ref = chosen[0]
     if ref is not None and ref not in chosen:
         chosen = [ref] + chosen
-    if len(chosen) < 2:
-        raise OptionError("choose at least two runs (a group, or datasets in the list)")
+    if not chosen:
+        raise OptionError("choose runs: a workspace group, All, or datasets in the list")
     return chosen, chosen.index(ref)
 
 
@@ -86,6 +87,11 @@ def compared(workspace, ids, reference, temperatures, per):
     chosen, ref = runs(workspace, ids, reference)
     doses = [cache.load(d) for d in chosen]
     names = [d["name"] for d in chosen]
+    if len(chosen) == 1:     # one run: its values and its own error estimate (the reference rows only)
+        table = compare_runs(doses * 2, temperatures, names=names * 2, per=per, formula=_formula(chosen, per))
+        table = table[table["reference"]].reset_index(drop=True)
+        table.attrs["reference"] = names[0]
+        return chosen, ref, doses, names, table
     table = compare_runs(doses, temperatures, reference=ref, names=names, per=per, formula=_formula(chosen, per))
     return chosen, ref, doses, names, table
 
@@ -103,7 +109,9 @@ def figures(table, key, per, view):
     for k, (name, rows) in enumerate(table.groupby("run", sort=False)):
         t = rows[t_col].to_numpy()
         over.add_trace(fg.line(t, rows[value], name, k))
-        if name == reference:
+        if name == reference:        # the reference's own error, as a band around zero
+            u = rows[err].to_numpy() * (100.0 / np.abs(rows[value].to_numpy()) if view == "relative" else 1.0)
+            diff.add_trace(fg.band(t, -u, u, f"{name} (reference): ± its estimated error", k))
             continue
         scale = 100.0 / np.abs(base.loc[t].to_numpy()) if view == "relative" else 1.0
         delta = rows[rel].to_numpy() * 100.0 if view == "relative" else rows[value].to_numpy() - base.loc[t].to_numpy()
@@ -161,6 +169,7 @@ def layout(**_query):
                           hint="comma list and/or START:STOP:STEP, > 0"),
                    *c.temperature_fields("cmp", 2, 1500, 5), c.basis_field("cmp-per", value="atom")),
         c.messages_panel("cmp-messages"),
+        reading.panel("cmp"),
         html.H2("Differences at chosen temperatures"),
         html.Div(id="cmp-table"),
         exports.download_bar("cmp", "comparison"),
@@ -200,20 +209,21 @@ def _failed(message):
 @reported(_failed)
 def draw(workspace, ids, reference, quantity, view, spec, t_min, t_max, step, per):
     """Table of differences at the chosen temperatures, value and difference curves over the grid."""
-    if len(ids or []) < 2:
-        blank = fg.message_figure("choose at least two runs")
-        return blank, blank, [], c.message_items([("info", "Choose at least two runs: a workspace group, "
-                                                           "All, or datasets in the list.")])
+    note = [] if len(ids or []) >= 2 else c.message_items([(
+        "info", "Choose at least two runs to compare: a workspace group, All, or datasets in the list "
+                "(one run shows its values and its own error estimate).")])
     grid = budget.temperatures(t_min, t_max, step)
     grid = grid[grid > 0]
     _, _, _, _, curves = compared(workspace, ids, reference, grid, per)
     over, diff = figures(curves, quantity or "entropy", per, view)
     _, _, _, _, table = compared(workspace, ids, reference, parse_temperatures(spec or TABLE_TEMPERATURES), per)
-    return over, diff, difference_table(table, per, view), []
+    return over, diff, difference_table(table, per, view), note
 
 
 def comparison_download(fmt, workspace, ids, reference, spec, per):
     """The comparison as ``modeheat compare RUN... --reference REF --temperatures SPEC --per PER`` writes it."""
+    if len(ids or []) < 2:
+        raise OptionError("choose at least two runs to download a comparison")
     temperatures = parse_temperatures(spec or TABLE_TEMPERATURES)
     chosen, ref, doses, names, table = compared(workspace, ids, reference, temperatures, per)
     info = comparison_provenance(doses, temperatures, reference=ref, names=names, per=per,
@@ -225,4 +235,5 @@ exports.register_download("cmp", [State("mh-workspace", "data"), State("cmp-data
                                   State("cmp-reference", "value"), State("cmp-temperatures", "value"),
                                   State("cmp-per", "value")], comparison_download)
 c.follow_image_format("cmp-overlay-graph", "cmp-diff-graph")
+reading.register("cmp")
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -15,6 +15,7 @@ from thermo.unit_names import ELECTRON_ENERGY_UNITS
 
 from .. import budget, cache, intake
 from .. import components as c
+from .. import exports
 from .. import figures as fg
 from ..demo import electronic_demo_entry
 from ..reporting import reported
@@ -47,6 +48,7 @@ def layout(**_query):
             *c.temperature_fields("el", 0, 1500, 10)),
         c.messages_panel("el-messages"),
         html.Div(id="el-keys"),
+        exports.download_bar("el", "electronic table"),
         html.Div([c.graph("el-dos-graph", "Electronic DOS against E − E_F, with the projected columns"),
                   c.graph("el-ct-graph", "C_el/T against T: the Sommerfeld γ at low T, the DOS shape above"),
                   c.graph("el-s-graph", "Electronic entropy S_el and Helmholtz energy F_el against T")],
@@ -162,4 +164,16 @@ def _keys(summary):
 
 
 c.follow_image_format(*_GRAPHS)
+def table_download(fmt, stored, t_min, t_max, step):
+    """The table as ``modeheat electronic EDOS --temperatures T_MIN:T_MAX:STEP`` writes it (per formula unit)."""
+    from thermo.electronic import electronic_provenance
+    stored = stored or electronic_demo_entry()
+    temperatures = budget.temperatures(t_min, t_max, step)
+    edos, table = computed(stored, temperatures)
+    return exports.table_file(f"{exports.file_stem(stored['name'])}-electronic", table,
+                              electronic_provenance(edos, table.attrs, temperatures), fmt)
+
+
+exports.register_download("el", [State("mh-electronic", "data"), State("el-tmin", "value"), State("el-tmax", "value"),
+                                 State("el-step", "value")], table_download)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

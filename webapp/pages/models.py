@@ -12,6 +12,7 @@ from thermo.columns import find
 
 from .. import budget, cache, session
 from .. import components as c
+from .. import reading
 from .. import exports, notices
 from .. import figures as fg
 from ..labels import axis_title, theta_label
@@ -121,6 +122,7 @@ def layout(**_query):
         "Models", "How well do an Einstein, a Debye or a composite model describe the DOS result? "
                   "Each θ definition gives a different model; pick one and look at the residuals.",
         c.active_slot("mod"),
+        reading.panel("mod"),
         c.controls(c.dropdown("mod-einstein", [], None, "Einstein θ_E", clearable=True),
                    c.dropdown("mod-debye", [], None, "Debye θ_D", clearable=True),
                    c.radio("mod-optical", [{"label": "none", "value": 0}, {"label": "1", "value": 1},
@@ -201,4 +203,5 @@ exports.register_download("mod", [State("mh-workspace", "data"), State("mod-tmin
                                   State("mod-step", "value"), State("mod-optical", "value")], models_download)
 c.follow_active("mod")
 c.follow_image_format(*_GRAPHS)
+reading.register("mod")
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

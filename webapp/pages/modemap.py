@@ -5,13 +5,14 @@ from __future__ import annotations
 import dash
 import numpy as np
 import plotly.graph_objects as go
-from dash import Input, Output, callback, dcc, html
+from dash import Input, Output, State, callback, dcc, html
 
 from thermo import models
 from thermo.errors import OptionError
 
 from .. import cache, session
 from .. import components as c
+from .. import exports
 from .. import figures as fg
 from ..reporting import reported
 
@@ -121,6 +122,7 @@ def layout(**_query):
         c.messages_panel("mm-messages"),
         c.graph("mm-map-graph", "Share of the chosen quantity per frequency bin (each column sums to 100 %; the "
                                 "colour scale is stated on its bar)"),
+        exports.download_bar("mm", "share map"),
         html.H2("At one temperature"),
         c.field("Temperature (log scale)", dcc.Slider(id="mm-temperature", min=0, max=np.log10(3000.0), step=0.01,
                                                       value=np.log10(300.0), marks=_MARKS,
@@ -172,6 +174,35 @@ def _explorer_or_message(dataset, temperature):
     return explorer_figures(dataset, temperature)
 
 
+def share_table(dataset, temperatures):
+    """The share map as a long table: temperature, bin centre, bin edges, C_v and S share [1] per bin."""
+    import pandas as pd
+    data = share_map(dataset, temperatures)
+    nu, edges = np.asarray(data["frequency_thz"]), np.asarray(data["bin_edges_thz"])
+    t = np.asarray(data["temperature_K"])
+    rows = {"temperature_K": np.repeat(t, nu.size), "frequency_THz": np.tile(nu, t.size),
+            "bin_low_THz": np.tile(edges[:-1], t.size), "bin_high_THz": np.tile(edges[1:], t.size),
+            "heat_capacity_v_share": np.asarray(data["heat_capacity_share"]).T.ravel(),
+            "entropy_share": np.asarray(data["entropy_share"]).T.ravel()}
+    return pd.DataFrame(rows)
+
+
+def map_download(fmt, workspace, t_min, t_max):
+    """The share map of the active dataset with its provenance (the DOS, the temperatures, the bins)."""
+    from thermo.provenance import dos_input, provenance_record, temperature_settings
+    current = session.active(workspace)
+    if current is None:
+        return None
+    temperatures = map_temperatures(t_min, t_max)
+    dos = cache.load(current)
+    info = provenance_record([dos_input(dos)], {"temperatures_K": temperature_settings(temperatures), "bins": BINS},
+                             dos.warnings, note="share of C_v and S per frequency bin; each temperature sums to 1")
+    return exports.table_file(f"{exports.file_stem(current['name'])}-mode-shares", share_table(current, temperatures),
+                              info, fmt)
+
+
+exports.register_download("mm", [State("mh-workspace", "data"), State("mm-tmin", "value"), State("mm-tmax", "value")],
+                          map_download)
 c.follow_active("mm")
 c.follow_image_format("mm-map-graph", "mm-cumulative-graph", "mm-planck-graph")
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -11,6 +11,7 @@ from thermo.tables import classical_heat_capacity, provenance
 
 from .. import budget, cache, session
 from .. import components as c
+from .. import reading
 from .. import exports, notices
 from .. import figures as fg
 from ..labels import axis_title, unit_of
@@ -86,6 +87,7 @@ def layout(**_query):
         "Thermodynamics", "Harmonic heat capacity, entropy, internal and Helmholtz energy of the active "
                           "dataset. U and F include the zero-point energy.",
         c.active_slot("th"),
+        reading.panel("th"),
         c.controls(*c.temperature_fields("th"), c.basis_field("th-per"),
                    c.field("Temperature axis", dcc.Checklist(
                        id="th-logt", options=[{"label": " logarithmic", "value": "log"}], value=[]),
@@ -139,4 +141,5 @@ exports.register_download("th", [State("mh-workspace", "data"), State("th-tmin",
                                  State("th-step", "value"), State("th-per", "value")], table_download)
 c.follow_active("th")
 c.follow_image_format(*_GRAPHS)
+reading.register("th")
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)
