@@ -9,6 +9,7 @@ from scipy import constants as sc
 from .kernels.direct import direct_grid_sums
 from .kernels.nu2 import analytic_part_sums
 from .kernels.quadrature import trapezoid_weights
+from .kernels.sums import mode_list_sums
 from .tables import check_temperatures
 
 
@@ -53,7 +54,9 @@ def species_contributions(dos, temperatures):
               S_X = R\int g_X(\nu)\,s(x)\,d\nu
 
     The analytic :math:`A\nu^2` part below the cut-off is shared among
-    species in proportion to their weight in the fitted window.
+    species in proportion to their weight in the fitted window.  A mode
+    list sums each species' share of every mode and of its continuum
+    (:meth:`~thermo.spectrum.ModeList.species_shares`).
 
     References
     ----------
@@ -69,13 +72,16 @@ def species_contributions(dos, temperatures):
     0.666667
     """
     t = check_temperatures(temperatures)
+    if dos.modes is not None:
+        return _table(t, {name: mode_list_sums(dos.modes, t, weights=dos.modes.partials[name],
+                                               continuum_share=share)
+                          for name, share in dos.modes.species_shares().items()})
     hot = t > 0
     fit = dos.low_frequency
     low = (analytic_part_sums(fit, t[hot])
            if dos.low_frequency is not None else None)
     shares = _window_shares(dos)
     weights = trapezoid_weights(dos.frequency_thz, dos.dos)
-    columns = {"temperature_K": t}
     values = {}
     for name, col in dos.partials.items():
         sums = direct_grid_sums(dos.frequency_thz, col * weights, t[hot])
@@ -87,6 +93,18 @@ def species_contributions(dos, temperatures):
         values[name] = (np.zeros_like(t), np.zeros_like(t))
         values[name][0][hot] = sc.R * cv
         values[name][1][hot] = sc.R * s
+    return _shares_frame(t, values)
+
+
+def _table(t, sums):
+    """The frame of :func:`species_contributions` from each species' mode-list sums."""
+    values = {name: (sc.R * s["heat_capacity"], sc.R * s["entropy"]) for name, s in sums.items()}
+    return _shares_frame(t, values)
+
+
+def _shares_frame(t, values):
+    """Columns per species: C_v and S [J/(mol·K)] and their shares of the sum over species."""
+    columns = {"temperature_K": t}
     cv_all = sum(v[0] for v in values.values()) if values else np.zeros_like(t)
     s_all = sum(v[1] for v in values.values()) if values else np.zeros_like(t)
     with np.errstate(divide="ignore", invalid="ignore"):

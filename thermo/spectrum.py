@@ -197,6 +197,20 @@ class ModeList:
         return float(np.sum(self.weight * self.frequency_thz ** power) + np.sum(modes * nodes ** power)) + sum(
             f.analytic_moment(power) for f in self.continuum)
 
+    def species_shares(self) -> dict:
+        """Each species' share of the continuum: its share of the modes below the top of the blend [1].
+
+        Examples
+        --------
+        >>> m = ModeList(np.array([1.0, 2.0]), np.array([1.0, 1.0]), {"A": np.array([0.5, 1.0])})
+        >>> m.species_shares()
+        {'A': 0.0}
+        """
+        top = max((f.blend_top_thz or f.cutoff_thz for f in self.continuum), default=0.0)
+        low = self.frequency_thz <= top
+        whole = float(self.weight[low].sum())
+        return {k: float(v[low].sum()) / whole if whole > 0 else 0.0 for k, v in self.partials.items()}
+
     def summary(self) -> dict:
         """What the list holds, for provenance: modes, continuum, velocities, resolved limit.
 

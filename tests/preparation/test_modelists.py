@@ -124,3 +124,27 @@ def test_cli_table_with_an_elastic_anchor_writes_its_table(tmp_path, capsys, nam
     df, info = read_exported_csv(capsys.readouterr().out)
     assert info["inputs"][0]["options"]["low_frequency"] == "elastic:250.0"
     assert np.all(np.isfinite(df["heat_capacity_v_J_per_mol_K"]))
+
+
+def test_species_contributions_of_a_mode_list_add_up_to_its_table():
+    # projections of each mode sum to 1 over the species (completeness of the eigenvectors, common practice),
+    # so the species' C_v and S, continuum shares included, add up to the table's
+    import sys
+    from pathlib import Path
+    from thermo.partials import species_contributions
+    sys.path.insert(0, str(Path(__file__).resolve().parents[2] / "sample_dos"))
+    from generate import _kmesh, rocksalt       # invented two-atom spring crystal (12.4 and 88.6 u)
+    nu, w = rocksalt(3.2)
+    q = np.repeat(_kmesh(16), 6, axis=0)
+    rows = [f"{1 / 4096} {f} {qi[0]} {qi[1]} {qi[2]} {a} {b}" for f, qi, (a, b) in zip(nu, q, w)]
+    text = "# cell volume: 0.25 A^3\nweight frequency_THz qx_per_A qy_per_A qz_per_A Ly Hv\n" + "\n".join(rows)
+    dos = load_dos(text + "\n")
+    assert dos.modes.continuum and dos.atoms == 2
+    t = [5.0, 50.0, 300.0]
+    parts = species_contributions(dos, t)
+    table = tabulate(dos, t)
+    for q_name, col in (("heat_capacity_v_J_per_mol_K", "heat_capacity_v_J_per_mol_K"),
+                        ("entropy_J_per_mol_K", "entropy_J_per_mol_K")):
+        total = parts[f"Ly_{q_name}"] + parts[f"Hv_{q_name}"]
+        assert np.allclose(total, table[col], rtol=1e-9)
+    assert (parts["Hv_heat_capacity_share"][0] > 0.5)       # the heavy atom carries the cold acoustic modes

@@ -139,7 +139,7 @@ def thermal_sums(dos, temperatures, method="auto", keys=SUM_KEYS):
     return out
 
 
-def mode_list_sums(modes, temperatures, method="auto", keys=SUM_KEYS):
+def mode_list_sums(modes, temperatures, method="auto", keys=SUM_KEYS, weights=None, continuum_share=1.0):
     r"""Sums of a :class:`~thermo.spectrum.ModeList`: every mode, plus its elastic continuum.
 
     Parameters
@@ -152,6 +152,10 @@ def mode_list_sums(modes, temperatures, method="auto", keys=SUM_KEYS):
         Evaluation of the mode sums (see :func:`grid_sums`).
     keys : sequence of str
         Sums wanted.
+    weights : array_like, optional
+        Other weights of the modes (a species' share of each) [1]; default ``modes.weight``.
+    continuum_share : float
+        Share of the continuum counted with them [1].
 
     Returns
     -------
@@ -178,15 +182,20 @@ def mode_list_sums(modes, temperatures, method="auto", keys=SUM_KEYS):
     hot = t > 0
     out = {key: np.zeros_like(t) for key in keys}
     if hot.any():        # the modes, the continuum's taper and dispersion nodes in one pass; its ν² core closed
+        share = continuum_share
         tapers = [fit.taper_nodes() for fit in modes.continuum]
         nodes = np.concatenate([modes.frequency_thz, modes.extra[0]] + [n for n, _ in tapers])
-        weights = np.concatenate([modes.weight, modes.extra[1]] + [w for _, w in tapers])
+        counts = np.concatenate([modes.weight if weights is None else np.asarray(weights, float),
+                                 share * modes.extra[1]] + [share * w for _, w in tapers])
         order = np.argsort(nodes, kind="stable")
-        parts = [grid_sums(nodes[order], weights[order], t[hot], method, keys)]
-        parts += [nu2_part_sums(f.coefficient, f.cutoff_thz, t[hot], f.curvature, f.quartic) for f in modes.continuum]
+        parts = [grid_sums(nodes[order], counts[order], t[hot], method, keys)]
+        parts += [nu2_part_sums(share * f.coefficient, f.cutoff_thz, t[hot], f.curvature, f.quartic)
+                  for f in modes.continuum]
         for key in keys:
             out[key][hot] = sum(p[key] for p in parts)
     if "thermal_energy" in out and "log_partition" in out:
         out["entropy"] = out["thermal_energy"] + out["log_partition"]
-    out["zero_point_thz"] = modes.moment(1) / 2
+    mesh = modes.weight if weights is None else np.asarray(weights, float)
+    out["zero_point_thz"] = float(np.sum(mesh * modes.frequency_thz) + continuum_share * (
+        np.sum(modes.extra[1] * modes.extra[0]) + sum(f.analytic_moment(1) for f in modes.continuum))) / 2
     return out

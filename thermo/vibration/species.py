@@ -98,11 +98,7 @@ def _species_shares(dos):
     For a mode list: each species' share of the modes below the top of the continuum's blend.
     """
     if dos.modes is not None:
-        m = dos.modes
-        top = max((f.blend_top_thz or f.cutoff_thz for f in m.continuum), default=0.0)
-        low = m.frequency_thz <= top
-        whole = float(m.weight[low].sum())
-        return {k: float(m.partials[k][low].sum()) / whole if whole > 0 else 0.0 for k in dos.partials}
+        return {k: dos.modes.species_shares().get(k, 0.0) for k in dos.partials}
     fit = dos.low_frequency
     if fit is None:
         return {name: 0.0 for name in dos.partials}
