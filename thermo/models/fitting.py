@@ -98,7 +98,7 @@ def checked_least_squares(residual, start, what, **options):
     References
     ----------
     .. [1] J. J. Moré, "The Levenberg-Marquardt algorithm: implementation and
-       theory", in *Numerical Analysis*, Springer Notes in Mathematics, vol. 630
+       theory", in *Numerical Analysis* (Dundee 1977), ed. G. A. Watson, vol. 630
        (Springer, 1978), pp. 105-116.
 
     Examples
