@@ -14,7 +14,6 @@ from dash import Input, Output, State, callback, html
 from thermo.columns import column_name, error_key
 from thermo.convergence import DEFAULT_TEMPERATURES, compare_runs, comparison_provenance, difference_key
 from thermo.errors import OptionError
-from thermo.temperatures import parse_temperatures
 
 from .. import budget, cache, exports, session
 from .. import components as c
@@ -216,7 +215,7 @@ def draw(workspace, ids, reference, quantity, view, spec, t_min, t_max, step, pe
     grid = grid[grid > 0]
     _, _, _, _, curves = compared(workspace, ids, reference, grid, per)
     over, diff = figures(curves, quantity or "entropy", per, view)
-    _, _, _, _, table = compared(workspace, ids, reference, parse_temperatures(spec or TABLE_TEMPERATURES), per)
+    _, _, _, _, table = compared(workspace, ids, reference, budget.parsed_temperatures(spec or TABLE_TEMPERATURES), per)
     return over, diff, difference_table(table, per, view), note
 
 
@@ -224,7 +223,7 @@ def comparison_download(fmt, workspace, ids, reference, spec, per):
     """The comparison as ``modeheat compare RUN... --reference REF --temperatures SPEC --per PER`` writes it."""
     if len(ids or []) < 2:
         raise OptionError("choose at least two runs to download a comparison")
-    temperatures = parse_temperatures(spec or TABLE_TEMPERATURES)
+    temperatures = budget.parsed_temperatures(spec or TABLE_TEMPERATURES)
     chosen, ref, doses, names, table = compared(workspace, ids, reference, temperatures, per)
     info = comparison_provenance(doses, temperatures, reference=ref, names=names, per=per,
                                  formula=_formula(chosen, per))

@@ -16,9 +16,8 @@ from thermo.io.writers import DEFAULT_DIGITS, export_table
 from thermo.phases import ENERGY_UNITS, Phase, compare_phases, energy_in_ev
 from thermo.phases.report import CAUTIONS, comparison_json, comparison_provenance
 from thermo.quasiharmonic import read_manifest
-from thermo.temperatures import temperature_range
 
-from .. import cache, filesets, session
+from .. import budget, cache, filesets, session
 from .. import components as c
 from .. import figures as fg
 from ..demo import demo_file
@@ -128,6 +127,8 @@ def results(rows, workspace, unit, temperatures, pressures, boundary):
     """``(phases, comparison)`` memoised on the inputs' content and the settings."""
     phases = build_phases(rows, workspace, unit)
     quasi = bool(phases) and phases[0].quasiharmonic
+    if quasi:                       # an equation-of-state fit per temperature: the Quasi-harmonic page's budget
+        budget.checked_count(temperatures, name="MODEHEAT_MAX_QHA_TEMPERATURES")
     digest = hashlib.sha256(json.dumps([rows, unit, [cache.verified(d) for d in (workspace or {}).get("datasets", [])
                                                      if f"ds:{d['id']}" in {r['source'] for r in rows or []}]],
                                        sort_keys=True, default=str).encode()).hexdigest()
@@ -256,7 +257,7 @@ def _failed(message):
 
 
 def _settings(t_min, t_max, step, pressures):
-    return temperature_range(t_min, t_max, step), parse_pressures(pressures)
+    return budget.temperatures(t_min, t_max, step), parse_pressures(pressures)
 
 
 @callback(Output("ph-delta-graph", "figure"), Output("ph-boundary-graph", "figure"),
