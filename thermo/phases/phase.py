@@ -52,8 +52,9 @@ class Phase:
     ----------
     name : str
         Name shown in tables and transitions.
-    source : PhononDOS or VolumeSet
-        DOS at fixed volume (harmonic) or volume set (quasi-harmonic).
+    source : PhononDOS, VolumeSet or TabulatedPhase
+        DOS at fixed volume (harmonic), volume set (quasi-harmonic) or a table of G(T)
+        (:mod:`thermo.phases.tabulated`, compared as DOS phases are: no pressure axis).
     static_ev : float
         Static (0 K, no zero-point) energy per formula unit of this phase [eV];
         for a volume set, added to its own energies (0: the manifest's).
@@ -88,6 +89,8 @@ class Phase:
                 raise OptionError(f"phase {self.name}: the {what} must be a finite number")
         if self.static_uncertainty_ev < 0:
             raise OptionError(f"phase {self.name}: the static uncertainty must be >= 0")
+        if getattr(self.source, "tabulated", False) and self.electronic is not None:
+            raise OptionError(f"phase {self.name}: a table carries its own G; an electronic DOS cannot be added to it")
         if self.quasiharmonic and self.electronic is not None:
             raise OptionError(f"phase {self.name}: give the electronic DOS of a volume set in its manifest "
                               "(column electronic_dos_file), so that F_el follows the volume")
@@ -275,4 +278,7 @@ def phase_curves(phase, temperatures, pressures_gpa=(0.0,), eos="birch-murnaghan
     """
     if phase.quasiharmonic:
         return quasiharmonic_curves(phase, temperatures, pressures_gpa, eos, errors)
+    if getattr(phase.source, "tabulated", False):
+        from .tabulated import tabulated_curves
+        return tabulated_curves(phase, temperatures, errors)
     return harmonic_curves(phase, temperatures, errors)
