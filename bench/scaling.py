@@ -25,8 +25,7 @@ TEMPERATURE_COUNTS = (10, 100, 1_000, 10_000)
 
 
 def _text(points):
-    """The spring crystal as ``points`` plain data rows (no header: the limit of 10⁶ rows counts every line,
-    so the unit is given with :data:`UNIT` instead)."""
+    """The spring crystal as ``points`` plain data rows (no header; the unit is given with :data:`UNIT`)."""
     nu, g = cases.spring_crystal(points)
     return "\n".join(np.char.add(np.char.add(np.char.mod("%.9g", nu), " "), np.char.mod("%.9g", g)).tolist()) + "\n"
 

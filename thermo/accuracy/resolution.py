@@ -76,9 +76,10 @@ class Resolution:
 
     Attributes
     ----------
-    kind : {'histogram', 'gaussian', 'plain'}
+    kind : {'histogram', 'gaussian', 'plain', 'modes'}
         Histogram of bin centres, Gaussian-smeared mesh DOS (smearing seen in
-        its lowest feature), or neither seen.
+        its lowest feature), neither seen, or a mode list without a long-wave
+        continuum (nothing resolved below its lowest mode).
     width_thz : float
         Bin width, smearing σ, or 0 [THz].
     step_thz : float
@@ -185,7 +186,7 @@ def analyse_resolution(dos):
     ('plain', True)
     """
     if dos.modes is not None and not dos.source.get("histogram"):
-        return None                      # a mode list: see thermo.preparation.modelist
+        return None if dos.modes.continuum else _list_resolution(dos.modes)
     nu, g = _data(dos)
     if nu.size < 4 or not np.any(g > 0):
         return None
@@ -212,6 +213,18 @@ def analyse_resolution(dos):
     lost = float(g[0] * width * np.sqrt(np.pi / 2) / total) if kind == "gaussian" and nu[0] == 0 else 0.0
     return Resolution(kind, float(width), step, float(resolved), a, float(H_OVER_K_THZ * resolved / RESOLVED_DIVISOR),
                       lost)
+
+
+def _list_resolution(modes):
+    """A mode list without a long-wave continuum resolves nothing below its lowest mode: ν³ law of the count above."""
+    x = np.concatenate([[0.0], modes.frequency_thz])
+    n = np.concatenate([[0.0], np.cumsum(modes.weight)])
+    if x.size < 4 or n[-1] <= 0:
+        return None
+    resolved = float(modes.resolved_thz or modes.frequency_thz[0])
+    a = _law(x, n, resolved, float(n[-1]))
+    step = resolved / 10.0
+    return Resolution("modes", 0.0, step, resolved, a, float(H_OVER_K_THZ * resolved / RESOLVED_DIVISOR))
 
 
 def _window(x, n, start, total):
@@ -244,7 +257,8 @@ def resolution_note(resolution, temperatures):
     if resolution is None or not np.any((t > 0) & (t < resolution.undetermined_below_k)):
         return None
     what = {"gaussian": f"Gaussian smearing σ ≈ {resolution.width_thz:.3g} THz",
-            "histogram": f"{resolution.width_thz:.3g} THz bins", "plain": "its lowest rows"}[resolution.kind]
+            "histogram": f"{resolution.width_thz:.3g} THz bins", "plain": "its lowest rows",
+            "modes": "its lowest mode"}[resolution.kind]
     return (f"the data resolve frequencies down to {resolution.resolved_thz:.3g} THz ({what}, first q-shells); "
             f"below {resolution.undetermined_below_k:.3g} K the table is not determined by the data "
             "(see the resolution part of the error estimate)")
@@ -354,7 +368,7 @@ def resolution_parts(dos, temperatures, resolution=None):
     moved = (np.interp(grid, x, n, right=n[-1]) - _smoothed_count(nu, g, histogram, grid, sigma)) * scale
     fit = dos.low_frequency
     own = r.resolved_thz if fit is None else max(r.resolved_thz, fit.blend_top_thz or fit.cutoff_thz)
-    if r.kind == "plain":                                # no smearing seen: the grid is the numerical part's
+    if r.kind in ("plain", "modes"):                     # no smearing seen: the grid is the numerical part's
         own = np.inf
     # modes the extra smearing moves, per interval, where the table uses the data (not the ν² form)
     d_sm = np.where(mid < own, 0.0, np.diff(moved))

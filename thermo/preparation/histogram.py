@@ -18,6 +18,7 @@ midpoint rule of the step function it stands for.
 
 from __future__ import annotations
 
+import dataclasses
 import re
 
 import numpy as np
@@ -96,7 +97,7 @@ def merged_bins(frequency_thz, dos, offset=0):
             np.concatenate([head, body[0::2] + body[1::2]]))
 
 
-def histogram_dos(nu_all, cols_all, names, atoms, share=0.0, policy="drop", **fields):
+def histogram_dos(nu_all, cols_all, names, atoms, share=0.0, policy="drop", theta_k=None, **fields):
     r"""The prepared DOS of a histogram: its bins as modes, normalised to 3n.
 
     Parameters
@@ -113,6 +114,11 @@ def histogram_dos(nu_all, cols_all, names, atoms, share=0.0, policy="drop", **fi
         Imaginary share of the modes [1].
     policy : str
         Imaginary-mode policy (``drop`` renormalises the real modes to 3n).
+    theta_k : float or None
+        Elastic Debye temperature θ [K] of ``--low-frequency elastic:θ``: below
+        the histogram's resolved limit (:func:`thermo.preparation.anchor.elastic_anchor`)
+        the bins give way to the law :math:`A\nu^2` with a smooth step, as for
+        a mode list without wave vectors; the bins carry the remaining modes.
     **fields
         Further :class:`~thermo.spectrum.PhononDOS` fields (source, warnings, inputs).
 
@@ -124,8 +130,8 @@ def histogram_dos(nu_all, cols_all, names, atoms, share=0.0, policy="drop", **fi
 
     Notes
     -----
-    :math:`	ext{scale} = 3n(1-f^{[	ext{drop-unscaled}]}_{imag}) / \sum_{
-u_i>0} g_i\Delta`.
+    :math:`\text{scale} = 3n(1-f^{[\text{drop-unscaled}]}_{imag}) / \sum_{\nu_i>0} g_i\Delta`;
+    with an anchor, :math:`\text{scale} = (3n(\ldots) - \int A\nu^2 W) / \sum g_i\Delta(1-W_i)`.
 
     Examples
     --------
@@ -139,15 +145,26 @@ u_i>0} g_i\Delta`.
     h = bin_width(nu_all[real]) if real.sum() > 1 else bin_width(nu_all)
     modes = [np.asarray(c, float)[real] * h for c in cols_all]
     real_modes = 3 * atoms * (1.0 if policy == "drop" else 1.0 - share)
+    nu = nu_all[real]
     total = float(modes[0].sum())
     scale = real_modes / total if total > 0 else 1.0
-    keep = modes[0] > 0
-    nu = nu_all[real]
-    listed = ModeList(nu[keep], modes[0][keep] * scale,
-                      partials={k: m[keep] * scale for k, m in zip(names, modes[1:])},
-                      resolved_thz=float(nu[keep][0]) if keep.any() else 0.0)
+    continuum, kept, note = (), np.ones(nu.size), None
+    if theta_k is not None and total > 0:
+        from .anchor import elastic_anchor
+        fit, note = elastic_anchor(nu, modes[0] * scale / h, theta_k, atoms, real_modes)
+        law = dataclasses.replace(fit, smooth_taper=True)
+        continuum, kept = (law,), 1.0 - law.taper(nu)
+        scale = (real_modes - law.analytic_moment()) / float((modes[0] * kept).sum())
+    keep = modes[0] * kept > 0
+    listed = ModeList(nu[keep], (modes[0] * kept)[keep] * scale,
+                      partials={k: (m * kept)[keep] * scale for k, m in zip(names, modes[1:])},
+                      continuum=continuum,
+                      resolved_thz=(continuum[0].cutoff_thz if continuum else float(nu[keep][0]) if keep.any()
+                                    else 0.0))
     source = dict(fields.pop("source", {}))
     source.update(histogram=True, histogram_bin_THz=h, scale_factor=scale)
+    if note:
+        fields["warnings"] = tuple(fields.get("warnings", ())) + (note,)
     return PhononDOS(frequency_thz=nu, dos=np.asarray(cols_all[0], float)[real] * scale, atoms=atoms,
                      partials={k: np.asarray(c, float)[real] * scale for k, c in zip(names, cols_all[1:])},
                      modes=listed, source=source, **fields)
