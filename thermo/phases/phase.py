@@ -249,6 +249,27 @@ def quasiharmonic_curves(phase, temperatures, pressures_gpa, eos="birch-murnagha
                   evaluate_many, tuple(dict.fromkeys(notes)))
 
 
+def tabulated_curves(phase, temperatures, errors=True):
+    """:class:`Curves` of a table phase (no pressure axis), per atom.
+
+    Notes
+    -----
+    :math:`G = E_{static} + G_{table}(T)` per formula unit, divided by the atoms per formula unit;
+    the error is the table's (:meth:`thermo.phases.tabulated.TabulatedPhase.values`) plus the static
+    uncertainty.
+    """
+    t = np.asarray(temperatures, dtype=float)
+    n = phase.atoms
+    g, s, u = phase.source.values(t)
+    u = phase.static_uncertainty_ev + (u if errors else 0.0 * u)
+
+    def evaluate(_k, temps):
+        gg, ss, _ = phase.source.values(temps)
+        return (gg + phase.static_ev) / n, ss / n, np.full(gg.shape, np.nan)
+    return Curves(t, np.array([np.nan]), ((g + phase.static_ev) / n)[None], (u / n)[None], (s / n)[None],
+                  np.full((1, t.size), np.nan), evaluate, lambda _ks, temps: evaluate(0, temps))
+
+
 def phase_curves(phase, temperatures, pressures_gpa=(0.0,), eos="birch-murnaghan", errors=True):
     """G(T, p) per atom of a phase, its entropy, volume and estimated error (:class:`Curves`).
 
@@ -279,6 +300,5 @@ def phase_curves(phase, temperatures, pressures_gpa=(0.0,), eos="birch-murnaghan
     if phase.quasiharmonic:
         return quasiharmonic_curves(phase, temperatures, pressures_gpa, eos, errors)
     if getattr(phase.source, "tabulated", False):
-        from .tabulated import tabulated_curves
         return tabulated_curves(phase, temperatures, errors)
     return harmonic_curves(phase, temperatures, errors)

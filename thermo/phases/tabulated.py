@@ -243,23 +243,3 @@ def is_phase_table(head):
     text = head.decode("utf-8-sig", errors="replace") if isinstance(head, bytes) else str(head)
     return text.lstrip().startswith("# tool: modeheat")
 
-
-def tabulated_curves(phase, temperatures, errors=True):
-    """:class:`~thermo.phases.phase.Curves` of a table phase (no pressure axis), per atom.
-
-    Notes
-    -----
-    :math:`G = E_{static} + G_{table}(T)` per formula unit, divided by the atoms per formula unit;
-    the error is the table's (see :meth:`TabulatedPhase.values`) plus the static uncertainty.
-    """
-    from .phase import Curves
-    t = np.asarray(temperatures, dtype=float)
-    n = phase.atoms
-    g, s, u = phase.source.values(t)
-    u = phase.static_uncertainty_ev + (u if errors else 0.0 * u)
-
-    def evaluate(_k, temps):
-        gg, ss, _ = phase.source.values(temps)
-        return (gg + phase.static_ev) / n, ss / n, np.full(gg.shape, np.nan)
-    return Curves(t, np.array([np.nan]), ((g + phase.static_ev) / n)[None], (u / n)[None], (s / n)[None],
-                  np.full((1, t.size), np.nan), evaluate, lambda _ks, temps: evaluate(0, temps))
