@@ -10,7 +10,6 @@ from pathlib import Path
 
 import numpy as np
 import pytest
-from selenium.webdriver.common.by import By
 
 from tests.browser.test_dashboard import no_console_errors, wait_drawn
 from tests.browser.waits import text, until
@@ -36,10 +35,17 @@ def _value(driver, css):
 
 def _sent_to_phases_equals_command(duo, prefix, tmp_path):
     duo.find_element(f"#{prefix}-send-phases").click()
-    until(lambda: duo.find_element(f"#{prefix}-send-phases-note").text.startswith("sent "))
-    item = until(lambda: json.loads(duo.driver.execute_script(
-        "return window.sessionStorage.getItem('mh-sent') || '{}';")).get("phases"))
-    duo.driver.find_element(By.CSS_SELECTOR, f"#{prefix}-send-phases-note a[href='/phases']").click()
+    note = until(lambda: text(duo.driver, f"#{prefix}-send-phases-note").startswith("sent ")
+                 and text(duo.driver, f"#{prefix}-send-phases-note"))
+    name = note[len("sent "):].split(" — ")[0].strip()
+
+    def stored():           # the item this click sent (the store may still hold an earlier one)
+        item = json.loads(duo.driver.execute_script("return window.sessionStorage.getItem('mh-sent') || '{}';"))
+        return item.get("phases") if (item.get("phases") or {}).get("name") == name else None
+    until(stored)
+    until(lambda: duo.driver.execute_script(          # the link of the note (clicked in one call: no stale handle)
+        "const a = document.querySelector(arguments[0]); if (a) { a.click(); } return !!a;",
+        f"#{prefix}-send-phases-note a[href='/phases']"))
     until(lambda: "sent from" in text(duo.driver, "#ph-choice"))
     until(lambda: "stable" in text(duo.driver, "#ph-transitions") or "→" in text(duo.driver, "#ph-transitions"))
     wait_drawn(duo.driver, ["ph-delta-graph"])
@@ -49,6 +55,7 @@ def _sent_to_phases_equals_command(duo, prefix, tmp_path):
     duo.find_element("#ph-download-btn").click()
     target = Path(duo.download_path) / f"phases-{'-'.join(names)}.csv"
     until(lambda: target.exists() and target.stat().st_size > 0)
+    item = until(stored)          # what the Phases page compared: the store as it is now
     sent = tmp_path / item["name"]
     sent.write_text(item["csv"], encoding="utf-8")
     ws = demo_workspace()                           # the page's workspace on a first visit
