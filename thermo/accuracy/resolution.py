@@ -15,10 +15,14 @@ spectra with the same mode count, integration by parts gives
 so a bound :math:`D(\nu) \ge |N_{table}-N_{true}|` gives an error bound per
 quantity and temperature:
 
-* *resolution* (:math:`\nu<\nu_r`): :math:`D = \max(N_{table}, \gamma N_{D})`, with
+* *resolution* (:math:`\nu<\nu_r`): the true count lies between 0 and
+  :math:`U = \min(\gamma N_D, N_{table}(\nu_r) + |\Delta N_e(\nu_r)|)`, so
+  :math:`D = \max(N_{table}, U - N_{table})`, with
   :math:`N_D = A\nu^3/3` the ν³ law fitted to the cumulative count above
-  :math:`\nu_r` (far less sensitive to mesh combs than :math:`g/\nu^2`) and
-  :math:`\gamma` = :data:`MODEL_FACTOR`; when the table follows a fitted ν²
+  :math:`\nu_r` (far less sensitive to mesh combs than :math:`g/\nu^2`),
+  :math:`\gamma` = :data:`MODEL_FACTOR` and :math:`\Delta N_e(\nu_r)` the count
+  the extra smearing below moves across :math:`\nu_r` (the count up to
+  :math:`\nu_r` is the data's within it); when the table follows a fitted ν²
   form there, :math:`D = |N_{table} - N_D| + 0.5 N_D` (:data:`LAW_UNCERTAINTY`);
 * *smearing* (:math:`\nu\ge\nu_r`): twice the change of the table,
   :math:`2|\int K\,d(N_{data}-N_{data}*G_{\sigma_e})|`, when the data are
@@ -27,7 +31,12 @@ quantity and temperature:
   numerical part's):
   to first order that change equals the error of the smearing the data
   carry (Richardson's argument applied to σ², [2]_); it also sees the comb
-  of the shells.
+  of the shells.  For S the change is taken by parts,
+  :math:`2|\int_{\nu_r} K_S'\,(N_{data}-N_{data}*G_{\sigma_e})\,d\nu|`: the
+  kernel :math:`K_S = 1 - \ln x + \dots` grows like ln T at high T, and an
+  error bound must not change when a constant is added to the kernel (the
+  mode count is fixed) — the count moved across :math:`\nu_r` belongs to
+  the resolution part.
 
 References
 ----------
@@ -360,18 +369,21 @@ def resolution_parts(dos, temperatures, resolution=None):
     table = _table_cumulative(dos, mid)
     below = mid < r.resolved_thz
     law = r.coefficient * scale * mid ** 3 / 3.0
-    if dos.low_frequency is None:        # the table is the data there: anything between it and twice the law
-        d_res = np.where(below, np.maximum(table, MODEL_FACTOR * law), 0.0)
-    else:                                # the table follows a ν² law there: the law known within LAW_UNCERTAINTY
-        d_res = np.where(below, np.abs(table - law) + LAW_UNCERTAINTY * law, 0.0)
     x, n = _cumulative(nu, g, histogram)
     moved = (np.interp(grid, x, n, right=n[-1]) - _smoothed_count(nu, g, histogram, grid, sigma)) * scale
+    if dos.low_frequency is None:        # the table is the data there: the truth lies between 0 and a cap
+        cap = float(np.interp(r.resolved_thz, mid, table)) + abs(float(np.interp(r.resolved_thz, grid, moved)))
+        d_res = np.where(below, np.maximum(table, np.minimum(MODEL_FACTOR * law, cap) - table), 0.0)
+    else:                                # the table follows a ν² law there: the law known within LAW_UNCERTAINTY
+        d_res = np.where(below, np.abs(table - law) + LAW_UNCERTAINTY * law, 0.0)
     fit = dos.low_frequency
     own = r.resolved_thz if fit is None else max(r.resolved_thz, fit.blend_top_thz or fit.cutoff_thz)
     if r.kind in ("plain", "modes"):                     # no smearing seen: the grid is the numerical part's
         own = np.inf
     # modes the extra smearing moves, per interval, where the table uses the data (not the ν² form)
     d_sm = np.where(mid < own, 0.0, np.diff(moved))
+    # S: the same change integrated by parts, without the count moved across ν_r times K_S(ν_r) (see notes)
+    m_sm = np.where(mid < own, 0.0, 0.5 * (moved[1:] + moved[:-1]))
     hot = t > 0
     out_res, out_sm = zero, zero.copy()
     if hot.any():
@@ -383,7 +395,10 @@ def resolution_parts(dos, temperatures, resolution=None):
         for lo in range(0, aux.size, 64):        # temperature blocks: memory stays small
             for i, k in enumerate(_kernels(floor, aux[lo:lo + 64])):
                 res_aux[i, lo:lo + 64] = np.einsum("g,gm->m", d_res, np.abs(np.diff(k, axis=0)))
-                sm_aux[i, lo:lo + 64] = np.abs(np.einsum("g,gm->m", d_sm, 0.5 * (k[1:] + k[:-1])))
+                if i == 1:
+                    sm_aux[i, lo:lo + 64] = np.abs(np.einsum("g,gm->m", m_sm, np.diff(k, axis=0)))
+                else:
+                    sm_aux[i, lo:lo + 64] = np.abs(np.einsum("g,gm->m", d_sm, 0.5 * (k[1:] + k[:-1])))
         res_hot = res_aux[:, np.searchsorted(aux, th)]
         near = (aux[None, :] >= th[:, None] / ENVELOPE) & (aux[None, :] <= th[:, None] * ENVELOPE)
         out_res[:, hot] = RESOLUTION_SAFETY * res_hot
