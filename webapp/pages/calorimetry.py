@@ -84,7 +84,7 @@ def layout(**_query):
         html.H2("Fitted parameters"),
         dcc.Loading(html.Div(id="cal-params"), type="dot"),
         exports.download_bar("cal", "calorimetry result", formats=("json", "csv", "xlsx")),
-        handoff.send_bar("cal", "the fitted C_p table", ("polynomials",)),
+        handoff.send_bar("cal", "the fitted C_p table", ("polynomials", "phases")),
         html.Div([html.P(text, className="mh-msg mh-msg-info") for text in CAUTIONS], id="cal-cautions"),
     )
 
@@ -432,7 +432,8 @@ _STATES = [State("cal-measured", "data"), State("mh-workspace", "data"), State("
            State("mh-electronic", "data"), State("mh-config", "data")]
 exports.register_download("cal", _STATES, calorimetry_download)
 # the residual and third-law table (fitted C_p, S° from the data) as the csv download writes it
-handoff.register_send("cal", "polynomials", _STATES, lambda *values: calorimetry_download("csv", *values), NAME)
+for _target in ("polynomials", "phases"):      # Phases reads its H° − H°(0) and S° (thermo.phases.tabulated)
+    handoff.register_send("cal", _target, _STATES, lambda *values: calorimetry_download("csv", *values), NAME)
 
 
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)
