@@ -414,7 +414,7 @@ def breakdown_summary(breakdown):
             if error_column(key, part, relative=True) not in breakdown:
                 continue
             rel = breakdown[error_column(key, part, relative=True)].to_numpy()
-            i = int(np.argmax(rel)) if rel.size else 0
+            i = int(np.argmax(np.round(rel, 12))) if rel.size else 0     # ties (an envelope): the lowest T
             entry[part] = {"max_relative": float(rel[i]) if rel.size else 0.0,
                            "at_temperature_K": float(t[i]) if rel.size else None,
                            "max_absolute": float(breakdown[error_column(key, part)].max())}
