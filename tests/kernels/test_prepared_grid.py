@@ -54,3 +54,14 @@ def test_pickled_dos_leaves_the_preparation_behind_and_sums_the_same():
     assert len(pickle.dumps(dos)) == before
     back = pickle.loads(pickle.dumps(dos))
     assert _worst(thermal_sums(back, T), first) < 1e-14
+
+
+def test_a_long_spectrum_at_a_few_temperatures_takes_the_fast_path_to_the_direct_sums():
+    from thermo.kernels import loggrid
+    nu = np.linspace(0.0, 12.0, 200_001)
+    w = mode_weights(nu, 9.0 * nu ** 2 / 12.0 ** 3)
+    t = np.array([3.0, 40.0, 300.0, 1200.0])
+    assert loggrid.suitable(nu, w, t) and not loggrid.suitable(nu[:40_001], w[:40_001], t)
+    assert not loggrid.suitable(nu, w, t[:1])
+    fast, direct = loggrid.loggrid_sums(nu, w, t), direct_grid_sums(nu, w, t)
+    assert _worst(fast, direct) < 1e-9
