@@ -285,6 +285,10 @@ class PhononDOS:
     input_partials: dict = field(default_factory=dict)
     modes: ModeList | None = None
 
+    def __getstate__(self):
+        """Pickled without the sums' preparation kept beside the fields (derived, rebuilt on first use)."""
+        return {k: v for k, v in self.__dict__.items() if k != "_prepared_grid"}
+
     @property
     def mode_count(self) -> float:
         """Number of real modes carried by the spectrum [per formula unit]."""

@@ -380,14 +380,14 @@ def estimated_relative_error(dos, temperatures, breakdown=None):
     >>> 1e-9 < estimated_relative_error(d, [100.0, 300.0]) < 1e-3
     True
     """
-    b = error_breakdown(dos, temperatures) if breakdown is None else breakdown
+    b = _without_attrs(error_breakdown(dos, temperatures) if breakdown is None else breakdown)
     hot = b[column_name("temperature")].to_numpy() > 0
     if not hot.any():
         return 0.0
     worst = 0.0
     energy = np.abs(b[column_name("internal_energy")].to_numpy()[hot])
     for key in QUANTITIES:
-        total = sum(b[error_column(key, p)] for p in PARTS if error_column(key, p) in b).to_numpy()[hot]
+        total = sum(b[error_column(key, p)].to_numpy() for p in PARTS if error_column(key, p) in b)[hot]
         ref = energy if key == "helmholtz_energy" else np.abs(b[column_name(key)].to_numpy()[hot])
         with np.errstate(divide="ignore", invalid="ignore"):
             rel = np.where(ref > 0, total / ref, 0.0)
@@ -406,6 +406,8 @@ def breakdown_summary(breakdown):
     >>> breakdown_summary(b)["flagged_temperatures_K"]
     [1.0]
     """
+    resolution = breakdown.attrs.get("resolution")
+    breakdown = _without_attrs(breakdown)
     t = breakdown[column_name("temperature")].to_numpy()
     out = {}
     for key in QUANTITIES:
@@ -414,14 +416,27 @@ def breakdown_summary(breakdown):
             if error_column(key, part, relative=True) not in breakdown:
                 continue
             rel = breakdown[error_column(key, part, relative=True)].to_numpy()
-            i = int(np.argmax(rel)) if rel.size else 0
+            i = int(np.argmax(np.round(rel, 12))) if rel.size else 0     # ties (an envelope): the lowest T
             entry[part] = {"max_relative": float(rel[i]) if rel.size else 0.0,
                            "at_temperature_K": float(t[i]) if rel.size else None,
-                           "max_absolute": float(breakdown[error_column(key, part)].max())}
+                           "max_absolute": _nan_max(breakdown[error_column(key, part)].to_numpy())}
         out[key] = entry
     out["flagged_temperatures_K"] = [float(v) for v in t[breakdown[column_name("low_frequency_flag")].to_numpy()]]
     if column_name("error_flag") in breakdown:
         flagged = breakdown[column_name("error_flag")].to_numpy()
         out["error_flagged_temperatures_K"] = [float(v) for v in t[flagged]]
-    out["resolution"] = breakdown.attrs.get("resolution")
+    out["resolution"] = resolution
     return out
+
+
+def _nan_max(values):
+    """Largest value, NaN left out (as pandas' ``Series.max``); NaN when none is left."""
+    kept = values[~np.isnan(values)]
+    return float(kept.max()) if kept.size else float("nan")
+
+
+def _without_attrs(frame):
+    """A shallow view of ``frame`` without ``attrs`` (pandas deep-copies them on every column read)."""
+    plain = frame.copy(deep=False)
+    plain.attrs = {}
+    return plain

@@ -54,6 +54,7 @@ from scipy import constants as sc
 
 from ..kernels.planck import H_OVER_K_THZ
 from ..preparation.histogram import is_histogram
+from ..preparation.resolved import cumulative_count as _cumulative, law_coefficient as _law, resolved_limit
 
 #: The ν³ law below the resolved limit is trusted to this factor (the true count may exceed the fit's).
 MODEL_FACTOR = 2.0
@@ -72,10 +73,6 @@ ENVELOPE = 1.3
 ENVELOPE_POINTS = 60
 #: The table is not determined by the data below h·ν_r/(k_B · this) (as for a mode list).
 RESOLVED_DIVISOR = 5.0
-#: Share of the modes below the top of the ν³ fit window [1].
-FIT_SHARE = 0.05
-#: The data follow the ν³ law above ν_r within this factor.
-LAW_BAND = 2.0
 _J_PER_MOL_PER_THZ = sc.h * 1e12 * sc.N_A
 
 
@@ -131,58 +128,6 @@ def _data(dos):
     return nu[keep], np.clip(g[keep], 0.0, None)
 
 
-def _gaussian_width(nu, g, law):
-    """(σ, centre) of the lowest feature when it is a Gaussian (half-Gaussian at 0 or a rising tail), else (0, 0).
-
-    A rising start that is no single Gaussian gives (-1, 0): σ then follows from g(0) = Aσ²/2 with
-    ``law`` = A.  (Restricting the tail to where the data lie below the ν² law under-estimated σ on
-    shifted 16³–24³ meshes, so the leading run is used as it is: it can only over-estimate σ.)
-    """
-    pos = np.flatnonzero(g > 0)
-    if pos.size < 4:
-        return 0.0, 0.0
-    i0 = pos[0]
-    # a maximum at the start: Γ's modes smeared into a half Gaussian
-    if g[i0] > 0 and (i0 + 1 < g.size) and g[i0 + 1] < g[i0]:
-        j = i0 + 1
-        while j + 1 < g.size and 0 < g[j + 1] < g[j]:
-            j += 1
-        sel = np.arange(i0, j + 1)
-        sel = sel[g[sel] > 1e-8 * g[i0]]
-        if sel.size >= 3:
-            slope = np.polyfit(nu[sel] ** 2, np.log(g[sel]), 1)[0]
-            if slope < 0:
-                return float(np.sqrt(-0.5 / slope)), 0.0
-        return 0.0, 0.0
-    # a rising start from a non-zero value at 0: the tail of the lowest smeared shell (quadratic ln g)
-    if nu[0] > 1e-6 * (nu[-1] - nu[0]) or g[0] <= 0:
-        return 0.0, 0.0
-    best = None
-    for k in range(5, min(g.size, 80) + 1):          # the longest leading run that is one Gaussian tail
-        sel = np.arange(k)
-        if np.any(g[sel] <= 0):
-            break
-        coef = np.polyfit(nu[sel], np.log(g[sel]), 2)
-        rms = float(np.sqrt(np.mean((np.polyval(coef, nu[sel]) - np.log(g[sel])) ** 2)))
-        if coef[0] >= 0 or rms > 0.02:
-            break
-        best = coef
-    if best is not None:
-        return float(np.sqrt(-0.5 / best[0])), max(float(-best[1] / (2 * best[0])), 0.0)
-    return -1.0, 0.0          # smeared, width from g(0) = Aσ²/2 (see analyse_resolution)
-
-
-def _cumulative(nu, g, histogram):
-    """N at the grid nodes (trapezoid) or at the bin tops (histogram), and those abscissae."""
-    if histogram:
-        h = nu[1] - nu[0]
-        return np.concatenate([[0.0], nu + h / 2]), np.concatenate([[0.0], np.cumsum(g) * h])
-    n = np.concatenate([[0.0], np.cumsum(0.5 * (g[1:] + g[:-1]) * np.diff(nu))])
-    if nu[0] > 0:
-        return np.concatenate([[0.0], nu]), np.concatenate([[0.0], n + g[0] * nu[0] / 3])
-    return nu, n
-
-
 def analyse_resolution(dos):
     """The :class:`Resolution` of a prepared DOS (None for a mode list or an empty table).
 
@@ -200,25 +145,8 @@ def analyse_resolution(dos):
     if nu.size < 4 or not np.any(g > 0):
         return None
     histogram = bool(dos.source.get("histogram")) or is_histogram(nu)
-    step = float(np.median(np.diff(nu)))
-    kind, width, centre = "histogram", step, 0.0
-    x, n = _cumulative(nu, g, histogram)
-    total = n[-1]
-    if not histogram:
-        a0 = _law(x, n, max(2.0 * step, float(x[1])), total)
-        width, centre = _gaussian_width(nu, g, a0)
-        kind = "gaussian" if width != 0 else "plain"
-        if width < 0:             # a smeared ν² law has g(0) = Aσ²/2: σ from the ν³ law of the count
-            width = float(np.sqrt(2.0 * g[0] / a0)) if a0 > 0 else step
-    start = max(centre + 2.0 * width, 2.0 * step, float(x[1]))
-    win = _window(x, n, start, total)
-    a = _law(x, n, start, total)
-    resolved = start
-    if a > 0:
-        ratio = n[win] / (a * x[win] ** 3 / 3.0)
-        bad = np.flatnonzero((ratio > LAW_BAND) | (ratio < 1.0 / LAW_BAND))
-        if bad.size:
-            resolved = max(resolved, float(x[win][bad[-1]]))
+    kind, width, step, resolved, a = resolved_limit(nu, g, histogram)
+    total = _cumulative(nu, g, histogram)[1][-1]
     lost = float(g[0] * width * np.sqrt(np.pi / 2) / total) if kind == "gaussian" and nu[0] == 0 else 0.0
     return Resolution(kind, float(width), step, float(resolved), a, float(H_OVER_K_THZ * resolved / RESOLVED_DIVISOR),
                       lost)
@@ -234,21 +162,6 @@ def _list_resolution(modes):
     a = _law(x, n, resolved, float(n[-1]))
     step = resolved / 10.0
     return Resolution("modes", 0.0, step, resolved, a, float(H_OVER_K_THZ * resolved / RESOLVED_DIVISOR))
-
-
-def _window(x, n, start, total):
-    """Grid points of the ν³ fit window: from ``start`` to where N reaches FIT_SHARE of the modes (at least 2 start)."""
-    top = max(float(np.interp(FIT_SHARE * total, n, x)), 2.0 * start)
-    win = (x >= start) & (x <= top)
-    if win.sum() < 2:
-        win = (x >= start) & (x <= x[min(np.searchsorted(x, start) + 2, x.size - 1)])
-    return win
-
-
-def _law(x, n, start, total):
-    """A of N = Aν³/3 over the fit window (median of 3N/ν³: robust to the comb of the shells) [modes/THz³]."""
-    win = _window(x, n, start, total)
-    return float(np.median(3.0 * n[win] / x[win] ** 3)) if win.any() else 0.0
 
 
 def resolution_note(resolution, temperatures):

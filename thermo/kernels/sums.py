@@ -75,8 +75,9 @@ def grid_sums(nodes_thz, weights, temperatures, method="auto", keys=SUM_KEYS, pr
     """
     if method not in ("auto", "direct", "fast"):
         raise OptionError(f"unknown method {method!r}; choose auto, direct or fast")
-    if method == "fast" or (method == "auto" and np.size(temperatures) >= loggrid.MIN_TEMPERATURES
-                            and np.size(nodes_thz) * np.size(temperatures) >= loggrid.MIN_PAIRS):
+    m, n = np.size(temperatures), np.size(nodes_thz)
+    if method == "fast" or (method == "auto" and (m >= loggrid.MIN_TEMPERATURES or (m >= 2 and n >= loggrid.MANY_NODES))
+                            and n * m >= loggrid.MIN_PAIRS):
         grid = loggrid.LogGrid(nodes_thz, weights) if prepared is None else prepared
         if method == "fast" or grid.suitable(temperatures):
             return grid.sums(temperatures)

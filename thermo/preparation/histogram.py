@@ -151,7 +151,7 @@ def histogram_dos(nu_all, cols_all, names, atoms, share=0.0, policy="drop", thet
     continuum, kept, note = (), np.ones(nu.size), None
     if theta_k is not None and total > 0:
         from .anchor import elastic_anchor
-        fit, note = elastic_anchor(nu, modes[0] * scale / h, theta_k, atoms, real_modes)
+        fit, note = elastic_anchor(nu, modes[0] * scale / h, theta_k, atoms, real_modes, histogram=True)
         law = dataclasses.replace(fit, smooth_taper=True)
         continuum, kept = (law,), 1.0 - law.taper(nu)
         scale = (real_modes - law.analytic_moment()) / float((modes[0] * kept).sum())
