@@ -54,6 +54,30 @@ def is_histogram(frequency_thz) -> bool:
     return bool(h > 0 and np.all(np.abs(step - h) <= 1e-3 * h) and abs(nu[0] - h / 2) <= 1e-3 * h)
 
 
+def check_bins(frequency_thz, source=None, line_numbers=None):
+    """Raise a one-line :class:`~thermo.errors.DosInputError` unless the rows are equally spaced bin centres.
+
+    Examples
+    --------
+    >>> check_bins(np.arange(5) * 0.05 + 0.025) is None
+    True
+    """
+    from ..errors import DosInputError
+    nu = np.asarray(frequency_thz, float)
+    step = np.diff(nu)
+    if nu.size < 2:
+        raise DosInputError("a histogram needs at least two bins", source)
+    h = float(np.median(step))
+    bad = np.flatnonzero(np.abs(step - h) > 1e-3 * abs(h))
+    if h <= 0 or bad.size:
+        row = int(bad[0]) + 1 if bad.size else 0
+        line = line_numbers[row] if line_numbers is not None and row < len(line_numbers) else None
+        raise DosInputError(f"read as a histogram, the rows must be equally spaced bin centres; this row is "
+                            f"{float(step[row - 1]) if row else 0.0:.6g} THz from the one before, the bins "
+                            f"{h:.6g} THz wide", source, line)
+    return None
+
+
 def bin_width(frequency_thz) -> float:
     """Bin width of a histogram of bin centres [THz] (the median spacing; a single bin: twice its centre)."""
     nu = np.asarray(frequency_thz, float)

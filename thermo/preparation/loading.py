@@ -28,7 +28,7 @@ from .options import ReadingOptions, low_frequency_window, as_record
 from .modelist import load_mode_list
 from .anchor import elastic_anchor
 from .layers import chosen_atoms, chosen_unit
-from .histogram import bin_modes, histogram_dos, is_histogram, stated_histogram
+from .histogram import bin_modes, check_bins, histogram_dos, is_histogram, stated_histogram
 
 
 def load_dos(source, freq_unit=None, atoms=None, negative=None, low_frequency=None, name=None,
@@ -143,7 +143,11 @@ def _prepared(raw, clean, explicit, carried, chosen):
         cols_all = [np.asarray(clean.total, float) * factor] + [np.asarray(clean.partials[k], float) * factor
                                                               for k in names]
     check_magnitudes(nu_all, cols_all, src, clean.line_numbers)
-    histogram = stated_histogram(raw.comments) or is_histogram(nu_all[nu_all > 0])
+    histogram = chosen.histogram
+    if histogram is None:
+        histogram = stated_histogram(raw.comments) or is_histogram(nu_all[nu_all > 0])
+    elif histogram:
+        check_bins(nu_all, src, clean.line_numbers)
     negative_modes, nu, cols = split_at_zero(nu_all, cols_all)
     with np.errstate(over="ignore", invalid="ignore"):
         if histogram:                    # Σ g·Δ on each side of 0 (see .histogram)
