@@ -18,7 +18,7 @@ import pytest
 from selenium.webdriver.common.by import By
 
 from tests.browser.test_dashboard import PLAIN, no_console_errors, upload_then_open, wait_drawn
-from tests.browser.waits import until
+from tests.browser.waits import click, until
 from thermo.cli.main import main
 from thermo.io.readback import read_exported_csv
 from webapp.app import create_app
@@ -150,7 +150,7 @@ def test_quasiharmonic_cp_sent_to_polynomials_fits_as_the_polynomial_command(pag
     table = _download(duo, "qh", "csv")
     duo.find_element("#qh-send-polynomials").click()
     until(lambda: duo.find_element("#qh-send-polynomials-note").text.startswith("sent "))
-    duo.driver.find_element(By.CSS_SELECTOR, "#qh-send-polynomials-note a[href='/polynomials']").click()
+    click(duo.driver, "#qh-send-polynomials-note a[href='/polynomials']")     # the note may be redrawn once more
     until(lambda: duo.driver.execute_script(
         "const e = document.querySelector('#po-source input[value=sent]'); return e && e.checked;"))
     box = duo.find_element("#po-tmax")

@@ -86,3 +86,40 @@ def test_calorimetry_table_sent_to_phases_equals_the_phases_command(duo, tmp_pat
     wait_drawn(duo.driver, list(_GRAPHS))
     low, high, meta = _sent_to_phases_equals_command(duo, "cal", tmp_path)
     assert 0 < low < 10 and 300 <= high < 1000 and meta["inputs"][0]["role"].endswith("calorimetry table")
+
+
+def test_quasiharmonic_table_sent_to_compare_is_a_run_as_the_compare_command(duo, tmp_path):
+    from webapp.pages.quasiharmonic import _GRAPHS
+    duo.driver.get(duo.server_url + "/quasiharmonic")
+    wait_drawn(duo.driver, list(_GRAPHS))
+    duo.find_element("#qh-send-compare").click()
+    note = until(lambda: text(duo.driver, "#qh-send-compare-note").startswith("sent ")
+                 and text(duo.driver, "#qh-send-compare-note"))
+    name = note[len("sent "):].split(" — ")[0].strip()
+    until(lambda: duo.driver.execute_script(
+        "const a = document.querySelector(arguments[0]); if (a) { a.click(); } return !!a;",
+        "#qh-send-compare-note a[href='/compare']"))
+    until(lambda: duo.driver.execute_script(
+        "const e = document.querySelector('#cmp-sent input[value=sent]'); return e && e.checked;"))
+    until(lambda: name in text(duo.driver, "#cmp-difference-table"))
+    duo.driver.find_element("css selector", "#cmp-dl-format input[value='csv']").click()
+    duo.find_element("#cmp-dl-btn").click()
+    shown = until(lambda: text(duo.driver, "#cmp-dl-note").startswith("prepared ")
+                  and text(duo.driver, "#cmp-dl-note"))[len("prepared "):]
+    target = Path(duo.download_path) / shown
+    until(lambda: target.exists() and target.stat().st_size > 0)
+    item = json.loads(duo.driver.execute_script("return window.sessionStorage.getItem('mh-sent') || '{}';"))["compare"]
+    sent = tmp_path / item["name"]
+    sent.write_text(item["csv"], encoding="utf-8")
+    ws = demo_workspace()
+    active = next(d["name"] for d in ws["datasets"] if d["id"] == ws["active"])
+    cli = tmp_path / "cli.csv"
+    assert main(["compare", str(demo_file(active)), "--table", str(sent), "--per", "atom", "--temperatures",
+                 "5,20,298.15", "--output", str(cli)]) == 0
+    ours, meta = read_exported_csv(target)
+    theirs, cli_meta = read_exported_csv(cli)
+    assert list(ours["run"]) == [active] * 3 + [name] * 3 and list(ours.columns) == list(theirs.columns)
+    np.testing.assert_array_equal(ours.select_dtypes("number").to_numpy(), theirs.select_dtypes("number").to_numpy())
+    assert [i["sha256"] for i in meta["inputs"]] == [i["sha256"] for i in cli_meta["inputs"]]
+    assert meta["inputs"][-1]["role"] == "table run"
+    no_console_errors(duo)

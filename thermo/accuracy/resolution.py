@@ -239,6 +239,58 @@ def _kernels(grid, t):
     return (sc.R * c, sc.R * (u - lg), zp + sc.R * t[None, :] * u, zp + sc.R * t[None, :] * lg)
 
 
+def _resolution_sums(nodes, d_res, t):
+    """Σ_g d_g |K(ν_{g+1}) − K(ν_g)| of C_v, S, U, F at ``t``, shape (4, M), over the intervals with d_g ≠ 0 only."""
+    out = np.zeros((4, t.size))
+    idx = np.flatnonzero(d_res)
+    if idx.size == 0:
+        return out
+    rows = np.unique(np.concatenate([idx, idx + 1]))
+    lo, hi = np.searchsorted(rows, idx), np.searchsorted(rows, idx + 1)
+    for start in range(0, t.size, 64):        # temperature blocks: memory stays small
+        for i, k in enumerate(_kernels(nodes[rows], t[start:start + 64])):
+            out[i, start:start + 64] = np.einsum("g,gm->m", d_res[idx], np.abs(k[hi] - k[lo]))
+    return out
+
+
+def _signed_sums(nodes, weights, t):
+    """Σ w K of the three Planck kernels for weights of either sign: positive and negative parts apart, each by
+    :func:`thermo.kernels.sums.grid_sums` (the log-grid correlation when it pays)."""
+    from ..kernels.direct import SUM_KEYS
+    from ..kernels.sums import grid_sums
+    out = {key: np.zeros(t.size) for key in SUM_KEYS}
+    for sign in (1.0, -1.0):
+        part = np.where(sign * weights > 0, sign * weights, 0.0)
+        if np.any(part > 0):
+            sums = grid_sums(nodes, part, t)
+            for key in SUM_KEYS:
+                out[key] += sign * sums[key]
+    return out
+
+
+def _smearing_sums(nodes, d_sm, m_sm, t):
+    r"""\|Σ_g d_g (K(ν_g) + K(ν_{g+1}))/2\| for C_v, U, F and \|Σ_g m_g (K_S(ν_{g+1}) − K_S(ν_g))\| at ``t``.
+
+    Both are linear in the kernels: with node weights :math:`W_n = (d_{n-1} + d_n)/2` and
+    :math:`V_n = m_{n-1} - m_n` they are mode sums, :math:`|R\Sigma_W c|`, :math:`|R\Sigma_V (u + \ell)|`,
+    :math:`|Z + RT\Sigma_W u|` and :math:`|Z - RT\Sigma_W \ell|` with :math:`Z = \sum_n W_n N_A h
+u_n/2`.
+    """
+    out = np.zeros((4, t.size))
+    w = 0.5 * (np.append(0.0, d_sm) + np.append(d_sm, 0.0))
+    v = np.append(0.0, m_sm) - np.append(m_sm, 0.0)
+    if np.any(w != 0):
+        sums = _signed_sums(nodes, w, t)
+        z = float(np.sum(w * 0.5 * _J_PER_MOL_PER_THZ * nodes))
+        out[0] = np.abs(sc.R * sums["heat_capacity"])
+        out[2] = np.abs(z + sc.R * t * sums["thermal_energy"])
+        out[3] = np.abs(z - sc.R * t * sums["log_partition"])
+    if np.any(v != 0):
+        sums = _signed_sums(nodes, v, t)
+        out[1] = np.abs(sc.R * (sums["thermal_energy"] + sums["log_partition"]))
+    return out
+
+
 def resolution_parts(dos, temperatures, resolution=None):
     r"""Resolution and smearing parts of the error of C_v, S, U, F at each temperature.
 
@@ -309,14 +361,8 @@ def resolution_parts(dos, temperatures, resolution=None):
         th = t[hot]
         # the signed change crosses zero at some temperatures: its envelope over T/ENVELOPE..T·ENVELOPE is used
         aux = np.unique(np.concatenate([th, np.geomspace(th.min() / ENVELOPE, th.max() * ENVELOPE, ENVELOPE_POINTS)]))
-        res_aux, sm_aux = np.zeros((4, aux.size)), np.zeros((4, aux.size))
-        for lo in range(0, aux.size, 64):        # temperature blocks: memory stays small
-            for i, k in enumerate(_kernels(floor, aux[lo:lo + 64])):
-                res_aux[i, lo:lo + 64] = np.einsum("g,gm->m", d_res, np.abs(np.diff(k, axis=0)))
-                if i == 1:
-                    sm_aux[i, lo:lo + 64] = np.abs(np.einsum("g,gm->m", m_sm, np.diff(k, axis=0)))
-                else:
-                    sm_aux[i, lo:lo + 64] = np.abs(np.einsum("g,gm->m", d_sm, 0.5 * (k[1:] + k[:-1])))
+        res_aux = _resolution_sums(floor, d_res, aux)
+        sm_aux = _smearing_sums(floor, d_sm, m_sm, aux)
         res_hot = res_aux[:, np.searchsorted(aux, th)]
         near = (aux[None, :] >= th[:, None] / ENVELOPE) & (aux[None, :] <= th[:, None] * ENVELOPE)
         out_res[:, hot] = RESOLUTION_SAFETY * res_hot

@@ -190,9 +190,8 @@ def tabulated_phase(table, provenance=None, name="table", sha256=""):
     >>> round(float(tabulated_phase(t, {"atoms": 1}).gibbs_ev[0]), 4)
     -1.0
     """
-    provenance = provenance or {}
-    atoms = provenance.get("atoms")
-    atoms = int(atoms) if isinstance(atoms, (int, float)) and float(atoms).is_integer() and atoms >= 1 else None
+    from ..provenance import stated_atoms
+    atoms = stated_atoms(provenance)
     kind, basis, g, u, s = _columns(table)
     if basis == "atom":
         if atoms is None:

@@ -85,7 +85,7 @@ def layout(**_query):
         html.H2("Fitted parameters"),
         dcc.Loading(html.Div(id="cal-params"), type="dot"),
         exports.download_bar("cal", "calorimetry result", formats=("json", "csv", "xlsx")),
-        handoff.send_bar("cal", "the fitted C_p table", ("polynomials", "phases")),
+        handoff.send_bar("cal", "the fitted C_p table", ("polynomials", "phases", "compare")),
         html.Div([html.P(text, className="mh-msg mh-msg-info") for text in CAUTIONS], id="cal-cautions"),
     )
 
@@ -434,7 +434,7 @@ _STATES = [State("cal-measured", "data"), State("mh-workspace", "data"), State("
 exports.register_download("cal", _STATES, calorimetry_download)
 reading.register("cal")
 # the residual and third-law table (fitted C_p, S° from the data) as the csv download writes it
-for _target in ("polynomials", "phases"):      # Phases reads its H° − H°(0) and S° (thermo.phases.tabulated)
+for _target in ("polynomials", "phases", "compare"):      # Phases reads its H° − H°(0) and S° (thermo.phases.tabulated)
     handoff.register_send("cal", _target, _STATES, lambda *values: calorimetry_download("csv", *values), NAME)
 
 

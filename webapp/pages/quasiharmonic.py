@@ -225,7 +225,7 @@ def layout(**_query):
                                                "at each temperature")], className="mh-grid"),
         html.H2("Export"),
         exports.download_bar("qh", "quasi-harmonic table"),
-        handoff.send_bar("qh", "the table", ("polynomials", "phases")),
+        handoff.send_bar("qh", "the table", ("polynomials", "phases", "compare")),
         html.Ul([html.Li(text) for text in CAUTIONS], className="mh-caution"),
     )
 
@@ -350,7 +350,7 @@ _TABLE_STATES = [State("qh-set", "data"), State("qh-source", "value"), State("qh
                  State("qh-tolerance", "value"), State("qh-errors", "value")]
 exports.register_download("qh", _TABLE_STATES, table_download)
 reading.register("qh")
-for _target in ("polynomials", "phases"):      # the CSV the download writes (C_p, G, S with their errors)
+for _target in ("polynomials", "phases", "compare"):      # the CSV the download writes (C_p, G, S with their errors)
     handoff.register_send("qh", _target, _TABLE_STATES, lambda *values: table_download("csv", *values), NAME)
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)
