@@ -286,8 +286,8 @@ class PhononDOS:
     modes: ModeList | None = None
 
     def __getstate__(self):
-        """Pickled without the sums' preparation kept beside the fields (derived, rebuilt on first use)."""
-        return {k: v for k, v in self.__dict__.items() if k != "_prepared_grid"}
+        """Pickled without what is kept beside the fields for speed (derived, rebuilt on first use)."""
+        return {k: v for k, v in self.__dict__.items() if k not in ("_prepared_grid", "_rebuilt")}
 
     @property
     def mode_count(self) -> float:

@@ -65,3 +65,14 @@ def test_a_long_spectrum_at_a_few_temperatures_takes_the_fast_path_to_the_direct
     assert not loggrid.suitable(nu, w, t[:1])
     fast, direct = loggrid.loggrid_sums(nu, w, t), direct_grid_sums(nu, w, t)
     assert _worst(fast, direct) < 1e-9
+
+
+def test_the_spectra_a_breakdown_rebuilds_are_kept_but_not_pickled():
+    from thermo.accuracy.breakdown import error_breakdown
+    dos = _dos()
+    before = len(pickle.dumps(dos))
+    first = error_breakdown(dos, T)
+    assert "_rebuilt" in dos.__dict__
+    assert len(pickle.dumps(dos)) == before
+    again = error_breakdown(pickle.loads(pickle.dumps(dos)), T)     # rebuilt afresh: the same breakdown
+    assert first.equals(again)

@@ -43,15 +43,11 @@ import pandas as pd
 from ..columns import column_name, lookup
 from ..kernels.nu2 import analytic_part_sums
 
-from ..kernels.quadrature import mode_weights
 from ..kernels.sums import molar_values, thermal_sums
-from ..preparation.imaginary import split_at_zero
-from ..preparation.histogram import merged_bins
-from ..preparation.loading import treat_spectrum
 from ..preparation.lowfreq import WINDOW_MODES, WINDOW_SPREAD
 from dataclasses import replace
 
-from ..spectrum import PhononDOS
+from .rebuild import rebuild
 from .resolution import analyse_resolution, resolution_parts
 from scipy import constants as sc
 
@@ -71,60 +67,6 @@ LIST_SAFETY = 1.25
 LIST_ENERGY_FACTOR = 2.0
 #: The relative error at T is the largest over T/LIST_ENVELOPE … T·LIST_ENVELOPE (a difference crosses zero).
 LIST_ENVELOPE = 1.5
-
-
-def _rebuild(dos, every=1, window="same", window_modes=WINDOW_MODES, offset=0):
-    """The DOS prepared again from its input rows (every ``every``-th from ``offset``), or None.
-
-    The first and last rows are always kept, so both coarse grids span the
-    same frequencies.
-    """
-    if dos.source.get("histogram") and dos.input_dos is not None:
-        return _merged_histogram(dos, offset) if every == 2 else None
-    if dos.input_frequency_thz is None or dos.input_dos is None:
-        return _halved_table(dos) if every == 2 and offset == 0 else None
-    nu_all, g_all = np.asarray(dos.input_frequency_thz), np.asarray(dos.input_dos)
-    keep = np.arange(offset, nu_all.size, every)
-    if keep.size == 0:
-        return None
-    if keep[0] != 0:
-        keep = np.insert(keep, 0, 0)
-    if keep[-1] != nu_all.size - 1:
-        keep = np.append(keep, nu_all.size - 1)
-    _neg, nu, cols = split_at_zero(nu_all[keep], [g_all[keep]])
-    if nu.size < 3:
-        return None
-    if window == "same":
-        window = dos.source.get("low_frequency_option", "auto" if dos.low_frequency is not None else None)
-    share = dos.source.get("negative_mode_fraction") or 0.0
-    policy = dos.source.get("negative_policy") or "drop"
-    grid, cut, fit, scale, _notes = treat_spectrum(nu, cols, [], dos.atoms, share, policy, window,
-                                                   window_modes=window_modes)
-    return PhononDOS(grid, cut[0] * scale, dos.atoms, low_frequency=fit)
-
-
-def _merged_histogram(dos, offset):
-    """A histogram summed on bins twice as wide (pairs from ``offset``), same modes: its numerical check."""
-    nu, g = np.asarray(dos.input_frequency_thz), np.asarray(dos.input_dos)
-    real = nu > 0
-    centres, modes = merged_bins(nu[real], g[real], offset)
-    keep = modes > 0
-    listed = replace(dos.modes, frequency_thz=centres[keep], weight=modes[keep] * dos.modes.weight.sum() / modes.sum(),
-                     partials={})
-    return replace(dos, modes=listed)
-
-
-def _halved_table(dos):
-    """A DOS built without input rows: its tabulated part on every second point, same modes, same fit."""
-    nu, g = np.asarray(dos.frequency_thz), np.asarray(dos.dos)
-    keep = np.arange(0, nu.size, 2)
-    if keep[-1] != nu.size - 1:
-        keep = np.append(keep, nu.size - 1)
-    if keep.size < 2:
-        return None
-    full, half = mode_weights(nu, g).sum(), mode_weights(nu[keep], g[keep]).sum()
-    factor = full / half if half > 0 else 1.0
-    return PhononDOS(nu[keep], g[keep] * factor, dos.atoms, low_frequency=dos.low_frequency)
 
 
 def _values(dos, t):
@@ -263,15 +205,15 @@ def error_breakdown(dos, temperatures):
         return _list_breakdown(dos, t, base)
     numerical = np.zeros_like(base)
     for offset in (0, 1):      # both interleaved half grids: one difference alone can cancel by chance
-        halved = _rebuild(dos, every=2, offset=offset)
+        halved = rebuild(dos, every=2, offset=offset)
         if halved is not None:
             numerical = np.maximum(numerical, np.abs(base - _values(halved, t)))
     alternatives = []
     fit = dos.low_frequency
     if fit is not None and fit.automatic:
-        alternatives = [_rebuild(dos, window="auto", window_modes=WINDOW_MODES * f) for f in WINDOW_SPREAD]
+        alternatives = [rebuild(dos, window="auto", window_modes=WINDOW_MODES * f) for f in WINDOW_SPREAD]
     elif dos.input_dos is not None:
-        alternatives = [_rebuild(dos, window="auto")]
+        alternatives = [rebuild(dos, window="auto")]
     spread = np.zeros_like(base)
     for alt in alternatives:
         if alt is not None and (alt.low_frequency is not None or fit is not None):
