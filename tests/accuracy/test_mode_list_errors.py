@@ -54,15 +54,16 @@ def test_the_demo_sized_list_is_no_longer_judged_by_its_histogram_view():
     assert total < 0.05
 
 
-@pytest.mark.parametrize("crystal", (C.BCC, C.FCC), ids=lambda c: c.name)
-def test_a_list_without_wave_vectors_is_flagged_below_its_lowest_mode(crystal):
-    # nothing below the lowest mode: at 2 K the table misses most of C_v, and the estimate says so
-    dos = load_dos(C.mode_list_text(crystal, 8, with_q=False))
-    t = np.array([2.0, 5.0])
-    table = tabulate(dos, t)
-    exact = C.reference(crystal, t)
-    est = harmonic_row_errors(dos, t)
-    for key, col in (("heat_capacity_v", "heat_capacity_v_J_per_mol_K"), ("entropy", "entropy_J_per_mol_K")):
-        assert np.all(est[key] >= np.abs(table[col].to_numpy() - exact[key]))
-    b = error_breakdown(dos, t)
+@pytest.mark.parametrize("crystal,n,gamma", CASES, ids=[f"{c.name}-{n}{'g' if g else ''}" for c, n, g in CASES])
+def test_a_list_without_wave_vectors_is_covered_and_flagged_below_its_lowest_mode(crystal, n, gamma):
+    # nothing below the lowest mode (at 2 K the table misses most of C_v) and the comb of the first shells
+    # above it: the estimate covers both at every temperature
+    dos = load_dos(C.mode_list_text(crystal, n, gamma, with_q=False))
+    table = tabulate(dos, T)
+    exact = C.reference(crystal, T)
+    est = harmonic_row_errors(dos, T)
+    for key, col, to_si in KEYS:
+        true = np.abs(table[col].to_numpy() * to_si - exact[key] * to_si)
+        assert np.all(est[key] >= true), (key, float(np.max(true / est[key])))
+    b = error_breakdown(dos, [2.0, 5.0])
     assert b.error_flag.all() and b.attrs["resolution"]["kind"] == "modes"

@@ -233,12 +233,12 @@ def _list_breakdown(dos, t, base):
     """The breakdown of a mode list: its sums are exact; long-wave part, or what it resolves without one."""
     zero = np.zeros_like(base)
     resolution = analyse_resolution(dos)
-    res, _smear = resolution_parts(dos, t, resolution)
+    res, smear = resolution_parts(dos, t, resolution)
     lost = dos.source.get("left_out_share") or 0.0      # Γ's modes left out, the rest renormalised
     scale = np.abs(base)
     scale[3] = np.abs(base[2]) + t * np.abs(base[1])
     parts = {"numerical": zero, "low_frequency": mode_list_part(dos, t), "resolution": res + lost * scale,
-             "smearing": zero}
+             "smearing": smear}
     return _frame(t, base, parts, resolution)
 
 

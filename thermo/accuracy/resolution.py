@@ -71,6 +71,9 @@ SMEARING_FACTOR = 2.0
 #: The smearing part at T is the largest change over T/ENVELOPE … T·ENVELOPE (the signed change crosses zero).
 ENVELOPE = 1.3
 ENVELOPE_POINTS = 60
+#: A mode list without a long-wave continuum: its comb of shells is judged as a smearing of this many
+#: times its lowest mode (the first shell's spacing) [1].
+LIST_WIDTH = 0.5
 #: The table is not determined by the data below h·ν_r/(k_B · this) (as for a mode list).
 RESOLVED_DIVISOR = 5.0
 _J_PER_MOL_PER_THZ = sc.h * 1e12 * sc.N_A
@@ -85,7 +88,8 @@ class Resolution:
     kind : {'histogram', 'gaussian', 'plain', 'modes'}
         Histogram of bin centres, Gaussian-smeared mesh DOS (smearing seen in
         its lowest feature), neither seen, or a mode list without a long-wave
-        continuum (nothing resolved below its lowest mode).
+        continuum (nothing resolved below its lowest mode; the comb of
+        its first shells judged as a smearing :data:`LIST_WIDTH` times that mode wide).
     width_thz : float
         Bin width, smearing σ, or 0 [THz].
     step_thz : float
@@ -161,7 +165,8 @@ def _list_resolution(modes):
     resolved = float(modes.resolved_thz or modes.frequency_thz[0])
     a = _law(x, n, resolved, float(n[-1]))
     step = resolved / 10.0
-    return Resolution("modes", 0.0, step, resolved, a, float(H_OVER_K_THZ * resolved / RESOLVED_DIVISOR))
+    return Resolution("modes", LIST_WIDTH * resolved, step, resolved, a,
+                      float(H_OVER_K_THZ * resolved / RESOLVED_DIVISOR))
 
 
 def resolution_note(resolution, temperatures):
@@ -343,7 +348,7 @@ def resolution_parts(dos, temperatures, resolution=None):
         d_res = np.where(below, np.abs(table - law) + LAW_UNCERTAINTY * law, 0.0)
     fit = dos.low_frequency
     own = r.resolved_thz if fit is None else max(r.resolved_thz, fit.blend_top_thz or fit.cutoff_thz)
-    if r.kind in ("plain", "modes"):                     # no smearing seen: the grid is the numerical part's
+    if r.kind == "plain":                                # no smearing seen: the grid is the numerical part's
         own = np.inf
     # modes the extra smearing moves, per interval, where the table uses the data (not the ν² form)
     d_sm = np.where(mid < own, 0.0, np.diff(moved))
