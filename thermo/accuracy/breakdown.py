@@ -254,22 +254,24 @@ def _frame(t, base, parts, resolution):
                 err = parts[part][i]
                 columns[error_column(key, part)] = err * k
                 columns[error_column(key, part, relative=True)] = np.where(value != 0, err / np.abs(value), 0.0)
-    df = pd.DataFrame(columns)
-    df[column_name("low_frequency_flag")] = (
-        (df[error_column("heat_capacity_v", "low_frequency", True)] > FLAG_SPREAD)
-        | (df[error_column("entropy", "low_frequency", True)] > FLAG_SPREAD))
-    df[column_name("error_flag")], df[column_name("error_reason")] = _flags(df, resolution)
+    columns[column_name("low_frequency_flag")] = (
+        (columns[error_column("heat_capacity_v", "low_frequency", True)] > FLAG_SPREAD)
+        | (columns[error_column("entropy", "low_frequency", True)] > FLAG_SPREAD))
+    columns[column_name("error_flag")], columns[column_name("error_reason")] = _flags(columns, resolution)
+    df = pd.DataFrame(columns)            # built once: no column inserted afterwards
     df.attrs["resolution"] = None if resolution is None else resolution.as_dict()
     return df
 
 
-def _flags(df, resolution):
-    """(flag, reason) per row: combined relative error of C_v or S above FLAG_SPREAD, and its largest part."""
-    flag = np.zeros(len(df), dtype=bool)
-    reason = np.full(len(df), "", dtype=object)
-    worst = np.zeros(len(df))
+def _flags(columns, resolution):
+    """(flag, reason) per row of the breakdown's ``columns`` (name → array): combined relative error of C_v or
+    S above FLAG_SPREAD, and its largest part."""
+    rows = len(columns[column_name("temperature")])
+    flag = np.zeros(rows, dtype=bool)
+    reason = np.full(rows, "", dtype=object)
+    worst = np.zeros(rows)
     for key in ("heat_capacity_v", "entropy"):
-        rel = np.array([df[error_column(key, p, True)].to_numpy() for p in PARTS])
+        rel = np.array([np.asarray(columns[error_column(key, p, True)]) for p in PARTS])
         total = rel.sum(axis=0)
         for j in np.flatnonzero((total > FLAG_SPREAD) & (total > worst)):
             worst[j] = total[j]
