@@ -342,8 +342,8 @@ def write_index(rows, path, force=False, columns=INDEX_COLUMNS):
     >>> import tempfile
     >>> with tempfile.TemporaryDirectory() as tmp:
     ...     p = write_index([_blank_row("a.dat")], Path(tmp) / INDEX_NAME)
-    ...     p.read_text().splitlines()[0]
-    'input,status,output,atoms,negative_mode_fraction,warnings,error'
+    ...     p.read_text().splitlines()[0].split(",") == list(INDEX_COLUMNS) and INDEX_COLUMNS[:2]
+    ('input', 'status')
     """
     from .io.writers import neutralised_cell, write_file
 

@@ -41,7 +41,7 @@ def compare_runs(doses, temperatures=DEFAULT_TEMPERATURES, reference=0, names=No
     Parameters
     ----------
     doses : sequence of PhononDOS
-        The runs (from :func:`thermo.load_dos`), at least two.
+        The runs (from :func:`thermo.load_dos`), at least one (one run is its own reference).
     temperatures : array_like
         Temperatures [K], > 0 (default 5, 20, 298.15 K).
     reference : int
@@ -64,7 +64,7 @@ def compare_runs(doses, temperatures=DEFAULT_TEMPERATURES, reference=0, names=No
     Raises
     ------
     OptionError
-        Fewer than two runs, a reference outside the list, temperatures <= 0.
+        No run, a reference outside the list, temperatures <= 0.
 
     Notes
     -----
@@ -83,8 +83,8 @@ def compare_runs(doses, temperatures=DEFAULT_TEMPERATURES, reference=0, names=No
     -0.0061
     """
     doses = list(doses)
-    if len(doses) < 2:
-        raise OptionError("a comparison needs at least two runs")
+    if not doses:      # one run is its own reference: its values and its error (beside a table run, say)
+        raise OptionError("a comparison needs at least one run")
     if not 0 <= reference < len(doses):
         raise OptionError(f"reference run {reference + 1} is not among the {len(doses)} runs")
     t = np.atleast_1d(np.asarray(temperatures, dtype=float)).ravel()
@@ -147,6 +147,148 @@ def comparison_provenance(doses, temperatures, reference=0, names=None, per="for
                           "error": "each run's own estimated error (numerical, low-frequency, resolution, smearing)"}
     return info
 
+
+
+#: Quantities of a table that stand for a compared quantity (a calorimetry table's third-law S° is an entropy).
+STANDS_FOR = {"heat_capacity_v": ("heat_capacity_v",), "entropy": ("entropy", "entropy_third_law"),
+              "internal_energy": ("internal_energy",), "helmholtz_energy": ("helmholtz_energy",)}
+
+
+def _on_basis(table, key, per, atoms, formula):
+    """``(values, errors)`` of the column standing for ``key`` on basis ``per`` (None when the table has none)."""
+    from .columns import error_column_for, lookup
+    found = [(n, lookup(n)) for n in table.columns if _in_schema(n) and lookup(n).quantity.key in STANDS_FOR[key]]
+    if not found:
+        return None
+    same = [n for n, c in found if c.basis == per]
+    name = same[0] if same else next((n for n, c in found if c.basis == "formula"), None)
+    if name is None:
+        raise OptionError(f"the table's {key} is per {found[0][1].basis}: compare on that basis")
+    err = error_column_for(table, name)
+    values = table[name].to_numpy(dtype=float)
+    errors = table[err].to_numpy(dtype=float) if err is not None else np.full(values.size, np.nan)
+    if name in same:
+        return values, errors
+    energy = lookup(name).quantity.kind == "energy"        # kJ/mol per formula unit → J/mol for to_basis
+    if per != "formula" and atoms is None:
+        raise OptionError("the table is per formula unit and states no atom count: compare per formula unit")
+    out = []
+    for v in (values, errors):
+        zero = np.zeros_like(v)
+        parts = (zero, zero, v * 1e3, zero) if energy else (v, zero, zero, zero)
+        out.append(np.asarray(to_basis(parts, per, atoms, formula)[2 if energy else 0], float))
+    return tuple(out)
+
+
+def _in_schema(name):
+    from .columns import lookup
+    try:
+        lookup(name)
+    except OptionError:
+        return False
+    return True
+
+
+def add_table_run(comparison, table, name, atoms=None, formula=None):
+    r"""The comparison with one more run given by a table modeheat wrote (read back), at its temperatures.
+
+    Parameters
+    ----------
+    comparison : pandas.DataFrame
+        A result of :func:`compare_runs`.
+    table : pandas.DataFrame
+        A thermodynamics, quasi-harmonic or calorimetry table (its third-law S° stands for S).
+    name : str
+        The run's name (the table's file name).
+    atoms : int, optional
+        Atoms per formula unit of the table (to compare a per-formula table per atom or per gram).
+    formula : str, optional
+        Chemical formula (per gram).
+
+    Returns
+    -------
+    pandas.DataFrame
+        ``comparison`` with the table's rows appended: each quantity the table has, at the comparison's
+        temperatures inside its rows (NaN outside, and for quantities it lacks), its error and its
+        relative difference from the reference run.
+
+    Notes
+    -----
+    Between rows a value is the monotone cubic (PCHIP) interpolant [1]_; its error is the table's own
+    (linear between rows; NaN when the table states none) plus :math:`|Q_{PCHIP} - Q_{linear}|`, an
+    over-estimate of the interpolation error that is zero on the rows.
+
+    References
+    ----------
+    .. [1] F. N. Fritsch and R. E. Carlson, SIAM J. Numer. Anal. 17, 238–246 (1980).
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> from thermo.tables import tabulate
+    >>> nu = np.linspace(0.0, 5.0, 201)
+    >>> a = PhononDOS(nu, 9 * nu**2 / 125, atoms=1)
+    >>> df = add_table_run(compare_runs([a, a], [300.0]), tabulate(a, [200.0, 300.0, 400.0]), "t.csv")
+    >>> abs(float(df.entropy_relative_difference.iloc[-1])) < 1e-12
+    True
+    """
+    from scipy.interpolate import PchipInterpolator
+
+    from .columns import find
+    per = comparison.attrs.get("per", "formula")
+    t = np.asarray(comparison.attrs["temperatures_K"], dtype=float)
+    rows = table[find(table, "temperature")].to_numpy(dtype=float)
+    order = np.argsort(rows, kind="stable")
+    base = comparison[comparison["reference"]].drop_duplicates(column_name("temperature")).set_index(
+        column_name("temperature"))
+    inside = (t >= rows[order][0]) & (t <= rows[order][-1])
+    out = {"run": [name] * t.size, "reference": [False] * t.size, column_name("temperature"): t}
+    for key in QUANTITIES:
+        pair = _on_basis(table, key, per, atoms, formula)
+        value = np.full(t.size, np.nan)
+        error = np.full(t.size, np.nan)
+        if pair is not None:
+            v, u = pair[0][order], pair[1][order]
+            keep = np.isfinite(v)
+            x, v, u = rows[order][keep], v[keep], u[keep]
+            if x.size >= 2:
+                smooth = PchipInterpolator(x, v)(t[inside])
+                linear = np.interp(t[inside], x, v)
+                value[inside] = smooth
+                error[inside] = np.interp(t[inside], x, u) + np.abs(smooth - linear)
+        reference = base.loc[t, column_name(key, per)].to_numpy()
+        out[column_name(key, per)] = value
+        out[column_name(error_key(key), per)] = error
+        with np.errstate(divide="ignore", invalid="ignore"):
+            out[column_name(difference_key(key))] = np.where(reference != 0, (value - reference) / np.abs(reference),
+                                                             np.nan)
+    df = pd.concat([comparison, pd.DataFrame(out)], ignore_index=True)
+    df.attrs.update(comparison.attrs)
+    return df
+
+
+def table_run_input(info, name, data, source_provenance=None):
+    """``info`` (a :func:`comparison_provenance` record) with a table run added: its input and its name."""
+    from .provenance import input_record
+    info = dict(info)
+    info["inputs"] = list(info["inputs"]) + [input_record(name, data=data, role="table run")]
+    info["comparison"] = {**info["comparison"], "runs": list(info["comparison"]["runs"]) + [name],
+                          "table_runs": "interpolated between their rows (PCHIP); error: the table's own plus "
+                                        "|PCHIP - linear|, blank where the table states none"}
+    return info
+
+
+def with_table_run(comparison, info, raw, name, formula=None):
+    """``(comparison, info)`` with the table in ``raw`` (CSV bytes modeheat wrote) as one more run.
+
+    The table's stated ``atoms`` convert a per-formula table to the comparison's basis;
+    ``info`` may be None (no provenance wanted).
+    """
+    from .io.readback import read_exported_csv
+    table, record = read_exported_csv(raw)
+    from .provenance import stated_atoms
+    out = add_table_run(comparison, table, name, stated_atoms(record), formula)
+    return out, (None if info is None else table_run_input(info, name, raw))
 
 for _key, _symbol in (("heat_capacity_v", "C_v"), ("entropy", "S"), ("internal_energy", "U"),
                       ("helmholtz_energy", "F")):

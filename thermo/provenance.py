@@ -167,3 +167,21 @@ def temperature_settings(temperatures):
     if not values:
         return {"min": None, "max": None, "points": 0}
     return {"min": min(values), "max": max(values), "points": len(values)}
+
+
+def stated_atoms(record):
+    """Atoms per formula unit a provenance record states (its ``atoms``, else its first input's), or None.
+
+    Examples
+    --------
+    >>> stated_atoms({"inputs": [{"name": "a.dat", "options": {"atoms": 2}}]})
+    2
+    >>> stated_atoms({"atoms": 1.5}) is None
+    True
+    """
+    candidates = [(record or {}).get("atoms")] + [(i.get("options") or {}).get("atoms")
+                                                  for i in (record or {}).get("inputs") or [] if isinstance(i, dict)][:1]
+    for atoms in candidates:
+        if isinstance(atoms, (int, float)) and not isinstance(atoms, bool) and float(atoms).is_integer() and atoms >= 1:
+            return int(atoms)
+    return None

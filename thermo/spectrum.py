@@ -163,6 +163,11 @@ class ModeList:
         The long-wave fit when a continuum was built: ``inverse_cube_mean``
         (direction mean of :math:`\sum_j c_j^{-3}`, [(100 m/s)⁻³] = [(Å·THz)⁻³]),
         ``points`` used, ``shell_radius_per_A``.
+    alternatives : callable or None
+        Builds ``((factor, ModeList), …)``: the same list under other
+        plausible long-wave treatments, each with the factor its difference
+        to this one is counted with in the error estimate
+        (:mod:`thermo.accuracy.breakdown`); None without a continuum.
 
     Notes
     -----
@@ -185,6 +190,7 @@ class ModeList:
     resolved_thz: float = 0.0
     velocities: dict = field(default_factory=dict)
     extra: tuple = (np.zeros(0), np.zeros(0))
+    alternatives: object = None
 
     @property
     def mode_count(self) -> float:
@@ -279,6 +285,10 @@ class PhononDOS:
     input_dos: np.ndarray | None = None
     input_partials: dict = field(default_factory=dict)
     modes: ModeList | None = None
+
+    def __getstate__(self):
+        """Pickled without what is kept beside the fields for speed (derived, rebuilt on first use)."""
+        return {k: v for k, v in self.__dict__.items() if k not in ("_prepared_grid", "_rebuilt")}
 
     @property
     def mode_count(self) -> float:

@@ -281,7 +281,10 @@ def table_from_sums(sums, temperatures, per="formula", atoms=1, formula=None):
         raise OptionError(f"unknown basis {per!r}; choose formula, atom or gram")
     t = check_temperatures(temperatures)
     values = _convert(_molar_values(sums, t), per, atoms, formula)
-    df = pd.DataFrame(dict(zip(COLUMNS[per], (t,) + tuple(values))))
+    block = np.empty((t.size, 5))          # one float block: no per-column consolidation by pandas
+    for i, column in enumerate((t,) + tuple(values)):
+        block[:, i] = column
+    df = pd.DataFrame(block, columns=list(COLUMNS[per]))
     df.attrs.update(per=per, formula=formula,
                     zero_point_energy_J_per_mol=float(sums["zero_point_thz"] * _ZPE_J_PER_MOL_PER_THZ))
     return df

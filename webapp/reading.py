@@ -47,6 +47,23 @@ def summary(dataset):
             f"unit{inferred}, formula {formula}")
 
 
+def formula_of(workspace, typed=None):
+    """The formula a page uses: the one typed in its own field, else the active dataset's (from this panel).
+
+    Examples
+    --------
+    >>> formula_of(None, " MgO ")
+    'MgO'
+    >>> formula_of(None, "") is None
+    True
+    """
+    typed = " ".join(str(typed or "").split())
+    if typed:
+        return typed
+    current = session.active(workspace)
+    return (session.options_of(current).get("formula") or None) if current else None
+
+
 def edited(workspace, formula, atoms):
     """``(workspace, note)`` after the panel changed: the active dataset re-read with the formula and atom count
     (unchanged and no note when they equal its options; the old workspace and the reason when they do not load)."""

@@ -13,11 +13,12 @@ import json
 from pathlib import Path
 
 import numpy as np
+import pandas as pd
 import pytest
 from selenium.webdriver.common.by import By
 
 from tests.browser.test_dashboard import PLAIN, no_console_errors, upload_then_open, wait_drawn
-from tests.browser.waits import until
+from tests.browser.waits import click, until
 from thermo.cli.main import main
 from thermo.io.readback import read_exported_csv
 from webapp.app import create_app
@@ -64,11 +65,11 @@ def test_thermodynamics_download_equals_table_command(page, tmp_path):
     until(lambda: "k_B/atom" in duo.find_element("#th-keys").text or "/atom" in duo.find_element("#th-keys").text)
     target = _download(duo, "th", "csv", "debye_download-atom.csv")
     cli = tmp_path / "cli.csv"
-    assert main(["table", str(good), "--temperatures", "0:1500:5", "--per", "atom", "--output", str(cli)]) == 0
+    assert main(["table", str(good), "--temperatures", "0:1500:5", "--per", "atom", "--errors", "--output", str(cli)]) == 0
     ours, meta = read_exported_csv(target)
     theirs, cli_meta = read_exported_csv(cli)
     assert list(ours.columns) == list(theirs.columns) and len(ours) == 301
-    np.testing.assert_array_equal(ours.to_numpy(), theirs.to_numpy())     # the same 8 written digits
+    pd.testing.assert_frame_equal(ours, theirs, check_exact=True)     # the same 8 written digits, same flags
     assert int(meta["significant_digits"]) == int(cli_meta["significant_digits"]) == 8
     _same_provenance(meta, cli_meta, good)
     no_console_errors(duo)
@@ -149,7 +150,7 @@ def test_quasiharmonic_cp_sent_to_polynomials_fits_as_the_polynomial_command(pag
     table = _download(duo, "qh", "csv")
     duo.find_element("#qh-send-polynomials").click()
     until(lambda: duo.find_element("#qh-send-polynomials-note").text.startswith("sent "))
-    duo.driver.find_element(By.CSS_SELECTOR, "#qh-send-polynomials-note a[href='/polynomials']").click()
+    click(duo.driver, "#qh-send-polynomials-note a[href='/polynomials']")     # the note may be redrawn once more
     until(lambda: duo.driver.execute_script(
         "const e = document.querySelector('#po-source input[value=sent]'); return e && e.checked;"))
     box = duo.find_element("#po-tmax")

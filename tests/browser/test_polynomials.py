@@ -37,7 +37,7 @@ def test_nasa7_yaml_download_loads_in_cantera(dash_duo, tmp_path):
     box = dash_duo.find_element("#po-formula")
     box.send_keys("Cu\n")
     driver.find_element(By.CSS_SELECTOR, "#po-output input[value='yaml']").click()
-    dash_duo.wait_for_contains_text("#po-block", "model: NASA7", timeout=30)
+    dash_duo.wait_for_contains_text("#po-block", "model: \"NASA7\"", timeout=30)
     assert "Cu(cr)" in dash_duo.find_element("#po-block").text
     dash_duo.find_element("#po-download-btn").click()
     target = Path(dash_duo.download_path) / "debye_for_fit-nasa7.yaml"

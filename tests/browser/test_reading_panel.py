@@ -8,7 +8,7 @@ import pytest
 from selenium.webdriver.common.by import By
 
 from tests.browser.test_dashboard import PLAIN, no_console_errors, upload_then_open, wait_drawn
-from tests.browser.waits import until
+from tests.browser.waits import text, until
 from thermo import load_dos, tabulate
 from webapp.app import create_app
 
@@ -35,4 +35,9 @@ def test_formula_typed_once_is_used_on_every_page(dash_duo, tmp_path):
     until(lambda: f"{s_gram:.5g}" in dash_duo.find_element("#th-keys").text)
     driver.find_element(By.CSS_SELECTOR, "a[href='/models'].mh-nav-link").click()
     until(lambda: "formula Cu" in dash_duo.find_element("#mod-rd-summary").text)
+    # the Polynomials page shows the same panel, and its Cantera block takes the formula from it
+    driver.find_element(By.CSS_SELECTOR, "a[href='/polynomials'].mh-nav-link").click()
+    until(lambda: "formula Cu" in dash_duo.find_element("#po-rd-summary").text)
+    driver.find_element(By.CSS_SELECTOR, "#po-output input[value='yaml']").click()
+    until(lambda: 'name: "Cu(cr)"' in text(driver, "#po-block"))
     no_console_errors(dash_duo)

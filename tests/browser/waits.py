@@ -44,3 +44,13 @@ def text(driver, css: str) -> str:
     """Text of the element at ``css`` read in one script call ('' when absent): no stale handle."""
     return driver.execute_script(
         "const e = document.querySelector(arguments[0]); return e ? e.innerText : '';", css)
+
+
+def click(driver, css: str, timeout: float = TIMEOUT):
+    """Click the element at ``css`` once it is there, again if it was redrawn between finding and clicking."""
+    from selenium.webdriver.common.by import By
+
+    def once():
+        driver.find_element(By.CSS_SELECTOR, css).click()
+        return True
+    return until(once, timeout, msg=f"click on {css}")

@@ -13,7 +13,7 @@ import numpy as np
 import pytest
 from scipy import constants as sc
 
-from thermo.kernels import loggrid, nu2
+from thermo.kernels import cold, loggrid, nu2
 from thermo.kernels.direct import direct_grid_sums
 
 H_OVER_K = sc.h * 1e12 / sc.k   # K per THz, CODATA via scipy.constants
@@ -157,7 +157,7 @@ def test_cold_sums_in_small_passes_give_the_same(monkeypatch):
     w = np.full(nu.size, 0.01)
     t = np.linspace(1.0, 60.0, 120)
     whole = loggrid.loggrid_sums(nu, w, t)
-    monkeypatch.setattr(loggrid, "_PAIRS_PER_PASS", 500)      # many passes of a few temperatures
+    monkeypatch.setattr(cold, "_PAIRS_PER_PASS", 500)      # many passes of a few temperatures
     assert _worst(loggrid.loggrid_sums(nu, w, t), whole) < 1e-13
     assert _worst(whole, direct_grid_sums(nu, w, t)) < 1e-7
 

@@ -108,3 +108,22 @@ def test_occupation_explorer_planck_limits():
     assert r["mean_energy_meV"][0, 0] == pytest.approx(0.5 * h_mev_per_thz, rel=1e-12)
     assert r["mean_energy_meV"][0, 1] == pytest.approx(1.5 * h_mev_per_thz, rel=1e-12)   # hν(n + 1/2), n = 1
     assert r["mean_energy_meV"][1, 2] == pytest.approx(kb_mev * 3000.0, rel=1e-9)        # x ~ 1.6e-5
+
+
+def test_share_table_columns_come_from_the_column_schema():
+    # Common practice (no single source): in the classical limit every mode carries k_B of C_v, so the
+    # share of a bin is its share of the modes; each temperature's shares sum to 1.
+    from thermo.columns import find, lookup
+    from thermo.models.modemap import SHARE_TABLE, share_table
+    from thermo.spectrum import PhononDOS
+    nu = np.linspace(0.0, 10.0, 1001)
+    table = share_table(mode_share_map(PhononDOS(nu, 0.3 * np.ones_like(nu), atoms=1), [1e6, 50.0], bins=10))
+    assert [lookup(name).quantity.key for name in table.columns] == list(SHARE_TABLE)
+    assert len(table) == 20
+    hot = table[table[find(table, "temperature")] == 1e6]
+    np.testing.assert_allclose(hot[find(hot, "heat_capacity_v_share")].to_numpy()[1:4], 0.1, atol=2e-3)
+    sums = table.groupby(find(table, "temperature"))[[find(table, "heat_capacity_v_share"),
+                                                      find(table, "entropy_share")]].sum()
+    np.testing.assert_allclose(sums.to_numpy(), 1.0, rtol=1e-9)
+    width = table[find(table, "bin_high")] - table[find(table, "bin_low")]
+    np.testing.assert_allclose(table[find(table, "frequency")], table[find(table, "bin_low")] + width / 2)

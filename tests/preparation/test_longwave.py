@@ -130,19 +130,12 @@ def test_mean_square_displacement_of_a_mode_list_is_the_zone_average():
     assert np.allclose(got, exact, rtol=0.005)
 
 
-_GAP = pytest.mark.xfail(strict=True, reason="the stated resolved limit lets a 0.12 THz smearing on the shifted "
-                                             "16³ bcc mesh through: +3.4 % at 5 K (to be replaced by the "
-                                             "resolution analysis of the error estimate)")
-
-
 @pytest.mark.parametrize("name", CRYSTALS)
 @pytest.mark.parametrize("n", [8, 12, 16, 24])
 @pytest.mark.parametrize("kind", ["gaussian", "histogram"])
-def test_the_elastic_anchor_on_mesh_dos_files(name, n, kind, request):
+def test_the_elastic_anchor_on_mesh_dos_files(name, n, kind):
     # DOS files of the test crystals (Gaussian σ = 0.12 THz or 0.05 THz bins) anchored by the θ of their sound
     # speeds (Ashcroft & Mermin ch. 23): C_v(2 K, 5 K) within 3 % of the exact tables (issue 23)
-    if (name, n, kind) == ("bcc", 16, "gaussian"):
-        request.applymarker(_GAP)
     crystal = CRYSTALS[name]
     nu, g = cr.gaussian_dos(crystal, n, 0.12) if kind == "gaussian" else cr.histogram_dos(crystal, n, 0.05)
     dos = load_dos(cr.dos_text(nu, g), atoms=1, low_frequency=f"elastic:{crystal.debye_temperature()}")

@@ -29,8 +29,11 @@ def _s298(dos):
 def test_not_given_is_none_and_the_defaults_are_written_once():
     assert ReadingOptions().as_dict() == dict.fromkeys(FIELDS)
     assert DEFAULTS.as_dict() == DEFAULT_VALUES and ReadingOptions().resolved() == DEFAULTS
-    # the store and the dashboard keep the same defaults (a blank formula is their stored form)
-    assert DEFAULT_SETTINGS == session.DEFAULT_OPTIONS == {**DEFAULT_VALUES, "formula": ""}
+    # the store and the dashboard keep the same defaults (a blank formula is their stored form, and an
+    # unsaid histogram choice is left out, as in settings stored before it existed)
+    stored = {**DEFAULT_VALUES, "formula": ""}
+    del stored["histogram"]
+    assert DEFAULT_SETTINGS == session.DEFAULT_OPTIONS == stored
 
 
 @pytest.mark.parametrize("command", ["table", "summary", "models", "displacements", "polynomial", "batch",
@@ -60,13 +63,13 @@ def test_an_option_equal_to_the_default_still_wins_over_a_stored_one():
 
 def test_values_are_checked_and_written_canonically():
     r = ReadingOptions(freq_unit="1/cm", negative="keep-count", low_frequency=(0.2, 0.6), formula=" Mg O ",
-                       sheet=" data ")
+                       sheet=" data ", histogram="yes")
     assert r.as_dict() == {"freq_unit": "cm-1", "atoms": None, "negative": "drop-unscaled",
-                           "low_frequency": "0.2:0.6", "formula": "Mg O", "sheet": "data"}
+                           "low_frequency": "0.2:0.6", "formula": "Mg O", "sheet": "data", "histogram": True}
     assert ReadingOptions.from_mapping(r.as_dict()) == r          # a stored record reads back the same
     assert ReadingOptions(atoms="2").atoms == 2
     for bad in ({"atoms": 0}, {"atoms": 2.5}, {"negative": "keep"}, {"low_frequency": "0.6:0.2"},
-                {"freq_unit": "furlong"}, {"colour": "red"}):
+                {"freq_unit": "furlong"}, {"colour": "red"}, {"histogram": "maybe"}):
         with pytest.raises(OptionError) as info:
             ReadingOptions.from_mapping(bad)
         assert "\n" not in str(info.value)

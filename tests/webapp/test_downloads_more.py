@@ -13,6 +13,7 @@ import numpy as np
 import pytest
 
 from thermo.cli.main import main
+from thermo.columns import find
 from thermo.io.readback import read_exported_csv
 from webapp import session
 from webapp.app import create_app
@@ -45,7 +46,8 @@ def test_mode_map_download_is_the_map_with_its_provenance():
     table, meta = read_exported_csv(content)
     assert name == "springium_fcc-mode-shares.csv"
     assert len(table) == modemap.MAP_TEMPERATURES * modemap.BINS
-    sums = table.groupby("temperature_K")[["heat_capacity_v_share", "entropy_share"]].sum()
+    sums = table.groupby(find(table, "temperature"))[[find(table, "heat_capacity_v_share"),
+                                                      find(table, "entropy_share")]].sum()
     np.testing.assert_allclose(sums.to_numpy(), 1.0, rtol=1e-6)
     assert meta["inputs"][0]["sha256"] == hashlib.sha256(demo_file("springium_fcc.dat").read_bytes()).hexdigest()
     assert modemap.map_download("csv", session.empty_workspace(), 2, 1000) is None

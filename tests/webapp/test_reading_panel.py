@@ -53,3 +53,24 @@ def test_atom_count_from_the_panel():
     per_atom = cache.table(session.active(new), [300.0], "atom")[column_name("entropy", "atom")].iloc[0]
     assert np.isfinite(per_formula) and "2 atoms per formula unit" in reading.summary(session.active(new))
     assert per_atom > 0
+
+
+def test_polynomials_calorimetry_and_quasiharmonic_pages_take_the_panels_formula():
+    from webapp.pages import calorimetry, polynomials, quasiharmonic
+    ws, _ = reading.edited(_on_fcc(demo_workspace()), "Cu", None)
+    assert "formula Cu" in reading.summary(session.active(ws))
+    # Polynomials: the Cantera block needs a formula; blank field → the dataset's (a typed one wins)
+    block = polynomials.draw(ws, "nasa7", 298.15, 1000, None, 0, "cr", "", "yaml")[3]
+    assert 'name: "Cu(cr)"' in block and 'composition: {"Cu": 1}' in block
+    typed = polynomials.draw(ws, "nasa7", 298.15, 1000, None, 0, "cr", "Ag", "yaml")[3]
+    assert 'name: "Ag(cr)"' in typed and 'composition: {"Ag": 1}' in typed
+    # Calorimetry: the formula read with the measurement (J/(g K) needs it) is the dataset's
+    _, content = calorimetry.calorimetry_download("json", None, ws, "dos", ["electronic"], "", "", 1, "header", "",
+                                                  None, None)
+    import json
+    record = json.loads(content)["provenance"]
+    assert record["inputs"][0]["options"]["formula"] == "Cu"
+    # Quasi-harmonic: only a volume set made of loaded datasets takes the active dataset's formula
+    assert quasiharmonic._formula("datasets", ws, "") == "Cu"
+    assert quasiharmonic._formula("manifest", ws, "") is None
+    assert quasiharmonic._formula("manifest", ws, "MgO") == "MgO"

@@ -15,10 +15,14 @@ spectra with the same mode count, integration by parts gives
 so a bound :math:`D(\nu) \ge |N_{table}-N_{true}|` gives an error bound per
 quantity and temperature:
 
-* *resolution* (:math:`\nu<\nu_r`): :math:`D = \max(N_{table}, \gamma N_{D})`, with
+* *resolution* (:math:`\nu<\nu_r`): the true count lies between 0 and
+  :math:`U = \min(\gamma N_D, N_{table}(\nu_r) + |\Delta N_e(\nu_r)|)`, so
+  :math:`D = \max(N_{table}, U - N_{table})`, with
   :math:`N_D = A\nu^3/3` the ν³ law fitted to the cumulative count above
-  :math:`\nu_r` (far less sensitive to mesh combs than :math:`g/\nu^2`) and
-  :math:`\gamma` = :data:`MODEL_FACTOR`; when the table follows a fitted ν²
+  :math:`\nu_r` (far less sensitive to mesh combs than :math:`g/\nu^2`),
+  :math:`\gamma` = :data:`MODEL_FACTOR` and :math:`\Delta N_e(\nu_r)` the count
+  the extra smearing below moves across :math:`\nu_r` (the count up to
+  :math:`\nu_r` is the data's within it); when the table follows a fitted ν²
   form there, :math:`D = |N_{table} - N_D| + 0.5 N_D` (:data:`LAW_UNCERTAINTY`);
 * *smearing* (:math:`\nu\ge\nu_r`): twice the change of the table,
   :math:`2|\int K\,d(N_{data}-N_{data}*G_{\sigma_e})|`, when the data are
@@ -27,7 +31,12 @@ quantity and temperature:
   numerical part's):
   to first order that change equals the error of the smearing the data
   carry (Richardson's argument applied to σ², [2]_); it also sees the comb
-  of the shells.
+  of the shells.  For S the change is taken by parts,
+  :math:`2|\int_{\nu_r} K_S'\,(N_{data}-N_{data}*G_{\sigma_e})\,d\nu|`: the
+  kernel :math:`K_S = 1 - \ln x + \dots` grows like ln T at high T, and an
+  error bound must not change when a constant is added to the kernel (the
+  mode count is fixed) — the count moved across :math:`\nu_r` belongs to
+  the resolution part.
 
 References
 ----------
@@ -45,6 +54,7 @@ from scipy import constants as sc
 
 from ..kernels.planck import H_OVER_K_THZ
 from ..preparation.histogram import is_histogram
+from ..preparation.resolved import cumulative_count as _cumulative, law_coefficient as _law, resolved_limit
 
 #: The ν³ law below the resolved limit is trusted to this factor (the true count may exceed the fit's).
 MODEL_FACTOR = 2.0
@@ -61,12 +71,11 @@ SMEARING_FACTOR = 2.0
 #: The smearing part at T is the largest change over T/ENVELOPE … T·ENVELOPE (the signed change crosses zero).
 ENVELOPE = 1.3
 ENVELOPE_POINTS = 60
+#: A mode list without a long-wave continuum: its comb of shells is judged as a smearing of this many
+#: times its lowest mode (the first shell's spacing) [1].
+LIST_WIDTH = 0.5
 #: The table is not determined by the data below h·ν_r/(k_B · this) (as for a mode list).
 RESOLVED_DIVISOR = 5.0
-#: Share of the modes below the top of the ν³ fit window [1].
-FIT_SHARE = 0.05
-#: The data follow the ν³ law above ν_r within this factor.
-LAW_BAND = 2.0
 _J_PER_MOL_PER_THZ = sc.h * 1e12 * sc.N_A
 
 
@@ -76,9 +85,11 @@ class Resolution:
 
     Attributes
     ----------
-    kind : {'histogram', 'gaussian', 'plain'}
+    kind : {'histogram', 'gaussian', 'plain', 'modes'}
         Histogram of bin centres, Gaussian-smeared mesh DOS (smearing seen in
-        its lowest feature), or neither seen.
+        its lowest feature), neither seen, or a mode list without a long-wave
+        continuum (nothing resolved below its lowest mode; the comb of
+        its first shells judged as a smearing :data:`LIST_WIDTH` times that mode wide).
     width_thz : float
         Bin width, smearing σ, or 0 [THz].
     step_thz : float
@@ -121,58 +132,6 @@ def _data(dos):
     return nu[keep], np.clip(g[keep], 0.0, None)
 
 
-def _gaussian_width(nu, g, law):
-    """(σ, centre) of the lowest feature when it is a Gaussian (half-Gaussian at 0 or a rising tail), else (0, 0).
-
-    A rising start that is no single Gaussian gives (-1, 0): σ then follows from g(0) = Aσ²/2 with
-    ``law`` = A.  (Restricting the tail to where the data lie below the ν² law under-estimated σ on
-    shifted 16³–24³ meshes, so the leading run is used as it is: it can only over-estimate σ.)
-    """
-    pos = np.flatnonzero(g > 0)
-    if pos.size < 4:
-        return 0.0, 0.0
-    i0 = pos[0]
-    # a maximum at the start: Γ's modes smeared into a half Gaussian
-    if g[i0] > 0 and (i0 + 1 < g.size) and g[i0 + 1] < g[i0]:
-        j = i0 + 1
-        while j + 1 < g.size and 0 < g[j + 1] < g[j]:
-            j += 1
-        sel = np.arange(i0, j + 1)
-        sel = sel[g[sel] > 1e-8 * g[i0]]
-        if sel.size >= 3:
-            slope = np.polyfit(nu[sel] ** 2, np.log(g[sel]), 1)[0]
-            if slope < 0:
-                return float(np.sqrt(-0.5 / slope)), 0.0
-        return 0.0, 0.0
-    # a rising start from a non-zero value at 0: the tail of the lowest smeared shell (quadratic ln g)
-    if nu[0] > 1e-6 * (nu[-1] - nu[0]) or g[0] <= 0:
-        return 0.0, 0.0
-    best = None
-    for k in range(5, min(g.size, 80) + 1):          # the longest leading run that is one Gaussian tail
-        sel = np.arange(k)
-        if np.any(g[sel] <= 0):
-            break
-        coef = np.polyfit(nu[sel], np.log(g[sel]), 2)
-        rms = float(np.sqrt(np.mean((np.polyval(coef, nu[sel]) - np.log(g[sel])) ** 2)))
-        if coef[0] >= 0 or rms > 0.02:
-            break
-        best = coef
-    if best is not None:
-        return float(np.sqrt(-0.5 / best[0])), max(float(-best[1] / (2 * best[0])), 0.0)
-    return -1.0, 0.0          # smeared, width from g(0) = Aσ²/2 (see analyse_resolution)
-
-
-def _cumulative(nu, g, histogram):
-    """N at the grid nodes (trapezoid) or at the bin tops (histogram), and those abscissae."""
-    if histogram:
-        h = nu[1] - nu[0]
-        return np.concatenate([[0.0], nu + h / 2]), np.concatenate([[0.0], np.cumsum(g) * h])
-    n = np.concatenate([[0.0], np.cumsum(0.5 * (g[1:] + g[:-1]) * np.diff(nu))])
-    if nu[0] > 0:
-        return np.concatenate([[0.0], nu]), np.concatenate([[0.0], n + g[0] * nu[0] / 3])
-    return nu, n
-
-
 def analyse_resolution(dos):
     """The :class:`Resolution` of a prepared DOS (None for a mode list or an empty table).
 
@@ -185,48 +144,29 @@ def analyse_resolution(dos):
     ('plain', True)
     """
     if dos.modes is not None and not dos.source.get("histogram"):
-        return None                      # a mode list: see thermo.preparation.modelist
+        return None if dos.modes.continuum else _list_resolution(dos.modes)
     nu, g = _data(dos)
     if nu.size < 4 or not np.any(g > 0):
         return None
     histogram = bool(dos.source.get("histogram")) or is_histogram(nu)
-    step = float(np.median(np.diff(nu)))
-    kind, width, centre = "histogram", step, 0.0
-    x, n = _cumulative(nu, g, histogram)
-    total = n[-1]
-    if not histogram:
-        a0 = _law(x, n, max(2.0 * step, float(x[1])), total)
-        width, centre = _gaussian_width(nu, g, a0)
-        kind = "gaussian" if width != 0 else "plain"
-        if width < 0:             # a smeared ν² law has g(0) = Aσ²/2: σ from the ν³ law of the count
-            width = float(np.sqrt(2.0 * g[0] / a0)) if a0 > 0 else step
-    start = max(centre + 2.0 * width, 2.0 * step, float(x[1]))
-    win = _window(x, n, start, total)
-    a = _law(x, n, start, total)
-    resolved = start
-    if a > 0:
-        ratio = n[win] / (a * x[win] ** 3 / 3.0)
-        bad = np.flatnonzero((ratio > LAW_BAND) | (ratio < 1.0 / LAW_BAND))
-        if bad.size:
-            resolved = max(resolved, float(x[win][bad[-1]]))
+    kind, width, step, resolved, a = resolved_limit(nu, g, histogram)
+    total = _cumulative(nu, g, histogram)[1][-1]
     lost = float(g[0] * width * np.sqrt(np.pi / 2) / total) if kind == "gaussian" and nu[0] == 0 else 0.0
     return Resolution(kind, float(width), step, float(resolved), a, float(H_OVER_K_THZ * resolved / RESOLVED_DIVISOR),
                       lost)
 
 
-def _window(x, n, start, total):
-    """Grid points of the ν³ fit window: from ``start`` to where N reaches FIT_SHARE of the modes (at least 2 start)."""
-    top = max(float(np.interp(FIT_SHARE * total, n, x)), 2.0 * start)
-    win = (x >= start) & (x <= top)
-    if win.sum() < 2:
-        win = (x >= start) & (x <= x[min(np.searchsorted(x, start) + 2, x.size - 1)])
-    return win
-
-
-def _law(x, n, start, total):
-    """A of N = Aν³/3 over the fit window (median of 3N/ν³: robust to the comb of the shells) [modes/THz³]."""
-    win = _window(x, n, start, total)
-    return float(np.median(3.0 * n[win] / x[win] ** 3)) if win.any() else 0.0
+def _list_resolution(modes):
+    """A mode list without a long-wave continuum resolves nothing below its lowest mode: ν³ law of the count above."""
+    x = np.concatenate([[0.0], modes.frequency_thz])
+    n = np.concatenate([[0.0], np.cumsum(modes.weight)])
+    if x.size < 4 or n[-1] <= 0:
+        return None
+    resolved = float(modes.resolved_thz or modes.frequency_thz[0])
+    a = _law(x, n, resolved, float(n[-1]))
+    step = resolved / 10.0
+    return Resolution("modes", LIST_WIDTH * resolved, step, resolved, a,
+                      float(H_OVER_K_THZ * resolved / RESOLVED_DIVISOR))
 
 
 def resolution_note(resolution, temperatures):
@@ -244,7 +184,8 @@ def resolution_note(resolution, temperatures):
     if resolution is None or not np.any((t > 0) & (t < resolution.undetermined_below_k)):
         return None
     what = {"gaussian": f"Gaussian smearing σ ≈ {resolution.width_thz:.3g} THz",
-            "histogram": f"{resolution.width_thz:.3g} THz bins", "plain": "its lowest rows"}[resolution.kind]
+            "histogram": f"{resolution.width_thz:.3g} THz bins", "plain": "its lowest rows",
+            "modes": "its lowest mode"}[resolution.kind]
     return (f"the data resolve frequencies down to {resolution.resolved_thz:.3g} THz ({what}, first q-shells); "
             f"below {resolution.undetermined_below_k:.3g} K the table is not determined by the data "
             "(see the resolution part of the error estimate)")
@@ -298,6 +239,58 @@ def _kernels(grid, t):
     return (sc.R * c, sc.R * (u - lg), zp + sc.R * t[None, :] * u, zp + sc.R * t[None, :] * lg)
 
 
+def _resolution_sums(nodes, d_res, t):
+    """Σ_g d_g |K(ν_{g+1}) − K(ν_g)| of C_v, S, U, F at ``t``, shape (4, M), over the intervals with d_g ≠ 0 only."""
+    out = np.zeros((4, t.size))
+    idx = np.flatnonzero(d_res)
+    if idx.size == 0:
+        return out
+    rows = np.unique(np.concatenate([idx, idx + 1]))
+    lo, hi = np.searchsorted(rows, idx), np.searchsorted(rows, idx + 1)
+    for start in range(0, t.size, 64):        # temperature blocks: memory stays small
+        for i, k in enumerate(_kernels(nodes[rows], t[start:start + 64])):
+            out[i, start:start + 64] = np.einsum("g,gm->m", d_res[idx], np.abs(k[hi] - k[lo]))
+    return out
+
+
+def _signed_sums(nodes, weights, t):
+    """Σ w K of the three Planck kernels for weights of either sign: positive and negative parts apart, each by
+    :func:`thermo.kernels.sums.grid_sums` (the log-grid correlation when it pays)."""
+    from ..kernels.direct import SUM_KEYS
+    from ..kernels.sums import grid_sums
+    out = {key: np.zeros(t.size) for key in SUM_KEYS}
+    for sign in (1.0, -1.0):
+        part = np.where(sign * weights > 0, sign * weights, 0.0)
+        if np.any(part > 0):
+            sums = grid_sums(nodes, part, t)
+            for key in SUM_KEYS:
+                out[key] += sign * sums[key]
+    return out
+
+
+def _smearing_sums(nodes, d_sm, m_sm, t):
+    r"""\|Σ_g d_g (K(ν_g) + K(ν_{g+1}))/2\| for C_v, U, F and \|Σ_g m_g (K_S(ν_{g+1}) − K_S(ν_g))\| at ``t``.
+
+    Both are linear in the kernels: with node weights :math:`W_n = (d_{n-1} + d_n)/2` and
+    :math:`V_n = m_{n-1} - m_n` they are mode sums, :math:`|R\Sigma_W c|`, :math:`|R\Sigma_V (u + \ell)|`,
+    :math:`|Z + RT\Sigma_W u|` and :math:`|Z - RT\Sigma_W \ell|` with :math:`Z = \sum_n W_n N_A h
+u_n/2`.
+    """
+    out = np.zeros((4, t.size))
+    w = 0.5 * (np.append(0.0, d_sm) + np.append(d_sm, 0.0))
+    v = np.append(0.0, m_sm) - np.append(m_sm, 0.0)
+    if np.any(w != 0):
+        sums = _signed_sums(nodes, w, t)
+        z = float(np.sum(w * 0.5 * _J_PER_MOL_PER_THZ * nodes))
+        out[0] = np.abs(sc.R * sums["heat_capacity"])
+        out[2] = np.abs(z + sc.R * t * sums["thermal_energy"])
+        out[3] = np.abs(z - sc.R * t * sums["log_partition"])
+    if np.any(v != 0):
+        sums = _signed_sums(nodes, v, t)
+        out[1] = np.abs(sc.R * (sums["thermal_energy"] + sums["log_partition"]))
+    return out
+
+
 def resolution_parts(dos, temperatures, resolution=None):
     r"""Resolution and smearing parts of the error of C_v, S, U, F at each temperature.
 
@@ -346,18 +339,21 @@ def resolution_parts(dos, temperatures, resolution=None):
     table = _table_cumulative(dos, mid)
     below = mid < r.resolved_thz
     law = r.coefficient * scale * mid ** 3 / 3.0
-    if dos.low_frequency is None:        # the table is the data there: anything between it and twice the law
-        d_res = np.where(below, np.maximum(table, MODEL_FACTOR * law), 0.0)
-    else:                                # the table follows a ν² law there: the law known within LAW_UNCERTAINTY
-        d_res = np.where(below, np.abs(table - law) + LAW_UNCERTAINTY * law, 0.0)
     x, n = _cumulative(nu, g, histogram)
     moved = (np.interp(grid, x, n, right=n[-1]) - _smoothed_count(nu, g, histogram, grid, sigma)) * scale
+    if dos.low_frequency is None:        # the table is the data there: the truth lies between 0 and a cap
+        cap = float(np.interp(r.resolved_thz, mid, table)) + abs(float(np.interp(r.resolved_thz, grid, moved)))
+        d_res = np.where(below, np.maximum(table, np.minimum(MODEL_FACTOR * law, cap) - table), 0.0)
+    else:                                # the table follows a ν² law there: the law known within LAW_UNCERTAINTY
+        d_res = np.where(below, np.abs(table - law) + LAW_UNCERTAINTY * law, 0.0)
     fit = dos.low_frequency
     own = r.resolved_thz if fit is None else max(r.resolved_thz, fit.blend_top_thz or fit.cutoff_thz)
     if r.kind == "plain":                                # no smearing seen: the grid is the numerical part's
         own = np.inf
     # modes the extra smearing moves, per interval, where the table uses the data (not the ν² form)
     d_sm = np.where(mid < own, 0.0, np.diff(moved))
+    # S: the same change integrated by parts, without the count moved across ν_r times K_S(ν_r) (see notes)
+    m_sm = np.where(mid < own, 0.0, 0.5 * (moved[1:] + moved[:-1]))
     hot = t > 0
     out_res, out_sm = zero, zero.copy()
     if hot.any():
@@ -365,11 +361,8 @@ def resolution_parts(dos, temperatures, resolution=None):
         th = t[hot]
         # the signed change crosses zero at some temperatures: its envelope over T/ENVELOPE..T·ENVELOPE is used
         aux = np.unique(np.concatenate([th, np.geomspace(th.min() / ENVELOPE, th.max() * ENVELOPE, ENVELOPE_POINTS)]))
-        res_aux, sm_aux = np.zeros((4, aux.size)), np.zeros((4, aux.size))
-        for lo in range(0, aux.size, 64):        # temperature blocks: memory stays small
-            for i, k in enumerate(_kernels(floor, aux[lo:lo + 64])):
-                res_aux[i, lo:lo + 64] = np.einsum("g,gm->m", d_res, np.abs(np.diff(k, axis=0)))
-                sm_aux[i, lo:lo + 64] = np.abs(np.einsum("g,gm->m", d_sm, 0.5 * (k[1:] + k[:-1])))
+        res_aux = _resolution_sums(floor, d_res, aux)
+        sm_aux = _smearing_sums(floor, d_sm, m_sm, aux)
         res_hot = res_aux[:, np.searchsorted(aux, th)]
         near = (aux[None, :] >= th[:, None] / ENVELOPE) & (aux[None, :] <= th[:, None] * ENVELOPE)
         out_res[:, hot] = RESOLUTION_SAFETY * res_hot

@@ -14,6 +14,9 @@ def register(sub):
     p.add_argument("file", nargs="+", metavar="FILE",
                    help="DOS files or mode lists of the same solid (or ws:NAME datasets); the first is the "
                         "reference unless --reference names another")
+    p.add_argument("--table", action="append", default=[], metavar="CSV",
+                   help="a table modeheat wrote (thermodynamics, quasi-harmonic, calorimetry: its S° stands for S) "
+                        "compared as one more run, interpolated between its rows (repeat for several)")
     p.add_argument("--reference", metavar="FILE", help="the run the others are compared with (one of FILE)")
     p.add_argument("--temperatures", default="5,20,298.15", metavar="SPEC",
                    help="temperatures [K], > 0: a comma list and/or START:STOP:STEP (default 5,20,298.15)")
@@ -28,7 +31,7 @@ def register(sub):
 
 
 def run(args) -> int:
-    from ..convergence import compare_runs, comparison_provenance
+    from ..convergence import compare_runs, comparison_provenance, with_table_run
     from ..errors import OptionError
     from ..temperatures import parse_temperatures
     from .options import emit_table, formula_of
@@ -39,8 +42,8 @@ def run(args) -> int:
     files = list(args.file)
     if args.reference is not None and args.reference not in files:
         files.insert(0, args.reference)
-    if len(files) < 2:
-        raise OptionError("compare needs at least two runs (files)")
+    if len(files) + len(args.table) < 2 or not files:
+        raise OptionError("compare needs at least two runs (files, or a file and --table)")
     reference = files.index(args.reference) if args.reference is not None else 0
     doses = [load_from_args(args, f) for f in files]
     for dos in doses:
@@ -50,4 +53,7 @@ def run(args) -> int:
     table = compare_runs(doses, temperatures, reference=reference, names=names, per=args.per, formula=formula)
     info = comparison_provenance(doses, temperatures, reference=reference, names=names, per=args.per,
                                  formula=formula)
+    for path in args.table:
+        with open(path, "rb") as handle:
+            table, info = with_table_run(table, info, handle.read(), os.path.basename(path), formula)
     return emit_table(table, info, args, plan)

@@ -20,7 +20,9 @@ def register(sub):
                             "uncertainties, p–T boundary, formation quantities")
     p.add_argument("phase", nargs="+", metavar="NAME=FILE",
                    help="a phase: a DOS file (harmonic, fixed volume) or a volume-set manifest (quasi-harmonic; "
-                        "CSV with volume_A3, energy_eV, dos_file); ws:NAME for a workspace dataset. All phases of a "
+                        "CSV with volume_A3, energy_eV, dos_file), or a CSV table modeheat wrote (quasi-harmonic "
+                        "G, or calorimetry H − H(0) and S°: a phase at fixed pressure); ws:NAME for a workspace "
+                        "dataset. All phases of a "
                         "run are of one kind; the first is the reference of the Δ columns")
     add_reading_options(p, None)
     p.add_argument("--atoms", action="append", default=[], metavar="NAME=N",
@@ -112,6 +114,16 @@ def _is_manifest(path):
     return bool(lines) and "volume_a3" in lines[0] and "dos_file" in lines[0]
 
 
+def _is_table(path):
+    """True when the file is a table modeheat wrote (a quasi-harmonic or calorimetry CSV, read as a phase)."""
+    from ..phases.tabulated import is_phase_table
+    try:
+        with open(path, "rb") as handle:
+            return is_phase_table(handle.read(256))
+    except OSError:
+        return False
+
+
 def load_phases(args):
     """The :class:`~thermo.phases.Phase` list of the command line."""
     from ..errors import OptionError
@@ -139,6 +151,9 @@ def load_phases(args):
             loaded = read_manifest(source, options=reading_from_args(reading), resolve=_workspace_resolver(args),
                                    electronic_options={"energy_unit": args.electronic_energy_unit},
                                    name=os.path.basename(source))
+        elif not is_reference(source) and _is_table(source):
+            from ..phases.tabulated import read_phase_table
+            loaded = read_phase_table(source)
         else:
             loaded = load_from_args(reading, source)
         phases.append(Phase(name, loaded, static_ev=energy_in_ev(static.get(name, 0.0), args.energy_unit),

@@ -12,7 +12,7 @@ from ..unit_names import FREQUENCY_UNITS
 
 
 def add_reading_options(parser, formula_help=None, for_option=None, many=False, atoms_default=None):
-    """Add ``--freq-unit``, ``--atoms``, ``--negative``, ``--sheet``, ``--low-frequency`` and ``--formula``.
+    """Add ``--freq-unit``, ``--atoms``, ``--negative``, ``--sheet``, ``--low-frequency``, ``--histogram``, ``--formula``.
 
     ``for_option`` names the option holding the DOS (e.g. ``--dos``) when it is
     not the positional input; ``formula_help`` says what the command uses the
@@ -42,6 +42,9 @@ def add_reading_options(parser, formula_help=None, for_option=None, many=False, 
                              "elastic:THETA_K — the long-wave limit anchored by an elastic Debye temperature "
                              "(e.g. from 'modeheat elastic') and blended into the data above their resolved limit "
                              f"(default {DEFAULT_TEXT['low_frequency']})" + stored)
+    parser.add_argument("--histogram", action="store_true", default=None,
+                        help=f"the rows {what} are histogram bins (bin centres, equally spaced): summed as "
+                             f"Σ g·Δν (default: {DEFAULT_TEXT['histogram']})" + stored)
     add_formula_option(parser, formula_help)
 
 

@@ -15,7 +15,7 @@ _UTF16_BOMS = (b"\xff\xfe", b"\xfe\xff")
 
 def _utf16_guess(raw: bytes):
     """``"utf-16-le"``/``"utf-16-be"`` for ASCII text saved as UTF-16 without BOM, else None."""
-    if len(raw) < 4 or len(raw) % 2:
+    if len(raw) < 4 or len(raw) % 2 or b"\x00" not in raw:     # ASCII as UTF-16: every other byte is NUL
         return None
     even, odd = raw[0::2], raw[1::2]
     if even.count(0) == 0 and odd.count(0) >= 0.9 * len(odd):

@@ -27,8 +27,10 @@ import zipfile
 from ..errors import DosInputError
 
 
-#: Most data rows (lines) a DOS file may have.
+#: Most data rows a DOS file may have (a header row, comments and blank lines are not counted).
 MAX_ROWS = 1_000_000
+#: Rows above the data a sheet may have besides them (titles, header) while it is streamed.
+MAX_SHEET_HEAD_ROWS = 1_000
 #: Most columns (frequency, total and partial DOS) a DOS file may have.
 MAX_COLUMNS = 256
 #: Largest uncompressed size of all parts of an .xlsx workbook [bytes].
@@ -42,9 +44,9 @@ class SheetTooLarge(Exception):
 
 
 def check_row_count(rows: int, display: str) -> None:
-    """Refuse a file of more than :data:`MAX_ROWS` non-blank rows."""
+    """Refuse a file of more than :data:`MAX_ROWS` data rows (header, comments and blank lines not counted)."""
     if rows > MAX_ROWS:
-        raise DosInputError(f"{rows:,} rows; at most {MAX_ROWS:,} are read", display)
+        raise DosInputError(f"{rows:,} data rows; at most {MAX_ROWS:,} are read", display)
 
 
 def check_column_count(width: int, display: str, line=None) -> None:

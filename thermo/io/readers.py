@@ -168,7 +168,6 @@ def read_table(source, name: str | None = None, sheet=None) -> RawTable:
         if plain is not None:     # a clean numeric body: converted at once, no Python step per line
             return _raw_table(*plain, display, digest, None)
         rows = _text_rows(text)
-    check_row_count(len(rows), display)
     comments, candidates = _split_comments(rows)
     if is_xlsx:
         comments, candidates = xlsx_titles(comments, candidates, _looks_numeric)
@@ -184,6 +183,7 @@ def read_table(source, name: str | None = None, sheet=None) -> RawTable:
     if not candidates:
         where = f" on sheet {sheet_name!r}" if sheet_name else ""
         raise DosInputError(f"no data rows{where} after the header", display, header[0])
+    check_row_count(len(candidates), display)
     data = None if is_xlsx else chunked_array(candidates, delimiter, split, display, _to_array, _fast_array)
     if data is None:
         cells = [(line, split(row) if split else row) for line, row in candidates]
@@ -241,8 +241,8 @@ def _plain_body(text):
         body = body.replace("\r\n", "\n")
     count = body.count("\n") + 1
     rows = _text_rows(head)
-    if len(rows) + count > MAX_ROWS:
-        return None
+    if count > MAX_ROWS:
+        return None          # the general path counts the data rows exactly and refuses
     comments, candidates = _split_comments(rows)
     first = body[:body.find("\n")] if count > 1 else body
     delimiter = _choose_delimiter(candidates + [(number, first.strip())])

@@ -11,7 +11,7 @@ from __future__ import annotations
 import io
 
 from ..errors import DosInputError
-from .limits import MAX_ROWS, MAX_XLSX_CELLS, SheetTooLarge
+from .limits import MAX_ROWS, MAX_SHEET_HEAD_ROWS, MAX_XLSX_CELLS, SheetTooLarge
 
 
 def _pick_sheet(book, sheet, display):
@@ -44,14 +44,14 @@ def xlsx_rows(raw: bytes, display: str, choice=None):
             for number, values in enumerate(sheet.iter_rows(values_only=True), start=1):
                 cells = list(values)
                 cells_seen += len(cells)
-                if cells_seen > MAX_XLSX_CELLS or number > MAX_ROWS:
+                if cells_seen > MAX_XLSX_CELLS or number > MAX_ROWS + MAX_SHEET_HEAD_ROWS:
                     raise SheetTooLarge(number)
                 while cells and (cells[-1] is None or str(cells[-1]).strip() == ""):
                     cells.pop()
                 if cells:
                     rows.append((number, [xlsx_cell(c) for c in cells]))
         except SheetTooLarge as exc:
-            raise DosInputError(f"the sheet has more than {MAX_XLSX_CELLS:,} cells or {MAX_ROWS:,} rows "
+            raise DosInputError(f"the sheet has more than {MAX_XLSX_CELLS:,} cells or {MAX_ROWS + MAX_SHEET_HEAD_ROWS:,} rows "
                                 f"(stopped at row {exc.args[0]})", display) from None
         except Exception:  # openpyxl/zipfile raise many types for broken files
             raise DosInputError("not a readable .xlsx workbook", display) from None

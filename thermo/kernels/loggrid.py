@@ -40,9 +40,9 @@ from __future__ import annotations
 
 import numpy as np
 
+from .cold import _fill_cold, _relevant_nodes, frozen_sums  # noqa: F401 - frozen_sums: part of this interface
 from .direct import KERNELS, SUM_KEYS, direct_grid_sums
-from .planck import X_MAX as _X_CLIP
-from .planck import H_OVER_K_THZ, log_partition_kernel, thermal_energy_kernel
+from .planck import H_OVER_K_THZ
 
 #: Step of the ln ν and ln T grids [1].
 STEP = 0.002
@@ -56,10 +56,6 @@ ORDER = 8
 DYNAMIC_RANGE = 1e-6
 
 
-#: Nodes whose term is below e^-46 (1e-20) of the largest are left out of a cold sum.
-_NEGLIGIBLE_LOG = 46.0
-
-
 #: Nodes below this share of the highest frequency are summed directly.
 _LOW_NODE_SHARE = 1e-9
 
@@ -71,8 +67,9 @@ MIN_TEMPERATURES = 16
 MIN_PAIRS = 20_000
 
 
-#: Pairs evaluated at once by the direct sums of cold temperatures (memory bound).
-_PAIRS_PER_PASS = 1_000_000
+#: A spectrum of this many nodes takes the fast path from 2 temperatures on: its direct sums cost about
+#: 50 ns per pair, the fast path about 1 ms once the spectrum is prepared (about 0.1 µs per node, once).
+MANY_NODES = 50_000
 
 
 #: Longest log grid accepted (ln-range / STEP), to bound memory and time.
@@ -80,6 +77,7 @@ MAX_GRID = 1 << 20
 
 
 _STENCIL = np.arange(ORDER, dtype=float)
+_OFFSETS = np.arange(ORDER)[None, :]
 
 
 #: Barycentric denominators Π_{j≠k}(k − j) of the equispaced stencil.
@@ -149,11 +147,6 @@ def _split_nodes(nu, w):
     return (nu[~low], w[~low]), (nu[low], w[low])
 
 
-def _grid_length(nu, t):
-    span = np.log(nu.max() / nu.min()) + np.log(t.max() / t.min())
-    return int(span / STEP) + 4 * ORDER
-
-
 def suitable(nodes_thz, weights, temperatures):
     """Whether the log-grid correlation is accurate and faster here.
 
@@ -176,7 +169,8 @@ def suitable(nodes_thz, weights, temperatures):
     Thresholds measured on a 2-core machine: the fast path costs about
     0.6 ms whatever the size, the direct sums about 50 ns per pair, so the
     fast path is taken from :data:`MIN_PAIRS` = 20,000 pairs and
-    :data:`MIN_TEMPERATURES` = 16 temperatures.
+    :data:`MIN_TEMPERATURES` = 16 temperatures, or from 2 temperatures on a
+    spectrum of :data:`MANY_NODES` nodes.
 
     Examples
     --------
@@ -185,168 +179,67 @@ def suitable(nodes_thz, weights, temperatures):
     >>> suitable([1.0, 2.0], [1.0, 1.0], [300.0])
     False
     """
-    nu = np.asarray(nodes_thz, dtype=float).ravel()
-    w = np.asarray(weights, dtype=float).ravel()
-    t = np.asarray(temperatures, dtype=float).ravel()
-    if t.size < MIN_TEMPERATURES or nu.size * t.size < MIN_PAIRS or nu.shape != w.shape:
-        return False
-    if not (np.all(np.isfinite(nu)) and np.all(np.isfinite(w)) and np.all(np.isfinite(t))):
-        return False
-    if np.any(t <= 0) or np.any(nu < 0) or not np.any(w != 0):
-        return False
-    (grid_nu, _), _ = _split_nodes(nu, w)
-    return grid_nu.size > 0 and _grid_length(grid_nu, t) <= MAX_GRID
+    return LogGrid(nodes_thz, weights).suitable(temperatures)
 
 
 def _deposit(s, w, s0, length):
     """Weights on the s grid: transpose of Lagrange interpolation."""
     first, lw = _stencil((s - s0) / STEP)
-    contrib = lw * w[:, None]
-    index = first[:, None] + np.arange(ORDER)[None, :]
-    return np.bincount(index.ravel(), weights=contrib.ravel(), minlength=length)
+    rows = lw.T                             # (ORDER, N), contiguous: one bincount per stencil point
+    out = np.bincount(first, weights=rows[0] * w, minlength=length)
+    for k in range(1, ORDER):
+        out += np.bincount(first + k, weights=rows[k] * w, minlength=length)
+    return out
 
 
-def _correlate(deposit, tau0, s0, n_tau):
-    """S_n = Σ_m W_m K(s_m − τ_n) for the three kernels, on the τ grid.
+#: Kernel table: the three kernels at x = (h/k_B) e^{jΔ} [1/THz·K] for j from _TABLE_FIRST on (built on first use).
+_TABLE_FIRST, _TABLE_LAST = -int(40.0 / STEP), int(8.0 / STEP)
+_TABLE = []
+
+
+def _kernel_samples(first, count):
+    """The three kernels at x = H_OVER_K_THZ·exp(jΔ), j = first … first + count − 1, shape (3, count).
+
+    Read from a table built once (a pure function of j, shared by every caller); outside its range they
+    are evaluated.
+    """
+    if first >= _TABLE_FIRST and first + count - 1 <= _TABLE_LAST:
+        if not _TABLE:
+            x = H_OVER_K_THZ * np.exp(STEP * np.arange(_TABLE_FIRST, _TABLE_LAST + 1))
+            _TABLE.append(np.stack([KERNELS[key](x) for key in SUM_KEYS]))
+        return _TABLE[0][:, first - _TABLE_FIRST:first - _TABLE_FIRST + count]
+    x = H_OVER_K_THZ * np.exp(STEP * np.arange(first, first + count))
+    return np.stack([KERNELS[key](x) for key in SUM_KEYS])
+
+
+def _correlate(grid, shift, n_tau):
+    """S_n = Σ_m W_m K(s_m − τ_n) for the three kernels, on the τ grid (τ₀ = s₀ − shift·Δ).
 
     Also returns, per kernel, Σ|W|·max|K|: the FFT's rounding error of any
-    S_n is a small multiple of 1e-16 of it.
+    S_n is a small multiple of 1e-16 of it (each kernel falls with x, so its
+    largest sample is the first).
     """
     from scipy import fft
 
-    n_s = deposit.size
-    # kernel samples at differences d = m − n from −(n_tau − 1) to n_s − 1
-    y = (s0 - tau0) + STEP * np.arange(-(n_tau - 1), n_s)
-    x = H_OVER_K_THZ * np.exp(y)
-    kernels = np.stack([KERNELS[key](x) for key in SUM_KEYS])
-    size = fft.next_fast_len(n_s + y.size - 1, real=True)
-    spectrum = fft.rfft(deposit[::-1], size) [None, :] * fft.rfft(kernels, size, axis=1)
-    full = fft.irfft(spectrum, size, axis=1)
-    # (reversed W ⊛ K)[n_s − 1 + (n_tau − 1) − n] = S_n
-    index = (n_s - 1) + (n_tau - 1) - np.arange(n_tau)
-    return full[:, index], np.sum(np.abs(deposit)) * np.max(np.abs(kernels), axis=1)
+    n_s = grid.deposit.size
+    # kernel samples K_d at differences d = m − n from −(n_tau − 1) to n_s − 1: y = (shift + d)Δ
+    kernels = _kernel_samples(shift - (n_tau - 1), n_tau - 1 + n_s)
+    # a circular convolution of length >= n_s + n_tau − 1 holds every d once: K_{−j} at j = 0 … n_tau − 1,
+    # K_d at size − d for d = 1 … n_s − 1, zeros between
+    size = fft.next_fast_len(n_s + n_tau - 1, real=True)
+    wrapped = np.zeros((3, size))
+    wrapped[:, :n_tau] = kernels[:, n_tau - 1::-1]
+    wrapped[:, size - n_s + 1:] = kernels[:, :n_tau - 1:-1]
+    full = fft.irfft(grid.deposit_spectrum(size)[None, :] * fft.rfft(wrapped, axis=1), size, axis=1)
+    return full[:, :n_tau], grid.total * kernels[:, 0]
 
 
 def _read_back(values, tau0, tau):
     """8-point Lagrange interpolation of grid values at ln T."""
     first, lw = _stencil((tau - tau0) / STEP)
-    index = first[:, None] + np.arange(ORDER)[None, :]
-    return np.einsum("kmj,mj->km", values[:, index], lw)
-
-
-def _relevant_nodes(nu, w, temperature):
-    """Length of the prefix of ascending nodes whose terms are not negligible.
-
-    Each kernel is at most about :math:`(1 + x)^2 e^{-x}` times a factor below
-    3 for x >= 1; above the last node whose bound reaches within
-    :data:`_NEGLIGIBLE_LOG` of the largest bound every term is < 1e-20 of it.
-    """
-    if np.any(np.diff(nu) < 0):
-        return nu.size
-    # the kernels clip x at 700 (thermo.kernels.planck); bound what they compute
-    x = np.minimum(H_OVER_K_THZ * nu / temperature, _X_CLIP)
-    bound = np.log(np.abs(w)) + 2.0 * np.log1p(x) - x
-    last = np.flatnonzero(bound >= bound.max() - _NEGLIGIBLE_LOG)[-1]
-    return int(last) + 1
-
-
-def frozen_sums(nodes_thz, weights, temperatures):
-    r"""Direct sums over every pair with the three kernels from one exponential.
-
-    Parameters
-    ----------
-    nodes_thz : array_like, shape (N,)
-        Frequencies [THz], > 0.
-    weights : array_like, shape (N,)
-        Mode weights [1].
-    temperatures : array_like, shape (M,)
-        Temperatures [K], > 0.
-
-    Returns
-    -------
-    dict of str to numpy.ndarray, shape (M,)
-        As :func:`thermo.kernels.direct.direct_grid_sums` (same clipping of x at
-        700), to rounding.
-
-    Notes
-    -----
-    With :math:`E = e^{-x}` and :math:`D = 1 - e^{-x}` (``-expm1(-x)``):
-    :math:`c = x^2E/D^2`, :math:`u = xE/D`, :math:`\ell = -\ln(1-E)`,
-    three transcendental passes instead of five.
-
-    References
-    ----------
-    .. [1] M. Planck, "Ueber das Gesetz der Energieverteilung im
-       Normalspectrum", Ann. Phys. 309, 553-563 (1901).
-
-    Examples
-    --------
-    >>> s = frozen_sums([1.0, 2.0], [1.0, 1.0], [10.0])
-    >>> r = direct_grid_sums([1.0, 2.0], [1.0, 1.0], [10.0])
-    >>> all(abs(s[k][0] / r[k][0] - 1) < 1e-14 for k in SUM_KEYS)
-    True
-    """
-    nu = np.asarray(nodes_thz, dtype=float)
-    w = np.asarray(weights, dtype=float)
-    t = np.asarray(temperatures, dtype=float)
-    x = np.minimum(np.multiply.outer(H_OVER_K_THZ * nu, 1.0 / t), _X_CLIP)
-    e = np.exp(-x)
-    d = -np.expm1(-x)
-    u = x * e / d
-    c = x * u / d
-    return {"heat_capacity": w @ c, "thermal_energy": w @ u,
-            "log_partition": -(w @ np.log1p(-e))}
-
-
-#: Largest x = hν/k_BT of the lowest grid node at which cold sums run over the deposited log grid
-#: instead of the nodes: every term that matters then changes by less than 0.15 per grid step, where the
-#: 8-point interpolation behind the deposit is good to about 1e-10 relative (see :func:`_fill_cold`).
-_GRID_COLD_X = 20.0
-
-
-def _fill_cold(out, nu, w, t, cold, groups=4, grid=None):
-    """Replace the sums at the cold temperatures by direct ones.
-
-    Where x of the lowest node reaches the clip every term is the clipped
-    kernel (Σw times it, exactly).  With ``grid`` ``(deposit, s0)`` (the weights
-    deposited on the log grid), temperatures whose lowest node has x below
-    :data:`_GRID_COLD_X` sum over the grid points when they are fewer than the
-    nodes: the cost is then grid points × temperatures whatever the number of
-    rows (a 10⁶-row DOS).  The others are split in up to ``groups`` bands;
-    each band sums only the prefix of nodes its warmest temperature needs.
-    """
-    x_low = H_OVER_K_THZ * nu.min() / t[cold]
-    frozen = cold[x_low >= _X_CLIP]
-    if frozen.size:
-        _assign(out, frozen, frozen_sums(nu[:1], np.array([w.sum()]), t[frozen]))
-    rest = cold[x_low < _X_CLIP]
-    if grid is not None:
-        deposit, s0 = grid
-        used = np.flatnonzero(deposit)
-        on_grid = rest[H_OVER_K_THZ * nu.min() / t[rest] < _GRID_COLD_X]
-        if on_grid.size and used.size < _relevant_nodes(nu, w, t[on_grid].max()) // 2:
-            _sum_in_passes(out, np.exp(s0 + STEP * used), deposit[used], t, on_grid)
-            rest = np.setdiff1d(rest, on_grid)
-    if rest.size == 0:
-        return
-    order = rest[np.argsort(t[rest])]
-    for band in np.array_split(order, min(groups, order.size)):
-        # where the kernels' clipping of x reaches the lowest node, every
-        # clipped term is as large as any other: keep all nodes
-        clipped = H_OVER_K_THZ * nu.min() / t[band].min() > _X_CLIP - _NEGLIGIBLE_LOG
-        upto = nu.size if clipped else _relevant_nodes(nu, w, t[band].max())
-        _sum_in_passes(out, nu[:upto], w[:upto], t, band)
-
-
-def _sum_in_passes(out, nodes, weights, t, which):
-    """Direct sums at ``t[which]`` with at most about _PAIRS_PER_PASS pairs in memory at once."""
-    for part in np.array_split(which, -(-which.size * nodes.size // _PAIRS_PER_PASS)):
-        _assign(out, part, frozen_sums(nodes, weights, t[part]))
-
-
-def _assign(out, which, sums):
-    for key in SUM_KEYS:
-        out[key][which] = sums[key]
+    # np.take of whole (3-value) rows is several times quicker than fancy indexing here
+    rows = np.ascontiguousarray(values.T).take(first[:, None] + _OFFSETS, axis=0)     # (M, ORDER, 3)
+    return np.matmul(lw[:, None, :], rows)[:, 0, :].T
 
 
 def loggrid_sums(nodes_thz, weights, temperatures):
@@ -391,30 +284,113 @@ def loggrid_sums(nodes_thz, weights, temperatures):
     >>> bool(np.max(np.abs(fast / ref - 1)) < 1e-8)
     True
     """
-    nu = np.asarray(nodes_thz, dtype=float).ravel()
-    w = np.asarray(weights, dtype=float).ravel()
-    t = np.asarray(temperatures, dtype=float).ravel()
-    (grid_nu, grid_w), (low_nu, low_w) = _split_nodes(nu, w)
-    if grid_nu.size == 0:
-        return direct_grid_sums(nu, w, t)
-    s = np.log(grid_nu)
-    tau = np.log(t)
-    half = ORDER // 2 + 1
-    s0 = s.min() - half * STEP
-    tau0 = tau.min() - half * STEP
-    n_s = int(np.ceil((s.max() - s0) / STEP)) + half + 1
-    n_tau = int(np.ceil((tau.max() - tau0) / STEP)) + half + 1
-    deposit = _deposit(s, grid_w, s0, n_s)
-    on_grid, scale = _correlate(deposit, tau0, s0, n_tau)
-    values = _read_back(on_grid, tau0, tau)
-    out = dict(zip(SUM_KEYS, values))
-    cold = np.zeros(t.size, dtype=bool)
-    for key in SUM_KEYS:
-        cold |= ~(out[key] > DYNAMIC_RANGE * scale[SUM_KEYS.index(key)])
-    if cold.any():
-        _fill_cold(out, grid_nu, grid_w, t, np.flatnonzero(cold), grid=(deposit, s0))
-    if low_nu.size:
-        extra = direct_grid_sums(low_nu, low_w, t)
-        for key in SUM_KEYS:
-            out[key] = out[key] + extra[key]
-    return out
+    return LogGrid(nodes_thz, weights).sums(temperatures)
+
+
+class LogGrid:
+    """Nodes and weights prepared once for :func:`loggrid_sums` at any temperatures.
+
+    Parameters
+    ----------
+    nodes_thz, weights : array_like, shape (N,)
+        Frequencies [THz] and mode weights [1].
+
+    Notes
+    -----
+    What depends on the spectrum only — the split of the nodes, their weights deposited
+    on the ln ν grid and its Fourier transform, the bounds of the cold sums — is computed
+    once (kept by :func:`thermo.kernels.sums.thermal_sums` on the DOS); a call of
+    :meth:`sums` costs the kernels' transforms, one product and the read-back.
+
+    Examples
+    --------
+    >>> nu = np.linspace(0.0, 10.0, 2001)
+    >>> grid = LogGrid(nu, np.full(nu.size, 3.0 / nu.size))
+    >>> t = np.linspace(5.0, 800.0, 200)
+    >>> a, b = grid.sums(t)["thermal_energy"], loggrid_sums(nu, np.full(nu.size, 3.0 / nu.size), t)["thermal_energy"]
+    >>> bool(np.all(a == b))
+    True
+    """
+
+    def __init__(self, nodes_thz, weights):
+        nu = np.asarray(nodes_thz, dtype=float).ravel()
+        w = np.asarray(weights, dtype=float).ravel()
+        self.all_nu, self.all_w = nu, w
+        self._valid = None
+
+    @property
+    def valid(self):
+        """Whether the nodes suit the log grid at all (finite, ν >= 0, some weight); prepares them on first use."""
+        if self._valid is None:
+            self._valid = self._prepare()
+        return self._valid
+
+    def _prepare(self):
+        nu, w = self.all_nu, self.all_w
+        if not (nu.shape == w.shape and bool(np.all(np.isfinite(nu)) and np.all(np.isfinite(w)))
+                and not np.any(nu < 0) and bool(np.any(w != 0))):
+            return False
+        (self.nu, self.w), (self.low_nu, self.low_w) = _split_nodes(nu, w)
+        if self.nu.size == 0:
+            return False
+        s = np.log(self.nu)
+        half = ORDER // 2 + 1
+        self.s0 = s.min() - half * STEP
+        self.deposit = _deposit(s, self.w, self.s0, int(np.ceil((s.max() - self.s0) / STEP)) + half + 1)
+        self.total = float(np.sum(np.abs(self.deposit)))
+        self.used = np.flatnonzero(self.deposit)
+        self.used_nodes = np.exp(self.s0 + STEP * self.used)
+        ascending = not np.any(np.diff(self.nu) < 0)
+        self._log_w = np.log(np.abs(self.w)) if ascending else None
+        self._spectra = {}
+        self.nu_min = float(self.nu.min())
+        self._span = np.log(self.nu.max() / self.nu_min)
+        return True
+
+    def suitable(self, temperatures):
+        """Whether the log-grid correlation is accurate and faster at these temperatures (see :func:`suitable`)."""
+        t = np.asarray(temperatures, dtype=float).ravel()
+        few = t.size < MIN_TEMPERATURES and (t.size < 2 or self.all_nu.size < MANY_NODES)
+        if few or self.all_nu.size * t.size < MIN_PAIRS or not self.valid:
+            return False
+        if not np.all(np.isfinite(t)) or np.any(t <= 0):
+            return False
+        return int((self._span + np.log(t.max() / t.min())) / STEP) + 4 * ORDER <= MAX_GRID
+
+    def deposit_spectrum(self, size):
+        """Real FFT of the deposit, zero-padded to ``size`` (kept per size)."""
+        if size not in self._spectra:
+            from scipy import fft
+            if len(self._spectra) > 4:
+                self._spectra.clear()
+            self._spectra[size] = fft.rfft(self.deposit, size)
+        return self._spectra[size]
+
+    def relevant(self, temperature):
+        """Nodes needed by a cold sum at ``temperature`` (see :func:`thermo.kernels.cold._relevant_nodes`)."""
+        if self._log_w is None:
+            return self.nu.size
+        return _relevant_nodes(self.nu, self.w, temperature, self._log_w)
+
+    def sums(self, temperatures):
+        """The sums of :func:`loggrid_sums` at ``temperatures`` [K] (> 0)."""
+        t = np.asarray(temperatures, dtype=float).ravel()
+        if not self.valid:
+            return direct_grid_sums(self.all_nu, self.all_w, t)
+        tau = np.log(t)
+        half = ORDER // 2 + 1
+        # τ₀ on the lattice of s₀ (a whole number of steps below it), so the kernels come from one table
+        shift = int(np.ceil((self.s0 - tau.min() + half * STEP) / STEP))
+        tau0 = self.s0 - shift * STEP
+        n_tau = int(np.ceil((tau.max() - tau0) / STEP)) + half + 1
+        on_grid, scale = _correlate(self, shift, n_tau)
+        values = _read_back(on_grid, tau0, tau)
+        out = dict(zip(SUM_KEYS, values))
+        cold = ~np.all(values > DYNAMIC_RANGE * scale[:, None], axis=0)
+        if cold.any():
+            _fill_cold(out, self, t, np.flatnonzero(cold))
+        if self.low_nu.size:
+            extra = direct_grid_sums(self.low_nu, self.low_w, t)
+            for key in SUM_KEYS:
+                out[key] = out[key] + extra[key]
+        return out

@@ -264,8 +264,16 @@ def _terms(largest):
     return int(min(_BETA.size, max(2, math.ceil(18.0 * math.log(10.0) / math.log(2.0 * math.pi / largest)))))
 
 
+#: Below this many entries :func:`_powers` takes one ``np.power.outer`` call.
+_OUTER_POWERS = 2048
+_EXPONENTS = np.arange(64, dtype=float)
+
+
 def _powers(x, count):
-    """Rows x⁰, x¹, …, x^(count-1) of a 1-D array (row-wise products: contiguous and quick)."""
+    """Rows x⁰, x¹, …, x^(count-1) of a 1-D array (row-wise products: contiguous and quick; for a few
+    values one power call, which a loop of short products would cost many times over)."""
+    if x.size * count <= _OUTER_POWERS:
+        return np.power(x[None, :], _EXPONENTS[:count, None])
     out = np.empty((count, x.size))
     out[0] = 1.0
     if count > 1:

@@ -44,7 +44,7 @@ def molar_values(sums, t):
             zpe + r * t * sums["thermal_energy"], zpe - r * t * sums["log_partition"])
 
 
-def grid_sums(nodes_thz, weights, temperatures, method="auto", keys=SUM_KEYS):
+def grid_sums(nodes_thz, weights, temperatures, method="auto", keys=SUM_KEYS, prepared=None):
     """Dispatch the table-part sums to the direct or the fast evaluation.
 
     Parameters
@@ -59,6 +59,8 @@ def grid_sums(nodes_thz, weights, temperatures, method="auto", keys=SUM_KEYS):
         accurate and cheaper.
     keys : sequence of str
         Sums wanted (the direct path computes only these; the fast path all).
+    prepared : thermo.kernels.loggrid.LogGrid, optional
+        The same nodes and weights prepared for the fast path (kept by the caller).
 
     Returns
     -------
@@ -73,8 +75,12 @@ def grid_sums(nodes_thz, weights, temperatures, method="auto", keys=SUM_KEYS):
     """
     if method not in ("auto", "direct", "fast"):
         raise OptionError(f"unknown method {method!r}; choose auto, direct or fast")
-    if method == "fast" or (method == "auto" and loggrid.suitable(nodes_thz, weights, temperatures)):
-        return loggrid.loggrid_sums(nodes_thz, weights, temperatures)
+    m, n = np.size(temperatures), np.size(nodes_thz)
+    if method == "fast" or (method == "auto" and (m >= loggrid.MIN_TEMPERATURES or (m >= 2 and n >= loggrid.MANY_NODES))
+                            and n * m >= loggrid.MIN_PAIRS):
+        grid = loggrid.LogGrid(nodes_thz, weights) if prepared is None else prepared
+        if method == "fast" or grid.suitable(temperatures):
+            return grid.sums(temperatures)
     return direct_grid_sums(nodes_thz, weights, temperatures, keys)
 
 
@@ -121,22 +127,41 @@ def thermal_sums(dos, temperatures, method="auto", keys=SUM_KEYS):
     if dos.modes is not None:
         return mode_list_sums(dos.modes, t, method, keys)
     hot = t > 0
-    out = {key: np.zeros_like(t) for key in keys}
-    weights = mode_weights(dos.frequency_thz, dos.dos)
-    if hot.any():
-        parts = [grid_sums(dos.frequency_thz, weights, t[hot], method, keys)]
+    weights, grid, zero_point = _prepared(dos)
+    if t.ndim == 1 and hot.all():
+        parts = [grid_sums(dos.frequency_thz, weights, t, method, keys, grid)]
         if dos.low_frequency is not None:
-            fit = dos.low_frequency
-            parts.append(analytic_part_sums(fit, t[hot]))
-        for key in keys:
-            out[key][hot] = sum(p[key] for p in parts)
+            parts.append(analytic_part_sums(dos.low_frequency, t))
+        out = {key: parts[0][key] + parts[1][key] if len(parts) > 1 else parts[0][key] for key in keys}
+    else:
+        out = {key: np.zeros_like(t) for key in keys}
+        if hot.any():
+            parts = [grid_sums(dos.frequency_thz, weights, t[hot], method, keys, grid)]
+            if dos.low_frequency is not None:
+                parts.append(analytic_part_sums(dos.low_frequency, t[hot]))
+            for key in keys:
+                out[key][hot] = sum(p[key] for p in parts)
     if "thermal_energy" in out and "log_partition" in out:
         out["entropy"] = out["thermal_energy"] + out["log_partition"]
-    zp = float(np.sum(weights * dos.frequency_thz)) / 2
-    if dos.low_frequency is not None:
-        zp += dos.low_frequency.analytic_moment(1) / 2
-    out["zero_point_thz"] = zp
+    out["zero_point_thz"] = zero_point
     return out
+
+
+def _prepared(dos):
+    """The DOS's mode weights, their :class:`~thermo.kernels.loggrid.LogGrid` and Σ modes·ν/2 [THz], computed on
+    first use and kept on the DOS beside its frozen fields (a prepared spectrum does not change)."""
+    held = getattr(dos, "__dict__", None)
+    kept = None if held is None else held.get("_prepared_grid")
+    if kept is None or kept[0] is not dos.frequency_thz or kept[1] is not dos.dos or kept[2] is not dos.low_frequency:
+        weights = mode_weights(dos.frequency_thz, dos.dos)
+        zero_point = float(np.sum(weights * dos.frequency_thz)) / 2
+        if dos.low_frequency is not None:
+            zero_point += dos.low_frequency.analytic_moment(1) / 2
+        kept = (dos.frequency_thz, dos.dos, dos.low_frequency, weights,
+                loggrid.LogGrid(dos.frequency_thz, weights), zero_point)
+        if held is not None:
+            held["_prepared_grid"] = kept
+    return kept[3:]
 
 
 def mode_list_sums(modes, temperatures, method="auto", keys=SUM_KEYS, weights=None, continuum_share=1.0):

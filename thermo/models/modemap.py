@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
+from ..columns import column_name, register_quantity
 from ..errors import OptionError
 from ..kernels.quadrature import mode_quadrature
 from ..kernels.planck import entropy_kernel, heat_capacity_kernel, reduced_frequency
@@ -16,6 +17,14 @@ from ..tables import check_temperatures
 
 #: Default number of frequency bins of the map.
 DEFAULT_BINS = 200
+
+register_quantity("frequency", "ν", "fixed", "THz", "THz", "frequency (centre of a bin)")
+register_quantity("bin_low", "ν_low", "fixed", "THz", "THz", "lower edge of a frequency bin")
+register_quantity("bin_high", "ν_high", "fixed", "THz", "THz", "upper edge of a frequency bin")
+register_quantity("heat_capacity_v_share", "C_v share", "fixed", "1", "", "share of C_v carried by a frequency bin")
+register_quantity("entropy_share", "S share", "fixed", "1", "", "share of S carried by a frequency bin")
+#: Columns of :func:`share_table`, in order (quantity keys of the column schema).
+SHARE_TABLE = ("temperature", "frequency", "bin_low", "bin_high", "heat_capacity_v_share", "entropy_share")
 
 
 def _binned(values, index, bins):
@@ -92,3 +101,40 @@ def mode_share_map(dos, temperatures, bins=DEFAULT_BINS):
     return {"frequency_thz": 0.5 * (edges[1:] + edges[:-1]), "bin_edges_thz": edges, "temperature_K": t,
             "heat_capacity_share": heat_share, "entropy_share": _share(entropy, t > 0),
             "cumulative_heat_capacity_share": np.cumsum(heat_share, axis=0)}
+
+
+def share_table(shares):
+    """A :func:`mode_share_map` result as a long table: one row per temperature and frequency bin.
+
+    Parameters
+    ----------
+    shares : dict
+        The result of :func:`mode_share_map`.
+
+    Returns
+    -------
+    pandas.DataFrame
+        Columns of :data:`SHARE_TABLE` named by the column schema: temperature [K], bin centre,
+        lower and upper bin edge [THz], share of C_v and of S in the bin [1]; rows by temperature,
+        then frequency.
+
+    Notes
+    -----
+    The shares of one temperature sum to 1 (see :func:`mode_share_map`).
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> nu = np.linspace(0.0, 10.0, 1001)
+    >>> t = share_table(mode_share_map(PhononDOS(nu, 0.3 * np.ones_like(nu), atoms=1), [100.0, 300.0], bins=4))
+    >>> list(t.columns)[:3], len(t)
+    (['temperature_K', 'frequency_THz', 'bin_low_THz'], 8)
+    """
+    import pandas as pd
+    nu, edges = np.asarray(shares["frequency_thz"]), np.asarray(shares["bin_edges_thz"])
+    t = np.asarray(shares["temperature_K"])
+    values = {"temperature": np.repeat(t, nu.size), "frequency": np.tile(nu, t.size),
+              "bin_low": np.tile(edges[:-1], t.size), "bin_high": np.tile(edges[1:], t.size),
+              "heat_capacity_v_share": np.asarray(shares["heat_capacity_share"]).T.ravel(),
+              "entropy_share": np.asarray(shares["entropy_share"]).T.ravel()}
+    return pd.DataFrame({column_name(key): values[key] for key in SHARE_TABLE})

@@ -113,8 +113,8 @@ def _check(phases, temperatures, min_temperatures=2):
         raise OptionError(f"phase names must differ: {', '.join(names)}")
     kinds = {p.quasiharmonic for p in phases}
     if len(kinds) > 1:
-        raise OptionError("phases must be all DOS files (harmonic, fixed volume) or all volume sets "
-                          "(quasi-harmonic); a fixed-volume F cannot be compared with G(T, p)")
+        raise OptionError("phases must be all DOS files or tables (harmonic, fixed volume or one pressure) or "
+                          "all volume sets (quasi-harmonic); a fixed-volume F cannot be compared with G(T, p)")
     from ..tables import check_temperatures
     t = np.unique(check_temperatures(temperatures))
     if t.size < min_temperatures:

@@ -52,8 +52,9 @@ class Phase:
     ----------
     name : str
         Name shown in tables and transitions.
-    source : PhononDOS or VolumeSet
-        DOS at fixed volume (harmonic) or volume set (quasi-harmonic).
+    source : PhononDOS, VolumeSet or TabulatedPhase
+        DOS at fixed volume (harmonic), volume set (quasi-harmonic) or a table of G(T)
+        (:mod:`thermo.phases.tabulated`, compared as DOS phases are: no pressure axis).
     static_ev : float
         Static (0 K, no zero-point) energy per formula unit of this phase [eV];
         for a volume set, added to its own energies (0: the manifest's).
@@ -88,6 +89,8 @@ class Phase:
                 raise OptionError(f"phase {self.name}: the {what} must be a finite number")
         if self.static_uncertainty_ev < 0:
             raise OptionError(f"phase {self.name}: the static uncertainty must be >= 0")
+        if getattr(self.source, "tabulated", False) and self.electronic is not None:
+            raise OptionError(f"phase {self.name}: a table carries its own G; an electronic DOS cannot be added to it")
         if self.quasiharmonic and self.electronic is not None:
             raise OptionError(f"phase {self.name}: give the electronic DOS of a volume set in its manifest "
                               "(column electronic_dos_file), so that F_el follows the volume")
@@ -246,6 +249,27 @@ def quasiharmonic_curves(phase, temperatures, pressures_gpa, eos="birch-murnagha
                   evaluate_many, tuple(dict.fromkeys(notes)))
 
 
+def tabulated_curves(phase, temperatures, errors=True):
+    """:class:`Curves` of a table phase (no pressure axis), per atom.
+
+    Notes
+    -----
+    :math:`G = E_{static} + G_{table}(T)` per formula unit, divided by the atoms per formula unit;
+    the error is the table's (:meth:`thermo.phases.tabulated.TabulatedPhase.values`) plus the static
+    uncertainty.
+    """
+    t = np.asarray(temperatures, dtype=float)
+    n = phase.atoms
+    g, s, u = phase.source.values(t)
+    u = phase.static_uncertainty_ev + (u if errors else 0.0 * u)
+
+    def evaluate(_k, temps):
+        gg, ss, _ = phase.source.values(temps)
+        return (gg + phase.static_ev) / n, ss / n, np.full(gg.shape, np.nan)
+    return Curves(t, np.array([np.nan]), ((g + phase.static_ev) / n)[None], (u / n)[None], (s / n)[None],
+                  np.full((1, t.size), np.nan), evaluate, lambda _ks, temps: evaluate(0, temps))
+
+
 def phase_curves(phase, temperatures, pressures_gpa=(0.0,), eos="birch-murnaghan", errors=True):
     """G(T, p) per atom of a phase, its entropy, volume and estimated error (:class:`Curves`).
 
@@ -275,4 +299,6 @@ def phase_curves(phase, temperatures, pressures_gpa=(0.0,), eos="birch-murnaghan
     """
     if phase.quasiharmonic:
         return quasiharmonic_curves(phase, temperatures, pressures_gpa, eos, errors)
+    if getattr(phase.source, "tabulated", False):
+        return tabulated_curves(phase, temperatures, errors)
     return harmonic_curves(phase, temperatures, errors)

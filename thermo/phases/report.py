@@ -30,6 +30,8 @@ def phase_inputs(phase):
             out += [electronic_input(e, role=f"{role}: electronic DOS at {v:.6g} Å³")
                     for v, e in zip(src.volumes_a3, src.electronic)]
         return out
+    if getattr(src, "tabulated", False):
+        return [input_record(src.name, src.sha256, role=f"{role}: {src.kind}")]
     out = [dos_input(src, role=f"{role}: DOS")]
     if phase.electronic is not None:
         from ..electronic import electronic_input
@@ -41,8 +43,9 @@ def phase_settings(phase, energy_unit="eV"):
     """What was given for a phase: static energy, its uncertainty, atoms, kind."""
     from .phase import ENERGY_UNITS
     factor = ENERGY_UNITS[energy_unit]
-    return {"name": phase.name, "kind": "quasi-harmonic (volume set)" if phase.quasiharmonic else
-            "harmonic (DOS at fixed volume)", "atoms_per_formula_unit": phase.atoms,
+    kind = getattr(phase.source, "kind", None) if getattr(phase.source, "tabulated", False) else None
+    return {"name": phase.name, "kind": kind or ("quasi-harmonic (volume set)" if phase.quasiharmonic else
+                                                 "harmonic (DOS at fixed volume)"), "atoms_per_formula_unit": phase.atoms,
             "static_energy": phase.static_ev / factor, "static_uncertainty": phase.static_uncertainty_ev / factor,
             "energy_unit": f"{energy_unit} per formula unit of the phase",
             "electronic": phase.electronic is not None or bool(getattr(phase.source, "electronic", ()))}

@@ -5,13 +5,13 @@ frequency the data resolve by :math:`A\nu^2`, :math:`A = 9n/\nu_D^3`,
 :math:`\nu_D = k_B\theta/h`, and blends it into the data above (the same
 smooth step as the automatic ν² treatment, :class:`~thermo.spectrum.LowFrequencyFit`).
 
-The resolved limit :math:`\nu_r` used here is stated simply: from three grid
-steps and three smearing widths up (σ from :math:`g(0) = A\sigma^2/2`, the
-value of a Gaussian-smeared ν² law at 0), the lowest frequency ν from which the data's cumulative count
-:math:`N(\nu)=\int_0^\nu g` stays within a factor :data:`LAW_BAND` of the
-law's :math:`A\nu^3/3` up to 2ν, at most the frequency below which the law
-holds :data:`LAW_SHARE` of the modes (a cumulative count is far less
-sensitive to the comb of a mesh than :math:`g/\nu^2`).
+The data's own resolved limit is the one rule of :func:`.resolved.resolved_limit`
+(the error estimate's, compared here with the elastic law): two smearing
+widths or bins up, and past the last frequency at which the cumulative count
+:math:`N(\nu)=\int_0^\nu g` leaves a factor :data:`~.resolved.LAW_BAND` of
+the law's :math:`A\nu^3/3`.  From there the law holds up to the first ν from
+which the count stays within :data:`AGREEMENT` of it up to 2ν (at most where
+the law holds :data:`LAW_SHARE` of the modes): a noisy start is not blended in.
 
 References
 ----------
@@ -23,20 +23,16 @@ from __future__ import annotations
 import numpy as np
 
 from ..kernels.planck import H_OVER_K_THZ
-from ..kernels.quadrature import mode_weights
 from ..spectrum import LowFrequencyFit
+from .resolved import cumulative_count, resolved_limit
 
-#: The data count within this factor of the law above the resolved limit.
-LAW_BAND = 1.2
+#: Above the resolved limit, the law holds until the data's count follows it within this factor up to 2ν.
+AGREEMENT = 1.2
 #: Share of the 3n modes below the top of the range looked at.
 LAW_SHARE = 0.02
-#: Grid steps below which nothing is resolved.
-MIN_STEPS = 3
-#: Smearing widths below which nothing is resolved (σ from g(0) = Aσ²/2 of a smeared ν² law).
-SMEARING_WIDTHS = 3.0
 
 
-def elastic_anchor(frequency_thz, dos, theta_k, atoms, total_modes):
+def elastic_anchor(frequency_thz, dos, theta_k, atoms, total_modes, histogram=False):
     r"""The law of an elastic Debye temperature, cut at the data's resolved limit.
 
     Parameters
@@ -51,6 +47,8 @@ def elastic_anchor(frequency_thz, dos, theta_k, atoms, total_modes):
         Atoms per formula unit n.
     total_modes : float
         Modes the DOS stands for (3n, or fewer under drop-unscaled).
+    histogram : bool
+        The rows are bins (bin centres, counted as Σ g·Δ).
 
     Returns
     -------
@@ -69,31 +67,28 @@ def elastic_anchor(frequency_thz, dos, theta_k, atoms, total_modes):
     --------
     >>> nu = np.linspace(0.0, 5.0, 501)
     >>> fit, note = elastic_anchor(nu, 9 * nu ** 2 / 125, 5.0 * 47.992430, 1, 3.0)
-    >>> round(fit.coefficient * 125 / 9, 4), fit.cutoff_thz
+    >>> round(fit.coefficient * 125 / 9, 4), round(fit.cutoff_thz, 6)
     (1.0, 0.03)
     """
     nu, g = np.asarray(frequency_thz, float), np.asarray(dos, float)
     law = 9.0 * atoms / (theta_k / H_OVER_K_THZ) ** 3
-    count = np.concatenate([[0.0], np.cumsum(0.5 * (g[1:] + g[:-1]) * np.diff(nu))])
-    count = count * total_modes / float(mode_weights(nu, g).sum())
-    expected = law * nu ** 3 / 3.0
+    x, count = cumulative_count(nu, g, histogram)
+    scale = total_modes / float(count[-1])
+    count = count * scale
+    resolved = resolved_limit(nu, g * scale, histogram, law=law)[3]      # what the data resolve
     top = (3.0 * LAW_SHARE * total_modes / law) ** (1 / 3)
     with np.errstate(divide="ignore", invalid="ignore"):
-        ratio = count / expected
-    inside = (ratio <= LAW_BAND) & (ratio >= 1 / LAW_BAND)
-    norm = total_modes / float(mode_weights(nu, g).sum())
-    width = np.sqrt(2.0 * max(float(g[0]) * norm, 0.0) / law)        # a smeared law has g(0) = Aσ²/2
-    start = int(np.searchsorted(nu, max(float(nu[min(MIN_STEPS, nu.size - 1)]), SMEARING_WIDTHS * width)))
-    start = min(start, nu.size - 1)
-    resolved = float(nu[start])
-    for i in range(start, nu.size):       # the first ν from which the count follows the law up to 2ν
-        span = (nu >= nu[i]) & (nu <= min(2 * nu[i], top))
-        if nu[i] >= top or inside[span].all():
-            resolved = float(min(nu[i], top))
+        ratio = count / (law * x ** 3 / 3.0)
+    inside = (ratio <= AGREEMENT) & (ratio >= 1 / AGREEMENT)
+    for i in np.flatnonzero((x >= resolved) & (x < top)):   # the first ν from which the count follows the law up to 2ν
+        if inside[(x >= x[i]) & (x <= min(2 * x[i], top))].all():
+            resolved = float(x[i])
             break
+    else:
+        resolved = max(resolved, min(top, float(x[-1])))
     fit = LowFrequencyFit(coefficient=law, cutoff_thz=resolved, window_thz=(resolved, 2 * resolved),
                           automatic=False, blend_top_thz=2 * resolved)
     note = (f"long-wave limit anchored by the elastic Debye temperature {theta_k:g} K below the resolved "
-            f"limit {resolved:.4g} THz (the data follow its law within ×{LAW_BAND:g} above it), blended into "
+            f"limit {resolved:.4g} THz (the data follow its law within ×{AGREEMENT:g} above it), blended into "
             f"the data up to {2 * resolved:.4g} THz")
     return fit, note

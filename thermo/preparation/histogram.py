@@ -18,6 +18,7 @@ midpoint rule of the step function it stands for.
 
 from __future__ import annotations
 
+import dataclasses
 import re
 
 import numpy as np
@@ -51,6 +52,30 @@ def is_histogram(frequency_thz) -> bool:
     step = np.diff(nu)
     h = float(np.median(step))
     return bool(h > 0 and np.all(np.abs(step - h) <= 1e-3 * h) and abs(nu[0] - h / 2) <= 1e-3 * h)
+
+
+def check_bins(frequency_thz, source=None, line_numbers=None):
+    """Raise a one-line :class:`~thermo.errors.DosInputError` unless the rows are equally spaced bin centres.
+
+    Examples
+    --------
+    >>> check_bins(np.arange(5) * 0.05 + 0.025) is None
+    True
+    """
+    from ..errors import DosInputError
+    nu = np.asarray(frequency_thz, float)
+    step = np.diff(nu)
+    if nu.size < 2:
+        raise DosInputError("a histogram needs at least two bins", source)
+    h = float(np.median(step))
+    bad = np.flatnonzero(np.abs(step - h) > 1e-3 * abs(h))
+    if h <= 0 or bad.size:
+        row = int(bad[0]) + 1 if bad.size else 0
+        line = line_numbers[row] if line_numbers is not None and row < len(line_numbers) else None
+        raise DosInputError(f"read as a histogram, the rows must be equally spaced bin centres; this row is "
+                            f"{float(step[row - 1]) if row else 0.0:.6g} THz from the one before, the bins "
+                            f"{h:.6g} THz wide", source, line)
+    return None
 
 
 def bin_width(frequency_thz) -> float:
@@ -96,7 +121,7 @@ def merged_bins(frequency_thz, dos, offset=0):
             np.concatenate([head, body[0::2] + body[1::2]]))
 
 
-def histogram_dos(nu_all, cols_all, names, atoms, share=0.0, policy="drop", **fields):
+def histogram_dos(nu_all, cols_all, names, atoms, share=0.0, policy="drop", theta_k=None, **fields):
     r"""The prepared DOS of a histogram: its bins as modes, normalised to 3n.
 
     Parameters
@@ -113,6 +138,11 @@ def histogram_dos(nu_all, cols_all, names, atoms, share=0.0, policy="drop", **fi
         Imaginary share of the modes [1].
     policy : str
         Imaginary-mode policy (``drop`` renormalises the real modes to 3n).
+    theta_k : float or None
+        Elastic Debye temperature θ [K] of ``--low-frequency elastic:θ``: below
+        the histogram's resolved limit (:func:`thermo.preparation.anchor.elastic_anchor`)
+        the bins give way to the law :math:`A\nu^2` with a smooth step, as for
+        a mode list without wave vectors; the bins carry the remaining modes.
     **fields
         Further :class:`~thermo.spectrum.PhononDOS` fields (source, warnings, inputs).
 
@@ -124,8 +154,8 @@ def histogram_dos(nu_all, cols_all, names, atoms, share=0.0, policy="drop", **fi
 
     Notes
     -----
-    :math:`	ext{scale} = 3n(1-f^{[	ext{drop-unscaled}]}_{imag}) / \sum_{
-u_i>0} g_i\Delta`.
+    :math:`\text{scale} = 3n(1-f^{[\text{drop-unscaled}]}_{imag}) / \sum_{\nu_i>0} g_i\Delta`;
+    with an anchor, :math:`\text{scale} = (3n(\ldots) - \int A\nu^2 W) / \sum g_i\Delta(1-W_i)`.
 
     Examples
     --------
@@ -139,15 +169,26 @@ u_i>0} g_i\Delta`.
     h = bin_width(nu_all[real]) if real.sum() > 1 else bin_width(nu_all)
     modes = [np.asarray(c, float)[real] * h for c in cols_all]
     real_modes = 3 * atoms * (1.0 if policy == "drop" else 1.0 - share)
+    nu = nu_all[real]
     total = float(modes[0].sum())
     scale = real_modes / total if total > 0 else 1.0
-    keep = modes[0] > 0
-    nu = nu_all[real]
-    listed = ModeList(nu[keep], modes[0][keep] * scale,
-                      partials={k: m[keep] * scale for k, m in zip(names, modes[1:])},
-                      resolved_thz=float(nu[keep][0]) if keep.any() else 0.0)
+    continuum, kept, note = (), np.ones(nu.size), None
+    if theta_k is not None and total > 0:
+        from .anchor import elastic_anchor
+        fit, note = elastic_anchor(nu, modes[0] * scale / h, theta_k, atoms, real_modes, histogram=True)
+        law = dataclasses.replace(fit, smooth_taper=True)
+        continuum, kept = (law,), 1.0 - law.taper(nu)
+        scale = (real_modes - law.analytic_moment()) / float((modes[0] * kept).sum())
+    keep = modes[0] * kept > 0
+    listed = ModeList(nu[keep], (modes[0] * kept)[keep] * scale,
+                      partials={k: (m * kept)[keep] * scale for k, m in zip(names, modes[1:])},
+                      continuum=continuum,
+                      resolved_thz=(continuum[0].cutoff_thz if continuum else float(nu[keep][0]) if keep.any()
+                                    else 0.0))
     source = dict(fields.pop("source", {}))
     source.update(histogram=True, histogram_bin_THz=h, scale_factor=scale)
+    if note:
+        fields["warnings"] = tuple(fields.get("warnings", ())) + (note,)
     return PhononDOS(frequency_thz=nu, dos=np.asarray(cols_all[0], float)[real] * scale, atoms=atoms,
                      partials={k: np.asarray(c, float)[real] * scale for k, c in zip(names, cols_all[1:])},
                      modes=listed, source=source, **fields)

@@ -28,7 +28,7 @@ from .options import ReadingOptions, low_frequency_window, as_record
 from .modelist import load_mode_list
 from .anchor import elastic_anchor
 from .layers import chosen_atoms, chosen_unit
-from .histogram import bin_modes, histogram_dos, is_histogram, stated_histogram
+from .histogram import bin_modes, check_bins, histogram_dos, is_histogram, stated_histogram
 
 
 def load_dos(source, freq_unit=None, atoms=None, negative=None, low_frequency=None, name=None,
@@ -143,7 +143,11 @@ def _prepared(raw, clean, explicit, carried, chosen):
         cols_all = [np.asarray(clean.total, float) * factor] + [np.asarray(clean.partials[k], float) * factor
                                                               for k in names]
     check_magnitudes(nu_all, cols_all, src, clean.line_numbers)
-    histogram = stated_histogram(raw.comments) or is_histogram(nu_all[nu_all > 0])
+    histogram = chosen.histogram
+    if histogram is None:
+        histogram = stated_histogram(raw.comments) or is_histogram(nu_all[nu_all > 0])
+    elif histogram:
+        check_bins(nu_all, src, clean.line_numbers)
     negative_modes, nu, cols = split_at_zero(nu_all, cols_all)
     with np.errstate(over="ignore", invalid="ignore"):
         if histogram:                    # Σ g·Δ on each side of 0 (see .histogram)
@@ -170,7 +174,8 @@ def _prepared(raw, clean, explicit, carried, chosen):
 
     if histogram:
         top = float(np.asarray(clean.frequency, float)[np.asarray(clean.total) > 0].max())
-        return _histogram_prepared(nu_all, cols_all, names, n_atoms, share, policy, notes, raw_integral, top, dict(
+        theta = window[1] if isinstance(window, tuple) and window[0] == "elastic" else None
+        return _histogram_prepared(nu_all, cols_all, names, n_atoms, share, policy, notes, raw_integral, top, theta, dict(
             name=src, sha256=clean.sha256, freq_unit=unit, stated_unit=clean.header_unit,
             negative_mode_fraction=share, negative_policy=policy, atoms_inferred=inferred,
             columns=list(clean.names), low_frequency_option=None,
@@ -203,14 +208,16 @@ def _prepared(raw, clean, explicit, carried, chosen):
     return dos
 
 
-def _histogram_prepared(nu_all, cols_all, names, atoms, share, policy, notes, raw_integral, top, source):
+def _histogram_prepared(nu_all, cols_all, names, atoms, share, policy, notes, raw_integral, top, theta, source):
     """A histogram of bin centres summed as Σ g·Δ (see :mod:`.histogram`), with the usual checks and notes."""
-    dos = histogram_dos(nu_all, cols_all, names, atoms, share, policy,
-                        source=dict(source, raw_integral=raw_integral),
+    dos = histogram_dos(nu_all, cols_all, names, atoms, share, policy, theta_k=theta,
+                        source=dict(source, raw_integral=raw_integral, low_frequency_option=(
+                            None if theta is None else ("elastic", theta))),
                         input_frequency_thz=nu_all, warnings=())
     scale = dos.source["scale_factor"]
     notes = notes + [f"read as a histogram of bin centres ({dos.source['histogram_bin_THz']:.4g} THz bins): "
-                     "summed bin by bin as Σ g·Δν, without the ν² treatment"]
+                     "summed bin by bin as Σ g·Δν, " + ("below its resolved limit the elastic law" if theta
+                                                       else "without the ν² treatment")] + list(dos.warnings)
     if abs(scale - 1.0) > 1e-6:
         notes.append(f"the histogram holds {modes_text(raw_integral)}; rescaled by ×{scale:.6g} to "
                      f"{3 * atoms * (1.0 if policy == 'drop' else 1.0 - share):.6g} modes (3n with n = {atoms})")

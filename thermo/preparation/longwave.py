@@ -268,7 +268,7 @@ def dispersion_nodes(velocities, fits, cell_volume_a3):
     return np.concatenate(nodes), np.concatenate(modes)
 
 
-def long_wave_region(q_points, frequencies, weights, cell_volume_a3):
+def long_wave_region(q_points, frequencies, weights, cell_volume_a3, blend=None, corrected=True):
     r"""The continuum near Γ and the share of each acoustic mesh mode left beside it.
 
     Parameters
@@ -281,6 +281,11 @@ def long_wave_region(q_points, frequencies, weights, cell_volume_a3):
         q-point weights normalised to 1 over the zone [1].
     cell_volume_a3 : float
         Cell volume [Å³].
+    blend : (float, float), optional
+        Start and end of the blend in mesh spacings (default :data:`BLEND`).
+    corrected : bool
+        Remove the dispersion by the Richardson step (default); False fits
+        the raw speeds (an alternative treatment for the error estimate).
 
     Returns
     -------
@@ -335,6 +340,8 @@ def long_wave_region(q_points, frequencies, weights, cell_volume_a3):
     partner, have = pairs
     doubled = np.full((partner.size, 3), np.nan)
     doubled[have] = frequencies[partner[have], :3]
+    if not corrected:
+        doubled = None
     try:
         info = branch_velocities(q_points[near], frequencies[near, :3], weights[near], doubled, step)
     except ModeheatError:
@@ -342,9 +349,10 @@ def long_wave_region(q_points, frequencies, weights, cell_volume_a3):
     if not np.all(info["inverse_cube"] > 0):
         return kept, (), None
     spacing = (8 * np.pi ** 3 / cell_volume_a3 * float(weights.min())) ** (1 / 3)
-    continuum = blended_continuum(info, cell_volume_a3, spacing)
+    continuum = blended_continuum(info, cell_volume_a3, spacing, blend)
     for j, fit in enumerate(continuum):
         kept[:, j] = 1.0 - fit.taper(frequencies[:, j])
     kept[~moving] = 0.0
     nodes = dispersion_nodes(info, continuum, cell_volume_a3)
-    return kept, continuum, dict(info, shell_radius_per_A=first, mesh_spacing_per_A=spacing, dispersion_nodes=nodes)
+    return kept, continuum, dict(info, shell_radius_per_A=first, mesh_spacing_per_A=spacing, dispersion_nodes=nodes,
+                                 richardson_step=step)

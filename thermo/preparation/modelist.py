@@ -9,6 +9,8 @@ the weights to 3n modes per formula unit.
 
 from __future__ import annotations
 
+import functools
+
 import numpy as np
 
 from ..errors import DosInputError
@@ -19,7 +21,7 @@ from ..spectrum import ModeList, PhononDOS
 from ..units import thz_to_unit
 from .imaginary import imaginary_warnings
 from .layers import chosen_atoms, chosen_unit
-from .longwave import GAMMA_Q, anchored_continuum, long_wave_region
+from .longwave import BLEND, GAMMA_Q, anchored_continuum, long_wave_region
 from .options import elastic_theta, low_frequency_window
 from .validation import check_magnitudes, check_mode_count
 
@@ -29,6 +31,8 @@ ZERO_MODE_THZ = 0.005
 RESOLVED_DIVISOR = 5.0
 #: Bins of the histogram shown for a mode list.
 HISTOGRAM_BINS = 200
+#: Alternative long-wave treatments kept for the error estimate: the blend moved by these factors ...
+BLEND_SPREAD = (1 / 1.4, 1.4)
 
 
 def _q_points(q, lines, src):
@@ -118,7 +122,8 @@ def load_mode_list(raw, explicit, carried, chosen):
         freqs = nu[order].reshape(-1, per_q)
         kept = np.ones((distinct.shape[0], per_q))
         if option != "off" and table.cell_volume_a3 is not None:
-            kept[:, :3], continuum, fit = long_wave_region(distinct, freqs, q_weight / zone, table.cell_volume_a3)
+            region = (distinct, freqs, q_weight / zone, table.cell_volume_a3)
+            kept[:, :3], continuum, fit = long_wave_region(*region)
         if fit is None:
             kept[np.linalg.norm(distinct, axis=1) <= GAMMA_Q, :3] = 0.0
         share_kept[order] = kept.ravel()
@@ -142,12 +147,13 @@ def load_mode_list(raw, explicit, carried, chosen):
     real_modes = 3 * n_atoms * (1.0 if policy == "drop" else 1.0 - share)
     extra_nu, extra_w = fit["dispersion_nodes"] if continuum else (np.zeros(0), np.zeros(0))
     theta = elastic_theta(option)
+    alternatives = None
     if theta is None:
         w_real = w[real] * share_kept[real]
-        in_continuum = zone * (sum(f.analytic_moment() for f in continuum) + float(extra_w.sum()))
-        scale = real_modes / (float(w_real.sum()) + in_continuum)
-        continuum = tuple(f.scaled(scale * zone) for f in continuum)
-        extra_w = extra_w * scale * zone
+        scale, continuum, extra_w = _normalised(w_real, continuum, extra_w, zone, real_modes)
+        if fit is not None:       # built when an error estimate asks (a load stays fast)
+            alternatives = functools.partial(_alternatives, nu, w, order, region, fit["dispersion_corrected"],
+                                             fit["richardson_step"], zone, real_modes)
     else:       # the elastic law fixes A absolutely; the mesh modes carry the rest
         law = 9.0 * n_atoms / (theta / H_OVER_K_THZ) ** 3
         if continuum:
@@ -174,7 +180,7 @@ def load_mode_list(raw, explicit, carried, chosen):
     if not continuum:
         notes.append(_undetermined_note(resolved, table))
     modes = ModeList(frequency_thz=freq, weight=weight, extra=(extra_nu, extra_w), partials=partials,
-                     continuum=continuum,
+                     continuum=continuum, alternatives=alternatives,
                      cell_volume_a3=table.cell_volume_a3, resolved_thz=resolved,
                      velocities={} if fit is None else {k: fit[k] for k in ("inverse_cube_mean", "points",
                                                                               "shell_radius_per_A",
@@ -185,6 +191,7 @@ def load_mode_list(raw, explicit, carried, chosen):
         "raw_integral": total_raw, "scale_factor": scale, "negative_mode_fraction": share,
         "negative_policy": policy, "atoms_inferred": inferred, "columns": list(raw.names),
         "low_frequency_option": low_frequency_window(option), "kind": "mode list", "modes": int(nu.size),
+        "left_out_share": 0.0 if continuum else zero_weight / total_raw,
         "reading_options": chosen.replaced(freq_unit=unit, atoms=n_atoms, sheet=raw.sheet).as_dict(),
     }
     if raw.sheet is not None:
@@ -193,6 +200,39 @@ def load_mode_list(raw, explicit, carried, chosen):
     return PhononDOS(frequency_thz=grid, dos=g, atoms=n_atoms, partials=part_grid, low_frequency=None,
                      source=provenance, warnings=tuple(n for n in notes if n), modes=modes,
                      input_frequency_thz=grid, input_dos=g, input_partials=dict(part_grid))
+
+
+def _normalised(w_real, continuum, extra_w, zone, real_modes):
+    """(scale of the mesh weights, continuum and dispersion weights per formula unit): 3n modes in all."""
+    in_continuum = zone * (sum(f.analytic_moment() for f in continuum) + float(extra_w.sum()))
+    scale = real_modes / (float(w_real.sum()) + in_continuum)
+    return scale, tuple(f.scaled(scale * zone) for f in continuum), extra_w * scale * zone
+
+
+def _alternatives(nu, w, order, region, corrected, step, zone, real_modes):
+    """((factor, ModeList), …) of the other plausible long-wave treatments, for the error estimate.
+
+    The blend moved by :data:`BLEND_SPREAD` (factor 1), and the raw speeds without the Richardson step,
+    whose difference is k² − 1 times the step's own error estimate (factor 1/(k² − 1), Richardson 1927).
+    """
+    out = []
+    variants = [(1.0, dict(blend=(BLEND[0] * f, BLEND[1] * f))) for f in BLEND_SPREAD]
+    if corrected:
+        variants.append((1.0 / (step ** 2 - 1), dict(corrected=False)))
+    for factor, how in variants:
+        kept = np.ones((region[0].shape[0], region[1].shape[1]))
+        kept[:, :3], continuum, other = long_wave_region(*region, **how)
+        if other is None:
+            continue
+        share = np.ones(nu.size)
+        share[order] = kept.ravel()
+        use = (share > 0) & (nu >= 0)
+        extra_nu, extra_w = other["dispersion_nodes"]
+        scale, continuum, extra_w = _normalised(w[use] * share[use], continuum, extra_w, zone, real_modes)
+        i = np.argsort(nu[use], kind="stable")
+        out.append((factor, ModeList(nu[use][i], (w[use] * share[use])[i] * scale, extra=(extra_nu, extra_w),
+                                     continuum=continuum)))
+    return tuple(out)
 
 
 def _theta_of(continuum, atoms, factor=1.0):

@@ -1,11 +1,12 @@
 r"""Reading options: how a DOS file is read, as one record with its defaults written once.
 
-A :class:`ReadingOptions` holds the six things a user may say about a DOS
+A :class:`ReadingOptions` holds the seven things a user may say about a DOS
 file: the frequency unit, the atoms per formula unit, the imaginary-mode
-policy, the low-frequency form, the worksheet of an ``.xlsx`` file and the
-chemical formula.  A field that was not given is ``None`` — never a copy of
-its default — so that layers of options can be merged without mistaking "the
-user chose the default" for "the user said nothing".
+policy, the low-frequency form, the worksheet of an ``.xlsx`` file, the
+chemical formula and whether its rows are histogram bins.  A field that was
+not given is ``None`` — never a copy of its default — so that layers of
+options can be merged without mistaking "the user chose the default" for
+"the user said nothing".
 
 Layers, highest first (see :func:`merged`):
 
@@ -43,16 +44,17 @@ import math
 from ..errors import OptionError
 
 #: The fields of the record, in the order they are shown.
-FIELDS = ("freq_unit", "atoms", "negative", "low_frequency", "formula", "sheet")
+FIELDS = ("freq_unit", "atoms", "negative", "low_frequency", "formula", "sheet", "histogram")
 #: What each field means when it is not given (the one place defaults are written).
 #: ``None`` here: decided from the file (unit, atoms), the first sheet, no formula.
 DEFAULT_VALUES = {"freq_unit": None, "atoms": None, "negative": "drop", "low_frequency": "auto",
-                  "formula": None, "sheet": None}
+                  "formula": None, "sheet": None, "histogram": None}
 #: The defaults in words, for help texts and page hints.
 DEFAULT_TEXT = {"freq_unit": "as the file's frequency header or unit line states (never guessed)",
                 "atoms": "inferred when the DOS integrates to 3n", "negative": DEFAULT_VALUES["negative"],
                 "low_frequency": DEFAULT_VALUES["low_frequency"], "sheet": "the first sheet",
-                "formula": "none"}
+                "formula": "none",
+                "histogram": "when a '# histogram' line states it or the rows are bin centres (i + ½)Δ"}
 #: Words meaning "no low-frequency treatment".
 _OFF_WORDS = ("off", "none", "no", "false")
 
@@ -174,6 +176,21 @@ def _sheet(value):
     return text or None
 
 
+_TRUE, _FALSE = ("true", "yes", "1", "on", "histogram"), ("false", "no", "0", "off")
+
+
+def _flag(value):
+    """True/False of a yes-no option (None or a blank: not given)."""
+    if value is None or isinstance(value, bool):
+        return value
+    text = str(value).strip().lower()
+    if not text:
+        return None
+    if text in _TRUE or text in _FALSE:
+        return text in _TRUE
+    raise OptionError(f"histogram must be true or false, not {value!r}")
+
+
 def _text(value):
     text = "" if value is None else " ".join(str(value).split())
     return text or None
@@ -197,6 +214,10 @@ class ReadingOptions:
         Chemical formula of the formula unit (values per gram, masses).
     sheet : str, int or None
         Worksheet of an ``.xlsx`` file: name or 1-based number.
+    histogram : bool or None
+        True: the rows are histogram bins (centres, summed as Σ g·Δν,
+        :mod:`thermo.preparation.histogram`); False: a sampled curve even when
+        the file looks like bins; None: decided from the file.
 
     Values are checked and written canonically on construction
     (:class:`~thermo.errors.OptionError` for a bad one).
@@ -208,6 +229,7 @@ class ReadingOptions:
     low_frequency: str | None = None
     formula: str | None = None
     sheet: str | int | None = None
+    histogram: bool | None = None
 
     def __post_init__(self):
         unit = self.freq_unit
@@ -223,7 +245,8 @@ class ReadingOptions:
             negative = check_policy(negative)
         for name, value in (("freq_unit", unit), ("atoms", _atoms(self.atoms)), ("negative", negative),
                             ("low_frequency", low_frequency_setting(self.low_frequency)),
-                            ("formula", _text(self.formula)), ("sheet", _sheet(self.sheet))):
+                            ("formula", _text(self.formula)), ("sheet", _sheet(self.sheet)),
+                            ("histogram", _flag(self.histogram))):
             object.__setattr__(self, name, value)
 
     # ------------------------------------------------------------------ construction
@@ -273,7 +296,7 @@ class ReadingOptions:
         return dataclasses.replace(self, **changes)
 
     def as_dict(self) -> dict:
-        """All six fields (None when not given), JSON-able."""
+        """All fields (None when not given), JSON-able."""
         return dataclasses.asdict(self)
 
     def given(self) -> dict:
@@ -284,11 +307,14 @@ class ReadingOptions:
         """The form kept by the workspace store and the dashboard's datasets: resolved, formula ``""`` when none.
 
         Stored settings are the file's own (a layer below options given
-        later); the blank formula keeps the form of files written before the
-        record existed, so identical settings compare equal.
+        later); the blank formula, and no ``histogram`` key unless it was
+        given, keep the form of files written before, so identical settings
+        compare equal.
         """
         values = self.resolved().as_dict()
         values["formula"] = values["formula"] or ""
+        if values["histogram"] is None:
+            del values["histogram"]
         return values
 
     def differs_from_default(self) -> dict:

@@ -19,7 +19,7 @@ from thermo.errors import ModeheatError, OptionError
 from .. import budget, cache, filesets, session
 from ..demo import demo_file, electronic_demo_entry
 from .. import components as c
-from .. import exports, handoff
+from .. import exports, handoff, reading
 from .. import figures as fg
 from .. import intake
 from ..intake import decode_upload
@@ -74,7 +74,8 @@ def layout(**_query):
             c.text("cal-range", "", "Fit range [K]", "LO:HI (default all points)"),
             c.number("cal-atoms", 1, "Atoms per formula unit", step=1, min_value=1),
             c.dropdown("cal-unit", _UNITS, "header", "C_p unit"),
-            c.text("cal-formula", "", "Formula", "for J/(g K), e.g. Cu")),
+            c.text("cal-formula", "", "Formula", "for J/(g K), e.g. Cu", hint="blank: the active dataset's")),
+        reading.panel("cal"),
         c.messages_panel("cal-messages"),
         html.Div(id="cal-keys"),
         html.Div([c.graph("cal-overlay-graph", "Measured C_p with the fitted C_p, its terms and the DOS C_v"),
@@ -84,7 +85,7 @@ def layout(**_query):
         html.H2("Fitted parameters"),
         dcc.Loading(html.Div(id="cal-params"), type="dot"),
         exports.download_bar("cal", "calorimetry result", formats=("json", "csv", "xlsx")),
-        handoff.send_bar("cal", "the fitted C_p table", ("polynomials",)),
+        handoff.send_bar("cal", "the fitted C_p table", ("polynomials", "phases", "compare")),
         html.Div([html.P(text, className="mh-msg mh-msg-info") for text in CAUTIONS], id="cal-cautions"),
     )
 
@@ -180,7 +181,7 @@ def draw(stored, workspace, lattice, terms, fix, fit_range, atoms, unit, formula
         stored = demo_measurement()
         demo_note = [("info", "Showing the invented demo measurement (imaginary metal 'springium'); "
                               "upload your own file above.")]
-    current = _dos_dataset(workspace, stored)
+    current, formula = _dos_dataset(workspace, stored), reading.formula_of(workspace, formula)
     measured = _measured(stored, unit, formula)
     dos = cache.load(current) if current is not None else None
     if lattice == "dos" and dos is None:
@@ -399,7 +400,7 @@ def calorimetry_download(fmt, stored, workspace, lattice, terms, fix, fit_range,
     [--cp-unit U] [--formula F] [--electronic EDOS] --format FMT`` writes it for the page's settings."""
     from thermo.calorimetry.export import calorimetry_export
     stored = stored or demo_measurement()
-    current = _dos_dataset(workspace, stored)
+    current, formula = _dos_dataset(workspace, stored), reading.formula_of(workspace, formula)
     measured = _measured(stored, unit, formula)
     dos = cache.load(current) if current is not None else None
     if lattice == "dos" and dos is None:
@@ -431,8 +432,10 @@ _STATES = [State("cal-measured", "data"), State("mh-workspace", "data"), State("
            State("cal-atoms", "value"), State("cal-unit", "value"), State("cal-formula", "value"),
            State("mh-electronic", "data"), State("mh-config", "data")]
 exports.register_download("cal", _STATES, calorimetry_download)
+reading.register("cal")
 # the residual and third-law table (fitted C_p, S° from the data) as the csv download writes it
-handoff.register_send("cal", "polynomials", _STATES, lambda *values: calorimetry_download("csv", *values), NAME)
+for _target in ("polynomials", "phases", "compare"):      # Phases reads its H° − H°(0) and S° (thermo.phases.tabulated)
+    handoff.register_send("cal", _target, _STATES, lambda *values: calorimetry_download("csv", *values), NAME)
 
 
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -12,10 +12,11 @@ import numpy as np
 from dash import Input, Output, State, callback, html
 
 from thermo.columns import column_name, error_key
-from thermo.convergence import DEFAULT_TEMPERATURES, compare_runs, comparison_provenance, difference_key
+from thermo.convergence import (DEFAULT_TEMPERATURES, compare_runs, comparison_provenance, difference_key,
+                                table_run_input, with_table_run)
 from thermo.errors import OptionError
 
-from .. import budget, cache, exports, session
+from .. import budget, cache, exports, handoff, session
 from .. import components as c
 from .. import reading
 from .. import figures as fg
@@ -81,18 +82,29 @@ def _formula(datasets, per):
     return cache.formula_for(datasets[0], per)
 
 
-def compared(workspace, ids, reference, temperatures, per):
-    """:func:`thermo.convergence.compare_runs` of the chosen runs (names: the dataset names)."""
+def compared(workspace, ids, reference, temperatures, per, item=None):
+    """:func:`thermo.convergence.compare_runs` of the chosen runs (names: the dataset names), with a sent table
+    ``item`` (:mod:`webapp.handoff`) as one more run (:func:`thermo.convergence.with_table_run`)."""
     chosen, ref = runs(workspace, ids, reference)
     doses = [cache.load(d) for d in chosen]
     names = [d["name"] for d in chosen]
-    if len(chosen) == 1:     # one run: its values and its own error estimate (the reference rows only)
-        table = compare_runs(doses * 2, temperatures, names=names * 2, per=per, formula=_formula(chosen, per))
-        table = table[table["reference"]].reset_index(drop=True)
-        table.attrs["reference"] = names[0]
-        return chosen, ref, doses, names, table
+    # one run alone is its own reference: its values and its own error estimate
     table = compare_runs(doses, temperatures, reference=ref, names=names, per=per, formula=_formula(chosen, per))
+    if item is not None:
+        table, _ = with_table_run(table, None, item["csv"].encode("utf-8"), item["name"], _formula(chosen, per))
     return chosen, ref, doses, names, table
+
+
+def _sent(choice, sent):
+    """The sent table when the page's choice includes it, else None."""
+    return handoff.received(sent, "compare") if choice == "sent" else None
+
+
+def _pm(value, err):
+    """``value ± error`` of a table cell ('—' where a table run has no value; '± ?' where no error is stated)."""
+    if not np.isfinite(value):
+        return "—"
+    return f"{value:.6g} ± " + (f"{err:.2g}" if np.isfinite(err) else "?")
 
 
 def figures(table, key, per, view):
@@ -141,8 +153,9 @@ def difference_table(table, per, view):
             absolute = value - base.loc[row[t_col], column_name(key, per)]
             shown = (f"{100.0 * row[column_name(difference_key(key))]:+.3g}" if view == "relative"
                      else f"{absolute:+.4g}")
+            shown = shown if np.isfinite(absolute) else "—"
             beyond = not row["reference"] and abs(absolute) > err
-            cells += [html.Td(f"{value:.6g} ± {err:.2g}"),
+            cells += [html.Td(_pm(value, err)),
                       html.Td("—" if row["reference"] else shown + (" ⚑" if beyond else ""),
                               className="mh-beyond" if beyond else None,
                               title="larger than this run's estimated error" if beyond else None)]
@@ -163,7 +176,9 @@ def layout(**_query):
         c.controls(c.dropdown("cmp-datasets", [], None, "Runs", multi=True),
                    c.dropdown("cmp-reference", [], None, "Reference run"),
                    c.radio("cmp-quantity", QUANTITIES, "entropy", "Plotted quantity"),
-                   c.radio("cmp-view", VIEWS, "relative", "Differences")),
+                   c.radio("cmp-view", VIEWS, "relative", "Differences"),
+                   c.radio("cmp-sent", [{"label": "runs only", "value": "none"}], "none",
+                           "Table sent from a page (one more run, interpolated between its rows)")),
         c.controls(c.text("cmp-temperatures", TABLE_TEMPERATURES, "Table temperatures [K]",
                           hint="comma list and/or START:STOP:STEP, > 0"),
                    *c.temperature_fields("cmp", 2, 1500, 5), c.basis_field("cmp-per", value="atom")),
@@ -204,35 +219,43 @@ def _failed(message):
           Input("mh-workspace", "data"), Input("cmp-datasets", "value"), Input("cmp-reference", "value"),
           Input("cmp-quantity", "value"), Input("cmp-view", "value"), Input("cmp-temperatures", "value"),
           Input("cmp-tmin", "value"), Input("cmp-tmax", "value"), Input("cmp-step", "value"),
-          Input("cmp-per", "value"))
+          Input("cmp-per", "value"), Input("cmp-sent", "value"), State(handoff.STORE_ID, "data"))
 @reported(_failed)
-def draw(workspace, ids, reference, quantity, view, spec, t_min, t_max, step, per):
+def draw(workspace, ids, reference, quantity, view, spec, t_min, t_max, step, per, choice=None, sent=None):
     """Table of differences at the chosen temperatures, value and difference curves over the grid."""
     note = [] if len(ids or []) >= 2 else c.message_items([(
         "info", "Choose at least two runs to compare: a workspace group, All, or datasets in the list "
                 "(one run shows its values and its own error estimate).")])
     grid = budget.temperatures(t_min, t_max, step)
     grid = grid[grid > 0]
-    _, _, _, _, curves = compared(workspace, ids, reference, grid, per)
+    item = _sent(choice, sent)
+    _, _, _, _, curves = compared(workspace, ids, reference, grid, per, item)
     over, diff = figures(curves, quantity or "entropy", per, view)
-    _, _, _, _, table = compared(workspace, ids, reference, budget.parsed_temperatures(spec or TABLE_TEMPERATURES), per)
+    table_t = budget.parsed_temperatures(spec or TABLE_TEMPERATURES)
+    _, _, _, _, table = compared(workspace, ids, reference, table_t, per, item)
     return over, diff, difference_table(table, per, view), note
 
 
-def comparison_download(fmt, workspace, ids, reference, spec, per):
-    """The comparison as ``modeheat compare RUN... --reference REF --temperatures SPEC --per PER`` writes it."""
-    if len(ids or []) < 2:
-        raise OptionError("choose at least two runs to download a comparison")
+def comparison_download(fmt, workspace, ids, reference, spec, per, choice=None, sent=None):
+    """The comparison as ``modeheat compare RUN... --reference REF --temperatures SPEC --per PER [--table CSV]``
+    writes it."""
+    if len(ids or []) + (_sent(choice, sent) is not None) < 2:
+        raise OptionError("choose at least two runs (or one and a sent table) to download a comparison")
     temperatures = budget.parsed_temperatures(spec or TABLE_TEMPERATURES)
-    chosen, ref, doses, names, table = compared(workspace, ids, reference, temperatures, per)
+    item = _sent(choice, sent)
+    chosen, ref, doses, names, table = compared(workspace, ids, reference, temperatures, per, item)
     info = comparison_provenance(doses, temperatures, reference=ref, names=names, per=per,
                                  formula=_formula(chosen, per))
+    if item is not None:
+        info = table_run_input(info, item["name"], item["csv"].encode("utf-8"))
     return exports.table_file(f"{exports.file_stem(names[ref])}-comparison", table, info, fmt)
 
 
 exports.register_download("cmp", [State("mh-workspace", "data"), State("cmp-datasets", "value"),
                                   State("cmp-reference", "value"), State("cmp-temperatures", "value"),
-                                  State("cmp-per", "value")], comparison_download)
+                                  State("cmp-per", "value"), State("cmp-sent", "value"),
+                                  State(handoff.STORE_ID, "data")], comparison_download)
+handoff.follow_sent("compare", "cmp-sent")
 c.follow_image_format("cmp-overlay-graph", "cmp-diff-graph")
 reading.register("cmp")
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -175,16 +175,9 @@ def _explorer_or_message(dataset, temperature):
 
 
 def share_table(dataset, temperatures):
-    """The share map as a long table: temperature, bin centre, bin edges, C_v and S share [1] per bin."""
-    import pandas as pd
-    data = share_map(dataset, temperatures)
-    nu, edges = np.asarray(data["frequency_thz"]), np.asarray(data["bin_edges_thz"])
-    t = np.asarray(data["temperature_K"])
-    rows = {"temperature_K": np.repeat(t, nu.size), "frequency_THz": np.tile(nu, t.size),
-            "bin_low_THz": np.tile(edges[:-1], t.size), "bin_high_THz": np.tile(edges[1:], t.size),
-            "heat_capacity_v_share": np.asarray(data["heat_capacity_share"]).T.ravel(),
-            "entropy_share": np.asarray(data["entropy_share"]).T.ravel()}
-    return pd.DataFrame(rows)
+    """The share map as a long table (:func:`thermo.models.modemap.share_table`, columns from the column schema)."""
+    from thermo.models.modemap import share_table as long_table
+    return long_table(share_map(dataset, temperatures))
 
 
 def map_download(fmt, workspace, t_min, t_max):

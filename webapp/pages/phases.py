@@ -17,7 +17,7 @@ from thermo.phases import ENERGY_UNITS, Phase, compare_phases, energy_in_ev
 from thermo.phases.report import CAUTIONS, comparison_json, comparison_provenance
 from thermo.quasiharmonic import read_manifest
 
-from .. import budget, cache, filesets, session
+from .. import budget, cache, exports, filesets, handoff, session
 from .. import components as c
 from .. import figures as fg
 from ..demo import demo_file
@@ -39,16 +39,25 @@ INPUT_COLUMNS = [{"name": "phase", "id": "phase"}, {"name": "from", "id": "label
                  {"name": "atoms per formula unit", "id": "atoms", "type": "numeric"}]
 
 
-def choices(workspace):
-    """Dropdown options: the demo volume sets, the kept volume sets, then the workspace datasets (harmonic)."""
-    out = [{"label": label, "value": key} for key, (label, _) in DEMO_SETS.items()]
+def _sent_label(item):
+    return f"sent from {item['from']}: {item['name']} (table)"
+
+
+def choices(workspace, sent=None):
+    """Dropdown options: a table sent from another page, the demo volume sets, the kept volume sets, then the
+    workspace datasets (harmonic)."""
+    item = handoff.received(sent, "phases")
+    out = [{"label": _sent_label(item), "value": "sent"}] if item else []
+    out += [{"label": label, "value": key} for key, (label, _) in DEMO_SETS.items()]
     out += [{"label": f"volume set {n}", "value": f"set:{n}"} for n in filesets.names("volume")]
     out += [{"label": f"dataset {d['name']} (harmonic)", "value": f"ds:{d['id']}"}
             for d in (workspace or {}).get("datasets", [])]
     return out
 
 
-def _short(value, workspace):
+def _short(value, workspace, sent=None):
+    if value == "sent":
+        return exports.file_stem((handoff.received(sent, "phases") or {}).get("name"), "sent")
     if value in DEMO_SETS:
         return value.split(":", 1)[1]
     if value.startswith("set:"):
@@ -57,7 +66,10 @@ def _short(value, workspace):
     return (dataset or {}).get("name", value).rsplit(".", 1)[0]
 
 
-def _label_of(value, workspace):
+def _label_of(value, workspace, sent=None):
+    if value == "sent":
+        item = handoff.received(sent, "phases")
+        return _sent_label(item) if item else "sent table (no longer there)"
     if value in DEMO_SETS:
         return DEMO_SETS[value][0]
     if value.startswith("set:"):
@@ -65,21 +77,27 @@ def _label_of(value, workspace):
     return f"dataset {(session.find(workspace, value[3:]) or {}).get('name', '?')}"
 
 
-def input_rows(chosen, workspace, previous):
+def input_rows(chosen, workspace, previous, sent=None):
     """One editable row per chosen phase; values typed before for the same source are kept."""
     kept = {r.get("source"): r for r in previous or []}
     rows = []
     for value in chosen or []:
         old = kept.get(value) or {}
-        rows.append({"phase": old.get("phase") or _short(value, workspace), "source": value,
-                     "label": _label_of(value, workspace),
+        rows.append({"phase": old.get("phase") or _short(value, workspace, sent), "source": value,
+                     "label": _label_of(value, workspace, sent),
                      "static": old.get("static", 0.0), "static_u": old.get("static_u", 0.0),
                      "atoms": old.get("atoms")})
     return rows
 
 
-def _source(value, workspace):
-    """PhononDOS or VolumeSet of one choice."""
+def _source(value, workspace, sent=None):
+    """PhononDOS, VolumeSet or table (:mod:`thermo.phases.tabulated`) of one choice."""
+    if value == "sent":
+        item = handoff.received(sent, "phases")
+        if item is None:
+            raise OptionError("the table sent to this page is no longer there: send it again")
+        from thermo.phases.tabulated import read_phase_table
+        return read_phase_table(item["csv"].encode("utf-8"), item["name"])
     if value in DEMO_SETS:
         return read_manifest(demo_file(*DEMO_SETS[value][1]))
     if value.startswith("set:"):
@@ -101,13 +119,13 @@ def _number(value, what, name, default=0.0):
         raise OptionError(f"phase {name}: {what} {value!r} is not a number") from None
 
 
-def build_phases(rows, workspace, unit):
+def build_phases(rows, workspace, unit, sent=None):
     """The :class:`~thermo.phases.Phase` of every row (static energies in ``unit``)."""
     phases = []
     for row in rows or []:
-        name = str(row.get("phase") or "").strip() or _short(row["source"], workspace)
+        name = str(row.get("phase") or "").strip() or _short(row["source"], workspace, sent)
         atoms = row.get("atoms")
-        phases.append(Phase(name, _source(row["source"], workspace),
+        phases.append(Phase(name, _source(row["source"], workspace, sent),
                             static_ev=energy_in_ev(_number(row.get("static"), "static energy", name), unit),
                             static_uncertainty_ev=energy_in_ev(_number(row.get("static_u"), "± static", name), unit),
                             atoms=None if atoms in (None, "") else int(_number(atoms, "atoms", name))))
@@ -123,15 +141,18 @@ def parse_pressures(text):
     return out or [0.0]
 
 
-def results(rows, workspace, unit, temperatures, pressures, boundary):
-    """``(phases, comparison)`` memoised on the inputs' content and the settings."""
-    phases = build_phases(rows, workspace, unit)
+def results(rows, workspace, unit, temperatures, pressures, boundary, sent=None):
+    """``(phases, comparison)`` memoised on the inputs' content (a sent table's too) and the settings."""
+    phases = build_phases(rows, workspace, unit, sent)
     quasi = bool(phases) and phases[0].quasiharmonic
     if quasi:                       # an equation-of-state fit per temperature: the Quasi-harmonic page's budget
         budget.checked_count(temperatures, name="MODEHEAT_MAX_QHA_TEMPERATURES")
-    digest = hashlib.sha256(json.dumps([rows, unit, [cache.verified(d) for d in (workspace or {}).get("datasets", [])
-                                                     if f"ds:{d['id']}" in {r['source'] for r in rows or []}]],
-                                       sort_keys=True, default=str).encode()).hexdigest()
+    table = (handoff.received(sent, "phases") or {}).get("sha256") if any(r["source"] == "sent" for r in rows or []) \
+        else None
+    digest = hashlib.sha256(json.dumps([rows, unit, table,
+                                        [cache.verified(d) for d in (workspace or {}).get("datasets", [])
+                                         if f"ds:{d['id']}" in {r['source'] for r in rows or []}]],
+                                        sort_keys=True, default=str).encode()).hexdigest()
     key = ("phases", digest, tuple(temperatures.tolist()), tuple(pressures) if quasi else None, bool(boundary))
 
     def compute():
@@ -212,8 +233,10 @@ def layout(**_query):
     return c.page(
         "Phases", "Which phase is stable, and where is the boundary? Pick two or more phases — DOS datasets "
                   "(harmonic, fixed volume) or volume sets (quasi-harmonic) — and type their static energies.",
+        dcc.Store(id="ph-seen", storage_type="memory"),
         c.controls(c.dropdown("ph-choice", choices(None), DEFAULT_CHOICE, "Phases (the first is the reference)",
-                              multi=True),
+                              multi=True, hint="a table sent from the Quasi-harmonic or Calorimetry page is offered "
+                                               "first, beside the active dataset"),
                    c.radio("ph-unit", UNIT_CHOICES, "eV", "Static energy unit")),
         dash_table.DataTable(id="ph-rows", columns=INPUT_COLUMNS, data=[], editable=True,
                              style_table={"maxWidth": "900px"}, style_cell={"textAlign": "left"}),
@@ -235,20 +258,44 @@ def layout(**_query):
     )
 
 
-@callback(Output("ph-choice", "options"), Output("ph-choice", "value"), Input("mh-workspace", "data"),
-          State("ph-choice", "value"))
-def fill_choices(workspace, chosen):
-    """Choices from the workspace; what is chosen and still there stays chosen."""
-    options = choices(workspace)
+def sent_phase(item):
+    """The :class:`~thermo.phases.tabulated.TabulatedPhase` of a sent table (memoised on its bytes)."""
+    from thermo.phases.tabulated import read_phase_table
+    return cache.result(("phase-table", item["sha256"]),
+                        lambda: read_phase_table(item["csv"].encode("utf-8"), item["name"]))
+
+
+def arrival(sent, seen, workspace, chosen, t_min, t_max):
+    """``(chosen, seen, T from, T to)`` after the sent store changed: a table not seen yet is chosen with the
+    active dataset beside it (both of the fixed kind), and the temperatures are kept inside its rows."""
+    item = handoff.received(sent, "phases")
+    if item is None or item["sha256"] == seen:
+        return chosen, seen, no_update, no_update
+    current = session.active(workspace)
+    rows = sent_phase(item).temperatures_k
+    low = max(float(rows[0]), float(t_min) if t_min not in (None, "") else float(rows[0]))
+    high = min(float(rows[-1]), float(t_max) if t_max not in (None, "") else float(rows[-1]))
+    return ["sent"] + ([f"ds:{current['id']}"] if current else []), item["sha256"], low, high
+
+
+@callback(Output("ph-choice", "options"), Output("ph-choice", "value"), Output("ph-seen", "data"),
+          Output("ph-tmin", "value"), Output("ph-tmax", "value"), Input("mh-workspace", "data"),
+          Input(handoff.STORE_ID, "data"), State("ph-choice", "value"), State("ph-seen", "data"),
+          State("ph-tmin", "value"), State("ph-tmax", "value"))
+@reported(lambda message: (no_update,) * 5)
+def fill_choices(workspace, sent, chosen, seen, t_min, t_max):
+    """Choices from the workspace and a sent table; what is chosen and still there stays chosen."""
+    options = choices(workspace, sent)
+    chosen, seen, low, high = arrival(sent, seen, workspace, chosen, t_min, t_max)
     known = {o["value"] for o in options}
-    return options, [v for v in (chosen or []) if v in known]
+    return options, [v for v in (chosen or []) if v in known], seen, low, high
 
 
 @callback(Output("ph-rows", "data"), Input("ph-choice", "value"), State("mh-workspace", "data"),
-          State("ph-rows", "data"))
-def fill_rows(chosen, workspace, previous):
+          State("ph-rows", "data"), State(handoff.STORE_ID, "data"))
+def fill_rows(chosen, workspace, previous, sent=None):
     """One editable row per chosen phase."""
-    return input_rows(chosen, workspace, previous)
+    return input_rows(chosen, workspace, previous, sent)
 
 
 def _failed(message):
@@ -264,16 +311,17 @@ def _settings(t_min, t_max, step, pressures):
           Output("ph-transitions", "children"), Output("ph-messages", "children"),
           Input("ph-rows", "data"), Input("ph-unit", "value"), Input("ph-tmin", "value"), Input("ph-tmax", "value"),
           Input("ph-step", "value"), Input("ph-pressures", "value"), Input("ph-boundary", "value"),
-          State("mh-workspace", "data"))
+          State("mh-workspace", "data"), State(handoff.STORE_ID, "data"))
 @reported(_failed)
-def draw(rows, unit, t_min, t_max, step, pressures, boundary, workspace):
+def draw(rows, unit, t_min, t_max, step, pressures, boundary, workspace, sent=None):
     """ΔG(T) with bands and crossings, the boundary, the transitions table and the warnings."""
     if len(rows or []) < 2:
         blank = fg.message_figure("choose two or more phases")
         return blank, blank, [], c.message_items([("info", "choose two or more phases")])
     temperatures, p = _settings(t_min, t_max, step, pressures)
-    _, result = results(rows, workspace, unit, temperatures, p, boundary == "on")
-    notes = [("warning", w) for w in result.warnings]
+    phases, result = results(rows, workspace, unit, temperatures, p, boundary == "on", sent)
+    notes = [("warning", f"phase {ph.name}: {w}") for ph in phases if getattr(ph.source, "tabulated", False)
+             for w in ph.source.warnings] + [("warning", w) for w in result.warnings]
     return delta_figure(result), boundary_figure(result), transitions_table(result), c.message_items(notes)
 
 
@@ -281,12 +329,12 @@ def draw(rows, unit, t_min, t_max, step, pressures, boundary, workspace):
           Input("ph-download-btn", "n_clicks"), State("ph-rows", "data"), State("mh-workspace", "data"),
           State("ph-unit", "value"), State("ph-tmin", "value"), State("ph-tmax", "value"), State("ph-step", "value"),
           State("ph-pressures", "value"), State("ph-boundary", "value"), State("ph-format", "value"),
-          prevent_initial_call=True)
+          State(handoff.STORE_ID, "data"), prevent_initial_call=True)
 @reported(lambda message: (no_update, c.message_items([("error", message)])))
-def download(_clicks, rows, workspace, unit, t_min, t_max, step, pressures, boundary, fmt):
+def download(_clicks, rows, workspace, unit, t_min, t_max, step, pressures, boundary, fmt, sent=None):
     """The comparison table with its provenance (transitions included), as ``modeheat phases`` writes it."""
     temperatures, p = _settings(t_min, t_max, step, pressures)
-    phases, result = results(rows, workspace, unit, temperatures, p, boundary == "on")
+    phases, result = results(rows, workspace, unit, temperatures, p, boundary == "on", sent)
     record = comparison_provenance(result, phases, temperatures, unit)
     if fmt == "json":
         content = comparison_json(result, record, DEFAULT_DIGITS).encode("utf-8")

@@ -11,7 +11,7 @@ from thermo.polynomials.cantera_yaml import polynomial_export, species_name
 from thermo.provenance import dos_input
 from thermo.polynomials import fit_polynomial, harmonic_source
 
-from .. import cache, handoff, session
+from .. import cache, handoff, reading, session
 from .. import components as c
 from .. import figures as fg
 from ..reporting import one_line, reported
@@ -146,7 +146,9 @@ def layout(**_query):
                             hint="two ranges; blank: one range, NASA √(T_from·T_to) to 10 K"),
                    c.number("po-formation", 0, "Δ_fH°(298.15 K) [kJ/mol]", hint="0 for an element in its reference state"),
                    c.text("po-phase", "cr", "Phase label"),
-                   c.text("po-formula", "", "Formula", placeholder="e.g. MgO", hint="needed for Cantera YAML")),
+                   c.text("po-formula", "", "Formula", placeholder="e.g. MgO",
+                          hint="needed for Cantera YAML; blank: the active dataset's (reading options)")),
+        reading.panel("po"),
         c.messages_panel("po-messages"),
         html.P(c.CAUTION + " Polynomial coefficients carry the harmonic C_p (= C_v) further into database "
                            "use; compare with validated data before a design decision.", className="mh-msg mh-msg-info"),
@@ -185,7 +187,7 @@ _SETTINGS = [Input("po-form", "value"), Input("po-tmin", "value"), Input("po-tma
 @reported(_failed)
 def draw(workspace, form, t_min, t_max, t_mid, formation, phase, formula, output, choice=None, sent=None):
     """Fit, overlay and error plots, key numbers, the coefficient block and the warnings."""
-    settings = _settings(form, t_min, t_max, t_mid, formation, phase, formula)
+    settings = _settings(form, t_min, t_max, t_mid, formation, phase, reading.formula_of(workspace, formula))
     chosen = _fit_of(workspace, sent, choice, settings)
     if chosen is None:
         blank = fg.message_figure("no dataset loaded")
@@ -207,7 +209,7 @@ def draw(workspace, form, t_min, t_max, t_mid, formation, phase, formula, output
 @reported(lambda message: (no_update, c.message_items([("error", message)])))
 def download(_clicks, workspace, form, t_min, t_max, t_mid, formation, phase, formula, output, choice=None, sent=None):
     """The coefficient file, as ``modeheat polynomial`` writes it (``--cp-table`` for a sent table)."""
-    settings = _settings(form, t_min, t_max, t_mid, formation, phase, formula)
+    settings = _settings(form, t_min, t_max, t_mid, formation, phase, reading.formula_of(workspace, formula))
     chosen = _fit_of(workspace, sent, choice, settings)
     if chosen is None:
         return no_update, [c.no_data_note()]
@@ -220,6 +222,7 @@ def download(_clicks, workspace, form, t_min, t_max, t_mid, formation, phase, fo
 
 
 handoff.follow_sent("polynomials", "po-source")
+reading.register("po")
 c.follow_active("po")
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

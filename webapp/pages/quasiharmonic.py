@@ -20,7 +20,7 @@ from thermo.temperatures import STANDARD_TEMPERATURE, with_standard_temperature
 from .. import budget, cache, filesets, intake, session
 from ..demo import demo_file
 from .. import components as c
-from .. import exports, handoff, notices
+from .. import exports, handoff, notices, reading
 from .. import figures as fg
 from ..labels import PER_CHOICES, axis_title
 from ..reporting import reported
@@ -209,7 +209,9 @@ def layout(**_query):
                    c.number("qh-tolerance", 1, "imaginary tolerance [%]", min_value=0, max_value=100,
                             hint="volumes above it are listed"),
                    c.radio("qh-per", PER_CHOICES, "formula", "Values"),
-                   c.text("qh-formula", "", "Formula (per gram)", placeholder="e.g. MgO")),
+                   c.text("qh-formula", "", "Formula (per gram)", placeholder="e.g. MgO",
+                          hint="blank with loaded datasets: the active dataset's")),
+        reading.panel("qh"),
         c.messages_panel("qh-messages"),
         html.Div(id="qh-keys"),
         html.Div([c.graph("qh-fv-graph", "G(V) at several temperatures: sampled points, fitted equation of state "
@@ -223,7 +225,7 @@ def layout(**_query):
                                                "at each temperature")], className="mh-grid"),
         html.H2("Export"),
         exports.download_bar("qh", "quasi-harmonic table"),
-        handoff.send_bar("qh", "the table", ("polynomials",)),
+        handoff.send_bar("qh", "the table", ("polynomials", "phases", "compare")),
         html.Ul([html.Li(text) for text in CAUTIONS], className="mh-caution"),
     )
 
@@ -287,6 +289,11 @@ def _tolerance(percent):
     return value / 100.0
 
 
+def _formula(source, workspace, typed):
+    """The typed formula; blank: the active dataset's when the volume set is made of loaded datasets."""
+    return reading.formula_of(workspace if source == "datasets" else None, typed)
+
+
 def _settings(t_min, t_max, step, pressure):
     """The temperature grid (with 298.15 K when inside it) and the pressure [GPa]."""
     return with_standard_temperature(budget.temperatures(t_min, t_max, step,
@@ -315,7 +322,7 @@ def draw(record, source, rows, workspace, t_min, t_max, step, pressure, eos, per
     """Plots, key numbers and diagnostics for the page's settings."""
     temperatures, p = _settings(t_min, t_max, step, pressure)
     vs, table, curves = results(record, source, rows, workspace, temperatures, p, eos, per, negative,
-                                formula or None, tolerance, errors != "off")
+                                _formula(source, workspace, formula), tolerance, errors != "off")
     diag = table.attrs["diagnostics"]
     keys = c.key_numbers([("volumes", f"{diag['volume_count']} ({diag['volume_range_A3'][0]:g}–"
                                       f"{diag['volume_range_A3'][1]:g} Å³)"),
@@ -330,8 +337,8 @@ def table_download(fmt, record, source, rows, workspace, t_min, t_max, step, pre
                    tolerance, errors="on"):
     """The quasi-harmonic table with its provenance, as ``modeheat quasiharmonic`` writes it (``--errors`` when shown)."""
     temperatures, p = _settings(t_min, t_max, step, pressure)
-    vs, table, _ = results(record, source, rows, workspace, temperatures, p, eos, per, negative, formula or None,
-                           tolerance, errors != "off")
+    vs, table, _ = results(record, source, rows, workspace, temperatures, p, eos, per, negative,
+                           _formula(source, workspace, formula), tolerance, errors != "off")
     stem = f"{exports.file_stem(vs.source.get('name'), 'volumes')}-quasiharmonic-{per}"
     return exports.table_file(stem, table, quasiharmonic_provenance(vs, table, temperatures), fmt)
 
@@ -342,7 +349,8 @@ _TABLE_STATES = [State("qh-set", "data"), State("qh-source", "value"), State("qh
                  State("qh-per", "value"), State("qh-negative", "value"), State("qh-formula", "value"),
                  State("qh-tolerance", "value"), State("qh-errors", "value")]
 exports.register_download("qh", _TABLE_STATES, table_download)
-for _target in ("polynomials",):      # the CSV the download writes (C_p, S with their errors)
+reading.register("qh")
+for _target in ("polynomials", "phases", "compare"):      # the CSV the download writes (C_p, G, S with their errors)
     handoff.register_send("qh", _target, _TABLE_STATES, lambda *values: table_download("csv", *values), NAME)
 c.follow_image_format(*_GRAPHS)
 dash.register_page(__name__, path=PATH, name=NAME, order=ORDER, title=f"{NAME} · modeheat", layout=layout)

@@ -12,7 +12,7 @@ from thermo.tables import classical_heat_capacity, provenance
 from .. import budget, cache, session
 from .. import components as c
 from .. import reading
-from .. import exports, notices
+from .. import exports, handoff, notices
 from .. import figures as fg
 from ..labels import axis_title, unit_of
 from ..reporting import reported
@@ -111,6 +111,7 @@ def layout(**_query):
                   c.graph("th-u-graph", "Internal energy (with zero-point energy)"),
                   c.graph("th-f-graph", "Helmholtz energy (with zero-point energy)")], className="mh-grid"),
         exports.download_bar("th", "table"),
+        handoff.send_bar("th", "the table", ("compare",)),
         html.H2("Table preview"),
         dcc.Loading(html.Div(id="th-table"), type="dot"),
     )
@@ -149,8 +150,10 @@ def table_download(fmt, workspace, t_min, t_max, step, per):
                               cache.table_with_errors(current, temperatures, per), info, fmt)
 
 
-exports.register_download("th", [State("mh-workspace", "data"), State("th-tmin", "value"), State("th-tmax", "value"),
-                                 State("th-step", "value"), State("th-per", "value")], table_download)
+_STATES = [State("mh-workspace", "data"), State("th-tmin", "value"), State("th-tmax", "value"),
+           State("th-step", "value"), State("th-per", "value")]
+exports.register_download("th", _STATES, table_download)
+handoff.register_send("th", "compare", _STATES, lambda *values: table_download("csv", *values), NAME)
 c.follow_active("th")
 c.follow_image_format(*_GRAPHS)
 reading.register("th")
