@@ -163,10 +163,11 @@ class ModeList:
         The long-wave fit when a continuum was built: ``inverse_cube_mean``
         (direction mean of :math:`\sum_j c_j^{-3}`, [(100 m/s)⁻³] = [(Å·THz)⁻³]),
         ``points`` used, ``shell_radius_per_A``.
-    alternatives : tuple of (float, ModeList)
-        The same list under other plausible long-wave treatments, each with
-        the factor its difference to this one is counted with in the error
-        estimate (:mod:`thermo.accuracy.breakdown`); empty without a continuum.
+    alternatives : callable or None
+        Builds ``((factor, ModeList), …)``: the same list under other
+        plausible long-wave treatments, each with the factor its difference
+        to this one is counted with in the error estimate
+        (:mod:`thermo.accuracy.breakdown`); None without a continuum.
 
     Notes
     -----
@@ -189,7 +190,7 @@ class ModeList:
     resolved_thz: float = 0.0
     velocities: dict = field(default_factory=dict)
     extra: tuple = (np.zeros(0), np.zeros(0))
-    alternatives: tuple = ()
+    alternatives: object = None
 
     @property
     def mode_count(self) -> float:

@@ -15,7 +15,7 @@ import pytest
 from tests.spectra import debye_table, dos_text
 from webapp import budget, intake, session
 from webapp.app import create_app
-from webapp.pages import electronic, export, quasiharmonic, thermodynamics
+from webapp.pages import calorimetry, compare, electronic, export, phases, quasiharmonic, thermodynamics
 
 TEXT = dos_text(*debye_table(300.0, points=201))
 
@@ -113,3 +113,44 @@ def test_upload_limits_come_from_the_server_not_the_browser(monkeypatch):
     with pytest.raises(intake.UploadRefused, match="upload limit"):
         quasiharmonic.set_files({"manifest": {"name": "m.csv", "content": base64.b64encode(big).decode()},
                                  "files": []})
+
+
+def _two_runs(ws):
+    new, _ = intake.add_uploads(ws, [_url(TEXT.replace("total", "total ").encode())], ["e.dat"], 10 ** 6)
+    return new, [d["id"] for d in new["datasets"]]
+
+
+def test_compare_table_temperatures_are_held_to_the_page_budget(ws):
+    two, ids = _two_runs(ws)
+    # a forged table field of 20,001 temperatures (one over the budget): refused before anything is computed
+    out = compare.draw(two, ids, ids[0], "entropy", "relative", "1:20001:1", 25, 500, 25, "formula")
+    assert "at most 20,000" in repr(out[-1]) and "MODEHEAT_MAX_TEMPERATURES" in repr(out[-1])
+    with pytest.raises(Exception, match="at most 20,000"):
+        compare.comparison_download("csv", two, ids, ids[0], "1:20001:1", "formula")
+    out = compare.draw(two, ids, ids[0], "entropy", "relative", "5,298.15", 25, 500, 25, "formula")
+    assert "at most" not in repr(out[-1]) and "298.15" in repr(out[2])
+
+
+def test_phases_temperatures_are_held_to_the_page_budgets(ws):
+    rows = phases.input_rows(phases.DEFAULT_CHOICE, session.empty_workspace(), [])
+    # the demo phases are quasi-harmonic: the Quasi-harmonic page's budget of 2,000 temperatures holds
+    out = phases.draw(rows, "eV", 0, 2000, 1, "0, 1, 2", "on", session.empty_workspace())
+    assert "at most 2,000" in repr(out[-1]) and "MODEHEAT_MAX_QHA_TEMPERATURES" in repr(out[-1])
+    # workspace datasets are harmonic phases: the page budget of 20,000 holds
+    two, ids = _two_runs(ws)
+    harmonic = phases.input_rows([f"ds:{i}" for i in ids], two, [])
+    out = phases.draw(harmonic, "eV", 0, 20_001, 1, "0", "off", two)   # 20,002 temperatures
+    assert "at most 20,000" in repr(out[-1]) and "MODEHEAT_MAX_TEMPERATURES" in repr(out[-1])
+    out = phases.draw(harmonic, "eV", 10, 500, 10, "0", "off", two)
+    assert "at most" not in repr(out[-1]) and len(out[0].data) >= 1
+
+
+def test_calorimetry_download_ignores_the_browsers_upload_limit():
+    from webapp.demo import demo_workspace, electronic_demo_entry
+    ws = demo_workspace()
+    args = ("csv", None, ws, "dos", ["electronic"], "", "", 1, "header", "", electronic_demo_entry())
+    name, content = calorimetry.calorimetry_download(*args, {"max_upload_bytes": 1})   # a forged browser config
+    assert content == calorimetry.calorimetry_download(*args, None)[1]
+    big = {"name": "e.dat", "contents": _url(b"0" * (intake.upload_limit() + 10)), "fields": {}}
+    with pytest.raises(intake.UploadRefused, match="upload limit"):
+        calorimetry.calorimetry_download(*args[:-1], big, {"max_upload_bytes": 10 ** 12})

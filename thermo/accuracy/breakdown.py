@@ -125,7 +125,7 @@ def mode_list_part(dos, temperatures):
     [[0.0], [0.0], [0.0], [0.0]]
     """
     t = np.atleast_1d(np.asarray(temperatures, dtype=float)).ravel()
-    alternatives = dos.modes.alternatives
+    alternatives = dos.modes.alternatives() if dos.modes.alternatives is not None else ()
     if not alternatives:
         return np.zeros((4, t.size))
     hot = t[t > 0]

@@ -9,6 +9,8 @@ the weights to 3n modes per formula unit.
 
 from __future__ import annotations
 
+import functools
+
 import numpy as np
 
 from ..errors import DosInputError
@@ -145,12 +147,13 @@ def load_mode_list(raw, explicit, carried, chosen):
     real_modes = 3 * n_atoms * (1.0 if policy == "drop" else 1.0 - share)
     extra_nu, extra_w = fit["dispersion_nodes"] if continuum else (np.zeros(0), np.zeros(0))
     theta = elastic_theta(option)
-    alternatives = ()
+    alternatives = None
     if theta is None:
         w_real = w[real] * share_kept[real]
         scale, continuum, extra_w = _normalised(w_real, continuum, extra_w, zone, real_modes)
-        if fit is not None:
-            alternatives = _alternatives(nu, w, order, region, fit, zone, real_modes)
+        if fit is not None:       # built when an error estimate asks (a load stays fast)
+            alternatives = functools.partial(_alternatives, nu, w, order, region, fit["dispersion_corrected"],
+                                             fit["richardson_step"], zone, real_modes)
     else:       # the elastic law fixes A absolutely; the mesh modes carry the rest
         law = 9.0 * n_atoms / (theta / H_OVER_K_THZ) ** 3
         if continuum:
@@ -206,7 +209,7 @@ def _normalised(w_real, continuum, extra_w, zone, real_modes):
     return scale, tuple(f.scaled(scale * zone) for f in continuum), extra_w * scale * zone
 
 
-def _alternatives(nu, w, order, region, fit, zone, real_modes):
+def _alternatives(nu, w, order, region, corrected, step, zone, real_modes):
     """((factor, ModeList), …) of the other plausible long-wave treatments, for the error estimate.
 
     The blend moved by :data:`BLEND_SPREAD` (factor 1), and the raw speeds without the Richardson step,
@@ -214,8 +217,8 @@ def _alternatives(nu, w, order, region, fit, zone, real_modes):
     """
     out = []
     variants = [(1.0, dict(blend=(BLEND[0] * f, BLEND[1] * f))) for f in BLEND_SPREAD]
-    if fit["dispersion_corrected"]:
-        variants.append((1.0 / (fit["richardson_step"] ** 2 - 1), dict(corrected=False)))
+    if corrected:
+        variants.append((1.0 / (step ** 2 - 1), dict(corrected=False)))
     for factor, how in variants:
         kept = np.ones((region[0].shape[0], region[1].shape[1]))
         kept[:, :3], continuum, other = long_wave_region(*region, **how)

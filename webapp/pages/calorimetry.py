@@ -411,7 +411,7 @@ def calorimetry_download(fmt, stored, workspace, lattice, terms, fix, fit_range,
                               dos=dos if lattice == "dos" else None)
     if not electronic and stored.get("name") == DEMO_FILE.name:
         electronic = electronic_demo_entry()
-    edos = intake.electronic_dos(electronic, (config or {}).get("max_upload_bytes")) if electronic else None
+    edos = intake.electronic_dos(electronic) if electronic else None     # the server's upload limit, never config's
     items = [p.strip() for p in str(fix or "").replace(";", ",").split(",") if p.strip()]
     settings = {"model": model_text(lattice, terms), "metal": False, "fixed": items,
                 "fit_range_K": fit_range or None, "low_t_max_K": None,

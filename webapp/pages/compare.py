@@ -15,7 +15,6 @@ from thermo.columns import column_name, error_key
 from thermo.convergence import (DEFAULT_TEMPERATURES, compare_runs, comparison_provenance, difference_key,
                                 table_run_input, with_table_run)
 from thermo.errors import OptionError
-from thermo.temperatures import parse_temperatures
 
 from .. import budget, cache, exports, handoff, session
 from .. import components as c
@@ -232,7 +231,8 @@ def draw(workspace, ids, reference, quantity, view, spec, t_min, t_max, step, pe
     item = _sent(choice, sent)
     _, _, _, _, curves = compared(workspace, ids, reference, grid, per, item)
     over, diff = figures(curves, quantity or "entropy", per, view)
-    _, _, _, _, table = compared(workspace, ids, reference, parse_temperatures(spec or TABLE_TEMPERATURES), per, item)
+    table_t = budget.parsed_temperatures(spec or TABLE_TEMPERATURES)
+    _, _, _, _, table = compared(workspace, ids, reference, table_t, per, item)
     return over, diff, difference_table(table, per, view), note
 
 
@@ -241,7 +241,7 @@ def comparison_download(fmt, workspace, ids, reference, spec, per, choice=None, 
     writes it."""
     if len(ids or []) + (_sent(choice, sent) is not None) < 2:
         raise OptionError("choose at least two runs (or one and a sent table) to download a comparison")
-    temperatures = parse_temperatures(spec or TABLE_TEMPERATURES)
+    temperatures = budget.parsed_temperatures(spec or TABLE_TEMPERATURES)
     item = _sent(choice, sent)
     chosen, ref, doses, names, table = compared(workspace, ids, reference, temperatures, per, item)
     info = comparison_provenance(doses, temperatures, reference=ref, names=names, per=per,

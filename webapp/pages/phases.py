@@ -16,9 +16,8 @@ from thermo.io.writers import DEFAULT_DIGITS, export_table
 from thermo.phases import ENERGY_UNITS, Phase, compare_phases, energy_in_ev
 from thermo.phases.report import CAUTIONS, comparison_json, comparison_provenance
 from thermo.quasiharmonic import read_manifest
-from thermo.temperatures import temperature_range
 
-from .. import cache, exports, filesets, handoff, session
+from .. import budget, cache, exports, filesets, handoff, session
 from .. import components as c
 from .. import figures as fg
 from ..demo import demo_file
@@ -146,6 +145,8 @@ def results(rows, workspace, unit, temperatures, pressures, boundary, sent=None)
     """``(phases, comparison)`` memoised on the inputs' content (a sent table's too) and the settings."""
     phases = build_phases(rows, workspace, unit, sent)
     quasi = bool(phases) and phases[0].quasiharmonic
+    if quasi:                       # an equation-of-state fit per temperature: the Quasi-harmonic page's budget
+        budget.checked_count(temperatures, name="MODEHEAT_MAX_QHA_TEMPERATURES")
     table = (handoff.received(sent, "phases") or {}).get("sha256") if any(r["source"] == "sent" for r in rows or []) \
         else None
     digest = hashlib.sha256(json.dumps([rows, unit, table,
@@ -303,7 +304,7 @@ def _failed(message):
 
 
 def _settings(t_min, t_max, step, pressures):
-    return temperature_range(t_min, t_max, step), parse_pressures(pressures)
+    return budget.temperatures(t_min, t_max, step), parse_pressures(pressures)
 
 
 @callback(Output("ph-delta-graph", "figure"), Output("ph-boundary-graph", "figure"),
