@@ -288,7 +288,7 @@ class PhononDOS:
 
     def __getstate__(self):
         """Pickled without what is kept beside the fields for speed (derived, rebuilt on first use)."""
-        return {k: v for k, v in self.__dict__.items() if k not in ("_prepared_grid", "_rebuilt")}
+        return {k: v for k, v in self.__dict__.items() if k not in ("_prepared_grid", "_rebuilt", "_error_digests")}
 
     @property
     def mode_count(self) -> float:

@@ -11,7 +11,7 @@ from .errors import OptionError
 from .formula import formula_unit
 from .accuracy.breakdown import estimated_relative_error, breakdown_summary
 from .accuracy.resolution import analyse_resolution, resolution_note
-from .accuracy.reuse import table_breakdown
+from .accuracy.reuse import table_digest
 from .kernels.sums import ZPE_J_PER_MOL_PER_THZ as _ZPE_J_PER_MOL_PER_THZ
 from .kernels.sums import molar_values as _molar_values
 from .kernels.sums import thermal_sums
@@ -328,8 +328,11 @@ def provenance(dos, temperatures, per="formula", formula=None, breakdown=None):
     """
     fit = dos.low_frequency
     src = dos.source
-    breakdown = table_breakdown(dos, temperatures) if breakdown is None else breakdown
-    note = resolution_note(analyse_resolution(dos), temperatures)
+    if breakdown is None:          # the kept breakdown's digest (thermo.accuracy.reuse): computed once
+        estimate, summary, note = table_digest(dos, temperatures)
+    else:
+        estimate, summary = estimated_relative_error(dos, temperatures, breakdown), breakdown_summary(breakdown)
+        note = resolution_note(analyse_resolution(dos), temperatures)
     return provenance_record(
         [dos_input(dos)], {"basis": per, "formula": formula, "temperatures_K": temperature_settings(temperatures)},
         tuple(dos.warnings) + ((note,) if note else ()),
@@ -345,8 +348,8 @@ def provenance(dos, temperatures, per="formula", formula=None, breakdown=None):
             "species_shares": dict(fit.species_shares)},
         low_frequency_debye_temperature_K=dos.low_frequency_debye_temperature_k(),
         **({} if dos.modes is None else {"mode_list": dos.modes.summary()}),
-        estimated_relative_error=estimated_relative_error(dos, temperatures, breakdown),
-        error_breakdown=breakdown_summary(breakdown),
+        estimated_relative_error=estimate,
+        error_breakdown=summary,
         zero_point_energy_kJ_per_mol=zero_point_energy(dos) / 1e3,
         model="harmonic, fixed volume (C_v); no anharmonic, electronic or C_p - C_v terms",
     )

@@ -91,3 +91,16 @@ def test_kept_temperatures_are_bounded(monkeypatch):
     assert len(calls) == 4
     reuse.table_breakdown(dos, [10.0, 20.0, 30.0])
     assert len(calls) == 5
+
+
+def test_provenance_from_the_kept_digest_equals_one_from_a_fresh_breakdown():
+    t = np.linspace(5.0, 800.0, 60)
+    fresh = provenance(_dos(), t, breakdown=error_breakdown(_dos(), t))
+    dos = _dos()
+    first, again = provenance(dos, t), provenance(dos, t)
+    for record in (first, again):
+        assert record["estimated_relative_error"] == fresh["estimated_relative_error"]
+        assert record["error_breakdown"] == fresh["error_breakdown"]
+        assert record["warnings"] == fresh["warnings"]
+    first["error_breakdown"]["heat_capacity_v"].clear()        # a caller's change stays its own
+    assert provenance(dos, t)["error_breakdown"] == fresh["error_breakdown"]

@@ -11,7 +11,10 @@ from __future__ import annotations
 
 import numpy as np
 
-from .breakdown import error_breakdown
+import copy
+
+from .breakdown import breakdown_summary, error_breakdown, estimated_relative_error
+from .resolution import analyse_resolution, resolution_note
 
 #: Attribute of the DOS holding its breakdowns (not a field: equality and replace() ignore it).
 _HELD = "_error_breakdowns"
@@ -60,3 +63,44 @@ def table_breakdown(dos, temperatures):
         kept.pop(next(iter(kept)))
     kept[key] = fresh
     return fresh.copy()
+
+
+def table_digest(dos, temperatures):
+    """What a provenance record carries of the table's breakdown, computed once per DOS and temperatures.
+
+    Parameters
+    ----------
+    dos : PhononDOS
+        Normalised DOS.
+    temperatures : array_like, shape (M,)
+        Temperatures [K], >= 0.
+
+    Returns
+    -------
+    tuple
+        ``(estimated_relative_error, breakdown_summary, resolution_note)`` of :func:`table_breakdown`
+        (the summary a copy the caller may change; the note None when there is none).
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> nu = np.linspace(0, 5, 201)
+    >>> d = PhononDOS(nu, 9 * nu**2 / 125, atoms=1)
+    >>> table_digest(d, [300.0])[1] == table_digest(d, [300.0])[1]
+    True
+    """
+    t = np.atleast_1d(np.asarray(temperatures, dtype=float)).ravel()
+    held = getattr(dos, "__dict__", None)
+    kept = {} if held is None else held.setdefault("_error_digests", {})
+    key = t.tobytes()
+    if key not in kept:
+        b = table_breakdown(dos, t)
+        digest = (estimated_relative_error(dos, t, b), breakdown_summary(b),
+                  resolution_note(analyse_resolution(dos), t))
+        if t.size > KEEP_TEMPERATURES:
+            return digest
+        while len(kept) >= KEEP:
+            kept.pop(next(iter(kept)))
+        kept[key] = digest
+    estimate, summary, note = kept[key]
+    return estimate, copy.deepcopy(summary), note
