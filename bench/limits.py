@@ -102,7 +102,8 @@ def _page(name, paths):
     if name == "page_models":
         return lambda: models.draw(ws, None, None, [], t0, t1, dt, "formula", "heat_capacity_v")
     if name == "page_modemap":
-        return lambda: (modemap.draw_map(ws, "heat_capacity_v", 1.0, 2000.0), modemap.draw_explorer(ws, 50))
+        # the map at its 120 temperatures; the explorer's slider at 10³ K (its position is log10 T)
+        return lambda: (modemap.draw_map(ws, "heat_capacity_share", 1.0, 2000.0), modemap.draw_explorer(ws, 3.0))
     if name == "page_displacements":
         return lambda: displacements.draw(ws, t0, t1, dt, "Ly=12.4", 2.5)
     if name == "page_polynomials":
