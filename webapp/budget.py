@@ -9,6 +9,10 @@ Every setting is read once by :func:`configure` into the Flask config
 ``MODEHEAT_MAX_QHA_TEMPERATURES``
     temperatures of one Quasi-harmonic page request (default 2,000: each
     carries an equation-of-state fit per volume left out for its error);
+``MODEHEAT_MAX_ELECTRONIC_WORK``
+    electronic-DOS points × temperatures one Electronic page request
+    evaluates (:func:`thermo.electronic.segments.window_work`; default
+    2,000,000, a few seconds);
 ``MODEHEAT_MAX_INFLIGHT_MB``
     decoded upload bytes a worker process holds at once, summed over its
     threads (default three files at the upload limit); a request over it is
@@ -35,6 +39,7 @@ from thermo.temperatures import parse_temperatures, temperature_range
 
 #: Defaults of the settings (environment variable → value).
 DEFAULTS = {"MODEHEAT_MAX_TEMPERATURES": 20_000, "MODEHEAT_MAX_QHA_TEMPERATURES": 2_000,
+            "MODEHEAT_MAX_ELECTRONIC_WORK": 2_000_000,
             "MODEHEAT_MAX_JSON_DEPTH": 64, "MODEHEAT_MAX_JSON_CONTAINERS": 200_000, "MODEHEAT_MAX_INFLIGHT_MB": None}
 #: Files at the upload limit a worker decodes at once when ``MODEHEAT_MAX_INFLIGHT_MB`` is not set.
 INFLIGHT_FILES = 3
@@ -75,6 +80,16 @@ def checked_count(values, what="temperatures", name="MODEHEAT_MAX_TEMPERATURES")
         raise OptionError(f"{np.size(values):,} {what} asked for; this page computes at most {limit:,} "
                           f"(server setting {name}; the command line allows more)")
     return values
+
+
+def checked_work(work, what, name="MODEHEAT_MAX_ELECTRONIC_WORK"):
+    """Refuse (one-line OptionError) a request whose ``work`` (points × temperatures) exceeds the setting ``name``."""
+    limit = setting(name)
+    if work > limit:
+        raise OptionError(f"{what}: {work:,} DOS points × temperatures asked for; this page computes at most "
+                          f"{limit:,} (server setting {name}): fewer or lower temperatures, a coarser DOS, "
+                          "or the command line")
+    return work
 
 
 def temperatures(t_min, t_max, step, name="MODEHEAT_MAX_TEMPERATURES"):

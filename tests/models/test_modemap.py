@@ -127,3 +127,27 @@ def test_share_table_columns_come_from_the_column_schema():
     np.testing.assert_allclose(sums.to_numpy(), 1.0, rtol=1e-9)
     width = table[find(table, "bin_high")] - table[find(table, "bin_low")]
     np.testing.assert_allclose(table[find(table, "frequency")], table[find(table, "bin_low")] + width / 2)
+
+
+def test_mode_share_map_in_blocks_of_nodes_equals_one_pass(monkeypatch):
+    # the map is summed a block of nodes at a time (bounded memory); blocks of 7 × M elements must give the
+    # same shares as one pass, checked against the direct per-node sum
+    import thermo.models.modemap as module
+    from thermo.kernels.planck import heat_capacity_kernel, reduced_frequency
+    from thermo.kernels.quadrature import mode_quadrature
+    from thermo.spectrum import PhononDOS
+    nu = np.linspace(0.0, 6.0, 401)                                     # invented Debye ν² spectrum
+    dos = PhononDOS(nu, 9.0 * nu ** 2 / 6.0 ** 3, atoms=1)
+    t = np.array([3.0, 40.0, 300.0])
+    one = mode_share_map(dos, t, bins=9)
+    monkeypatch.setattr(module, "_BLOCK", 7 * t.size)
+    blocks = mode_share_map(dos, t, bins=9)
+    for key in ("heat_capacity_share", "entropy_share", "cumulative_heat_capacity_share"):
+        np.testing.assert_allclose(blocks[key], one[key], rtol=1e-13, atol=1e-15)
+    nodes, weights = mode_quadrature(dos)
+    keep = (weights > 0) & (nodes > 0)
+    nodes, weights = nodes[keep], weights[keep]
+    index = np.clip(np.searchsorted(one["bin_edges_thz"], nodes, side="right") - 1, 0, 8)
+    c = weights[:, None] * heat_capacity_kernel(reduced_frequency(nodes, t))
+    direct = np.array([c[index == b].sum(axis=0) for b in range(9)])
+    np.testing.assert_allclose(blocks["heat_capacity_share"], direct / direct.sum(axis=0), rtol=1e-12, atol=1e-15)

@@ -10,6 +10,7 @@ import base64
 import json
 import threading
 
+import numpy as np
 import pytest
 
 from tests.spectra import debye_table, dos_text
@@ -154,3 +155,18 @@ def test_calorimetry_download_ignores_the_browsers_upload_limit():
     big = {"name": "e.dat", "contents": _url(b"0" * (intake.upload_limit() + 10)), "fields": {}}
     with pytest.raises(intake.UploadRefused, match="upload limit"):
         calorimetry.calorimetry_download(*args[:-1], big, {"max_upload_bytes": 10 ** 12})
+
+
+def test_electronic_page_refuses_work_over_its_budget():
+    from thermo.electronic.segments import window_work
+    from webapp.demo import electronic_demo_entry
+    entry = electronic_demo_entry()
+    edos = intake.electronic_dos(entry)
+    # 20,000 temperatures to 2,000 K of the demo E-DOS: every point × every temperature, refused before computing
+    assert window_work(edos.energies_ev, np.arange(0.0, 2000.0, 0.1)) > budget.setting("MODEHEAT_MAX_ELECTRONIC_WORK")
+    out = electronic.draw(entry, 0, 1999.9, 0.1, None)
+    assert "at most 2,000,000" in repr(out[-1]) and "MODEHEAT_MAX_ELECTRONIC_WORK" in repr(out[-1])
+    with pytest.raises(Exception, match="at most 2,000,000"):
+        electronic.table_download("csv", entry, 0, 1999.9, 0.1)
+    out = electronic.draw(entry, 0, 1000, 5, None)                    # the page's usual range: computed
+    assert "at most" not in repr(out[-1]) and len(out[1].data) == 1

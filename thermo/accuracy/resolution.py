@@ -364,10 +364,11 @@ def resolution_parts(dos, temperatures, resolution=None):
         res_aux = _resolution_sums(floor, d_res, aux)
         sm_aux = _smearing_sums(floor, d_sm, m_sm, aux)
         res_hot = res_aux[:, np.searchsorted(aux, th)]
-        near = (aux[None, :] >= th[:, None] / ENVELOPE) & (aux[None, :] <= th[:, None] * ENVELOPE)
+        lo = np.searchsorted(aux, th / ENVELOPE, side="left")
+        hi = np.searchsorted(aux, th * ENVELOPE, side="right")
         out_res[:, hot] = RESOLUTION_SAFETY * res_hot
         for i in range(4):
-            out_sm[i, hot] = SMEARING_FACTOR * np.max(np.where(near, sm_aux[i][None, :], 0.0), axis=1)
+            out_sm[i, hot] = SMEARING_FACTOR * np.maximum(window_max(sm_aux[i], lo, hi), 0.0)
     if histogram:
         # a bin's modes sit anywhere in it, and the zero-point energy is linear in ν, so a signed change
         # cancels: the count moved, unsigned, bounds it
@@ -376,3 +377,29 @@ def resolution_parts(dos, temperatures, resolution=None):
         out_sm[2] += zero_point
         out_sm[3] += zero_point
     return out_res, out_sm
+
+
+def window_max(values, lo, hi):
+    """``max(values[lo[j]:hi[j]])`` for each j (every window non-empty), in O(A log A) time and O(A) memory.
+
+    A sparse table of running maxima over 2^k neighbours, one level at a time: each window is covered by two
+    blocks of the largest power of two that fits it.  No window × value array is formed.
+
+    Examples
+    --------
+    >>> window_max(np.array([3.0, -1.0, 4.0, 1.0, 5.0]), np.array([0, 1, 3]), np.array([2, 4, 4]))
+    array([3., 4., 1.])
+    """
+    values = np.asarray(values, dtype=float)
+    lo, hi = np.asarray(lo, dtype=np.int64), np.asarray(hi, dtype=np.int64)
+    level = np.floor(np.log2(np.maximum(hi - lo, 1))).astype(np.int64)
+    out = np.empty(lo.shape)
+    table, k = values, 0
+    while True:
+        pick = np.flatnonzero(level == k)
+        if pick.size:
+            out[pick] = np.maximum(table[lo[pick]], table[hi[pick] - (1 << k)])
+        if not (level > k).any():
+            return out
+        table = np.maximum(table[:-(1 << k)], table[(1 << k):])
+        k += 1

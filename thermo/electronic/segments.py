@@ -30,6 +30,7 @@ Examples
 from __future__ import annotations
 
 import numpy as np
+from scipy import constants as sc
 
 from .fermi import AT_ZERO, occupation_tails
 
@@ -197,3 +198,32 @@ def between_fermi_level_and(energies, dos, mu):
     count = np.sign(mu) * (width * (ga + gb) / 2).sum(0)
     energy = -(width / 6 * (ga * np.abs(a - mu) + 4 * gm * np.abs(m - mu) + gb * np.abs(b - mu))).sum(0)
     return count, energy
+
+
+def window_work(energies, temperatures):
+    r"""DOS points × temperatures a table evaluates: the points within :data:`WINDOW_KT` k_BT of E_F, summed over T.
+
+    Parameters
+    ----------
+    energies : numpy.ndarray, shape (K,)
+        Node energies [eV relative to E_F], increasing.
+    temperatures : array_like, shape (M,)
+        T [K]; T = 0 costs nothing.
+
+    Returns
+    -------
+    int
+        :math:`\sum_j \#\{k : |E_k| \le W k_BT_j\}` with W = :data:`WINDOW_KT` (at least 2 per hot T) —
+        the size of the work of :func:`thermal_sums` at μ ≈ E_F, which a caller can hold to a budget
+        before computing.
+
+    Examples
+    --------
+    >>> window_work(np.linspace(-1.0, 1.0, 2001), [0.0, 1.0, 1e6])   # 1 K: ±6.9 meV; 10⁶ K: every point
+    2014
+    """
+    e = np.asarray(energies, dtype=float)
+    t = np.asarray(temperatures, dtype=float)
+    half = WINDOW_KT * sc.k / sc.electron_volt * t[t > 0]
+    inside = np.searchsorted(e, half, side="right") - np.searchsorted(e, -half, side="left")
+    return int(np.maximum(inside, 2).sum())

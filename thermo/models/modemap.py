@@ -27,10 +27,25 @@ register_quantity("entropy_share", "S share", "fixed", "1", "", "share of S carr
 SHARE_TABLE = ("temperature", "frequency", "bin_low", "bin_high", "heat_capacity_v_share", "entropy_share")
 
 
-def _binned(values, index, bins):
-    out = np.zeros((bins, values.shape[1]))
-    np.add.at(out, index, values)
-    return out
+#: Node × temperature values evaluated at once: memory is bounded by blocks of about 16 MB.
+_BLOCK = 1 << 21
+
+
+def _binned(nodes, weights, index, t, bins):
+    """(C_v, S) kernels weighted and summed per bin [(B, M) each], over blocks of nodes sorted by bin."""
+    order = np.argsort(index, kind="stable")
+    nodes, weights, index = nodes[order], weights[order], index[order]
+    heat, entropy = np.zeros((bins, t.size)), np.zeros((bins, t.size))
+    step = max(1, _BLOCK // max(t.size, 1))
+    for lo in range(0, nodes.size, step):
+        part = slice(lo, lo + step)
+        idx = index[part]
+        starts = np.flatnonzero(np.r_[True, idx[1:] != idx[:-1]])
+        x = reduced_frequency(nodes[part], t)
+        w = weights[part, None]
+        heat[idx[starts]] += np.add.reduceat(w * heat_capacity_kernel(x), starts, axis=0)
+        entropy[idx[starts]] += np.add.reduceat(w * entropy_kernel(x), starts, axis=0)
+    return heat, entropy
 
 
 def _share(binned, hot):
@@ -69,7 +84,8 @@ def mode_share_map(dos, temperatures, bins=DEFAULT_BINS):
               s^{S}_{ij} = \frac{w_i s(x_{ij})}{\sum_i w_i s(x_{ij})},\qquad
               x_{ij} = \frac{h\nu_i}{k_BT_j},
 
-    then summed over the nodes in each bin.  Nodes at ν = 0 (whose entropy
+    then summed over the nodes in each bin, a block of nodes at a time (memory
+    bounded whatever the number of nodes).  Nodes at ν = 0 (whose entropy
     kernel diverges) are left out.
 
     References
@@ -94,9 +110,7 @@ def mode_share_map(dos, temperatures, bins=DEFAULT_BINS):
     nodes, weights = nodes[keep], weights[keep]
     edges = np.linspace(0.0, float(nodes.max()), bins + 1)
     index = np.clip(np.searchsorted(edges, nodes, side="right") - 1, 0, bins - 1)
-    x = reduced_frequency(nodes, t)
-    heat = _binned(weights[:, None] * heat_capacity_kernel(x), index, bins)
-    entropy = _binned(weights[:, None] * entropy_kernel(x), index, bins)
+    heat, entropy = _binned(nodes, weights, index, t, bins)
     heat_share = _share(heat, t > 0)
     return {"frequency_thz": 0.5 * (edges[1:] + edges[:-1]), "bin_edges_thz": edges, "temperature_K": t,
             "heat_capacity_share": heat_share, "entropy_share": _share(entropy, t > 0),

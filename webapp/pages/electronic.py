@@ -11,6 +11,7 @@ from dash import Input, Output, State, callback, dcc, html
 
 from thermo.columns import column_name
 from thermo.electronic import CAUTIONS, electronic_table
+from thermo.electronic.segments import window_work
 from thermo.unit_names import ELECTRON_ENERGY_UNITS
 
 from .. import budget, cache, intake
@@ -86,6 +87,7 @@ def computed(stored, temperatures, max_bytes=None):
     """(ElectronicDOS, table) of the stored file and fields, memoised on content, options and temperatures."""
     edos = intake.electronic_dos(stored, max_bytes)
     t = np.asarray(temperatures, dtype=float)
+    budget.checked_work(window_work(edos.energies_ev, t), stored["name"])
     options = tuple(sorted(intake.electronic_options(stored.get("fields")).items()))
     key = ("electronic table", edos.source.get("sha256"), stored["name"], options, hashlib.sha1(t.tobytes()).hexdigest())
     return edos, cache.result(key, lambda: electronic_table(edos, t))
