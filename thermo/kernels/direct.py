@@ -80,7 +80,8 @@ def direct_grid_sums(nodes_thz, weights, temperatures, keys=SUM_KEYS):
     zero = nu == 0.0
     x = H_OVER_K_THZ * nu[~zero, None] / t[None, :]
     wp = w[~zero]
-    out = {key: wp @ KERNELS[key](x) for key in keys}
+    # einsum, not wp @ K: a threaded BLAS matrix-vector product stalled for milliseconds on a busy machine
+    out = {key: np.einsum("n,nm->m", wp, KERNELS[key](x)) for key in keys}
     if zero.any():
         w0 = float(w[zero].sum())
         for key in {"heat_capacity", "thermal_energy"}.intersection(keys):
