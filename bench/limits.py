@@ -187,7 +187,8 @@ def _failure(result):
     text = repr(result)
     for marker in ("mh-msg-error", "'error'", "unexpected error"):
         if marker in text:
-            return text[text.index(marker):][:300]
+            i = text.index(marker)
+            return text[max(0, i - 300):i + 50]          # the message comes before its class name
     return ""
 
 
