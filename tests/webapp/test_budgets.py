@@ -128,6 +128,10 @@ def test_compare_table_temperatures_are_held_to_the_page_budget(ws):
     assert "at most 20,000" in repr(out[-1]) and "MODEHEAT_MAX_TEMPERATURES" in repr(out[-1])
     with pytest.raises(Exception, match="at most 20,000"):
         compare.comparison_download("csv", two, ids, ids[0], "1:20001:1", "formula")
+    out = compare.draw(two, ids, ids[0], "entropy", "relative", "1:201:1", 25, 500, 25, "formula")
+    assert "at most 200 temperatures" in repr(out[-1])                  # the on-screen table: 200 rows a run
+    _, content = compare.comparison_download("csv", two, ids, ids[0], "1:201:1", "formula")
+    assert content.decode().count("\n") > 2 * 201                      # the download carries them all
     out = compare.draw(two, ids, ids[0], "entropy", "relative", "5,298.15", 25, 500, 25, "formula")
     assert "at most" not in repr(out[-1]) and "298.15" in repr(out[2])
 

@@ -31,6 +31,9 @@ VIEWS = [{"label": "relative to the reference [%]", "value": "relative"},
          {"label": "absolute (in the quantity's unit)", "value": "absolute"}]
 KEYS = [q["value"] for q in QUANTITIES]
 SYMBOLS = {q["value"]: q["label"] for q in QUANTITIES}
+#: Temperatures the on-screen difference table shows at most (a row of cells per run and temperature); the
+#: download carries up to the page budget (``MODEHEAT_MAX_TEMPERATURES``).
+TABLE_SHOWN = 200
 TABLE_TEMPERATURES = ",".join(f"{t:g}" for t in DEFAULT_TEMPERATURES)
 
 
@@ -232,6 +235,9 @@ def draw(workspace, ids, reference, quantity, view, spec, t_min, t_max, step, pe
     _, _, _, _, curves = compared(workspace, ids, reference, grid, per, item)
     over, diff = figures(curves, quantity or "entropy", per, view)
     table_t = budget.parsed_temperatures(spec or TABLE_TEMPERATURES)
+    if table_t.size > TABLE_SHOWN:
+        raise OptionError(f"the table shows at most {TABLE_SHOWN} temperatures ({table_t.size:,} asked for); "
+                          "the download carries up to the page's temperature budget")
     _, _, _, _, table = compared(workspace, ids, reference, table_t, per, item)
     return over, diff, difference_table(table, per, view), note
 
