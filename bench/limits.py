@@ -105,7 +105,8 @@ def _page(name, paths):
         # the map at its 120 temperatures; the explorer's slider at 10³ K (its position is log10 T)
         return lambda: (modemap.draw_map(ws, "heat_capacity_share", 1.0, 2000.0), modemap.draw_explorer(ws, 3.0))
     if name == "page_displacements":
-        return lambda: displacements.draw(ws, t0, t1, dt, "Ly=12.4", 2.5)
+        # 200 temperatures: 932,139 frequencies × 200 within the pair budget (thermo.vibration.species.MAX_PAIRS)
+        return lambda: displacements.draw(ws, 0.0, 1990.0, 10.0, "Ly=12.4", 2.5)
     if name == "page_polynomials":
         return lambda: polynomials.draw(ws, "shomate", 298.15, 1500.0, None, 0.0, "cr", "", "json")
     if name == "page_export":
@@ -126,9 +127,8 @@ def _cli(name, paths, folder):
         "cli_table": ["table", paths["dos"], "--temperatures", "0:99999.9:0.1", "--output", out + ".csv", "--force"],
         "cli_models": ["models", paths["dos"], "--temperatures", "0:99999.9:0.1", "--output", out + ".json",
                        "--force"],
-        "cli_displacements": ["displacements", paths["dos"], "--temperatures", "0:99999.9:0.1", "--masses", "Ly=12.4",
-                              "--output",
-                              out + ".csv", "--force"],
+        "cli_displacements": ["displacements", paths["dos"], "--temperatures", "0:1990:10", "--masses", "Ly=12.4",
+                              "--output", out + ".csv", "--force"],         # within MAX_PAIRS, as the page
         "cli_calorimetry": ["calorimetry", paths["cp"], "--dos", paths["dos"], "--output", out + ".json", "--force"],
         "cli_quasiharmonic": ["quasiharmonic", str(ROOT / "sample_dos" / "volumes" / "springium_volumes.csv"),
                               "--temperatures", "0:1999.9:0.1", "--output", out + ".csv", "--force"],
@@ -187,7 +187,8 @@ def _failure(result):
     text = repr(result)
     for marker in ("mh-msg-error", "'error'", "unexpected error"):
         if marker in text:
-            return text[text.index(marker):][:300]
+            i = text.index(marker)
+            return text[max(0, i - 300):i + 50]          # the message comes before its class name
     return ""
 
 

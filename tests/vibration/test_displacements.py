@@ -214,3 +214,19 @@ def test_one_species_with_two_atoms_per_formula_unit():
     np.testing.assert_allclose(r["msd"], [willis_pryor_msd(0.0), willis_pryor_msd(300.0 / THETA)], rtol=1e-5)
     same = mean_square_displacement(dos, [0.0, 300.0], formula="Si2")["Si"]
     assert same["atoms"] == 2.0
+
+
+def test_displacements_in_blocks_of_temperatures_equal_one_pass_and_refuse_over_budget(monkeypatch):
+    # issue 26: a 10⁶-row DOS at 10⁶ temperatures asked for a 6.8 TiB array; now a block of temperatures at a
+    # time (the same numbers) and a one-line refusal past the pair budget
+    import thermo.vibration.species as species
+    from thermo.errors import OptionError
+    dos = load_dos(dos_text(*debye_table(THETA, points=301)), low_frequency="off")
+    t = np.linspace(0.0, 900.0, 41)
+    one = mean_square_displacement(dos, t, masses={"X": MASS})["X"]["msd"]
+    monkeypatch.setattr(species, "BLOCK", 3 * 300)                     # three temperatures a block
+    blocks = mean_square_displacement(dos, t, masses={"X": MASS})["X"]["msd"]
+    np.testing.assert_allclose(blocks, one, rtol=1e-14, atol=0)
+    monkeypatch.setattr(species, "MAX_PAIRS", 300 * 40)
+    with pytest.raises(OptionError, match=r"at most 1\.2e\+04 are computed.*MAX_PAIRS"):
+        mean_square_displacement(dos, t, masses={"X": MASS})

@@ -23,6 +23,11 @@ from .debye_waller import analytic_displacement_integral
 
 #: Label of the mass-weighted mean over all atoms (no partial DOS).
 ALL_ATOMS = "all atoms (mass-weighted mean)"
+#: Frequency × temperature elements evaluated at once (about 32 MB a block): memory bounded at any size.
+BLOCK = 1 << 22
+#: Most frequency × temperature pairs one displacement sum evaluates (library, command line and pages; a few
+#: seconds): a larger request is refused in one line rather than computed for minutes.
+MAX_PAIRS = 2 * 10 ** 8
 
 
 def _element_mass(name):
@@ -41,14 +46,29 @@ def _counts_from_formula(formula):
     return {str(el): float(n) for el, n in parsed.atoms.items()}
 
 
+def _coth_sum(nodes, coefficients, t):
+    """``coefficients @ coth(hν/2k_BT)`` [(M,)] over the temperatures, a block of temperatures at a time."""
+    pairs = nodes.size * t.size
+    if pairs > MAX_PAIRS:
+        raise OptionError(f"displacements: {nodes.size:,} frequencies × {t.size:,} temperatures = {pairs:.3g} "
+                          f"pairs; at most {MAX_PAIRS:.3g} are computed (thermo.vibration.species.MAX_PAIRS): "
+                          "ask for fewer temperatures or give a coarser DOS")
+    out = np.empty(t.shape)
+    step = max(1, BLOCK // max(nodes.size, 1))
+    for lo in range(0, t.size, step):
+        with np.errstate(divide="ignore"):
+            coth = 1.0 + 2.0 * occupation(reduced_frequency(nodes, t[lo:lo + step]))
+        out[lo:lo + step] = coefficients @ coth
+    return out
+
+
 def _mode_integrals(modes, weights, share, t):
     """:func:`_integrals` of a mode list: a sum over its modes plus ``share`` of its continuum."""
     nu, w = modes.frequency_thz, np.asarray(weights, float)
     extra_nu, extra_w = modes.extra
     nodes, counts = np.concatenate([nu, extra_nu]), np.concatenate([w, share * extra_w])
     pos = nodes > 0
-    coth = 1.0 + 2.0 * occupation(reduced_frequency(nodes[pos], t))
-    main = (counts[pos] / nodes[pos]) @ coth
+    main = _coth_sum(nodes[pos], counts[pos] / nodes[pos], t)
     inverse_square = float(np.sum(counts[pos] / nodes[pos] ** 2))
     total = float(np.sum(counts))
     for fit in modes.continuum:
@@ -69,9 +89,7 @@ def _integrals(dos, column, share, t):
     column = np.asarray(column, float)
     w = column * trapezoid_weights(nu, dos.dos)
     pos = nu > 0
-    with np.errstate(divide="ignore"):
-        coth = 1.0 + 2.0 * occupation(reduced_frequency(nu[pos], t))
-    main = (w[pos] / nu[pos]) @ coth
+    main = _coth_sum(nu[pos], w[pos] / nu[pos], t)
     inverse_square = float(np.sum(w[pos] / nu[pos] ** 2))
     modes = float(np.sum(w))
     zero = np.flatnonzero(~pos)
