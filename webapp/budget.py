@@ -12,7 +12,7 @@ Every setting is read once by :func:`configure` into the Flask config
 ``MODEHEAT_MAX_ELECTRONIC_WORK``
     electronic-DOS points × temperatures one Electronic page request
     evaluates (:func:`thermo.electronic.segments.window_work`; default
-    2,000,000, a few seconds);
+    5,000,000, about 5 s);
 ``MODEHEAT_MAX_INFLIGHT_MB``
     decoded upload bytes a worker process holds at once, summed over its
     threads (default three files at the upload limit); a request over it is
@@ -39,7 +39,7 @@ from thermo.temperatures import parse_temperatures, temperature_range
 
 #: Defaults of the settings (environment variable → value).
 DEFAULTS = {"MODEHEAT_MAX_TEMPERATURES": 20_000, "MODEHEAT_MAX_QHA_TEMPERATURES": 2_000,
-            "MODEHEAT_MAX_ELECTRONIC_WORK": 2_000_000,
+            "MODEHEAT_MAX_ELECTRONIC_WORK": 5_000_000,
             "MODEHEAT_MAX_JSON_DEPTH": 64, "MODEHEAT_MAX_JSON_CONTAINERS": 200_000, "MODEHEAT_MAX_INFLIGHT_MB": None}
 #: Files at the upload limit a worker decodes at once when ``MODEHEAT_MAX_INFLIGHT_MB`` is not set.
 INFLIGHT_FILES = 3

@@ -169,8 +169,8 @@ def test_electronic_page_refuses_work_over_its_budget():
     # 20,000 temperatures to 2,000 K of the demo E-DOS: every point × every temperature, refused before computing
     assert window_work(edos.energies_ev, np.arange(0.0, 2000.0, 0.1)) > budget.setting("MODEHEAT_MAX_ELECTRONIC_WORK")
     out = electronic.draw(entry, 0, 1999.9, 0.1, None)
-    assert "at most 2,000,000" in repr(out[-1]) and "MODEHEAT_MAX_ELECTRONIC_WORK" in repr(out[-1])
-    with pytest.raises(Exception, match="at most 2,000,000"):
+    assert "at most 5,000,000" in repr(out[-1]) and "MODEHEAT_MAX_ELECTRONIC_WORK" in repr(out[-1])
+    with pytest.raises(Exception, match="at most 5,000,000"):
         electronic.table_download("csv", entry, 0, 1999.9, 0.1)
     out = electronic.draw(entry, 0, 1000, 5, None)                    # the page's usual range: computed
     assert "at most" not in repr(out[-1]) and len(out[1].data) == 1
