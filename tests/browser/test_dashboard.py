@@ -5,7 +5,6 @@ Run: ``pytest tests/browser --headless``.  Test DOS files are invented
 """
 
 import json
-import time
 from pathlib import Path
 
 import numpy as np
@@ -247,7 +246,7 @@ def test_figure_image_format_choice_reaches_the_plots(duo):
     fmt = "gd._context.toImageButtonOptions.format"
     assert js_graph(duo.driver, "ex-preview-graph", fmt) == "png"
     duo.driver.find_element(By.CSS_SELECTOR, "#ex-image input[value='svg']").click()
-    time.sleep(0.5)
+    until(lambda: '"svg"' in (duo.driver.execute_script("return sessionStorage.getItem('mh-prefs');") or ""))
     duo.driver.find_element(By.CSS_SELECTOR, "a[href='/thermodynamics'].mh-nav-link").click()
     wait_drawn(duo.driver, ["th-cv-graph"])
     until(lambda: js_graph(duo.driver, "th-cv-graph", fmt) == "svg", 10)

@@ -100,7 +100,7 @@ def test_upload_survives_reload_and_restart_and_stays_private(tmp_path, browsers
         until(lambda: src.name in text_of(first, "#sp-list"), 30)
         before = summary(first)
         assert src.name in before and entropy in before
-        time.sleep(1.0)                       # let the store write of the last edit land
+        until(lambda: _stored(w, src.name), 30)          # the server's store holds the upload
         first.refresh()
         assert summary(first) == before
         _stop(server)
@@ -127,7 +127,7 @@ def test_upload_survives_reload_and_restart_and_stays_private(tmp_path, browsers
         group.send_keys("convergence: mesh")
         first.find_element(By.ID, "ws-save").click()
         until(lambda: "convergence: mesh" in text_of(first, "#ws-list"), 20)
-        time.sleep(1.0)
+        until(lambda: getattr(_stored(w, src.name), "group", "") == "convergence: mesh", 30)
         first.refresh()
         until(lambda: "convergence: mesh" in text_of(first, "#ws-list"), 30)
         until(lambda: first.find_element(By.ID, "ws-name").get_attribute("value") == src.name, 30)
@@ -136,13 +136,13 @@ def test_upload_survives_reload_and_restart_and_stays_private(tmp_path, browsers
         assert src.name in first.switch_to.alert.text
         first.switch_to.alert.accept()
         until(lambda: src.name not in text_of(first, "#ws-list"), 20)
-        time.sleep(1.0)
+        until(lambda: _stored(w, src.name) is None, 30)
         first.refresh()
         until(lambda: "springium" in text_of(first, "#ws-list"), 30)
         assert src.name not in text_of(first, "#ws-list")
         first.find_element(By.ID, "ws-undo").click()
         until(lambda: src.name in text_of(first, "#ws-list"), 20)
-        time.sleep(1.0)
+        until(lambda: _stored(w, src.name), 30)
         _stop(server)
         server = _serve(w)
         first.get(URL + "/workspace")
@@ -170,7 +170,7 @@ def test_named_workspace_created_in_one_browser_opened_by_key_in_another(tmp_pat
         first.find_element(By.CSS_SELECTOR, "#mh-upload input[type=file]").send_keys(str(src))
         until(lambda: src.name in text_of(first, "#sp-list"), 30)
         assert "springium" not in text_of(first, "#sp-list")
-        time.sleep(1.0)
+        until(lambda: _stored(tmp_path / "w.sqlite", src.name), 30)
 
         second = browsers()
         second.get(URL + "/workspace")
@@ -185,6 +185,13 @@ def test_named_workspace_created_in_one_browser_opened_by_key_in_another(tmp_pat
         assert src.name not in text_of(second, "#ws-list")
     finally:
         _stop(server)
+
+
+def _stored(path, name):
+    """The live dataset ``name`` as the server's store holds it (any space), None while it is not written."""
+    from thermo.workspace.store import Workspace
+    spaces = Workspace(path).spaces(kinds=("local", "named", "browser"))
+    return next((d for sp in spaces for d in sp.datasets() if d.name == name), None)
 
 
 def _deleted_rows(path):
