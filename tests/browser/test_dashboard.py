@@ -53,7 +53,14 @@ def drawn(driver, graph_id):
 
 
 def wait_drawn(driver, graph_ids, timeout=30):
-    until(lambda: all(drawn(driver, g) > 0 for g in graph_ids), timeout)
+    try:
+        until(lambda: all(drawn(driver, g) > 0 for g in graph_ids), timeout)
+    except TimeoutError as exc:          # name the page, the graphs left empty and what the browser logged
+        empty = [g for g in graph_ids if not drawn(driver, g)]
+        logs = [e.get("message", "")[:300] for e in driver.get_log("browser")]
+        said = driver.execute_script("return Array.from(document.querySelectorAll('[id$=-messages], .gtitle, "
+                                     ".annotation-text')).map(e => e.textContent).join(' | ');")
+        raise TimeoutError(f"{driver.current_url}: not drawn {empty}; page says {said!r}; browser log {logs}") from exc
 
 
 def page_graph_ids(driver):

@@ -238,7 +238,10 @@ def layout(**_query):
                               multi=True, hint="a table sent from the Quasi-harmonic or Calorimetry page is offered "
                                                "first, beside the active dataset"),
                    c.radio("ph-unit", UNIT_CHOICES, "eV", "Static energy unit")),
-        dash_table.DataTable(id="ph-rows", columns=INPUT_COLUMNS, data=[], editable=True,
+        # the default phases' rows from the start: the first draw already compares them (a first draw of
+        # "choose two phases" racing the real one could leave a graph on the message)
+        dash_table.DataTable(id="ph-rows", columns=INPUT_COLUMNS, data=input_rows(DEFAULT_CHOICE, None, None),
+                             editable=True,
                              style_table={"maxWidth": "900px"}, style_cell={"textAlign": "left"}),
         c.controls(*c.temperature_fields("ph", 0, 1000, 10),
                    c.text("ph-pressures", "0, 1, 2", "pressures p [GPa] (volume sets)"),
