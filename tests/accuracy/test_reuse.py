@@ -104,3 +104,18 @@ def test_provenance_from_the_kept_digest_equals_one_from_a_fresh_breakdown():
         assert record["warnings"] == fresh["warnings"]
     first["error_breakdown"]["heat_capacity_v"].clear()        # a caller's change stays its own
     assert provenance(dos, t)["error_breakdown"] == fresh["error_breakdown"]
+
+
+def test_table_with_errors_computes_one_breakdown_at_many_temperatures(monkeypatch, tmp_path):
+    # 40,001 temperatures: more than the DOS keeps (reuse.KEEP_TEMPERATURES), so only passing the one
+    # breakdown to the error columns and the provenance avoids a second computation (issue 30)
+    from thermo.cli.main import main
+    path = tmp_path / "dos.dat"
+    nu = np.linspace(0.0, 6.0, 301)
+    path.write_text("# THz\n" + "\n".join(f"{a:.6f} {0.04 * a * a:.9g}" for a in nu))
+    calls = _counting(monkeypatch)
+    out = tmp_path / "t.csv"
+    assert main(["table", str(path), "--atoms", "1", "--temperatures", "0:4000:0.1", "--errors",
+                 "--output", str(out)]) == 0
+    assert calls == [40_001]
+    assert "entropy_error_J_per_mol_K" in out.read_text().split("\n# ")[-1]

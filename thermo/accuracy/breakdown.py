@@ -48,7 +48,8 @@ from ..preparation.lowfreq import WINDOW_MODES, WINDOW_SPREAD
 from dataclasses import replace
 
 from .rebuild import rebuild
-from .resolution import analyse_resolution, resolution_parts
+from .resolution import analyse_resolution, resolution_parts, window_max
+from .subgrid import MARGIN as SUBGRID_MARGIN, ROUNDING as SUBGRID_ROUNDING, envelope, sub_grid
 from scipy import constants as sc
 
 #: Quantities of the breakdown, in the order of :func:`thermo.kernels.sums.molar_values`.
@@ -88,7 +89,7 @@ def _fit_part(dos, t):
     return out
 
 
-def mode_list_part(dos, temperatures):
+def mode_list_part(dos, temperatures, sample=None, values=None):
     r"""Error of C_v, S, U, F of a mode list from its long-wave treatment and the mesh near Γ.
 
     Parameters
@@ -97,6 +98,12 @@ def mode_list_part(dos, temperatures):
         A mode list (``dos.modes``) with a continuum and its alternative treatments.
     temperatures : array_like, shape (M,)
         Temperatures [K], >= 0.
+    sample : numpy.ndarray, optional
+        Temperatures [K] at which the relative spread is sampled instead of ``temperatures``
+        (:func:`thermo.accuracy.subgrid.sub_grid`; the window's largest is then raised by
+        :data:`thermo.accuracy.subgrid.MARGIN`).
+    values : numpy.ndarray, shape (4, M), optional
+        C_v, S, U, F of the list at ``temperatures`` (needed with ``sample``).
 
     Returns
     -------
@@ -129,7 +136,8 @@ def mode_list_part(dos, temperatures):
     if not alternatives:
         return np.zeros((4, t.size))
     hot = t[t > 0]
-    aux = np.unique(np.concatenate([t, np.geomspace(hot.min() / LIST_ENVELOPE, hot.max() * LIST_ENVELOPE, 60)
+    points = t if sample is None else np.asarray(sample, dtype=float)
+    aux = np.unique(np.concatenate([points, np.geomspace(hot.min() / LIST_ENVELOPE, hot.max() * LIST_ENVELOPE, 60)
                                     if hot.size else []]))
     base = _values(dos, aux)
     spread, added = np.zeros_like(base), np.zeros_like(base)
@@ -145,11 +153,23 @@ def mode_list_part(dos, temperatures):
     scale[3] = scale[2]
     with np.errstate(divide="ignore", invalid="ignore"):
         rel = np.where(scale > 0, raw / scale, 0.0)
+    if sample is None:
+        at = scale[:, np.searchsorted(aux, t)]
+        raise_by = 1.0
+    else:                               # the window's largest relative error, sampled: raised (.subgrid)
+        at = np.abs(np.asarray(values, dtype=float))
+        at[3] = at[2]
+        raise_by = 1.0 + SUBGRID_MARGIN
     out = np.zeros((4, t.size))
-    for j, temp in enumerate(t):
-        i = int(np.searchsorted(aux, temp))
-        near = (aux >= temp / LIST_ENVELOPE) & (aux <= temp * LIST_ENVELOPE) if temp > 0 else aux == 0
-        out[:, j] = scale[:, i] * rel[:, near].max(axis=1)
+    warm = t > 0
+    lo = np.searchsorted(aux, t[warm] / LIST_ENVELOPE, side="left")
+    hi = np.searchsorted(aux, t[warm] * LIST_ENVELOPE, side="right")
+    if sample is not None:              # one sample past each end: the window's edges lie between samples
+        lo, hi = np.maximum(lo - 1, 0), np.minimum(hi + 1, aux.size)
+    for i in range(4):
+        out[i, warm] = at[i, warm] * raise_by * window_max(rel[i], lo, hi)
+    if (~warm).any():
+        out[:, ~warm] = at[:, ~warm] * raise_by * rel[:, aux == 0].max(axis=1, initial=0.0)[:, None]
     return out
 
 
@@ -184,7 +204,9 @@ def error_breakdown(dos, temperatures):
     :math:`\delta_{lf} = \max_w |Q_w - Q| + |\partial Q/\partial A|\,\sigma_A`
     over the alternative treatments w; resolution and smearing parts as in
     :func:`~thermo.accuracy.resolution.resolution_parts`; relative:
-    :math:`\delta/|Q|` (0 where Q = 0, at T = 0).
+    :math:`\delta/|Q|` (0 where Q = 0, at T = 0).  Over more than 20,000 temperatures the parts are
+    evaluated on a sub-grid in :math:`\ln T` and bounded from above at each temperature
+    (:mod:`thermo.accuracy.subgrid`); the values are those of every temperature.
 
     References
     ----------
@@ -201,8 +223,26 @@ def error_breakdown(dos, temperatures):
     """
     t = np.atleast_1d(np.asarray(temperatures, dtype=float)).ravel()
     base = _values(dos, t)
+    nodes = sub_grid(t)
+    if nodes is None:
+        parts, resolution = _parts(dos, t, base)
+    else:             # many temperatures: the parts on a sub-grid in ln T, bounded from above (.subgrid)
+        coarse, resolution = _parts(dos, nodes, _values(dos, nodes), widen=True)
+        scale = np.abs(base)
+        scale[3] = np.abs(base[2]) + t * np.abs(base[1])
+        floor = SUBGRID_ROUNDING * scale          # where a part is two tables' rounding noise (subgrid notes)
+        parts = {key: envelope(nodes, value, t) + np.any(value, axis=1)[:, None] * floor   # none where it is 0
+                 for key, value in coarse.items()}
+        if dos.modes is not None and not dos.source.get("histogram"):   # relative spread × the value at T
+            parts["low_frequency"] = mode_list_part(dos, t, sample=nodes, values=base)
+    return _frame(t, base, parts, resolution)
+
+
+def _parts(dos, t, base, widen=False):
+    """({part: (4, M) error bound}, resolution) of ``dos`` at ``t`` whose values are ``base`` (``widen``:
+    ``t`` is a sub-grid, see :func:`~thermo.accuracy.resolution.resolution_parts`)."""
     if dos.modes is not None and not dos.source.get("histogram"):
-        return _list_breakdown(dos, t, base)
+        return _list_parts(dos, t, base, widen)
     numerical = np.zeros_like(base)
     for offset in (0, 1):      # both interleaved half grids: one difference alone can cancel by chance
         halved = rebuild(dos, every=2, offset=offset)
@@ -220,26 +260,24 @@ def error_breakdown(dos, temperatures):
             spread = np.maximum(spread, np.abs(_values(alt, t) - base))
     low = spread + _fit_part(dos, t)
     resolution = analyse_resolution(dos)
-    res, smear = resolution_parts(dos, t, resolution)
+    res, smear = resolution_parts(dos, t, resolution, widen)
     if resolution is not None and resolution.lost_share > 0:     # modes lost below 0, spread by the normalisation
         scale = np.abs(base)
         scale[3] = np.abs(base[2]) + t * np.abs(base[1])
         smear = smear + resolution.lost_share * scale
-    parts = {"numerical": numerical, "low_frequency": low, "resolution": res, "smearing": smear}
-    return _frame(t, base, parts, resolution)
+    return {"numerical": numerical, "low_frequency": low, "resolution": res, "smearing": smear}, resolution
 
 
-def _list_breakdown(dos, t, base):
-    """The breakdown of a mode list: its sums are exact; long-wave part, or what it resolves without one."""
+def _list_parts(dos, t, base, widen=False):
+    """The parts of a mode list: its sums are exact; long-wave part, or what it resolves without one."""
     zero = np.zeros_like(base)
     resolution = analyse_resolution(dos)
-    res, smear = resolution_parts(dos, t, resolution)
+    res, smear = resolution_parts(dos, t, resolution, widen)
     lost = dos.source.get("left_out_share") or 0.0      # Γ's modes left out, the rest renormalised
     scale = np.abs(base)
     scale[3] = np.abs(base[2]) + t * np.abs(base[1])
-    parts = {"numerical": zero, "low_frequency": mode_list_part(dos, t), "resolution": res + lost * scale,
-             "smearing": smear}
-    return _frame(t, base, parts, resolution)
+    return {"numerical": zero, "low_frequency": mode_list_part(dos, t), "resolution": res + lost * scale,
+            "smearing": smear}, resolution
 
 
 def _frame(t, base, parts, resolution):

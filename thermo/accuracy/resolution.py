@@ -291,7 +291,7 @@ u_n/2`.
     return out
 
 
-def resolution_parts(dos, temperatures, resolution=None):
+def resolution_parts(dos, temperatures, resolution=None, widen=False):
     r"""Resolution and smearing parts of the error of C_v, S, U, F at each temperature.
 
     Parameters
@@ -302,6 +302,9 @@ def resolution_parts(dos, temperatures, resolution=None):
         Temperatures [K], >= 0.
     resolution : Resolution, optional
         A ready :func:`analyse_resolution` of ``dos``.
+    widen : bool
+        Take each smearing window's largest value over one sample more at each end (``temperatures``
+        a sub-grid of the table's, :mod:`thermo.accuracy.subgrid`: the window's ends lie between samples).
 
     Returns
     -------
@@ -366,6 +369,8 @@ def resolution_parts(dos, temperatures, resolution=None):
         res_hot = res_aux[:, np.searchsorted(aux, th)]
         lo = np.searchsorted(aux, th / ENVELOPE, side="left")
         hi = np.searchsorted(aux, th * ENVELOPE, side="right")
+        if widen:
+            lo, hi = np.maximum(lo - 1, 0), np.minimum(hi + 1, aux.size)
         out_res[:, hot] = RESOLUTION_SAFETY * res_hot
         for i in range(4):
             out_sm[i, hot] = SMEARING_FACTOR * np.maximum(window_max(sm_aux[i], lo, hi), 0.0)

@@ -52,7 +52,7 @@ def harmonic_row_errors(dos, temperatures):
     return {key: _TO_SI[key] * sum(b[error_column(key, p)].to_numpy() for p in PARTS) for key in QUANTITIES}
 
 
-def add_error_columns(table, dos, formula=None):
+def add_error_columns(table, dos, formula=None, breakdown=None):
     r"""The table with each quantity's estimated error and the flag of rows over 1 %.
 
     Parameters
@@ -64,6 +64,9 @@ def add_error_columns(table, dos, formula=None):
         The DOS it came from.
     formula : str, optional
         Chemical formula, for the ``gram`` basis.
+    breakdown : pandas.DataFrame, optional
+        The table's :func:`~thermo.accuracy.breakdown.error_breakdown`, when the caller holds it already
+        (by default :func:`~thermo.accuracy.reuse.table_breakdown`).
 
     Returns
     -------
@@ -91,7 +94,7 @@ def add_error_columns(table, dos, formula=None):
     from ..tables import to_basis
     t = table[column_name("temperature")].to_numpy()
     per = table.attrs.get("per", "formula")
-    b = table_breakdown(dos, t)
+    b = table_breakdown(dos, t) if breakdown is None else breakdown
     si = tuple(_TO_SI[k] * sum(b[error_column(k, p)].to_numpy() for p in PARTS) for k in QUANTITIES)
     out = table.copy()
     for key, err in zip(QUANTITIES, to_basis(si, per, dos.atoms, formula)):

@@ -35,12 +35,16 @@ def run(args) -> int:
     formula = formula_of(args, dos)
     table = tabulate(dos, temperatures, per=args.per, formula=formula)
     report_warnings(dos)
-    info = provenance(dos, temperatures, per=args.per, formula=formula)
+    breakdown = None
+    if args.errors:           # one breakdown for the error columns and the provenance
+        from ..accuracy.reuse import table_breakdown
+        breakdown = table_breakdown(dos, temperatures)
+    info = provenance(dos, temperatures, per=args.per, formula=formula, breakdown=breakdown)
     if args.errors:
         import sys
 
         from ..accuracy.rows import add_error_columns
-        table = add_error_columns(table, dos, formula)
+        table = add_error_columns(table, dos, formula, breakdown=breakdown)
         flagged = table[table.error_flag]
         if len(flagged):
             print(f"warning: {len(flagged)} of {len(table)} rows have an estimated error of C_v or S over 1 % "
