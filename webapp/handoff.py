@@ -51,7 +51,9 @@ def register_send(prefix, target, states, build, page_name):
               Input(f"{prefix}-send-{target}", "n_clicks"), State(STORE_ID, "data"), *states,
               prevent_initial_call=True)
     @reported(failed)
-    def send(_clicks, sent, *values):
+    def send(clicks, sent, *values):
+        if not clicks:          # a page opened by its address inserts the button: Dash calls this with 0 clicks
+            return no_update, no_update
         made = build(*values)
         if made is None:
             return no_update, "nothing to send: no result shown"

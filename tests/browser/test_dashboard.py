@@ -245,6 +245,8 @@ def test_form_controls_have_accessible_names(duo):
                 missing.append(f"{module.PATH}: <{element.tag_name} id={element.get_attribute('id')!r} "
                                f"class={element.get_attribute('class')!r}>")
     assert missing == [] and checked > 30, (missing, checked)
+    # every page opened and drawn, no button clicked: nothing was sent on (it used to reach the Phases page)
+    assert not json.loads(duo.driver.execute_script("return sessionStorage.getItem('mh-sent');") or "null")
 
 
 def test_figure_image_format_choice_reaches_the_plots(duo):

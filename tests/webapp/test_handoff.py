@@ -10,6 +10,7 @@ import base64
 import hashlib
 import json
 
+import dash
 import numpy as np
 import pytest
 
@@ -123,3 +124,16 @@ def test_thermodynamics_table_sent_to_compare_is_a_run_as_the_command_adds_it(tm
     rel = table[column_name(difference_key("entropy"))].to_numpy()
     err = table[column_name(error_key("entropy"), "atom")].to_numpy() / table[column_name("entropy", "atom")].to_numpy()
     assert abs(rel[1]) < 1e-6 and np.all(np.abs(rel) <= err + 1e-7)
+
+
+def test_nothing_is_sent_until_the_button_is_clicked():
+    """Opening a page by its address fired the send callbacks with ``n_clicks=0`` (Dash inserts the page's
+    layout, so ``prevent_initial_call`` did not hold): the table went to every target page and the Phases page
+    swapped the user's phases for it. A send needs a click."""
+    built = []
+    send = handoff.register_send("tsend", "phases", (), lambda: built.append(1) or ("t.csv", b"a,b\n1,2\n"), "Test")
+    for clicks in (None, 0):
+        out = send(clicks, {"compare": {"csv": "x"}})
+        assert out[0] is dash.no_update and built == [], clicks
+    stored, note = send(1, None)
+    assert stored["phases"]["name"] == "t.csv" and built == [1]

@@ -49,6 +49,7 @@ import numpy as np
 import pandas as pd
 
 from ..errors import OptionError
+from .floattext import rounded_csv_rows, rounded_floats
 from .inert import FORMULA_PREFIXES, _RISKY_SPLIT, append_inert, inert_json, neutralised_cell, restored_cell, write_file
 
 __all__ = ["EXPORT_FORMATS", "FORMULA_PREFIXES", "export_table", "neutralised_cell", "report_text", "restored_cell", "rounded_report", "write_file",
@@ -66,22 +67,24 @@ from .readback import PROVENANCE_PREFIX as _PROVENANCE_PREFIX
 from .readback import decode_value as _decode_value
 
 
+def _check_digits(digits):
+    if not isinstance(digits, int) or isinstance(digits, bool) or not 1 <= digits <= 17:
+        raise OptionError(f"significant digits must be a whole number from 1 to 17, not {digits!r}")
+
+
 def _rounded(df, digits):
     """Copy of ``df`` with floats rounded to ``digits`` significant digits (None: unchanged)."""
     if digits is None:
         return df
-    if not isinstance(digits, int) or isinstance(digits, bool) or not 1 <= digits <= 17:
-        raise OptionError(f"significant digits must be a whole number from 1 to 17, not {digits!r}")
+    _check_digits(digits)
     if len(df.columns) and all(dtype == np.float64 for dtype in df.dtypes):   # tables: one block at once
-        values = df.to_numpy(dtype=float)
-        rounded = np.array([float(f"{v:.{digits}g}") for v in values.ravel().tolist()]).reshape(values.shape)
-        out = pd.DataFrame(rounded, columns=df.columns, index=df.index)
+        out = pd.DataFrame(rounded_floats(df.to_numpy(dtype=float), digits), columns=df.columns, index=df.index)
         out.attrs.update(df.attrs)
         return out
     out = df.copy()
     for name in out.columns:
         if pd.api.types.is_float_dtype(out[name]):
-            out[name] = [float(f"{v:.{digits}g}") for v in out[name].to_numpy()]
+            out[name] = rounded_floats(out[name].to_numpy(dtype=float), digits)
     return out
 
 
@@ -107,8 +110,7 @@ def rounded_report(value, digits=None):
     """
     if digits is None:
         return value
-    if not isinstance(digits, int) or isinstance(digits, bool) or not 1 <= digits <= 17:
-        raise OptionError(f"significant digits must be a whole number from 1 to 17, not {digits!r}")
+    _check_digits(digits)
     if isinstance(value, np.generic):
         value = value.item()
     if isinstance(value, float):
@@ -206,6 +208,10 @@ def export_table(df: pd.DataFrame, provenance: dict, fmt: str, digits: int | Non
         raise OptionError(f"export needs a pandas DataFrame, got {type(df).__name__}")
     meta = _plain_provenance(provenance)
     if digits is not None:
+        if kind == "csv" and _all_float(df):          # rounded and written in one pass, the same text
+            _check_digits(digits)
+            meta["significant_digits"] = digits
+            return _csv_bytes(df, meta, digits)
         df = _rounded(df, digits)
         meta["significant_digits"] = digits
     if kind == "csv":
@@ -340,11 +346,16 @@ def _encode_value(value) -> str:
     return inert_json(value)
 
 
-def _csv_bytes(df, meta) -> bytes:
+def _all_float(df):
+    """An all-float64 table without a carriage return in a name: written by :func:`_float_csv`."""
+    return bool(len(df.columns)) and all(dtype == np.float64 for dtype in df.dtypes) \
+        and not any("\r" in str(c) for c in df.columns)
+
+
+def _csv_bytes(df, meta, digits=None) -> bytes:
     head = "".join(f"{_PROVENANCE_PREFIX}{_inert_key(k)}: {_encode_value(v)}\n" for k, v in meta.items())
-    if len(df.columns) and all(dtype == np.float64 for dtype in df.dtypes) \
-            and not any("\r" in str(c) for c in df.columns):
-        return (head + _float_csv(df)).encode("utf-8")
+    if _all_float(df):
+        return (head + _float_csv(df, digits)).encode("utf-8")
     safe = df.rename(columns=lambda c: neutralised_cell(str(c)))
     text_columns = [c for c in safe.columns if safe[c].dtype == object or pd.api.types.is_string_dtype(safe[c])]
     if text_columns:
@@ -358,10 +369,13 @@ def _csv_bytes(df, meta) -> bytes:
     return (head + body).encode("utf-8")
 
 
-def _float_csv(df) -> str:
-    """CSV text of an all-float table, as ``DataFrame.to_csv`` writes it (shortest repr, NaN empty), faster."""
+def _float_csv(df, digits=None) -> str:
+    """CSV text of an all-float table, as ``DataFrame.to_csv`` writes it (shortest repr, NaN empty), faster;
+    with ``digits``, that of the table rounded by :func:`_rounded` (:func:`~.floattext.rounded_csv_rows`)."""
     buffer = io.StringIO()
     csv.writer(buffer, lineterminator="\n").writerow([neutralised_cell(str(c)) for c in df.columns])
+    if digits is not None:
+        return buffer.getvalue() + rounded_csv_rows(df.to_numpy(dtype=float), digits)
     rows = df.to_numpy(dtype=float).tolist()
     lines = [",".join(["" if v != v else repr(v) for v in row]) for row in rows]
     return buffer.getvalue() + "".join((line or '""') + "\n" for line in lines)   # '""': not a blank line
