@@ -19,6 +19,8 @@ from .provenance import dos_input, provenance_record, temperature_settings
 
 #: Column names of :func:`tabulate` for each ``per`` choice (from :mod:`thermo.columns`).
 COLUMNS = {basis: table_columns(basis) for basis in BASES}
+#: The same as pandas indexes, built once (a DataFrame given a list builds its index each time).
+_COLUMN_INDEX = {basis: pd.Index(names) for basis, names in COLUMNS.items()}
 
 
 def check_temperatures(temperatures):
@@ -234,7 +236,7 @@ def tabulate(dos, temperatures, per="formula", formula=None, method="auto"):
     if per not in COLUMNS:
         raise OptionError(f"unknown basis {per!r}; choose formula, atom or gram")
     t = check_temperatures(temperatures)
-    return table_from_sums(thermal_sums(dos, t, method=method), t, per, dos.atoms, formula)
+    return _table(thermal_sums(dos, t, method=method), t, per, dos.atoms, formula)
 
 
 def table_from_sums(sums, temperatures, per="formula", atoms=1, formula=None):
@@ -279,12 +281,16 @@ def table_from_sums(sums, temperatures, per="formula", atoms=1, formula=None):
     """
     if per not in COLUMNS:
         raise OptionError(f"unknown basis {per!r}; choose formula, atom or gram")
-    t = check_temperatures(temperatures)
+    return _table(sums, check_temperatures(temperatures), per, atoms, formula)
+
+
+def _table(sums, t, per, atoms, formula):
+    """:func:`table_from_sums` of checked temperatures and basis."""
     values = _convert(_molar_values(sums, t), per, atoms, formula)
     block = np.empty((t.size, 5))          # one float block: no per-column consolidation by pandas
     for i, column in enumerate((t,) + tuple(values)):
         block[:, i] = column
-    df = pd.DataFrame(block, columns=list(COLUMNS[per]))
+    df = pd.DataFrame(block, columns=_COLUMN_INDEX[per], copy=False)
     df.attrs.update(per=per, formula=formula,
                     zero_point_energy_J_per_mol=float(sums["zero_point_thz"] * _ZPE_J_PER_MOL_PER_THZ))
     return df

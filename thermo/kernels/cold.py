@@ -63,9 +63,12 @@ def frozen_sums(nodes_thz, weights, temperatures):
 
     Notes
     -----
-    With :math:`E = e^{-x}` and :math:`D = 1 - e^{-x}` (``-expm1(-x)``):
+    With :math:`E = e^{-x}` and :math:`D = 1 - e^{-x}`:
     :math:`c = x^2E/D^2`, :math:`u = xE/D`, :math:`\ell = -\ln(1-E)`,
-    three transcendental passes instead of five.
+    two transcendental passes (exp, log1p) where every :math:`x \ge`
+    :data:`_PLAIN_DIFFERENCE_X` (:math:`E \le 0.37`: :math:`D = 1 - E` loses no digit),
+    three below (:math:`D` = ``-expm1(-x)``).  The pairs are laid out
+    temperature × node, so each sum is a contiguous dot product.
 
     References
     ----------
@@ -82,14 +85,27 @@ def frozen_sums(nodes_thz, weights, temperatures):
     nu = np.asarray(nodes_thz, dtype=float)
     w = np.asarray(weights, dtype=float)
     t = np.asarray(temperatures, dtype=float)
-    x = np.minimum(np.multiply.outer(H_OVER_K_THZ * nu, 1.0 / t), _X_CLIP)
-    e = np.exp(-x)
-    d = -np.expm1(-x)
-    u = x * e / d
-    c = x * u / d
-    # einsum, not w @ c: a threaded BLAS matrix-vector product stalled for milliseconds on a busy machine
-    return {"heat_capacity": np.einsum("n,nm->m", w, c), "thermal_energy": np.einsum("n,nm->m", w, u),
-            "log_partition": -np.einsum("n,nm->m", w, np.log1p(-e))}
+    minus_x = np.multiply.outer(1.0 / t, -H_OVER_K_THZ * nu)          # −x, (M, N)
+    np.maximum(minus_x, -_X_CLIP, out=minus_x)
+    e = np.exp(minus_x)
+    if minus_x.size and -minus_x.max() >= _PLAIN_DIFFERENCE_X:
+        inverse = np.subtract(1.0, e)
+    else:
+        inverse = np.negative(np.expm1(minus_x))
+    np.divide(1.0, inverse, out=inverse)                                # 1 / D
+    u = e * inverse
+    u *= minus_x                                                       # −u
+    c = u * minus_x
+    c *= inverse
+    log_partition = np.log1p(np.negative(e, out=e), out=e)             # −ℓ
+    # einsum, not c @ w: a threaded BLAS matrix-vector product stalled for milliseconds on a busy machine
+    return {"heat_capacity": np.einsum("mn,n->m", c, w), "thermal_energy": -np.einsum("mn,n->m", u, w),
+            "log_partition": -np.einsum("mn,n->m", log_partition, w)}
+
+
+#: From this x on (every pair of a :func:`frozen_sums` call), 1 − e^{−x} is formed by a subtraction:
+#: e^{−x} <= 0.37 then, so no digit cancels.
+_PLAIN_DIFFERENCE_X = 1.0
 
 
 #: Largest x = hν/k_BT of the lowest grid node at which cold sums run over the deposited log grid
@@ -133,7 +149,8 @@ def _fill_cold(out, grid, t, cold, groups=4):
     if rest.size == 0:
         return
     order = rest[np.argsort(t[rest])]
-    for band in np.array_split(order, max(1, min(groups, order.size // _BAND_TEMPERATURES))):
+    bands = max(1, min(groups, order.size // _BAND_TEMPERATURES))
+    for band in (order,) if bands == 1 else np.array_split(order, bands):
         # where the kernels' clipping of x reaches the lowest node, every
         # clipped term is as large as any other: keep all nodes
         clipped = H_OVER_K_THZ * grid.nu_min / t[band].min() > _X_CLIP - _NEGLIGIBLE_LOG
@@ -143,7 +160,8 @@ def _fill_cold(out, grid, t, cold, groups=4):
 
 def _sum_in_passes(out, nodes, weights, t, which):
     """Direct sums at ``t[which]`` with at most about _PAIRS_PER_PASS pairs in memory at once."""
-    for part in np.array_split(which, -(-which.size * nodes.size // _PAIRS_PER_PASS)):
+    passes = -(-which.size * nodes.size // _PAIRS_PER_PASS)
+    for part in (which,) if passes <= 1 else np.array_split(which, passes):
         _assign(out, part, frozen_sums(nodes, weights, t[part]))
 
 
