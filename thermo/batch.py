@@ -187,13 +187,13 @@ def _one_line(text):
     return " ".join(str(text).split())
 
 
-def _key_numbers(dos, info):
+def _key_numbers(dos, info, room_breakdown=None):
     """C_v and S at 298.15 K with their estimated errors, the low-frequency θ_D and the table's worst error."""
     from .accuracy.rows import harmonic_row_errors
     from .columns import column_name
     from .tables import tabulate
     room = tabulate(dos, [INDEX_TEMPERATURE]).iloc[0]
-    err = harmonic_row_errors(dos, [INDEX_TEMPERATURE])
+    err = harmonic_row_errors(dos, [INDEX_TEMPERATURE], breakdown=room_breakdown)
     return {"heat_capacity_v_298K_J_per_mol_K": float(room[column_name("heat_capacity_v")]),
             "heat_capacity_v_298K_error_J_per_mol_K": float(err["heat_capacity_v"][0]),
             "entropy_298K_J_per_mol_K": float(room[column_name("entropy")]),
@@ -207,10 +207,8 @@ def process_file(source, target, options):
 
     Parameters
     ----------
-    source : str
-        Input file.
-    target : str
-        Output file.
+    source, target : str
+        Input and output file.
     options : BatchOptions
         Reading and table options.
 
@@ -220,6 +218,7 @@ def process_file(source, target, options):
         Index row (keys :data:`INDEX_COLUMNS`); ``status`` is ``ok`` or
         ``failed`` with the one-line reason in ``error``.
     """
+    from .accuracy.reuse import breakdown_with_row
     from .preparation.loading import load_dos
     from .tables import provenance, tabulate
     from .io.writers import write_table
@@ -232,9 +231,10 @@ def process_file(source, target, options):
                    warnings=" | ".join(_one_line(w) for w in list(dos.warnings) + carried_notes(dos, options.reading)))
         formula = ReadingOptions.of(dos).formula
         table = tabulate(dos, options.temperatures, per=options.per, formula=formula)
-        info = provenance(dos, options.temperatures, per=options.per, formula=formula)
+        breakdown, at_room = breakdown_with_row(dos, options.temperatures, INDEX_TEMPERATURE)   # once per file
+        info = provenance(dos, options.temperatures, per=options.per, formula=formula, breakdown=breakdown)
         write_table(table, info, options.fmt, target, overwrite=options.force, digits=options.digits)
-        row.update(status="ok", output=Path(target).name, **_key_numbers(dos, info))
+        row.update(status="ok", output=Path(target).name, **_key_numbers(dos, info, at_room))
     except ModeheatError as exc:
         row["error"] = _one_line(exc)
     except OSError as exc:

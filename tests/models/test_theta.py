@@ -17,6 +17,7 @@ from scipy import constants as sc
 
 from tests.spectra import band_plus_peaks, debye_spectrum, peak_dos, theta_of, write_text
 from thermo import load_dos
+from thermo.models.debye import debye_heat_capacity_fraction
 from thermo.models import (THETA_KEYS, debye_moment_temperature, debye_y_from_fraction, einstein_entropy_temperature,
                            equivalent_debye_temperature, fit_einstein_theta, frequency_moment,
                            invert_debye_heat_capacity, theta_definitions)
@@ -128,6 +129,17 @@ def test_inversion_of_many_fractions_at_once_against_mpmath():
     got = debye_y_from_fraction(np.array(frac + [0.0, np.nan, 1.0]))
     assert got[:len(ys)] == pytest.approx([float(y) for y in ys], rel=1e-11)
     assert np.isnan(got[len(ys):]).all()
+
+
+def test_inversion_residual_at_rounding_level_over_the_whole_range():
+    # Newton steps inside the bracket (issue 30: 10⁶ temperatures): D_c(y) of the answer reproduces each
+    # fraction to a few ulp, from near the classical limit (y = 1e-5) to the T³ switch (y = 60)
+    y = np.concatenate([np.geomspace(1e-5, 60.0, 20_000), np.random.default_rng(5).uniform(0.01, 60.0, 20_000)])
+    f = debye_heat_capacity_fraction(y)
+    got = debye_y_from_fraction(f)
+    assert np.all(np.abs(debye_heat_capacity_fraction(got) / f - 1) <= 1e-14)
+    well = y > 0.1                        # conditioned: dD_c/dy not small
+    assert np.all(np.abs(got[well] / y[well] - 1) <= 1e-12)
 
 
 def test_low_frequency_theta_is_undefined_without_a_nu2_fit():

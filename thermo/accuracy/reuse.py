@@ -104,3 +104,45 @@ def table_digest(dos, temperatures):
         kept[key] = digest
     estimate, summary, note = kept[key]
     return estimate, copy.deepcopy(summary), note
+
+
+def breakdown_with_row(dos, temperatures, at):
+    """A table's breakdown and that of one more temperature, from one :func:`~.breakdown.error_breakdown`.
+
+    Parameters
+    ----------
+    dos : PhononDOS
+        Normalised DOS.
+    temperatures : array_like, shape (M,)
+        The table's temperatures [K], >= 0.
+    at : float
+        The other temperature [K] (``batch``'s index row at 298.15 K).
+
+    Returns
+    -------
+    table, row : pandas.DataFrame
+        The breakdown's rows of ``temperatures`` and of ``at``.
+
+    Notes
+    -----
+    The one breakdown runs over ``temperatures``, ``at`` and the samples a breakdown at ``at`` alone
+    takes for its window maxima (the smearing envelope, a mode list's spread): each row's windows see
+    every sample they saw alone, so no row reports less than either breakdown alone.
+
+    Examples
+    --------
+    >>> from thermo.spectrum import PhononDOS
+    >>> nu = np.linspace(0, 5, 201)
+    >>> table, row = breakdown_with_row(PhononDOS(nu, 9 * nu**2 / 125, atoms=1), [100.0, 200.0], 298.15)
+    >>> len(table), row["temperature_K"].tolist()
+    (2, [298.15])
+    """
+    from .breakdown import LIST_ENVELOPE
+    from .resolution import ENVELOPE, ENVELOPE_POINTS
+    t = np.atleast_1d(np.asarray(temperatures, dtype=float)).ravel()
+    if dos.modes is not None and not dos.source.get("histogram"):
+        samples = np.geomspace(at / LIST_ENVELOPE, at * LIST_ENVELOPE, 60)
+    else:
+        samples = np.geomspace(at / ENVELOPE, at * ENVELOPE, ENVELOPE_POINTS)
+    b = error_breakdown(dos, np.concatenate([t, [float(at)], samples]))
+    return b.iloc[:t.size], b.iloc[t.size:t.size + 1]

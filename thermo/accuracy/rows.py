@@ -17,7 +17,7 @@ from .reuse import table_breakdown
 _TO_SI = {"heat_capacity_v": 1.0, "entropy": 1.0, "internal_energy": 1e3, "helmholtz_energy": 1e3}
 
 
-def harmonic_row_errors(dos, temperatures):
+def harmonic_row_errors(dos, temperatures, breakdown=None):
     r"""Estimated error of C_v, S, U and F of a harmonic table at each temperature.
 
     Parameters
@@ -26,6 +26,9 @@ def harmonic_row_errors(dos, temperatures):
         Normalised DOS (from :func:`thermo.load_dos`).
     temperatures : array_like, shape (M,)
         Temperatures [K], >= 0.
+    breakdown : pandas.DataFrame, optional
+        The :func:`~thermo.accuracy.breakdown.error_breakdown` rows of these temperatures, when the caller
+        holds them (by default :func:`~thermo.accuracy.reuse.table_breakdown`).
 
     Returns
     -------
@@ -48,7 +51,7 @@ def harmonic_row_errors(dos, temperatures):
     >>> sorted(e), bool(e["entropy"][0] < 1e-3)
     (['entropy', 'heat_capacity_v', 'helmholtz_energy', 'internal_energy'], True)
     """
-    b = table_breakdown(dos, temperatures)
+    b = table_breakdown(dos, temperatures) if breakdown is None else breakdown
     return {key: _TO_SI[key] * sum(b[error_column(key, p)].to_numpy() for p in PARTS) for key in QUANTITIES}
 
 
