@@ -53,9 +53,12 @@ def check_temperatures(temperatures):
         raise OptionError("temperatures must be numbers in kelvin") from None
     if t.size == 0:
         raise OptionError("no temperatures given")
+    low, high = TEMPERATURE_RANGE_K
+    lowest, highest = t.min(), t.max()       # NaN spreads to both: one pass each settles the usual table
+    if low <= lowest and highest <= high:
+        return t
     if not np.all(np.isfinite(t)) or np.any(t < 0):
         raise OptionError("temperatures must be finite and >= 0 K")
-    low, high = TEMPERATURE_RANGE_K
     outside = t[(t != 0) & ((t < low) | (t > high))]
     if outside.size:
         raise OptionError(f"temperature {float(outside[0]):.3g} K is outside the accepted 0 or "

@@ -86,9 +86,13 @@ def frozen_sums(nodes_thz, weights, temperatures):
     w = np.asarray(weights, dtype=float)
     t = np.asarray(temperatures, dtype=float)
     minus_x = np.multiply.outer(1.0 / t, -H_OVER_K_THZ * nu)          # −x, (M, N)
-    np.maximum(minus_x, -_X_CLIP, out=minus_x)
+    if minus_x.size == 0:
+        return {key: np.zeros(t.shape) for key in SUM_KEYS}
+    x_least, x_most = H_OVER_K_THZ * nu.min() / t.max(), H_OVER_K_THZ * nu.max() / t.min()
+    if x_most > _X_CLIP:
+        np.maximum(minus_x, -_X_CLIP, out=minus_x)
     e = np.exp(minus_x)
-    if minus_x.size and -minus_x.max() >= _PLAIN_DIFFERENCE_X:
+    if x_least >= _PLAIN_DIFFERENCE_X:
         inverse = np.subtract(1.0, e)
     else:
         inverse = np.negative(np.expm1(minus_x))

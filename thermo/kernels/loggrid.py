@@ -229,16 +229,25 @@ def _correlate(grid, shift, n_tau):
     from scipy import fft
 
     n_s = grid.deposit.size
-    # kernel samples K_d at differences d = m − n from −(n_tau − 1) to n_s − 1: y = (shift + d)Δ
-    kernels = _kernel_samples(shift - (n_tau - 1), n_tau - 1 + n_s)
-    # a circular convolution of length >= n_s + n_tau − 1 holds every d once: K_{−j} at j = 0 … n_tau − 1,
-    # K_d at size − d for d = 1 … n_s − 1, zeros between
+    # a circular convolution of length >= n_s + n_tau − 1 holds every difference d = m − n once
     size = fft.next_fast_len(n_s + n_tau - 1, real=True)
+    spectrum, largest = grid.kernel_spectrum(shift, n_tau, size)
+    full = fft.irfft(grid.deposit_spectrum(size)[None, :] * spectrum, size, axis=1)
+    return full[:, :n_tau], grid.total * largest
+
+
+def _kernel_spectrum(shift, n_tau, n_s, size):
+    """Real FFT (3, size // 2 + 1) of the three kernels wrapped for :func:`_correlate`, and their first
+    (largest) samples (3,)."""
+    from scipy import fft
+
+    # kernel samples K_d at differences d = m − n from −(n_tau − 1) to n_s − 1: y = (shift + d)Δ;
+    # K_{−j} at j = 0 … n_tau − 1, K_d at size − d for d = 1 … n_s − 1, zeros between
+    kernels = _kernel_samples(shift - (n_tau - 1), n_tau - 1 + n_s)
     wrapped = np.zeros((3, size))
     wrapped[:, :n_tau] = kernels[:, n_tau - 1::-1]
     wrapped[:, size - n_s + 1:] = kernels[:, :n_tau - 1:-1]
-    full = fft.irfft(grid.deposit_spectrum(size)[None, :] * fft.rfft(wrapped, axis=1), size, axis=1)
-    return full[:, :n_tau], grid.total * kernels[:, 0]
+    return fft.rfft(wrapped, axis=1), kernels[:, 0].copy()
 
 
 def _read_back(values, tau0, tau):
@@ -305,8 +314,9 @@ class LogGrid:
     -----
     What depends on the spectrum only — the split of the nodes, their weights deposited
     on the ln ν grid and its Fourier transform, the bounds of the cold sums — is computed
-    once (kept by :func:`thermo.kernels.sums.thermal_sums` on the DOS); a call of
-    :meth:`sums` costs the kernels' transforms, one product and the read-back.
+    once (kept by :func:`thermo.kernels.sums.thermal_sums` on the DOS); so are the kernels'
+    transforms of the last few temperature ranges.  A call of :meth:`sums` costs the kernels'
+    transforms (none for a range seen before), one product, one inverse transform and the read-back.
 
     Examples
     --------
@@ -348,7 +358,7 @@ class LogGrid:
         self.used_nodes = np.exp(self.s0 + STEP * self.used)
         ascending = not np.any(np.diff(self.nu) < 0)
         self._log_w = np.log(np.abs(self.w)) if ascending else None
-        self._spectra = {}
+        self._spectra, self._kernel_spectra = {}, {}
         self.nu_min = float(self.nu.min())
         self._span = np.log(self.nu.max() / self.nu_min)
         return True
@@ -371,6 +381,16 @@ class LogGrid:
                 self._spectra.clear()
             self._spectra[size] = fft.rfft(self.deposit, size)
         return self._spectra[size]
+
+    def kernel_spectrum(self, shift, n_tau, size):
+        """:func:`_kernel_spectrum` for this grid's nodes and a temperature range (kept per range: a later
+        table of the same DOS over the same range reuses it; a handful of ranges at most)."""
+        key = (shift, n_tau, size)
+        if key not in self._kernel_spectra:
+            if len(self._kernel_spectra) > 4:
+                self._kernel_spectra.clear()
+            self._kernel_spectra[key] = _kernel_spectrum(shift, n_tau, self.deposit.size, size)
+        return self._kernel_spectra[key]
 
     def relevant(self, temperature):
         """Nodes needed by a cold sum at ``temperature`` (see :func:`thermo.kernels.cold._relevant_nodes`)."""
