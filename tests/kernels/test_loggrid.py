@@ -191,3 +191,16 @@ def test_a_subset_of_sums_is_the_same_numbers():
     s = thermal_sums(dos, t, keys=("thermal_energy", "log_partition"))
     np.testing.assert_array_equal(s["entropy"], thermal_sums(dos, t)["entropy"])
     assert "heat_capacity" not in s
+
+
+def test_relevant_prefix_shortcut_equals_the_full_bound():
+    # the bounds formed only up to x* (largest weight vs the first node) pick the same prefix as all bounds
+    from thermo.kernels.cold import _relevant_nodes
+    rng = np.random.default_rng(3)
+    for _ in range(300):
+        n = int(rng.integers(2, 3000))
+        nu = np.sort(rng.uniform(0, 1, n) ** rng.uniform(0.3, 3)) * 10 ** rng.uniform(-2, 2) + 1e-6
+        w = np.exp(rng.normal(0, rng.uniform(0, 15), n)) * rng.choice([1, -1], n)
+        log_w = np.log(np.abs(w))
+        for t in 10 ** rng.uniform(-2, 3, 3):
+            assert _relevant_nodes(nu, w, t, log_w, float(log_w.max())) == _relevant_nodes(nu, w, t, log_w)

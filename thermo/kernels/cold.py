@@ -13,6 +13,8 @@ References
 
 from __future__ import annotations
 
+import math
+
 import numpy as np
 
 from .direct import SUM_KEYS, direct_grid_sums  # noqa: F401 - direct_grid_sums: the doctest's reference
@@ -25,20 +27,33 @@ _NEGLIGIBLE_LOG = 46.0
 _PAIRS_PER_PASS = 1_000_000
 
 
-def _relevant_nodes(nu, w, temperature, log_w=None):
+def _relevant_nodes(nu, w, temperature, log_w=None, log_w_max=None):
     """Length of the prefix of ascending nodes whose terms are not negligible.
 
     Each kernel is at most about :math:`(1 + x)^2 e^{-x}` times a factor below
     3 for x >= 1; above the last node whose bound reaches within
     :data:`_NEGLIGIBLE_LOG` of the largest bound every term is < 1e-20 of it.
+    The bounds are only formed up to :math:`x^*`: beyond it even the largest weight's
+    bound falls short of the first node's (and so of the largest) by more than that.
     """
     if log_w is None:
         if np.any(np.diff(nu) < 0):
             return nu.size
         log_w = np.log(np.abs(w))
+    scale = H_OVER_K_THZ / temperature
+    end = nu.size
+    if log_w_max is not None:
+        x0 = min(scale * float(nu[0]), _X_CLIP)
+        excess = log_w_max - (float(log_w[0]) + 2.0 * math.log1p(x0) - x0 - _NEGLIGIBLE_LOG)
+        x_star = max(excess, 1.0)               # the root of x − 2 ln(1 + x) = excess, x >= 1, from below
+        for _ in range(8):
+            x_star = max(excess + 2.0 * math.log1p(x_star), 1.0)
+        x_star += 2.0                            # above the root: x − 2 ln(1 + x) grows there
+        if x_star - 2.0 * math.log1p(x_star) > excess and x_star < _X_CLIP:
+            end = int(np.searchsorted(nu, x_star / scale, side="right"))
     # the kernels clip x at 700 (thermo.kernels.planck); bound what they compute
-    x = np.minimum(H_OVER_K_THZ * nu / temperature, _X_CLIP)
-    bound = log_w + 2.0 * np.log1p(x) - x
+    x = np.minimum(scale * nu[:end], _X_CLIP)
+    bound = log_w[:end] + 2.0 * np.log1p(x) - x
     last = np.flatnonzero(bound >= bound.max() - _NEGLIGIBLE_LOG)[-1]
     return int(last) + 1
 

@@ -358,6 +358,7 @@ class LogGrid:
         self.used_nodes = np.exp(self.s0 + STEP * self.used)
         ascending = not np.any(np.diff(self.nu) < 0)
         self._log_w = np.log(np.abs(self.w)) if ascending else None
+        self._log_w_max = None if self._log_w is None else float(self._log_w.max())
         self._spectra, self._kernel_spectra = {}, {}
         self.nu_min = float(self.nu.min())
         self._span = np.log(self.nu.max() / self.nu_min)
@@ -396,7 +397,7 @@ class LogGrid:
         """Nodes needed by a cold sum at ``temperature`` (see :func:`thermo.kernels.cold._relevant_nodes`)."""
         if self._log_w is None:
             return self.nu.size
-        return _relevant_nodes(self.nu, self.w, temperature, self._log_w)
+        return _relevant_nodes(self.nu, self.w, temperature, self._log_w, self._log_w_max)
 
     def sums(self, temperatures):
         """The sums of :func:`loggrid_sums` at ``temperatures`` [K] (> 0)."""
